@@ -1,0 +1,28 @@
+/**
+ * An error in what the user gave us (text, numbers, a diagram), as opposed to a bug.
+ * `inputError` lets callers (CLI exit code 2, editor messages) tell the two apart without
+ * importing this class; `position` is a 0-based character offset into the text at fault.
+ */
+export class InputError extends Error {
+  override name = 'InputError';
+  readonly inputError = true;
+  constructor(
+    message: string,
+    readonly details: { position?: number; field?: string; length?: number } = {},
+  ) {
+    super(message);
+  }
+}
+
+/** Throws an InputError unless every number is finite; `what` names the field. */
+export function assertFinite(values: ArrayLike<number>, what: string): void {
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (!Number.isFinite(v)) {
+      throw new InputError(`${what}: element ${i} is ${v}, not a finite number`, { field: what });
+    }
+  }
+}
+
+/** The largest polynomial degree / system order accepted anywhere (keeps every routine bounded). */
+export const MAX_ORDER = 60;

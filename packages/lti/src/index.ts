@@ -1,0 +1,7 @@
+// Public API of @loopwright/lti: pure linear-systems math, no DOM or Node imports.
+export * from './errors.ts';
+export * from './complex.ts';
+export * as poly from './poly.ts';
+export type { Poly } from './poly.ts';
+export * from './rational.ts';
+export * from './transfer.ts';

@@ -1,0 +1,33 @@
+#!/usr/bin/env node
+// `npm test`: type-check, unit + reference tests (vitest), then browser tests (tests/e2e/run.mjs).
+// Prints one closing line "N passed, N failed" over everything it ran.
+import { spawnSync } from 'node:child_process';
+import { mkdirSync, readFileSync, existsSync } from 'node:fs';
+
+mkdirSync('test-artifacts', { recursive: true });
+let passed = 0;
+let failed = 0;
+let ok = true;
+
+function run(label, cmd, args) {
+  console.log(`\n=== ${label}: ${cmd} ${args.join(' ')}`);
+  const r = spawnSync(cmd, args, { stdio: 'inherit', env: process.env });
+  if (r.status !== 0) ok = false;
+  return r.status === 0;
+}
+
+function count(jsonFile) {
+  if (!existsSync(jsonFile)) return;
+  const j = JSON.parse(readFileSync(jsonFile, 'utf8'));
+  passed += j.numPassedTests ?? 0;
+  failed += j.numFailedTests ?? 0;
+}
+
+if (!run('type-check', 'npx', ['tsc', '-p', 'tsconfig.json'])) failed += 1;
+run('unit and reference tests', 'npx', ['vitest', 'run', '--reporter=default', '--reporter=json', '--outputFile.json=test-artifacts/unit.json']);
+count('test-artifacts/unit.json');
+run('browser tests', 'node', ['tests/e2e/run.mjs']);
+count('test-artifacts/e2e.json');
+
+console.log(`\n${passed} passed, ${failed} failed`);
+process.exit(ok && failed === 0 ? 0 : 1);
