@@ -5,3 +5,5 @@ export * as poly from './poly.ts';
 export type { Poly } from './poly.ts';
 export * from './rational.ts';
 export * from './transfer.ts';
+export * from './roots.ts';
+export * from './statespace.ts';
