@@ -1,0 +1,72 @@
+/**
+ * Shared bench harness: medians and ratios from the same run (absolute times on shared
+ * machines are noisy, ratios much less so). Each *.bench.ts exports `run(): Promise<void>`
+ * and prints through `report`.
+ */
+export interface BenchResult {
+  name: string;
+  runs: number;
+  median: number;
+  p95: number;
+  min: number;
+}
+
+export interface BenchOptions {
+  /** At least this many timed runs (default 15). */
+  minRuns?: number;
+  /** Keep running until this much time has been spent (default 300 ms). */
+  minMs?: number;
+  /** Untimed warm-up runs (default 3). */
+  warmup?: number;
+}
+
+export function bench(name: string, fn: () => unknown, opts: BenchOptions = {}): BenchResult {
+  const { minRuns = 15, minMs = 300, warmup = 3 } = opts;
+  for (let i = 0; i < warmup; i++) fn();
+  const times: number[] = [];
+  const start = performance.now();
+  while (times.length < minRuns || performance.now() - start < minMs) {
+    const t0 = performance.now();
+    fn();
+    times.push(performance.now() - t0);
+    if (times.length > 100000) break;
+  }
+  times.sort((a, b) => a - b);
+  const q = (f: number) => times[Math.min(times.length - 1, Math.floor(f * times.length))];
+  return { name, runs: times.length, median: q(0.5), p95: q(0.95), min: times[0] };
+}
+
+/** Least-squares slope of log(y) against log(x): cost ∝ x^exponent. */
+export function fitExponent(xs: readonly number[], ys: readonly number[]): number {
+  const lx = xs.map(Math.log);
+  const ly = ys.map(Math.log);
+  const mx = lx.reduce((a, b) => a + b, 0) / lx.length;
+  const my = ly.reduce((a, b) => a + b, 0) / ly.length;
+  let num = 0;
+  let den = 0;
+  for (let i = 0; i < lx.length; i++) {
+    num += (lx[i] - mx) * (ly[i] - my);
+    den += (lx[i] - mx) ** 2;
+  }
+  return num / den;
+}
+
+const fmt = (ms: number) => (ms < 1 ? `${(ms * 1000).toFixed(1)} µs` : `${ms.toFixed(2)} ms`);
+
+/** Prints one result line, with an optional target (ms) judged on the median. */
+export function report(r: BenchResult, targetMs?: number): void {
+  const verdict = targetMs === undefined ? '' : r.median <= targetMs ? `  (target ≤ ${targetMs} ms: met)` : `  (target ≤ ${targetMs} ms: MISSED)`;
+  console.log(`  ${r.name.padEnd(58)} median ${fmt(r.median).padStart(10)}  p95 ${fmt(r.p95).padStart(10)}  n=${r.runs}${verdict}`);
+}
+
+export function section(title: string): void {
+  console.log(`\n## ${title}`);
+}
+
+export function ratio(label: string, a: BenchResult, b: BenchResult, target?: { atLeast?: number; atMost?: number }): void {
+  const x = a.median / b.median;
+  let verdict = '';
+  if (target?.atLeast !== undefined) verdict = x >= target.atLeast ? `  (target ≥ ${target.atLeast}: met)` : `  (target ≥ ${target.atLeast}: MISSED)`;
+  if (target?.atMost !== undefined) verdict = x <= target.atMost ? `  (target ≤ ${target.atMost}: met)` : `  (target ≤ ${target.atMost}: MISSED)`;
+  console.log(`  ratio ${label.padEnd(52)} ${x.toFixed(2)}×${verdict}`);
+}
