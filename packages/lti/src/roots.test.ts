@@ -1,0 +1,151 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { eigs, matrix } from 'mathjs';
+import { polyRoots, rootClusters } from './roots.ts';
+import { type Complex, cabs, csub, cx } from './complex.ts';
+import * as P from './poly.ts';
+import { InputError } from './errors.ts';
+import { realize } from './statespace.ts';
+import { rational, revalComplex } from './rational.ts';
+
+/** Greedy matching distance between two root sets of equal size. */
+function maxMatchError(a: Complex[], b: Complex[]): number {
+  const left = b.slice();
+  let worst = 0;
+  for (const z of a) {
+    let best = 0;
+    for (let j = 1; j < left.length; j++) if (cabs(csub(left[j], z)) < cabs(csub(left[best], z))) best = j;
+    worst = Math.max(worst, cabs(csub(left[best], z)) / (1 + cabs(z)));
+    left.splice(best, 1);
+  }
+  return worst;
+}
+
+/** Independent reference: mathjs `eigs` of the unbalanced companion matrix. */
+function mathjsRoots(p: number[]): Complex[] {
+  const n = p.length - 1;
+  const m: number[][] = Array.from({ length: n }, () => new Array(n).fill(0));
+  for (let j = 0; j < n; j++) m[0][j] = -p[n - 1 - j] / p[n];
+  for (let i = 1; i < n; i++) m[i][i - 1] = 1;
+  const { values } = eigs(matrix(m), { eigenvectors: false });
+  return (values.valueOf() as unknown as (number | { re: number; im: number })[]).map((v) =>
+    typeof v === 'number' ? cx(v) : cx(v.re, v.im),
+  );
+}
+
+describe('polyRoots', () => {
+  it('finds the roots of textbook characteristic polynomials', () => {
+    // s⁵ + 7s⁴ + 6s³ + 42s² + 8s + 56 = (s + 7)(s² + 2)(s² + 4): Nise, Sec. 6.3, Example 6.4 (from memory) [R13]
+    const r = polyRoots(P.fromDescending([1, 7, 6, 42, 8, 56]));
+    const expected = [cx(-7), cx(0, Math.SQRT2), cx(0, -Math.SQRT2), cx(0, 2), cx(0, -2)];
+    expect(maxMatchError(r, expected)).toBeLessThan(1e-10);
+    // s³ + 10s² + 31s + 1030: Nise, Sec. 6.2, Example 6.1 (from memory) [R10]: two RHP roots, one LHP.
+    const r10 = polyRoots(P.fromDescending([1, 10, 31, 1030]));
+    expect(r10.filter((z) => z.re > 0)).toHaveLength(2);
+    expect(r10.filter((z) => z.re < 0)).toHaveLength(1);
+  });
+
+  it('agrees with mathjs eigs (an independent eigen-solver) on random polynomials', () => {
+    // Random real coefficients, generated from random well-separated roots so that both solvers
+    // face a well-conditioned problem; the comparison is between the two solvers, not the roots.
+    const root = fc.tuple(fc.double({ min: -8, max: 8, noNaN: true }), fc.double({ min: 0.2, max: 8, noNaN: true }), fc.boolean());
+    let refused = 0;
+    let compared = 0;
+    fc.assert(
+      fc.property(fc.array(root, { minLength: 2, maxLength: 5 }), fc.double({ min: 0.1, max: 10, noNaN: true }), (spec, gain) => {
+        const roots: Complex[] = [];
+        for (const [re, im, complex] of spec) roots.push(...(complex ? [cx(re, im), cx(re, -im)] : [cx(re)]));
+        for (let i = 0; i < roots.length; i++)
+          for (let j = i + 1; j < roots.length; j++) if (cabs(csub(roots[i], roots[j])) < 0.3) return true;
+        const p = P.fromRoots(roots, gain);
+        if (p.length < 4) return true;
+        let ref: Complex[];
+        try {
+          ref = mathjsRoots(p);
+        } catch {
+          refused++; // mathjs' QR iteration occasionally gives up; such a case has no reference
+          return true;
+        }
+        compared++;
+        expect(maxMatchError(polyRoots(p), ref)).toBeLessThan(1e-6);
+        return true;
+      }),
+      { numRuns: 300 },
+    );
+    expect(refused).toBeLessThan(0.1 * (compared + refused));
+  });
+
+  it('round-trips roots → polynomial → roots and returns exact conjugate pairs (property)', () => {
+    const root = fc.tuple(fc.double({ min: -20, max: 20, noNaN: true }), fc.double({ min: 0.05, max: 20, noNaN: true }), fc.boolean());
+    fc.assert(
+      fc.property(fc.array(root, { minLength: 1, maxLength: 6 }), (spec) => {
+        const roots: Complex[] = [];
+        for (const [re, im, complex] of spec) {
+          if (complex) roots.push(cx(re, im), cx(re, -im));
+          else roots.push(cx(re));
+        }
+        // Well-conditioned cases only: roots at least 0.5 apart.
+        for (let i = 0; i < roots.length; i++)
+          for (let j = i + 1; j < roots.length; j++) if (cabs(csub(roots[i], roots[j])) < 0.5) return true;
+        const back = polyRoots(P.fromRoots(roots));
+        expect(back).toHaveLength(roots.length);
+        expect(maxMatchError(back, roots)).toBeLessThan(1e-6);
+        for (const z of back) {
+          if (z.im !== 0) expect(back.some((w) => w.re === z.re && w.im === -z.im)).toBe(true);
+        }
+        return true;
+      }),
+      { numRuns: 1000 },
+    );
+  });
+
+  it('reports a repeated root as one cluster with its multiplicity', () => {
+    // (s + 1)³ (s² − 4s + 5): a triple root splits to ~eps^(1/3) by rounding.
+    const p = P.fromRoots([cx(-1), cx(-1), cx(-1), cx(2, 1), cx(2, -1)]);
+    const clusters = rootClusters(polyRoots(p), 1e-3);
+    const triple = clusters.find((c) => c.multiplicity === 3);
+    expect(triple).toBeDefined();
+    expect(cabs(csub(triple!.center, cx(-1)))).toBeLessThan(1e-4);
+    expect(clusters).toHaveLength(3);
+  });
+
+  it('handles roots at the origin, low degrees and refuses bad input', () => {
+    expect(polyRoots([0, 0, 1])).toEqual([cx(0), cx(0)]);
+    expect(polyRoots([2, 1])).toEqual([cx(-2)]);
+    expect(polyRoots([5])).toEqual([]);
+    expect(() => polyRoots([])).toThrow(InputError);
+    expect(() => polyRoots([1, NaN, 1])).toThrow(/element 1 is NaN/);
+    expect(() => polyRoots(new Array(62).fill(1))).toThrow(/above the limit of 60/);
+  });
+});
+
+describe('realize', () => {
+  it('reproduces the transfer function C(sI − A)⁻¹B + D at test points', () => {
+    const r = rational([6, 5, 1, 2], [1, 3, 3, 1]); // (2s³ + s² + 5s + 6)/(s + 1)³, biproper
+    const { A, B, C, D } = realize(r);
+    for (const z of [cx(0.3, 1.1), cx(-2, 0.5), cx(0, 4)]) {
+      // Solve (zI − A) x = B for the companion form by back-substitution through the chain x_{i+1} = z x_i.
+      const n = A.length;
+      const x: Complex[] = [cx(1)];
+      for (let i = 1; i < n; i++) x.push(cx(x[i - 1].re * z.re - x[i - 1].im * z.im, x[i - 1].re * z.im + x[i - 1].im * z.re));
+      const charAtZ = P.evalComplex(r.den, z);
+      // With x1 = 1, the last equation gives the scale 1/den(z).
+      let yRe = 0;
+      let yIm = 0;
+      for (let i = 0; i < n; i++) {
+        yRe += C[i] * x[i].re;
+        yIm += C[i] * x[i].im;
+      }
+      const y = { re: yRe, im: yIm };
+      const d2 = charAtZ.re ** 2 + charAtZ.im ** 2;
+      const g = cx((y.re * charAtZ.re + y.im * charAtZ.im) / d2 + D, (y.im * charAtZ.re - y.re * charAtZ.im) / d2);
+      const want = revalComplex(r, z);
+      expect(cabs(csub(g, want))).toBeLessThan(1e-12 * (1 + cabs(want)));
+      expect(B[n - 1]).toBe(1);
+    }
+  });
+
+  it('refuses an improper function with a message', () => {
+    expect(() => realize(rational([0, 0, 1], [1, 1]), 'block plant')).toThrow(/block plant is improper/);
+  });
+});
