@@ -1,2 +1,7 @@
 // Public API of @loopwright/graph: the diagram document, block catalogue, reduction, cuts, sweeps.
 export * from './document-types.ts';
+// Document, catalogue and parameter resolution (graph-document helper).
+export * from './catalogue/index.ts';
+export * from './resolve.ts';
+export * from './schema.ts';
+export * from './document.ts';

@@ -1,0 +1,13 @@
+import { finite, singleInput, singleOutput, tfOf } from './common.ts';
+import type { BlockSpec } from './types.ts';
+
+export const gainSpec: BlockSpec = {
+  kind: 'gain',
+  title: 'Gain',
+  description: 'Multiplies its input by a constant k.',
+  category: 'linear',
+  params: [{ name: 'k', label: 'Gain k', type: 'number', default: 1, description: 'Output = k · input' }],
+  inputs: singleInput,
+  outputs: singleOutput,
+  linear: (p) => ({ type: 'transfer', tf: tfOf([finite(p, 'k')], [1]) }),
+};

@@ -1,0 +1,137 @@
+import { z } from 'zod';
+import { catalogue } from './catalogue/index.ts';
+import type { ParamSpec } from './catalogue/types.ts';
+import { DIAGRAM_FORMAT, DIAGRAM_VERSION } from './document-types.ts';
+
+/**
+ * The zod schema of a version-1 diagram, built from the block catalogue so that every kind's
+ * parameter names and types are part of it (and of the exported JSON Schema). Structural
+ * relations (wires pointing at real blocks, unique ids) are not schema matters: they are
+ * reported by checkStructure, so that the editor can open a broken diagram and show what is
+ * wrong with it.
+ */
+
+export const LIMITS = {
+  maxBytes: 5 * 1024 * 1024,
+  maxBlocks: 2000,
+  maxWires: 10000,
+  maxParameters: 1000,
+  maxCuts: 1000,
+  maxSweeps: 200,
+  maxTextLength: 10000,
+  maxExpressionLength: 2000,
+  maxCoordinate: 1e7,
+} as const;
+
+const ID_PATTERN = /^[A-Za-z0-9_][A-Za-z0-9_.:-]{0,63}$/;
+/** Parameter names are identifiers; not `s` (the Laplace variable), `exp`, or object-internal names. */
+const NAME_PATTERN = /^(?!(?:s|exp|__proto__|constructor|prototype)$)[A-Za-z_][A-Za-z0-9_]{0,63}$/;
+
+const idSchema = z
+  .string({ error: 'expected an id (a text)' })
+  .regex(ID_PATTERN, { error: 'an id is 1–64 letters, digits, "_", ".", ":" or "-", starting with a letter, digit or "_"' });
+const nameSchema = z
+  .string({ error: 'expected a parameter name (a text)' })
+  .regex(NAME_PATTERN, {
+    error: 'a parameter name is an identifier (letters, digits, "_", not starting with a digit, at most 64), and not "s" or "exp"',
+  });
+const finiteNumber = (what = 'a finite number') => z.number({ error: `expected ${what}` });
+const text = (max: number) => z.string({ error: 'expected a text' }).max(max, { error: `longer than ${max} characters` });
+const coordinate = finiteNumber().min(-LIMITS.maxCoordinate).max(LIMITS.maxCoordinate);
+
+function paramSchema(spec: ParamSpec) {
+  switch (spec.type) {
+    case 'number':
+      return z.union([finiteNumber(), text(LIMITS.maxExpressionLength)], { error: 'expected a number or an expression' });
+    case 'expression':
+      return text(LIMITS.maxExpressionLength).meta({ description: 'expression in s over the named parameters' });
+    case 'choice':
+      return z.enum(spec.choices as [string, ...string[]], {
+        error: `expected one of ${(spec.choices ?? []).map((c) => `"${c}"`).join(', ')}`,
+      });
+    case 'text': {
+      const t = text(LIMITS.maxTextLength);
+      return spec.pattern ? t.regex(spec.pattern, { error: `expected ${spec.patternHint ?? 'a matching text'}` }) : t;
+    }
+  }
+}
+
+export const positionSchema = z.strictObject({ x: coordinate, y: coordinate });
+
+const blockVariants = catalogue.map((spec) =>
+  z
+    .strictObject({
+      id: idSchema,
+      kind: z.literal(spec.kind),
+      label: text(200).optional(),
+      position: positionSchema,
+      params: z.strictObject(Object.fromEntries(spec.params.map((p) => [p.name, paramSchema(p).optional()]))),
+    })
+    .meta({ title: spec.title, description: spec.description }),
+);
+
+export const blockSchema = z.discriminatedUnion('kind', blockVariants as unknown as [typeof blockVariants[0], ...typeof blockVariants], {
+  error: `unknown block kind; expected one of ${catalogue.map((s) => `"${s.kind}"`).join(', ')}`,
+});
+
+export const portRefSchema = z.strictObject({ block: idSchema, port: text(64) });
+
+export const wireSchema = z.strictObject({ id: idSchema, from: portRefSchema, to: portRefSchema });
+
+export const cutSchema = z.strictObject({ id: idSchema, wire: idSchema, label: text(200).optional() });
+
+const scaleSchema = z.enum(['linear', 'log'], { error: 'expected "linear" or "log"' });
+
+export const sweepSchema = z.strictObject({
+  id: idSchema,
+  parameter: nameSchema,
+  min: finiteNumber(),
+  max: finiteNumber(),
+  scale: scaleSchema,
+  label: text(200).optional(),
+});
+
+export const namedParameterSchema = z.strictObject({
+  name: nameSchema,
+  value: finiteNumber(),
+  unit: text(32).optional(),
+  min: finiteNumber().optional(),
+  max: finiteNumber().optional(),
+  scale: scaleSchema.optional(),
+  description: text(LIMITS.maxTextLength).optional(),
+});
+
+export const viewSchema = z.strictObject({
+  zoom: finiteNumber().positive({ error: 'expected a zoom factor above 0' }).max(1000).optional(),
+  offset: positionSchema.optional(),
+  theme: z.enum(['light', 'dark'], { error: 'expected "light" or "dark"' }).optional(),
+  activeCut: idSchema.optional(),
+  activeSweep: idSchema.optional(),
+  activeProbe: idSchema.optional(),
+  simulationEnd: finiteNumber().positive({ error: 'expected a duration above 0 s' }).max(1e9).optional(),
+});
+
+const tooMany = (n: number, what: string) => ({ error: `more than ${n} ${what}: refused (split the diagram)` });
+
+export const diagramSchema = z
+  .strictObject({
+    format: z.literal(DIAGRAM_FORMAT, { error: `expected "${DIAGRAM_FORMAT}"` }),
+    version: z.literal(DIAGRAM_VERSION, { error: `expected ${DIAGRAM_VERSION}` }),
+    title: text(200),
+    description: text(LIMITS.maxTextLength),
+    parameters: z.array(namedParameterSchema, { error: 'expected a list' }).max(LIMITS.maxParameters, tooMany(LIMITS.maxParameters, 'named parameters')),
+    blocks: z.array(blockSchema, { error: 'expected a list' }).max(LIMITS.maxBlocks, tooMany(LIMITS.maxBlocks, 'blocks')),
+    wires: z.array(wireSchema, { error: 'expected a list' }).max(LIMITS.maxWires, tooMany(LIMITS.maxWires, 'wires')),
+    cuts: z.array(cutSchema, { error: 'expected a list' }).max(LIMITS.maxCuts, tooMany(LIMITS.maxCuts, 'cuts')),
+    sweeps: z.array(sweepSchema, { error: 'expected a list' }).max(LIMITS.maxSweeps, tooMany(LIMITS.maxSweeps, 'sweeps')),
+    view: viewSchema,
+  })
+  .meta({
+    title: 'Loopwright diagram',
+    description: 'A Loopwright block diagram (.loop.json), format version ' + DIAGRAM_VERSION + '.',
+  });
+
+/** The JSON Schema of the document, generated from the zod schema (committed as schema/diagram.schema.json). */
+export function diagramJsonSchema(): Record<string, unknown> {
+  return z.toJSONSchema(diagramSchema, { target: 'draft-2020-12' }) as Record<string, unknown>;
+}
