@@ -1,0 +1,302 @@
+/**
+ * The editor store: the diagram document plus UI state (selection, drag positions).
+ * Undo/redo (zundo) records ONLY the document and compares by value, so selection changes,
+ * React Flow measurements and in-progress drags never create history entries.
+ */
+import { create } from 'zustand';
+import { temporal } from 'zundo';
+import type { Block, BlockKind, Diagram, NamedParameter, ParamValue, Sweep, ViewSettings, Wire } from './graph-bridge.ts';
+import { defaultParams, emptyDiagram } from './graph-bridge.ts';
+import { renameInExpression } from './rename.ts';
+
+export interface Selection {
+  blocks: string[];
+  wires: string[];
+}
+
+export interface Clipboard {
+  blocks: Block[];
+  wires: Wire[];
+}
+
+export interface DiagramState {
+  diagram: Diagram;
+  selection: Selection;
+  /** Positions of blocks being dragged right now (committed to the document on drop). */
+  dragging: Record<string, { x: number; y: number }>;
+  clipboard: Clipboard | null;
+
+  // ---- contract actions (shared with the analysis views) ----
+  setDiagram(d: Diagram): void;
+  updateBlockParams(id: string, patch: Record<string, ParamValue>): void;
+  setParameterValue(name: string, value: number): void;
+  addCut(wireId: string): void;
+  removeCut(id: string): void;
+  setView(patch: Partial<ViewSettings>): void;
+  addSweep(sweep: Omit<Sweep, 'id'> & { id?: string }): string;
+  updateSweep(id: string, patch: Partial<Omit<Sweep, 'id'>>): void;
+  removeSweep(id: string): void;
+
+  // ---- editing ----
+  setSelection(sel: Partial<Selection>): void;
+  selectAll(): void;
+  addBlock(kind: BlockKind, position: { x: number; y: number }, params?: Record<string, ParamValue>): string;
+  setBlockLabel(id: string, label: string): void;
+  moveBlocks(positions: Record<string, { x: number; y: number }>): void;
+  setDragging(positions: Record<string, { x: number; y: number }>): void;
+  connect(from: { block: string; port: string }, to: { block: string; port: string }): string | null;
+  deleteSelection(): void;
+  copySelection(): void;
+  paste(): void;
+  setTitle(title: string): void;
+  addParameter(p?: Partial<NamedParameter>): string;
+  updateParameter(name: string, patch: Partial<NamedParameter>): void;
+  renameParameter(oldName: string, newName: string): void;
+  removeParameter(name: string): void;
+}
+
+/** Block id prefixes: short, readable ids that make documents easy to diff. */
+const PREFIX: Record<BlockKind, string> = {
+  'transfer-function': 'tf',
+  gain: 'gain',
+  pid: 'pid',
+  'lead-lag': 'leadlag',
+  integrator: 'int',
+  'first-order-lag': 'lag',
+  'second-order': 'so',
+  'dead-time': 'delay',
+  'summing-junction': 'sum',
+  saturation: 'sat',
+  'rate-limit': 'rate',
+  'dead-zone': 'dz',
+  source: 'src',
+  probe: 'probe',
+};
+
+/** The smallest unused id `${prefix}${n}` (n ≥ 1): deterministic, so tests can predict ids. */
+export function nextId(prefix: string, taken: Iterable<string>): string {
+  const set = new Set(taken);
+  for (let n = 1; ; n++) if (!set.has(`${prefix}${n}`)) return `${prefix}${n}`;
+}
+
+function clone<T>(x: T): T {
+  return JSON.parse(JSON.stringify(x)) as T;
+}
+
+/** Value comparison of two documents; `view` zoom/offset alone is not an undoable edit. */
+export function sameDocument(a: Diagram, b: Diagram): boolean {
+  if (a === b) return true;
+  const strip = (d: Diagram) => JSON.stringify({ ...d, view: { ...d.view, zoom: undefined, offset: undefined } });
+  return strip(a) === strip(b);
+}
+
+export const HISTORY_LIMIT = 200;
+
+export const useDiagramStore = create<DiagramState>()(
+  temporal(
+    (set, get) => {
+      const edit = (fn: (d: Diagram) => Diagram | void) => {
+        const d = clone(get().diagram);
+        const r = fn(d);
+        set({ diagram: r ?? d });
+      };
+      return {
+        diagram: emptyDiagram(),
+        selection: { blocks: [], wires: [] },
+        dragging: {},
+        clipboard: null,
+
+        setDiagram: (d) => set({ diagram: clone(d), selection: { blocks: [], wires: [] }, dragging: {} }),
+        updateBlockParams: (id, patch) =>
+          edit((d) => {
+            const b = d.blocks.find((x) => x.id === id);
+            if (!b) return;
+            b.params = { ...b.params, ...patch };
+            // A summing junction with fewer signs loses the wires into the dropped inputs.
+            if (b.kind === 'summing-junction' && typeof b.params.signs === 'string') {
+              const n = b.params.signs.length;
+              d.wires = d.wires.filter((w) => w.to.block !== id || Number(w.to.port.replace(/^in/, '')) <= n);
+            }
+          }),
+        setParameterValue: (name, value) =>
+          edit((d) => {
+            const p = d.parameters.find((x) => x.name === name);
+            if (p) p.value = value;
+          }),
+        addCut: (wireId) =>
+          edit((d) => {
+            if (d.cuts.some((c) => c.wire === wireId)) return;
+            if (!d.wires.some((w) => w.id === wireId)) return;
+            const id = nextId('cut', d.cuts.map((c) => c.id));
+            d.cuts.push({ id, wire: wireId });
+            if (!d.view.activeCut) d.view.activeCut = id;
+          }),
+        removeCut: (id) =>
+          edit((d) => {
+            d.cuts = d.cuts.filter((c) => c.id !== id);
+            if (d.view.activeCut === id) d.view.activeCut = d.cuts[0]?.id;
+          }),
+        setView: (patch) => edit((d) => void (d.view = { ...d.view, ...patch })),
+        addSweep: (sweep) => {
+          const d = clone(get().diagram);
+          const id = sweep.id ?? nextId('sweep', d.sweeps.map((s) => s.id));
+          d.sweeps.push({ ...sweep, id });
+          if (!d.view.activeSweep) d.view.activeSweep = id;
+          set({ diagram: d });
+          return id;
+        },
+        updateSweep: (id, patch) =>
+          edit((d) => {
+            const s = d.sweeps.find((x) => x.id === id);
+            if (s) Object.assign(s, patch);
+          }),
+        removeSweep: (id) =>
+          edit((d) => {
+            d.sweeps = d.sweeps.filter((s) => s.id !== id);
+            if (d.view.activeSweep === id) d.view.activeSweep = d.sweeps[0]?.id;
+          }),
+
+        setSelection: (sel) => {
+          const cur = get().selection;
+          const next = { blocks: sel.blocks ?? cur.blocks, wires: sel.wires ?? cur.wires };
+          if (JSON.stringify(next) !== JSON.stringify(cur)) set({ selection: next });
+        },
+        selectAll: () => {
+          const d = get().diagram;
+          set({ selection: { blocks: d.blocks.map((b) => b.id), wires: d.wires.map((w) => w.id) } });
+        },
+        addBlock: (kind, position, params) => {
+          const d = clone(get().diagram);
+          const id = nextId(PREFIX[kind], d.blocks.map((b) => b.id));
+          d.blocks.push({ id, kind, position: { x: Math.round(position.x), y: Math.round(position.y) }, params: { ...defaultParams(kind), ...params } });
+          set({ diagram: d, selection: { blocks: [id], wires: [] } });
+          return id;
+        },
+        setBlockLabel: (id, label) =>
+          edit((d) => {
+            const b = d.blocks.find((x) => x.id === id);
+            if (!b) return;
+            if (label.trim()) b.label = label;
+            else delete b.label;
+          }),
+        moveBlocks: (positions) =>
+          {
+            const d = clone(get().diagram);
+            for (const b of d.blocks) {
+              const p = positions[b.id];
+              if (p) b.position = { x: Math.round(p.x), y: Math.round(p.y) };
+            }
+            set({ diagram: d, dragging: {} });
+          },
+        setDragging: (positions) => set({ dragging: { ...get().dragging, ...positions } }),
+        connect: (from, to) => {
+          const d = clone(get().diagram);
+          if (from.block === to.block) return null;
+          // An input takes one wire: a new wire into a used input replaces the old one.
+          d.wires = d.wires.filter((w) => !(w.to.block === to.block && w.to.port === to.port));
+          const id = nextId('w', d.wires.map((w) => w.id).concat(get().diagram.wires.map((w) => w.id)));
+          d.wires.push({ id, from: { ...from }, to: { ...to } });
+          d.cuts = d.cuts.filter((c) => d.wires.some((w) => w.id === c.wire));
+          set({ diagram: d, selection: { blocks: [], wires: [id] } });
+          return id;
+        },
+        deleteSelection: () => {
+          const { selection } = get();
+          if (selection.blocks.length === 0 && selection.wires.length === 0) return;
+          const d = clone(get().diagram);
+          const gone = new Set(selection.blocks);
+          d.blocks = d.blocks.filter((b) => !gone.has(b.id));
+          const goneWires = new Set(selection.wires);
+          d.wires = d.wires.filter((w) => !goneWires.has(w.id) && !gone.has(w.from.block) && !gone.has(w.to.block));
+          d.cuts = d.cuts.filter((c) => d.wires.some((w) => w.id === c.wire));
+          if (d.view.activeCut && !d.cuts.some((c) => c.id === d.view.activeCut)) d.view.activeCut = d.cuts[0]?.id;
+          if (d.view.activeProbe && !d.blocks.some((b) => b.id === d.view.activeProbe)) delete d.view.activeProbe;
+          set({ diagram: d, selection: { blocks: [], wires: [] } });
+        },
+        copySelection: () => {
+          const { selection, diagram } = get();
+          const ids = new Set(selection.blocks);
+          if (ids.size === 0) return;
+          set({
+            clipboard: clone({
+              blocks: diagram.blocks.filter((b) => ids.has(b.id)),
+              wires: diagram.wires.filter((w) => ids.has(w.from.block) && ids.has(w.to.block)),
+            }),
+          });
+        },
+        paste: () => {
+          const clip = get().clipboard;
+          if (!clip || clip.blocks.length === 0) return;
+          const d = clone(get().diagram);
+          const map = new Map<string, string>();
+          const newIds: string[] = [];
+          for (const b of clip.blocks) {
+            const id = nextId(PREFIX[b.kind], d.blocks.map((x) => x.id));
+            map.set(b.id, id);
+            newIds.push(id);
+            d.blocks.push({ ...clone(b), id, position: { x: b.position.x + 40, y: b.position.y + 40 } });
+          }
+          for (const w of clip.wires) {
+            const id = nextId('w', d.wires.map((x) => x.id));
+            d.wires.push({ id, from: { block: map.get(w.from.block)!, port: w.from.port }, to: { block: map.get(w.to.block)!, port: w.to.port } });
+          }
+          // Paste again lands a further step away.
+          set({
+            diagram: d,
+            selection: { blocks: newIds, wires: [] },
+            clipboard: { ...clip, blocks: clip.blocks.map((b) => ({ ...b, position: { x: b.position.x + 40, y: b.position.y + 40 } })) },
+          });
+        },
+        setTitle: (title) => edit((d) => void (d.title = title)),
+        addParameter: (p) => {
+          const d = clone(get().diagram);
+          const name = p?.name ?? nextId('p', d.parameters.map((x) => x.name));
+          d.parameters.push({ value: 1, min: 0, max: 10, ...p, name });
+          set({ diagram: d });
+          return name;
+        },
+        updateParameter: (name, patch) =>
+          edit((d) => {
+            const p = d.parameters.find((x) => x.name === name);
+            if (p) Object.assign(p, patch, { name });
+          }),
+        renameParameter: (oldName, newName) =>
+          edit((d) => {
+            if (oldName === newName) return;
+            const p = d.parameters.find((x) => x.name === oldName);
+            if (!p || d.parameters.some((x) => x.name === newName)) return;
+            p.name = newName;
+            for (const b of d.blocks) {
+              for (const [k, v] of Object.entries(b.params)) {
+                if (typeof v === 'string') b.params[k] = renameInExpression(v, oldName, newName);
+              }
+            }
+            for (const s of d.sweeps) if (s.parameter === oldName) s.parameter = newName;
+          }),
+        removeParameter: (name) =>
+          edit((d) => {
+            d.parameters = d.parameters.filter((p) => p.name !== name);
+            const gone = d.sweeps.filter((s) => s.parameter === name).map((s) => s.id);
+            d.sweeps = d.sweeps.filter((s) => s.parameter !== name);
+            if (d.view.activeSweep && gone.includes(d.view.activeSweep)) d.view.activeSweep = d.sweeps[0]?.id;
+          }),
+      };
+    },
+    {
+      partialize: (s) => ({ diagram: s.diagram }),
+      equality: (a, b) => sameDocument(a.diagram, b.diagram),
+      limit: HISTORY_LIMIT,
+    },
+  ),
+);
+
+export const undo = () => useDiagramStore.temporal.getState().undo();
+export const redo = () => useDiagramStore.temporal.getState().redo();
+/** Forget history (after opening a file or loading a demo the undo stack starts fresh). */
+export const clearHistory = () => useDiagramStore.temporal.getState().clear();
+
+/** Replace the document as a fresh start (new / open / demo): no undo back into the old one. */
+export function loadDocument(d: Diagram): void {
+  useDiagramStore.getState().setDiagram(d);
+  clearHistory();
+}
