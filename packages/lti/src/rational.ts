@@ -93,7 +93,7 @@ export function rvalueAtInfinity(a: Rational): number {
   if (rd < 0) return P.lead(a.num) > 0 ? Infinity : -Infinity;
   return P.lead(a.num) / P.lead(a.den);
 }
-/** Static (DC) gain N(0)/D(0); ±Infinity for a pole at the origin. */
+/** Static gain N(0)/D(0) (the value at s = 0); ±Infinity for a pole at the origin. */
 export function rdcGain(a: Rational): number {
   const n0 = a.num[0] ?? 0;
   const d0 = a.den[0] ?? 0;
