@@ -7,3 +7,5 @@ export * from './rational.ts';
 export * from './transfer.ts';
 export * from './roots.ts';
 export * from './statespace.ts';
+export * from './frequency.ts';
+export * from './margins.ts';

@@ -1,0 +1,166 @@
+import { type Complex, cabs } from './complex.ts';
+import { InputError, assertFinite } from './errors.ts';
+import * as P from './poly.ts';
+import { polyRoots } from './roots.ts';
+import type { TransferFunction } from './transfer.ts';
+
+/**
+ * Frequency response G(jω) with a continuous (unwrapped) phase.
+ *
+ * The phase is not unwrapped from grid samples (which fails when the grid is coarse next to
+ * a lightly damped pole or a long dead time). Instead each factor contributes its own
+ * continuous angle: G(s) = c·s^q·Π(1 − s/zᵢ)/Π(1 − s/pⱼ)·e^(−sT), and arg(1 − jω/r) never
+ * leaves (−180°, 180°) as ω runs over (0, ∞) (a straight line from 1 that misses the origin),
+ * so the sum is continuous in ω whatever the grid. The low-frequency anchor follows from c and
+ * q: e.g. 1/s starts at −90°, −1/(s+1) at −180°. The dead time adds exactly −ωT. Finally the
+ * value is snapped to the principal argument of the directly evaluated G(jω) (Horner), so the
+ * root-finding error never leaks into the phase beyond the choice of 360° branch.
+ */
+export interface FrequencyResponse {
+  omega: number[];
+  re: number[];
+  im: number[];
+  magDb: number[];
+  phaseDeg: number[];
+}
+
+/** One evaluation of G(jω): value, magnitude and unwrapped phase (degrees). */
+export interface FrequencyPoint {
+  re: number;
+  im: number;
+  mag: number;
+  phaseDeg: number;
+}
+
+const DEG = 180 / Math.PI;
+
+/** A reusable evaluator of G(jω) (roots found once); used by margins and the views. */
+export interface FrequencyEvaluator {
+  (omega: number): FrequencyPoint;
+  /** Nonzero poles and zeros (for grids) and the number of integrators q_p − q_z. */
+  readonly poles: readonly Complex[];
+  readonly zeros: readonly Complex[];
+  readonly integrators: number;
+}
+
+export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
+  const num = P.trim(tf.rational.num);
+  const den = P.trim(tf.rational.den);
+  const T = tf.delay;
+  if (num.length === 0) {
+    const zero = ((_w: number) => ({ re: 0, im: 0, mag: 0, phaseDeg: 0 })) as FrequencyEvaluator;
+    return Object.assign(zero, { poles: [], zeros: [], integrators: 0 });
+  }
+  const qz = leadingZeros(num);
+  const qp = leadingZeros(den);
+  const c = num[qz] / den[qp];
+  const zeros = num.length - 1 > qz ? polyRoots(num.slice(qz)) : [];
+  const poles = den.length - 1 > qp ? polyRoots(den.slice(qp)) : [];
+  const anchor = (c < 0 ? -180 : 0) + 90 * (qz - qp);
+  // Each factor as 1 − jω/r = (1 − ω·b/|r|²) + j(−ω·a/|r|²) for r = a + jb; a root exactly on
+  // the imaginary axis is taken as the limit from the left half-plane (phase −180° past a
+  // lightly damped pole pair, as for any LHP pair).
+  const factors = (roots: readonly Complex[]) =>
+    roots.map((r) => {
+      const m2 = r.re * r.re + r.im * r.im;
+      return { br: r.im / m2, ar: r.re === 0 ? -0 : r.re / m2 };
+    });
+  const fz = factors(zeros);
+  const fp = factors(poles);
+  const evalAt = (w: number): FrequencyPoint => {
+    const s = { re: 0, im: w };
+    const n = P.evalComplex(num, s);
+    const d = P.evalComplex(den, s);
+    let phase = anchor;
+    for (const f of fz) phase += Math.atan2(-w * f.ar || 0, 1 - w * f.br) * DEG;
+    for (const f of fp) phase -= Math.atan2(-w * f.ar || 0, 1 - w * f.br) * DEG;
+    // Value N/D·e^(−jωT).
+    const dd = d.re * d.re + d.im * d.im;
+    let re = (n.re * d.re + n.im * d.im) / dd;
+    let im = (n.im * d.re - n.re * d.im) / dd;
+    if (T > 0) {
+      const cs = Math.cos(w * T);
+      const sn = Math.sin(w * T);
+      const r2 = re * cs + im * sn;
+      im = im * cs - re * sn;
+      re = r2;
+      phase -= w * T * DEG;
+    }
+    const mag = Math.hypot(re, im);
+    if (mag > 0 && Number.isFinite(mag)) {
+      const principal = Math.atan2(im, re) * DEG;
+      phase = principal + 360 * Math.round((phase - principal) / 360);
+    }
+    return { re, im, mag, phaseDeg: phase };
+  };
+  // atan2(-w*ar || 0, …): for ar = −0 the product is +0 for w > 0, giving +180° past the pole.
+  return Object.assign(evalAt, { poles, zeros, integrators: qp - qz });
+}
+
+function leadingZeros(p: readonly number[]): number {
+  let q = 0;
+  while (q < p.length - 1 && p[q] === 0) q++;
+  return q;
+}
+
+/** G(jω) on the given frequencies (rad/s, > 0 or 0), phase unwrapped continuously from low frequency. */
+export function frequencyResponse(tf: TransferFunction, omegas: readonly number[]): FrequencyResponse {
+  assertFinite(omegas, 'frequencies');
+  for (let i = 0; i < omegas.length; i++) {
+    if (omegas[i] < 0) throw new InputError(`frequencies: element ${i} is ${omegas[i]} rad/s, below 0`, { field: 'frequencies' });
+  }
+  const g = frequencyEvaluator(tf);
+  const out: FrequencyResponse = { omega: [], re: [], im: [], magDb: [], phaseDeg: [] };
+  for (const w of omegas) {
+    const v = g(w);
+    out.omega.push(w);
+    out.re.push(v.re);
+    out.im.push(v.im);
+    out.magDb.push(20 * Math.log10(v.mag));
+    out.phaseDeg.push(v.phaseDeg);
+  }
+  return out;
+}
+
+/** n points from 10^a to 10^b, evenly spaced in log10 (both ends included). */
+export function logspace(a: number, b: number, n: number): number[] {
+  if (!Number.isFinite(a) || !Number.isFinite(b)) throw new InputError(`logspace: decades must be finite, got ${a} and ${b}`);
+  if (!Number.isInteger(n) || n < 1) throw new InputError(`logspace: number of points must be a whole number ≥ 1, got ${n}`);
+  if (n === 1) return [10 ** a];
+  const out = new Array<number>(n);
+  for (let i = 0; i < n; i++) out[i] = 10 ** (a + ((b - a) * i) / (n - 1));
+  return out;
+}
+
+/** The characteristic frequencies of G: |nonzero poles and zeros| and 1/T (rad/s). */
+export function characteristicFrequencies(tf: TransferFunction): number[] {
+  const g = frequencyEvaluator(tf);
+  const out: number[] = [];
+  for (const r of [...g.poles, ...g.zeros]) {
+    const m = cabs(r);
+    if (m > 0 && Number.isFinite(m)) out.push(m);
+  }
+  if (tf.delay > 0) out.push(1 / tf.delay);
+  return out;
+}
+
+/**
+ * A log grid from two decades below the lowest characteristic frequency (poles, zeros, 1/T)
+ * to two decades above the highest, `perDecade` points per decade (default 100; at most
+ * 4000 points). A loop with none (a pure gain or integrators only) gets 0.01…100 rad/s.
+ */
+export function defaultFrequencyGrid(tf: TransferFunction, perDecade = 100): number[] {
+  const [lo, hi] = frequencyRange(tf);
+  const decades = Math.log10(hi) - Math.log10(lo);
+  const n = Math.min(4000, Math.max(2, Math.ceil(decades * perDecade) + 1));
+  return logspace(Math.log10(lo), Math.log10(hi), n);
+}
+
+/** [low, high] of the default grid (rad/s). */
+export function frequencyRange(tf: TransferFunction, marginDecades = 2): [number, number] {
+  const f = characteristicFrequencies(tf);
+  if (f.length === 0) return [10 ** -marginDecades, 10 ** marginDecades];
+  const lo = Math.min(...f);
+  const hi = Math.max(...f);
+  return [10 ** (Math.floor(Math.log10(lo)) - marginDecades), 10 ** (Math.ceil(Math.log10(hi)) + marginDecades)];
+}
