@@ -9,3 +9,4 @@ export * from './roots.ts';
 export * from './statespace.ts';
 export * from './frequency.ts';
 export * from './margins.ts';
+export * from './parse.ts';
