@@ -91,6 +91,11 @@ interface ZodLikeIssue {
   expected?: string;
 }
 
+const TYPE_NAMES: Record<string, string> = { object: 'an object', array: 'a list', number: 'a number', string: 'a text', boolean: 'true or false' };
+const typeName = (t: string | undefined) => (t ? TYPE_NAMES[t] ?? t : 'another type');
+/** A path to one element of `blocks` (where a failed kind match means "not a block"). */
+const path2kind = (path: readonly PropertyKey[]) => path.length === 2 && path[0] === 'blocks' && typeof path[1] === 'number';
+
 const isDefaultMessage = (m: string) => /^(Invalid input|Invalid option|Too big|Too small|Invalid|Unrecognized key)/.test(m);
 
 function knownFieldsAt(root: Json, path: readonly PropertyKey[]): string | null {
@@ -115,17 +120,19 @@ function formatIssue(root: Json, issue: ZodLikeIssue): string[] {
   const where = pathLabel(root, issue.path);
   const { found, value } = valueAt(root, issue.path);
   if (!found) {
-    const what = isDefaultMessage(issue.message) ? (issue.expected ? `expected ${issue.expected}` : 'required') : issue.message;
+    const what = isDefaultMessage(issue.message) ? (issue.expected ? `expected ${typeName(issue.expected)}` : 'required') : issue.message;
     return [`${where}: missing (${what})`];
   }
   let msg: string;
-  if (issue.code === 'too_big' && isDefaultMessage(issue.message)) {
+  if (path2kind(issue.path) && !isObject(value)) {
+    msg = `expected a block (an object), got ${describeValue(value)}`;
+  } else if (issue.code === 'too_big' && isDefaultMessage(issue.message)) {
     msg = typeof value === 'string' ? `longer than ${issue.maximum} characters` : `${describeValue(value)} is above the limit ${issue.maximum}`;
   } else if (issue.code === 'too_small' && isDefaultMessage(issue.message)) {
     msg = `${describeValue(value)} is below the limit ${issue.minimum}`;
   } else if (issue.code === 'invalid_type' && isDefaultMessage(issue.message)) {
-    msg = `expected ${issue.expected ?? 'another type'}, got ${describeValue(value)}`;
-  } else if (issue.code === 'too_big' || issue.code === 'too_small') {
+    msg = `expected ${typeName(issue.expected)}, got ${describeValue(value)}`;
+  } else if ((issue.code === 'too_big' || issue.code === 'too_small') && typeof value !== 'number') {
     msg = issue.message;
   } else {
     msg = `${issue.message}, got ${describeValue(value)}`;

@@ -24,8 +24,11 @@ export const LIMITS = {
 } as const;
 
 const ID_PATTERN = /^[A-Za-z0-9_][A-Za-z0-9_.:-]{0,63}$/;
-/** Parameter names are identifiers; not `s` (the Laplace variable), `exp`, or object-internal names. */
-const NAME_PATTERN = /^(?!(?:s|exp|__proto__|constructor|prototype)$)[A-Za-z_][A-Za-z0-9_]{0,63}$/;
+/**
+ * Parameter names are identifiers; not `s` (the Laplace variable), `exp`, words the expression
+ * language reserves, or object-internal names.
+ */
+const NAME_PATTERN = /^(?!(?:s|exp|__proto__|constructor|prototype|mod|to|in|and|or|not|xor|true|false|null|undefined|NaN|Infinity)$)[A-Za-z_][A-Za-z0-9_]{0,63}$/;
 
 const idSchema = z
   .string({ error: 'expected an id (a text)' })
@@ -33,11 +36,13 @@ const idSchema = z
 const nameSchema = z
   .string({ error: 'expected a parameter name (a text)' })
   .regex(NAME_PATTERN, {
-    error: 'a parameter name is an identifier (letters, digits, "_", not starting with a digit, at most 64), and not "s" or "exp"',
+    error: 'a parameter name is an identifier (letters, digits, "_", not starting with a digit, at most 64), and not "s", "exp" or a reserved word',
   });
 const finiteNumber = (what = 'a finite number') => z.number({ error: `expected ${what}` });
 const text = (max: number) => z.string({ error: 'expected a text' }).max(max, { error: `longer than ${max} characters` });
-const coordinate = finiteNumber().min(-LIMITS.maxCoordinate).max(LIMITS.maxCoordinate);
+const coordinate = finiteNumber()
+  .min(-LIMITS.maxCoordinate, { error: `a coordinate must be within ±${LIMITS.maxCoordinate}` })
+  .max(LIMITS.maxCoordinate, { error: `a coordinate must be within ±${LIMITS.maxCoordinate}` });
 
 function paramSchema(spec: ParamSpec) {
   switch (spec.type) {
@@ -56,7 +61,7 @@ function paramSchema(spec: ParamSpec) {
   }
 }
 
-export const positionSchema = z.strictObject({ x: coordinate, y: coordinate });
+export const positionSchema = z.strictObject({ x: coordinate, y: coordinate }, { error: 'expected a position {x, y}' });
 
 const blockVariants = catalogue.map((spec) =>
   z
@@ -135,3 +140,6 @@ export const diagramSchema = z
 export function diagramJsonSchema(): Record<string, unknown> {
   return z.toJSONSchema(diagramSchema, { target: 'draft-2020-12' }) as Record<string, unknown>;
 }
+
+/** The committed text of schema/diagram.schema.json (2-space indent, trailing newline). */
+export const diagramJsonSchemaText = (): string => JSON.stringify(diagramJsonSchema(), null, 2) + '\n';

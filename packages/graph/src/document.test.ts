@@ -1,0 +1,186 @@
+import { describe, expect, it } from 'vitest';
+import { InputError } from '@loopwright/lti';
+import { DiagramError, emptyDiagram, parseDiagram, serializeDiagram, validateDiagram } from './document.ts';
+import type { Diagram } from './document-types.ts';
+
+const base = (): Diagram => ({
+  format: 'loopwright.diagram',
+  version: 1,
+  title: 'Small loop',
+  description: 'A gain around a lag',
+  parameters: [{ name: 'Kp', value: 2, unit: '', min: 0, max: 10, scale: 'linear' }],
+  blocks: [
+    { id: 'r', kind: 'source', position: { x: 0, y: 0 }, params: { shape: 'step', amplitude: 1 } },
+    { id: 'e', kind: 'summing-junction', position: { x: 180, y: 0 }, params: { signs: '+-' } },
+    { id: 'c', kind: 'gain', label: 'controller', position: { x: 360, y: 0 }, params: { k: 'Kp' } },
+    { id: 'g', kind: 'first-order-lag', position: { x: 540, y: 0 }, params: { tau: 0.5, k: 1 } },
+    { id: 'y', kind: 'probe', position: { x: 720, y: 0 }, params: {} },
+  ],
+  wires: [
+    { id: 'w1', from: { block: 'r', port: 'out' }, to: { block: 'e', port: 'in1' } },
+    { id: 'w2', from: { block: 'e', port: 'out' }, to: { block: 'c', port: 'in' } },
+    { id: 'w3', from: { block: 'c', port: 'out' }, to: { block: 'g', port: 'in' } },
+    { id: 'w4', from: { block: 'g', port: 'out' }, to: { block: 'y', port: 'in' } },
+    { id: 'w5', from: { block: 'g', port: 'out' }, to: { block: 'e', port: 'in2' } },
+  ],
+  cuts: [{ id: 'cut1', wire: 'w5', label: 'loop' }],
+  sweeps: [{ id: 'sw1', parameter: 'Kp', min: 0.1, max: 10, scale: 'log' }],
+  view: { zoom: 1, offset: { x: 0, y: 0 }, theme: 'light' },
+});
+
+function loadError(text: string): DiagramError {
+  try {
+    parseDiagram(text);
+  } catch (err) {
+    expect(err).toBeInstanceOf(InputError);
+    return err as DiagramError;
+  }
+  throw new Error('expected the diagram to be refused');
+}
+const withDoc = (edit: (d: any) => void) => {
+  const d: any = JSON.parse(serializeDiagram(base()));
+  edit(d);
+  return JSON.stringify(d);
+};
+
+describe('round trip', () => {
+  it('load then save gives the same bytes', () => {
+    const text = serializeDiagram(base());
+    expect(serializeDiagram(parseDiagram(text))).toBe(text);
+    expect(text.endsWith('}\n')).toBe(true);
+    expect(text.split('\n')[1]).toBe('  "format": "loopwright.diagram",');
+  });
+  it('writes keys in the fixed order whatever order the object had', () => {
+    const d = base();
+    d.blocks[3].params = { tau: 0.5, k: 1 }; // catalogue order is k, tau
+    const text = serializeDiagram(d);
+    expect(text.indexOf('"k": 1')).toBeLessThan(text.indexOf('"tau": 0.5'));
+    const shuffled = JSON.stringify(Object.fromEntries(Object.entries(JSON.parse(text)).reverse()));
+    expect(serializeDiagram(parseDiagram(shuffled))).toBe(text);
+  });
+  it('the empty diagram loads', () => {
+    const e = emptyDiagram();
+    expect(parseDiagram(serializeDiagram(e))).toEqual(e);
+  });
+  it('refuses to save a non-finite number, naming the field', () => {
+    const d = base();
+    d.blocks[0].position.x = Infinity;
+    expect(() => serializeDiagram(d)).toThrow(/blocks\[0\] \(id "r"\)\.position\.x/);
+  });
+});
+
+describe('messages name what is at fault', () => {
+  it('a block parameter of the wrong type', () => {
+    const e = loadError(withDoc((d) => (d.blocks[2].params.k = true)));
+    expect(e.message).toContain('blocks[2] (id "c").params.k: expected a number or an expression, got true');
+  });
+  it('an unknown parameter name lists the known ones', () => {
+    const e = loadError(withDoc((d) => (d.blocks[3].params.tc = 1)));
+    expect(e.message).toContain('blocks[3] (id "g").params.tc: unknown field (a first-order-lag block has k, tau)');
+  });
+  it('an unknown block kind', () => {
+    const e = loadError(withDoc((d) => (d.blocks[1].kind = 'mixer')));
+    expect(e.message).toMatch(/blocks\[1\] \(id "e"\)\.kind: unknown block kind; expected one of .*"pid".*got "mixer"/);
+  });
+  it('a wire with a missing end', () => {
+    const e = loadError(withDoc((d) => delete d.wires[1].to));
+    expect(e.message).toContain('wires[1] (id "w2").to: missing');
+  });
+  it('a named parameter with a bad name', () => {
+    const e = loadError(withDoc((d) => (d.parameters[0].name = 's')));
+    expect(e.message).toContain('parameters[0] (name "s").name: a parameter name is an identifier');
+  });
+  it('bad summing-junction signs', () => {
+    const e = loadError(withDoc((d) => (d.blocks[1].params.signs = '+*')));
+    expect(e.message).toContain('blocks[1] (id "e").params.signs: expected 1 to 16 characters, each + or -');
+  });
+  it('a bad choice', () => {
+    const e = loadError(withDoc((d) => (d.blocks[0].params.shape = 'square')));
+    expect(e.message).toContain('blocks[0] (id "r").params.shape: expected one of "step", "ramp", "sinusoid", "pulse", got "square"');
+  });
+  it('lists every problem and counts the rest', () => {
+    const e = loadError(withDoc((d) => d.blocks.forEach((b: any) => (b.position = null))));
+    expect(e.problems.length).toBe(5);
+    expect(e.message).toMatch(/and 2 more$/);
+  });
+  it('not JSON: gives the position', () => {
+    const e = loadError('{"format": "loopwright.diagram",, }');
+    expect(e.message).toMatch(/not valid JSON/);
+    expect(e.details.position).toBe(32);
+  });
+  it('not a diagram', () => {
+    expect(loadError('[1,2]').message).toContain('expected a JSON object, got a list');
+    expect(loadError('{"format":"other"}').message).toContain('not a Loopwright diagram');
+  });
+});
+
+describe('versions', () => {
+  const v0 = {
+    format: 'loopwright.diagram',
+    version: 0,
+    title: 'Old',
+    parameters: [{ name: 'K', value: 3 }],
+    blocks: [
+      { id: 'a', kind: 'gain', position: { x: 0, y: 0 }, parameters: { k: 'K' } },
+      { id: 'b', kind: 'probe', position: { x: 180, y: 0 }, parameters: {} },
+    ],
+    wires: [{ id: 'w', from: { block: 'a', port: 'out' }, to: { block: 'b', port: 'in' } }],
+  };
+  it('migrates version 0 (block "parameters" → "params"; adds cuts, sweeps, view)', () => {
+    const d = parseDiagram(JSON.stringify(v0));
+    expect(d.version).toBe(1);
+    expect(d.blocks[0].params).toEqual({ k: 'K' });
+    expect(d.cuts).toEqual([]);
+    expect(d.sweeps).toEqual([]);
+    expect(d.view).toEqual({});
+    expect(d.description).toBe('');
+  });
+  it('says when a problem was found after migration', () => {
+    const bad = structuredClone(v0) as any;
+    bad.blocks[0].parameters.k = [1];
+    expect(loadError(JSON.stringify(bad)).message).toContain('after upgrading the document from version 0 to 1');
+  });
+  it('refuses a newer version with a clear message', () => {
+    const e = loadError(withDoc((d) => (d.version = 7)));
+    expect(e.message).toContain('written by a newer Loopwright (format version 7); this one reads versions up to 1');
+  });
+  it('refuses a missing or non-integer version', () => {
+    expect(loadError(withDoc((d) => delete d.version)).message).toContain('version: missing');
+    expect(loadError(withDoc((d) => (d.version = 0.5))).message).toContain('expected a whole number');
+  });
+});
+
+describe('limits and guards', () => {
+  it('refuses more than 2,000 blocks', () => {
+    const text = withDoc((d) => {
+      d.blocks = Array.from({ length: 2001 }, (_, i) => ({ id: `g${i}`, kind: 'gain', position: { x: 0, y: 0 }, params: {} }));
+    });
+    expect(loadError(text).message).toContain('2001 blocks: more than 2000 is refused');
+  });
+  it('refuses more than 5 MB', () => {
+    const text = withDoc((d) => (d.description = 'x'.repeat(5 * 1024 * 1024)));
+    expect(loadError(text).message).toContain('larger than 5 MB');
+  });
+  it('counts bytes, not characters (3-byte characters)', () => {
+    const text = withDoc((d) => (d.description = '€'.repeat(2 * 1024 * 1024)));
+    expect(loadError(text).message).toContain('larger than 5 MB');
+  });
+  it('refuses __proto__ / constructor keys and leaves Object.prototype alone', () => {
+    const e = loadError(withDoc((d) => (d.blocks[0].params = JSON.parse('{"__proto__": {"polluted": 1}}'))));
+    expect(e.message).toContain('blocks[0] (id "r").params.__proto__: the key "__proto__" is not allowed');
+    expect(loadError(withDoc((d) => (d.view = { constructor: { prototype: { polluted: 1 } } }))).message).toContain(
+      'view.constructor: the key "constructor" is not allowed',
+    );
+    expect(({} as any).polluted).toBeUndefined();
+  });
+  it('refuses absurd nesting without overflowing the stack', () => {
+    const deep = '['.repeat(100000) + ']'.repeat(100000);
+    expect(() => parseDiagram(`{"format":"loopwright.diagram","version":1,"title":${deep}}`)).toThrow(InputError);
+  });
+  it('validateDiagram gives a fresh tree (editing the result leaves the input alone)', () => {
+    const input = JSON.parse(serializeDiagram(base()));
+    const d = validateDiagram(input);
+    d.blocks[0].position.x = 99;
+    expect(input.blocks[0].position.x).toBe(0);
+  });
+});
