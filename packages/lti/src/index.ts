@@ -10,3 +10,4 @@ export * from './statespace.ts';
 export * from './frequency.ts';
 export * from './margins.ts';
 export * from './parse.ts';
+export * from './locus.ts';
