@@ -1,0 +1,59 @@
+/**
+ * UI state of the analysis area: which view is open, the sweep target and its live slider
+ * value, display options, and a pinned snapshot for comparison. None of this is part of the
+ * document or its undo history; the live sweep value reaches the document only when the user
+ * applies it (SweepBar → setParameterValue / updateBlockParams).
+ */
+import { create } from 'zustand';
+import type { SweepRange } from './sweep.ts';
+import type { AnalysisSnapshot } from './snapshot.ts';
+
+export type AnalysisViewId = 'locus' | 'response' | 'frequency' | 'loops' | 'compare';
+
+export interface AnalysisUiState {
+  view: AnalysisViewId;
+  /** targetKey() of the swept quantity, or null before one is chosen. */
+  sweepKey: string | null;
+  /** The live slider value; null = follow the document value. */
+  liveValue: number | null;
+  /** Range edits made in the sweep bar, by target key (the document's range otherwise). */
+  ranges: Record<string, SweepRange>;
+  negativeLocus: boolean;
+  showDampingGuides: boolean;
+  showFrequencyGuides: boolean;
+  /** Cut shown in the Frequency view (null = the document's active cut or first cut). */
+  cutId: string | null;
+  /** Probes shown in the Response view (null = all probes). */
+  probes: string[] | null;
+  /** Simulation end time in s (null = the document's view.simulationEnd or automatic). */
+  simulationEnd: number | null;
+  pinned: AnalysisSnapshot | null;
+
+  setView(v: AnalysisViewId): void;
+  setSweepKey(key: string | null): void;
+  setLiveValue(v: number | null): void;
+  setRange(key: string, r: SweepRange): void;
+  setOptions(patch: Partial<Pick<AnalysisUiState, 'negativeLocus' | 'showDampingGuides' | 'showFrequencyGuides' | 'cutId' | 'probes' | 'simulationEnd'>>): void;
+  pin(s: AnalysisSnapshot | null): void;
+}
+
+export const useAnalysisStore = create<AnalysisUiState>()((set) => ({
+  view: 'locus',
+  sweepKey: null,
+  liveValue: null,
+  ranges: {},
+  negativeLocus: false,
+  showDampingGuides: true,
+  showFrequencyGuides: false,
+  cutId: null,
+  probes: null,
+  simulationEnd: null,
+  pinned: null,
+
+  setView: (view) => set({ view }),
+  setSweepKey: (sweepKey) => set({ sweepKey, liveValue: null }),
+  setLiveValue: (liveValue) => set({ liveValue }),
+  setRange: (key, r) => set((s) => ({ ranges: { ...s.ranges, [key]: r } })),
+  setOptions: (patch) => set(patch),
+  pin: (pinned) => set({ pinned }),
+}));

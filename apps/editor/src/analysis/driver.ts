@@ -1,0 +1,131 @@
+/**
+ * The analysis driver: watches the document and the analysis UI state, and whenever the inputs
+ * of a result change, asks the engine worker for it. Results land in the results store. The
+ * slider's live value travels as a parameter override, so moving it never touches the
+ * document (nor its undo history).
+ */
+import type { Diagram } from '@loopwright/graph';
+import { useDiagramStore } from '../store/diagram-store.ts';
+import { useAnalysisStore } from './analysis-store.ts';
+import { useResultsStore } from './results-store.ts';
+import {
+  asSweepDiagram,
+  documentValue,
+  engineParameterName,
+  preferredChoice,
+  sweepChoices,
+  type SweepChoice,
+} from './sweep.ts';
+import { EngineClient, type WorkerLike } from '../worker/engine-client.ts';
+import type { Channel, SweepSpec } from '../worker/protocol.ts';
+
+export interface AnalysisInputs {
+  diagram: Diagram;
+  engineDiagram: Diagram;
+  choice: SweepChoice | null;
+  sweep: SweepSpec | null;
+  overrides: Record<string, number>;
+  cutId: string | null;
+  until: number | null;
+}
+
+/** The inputs the views are computed from, as they stand now. */
+export function currentInputs(): AnalysisInputs {
+  const diagram = useDiagramStore.getState().diagram;
+  const ui = useAnalysisStore.getState();
+  const choices = sweepChoices(diagram);
+  const choice = choices.find((c) => c.key === ui.sweepKey) ?? preferredChoice(diagram, choices);
+  const engineDiagram = choice ? asSweepDiagram(diagram, choice.target) : diagram;
+  const value = ui.liveValue ?? (choice ? documentValue(diagram, choice.target) : Number.NaN);
+  const sweep = choice && Number.isFinite(value) ? { parameter: engineParameterName(choice.target), value, negative: ui.negativeLocus } : null;
+  const cutId =
+    ui.cutId && (diagram.cuts.some((c) => c.id === ui.cutId) || ui.cutId.startsWith('auto:'))
+      ? ui.cutId
+      : diagram.cuts.find((c) => c.id === diagram.view.activeCut)?.id ?? diagram.cuts[0]?.id ?? null;
+  const until = ui.simulationEnd ?? diagram.view.simulationEnd ?? null;
+  return { diagram, engineDiagram, choice, sweep, overrides: sweep ? { [sweep.parameter]: sweep.value } : {}, cutId, until };
+}
+
+/** What the engine sees of a diagram: not the layout, title or view settings. */
+export function analysisKey(d: Diagram): string {
+  return JSON.stringify({
+    parameters: d.parameters,
+    blocks: d.blocks.map((b) => [b.id, b.kind, b.params]),
+    wires: d.wires,
+    cuts: d.cuts,
+  });
+}
+
+let client: EngineClient | null = null;
+
+function makeWorker(): WorkerLike {
+  return new Worker(new URL('../worker/engine.worker.ts', import.meta.url), { type: 'module', name: 'loopwright-engine' }) as unknown as WorkerLike;
+}
+
+/** The shared engine client (one worker per channel, created on first use). */
+export function engineClient(): EngineClient {
+  client ??= new EngineClient(makeWorker);
+  return client;
+}
+
+/**
+ * Starts watching; returns the function that stops. Idempotent per call site: each start
+ * subscribes once and sends the current inputs immediately.
+ */
+export function startAnalysisDriver(): () => void {
+  const engine = engineClient();
+  const sentKey: Record<Channel, string> = { analysis: '', response: '' };
+  const genOf: Record<Channel, Map<number, number>> = { analysis: new Map(), response: new Map() };
+
+  const off = engine.onReply((reply) => {
+    const gen = genOf[reply.channel].get(reply.id) ?? 0;
+    genOf[reply.channel].delete(reply.id);
+    if (reply.channel === 'analysis') {
+      useResultsStore.setState(
+        reply.ok ? { analysis: reply.result as never, analysisGeneration: gen, analysisError: null } : { analysisGeneration: gen, analysisError: reply.error },
+      );
+    } else {
+      useResultsStore.setState(
+        reply.ok ? { response: reply.result as never, responseGeneration: gen, responseError: null } : { responseGeneration: gen, responseError: reply.error },
+      );
+    }
+  });
+
+  const update = () => {
+    const inp = currentInputs();
+    const base = analysisKey(inp.engineDiagram);
+    const aKey = JSON.stringify([base, inp.sweep, inp.cutId]);
+    const rKey = JSON.stringify([base, inp.overrides, inp.until]);
+    const changedA = aKey !== sentKey.analysis;
+    const changedR = rKey !== sentKey.response;
+    if (!changedA && !changedR) return;
+    const rs = useResultsStore.getState();
+    const gen = rs.generation + 1;
+    // A channel whose inputs did not change keeps the generation it was last asked for.
+    useResultsStore.setState({
+      generation: gen,
+      generationAt: performance.now(),
+      ...(changedA ? { analysisWanted: gen } : {}),
+      ...(changedR ? { responseWanted: gen } : {}),
+    });
+    if (changedA) {
+      sentKey.analysis = aKey;
+      const id = engine.send({ channel: 'analysis', diagram: inp.engineDiagram, sweep: inp.sweep, cutId: inp.cutId });
+      genOf.analysis.set(id, gen);
+    }
+    if (changedR) {
+      sentKey.response = rKey;
+      const id = engine.send({ channel: 'response', diagram: inp.engineDiagram, overrides: inp.overrides, until: inp.until });
+      genOf.response.set(id, gen);
+    }
+  };
+
+  const offDiagram = useDiagramStore.subscribe(update);
+  const offUi = useAnalysisStore.subscribe(update);
+  update();
+  return () => {
+    off();
+    offDiagram();
+    offUi();
+  };
+}

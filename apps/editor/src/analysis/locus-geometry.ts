@@ -1,0 +1,180 @@
+/**
+ * Plane geometry for the Locus view: an equal-aspect window on the s-plane that frames the
+ * interesting points, nice tick steps, pixel ↔ s mapping, the locus point nearest the pointer
+ * (projected onto the branch segment), damping ratio and natural frequency.
+ */
+import type { Cx, LocusBranch, LocusData } from '../worker/protocol.ts';
+
+export interface PlotBox {
+  /** Grid rectangle inside the chart, px. */
+  left: number;
+  top: number;
+  width: number;
+  height: number;
+}
+
+export interface PlaneWindow {
+  xMin: number;
+  xMax: number;
+  yMin: number;
+  yMax: number;
+  step: number;
+}
+
+/** A step of 1, 2 or 5 × 10^n near `raw`. */
+export function niceStep(raw: number): number {
+  if (!(raw > 0) || !Number.isFinite(raw)) return 1;
+  const e = Math.floor(Math.log10(raw));
+  const f = raw / 10 ** e;
+  const m = f < 1.5 ? 1 : f < 3.5 ? 2 : f < 7.5 ? 5 : 10;
+  return m * 10 ** e;
+}
+
+/** The points a reader must see: poles, zeros, centroid, special points, current poles. */
+export function keyPoints(locus: LocusData | null, current: readonly Cx[]): Cx[] {
+  const pts: Cx[] = [...current];
+  if (locus) {
+    pts.push(...locus.poles, ...locus.zeros);
+    for (const b of locus.breakaways) pts.push(b.s);
+    for (const c of locus.crossings) pts.push({ re: 0, im: c.omega }, { re: 0, im: -c.omega });
+    if (locus.asymptotes) pts.push({ re: locus.asymptotes.centroid, im: 0 });
+  }
+  return pts.filter((p) => Number.isFinite(p.re) && Number.isFinite(p.im));
+}
+
+/**
+ * An equal-aspect window (same units per pixel on both axes) that holds the key points with a
+ * margin, plus the branch points within a few radii of them (branches running off to infinity
+ * along asymptotes are clipped, not followed), symmetric about the real axis.
+ */
+export function planeWindow(box: PlotBox, key: readonly Cx[], branches: readonly LocusBranch[]): PlaneWindow {
+  let xMin = Infinity;
+  let xMax = -Infinity;
+  let yMax = 0;
+  const take = (re: number, im: number) => {
+    if (re < xMin) xMin = re;
+    if (re > xMax) xMax = re;
+    if (Math.abs(im) > yMax) yMax = Math.abs(im);
+  };
+  for (const p of key) take(p.re, p.im);
+  if (!Number.isFinite(xMin)) {
+    xMin = -1;
+    xMax = 1;
+  }
+  const cx = (xMin + xMax) / 2;
+  const radius = Math.max(xMax - xMin, 2 * yMax, 1e-9) / 2 + Math.max(Math.abs(xMin), Math.abs(xMax), yMax) * 0.25;
+  const reach = radius * 3;
+  for (const b of branches) {
+    for (let i = 0; i < b.re.length; i++) {
+      if (Math.hypot(b.re[i] - cx, b.im[i]) <= reach) take(b.re[i], b.im[i]);
+    }
+  }
+  // Always show the imaginary axis, and a margin around everything.
+  xMin = Math.min(xMin, 0);
+  xMax = Math.max(xMax, 0);
+  let span = Math.max(xMax - xMin, 2 * yMax);
+  if (!(span > 0)) span = 2;
+  const pad = span * 0.12;
+  xMin -= pad;
+  xMax += pad;
+  yMax += pad;
+  // Equal aspect: grow the short side so that units/px match.
+  const w = Math.max(box.width, 1);
+  const h = Math.max(box.height, 1);
+  const ux = (xMax - xMin) / w;
+  const uy = (2 * yMax) / h;
+  if (ux > uy) yMax = (ux * h) / 2;
+  else {
+    const grow = (uy * w - (xMax - xMin)) / 2;
+    xMin -= grow;
+    xMax += grow;
+  }
+  const step = niceStep((xMax - xMin) / Math.max(3, Math.round(w / 90)));
+  return { xMin, xMax, yMin: -yMax, yMax, step };
+}
+
+export const toPixel = (win: PlaneWindow, box: PlotBox, s: Cx): [number, number] => [
+  box.left + ((s.re - win.xMin) / (win.xMax - win.xMin)) * box.width,
+  box.top + ((win.yMax - s.im) / (win.yMax - win.yMin)) * box.height,
+];
+
+export const fromPixel = (win: PlaneWindow, box: PlotBox, x: number, y: number): Cx => ({
+  re: win.xMin + ((x - box.left) / box.width) * (win.xMax - win.xMin),
+  im: win.yMax - ((y - box.top) / box.height) * (win.yMax - win.yMin),
+});
+
+export interface LocusHit {
+  branch: number;
+  negative: boolean;
+  /** Segment index and fraction along it. */
+  index: number;
+  t: number;
+  s: Cx;
+  /** Sweep value interpolated along the branch. */
+  k: number;
+  distancePx: number;
+}
+
+/** The branch point nearest pixel (x, y), projected onto its segment, within maxPx. */
+export function nearestOnBranches(
+  branches: readonly LocusBranch[],
+  win: PlaneWindow,
+  box: PlotBox,
+  x: number,
+  y: number,
+  maxPx = 10,
+  negative = false,
+): LocusHit | null {
+  let best: LocusHit | null = null;
+  for (let b = 0; b < branches.length; b++) {
+    const br = branches[b];
+    let [px, py] = toPixel(win, box, { re: br.re[0], im: br.im[0] });
+    for (let i = 0; i + 1 < br.re.length; i++) {
+      const [qx, qy] = toPixel(win, box, { re: br.re[i + 1], im: br.im[i + 1] });
+      const dx = qx - px;
+      const dy = qy - py;
+      const len2 = dx * dx + dy * dy;
+      const t = len2 > 0 ? Math.min(1, Math.max(0, ((x - px) * dx + (y - py) * dy) / len2)) : 0;
+      const d = Math.hypot(px + t * dx - x, py + t * dy - y);
+      if (d <= maxPx && (!best || d < best.distancePx)) {
+        const s = { re: br.re[i] + t * (br.re[i + 1] - br.re[i]), im: br.im[i] + t * (br.im[i + 1] - br.im[i]) };
+        best = { branch: b, negative, index: i, t, s, k: br.k[i] + t * (br.k[i + 1] - br.k[i]), distancePx: d };
+      }
+      px = qx;
+      py = qy;
+    }
+  }
+  return best;
+}
+
+/** Damping ratio ζ = −Re s / |s| and natural frequency ωn = |s| of a pole. */
+export function dampingOf(s: Cx): { zeta: number; omegaN: number } {
+  const wn = Math.hypot(s.re, s.im);
+  return { zeta: wn === 0 ? 1 : -s.re / wn, omegaN: wn };
+}
+
+/** Gain k at s from D0(s) + k·N0(s) = 0 (real part of −D0/N0; polynomials ascending). */
+export function gainAt(n0: readonly number[], d0: readonly number[], s: Cx): number {
+  const ev = (p: readonly number[]) => {
+    let re = 0;
+    let im = 0;
+    for (let i = p.length - 1; i >= 0; i--) {
+      const r = re * s.re - im * s.im + p[i];
+      im = re * s.im + im * s.re;
+      re = r;
+    }
+    return { re, im };
+  };
+  const d = ev(d0);
+  const n = ev(n0);
+  const den = n.re * n.re + n.im * n.im;
+  if (den === 0) return Number.POSITIVE_INFINITY;
+  return -(d.re * n.re + d.im * n.im) / den;
+}
+
+/** Distance from s to the nearest of the poles, relative to |s| (or absolute near the origin). */
+export function relativeDistanceToNearest(s: Cx, poles: readonly Cx[]): number {
+  let best = Infinity;
+  for (const p of poles) best = Math.min(best, Math.hypot(p.re - s.re, p.im - s.im));
+  return best / Math.max(Math.hypot(s.re, s.im), 1e-12);
+}

@@ -1,0 +1,42 @@
+/**
+ * A pinned set of results for comparison: the parameter values they were computed at and
+ * copies of what the views draw. Pinning copies; later results never change a snapshot.
+ */
+import type { Diagram } from '@loopwright/graph';
+import type { AnalysisResult, Cx, FrequencyData, LoopsData, ResponseResult } from '../worker/protocol.ts';
+
+export interface AnalysisSnapshot {
+  takenAt: string;
+  label: string;
+  /** Named parameter values and gain-block values (block:<id>.k) in force. */
+  values: Record<string, number>;
+  poles: Cx[];
+  frequency: FrequencyData | null;
+  loops: LoopsData | null;
+  response: ResponseResult | null;
+}
+
+/** Every value the results depend on that a user would tune: parameters and numeric gains. */
+export function tunedValues(d: Diagram, overrides: Record<string, number>, overrideLabel?: { engineName: string; key: string }): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const p of d.parameters) out[p.name] = p.value;
+  for (const b of d.blocks) if (b.kind === 'gain' && typeof b.params.k === 'number') out[`${b.label ?? b.id} · k`] = b.params.k;
+  for (const [name, v] of Object.entries(overrides)) {
+    if (overrideLabel && name === overrideLabel.engineName) out[overrideLabel.key] = v;
+    else out[name] = v;
+  }
+  return out;
+}
+
+export function takeSnapshot(label: string, values: Record<string, number>, a: AnalysisResult | null, r: ResponseResult | null): AnalysisSnapshot {
+  const copy = <T>(x: T): T => (x === null ? x : structuredClone(x));
+  return {
+    takenAt: new Date().toISOString(),
+    label,
+    values: { ...values },
+    poles: a?.poles.ok ? copy(a.poles.value) : [],
+    frequency: a?.frequency?.ok ? copy(a.frequency.value) : null,
+    loops: a?.loops.ok ? copy(a.loops.value) : null,
+    response: copy(r),
+  };
+}

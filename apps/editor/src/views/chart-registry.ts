@@ -1,0 +1,46 @@
+/**
+ * The charts on screen, by name, with the option each was last given. Export (PNG from the
+ * canvas instance, SVG from a throw-away SVG-renderer instance fed the same option) and the
+ * test hook read charts from here.
+ */
+import { echarts, type ChartInstance, type ChartOption } from './echarts-setup.ts';
+
+interface Entry {
+  instance: ChartInstance;
+  option: ChartOption;
+}
+
+const charts = new Map<string, Entry>();
+
+export function registerChart(name: string, instance: ChartInstance, option: ChartOption): void {
+  charts.set(name, { instance, option });
+}
+
+export function unregisterChart(name: string, instance: ChartInstance): void {
+  if (charts.get(name)?.instance === instance) charts.delete(name);
+}
+
+export const chartNames = (): string[] => [...charts.keys()];
+export const chartInstance = (name: string): ChartInstance | undefined => charts.get(name)?.instance;
+
+/** PNG data URL of a chart as drawn (2× pixel ratio, opaque background). */
+export function chartPngDataUrl(name: string, background = '#ffffff'): string | null {
+  const e = charts.get(name);
+  if (!e) return null;
+  return e.instance.getDataURL({ type: 'png', pixelRatio: 2, backgroundColor: background });
+}
+
+/** SVG text of a chart: the same option rendered by the SVG renderer at the same size. */
+export function chartSvgText(name: string, background = '#ffffff'): string | null {
+  const e = charts.get(name);
+  if (!e) return null;
+  const width = e.instance.getWidth() || 800;
+  const height = e.instance.getHeight() || 500;
+  const svg = echarts.init(null, null, { renderer: 'svg', ssr: true, width, height });
+  try {
+    svg.setOption({ ...(e.option as object), backgroundColor: background, animation: false });
+    return svg.renderToSVGString();
+  } finally {
+    svg.dispose();
+  }
+}

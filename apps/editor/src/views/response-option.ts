@@ -1,0 +1,110 @@
+/**
+ * Response charts: the chosen probes from the simulation with nonlinearities (solid) over the
+ * linear model's response (dashed), the pinned run dotted; and the actuator signals with their
+ * limits marked.
+ */
+import type { ResponseResult } from '../worker/protocol.ts';
+import { fmt } from '../analysis/sweep.ts';
+import type { Palette } from './palette.ts';
+import type { ChartOption } from './echarts-setup.ts';
+
+const MAX_POINTS = 1500;
+
+/** [t, y] pairs, thinned to at most MAX_POINTS (keeps the first and last sample). */
+export function tracePairs(t: readonly number[], y: readonly number[] | undefined): number[][] {
+  if (!y) return [];
+  const n = Math.min(t.length, y.length);
+  const stride = Math.max(1, Math.ceil(n / MAX_POINTS));
+  const out: number[][] = [];
+  for (let i = 0; i < n; i += stride) out.push([t[i], y[i]]);
+  if (n > 0 && (n - 1) % stride !== 0) out.push([t[n - 1], y[n - 1]]);
+  return out;
+}
+
+const title = (pal: Palette, text: string) => ({ text, left: 8, top: 4, textStyle: { color: pal.text, fontSize: 13, fontWeight: 'normal' } });
+
+function axes(pal: Palette, until: number, yName: string) {
+  return {
+    xAxis: {
+      type: 'value',
+      name: 't [s]',
+      nameLocation: 'middle',
+      nameGap: 24,
+      min: 0,
+      max: until,
+      nameTextStyle: { color: pal.muted },
+      axisLine: { onZero: false, lineStyle: { color: pal.axis } },
+      axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 3) },
+      splitLine: { lineStyle: { color: pal.grid } },
+    },
+    yAxis: {
+      type: 'value',
+      name: yName,
+      nameLocation: 'middle',
+      nameGap: 44,
+      scale: true,
+      nameTextStyle: { color: pal.muted },
+      axisLine: { onZero: false, lineStyle: { color: pal.axis } },
+      axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 3) },
+      splitLine: { lineStyle: { color: pal.grid } },
+    },
+  };
+}
+
+const line = (name: string, data: number[][], color: string, type: 'solid' | 'dashed' | 'dotted', width = 2) => ({
+  type: 'line',
+  name,
+  showSymbol: false,
+  animation: false,
+  lineStyle: { color, width, type },
+  itemStyle: { color },
+  data,
+});
+
+export function responseOption(r: ResponseResult, probes: string[], pinned: ResponseResult | null, pal: Palette): ChartOption {
+  const series: unknown[] = [];
+  probes.forEach((id, i) => {
+    const label = r.probes.find((p) => p.id === id)?.label ?? id;
+    const color = pal.series[i % pal.series.length];
+    series.push(line(label, tracePairs(r.nonlinear.time, r.nonlinear.traces[id]), color, 'solid'));
+    series.push(line(`${label} (linear)`, tracePairs(r.linear.time, r.linear.traces[id]), color, 'dashed', 1.5));
+    if (pinned?.nonlinear.traces[id]) series.push(line(`${label} (pinned)`, tracePairs(pinned.nonlinear.time, pinned.nonlinear.traces[id]), pal.pinned, 'dotted', 1.5));
+  });
+  const status = r.nonlinear.status === 'ok' ? '' : `  — simulation ${r.nonlinear.status}: ${r.nonlinear.message}`;
+  return {
+    animation: false,
+    backgroundColor: pal.background,
+    title: title(pal, `Response${status}`),
+    tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
+    legend: { top: 24, left: 70, right: 10, textStyle: { color: pal.muted }, type: 'plain' },
+    grid: { left: 64, right: 20, top: 62, bottom: 40 },
+    ...axes(pal, r.until, 'value'),
+    series,
+  };
+}
+
+export function actuatorOption(r: ResponseResult, pinned: ResponseResult | null, pal: Palette): ChartOption {
+  const series: unknown[] = [];
+  r.actuators.forEach((a, i) => {
+    const color = pal.series[(i + 4) % pal.series.length];
+    const limits = [a.lower, a.upper]
+      .filter((v): v is number => v !== null && Number.isFinite(v))
+      .map((v) => ({ yAxis: v, label: { formatter: `limit ${fmt(v, 3)}`, color: pal.limit, fontSize: 10, position: 'insideEndTop' } }));
+    series.push({
+      ...line(a.label, tracePairs(r.nonlinear.time, r.nonlinear.traces[a.key]), color, 'solid'),
+      markLine: { silent: true, symbol: 'none', animation: false, lineStyle: { color: pal.limit, type: 'dashed', width: 1.5 }, data: limits },
+    });
+    series.push(line(`${a.label} (linear)`, tracePairs(r.linear.time, r.linear.traces[a.key]), color, 'dashed', 1.5));
+    if (pinned?.nonlinear.traces[a.key]) series.push(line(`${a.label} (pinned)`, tracePairs(pinned.nonlinear.time, pinned.nonlinear.traces[a.key]), pal.pinned, 'dotted', 1.5));
+  });
+  return {
+    animation: false,
+    backgroundColor: pal.background,
+    title: title(pal, 'Actuator'),
+    tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
+    legend: { top: 24, left: 70, right: 10, textStyle: { color: pal.muted } },
+    grid: { left: 64, right: 20, top: 62, bottom: 40 },
+    ...axes(pal, r.until, 'actuator'),
+    series,
+  };
+}

@@ -1,0 +1,43 @@
+/// <reference lib="webworker" />
+/**
+ * The engine worker. Requests are held per channel and only the newest of each is computed:
+ * messages that arrive while a computation runs queue up behind it, and the drain that
+ * follows takes just the latest (older ones are answered by nothing; the client drops any
+ * stray reply by id anyway). One request is computed per task so new messages get in between.
+ */
+import { computeAnalysis, computeResponse } from './compute.ts';
+import type { Channel, EngineReply, EngineRequest } from './protocol.ts';
+
+const scope = self as unknown as DedicatedWorkerGlobalScope;
+const held = new Map<Channel, EngineRequest>();
+let scheduled = false;
+
+function schedule(): void {
+  if (scheduled) return;
+  scheduled = true;
+  setTimeout(drain, 0);
+}
+
+function drain(): void {
+  scheduled = false;
+  const next = held.entries().next();
+  if (next.done) return;
+  const [channel, req] = next.value;
+  held.delete(channel);
+  let reply: EngineReply;
+  try {
+    reply =
+      req.channel === 'analysis'
+        ? { channel: 'analysis', id: req.id, ok: true, result: computeAnalysis(req) }
+        : { channel: 'response', id: req.id, ok: true, result: computeResponse(req) };
+  } catch (e) {
+    reply = { channel: req.channel, id: req.id, ok: false, error: e instanceof Error ? e.message : String(e) };
+  }
+  scope.postMessage(reply);
+  if (held.size > 0) schedule();
+}
+
+scope.onmessage = (e: MessageEvent<EngineRequest>) => {
+  held.set(e.data.channel, e.data);
+  schedule();
+};
