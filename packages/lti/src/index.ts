@@ -11,3 +11,6 @@ export * from './frequency.ts';
 export * from './margins.ts';
 export * from './parse.ts';
 export * from './locus.ts';
+export * from './pade.ts';
+export * from './routh.ts';
+export * from './cancel.ts';
