@@ -77,7 +77,7 @@ export function routhHurwitz(p: Poly): RouthResult {
     const r = rows[i];
     const power = n - i;
     if (power < 0) return;
-    if (r.every((x) => x === 0)) {
+    if (!r.some((x) => x !== 0)) {
       const above = rows[i - 1];
       const k = power + 1;
       // A(s) = Σ above[j]·s^(k − 2j); replace this row by A'(s): coefficient (k − 2j)·above[j].
