@@ -5,3 +5,6 @@ export * from './catalogue/index.ts';
 export * from './resolve.ts';
 export * from './schema.ts';
 export * from './document.ts';
+// Checks (graph-document helper): the Finding type and structural checks.
+export * from './checks/finding.ts';
+export * from './checks/structure.ts';
