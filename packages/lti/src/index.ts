@@ -14,3 +14,4 @@ export * from './locus.ts';
 export * from './pade.ts';
 export * from './routh.ts';
 export * from './cancel.ts';
+export * from './exact-response.ts';
