@@ -1,22 +1,98 @@
+import { useEffect, useState } from 'react';
+import { ReactFlowProvider } from '@xyflow/react';
 import { AnalysisArea } from './views/AnalysisArea.tsx';
+import { Canvas } from './canvas/Canvas.tsx';
+import { PartsPanel } from './panels/PartsPanel.tsx';
+import { DetailsPanel } from './panels/DetailsPanel.tsx';
+import { ParametersPanel } from './panels/ParametersPanel.tsx';
+import { FindingsPanel } from './panels/FindingsPanel.tsx';
+import { Toolbar } from './panels/Toolbar.tsx';
+import { AboutDialog, SAFETY_TEXT } from './panels/AboutDialog.tsx';
+import { installShortcuts } from './panels/shortcuts.ts';
+import { useUiStore } from './store/ui-store.ts';
+import { openFile } from './files/file-actions.ts';
+
+function NoticeBar() {
+  const notice = useUiStore((s) => s.notice);
+  useEffect(() => {
+    if (notice?.kind !== 'info') return;
+    const t = setTimeout(() => useUiStore.getState().notify(null), 3000);
+    return () => clearTimeout(t);
+  }, [notice]);
+  if (!notice) return null;
+  return (
+    <div className={`notice ${notice.kind}`} role={notice.kind === 'error' ? 'alert' : 'status'} aria-label={notice.kind === 'error' ? 'Error' : 'Status'}>
+      <span className="notice-title">{notice.title}</span>
+      {notice.problems && (
+        <ul>
+          {notice.problems.map((p, i) => (
+            <li key={i}>{p}</li>
+          ))}
+        </ul>
+      )}
+      <button type="button" className="icon" aria-label="Dismiss message" onClick={() => useUiStore.getState().notify(null)}>
+        ×
+      </button>
+    </div>
+  );
+}
 
 /**
- * The editor layout: top bar, Parts (left), canvas (centre), Details / Parameters / findings
- * (right), the analysis views (bottom, filled by views/AnalysisArea) and a footer.
+ * The editor layout: top bar, Parts (left), canvas (centre), Details / Parameters / Findings
+ * (right), the analysis views (bottom, from views/AnalysisArea) and a footer with the caution.
  */
 export function App() {
+  const theme = useUiStore((s) => s.theme);
+  const collapsed = useUiStore((s) => s.analysisCollapsed);
+  const [dropping, setDropping] = useState(false);
+  useEffect(() => {
+    document.documentElement.dataset.theme = theme;
+  }, [theme]);
+  useEffect(() => installShortcuts(), []);
   return (
-    <div className="app">
-      <header className="topbar" role="toolbar" aria-label="Diagram commands">
-        <span className="brand">Loopwright</span>
-      </header>
-      <aside className="parts panel" aria-label="Parts"></aside>
-      <main className="canvas" aria-label="Diagram canvas"></main>
-      <aside className="side" aria-label="Inspector"></aside>
-      <section className="analysis" aria-label="Analysis">
-        <AnalysisArea />
-      </section>
-      <footer className="footer"></footer>
-    </div>
+    <ReactFlowProvider>
+      <div
+        className={`app${collapsed ? ' analysis-collapsed' : ''}${dropping ? ' is-dropping' : ''}`}
+        onDragOver={(e) => {
+          if (e.dataTransfer.types.includes('Files')) {
+            e.preventDefault();
+            setDropping(true);
+          }
+        }}
+        onDragLeave={(e) => {
+          if (e.currentTarget === e.target) setDropping(false);
+        }}
+        onDrop={(e) => {
+          setDropping(false);
+          const f = e.dataTransfer.files?.[0];
+          if (f) {
+            e.preventDefault();
+            void openFile(f);
+          }
+        }}
+      >
+        <Toolbar />
+        <PartsPanel />
+        <main className="canvas" aria-label="Diagram">
+          <Canvas />
+          <NoticeBar />
+        </main>
+        <aside className="side" aria-label="Inspector">
+          <DetailsPanel />
+          <ParametersPanel />
+          <FindingsPanel />
+        </aside>
+        <section className="analysis" aria-label="Analysis">
+          <AnalysisArea />
+        </section>
+        <footer className="footer">
+          <span>Results are design aids — validate on the real plant with limits and interlocks in place.</span>
+          <button type="button" aria-label="About and safety (footer)" title={SAFETY_TEXT} onClick={() => useUiStore.getState().setAboutOpen(true)}>
+            About &amp; safety
+          </button>
+        </footer>
+        <AboutDialog />
+      </div>
+    </ReactFlowProvider>
   );
 }

@@ -46,6 +46,8 @@ export interface DiagramState {
   setDragging(positions: Record<string, { x: number; y: number }>): void;
   connect(from: { block: string; port: string }, to: { block: string; port: string }): string | null;
   deleteSelection(): void;
+  removeWires(ids: string[]): void;
+  setCutLabel(id: string, label: string): void;
   copySelection(): void;
   paste(): void;
   setTitle(title: string): void;
@@ -213,6 +215,20 @@ export const useDiagramStore = create<DiagramState>()(
           if (d.view.activeProbe && !d.blocks.some((b) => b.id === d.view.activeProbe)) delete d.view.activeProbe;
           set({ diagram: d, selection: { blocks: [], wires: [] } });
         },
+        removeWires: (ids) =>
+          edit((d) => {
+            const gone = new Set(ids);
+            d.wires = d.wires.filter((w) => !gone.has(w.id));
+            d.cuts = d.cuts.filter((c) => !gone.has(c.wire));
+            if (d.view.activeCut && !d.cuts.some((c) => c.id === d.view.activeCut)) d.view.activeCut = d.cuts[0]?.id;
+          }),
+        setCutLabel: (id, label) =>
+          edit((d) => {
+            const c = d.cuts.find((x) => x.id === id);
+            if (!c) return;
+            if (label.trim()) c.label = label;
+            else delete c.label;
+          }),
         copySelection: () => {
           const { selection, diagram } = get();
           const ids = new Set(selection.blocks);
@@ -299,4 +315,26 @@ export const clearHistory = () => useDiagramStore.temporal.getState().clear();
 export function loadDocument(d: Diagram): void {
   useDiagramStore.getState().setDiagram(d);
   clearHistory();
+}
+
+/**
+ * A continuous gesture (dragging a slider) as ONE undo step: remember the document at the
+ * start, stop recording while it moves, and push the starting document when it ends.
+ */
+let gestureStart: Diagram | null = null;
+export function beginGesture(): void {
+  if (gestureStart) return;
+  gestureStart = useDiagramStore.getState().diagram;
+  useDiagramStore.temporal.getState().pause();
+}
+export function endGesture(): void {
+  if (!gestureStart) return;
+  const start = gestureStart;
+  gestureStart = null;
+  const t = useDiagramStore.temporal;
+  t.getState().resume();
+  if (!sameDocument(start, useDiagramStore.getState().diagram)) {
+    const past = [...t.getState().pastStates, { diagram: start }].slice(-HISTORY_LIMIT);
+    t.setState({ pastStates: past, futureStates: [] });
+  }
 }

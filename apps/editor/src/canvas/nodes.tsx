@@ -1,0 +1,124 @@
+/**
+ * Custom React Flow nodes: rounded block cards (title, formula, caption; inputs on the left,
+ * the output on the right) and summing junctions drawn as circles with the sign of each input
+ * beside where it enters (first input from the left, second from below, third from above).
+ */
+import { memo } from 'react';
+import { Handle, Position, type Node, type NodeProps } from '@xyflow/react';
+import type { Block } from '../store/graph-bridge.ts';
+import { Formula } from './formula.tsx';
+import { cardContent } from './block-formula.ts';
+
+export interface BlockNodeData extends Record<string, unknown> {
+  block: Block;
+  title: string;
+  inputs: string[];
+  outputs: string[];
+  fault: 'error' | 'warning' | 'info' | null;
+  faultText?: string;
+  swept?: string;
+  /** The swept parameter enters this block. */
+  sweptHere: boolean;
+}
+export type BlockFlowNode = Node<BlockNodeData, 'block' | 'sum'>;
+
+function portLabel(block: Block, port: string) {
+  return `${block.label ?? block.id} ${port}`;
+}
+
+export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<BlockFlowNode>) {
+  const { block, inputs, outputs, fault, swept, sweptHere } = data;
+  const content = cardContent(block);
+  const cls = ['lw-card', `lw-kind-${block.kind}`, selected ? 'is-selected' : '', fault ? `fault-${fault}` : '', sweptHere ? 'is-swept' : '']
+    .filter(Boolean)
+    .join(' ');
+  return (
+    <div className={cls} role="group" aria-label={`block ${block.id}`} data-block={block.id} title={data.faultText}>
+      {inputs.map((p, i) => (
+        <Handle
+          key={p}
+          id={p}
+          type="target"
+          position={Position.Left}
+          style={{ top: `${((i + 1) / (inputs.length + 1)) * 100}%` }}
+          aria-label={`input ${portLabel(block, p)}`}
+          data-testid={`port-${block.id}-${p}`}
+        />
+      ))}
+      <div className="lw-card-head">
+        <span className="lw-card-title">{block.label ?? data.title}</span>
+        <span className="lw-card-id">{block.id}</span>
+      </div>
+      {content.formula !== undefined && (
+        <div className="lw-card-formula">
+          <Formula text={content.formula} swept={swept} />
+        </div>
+      )}
+      {content.caption && <div className="lw-card-caption">{content.caption}</div>}
+      {block.kind === 'saturation' && <SatIcon />}
+      {block.kind === 'dead-zone' && <DeadZoneIcon />}
+      {block.kind === 'rate-limit' && <RateIcon />}
+      {fault && <span className={`lw-fault-badge ${fault}`} aria-label={`${fault}: ${data.faultText ?? ''}`}>{fault === 'error' ? '!' : fault === 'warning' ? '▲' : 'i'}</span>}
+      {outputs.map((p) => (
+        <Handle key={p} id={p} type="source" position={Position.Right} aria-label={`output ${portLabel(block, p)}`} data-testid={`port-${block.id}-${p}`} />
+      ))}
+    </div>
+  );
+});
+
+const SatIcon = () => (
+  <svg className="lw-icon" viewBox="0 0 40 20" aria-hidden="true">
+    <path d="M2 16 H12 L28 4 H38" />
+  </svg>
+);
+const DeadZoneIcon = () => (
+  <svg className="lw-icon" viewBox="0 0 40 20" aria-hidden="true">
+    <path d="M4 18 L14 10 H26 L36 2" />
+  </svg>
+);
+const RateIcon = () => (
+  <svg className="lw-icon" viewBox="0 0 40 20" aria-hidden="true">
+    <path d="M2 16 H10 L30 4 H38" strokeDasharray="0" />
+    <path d="M10 16 V4 H30" className="lw-icon-ghost" />
+  </svg>
+);
+
+/** Where input i of a summing junction enters: left, bottom, top, then further left ports. */
+export function sumPortSide(i: number): Position {
+  if (i === 1) return Position.Bottom;
+  if (i === 2) return Position.Top;
+  return Position.Left;
+}
+
+export const SumNode = memo(function SumNode({ data, selected }: NodeProps<BlockFlowNode>) {
+  const { block, inputs, fault } = data;
+  const signs = typeof block.params.signs === 'string' ? block.params.signs : '';
+  const leftPorts = inputs.filter((_, i) => sumPortSide(i) === Position.Left);
+  const cls = ['lw-sum', selected ? 'is-selected' : '', fault ? `fault-${fault}` : ''].filter(Boolean).join(' ');
+  return (
+    <div className={cls} role="group" aria-label={`block ${block.id}`} data-block={block.id} title={data.faultText}>
+      <svg className="lw-sum-x" viewBox="0 0 44 44" aria-hidden="true">
+        <path d="M14 14 L30 30 M30 14 L14 30" />
+      </svg>
+      {inputs.map((p, i) => {
+        const side = sumPortSide(i);
+        const li = leftPorts.indexOf(p);
+        const style =
+          side === Position.Left ? { top: leftPorts.length === 1 ? '50%' : `${20 + (60 * li) / Math.max(1, leftPorts.length - 1)}%` } : undefined;
+        const sign = signs[i] === '-' ? '−' : '+';
+        return (
+          <span key={p}>
+            <Handle id={p} type="target" position={side} style={style} aria-label={`input ${portLabel(block, p)}`} data-testid={`port-${block.id}-${p}`} />
+            <span className={`lw-sign lw-sign-${side}`} style={side === Position.Left ? { top: style?.top } : undefined} aria-label={`sign of ${p}: ${sign}`}>
+              {sign}
+            </span>
+          </span>
+        );
+      })}
+      <Handle id="out" type="source" position={Position.Right} aria-label={`output ${portLabel(block, 'out')}`} data-testid={`port-${block.id}-out`} />
+      <span className="lw-sum-id">{block.label ?? block.id}</span>
+    </div>
+  );
+});
+
+export const nodeTypes = { block: BlockNode, sum: SumNode };

@@ -1,0 +1,57 @@
+/**
+ * UI state that is not part of the document (never in undo history or the saved file):
+ * the colour theme, a request to fit the view, the message banner, the About dialog.
+ */
+import { create } from 'zustand';
+
+export type Theme = 'light' | 'dark';
+export const THEME_KEY = 'loopwright.theme';
+
+export interface Notice {
+  kind: 'error' | 'info';
+  title: string;
+  problems?: string[];
+}
+
+interface UiState {
+  theme: Theme;
+  setTheme(t: Theme): void;
+  fitRequest: number;
+  requestFit(): void;
+  notice: Notice | null;
+  notify(n: Notice | null): void;
+  aboutOpen: boolean;
+  setAboutOpen(v: boolean): void;
+  analysisCollapsed: boolean;
+  setAnalysisCollapsed(v: boolean): void;
+}
+
+function initialTheme(): Theme {
+  try {
+    const t = localStorage.getItem(THEME_KEY);
+    if (t === 'light' || t === 'dark') return t;
+  } catch {
+    // storage unavailable
+  }
+  return typeof matchMedia === 'function' && matchMedia('(prefers-color-scheme: dark)').matches ? 'dark' : 'light';
+}
+
+export const useUiStore = create<UiState>()((set, get) => ({
+  theme: initialTheme(),
+  setTheme: (theme) => {
+    try {
+      localStorage.setItem(THEME_KEY, theme);
+    } catch {
+      // storage unavailable: the theme still changes for this session
+    }
+    set({ theme });
+  },
+  fitRequest: 0,
+  requestFit: () => set({ fitRequest: get().fitRequest + 1 }),
+  notice: null,
+  notify: (notice) => set({ notice }),
+  aboutOpen: false,
+  setAboutOpen: (aboutOpen) => set({ aboutOpen }),
+  analysisCollapsed: false,
+  setAnalysisCollapsed: (analysisCollapsed) => set({ analysisCollapsed }),
+}));
