@@ -8,3 +8,13 @@ export * from './document.ts';
 // Checks (graph-document helper): the Finding type and structural checks.
 export * from './checks/finding.ts';
 export * from './checks/structure.ts';
+// Analysis: reduction, cuts, sweeps, loop interaction, analytical checks (graph-analysis helper).
+export * from './analysis/linear-graph.ts';
+export { linearGraphOf } from './analysis/from-diagram.ts';
+export { type SignalRef, describeRef } from './analysis/points.ts';
+export * from './analysis/reduce.ts';
+export * from './analysis/state-space.ts';
+export * from './analysis/cuts.ts';
+export * from './analysis/sweep.ts';
+export * from './analysis/loops.ts';
+export * from './checks/analytic.ts';

@@ -3,13 +3,14 @@ import {
   type Rational,
   type TransferFunction,
   InputError,
+  cancelCommon,
+  padeDelay,
   poly,
   polyRoots,
   rational,
   rdcGain,
   transfer,
 } from '@loopwright/lti';
-import { cancelCommon, padeDelay } from './pending-lti.ts';
 import type { Diagram } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
 import { linearGraphOf } from './from-diagram.ts';

@@ -1,5 +1,4 @@
-import { type Complex, InputError, cx, poly, rational, realize } from '@loopwright/lti';
-import { padeDelay } from './pending-lti.ts';
+import { type Complex, InputError, cx, padeDelay, poly, rational, realize } from '@loopwright/lti';
 import { EigenvalueDecomposition, Matrix, inverse } from 'ml-matrix';
 import type { ParameterOverrides } from '../resolve.ts';
 import { type ReduceOptions, DEFAULT_PADE_ORDER, type Linearisable, compiledOf } from './reduce.ts';

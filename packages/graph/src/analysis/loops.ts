@@ -1,0 +1,218 @@
+import { type Complex, InputError, type LoopMargins, type TransferFunction, loopMargins } from '@loopwright/lti';
+import type { Diagram } from '../document-types.ts';
+import type { ParameterOverrides } from '../resolve.ts';
+import { type Branch, type CompiledGraph } from './linear-graph.ts';
+import { flowGraph, simpleCycles } from './mason.ts';
+import { loopAtCutDetailed } from './cuts.ts';
+import { type DelayHandling, type ReduceOptions, closedLoopPoles, compiledOf } from './reduce.ts';
+
+/**
+ * The usual cascade rule: the inner loop should be 3–10 times faster than the loop around it
+ * (common practice, no source). Below 3 the loops interact and are flagged.
+ */
+export const MIN_SEPARATION = 3;
+
+export interface CutAnalysis {
+  /** Cut id (or "auto:<wire>" for a cut proposed on a feedback wire when the diagram has none). */
+  cut: string;
+  wire: string;
+  label: string;
+  auto: boolean;
+  /** L(s) at the cut with every other loop closed (1 + L = 0). */
+  loop: TransferFunction;
+  delayHandling: DelayHandling;
+  hiddenModes: Complex[];
+  margins: LoopMargins;
+  /** Gain crossover (rad/s), null if |L| never crosses 1. */
+  crossover: number | null;
+  /** Closed-loop bandwidth of T = L/(1 + L) (rad/s). */
+  bandwidth: number | null;
+  /** Blocks on the loops through this wire. */
+  blocks: string[];
+  stable: boolean;
+  /**
+   * The same loop as tuned inner-first: every cut whose loop encloses this one opened (its
+   * own inner loops stay closed). Separation ratios use these figures.
+   */
+  alone: { loop: TransferFunction; margins: LoopMargins; crossover: number | null; bandwidth: number | null; opened: string[] };
+}
+
+export interface Separation {
+  inner: string;
+  outer: string;
+  /** inner/outer closed-loop bandwidth when both exist, else the crossover ratio (loops as tuned inner-first, see CutAnalysis.alone). */
+  ratio: number | null;
+  basis: 'bandwidth' | 'crossover' | 'none';
+  crossoverRatio: number | null;
+  bandwidthRatio: number | null;
+  /** True when ratio < MIN_SEPARATION (or cannot be computed). */
+  flag: boolean;
+  note: string;
+}
+
+export interface OuterVsIdeal {
+  outer: string;
+  inner: string;
+  /** Outer loop margins with the real inner loop (loops around the outer one opened, as in CutAnalysis.alone). */
+  real: LoopMargins;
+  /** Outer loop margins with the inner loop replaced by an ideal (unity) one. */
+  ideal: LoopMargins;
+  idealLoop: TransferFunction;
+}
+
+export interface LoopsReport {
+  cuts: CutAnalysis[];
+  separations: Separation[];
+  outerVsIdeal: OuterVsIdeal[];
+  closedLoopPoles: Complex[];
+  stable: boolean;
+  notes: string[];
+}
+
+/** Blocks on the simple cycles that pass through each wire's branch. */
+function loopBlocksByWire(c: CompiledGraph): Map<string, Set<string>> {
+  const fg = flowGraph(c.ids.length, c.num, c.den, c.branches);
+  const cycles = simpleCycles(fg);
+  const edgeCycles = new Map<string, Set<number>>(); // "from>to" → node set
+  for (const cy of cycles) {
+    const k = cy.nodes.length;
+    for (let i = 0; i < k; i++) {
+      const key = `${cy.nodes[i]}>${cy.nodes[(i + 1) % k]}`;
+      const set = edgeCycles.get(key) ?? new Set<number>();
+      cy.nodes.forEach((v) => set.add(v));
+      edgeCycles.set(key, set);
+    }
+  }
+  const out = new Map<string, Set<string>>();
+  for (const b of c.branches) {
+    if (b.to < 0) continue;
+    const set = edgeCycles.get(`${b.from}>${b.to}`);
+    if (set) out.set(b.wire, new Set([...set].map((v) => c.ids[v])));
+  }
+  return out;
+}
+
+/** Feedback wires: a negative summing-junction input on a loop (where an engineer opens it). */
+export function feedbackWires(c: CompiledGraph): string[] {
+  const onLoop = loopBlocksByWire(c);
+  const neg = c.branches.filter((b) => b.to >= 0 && c.kinds[b.to] === 'sum' && b.weight < 0 && onLoop.has(b.wire));
+  return neg.map((b) => b.wire);
+}
+
+/**
+ * The diagram with the loop opened at `wire` replaced by an ideal one: the signal fed back
+ * (the wire's source) follows its set-point exactly, i.e. the summing junction the wire enters
+ * sees zero error: w·y + Σ other inputs = 0 ⇒ y = −Σ(w_e·x_e)/w.
+ */
+export function withIdealInnerLoop(c: CompiledGraph, wire: string): CompiledGraph {
+  const br = c.wireIndex.get(wire);
+  if (!br || br.to < 0 || c.kinds[br.to] !== 'sum') {
+    throw new InputError(`wire ${wire}: an ideal inner loop needs the cut to enter a summing junction`, { field: 'wire' });
+  }
+  const a = br.from;
+  const j = br.to;
+  const num = c.num.slice();
+  const den = c.den.slice();
+  const delay = c.delay.slice();
+  num[a] = [1];
+  den[a] = [1];
+  delay[a] = 0;
+  const branches: Branch[] = c.branches.filter((b) => b.wire !== wire && b.to !== a);
+  for (const b of c.branches) {
+    if (b.to === j && b.wire !== wire) branches.push({ wire: `${b.wire}~ideal`, from: b.from, to: a, weight: -b.weight / br.weight, toBlock: c.ids[a] });
+  }
+  const kinds = c.kinds.slice();
+  kinds[a] = 'sum';
+  return { ...c, kinds, num, den, delay, branches, wireIndex: new Map(branches.map((b) => [b.wire, b])) };
+}
+
+/** The compiled graph without the given wires (opened loops). */
+export function withoutWires(c: CompiledGraph, wires: readonly string[]): CompiledGraph {
+  if (wires.length === 0) return c;
+  const drop = new Set(wires);
+  const branches = c.branches.filter((b) => !drop.has(b.wire));
+  return { ...c, branches, wireIndex: new Map(branches.map((b) => [b.wire, b])) };
+}
+
+const ratioOf = (a: number | null, b: number | null) => (a !== null && b !== null && b > 0 ? a / b : null);
+
+export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: ReduceOptions = {}): LoopsReport {
+  const c = compiledOf(d, overrides);
+  const notes: string[] = [];
+  const onLoop = loopBlocksByWire(c);
+  let cutList = d.cuts.map((cut) => ({ cut: cut.id, wire: cut.wire, label: cut.label ?? cut.wire, auto: false }));
+  if (cutList.length === 0) {
+    cutList = feedbackWires(c).map((w) => ({ cut: `auto:${w}`, wire: w, label: w, auto: true }));
+    if (cutList.length) notes.push(`the diagram has no cuts: proposed one on each feedback wire (${cutList.map((x) => x.wire).join(', ')})`);
+    else notes.push('the diagram has no cuts and no feedback wire to propose one on');
+  }
+  const cuts: CutAnalysis[] = [];
+  const valid = cutList.filter((k) => {
+    if (onLoop.has(k.wire)) return true;
+    notes.push(`cut ${k.cut} on wire ${k.wire}: no feedback loop passes through this wire`);
+    return false;
+  });
+  const blocksOf = (w: string) => [...onLoop.get(w)!].sort();
+  const encloses = (outer: string[], inner: string[]) => outer.length > inner.length && inner.every((b) => outer.includes(b));
+  for (const k of valid) {
+    const r = loopAtCutDetailed(c, k.wire, undefined, opts);
+    const margins = loopMargins(r.tf);
+    const mine = blocksOf(k.wire);
+    const opened = valid.filter((o) => o !== k && encloses(blocksOf(o.wire), mine)).map((o) => o.wire);
+    const aloneLoop = opened.length ? loopAtCutDetailed(withoutWires(c, opened), k.wire, undefined, opts).tf : r.tf;
+    const aloneMargins = opened.length ? loopMargins(aloneLoop) : margins;
+    cuts.push({
+      ...k,
+      alone: { loop: aloneLoop, margins: aloneMargins, crossover: aloneMargins.gainCrossover, bandwidth: aloneMargins.bandwidth, opened },
+      loop: r.tf,
+      delayHandling: r.delayHandling,
+      hiddenModes: r.hiddenModes,
+      margins,
+      crossover: margins.gainCrossover,
+      bandwidth: margins.bandwidth,
+      blocks: mine,
+      stable: margins.closedLoopStable,
+    });
+  }
+  // Nesting: cut A is inside cut B when A's loop blocks are a strict subset of B's; pair each
+  // inner loop with the smallest loop around it.
+  const separations: Separation[] = [];
+  const outerVsIdeal: OuterVsIdeal[] = [];
+  for (const inner of cuts) {
+    const around = cuts.filter((o) => o !== inner && o.blocks.length > inner.blocks.length && inner.blocks.every((b) => o.blocks.includes(b)));
+    if (around.length === 0) continue;
+    const outer = around.reduce((m, o) => (o.blocks.length < m.blocks.length ? o : m));
+    const bandwidthRatio = ratioOf(inner.alone.bandwidth, outer.alone.bandwidth);
+    const crossoverRatio = ratioOf(inner.alone.crossover, outer.alone.crossover);
+    const ratio = bandwidthRatio ?? crossoverRatio;
+    const basis = bandwidthRatio !== null ? 'bandwidth' : crossoverRatio !== null ? 'crossover' : 'none';
+    const flag = ratio === null || ratio < MIN_SEPARATION;
+    separations.push({
+      inner: inner.cut,
+      outer: outer.cut,
+      ratio,
+      basis,
+      crossoverRatio,
+      bandwidthRatio,
+      flag,
+      note:
+        ratio === null
+          ? 'separation not computable (a loop has no crossover or bandwidth)'
+          : flag
+            ? `inner loop only ${ratio.toFixed(2)}× faster than the outer (${basis}); 3–10× is the usual rule (common practice, no source)`
+            : `inner loop ${ratio.toFixed(2)}× faster than the outer (${basis})`,
+    });
+    try {
+      // Both readings with the loops around the outer one opened (as tuned inner-first).
+      const ideal = withIdealInnerLoop(withoutWires(c, outer.alone.opened), inner.wire);
+      const idealLoop = loopAtCutDetailed(ideal, outer.wire, undefined, opts).tf;
+      outerVsIdeal.push({ outer: outer.cut, inner: inner.cut, real: outer.alone.margins, ideal: loopMargins(idealLoop), idealLoop });
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      notes.push(`outer loop ${outer.cut} against an ideal inner loop ${inner.cut}: ${err.message}`);
+    }
+  }
+  const poles = closedLoopPoles(c, undefined, opts);
+  const scale = Math.max(1, ...poles.map((p) => Math.hypot(p.re, p.im)));
+  return { cuts, separations, outerVsIdeal, closedLoopPoles: poles, stable: poles.every((p) => p.re < -1e-9 * scale), notes };
+}

@@ -1,0 +1,172 @@
+import { type Complex, InputError, type RootLocus, cabs, csub, poly, polyRoots, rootLocus } from '@loopwright/lti';
+import type { Diagram, Sweep } from '../document-types.ts';
+import type { ParameterOverrides } from '../resolve.ts';
+import { type DelayHandling, type ReduceOptions, characteristicPolynomial } from './reduce.ts';
+
+/**
+ * A sweep of one named parameter over the whole diagram (all other parameters fixed).
+ * - exact: the characteristic polynomial is affine in the parameter, P(k) = D0 + k·N0, so the
+ *   exact root-locus geometry of 1 + k·N0/D0 = 0 applies to the whole multi-loop system;
+ * - sampled: any other parameter, roots at sampled values joined into continuous branches.
+ */
+export type SweepLocus =
+  | { mode: 'exact'; parameter: string; value: number; locus: RootLocus; n0: number[]; d0: number[]; delayHandling: DelayHandling }
+  | { mode: 'sampled'; parameter: string; value: number; values: number[]; branches: { s: Complex; k: number }[][]; reason: string; delayHandling: DelayHandling };
+
+export interface SweepOptions extends ReduceOptions {
+  /** Locus for k < 0 (exact mode). */
+  negative?: boolean;
+  /** Largest gain traced (exact mode); default: far enough for the whole geometry. */
+  kMax?: number;
+  /** Samples of a sampled locus (default 60; refined where roots move fast). */
+  samples?: number;
+}
+
+/** Relative size of the affinity residual accepted as round-off. */
+const AFFINE_TOL = 1e-9;
+
+function namedParameter(d: Diagram, name: string) {
+  const p = d.parameters.find((x) => x.name === name);
+  if (!p) {
+    const known = d.parameters.map((x) => x.name).join(', ') || 'none';
+    throw new InputError(`sweep parameter "${name}" is not a named parameter of the diagram (known: ${known})`, { field: 'parameter' });
+  }
+  return p;
+}
+
+/** The range swept: the diagram's sweep of that parameter, else the parameter's slider range, else a decade each side. */
+export function sweepRange(d: Diagram, name: string, value: number): { min: number; max: number; scale: 'linear' | 'log' } {
+  const sw: Sweep | undefined = d.sweeps.find((s) => s.parameter === name);
+  if (sw) return { min: sw.min, max: sw.max, scale: sw.scale };
+  const p = namedParameter(d, name);
+  if (p.min !== undefined && p.max !== undefined) return { min: p.min, max: p.max, scale: p.scale ?? (p.min > 0 ? 'log' : 'linear') };
+  const v = Math.abs(value) || 1;
+  return value >= 0 ? { min: v / 10, max: v * 10, scale: 'log' } : { min: -v * 10, max: -v / 10, scale: 'linear' };
+}
+
+const maxAbs = (p: readonly number[]) => p.reduce((m, c) => Math.max(m, Math.abs(c)), 0);
+
+/**
+ * The characteristic polynomial as D0 + k·N0 when it is affine in the parameter (checked at
+ * three values of one sign, so that sign-restricted fields stay valid), else null.
+ */
+export function affineSplit(d: Diagram, name: string, overrides: ParameterOverrides = {}, opts: ReduceOptions = {}): { n0: number[]; d0: number[]; handling: DelayHandling } | null {
+  const v = overrides[name] ?? namedParameter(d, name).value;
+  const base = v !== 0 ? v : 1;
+  const ks = [base, base * 1.7, base * 0.45];
+  const cps = ks.map((k) => characteristicPolynomial(d, { ...overrides, [name]: k }, opts));
+  const [p1, p2, p3] = cps.map((c) => c.poly);
+  const n0 = poly.scale(poly.sub(p2, p1), 1 / (ks[1] - ks[0]));
+  const d0 = poly.sub(p1, poly.scale(n0, ks[0]));
+  const residual = poly.sub(p3, poly.add(d0, poly.scale(n0, ks[2])));
+  const scale = Math.max(maxAbs(p1), maxAbs(p2), maxAbs(p3));
+  if (maxAbs(residual) > AFFINE_TOL * scale) return null;
+  // Clean round-off: coefficients of N0 far below the scale are zero.
+  const clean = (p: number[]) => poly.trim(p.map((c) => (Math.abs(c) <= 1e-13 * scale ? 0 : c)));
+  return { n0: clean(n0), d0: clean(d0), handling: cps[0].handling };
+}
+
+export function sweepLocus(d: Diagram, parameter: string, overrides: ParameterOverrides = {}, opts: SweepOptions = {}): SweepLocus {
+  const value = overrides[parameter] ?? namedParameter(d, parameter).value;
+  const split = affineSplit(d, parameter, overrides, opts);
+  const range = sweepRange(d, parameter, value);
+  if (split && !poly.isZero(split.n0) && !poly.isZero(split.d0)) {
+    // The whole geometry is traced (branches reach their zeros/asymptotes) unless kMax is given.
+    const locus = rootLocus(split.n0, split.d0, {
+      negative: opts.negative,
+      ...(opts.kMax !== undefined ? { kMax: opts.kMax } : {}),
+      ...(opts.samples ? { samples: opts.samples } : {}),
+    });
+    return { mode: 'exact', parameter, value, locus, n0: split.n0, d0: split.d0, delayHandling: split.handling };
+  }
+  const reason = split
+    ? poly.isZero(split.n0 ?? [])
+      ? `the closed-loop poles do not depend on ${parameter} (it enters outside every loop)`
+      : `the characteristic polynomial is affine in ${parameter} but vanishes at ${parameter} = 0`
+    : `${parameter} does not enter the characteristic polynomial affinely (it enters more than once or in a denominator)`;
+  return sampledLocus(d, parameter, value, range, overrides, opts, reason);
+}
+
+function sampleValues(min: number, max: number, scale: 'linear' | 'log', n: number): number[] {
+  const out: number[] = [];
+  const log = scale === 'log' && min > 0 && max > 0;
+  for (let i = 0; i < n; i++) {
+    const f = n === 1 ? 0 : i / (n - 1);
+    out.push(log ? min * (max / min) ** f : min + (max - min) * f);
+  }
+  return out;
+}
+
+/**
+ * Pairs the roots of one sample with those of the next: repeatedly takes the globally closest
+ * unpaired pair (greedy over sorted distances). Returns perm with next[perm[i]] ↔ prev[i].
+ */
+export function matchRoots(prev: readonly Complex[], next: readonly Complex[]): number[] {
+  const pairs: [number, number, number][] = [];
+  for (let i = 0; i < prev.length; i++) for (let j = 0; j < next.length; j++) pairs.push([cabs(csub(prev[i], next[j])), i, j]);
+  pairs.sort((a, b) => a[0] - b[0]);
+  const perm = new Array<number>(prev.length).fill(-1);
+  const taken = new Array<boolean>(next.length).fill(false);
+  for (const [, i, j] of pairs) {
+    if (perm[i] >= 0 || taken[j]) continue;
+    perm[i] = j;
+    taken[j] = true;
+  }
+  return perm;
+}
+
+function sampledLocus(
+  d: Diagram,
+  parameter: string,
+  value: number,
+  range: { min: number; max: number; scale: 'linear' | 'log' },
+  overrides: ParameterOverrides,
+  opts: SweepOptions,
+  reason: string,
+): SweepLocus {
+  if (!(range.max > range.min)) throw new InputError(`sweep of ${parameter}: max ${range.max} must be above min ${range.min}`, { field: 'max' });
+  let handling: DelayHandling | null = null;
+  const rootsAt = (k: number) => {
+    const cp = characteristicPolynomial(d, { ...overrides, [parameter]: k }, opts);
+    handling ??= cp.handling;
+    return polyRoots(cp.poly);
+  };
+  const values = sampleValues(range.min, range.max, range.scale, Math.max(2, opts.samples ?? 60));
+  let samples = values.map((k) => ({ k, roots: rootsAt(k) }));
+  // Refine: where a matched root jumps by more than 10 % of the local root scale, bisect (bounded).
+  for (let pass = 0; pass < 4; pass++) {
+    const out = [samples[0]];
+    let added = 0;
+    for (let i = 1; i < samples.length; i++) {
+      const a = samples[i - 1];
+      const b = samples[i];
+      const perm = matchRoots(a.roots, b.roots);
+      const scale = Math.max(1e-9, ...a.roots.map(cabs), ...b.roots.map(cabs));
+      const jump = Math.max(0, ...perm.map((j, k) => (j >= 0 ? cabs(csub(a.roots[k], b.roots[j])) : 0)));
+      if (jump > 0.1 * scale && added < 200) {
+        const mid = range.scale === 'log' && a.k > 0 && b.k > 0 ? Math.sqrt(a.k * b.k) : (a.k + b.k) / 2;
+        out.push({ k: mid, roots: rootsAt(mid) });
+        added++;
+      }
+      out.push(b);
+    }
+    samples = out;
+    if (added === 0) break;
+  }
+  // Join into branches; a change in the number of roots starts or ends branches.
+  const branches: { s: Complex; k: number }[][] = samples[0].roots.map((s) => [{ s, k: samples[0].k }]);
+  let open = branches.map((_, i) => i); // branch index of each root of the previous sample
+  for (let i = 1; i < samples.length; i++) {
+    const prev = samples[i - 1].roots;
+    const next = samples[i].roots;
+    const perm = matchRoots(prev, next);
+    const nextOpen = new Array<number>(next.length).fill(-1);
+    perm.forEach((j, r) => { if (j >= 0) nextOpen[j] = open[r]; });
+    for (let j = 0; j < next.length; j++) {
+      if (nextOpen[j] < 0) { nextOpen[j] = branches.length; branches.push([]); }
+      branches[nextOpen[j]].push({ s: next[j], k: samples[i].k });
+    }
+    open = nextOpen;
+  }
+  return { mode: 'sampled', parameter, value, values: samples.map((s) => s.k), branches, reason, delayHandling: handling! };
+}
