@@ -45,6 +45,12 @@ export interface RootLocus {
   kRange: [number, number];
   /** Continuity bound honoured between consecutive branch points: |Δs| ≤ fraction·(|s| + scale). */
   stepBound: { fraction: number; scale: number };
+  /**
+   * n = m only: the gain k* = −lead D/lead N where D + kN loses a degree (one root passes through
+   * infinity), when it lies in the traced range; the trace steps over |k| within 0.1 % of it (so a
+   * special point at exactly k* is reported but not traced), and branches split there. Else null.
+   */
+  degreeDropGain: number | null;
 }
 
 export interface RootLocusOptions {
@@ -94,8 +100,8 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
     throw new InputError(`samples must be a whole number from 2 to 100000, got ${samples}`, { field: 'samples' });
   }
 
-  const poleClusters = clusterRoots(n > 0 ? polyRoots(D) : []);
-  const zeroClusters = clusterRoots(m > 0 ? polyRoots(N) : []);
+  const poleClusters = clusterRoots(n > 0 ? polyRoots(D) : [], D);
+  const zeroClusters = clusterRoots(m > 0 ? polyRoots(N) : [], N);
   const poles = expand(poleClusters);
   const zeros = expand(zeroClusters);
   const c = P.lead(N) / P.lead(D);
@@ -142,7 +148,7 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
   if (kMax <= kMin) throw new InputError(`k range reversed: kMin ${kMin} is not below kMax ${kMax}`, { field: 'kMin' });
 
   const tracer = new Tracer(N, D, sgn, fraction, scale, breakaways, crossings);
-  const { branches, gains } = tracer.trace(kMin, kMax, samples, poles);
+  const { branches, gains, kStar } = tracer.trace(kMin, kMax, samples, poles);
 
   return {
     negative,
@@ -160,6 +166,7 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
     gains,
     kRange: [sgn * kMin, sgn * kMax],
     stepBound: { fraction, scale },
+    degreeDropGain: Number.isFinite(kStar) ? sgn * kStar : null,
   };
 }
 
@@ -222,12 +229,37 @@ interface Cluster {
   multiplicity: number;
 }
 
-/** Groups numerically split repeated roots and snaps them to their (conjugate-symmetric) centre. */
-function clusterRoots(roots: Complex[]): Cluster[] {
+/**
+ * Groups numerically split repeated roots and snaps them to one centre. A root of multiplicity μ
+ * is a simple root of the (μ−1)-th derivative, so the centre is polished there by Newton's method
+ * (full precision instead of the ~eps^(1/μ) scatter of the split roots).
+ */
+function clusterRoots(roots: Complex[], p?: readonly number[]): Cluster[] {
   return rootClusters(roots, 1e-5).map((cl) => {
-    const im = Math.abs(cl.center.im) <= 1e-9 * (1 + cabs(cl.center)) ? 0 : cl.center.im;
-    return { center: cx(cl.center.re, im), multiplicity: cl.multiplicity };
+    let z = cl.center;
+    if (p && cl.multiplicity > 1) {
+      let q: number[] = p.slice();
+      for (let i = 1; i < cl.multiplicity; i++) q = P.derivative(q);
+      z = newtonComplex(q, z);
+    }
+    const im = Math.abs(z.im) <= 1e-9 * (1 + cabs(z)) ? 0 : z.im;
+    return { center: cx(z.re, im), multiplicity: cl.multiplicity };
   });
+}
+
+function newtonComplex(q: readonly number[], z0: Complex): Complex {
+  const d = P.derivative(q);
+  let z = z0;
+  let fz = cabs(P.evalComplex(q, z));
+  for (let i = 0; i < 8 && fz > 0; i++) {
+    const step = cdiv(P.evalComplex(q, z), P.evalComplex(d, z));
+    const nz = cx(z.re - step.re, z.im - step.im);
+    const fn = cabs(P.evalComplex(q, nz));
+    if (!(fn < fz)) break;
+    z = nz;
+    fz = fn;
+  }
+  return z;
 }
 const expand = (cls: Cluster[]): Complex[] => cls.flatMap((c) => new Array<Complex>(c.multiplicity).fill(c.center));
 
@@ -433,9 +465,9 @@ class Tracer {
     this.im = new Float64Array(this.n);
   }
 
-  trace(kMin: number, kMax: number, samples: number, poles: Complex[]): { branches: LocusPoint[][]; gains: number[] } {
+  trace(kMin: number, kMax: number, samples: number, poles: Complex[]): { branches: LocusPoint[][]; gains: number[]; kStar: number } {
     const n = this.n;
-    if (n === 0) return { branches: [], gains: [] };
+    if (n === 0) return { branches: [], gains: [], kStar: NaN };
     const sgn = this.sgn;
     // Base magnitudes: geometric from kMax·1e−7 (or kMin) to kMax, plus 0 and the special gains.
     const lo = kMin > 0 ? kMin : kMax * 1e-7;
@@ -460,7 +492,11 @@ class Tracer {
       return i === 0 || all[i - 1] !== k;
     });
     const gap = 1e-3;
-    if (Number.isFinite(kStar)) all = all.filter((k) => Math.abs(k - kStar) > gap * kStar);
+    if (Number.isFinite(kStar)) {
+      all = all.filter((k) => Math.abs(k - kStar) > gap * kStar);
+      all.push(kStar * (1 - gap), kStar * (1 + gap));
+      all.sort((a, b) => a - b);
+    }
 
     const tracks: LocusPoint[][] = [];
     for (let i = 0; i < n; i++) tracks.push([]);
@@ -491,7 +527,7 @@ class Tracer {
       kPrev = kNext;
     }
     pieces.push(...tracks);
-    return { branches: joinPieces(pieces, this.fraction, this.scale), gains };
+    return { branches: joinPieces(pieces, this.fraction, this.scale), gains, kStar };
   }
 
   /** Steps from |k| = ka (roots ra) to kb, halving the step until the continuity bound holds. */

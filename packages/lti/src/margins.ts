@@ -4,6 +4,7 @@ import { type FrequencyEvaluator, frequencyEvaluator, frequencyRange } from './f
 import * as P from './poly.ts';
 import { polyRoots } from './roots.ts';
 import type { TransferFunction } from './transfer.ts';
+import { MAX_PADE_ORDER, padeDelay, padeOrderFor } from './pade.ts';
 
 /**
  * Stability margins of a loop transfer L(s) (characteristic equation 1 + L = 0), from the
@@ -50,7 +51,7 @@ export interface LoopMargins {
 }
 
 export interface MarginOptions {
-  /** Padé order for the closed-loop poles of a loop with dead time (default 6, capped by MAX_ORDER). */
+  /** Padé order for the closed-loop poles of a loop with dead time (default: the smallest within 1° of the delay's phase up to twice the highest crossover, at least 3; capped by MAX_ORDER). */
   padeOrder?: number;
   /** Sweep limits (rad/s); by default decades around the poles, zeros and 1/T, widened until |L| has crossed 1. */
   omegaMin?: number;
@@ -66,8 +67,10 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
   const num = P.trim(L.rational.num);
   const den = P.trim(L.rational.den);
   const g = frequencyEvaluator(L);
-  const { poles: clPoles, padeOrder } = closedLoopPolesOf(num, den, L.delay, opts.padeOrder);
-  const closedLoopStable = clPoles.every((p) => p.re < -STABLE_TOL * (1 + cabs(p)));
+  const verdict = (orderHint: number) => {
+    const { poles, padeOrder } = closedLoopPolesOf(num, den, L.delay, opts.padeOrder ?? orderHint);
+    return { closedLoopPoles: poles, padeOrder, closedLoopStable: poles.every((p) => p.re < -STABLE_TOL * (1 + cabs(p))) };
+  };
   const empty: LoopMargins = {
     gainMargin: null,
     gainMarginDb: null,
@@ -83,15 +86,15 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
     peakComplementary: null,
     peakComplementaryFrequency: null,
     bandwidth: null,
-    closedLoopStable,
-    closedLoopPoles: clPoles,
-    padeOrder,
+    closedLoopStable: false,
+    closedLoopPoles: [],
+    padeOrder: null,
     gainCrossovers: [],
     phaseCrossovers: [],
     gainCrossoverDetails: [],
     phaseCrossoverDetails: [],
   };
-  if (num.length === 0) return { ...empty, peakSensitivity: 1, peakSensitivityFrequency: 0, peakComplementary: 0, peakComplementaryFrequency: 0 };
+  if (num.length === 0) return { ...empty, ...verdict(1), peakSensitivity: 1, peakSensitivityFrequency: 0, peakComplementary: 0, peakComplementaryFrequency: 0 };
 
   const grid = sweepGrid(L, g, opts);
   const n = grid.length;
@@ -157,8 +160,13 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
     return v.mag / Math.hypot(1 + v.re, v.im);
   });
 
+  // Padé order: the smallest whose phase stays within 1° of the dead time up to twice the highest
+  // crossover (lti-core's padeOrderFor), at least 3; an explicit opts.padeOrder wins.
+  const wRef = 2 * Math.max(1e-12, ...gainCrossoverDetails.map((c) => c.omega), upper ? upper.omega : 0);
+  const hint = L.delay > 0 ? Math.max(3, padeOrderFor(L.delay, wRef)) : 1;
   return {
     ...empty,
+    ...verdict(hint),
     gainMargin: upper ? upper.gainFactor : null,
     gainMarginDb: upper ? 20 * Math.log10(upper.gainFactor) : null,
     phaseCrossover: upper ? upper.omega : null,
@@ -193,9 +201,11 @@ export function closedLoopPolesOf(
   if (delay > 0 && cn.length > 0) {
     const room = MAX_ORDER - Math.max(cd.length, cn.length) + 1;
     const want = order ?? 6;
-    if (!Number.isInteger(want) || want < 1) throw new InputError(`Padé order must be a whole number ≥ 1, got ${want}`, { field: 'padeOrder' });
+    if (!Number.isInteger(want) || want < 1 || want > MAX_PADE_ORDER) {
+      throw new InputError(`Padé order must be a whole number from 1 to ${MAX_PADE_ORDER}, got ${want}`, { field: 'padeOrder' });
+    }
     padeOrder = Math.max(1, Math.min(want, room));
-    const pd = padeLocal(delay, padeOrder);
+    const pd = padeDelay(delay, padeOrder);
     cn = P.mul(cn, pd.num);
     cd = P.mul(cd, pd.den);
   }
@@ -342,20 +352,3 @@ function sweepGrid(L: TransferFunction, g: FrequencyEvaluator, opts: MarginOptio
   return pts;
 }
 
-/**
- * (n, n) Padé approximant of e^(−sT), closed form: N(s) = Σ c_k (−sT)^k, D(s) = Σ c_k (sT)^k,
- * c_k = (2n−k)!·n! / ((2n)!·k!·(n−k)!) (Golub & Van Loan, Sec. 9.3.1 (from memory)).
- * Local until lti-core's padeDelay is wired in.
- */
-function padeLocal(T: number, n: number): { num: number[]; den: number[] } {
-  const num: number[] = [];
-  const den: number[] = [];
-  let c = 1;
-  for (let k = 0; k <= n; k++) {
-    if (k > 0) c *= (n - k + 1) / (k * (2 * n - k + 1));
-    const tk = c * T ** k;
-    num.push(k % 2 ? -tk : tk);
-    den.push(tk);
-  }
-  return { num, den };
-}
