@@ -15,3 +15,4 @@ export * from './pade.ts';
 export * from './routh.ts';
 export * from './cancel.ts';
 export * from './exact-response.ts';
+export * from './metrics.ts';
