@@ -18,3 +18,8 @@ export * from './analysis/cuts.ts';
 export * from './analysis/sweep.ts';
 export * from './analysis/loops.ts';
 export * from './checks/analytic.ts';
+// checkDiagram (structural + analytical findings) and the demo diagrams (graph-document helper).
+export * from './checks/diagram.ts';
+export { demoDiagrams } from './demos/index.ts';
+export { positioningAxis } from './demos/positioning-axis.ts';
+export { heatingCascade } from './demos/heating-cascade.ts';
