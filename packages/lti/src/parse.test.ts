@@ -86,6 +86,19 @@ describe('parseTransferFunction: values', () => {
     expect(e('1e-3s + 2.5E+2').num).toEqual([250, 1e-3]);
   });
 
+  it('sums share common denominator factors instead of multiplying them in twice', () => {
+    // 1/s + 1/(s(s+1)) = (s + 2)/(s(s + 1)): exact powers of s.
+    const a = parseTransferFunction('1/s + 1/(s*(s+1))', {}).rational;
+    expect(a.den).toEqual([0, 1, 1]);
+    expect(a.num).toEqual([2, 1]);
+    // A shared complex pair: 1/((s+1)(s²+2s+5)) + 1/(s²+2s+5) = (s + 2)/((s+1)(s²+2s+5)).
+    const b = parseTransferFunction('1/((s+1)*(s^2+2*s+5)) + 1/(s^2+2*s+5)', {}).rational;
+    expect(b.den.length).toBe(4);
+    for (const x of [0.3, 2.2]) expect(revalReal(b, x)).toBeCloseTo((x + 2) / ((x + 1) * (x * x + 2 * x + 5)), 12);
+    // Nothing shared: the plain product.
+    expect(parseTransferFunction('1/(s+1) + 1/(s+2)', {}).rational.den).toEqual([2, 3, 1]);
+  });
+
   it('parseScalar evaluates numbers over parameters, and refuses s', () => {
     expect(parseScalar('2*Kv', { Kv: 1.5 })).toBe(3);
     expect(parseScalar('1/(4*zeta)^2', { zeta: 0.5 })).toBe(0.25);

@@ -1,5 +1,7 @@
 import { create, parseDependencies, type MathNode } from 'mathjs';
+import { type Complex, cabs, csub } from './complex.ts';
 import { InputError, MAX_ORDER } from './errors.ts';
+import { polyRoots } from './roots.ts';
 import * as P from './poly.ts';
 import { type Rational, S, radd, rational, rconst, rdiv, relativeDegree, rmul, rneg, rpow } from './rational.ts';
 import { type TransferFunction, transfer } from './transfer.ts';
@@ -283,7 +285,7 @@ class Evaluator {
             sp,
           );
         }
-        return { r: radd(a.r, bb.r), delay: a.delay };
+        return { r: addOverCommonDenominator(a.r, bb.r), delay: a.delay };
       }
       case '*':
         return { r: rmul(a.r, b.r), delay: a.delay + b.delay };
@@ -352,6 +354,48 @@ class Evaluator {
     const x = this.evaluate(n.args[0]);
     return { r: rmul(f.r, x.r), delay: f.delay + x.delay };
   }
+}
+
+/**
+ * a + b over the least common denominator: factors shared by both denominators (found as
+ * common roots) are not multiplied in twice, so `1/s + 1/(s*(s+1))` is (s + 2)/(s(s + 1))
+ * instead of gaining a spurious pole–zero pair at 0 that would later look like a hidden mode.
+ * Falls back to the plain product of denominators when the division by the shared factor is
+ * not clean (relative remainder above 1e-9).
+ */
+function addOverCommonDenominator(a: Rational, b: Rational): Rational {
+  const plain = () => radd(a, b);
+  let da = P.trim(a.den);
+  let db = P.trim(b.den);
+  if (da.length <= 1 || db.length <= 1) return plain();
+  if (da.length === db.length && da.every((x, i) => x === db[i])) return plain(); // radd handles equal denominators
+  // Exact powers of s first (integrators are the common case), then the remaining common roots.
+  let k = 0;
+  while (da[k] === 0 && db[k] === 0) k++;
+  da = da.slice(k);
+  db = db.slice(k);
+  let g: number[] = [1];
+  if (da.length > 1 && db.length > 1) {
+    const rb = polyRoots(db);
+    const used = new Array<boolean>(rb.length).fill(false);
+    const common: Complex[] = [];
+    for (const z of polyRoots(da)) {
+      const j = rb.findIndex((w, i) => !used[i] && cabs(csub(z, w)) <= 1e-9 * Math.max(1, cabs(z)));
+      if (j >= 0) {
+        used[j] = true;
+        common.push(z);
+      }
+    }
+    // Keep only complete conjugate pairs so that g is real.
+    const paired = common.filter((z) => z.im === 0 || common.some((w) => w.re === z.re && w.im === -z.im));
+    if (paired.length) g = P.fromRoots(paired);
+  }
+  const qa = P.divmod(da, g);
+  const qb = P.divmod(db, g);
+  const clean = (r: number[], p: number[]) => r.every((x) => Math.abs(x) <= 1e-9 * p.reduce((m, c) => Math.max(m, Math.abs(c)), 0));
+  if (!clean(qa.r, da) || !clean(qb.r, db)) return plain();
+  // a.num/(s^k g qa) + b.num/(s^k g qb) = (a.num qb + b.num qa)/(s^k g qa qb) = (…)/(a.den qb).
+  return rational(P.add(P.mul(a.num, qb.q), P.mul(b.num, qa.q)), P.mul(a.den, qb.q));
 }
 
 function run(text: string, params: Record<string, number>, allowS: boolean): Value {
