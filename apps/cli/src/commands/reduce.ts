@@ -1,12 +1,80 @@
-import type { Command } from '../io.ts';
+import { closedLoop, describeRef } from '@loopwright/graph';
+import { poly } from '@loopwright/lti';
+import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
+import { UsageError, type Command } from '../io.ts';
+import { checkSets, fmtNumber, fmtRoots, fmtTransfer, jsonForm, readDiagram, signalRef } from './diagram-input.ts';
 
-// Placeholder until the owning issue lands this command; it refuses with exit code 1.
+const help = `loopwright reduce FILE --from A --to B [--set NAME=VALUE ...] [--pade-order N] [--json]
+
+Closed-loop transfer function of a diagram from A to B, every loop closed, exact as a rational
+function (times a dead time where it factors out of every path).
+
+  FILE            a diagram (.loop.json)
+  --from A        where a signal is injected: a source block, any block (added to its output)
+                  or a wire (added on that wire); write block:ID or wire:ID if an id is both
+  --to B          what is measured: a probe, a block's output or a wire
+  --set NAME=V    override a named parameter (repeatable)
+  --pade-order N  Padé order for dead times inside loops (default 3)
+  --json          machine-readable output: numeratorAscending/denominatorAscending are
+                  coefficients in ascending powers of s; "text" is highest power first
+
+Example: npx loopwright reduce axis.loop.json --from ref --to pos --set Kpos=40
+`;
+
 export const reduceCommand: Command = {
   name: 'reduce',
-  summary: '(being built)',
-  help: 'loopwright reduce: not available yet',
-  async run(_argv, io) {
-    io.stderr('loopwright reduce: not available yet\n');
-    return 1;
+  summary: 'closed-loop transfer function between two points of a diagram',
+  help,
+  async run(argv, io) {
+    const a = parseArgs(argv, ['from', 'to', 'set', 'pade-order'], ['json']);
+    if (a.positional.length !== 1) throw new UsageError('reduce: give exactly one diagram FILE (see --help)');
+    const fromText = one(a, 'from');
+    const toText = one(a, 'to');
+    if (!fromText || !toText) throw new UsageError('reduce: both --from and --to are needed (see --help)');
+    const sets = parseAssignments(all(a, 'set'), 'set');
+    const padeOrder = numberFlag(a, 'pade-order');
+    const d = await readDiagram(io, a.positional[0]);
+    checkSets(d, sets);
+    const from = signalRef(d, fromText, 'from');
+    const to = signalRef(d, toText, 'to');
+    const r = closedLoop(d, from, to, sets, padeOrder !== undefined ? { padeOrder } : {});
+    const numA = r.tf.rational.num.slice();
+    const denA = r.tf.rational.den.slice();
+    const text = fmtTransfer(numA, denA, r.delay);
+    if (has(a, 'json')) {
+      io.stdout(
+        toJson(
+          jsonForm({
+            from: describeRef(from),
+            to: describeRef(to),
+            parameters: sets,
+            numeratorAscending: numA,
+            denominatorAscending: denA,
+            text,
+            poles: r.poles,
+            zeros: r.zeros,
+            gain: r.gain,
+            dcGain: r.dcGain,
+            delay: r.delay,
+            delayHandling: r.delayHandling,
+            hiddenModes: r.hiddenModes,
+          }),
+        ),
+      );
+      return 0;
+    }
+    const lines = [
+      `T(s) from ${describeRef(from)} to ${describeRef(to)}:`,
+      `  T(s) = ${text}`,
+      `  numerator   (highest power first): ${poly.format(numA)}`,
+      `  denominator (highest power first): ${poly.format(denA)}`,
+      `  poles: ${fmtRoots(r.poles)}`,
+      `  zeros: ${fmtRoots(r.zeros)}`,
+      `  gain (leading coefficient): ${fmtNumber(r.gain)}   static gain T(0): ${fmtNumber(r.dcGain)}`,
+      `  dead time: ${r.delay > 0 ? `${fmtNumber(r.delay)} s` : 'none'}   (${r.delayHandling.note})`,
+    ];
+    if (r.hiddenModes.length) lines.push(`  cancelled (hidden) modes: ${fmtRoots(r.hiddenModes)}`);
+    io.stdout(lines.join('\n') + '\n');
+    return 0;
   },
 };

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { type Complex, cabs, csub, cx, poly, polyRoots } from '@loopwright/lti';
+import { type Complex, cabs, csub, poly, polyRoots } from '@loopwright/lti';
 import { closedLoop, closedLoopPoles } from './reduce.ts';
 import { closedLoopPolesStateSpace } from './state-space.ts';
 import { sweepLocus } from './sweep.ts';
@@ -108,6 +108,11 @@ describe('diagram reduction with catalogue blocks', () => {
     const b = closedLoopPolesStateSpace(d);
     expect(rootError(b, a)).toBeLessThan(1e-6);
     expect(t.poles.every((p) => p.re < 0)).toBe(true);
-    expect(cx(0).re).toBe(0);
+    // The current PI's zero −1/0.002 cancels the winding pole −1/0.002: reported as a hidden
+    // mode (still a closed-loop pole of the diagram), and left out of T.
+    expect(t.hiddenModes.length).toBe(1);
+    expect(Math.abs(t.hiddenModes[0].re + 500)).toBeLessThan(1e-6);
+    expect(a.some((p) => Math.abs(p.re + 500) < 1e-6)).toBe(true);
+    expect(t.poles.length).toBe(a.length - 1);
   });
 });

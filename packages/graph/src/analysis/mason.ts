@@ -160,15 +160,18 @@ export function determinantPoly(g: FlowGraph, cycles: readonly Cycle[], excluded
   }
   if (common.length === 0) return [];
   const used = new Array<boolean>(g.n).fill(false);
-  let sum: number[] = [];
+  const acc = new SignedSum();
   let terms = 0;
   const addTerm = (sign: number) => {
     let p: number[] = [sign];
+    let pa: number[] = [1];
     for (const v of loopNodes) {
-      p = poly.mul(p, used[v] ? g.num[v] : g.den[v]);
+      const f = used[v] ? g.num[v] : g.den[v];
+      p = poly.mul(p, f);
       if (p.length === 0) return;
+      pa = poly.mul(pa, f.map(Math.abs));
     }
-    sum = poly.add(sum, p);
+    acc.add(p, pa);
   };
   const choose = (start: number, sign: number) => {
     if (++terms > MAX_TERMS) throw new InputError('too many combinations of non-touching loops: too interconnected for exact reduction');
@@ -182,7 +185,26 @@ export function determinantPoly(g: FlowGraph, cycles: readonly Cycle[], excluded
     }
   };
   choose(0, 1);
-  return poly.mul(common, sum);
+  return poly.mul(common, acc.value());
+}
+
+/**
+ * A sum of polynomial terms that also sums their coefficient magnitudes, so that a coefficient
+ * which cancels to round-off (e.g. 1000 − 1000 giving 1e−13) is set to exactly zero: anything
+ * below a few ulps of the magnitudes that formed it carries no information.
+ */
+class SignedSum {
+  private sum: number[] = [];
+  private mag: number[] = [];
+  add(p: readonly number[], pAbs: readonly number[]): void {
+    for (let i = 0; i < p.length; i++) {
+      this.sum[i] = (this.sum[i] ?? 0) + p[i];
+      this.mag[i] = (this.mag[i] ?? 0) + (pAbs[i] ?? Math.abs(p[i]));
+    }
+  }
+  value(): number[] {
+    return poly.trim(this.sum.map((c, i) => (Math.abs(c) <= 1e-12 * this.mag[i] ? 0 : c)));
+  }
 }
 
 /**
@@ -191,7 +213,7 @@ export function determinantPoly(g: FlowGraph, cycles: readonly Cycle[], excluded
  */
 export function transmission(g: FlowGraph, from: number, to: number, cycles = simpleCycles(g)): { num: number[]; den: number[] } {
   const den = determinantPoly(g, cycles);
-  let num: number[] = [];
+  const acc = new SignedSum();
   for (const p of forwardPaths(g, from, to)) {
     const excluded = new Array<boolean>(g.n).fill(false);
     let gain: number[] = [p.weight];
@@ -200,7 +222,8 @@ export function transmission(g: FlowGraph, from: number, to: number, cycles = si
       gain = poly.mul(gain, g.num[v]);
     }
     if (gain.length === 0) continue;
-    num = poly.add(num, poly.mul(gain, determinantPoly(g, cycles, excluded)));
+    const term = poly.mul(gain, determinantPoly(g, cycles, excluded));
+    acc.add(term, term.map(Math.abs));
   }
-  return { num, den };
+  return { num: acc.value(), den };
 }

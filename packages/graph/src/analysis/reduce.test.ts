@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { type Complex, cabs, csub, cx, poly, polyRoots, revalComplex } from '@loopwright/lti';
-import { closedLoop, characteristicPolynomial, closedLoopPoles } from './reduce.ts';
+import { cleanRoundOff, closedLoop, characteristicPolynomial, closedLoopPoles } from './reduce.ts';
 import { loopAtCut } from './cuts.ts';
 import { assembleStateSpace, closedLoopPolesStateSpace, evaluateStateSpace } from './state-space.ts';
 import { graph, nestedChain, probeBlock, sourceBlock, sumBlock, tfBlock, wires } from './test-graphs.ts';
@@ -187,5 +187,18 @@ describe('dead time', () => {
     // L at the cut keeps both dead times exact: the loop is opened there.
     const L = loopAtCut(g, 'fb');
     expect(L.delay).toBe(1);
+  });
+});
+
+describe('round-off cleaning after a cancellation', () => {
+  it('drops a coefficient at round-off level and keeps a genuine small one', () => {
+    // (s² + 100)(s² + 2s + 4) = s⁴ + 2s³ + 104s² + 200s + 400; perturb the s³ term by 1e-13.
+    const exact = poly.mul([100, 0, 1], [4, 2, 1]);
+    const noisy = poly.mul([100, 1e-13, 1], [4, 2, 1]);
+    expect(cleanRoundOff(poly.mul([100, 0, 1], [4, 0, 1]).map((c, i) => (i === 1 ? 3e-14 : c)))[1]).toBe(0);
+    expect(cleanRoundOff(noisy)).toEqual(poly.trim(noisy)); // every coefficient is genuine here
+    expect(cleanRoundOff(exact)).toEqual(exact);
+    // A lightly damped pair s² + 0.002s + 1 keeps its damping term (1e-3 ≫ 1e-12).
+    expect(cleanRoundOff([1, 0.002, 1])).toEqual([1, 0.002, 1]);
   });
 });

@@ -179,6 +179,28 @@ export function loopMembers(n: number, cycles: readonly Cycle[]): boolean[] {
   return inLoop;
 }
 
+/**
+ * Zeroes coefficients left at round-off level when a polynomial is rebuilt from its roots
+ * (after a cancellation): c_k is dropped when it is below 1e−12 of the largest neighbouring
+ * coefficient scaled by the root scale ρ = |c_lo/c_hi|^(1/(hi−lo)), i.e. of max_j |c_j|·ρ^(j−k),
+ * the size at which c_k would move any root by more than round-off.
+ */
+export function cleanRoundOff(p: readonly number[]): number[] {
+  const t = poly.trim(p);
+  let lo = 0;
+  while (lo < t.length && t[lo] === 0) lo++;
+  const hi = t.length - 1;
+  if (hi - lo < 2) return t;
+  const rho = Math.abs(t[lo] / t[hi]) ** (1 / (hi - lo));
+  if (!(rho > 0) || !Number.isFinite(rho)) return t;
+  return poly.trim(t.map((c, k) => {
+    if (k <= lo || k >= hi) return c;
+    let scale = 0;
+    for (let j = lo; j <= hi; j++) scale = Math.max(scale, Math.abs(t[j]) * rho ** (j - k));
+    return Math.abs(c) <= 1e-12 * scale ? 0 : c;
+  }));
+}
+
 /** Normalises and cancels a raw transmission into a Reduction (poles, zeros, gains, hidden modes). */
 export function reductionOf(raw: RawTransmission, opts: ReduceOptions = {}): Reduction {
   if (poly.isZero(raw.den)) throw new InputError('the diagram is ill-posed: its interconnection determinant is identically zero (an algebraic loop with loop gain 1?)');
@@ -187,8 +209,8 @@ export function reductionOf(raw: RawTransmission, opts: ReduceOptions = {}): Red
   let hidden: Complex[] = [];
   if (!poly.isZero(r0.num)) {
     const c = cancelCommon(r0, opts.cancelTolerance ?? 1e-7);
-    r = c.result;
     hidden = c.cancelled;
+    r = hidden.length ? rational(cleanRoundOff(c.result.num), cleanRoundOff(c.result.den)) : c.result;
   }
   const poles = polyRoots(r.den);
   const zeros = poly.isZero(r.num) ? [] : polyRoots(r.num);
