@@ -60,6 +60,8 @@ describe('parseTransferFunction: values', () => {
     const sum = parseTransferFunction('exp(-s)/(s+1) + exp(-s)*2', {});
     expect(sum.delay).toBe(1);
     expect(revalReal(sum.rational, 2)).toBeCloseTo(1 / 3 + 2, 12);
+    // The zero function carries no dead time.
+    expect(parseTransferFunction('0*exp(-s)', {}).delay).toBe(0);
     // A dead time divided by a smaller one leaves the difference.
     expect(parseTransferFunction('exp(-2*s)/exp(-0.5*s)', {}).delay).toBe(1.5);
   });

@@ -418,7 +418,8 @@ function run(text: string, params: Record<string, number>, allowS: boolean): Val
 export function parseTransferFunction(text: string, params: Record<string, number> = {}): TransferFunction {
   const v = run(text, params, true);
   const clean = (c: readonly number[]) => c.map((x) => x + 0); // no −0 in results
-  return transfer(rational(clean(v.r.num), clean(v.r.den)), v.delay);
+  // The zero function carries no dead time (0·e^(−sT) = 0).
+  return transfer(rational(clean(v.r.num), clean(v.r.den)), P.isZero(v.r.num) ? 0 : v.delay);
 }
 
 /** Parses a plain number expression over parameters (`2*Kv`, `1/(4*zeta)`); `s` is an error. */
