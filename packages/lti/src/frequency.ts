@@ -67,17 +67,35 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
     });
   const fz = factors(zeros);
   const fp = factors(poles);
+  // N(jω), D(jω) from even/odd parts (Horner in ω², no allocation): p(jω) = E(−ω²) + jω·O(−ω²).
+  const split = (p: readonly number[]) => {
+    const even: number[] = [];
+    const odd: number[] = [];
+    for (let i = 0; i < p.length; i++) (i % 2 ? odd : even).push(p[i]);
+    return { even, odd };
+  };
+  const ns = split(num);
+  const ds = split(den);
+  const horner = (c: readonly number[], x: number) => {
+    let v = 0;
+    for (let i = c.length - 1; i >= 0; i--) v = v * x + c[i];
+    return v;
+  };
+  const nfz = fz.length;
+  const nfp = fp.length;
   const evalAt = (w: number): FrequencyPoint => {
-    const s = { re: 0, im: w };
-    const n = P.evalComplex(num, s);
-    const d = P.evalComplex(den, s);
+    const x = -w * w;
+    const nre = horner(ns.even, x);
+    const nim = w * horner(ns.odd, x);
+    const dre = horner(ds.even, x);
+    const dim = w * horner(ds.odd, x);
     let phase = anchor;
-    for (const f of fz) phase += Math.atan2(-w * f.ar || 0, 1 - w * f.br) * DEG;
-    for (const f of fp) phase -= Math.atan2(-w * f.ar || 0, 1 - w * f.br) * DEG;
+    for (let i = 0; i < nfz; i++) phase += Math.atan2(-w * fz[i].ar || 0, 1 - w * fz[i].br) * DEG;
+    for (let i = 0; i < nfp; i++) phase -= Math.atan2(-w * fp[i].ar || 0, 1 - w * fp[i].br) * DEG;
     // Value N/D·e^(−jωT).
-    const dd = d.re * d.re + d.im * d.im;
-    let re = (n.re * d.re + n.im * d.im) / dd;
-    let im = (n.im * d.re - n.re * d.im) / dd;
+    const dd = dre * dre + dim * dim;
+    let re = (nre * dre + nim * dim) / dd;
+    let im = (nim * dre - nre * dim) / dd;
     if (T > 0) {
       const cs = Math.cos(w * T);
       const sn = Math.sin(w * T);
@@ -162,5 +180,6 @@ export function frequencyRange(tf: TransferFunction, marginDecades = 2): [number
   if (f.length === 0) return [10 ** -marginDecades, 10 ** marginDecades];
   const lo = Math.min(...f);
   const hi = Math.max(...f);
-  return [10 ** (Math.floor(Math.log10(lo)) - marginDecades), 10 ** (Math.ceil(Math.log10(hi)) + marginDecades)];
+  // (the 1e−9 keeps a numerically computed pole at 10.000000001 from adding a decade)
+  return [10 ** (Math.floor(Math.log10(lo) + 1e-9) - marginDecades), 10 ** (Math.ceil(Math.log10(hi) - 1e-9) + marginDecades)];
 }

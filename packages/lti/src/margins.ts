@@ -100,10 +100,14 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
   const n = grid.length;
   const mag = new Float64Array(n);
   const ph = new Float64Array(n);
+  const re = new Float64Array(n);
+  const im = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const v = g(grid[i]);
     mag[i] = v.mag;
     ph[i] = v.phaseDeg;
+    re[i] = v.re;
+    im[i] = v.im;
   }
 
   // Gain crossovers: sign changes of ln|L|, refined by bisection in log ω on the exact |L(jω)|.
@@ -113,7 +117,7 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
     const b = mag[i + 1] - 1;
     if (!(Number.isFinite(a) && Number.isFinite(b))) continue;
     if (a === 0 || (a > 0) !== (b > 0) && b !== 0) {
-      const w = a === 0 ? grid[i] : bisectLog(grid[i], grid[i + 1], (x) => Math.log(g(x).mag));
+      const w = a === 0 ? grid[i] : refineLog(grid[i], grid[i + 1], (x) => Math.log(g(x).mag));
       const phase = g(w).phaseDeg;
       const pm = wrap180(180 + phase);
       gainCrossoverDetails.push({ omega: w, phaseMarginDeg: pm, delayMargin: pm / DEG / w });
@@ -128,12 +132,15 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
     const pa = ph[i];
     const pb = ph[i + 1];
     if (!Number.isFinite(pa) || !Number.isFinite(pb)) continue;
+    // Crossovers where |L| < 1e−6 (a gain factor above 10⁶, 120 dB) are not sought: far above
+    // every breakpoint a dead time adds one every 2π/T rad/s and none of them matters.
+    if (mag[i] < 1e-6 && mag[i + 1] < 1e-6) continue;
     const lo = Math.min(pa, pb);
     const hi = Math.max(pa, pb);
     // Levels ℓ with lo < ℓ ≤ hi (a level met exactly at a grid point counts once).
     for (let k = Math.floor((lo + 180) / 360) + 1; -180 + 360 * k <= hi; k++) {
       const level = -180 + 360 * k;
-      const w = level === pb ? grid[i + 1] : bisectLog(grid[i], grid[i + 1], (x) => g(x).phaseDeg - level);
+      const w = level === pb ? grid[i + 1] : refineLog(grid[i], grid[i + 1], (x) => g(x).phaseDeg - level);
       const v = g(w);
       // A phase jump at a pole or zero on the jω axis is not a crossover: reject it.
       if (!(v.mag > 0 && Number.isFinite(v.mag)) || Math.abs(v.im) > 1e-6 * v.mag || v.re >= 0) continue;
@@ -144,18 +151,20 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
   let upper: { omega: number; gainFactor: number } | null = null;
   let lower: { omega: number; gainFactor: number } | null = null;
   for (const p of phaseCrossoverDetails) {
-    if (p.gainFactor > 1 && (!upper || p.gainFactor < upper.gainFactor)) upper = p;
+    if (p.gainFactor >= 1 && (!upper || p.gainFactor < upper.gainFactor)) upper = p;
     if (p.gainFactor < 1 && (!lower || p.gainFactor > lower.gainFactor)) lower = p;
   }
   let worst: (typeof gainCrossoverDetails)[number] | null = null;
   for (const c of gainCrossoverDetails) if (!worst || c.phaseMarginDeg < worst.phaseMarginDeg) worst = c;
   const delayMargin = gainCrossoverDetails.length ? Math.min(...gainCrossoverDetails.map((c) => c.delayMargin)) : null;
 
-  const s = peakOf(grid, (w) => {
+  const sVals = Array.from(grid, (_w, i) => 1 / Math.hypot(1 + re[i], im[i]));
+  const tVals = Array.from(grid, (_w, i) => mag[i] / Math.hypot(1 + re[i], im[i]));
+  const s = peakOf(grid, sVals, (w) => {
     const v = g(w);
     return 1 / Math.hypot(1 + v.re, v.im);
   });
-  const t = peakOf(grid, (w) => {
+  const t = peakOf(grid, tVals, (w) => {
     const v = g(w);
     return v.mag / Math.hypot(1 + v.re, v.im);
   });
@@ -180,7 +189,7 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
     peakSensitivityFrequency: s.omega,
     peakComplementary: t.value,
     peakComplementaryFrequency: t.omega,
-    bandwidth: bandwidthOf(grid, g, num, den),
+    bandwidth: bandwidthOf(grid, tVals, g, num, den),
     gainCrossovers: gainCrossoverDetails.map((c) => c.omega),
     phaseCrossovers: phaseCrossoverDetails.map((c) => c.omega),
     gainCrossoverDetails,
@@ -227,27 +236,56 @@ const wrap180 = (deg: number): number => {
   return x;
 };
 
-/** Bisection in log ω on a function that changes sign between a and b (60 halvings: full precision). */
-function bisectLog(a: number, b: number, f: (w: number) => number): number {
-  let la = Math.log(a);
-  let lb = Math.log(b);
+/**
+ * A sign change of f between a and b, refined in log ω by the Illinois variant of regula falsi
+ * (superlinear on smooth f), with a bisection step whenever an iteration fails to halve the
+ * bracket, so it never does worse than bisection; stops at full double precision.
+ */
+function refineLog(a: number, b: number, f: (w: number) => number): number {
+  let xa = Math.log(a);
+  let xb = Math.log(b);
   let fa = f(a);
-  for (let it = 0; it < 60; it++) {
-    const lm = 0.5 * (la + lb);
-    const fm = f(Math.exp(lm));
-    if (fm === 0) return Math.exp(lm);
-    if (fa > 0 === fm > 0) {
-      la = lm;
-      fa = fm;
-    } else lb = lm;
-    if (lb - la < 1e-15) break;
+  let fb = f(b);
+  if (fa === 0) return a;
+  if (fb === 0) return b;
+  let side = 0;
+  for (let it = 0; it < 100; it++) {
+    const width = xb - xa;
+    let x = (xa * fb - xb * fa) / (fb - fa);
+    if (!(x > xa && x < xb)) x = 0.5 * (xa + xb);
+    const fx = f(Math.exp(x));
+    if (fx === 0 || !Number.isFinite(fx)) return Math.exp(x);
+    if (fx > 0 === fa > 0) {
+      xa = x;
+      fa = fx;
+      if (side === -1) fb /= 2;
+      side = -1;
+    } else {
+      xb = x;
+      fb = fx;
+      if (side === 1) fa /= 2;
+      side = 1;
+    }
+    if (xb - xa > 0.5 * width) {
+      const xm = 0.5 * (xa + xb);
+      const fm = f(Math.exp(xm));
+      if (fm === 0) return Math.exp(xm);
+      if (fm > 0 === fa > 0) {
+        xa = xm;
+        fa = fm;
+      } else {
+        xb = xm;
+        fb = fm;
+      }
+      side = 0;
+    }
+    if (xb - xa <= 4e-16 * Math.max(1, Math.abs(xa))) break;
   }
-  return Math.exp(0.5 * (la + lb));
+  return Math.exp(Math.abs(fa) < Math.abs(fb) ? xa : xb);
 }
 
 /** Maximum of f over the grid, each of the three largest local maxima refined by golden section in log ω. */
-function peakOf(grid: readonly number[], f: (w: number) => number): { value: number; omega: number } {
-  const vals = grid.map(f);
+function peakOf(grid: readonly number[], vals: readonly number[], f: (w: number) => number): { value: number; omega: number } {
   const cands: number[] = [];
   for (let i = 0; i < vals.length; i++) {
     const l = i > 0 ? vals[i - 1] : -Infinity;
@@ -291,7 +329,7 @@ function goldenMax(a: number, b: number, f: (x: number) => number): { x: number;
   return f1 >= f2 ? { x: x1, value: f1 } : { x: x2, value: f2 };
 }
 
-function bandwidthOf(grid: readonly number[], g: FrequencyEvaluator, num: readonly number[], den: readonly number[]): number | null {
+function bandwidthOf(grid: readonly number[], tVals: readonly number[], g: FrequencyEvaluator, num: readonly number[], den: readonly number[]): number | null {
   const v0 = dcValue(num, den);
   // Integrators in L make T(0) = 1; otherwise T(0) = L(0)/(1 + L(0)).
   const t0 = v0 === null ? (num[0] ?? 0) === 0 && den[0] === 0 ? NaN : 1 : Math.abs(v0 / (1 + v0));
@@ -301,10 +339,8 @@ function bandwidthOf(grid: readonly number[], g: FrequencyEvaluator, num: readon
     const v = g(w);
     return v.mag / Math.hypot(1 + v.re, v.im);
   };
-  let prev = 0;
-  for (const w of grid) {
-    if (tAt(w) < level) return prev === 0 ? null : bisectLog(prev, w, (x) => tAt(x) - level);
-    prev = w;
+  for (let i = 0; i < grid.length; i++) {
+    if (tVals[i] < level) return i === 0 ? null : refineLog(grid[i - 1], grid[i], (x) => tAt(x) - level);
   }
   return null;
 }
@@ -312,7 +348,7 @@ function bandwidthOf(grid: readonly number[], g: FrequencyEvaluator, num: readon
 /**
  * The bracketing sweep: log-spaced (pointsPerDecade), with extra points around every lightly
  * damped pole/zero pair (so a narrow resonance cannot hide two crossovers inside one step), and
- * with dead time a linear spacing cap of π/(8T) so the phase moves < 22.5° per step.
+ * with dead time a linear spacing cap of π/(8T) up to ωT = 20 so the phase moves < 22.5° per step.
  */
 function sweepGrid(L: TransferFunction, g: FrequencyEvaluator, opts: MarginOptions): number[] {
   let [lo, hi] = frequencyRange(L, 2);
@@ -329,7 +365,9 @@ function sweepGrid(L: TransferFunction, g: FrequencyEvaluator, opts: MarginOptio
   const ratio = 10 ** (1 / perDecade);
   const T = L.delay;
   const linCap = T > 0 ? Math.PI / (8 * T) : Infinity;
-  const linLimit = T > 0 ? 2000 / T : 0; // beyond ωT = 2000 the linear cap is dropped (bounded cost)
+  // Beyond ωT = 20 the cap is dropped: there the phase falls monotonically (the delay dominates
+  // the bounded rational part), and every level between a step's end phases is still found.
+  const linLimit = T > 0 ? 20 / T : 0;
   const pts: number[] = [];
   for (let w = lo; w < hi; ) {
     pts.push(w);
