@@ -185,3 +185,6 @@ export function rootClusters(roots: readonly Complex[], tol = 1e-4): RootCluster
   return clusters;
 }
 
+
+/** Parlett–Reinsch diagonal balancing of a square matrix, in place (also used for assembled state matrices). */
+export { balance as balanceMatrix };

@@ -153,12 +153,16 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
     return false;
   });
   const blocksOf = (w: string) => [...onLoop.get(w)!].sort();
-  const encloses = (outer: string[], inner: string[]) => outer.length > inner.length && inner.every((b) => outer.includes(b));
+  // Loop B encloses loop A when B's loops pass through the junction where A's feedback enters
+  // (A's error is formed inside B's forward path) and not the other way round.
+  const junction = (w: string) => c.branches[c.branches.findIndex((b) => b.wire === w)].toBlock;
+  const enclosesWire = (outerWire: string, innerWire: string) =>
+    outerWire !== innerWire && onLoop.get(outerWire)!.has(junction(innerWire)) && !onLoop.get(innerWire)!.has(junction(outerWire));
   for (const k of valid) {
     const r = loopAtCutDetailed(c, k.wire, undefined, opts);
     const margins = loopMargins(r.tf);
     const mine = blocksOf(k.wire);
-    const opened = valid.filter((o) => o !== k && encloses(blocksOf(o.wire), mine)).map((o) => o.wire);
+    const opened = valid.filter((o) => enclosesWire(o.wire, k.wire)).map((o) => o.wire);
     const aloneLoop = opened.length ? loopAtCutDetailed(withoutWires(c, opened), k.wire, undefined, opts).tf : r.tf;
     const aloneMargins = opened.length ? loopMargins(aloneLoop) : margins;
     cuts.push({
@@ -174,12 +178,11 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
       stable: margins.closedLoopStable,
     });
   }
-  // Nesting: cut A is inside cut B when A's loop blocks are a strict subset of B's; pair each
-  // inner loop with the smallest loop around it.
+  // Nesting (enclosesWire): pair each inner loop with the smallest loop around it.
   const separations: Separation[] = [];
   const outerVsIdeal: OuterVsIdeal[] = [];
   for (const inner of cuts) {
-    const around = cuts.filter((o) => o !== inner && o.blocks.length > inner.blocks.length && inner.blocks.every((b) => o.blocks.includes(b)));
+    const around = cuts.filter((o) => enclosesWire(o.wire, inner.wire));
     if (around.length === 0) continue;
     const outer = around.reduce((m, o) => (o.blocks.length < m.blocks.length ? o : m));
     const bandwidthRatio = ratioOf(inner.alone.bandwidth, outer.alone.bandwidth);

@@ -1,4 +1,4 @@
-import { type Complex, InputError, cx, padeDelay, poly, rational, realize } from '@loopwright/lti';
+import { type Complex, InputError, balanceMatrix, cx, padeDelay, poly, rational, realize } from '@loopwright/lti';
 import { EigenvalueDecomposition, Matrix, inverse } from 'ml-matrix';
 import type { ParameterOverrides } from '../resolve.ts';
 import { type ReduceOptions, DEFAULT_PADE_ORDER, type Linearisable, compiledOf } from './reduce.ts';
@@ -104,7 +104,11 @@ export function assembleWhole(d: Linearisable, overrides?: ParameterOverrides, o
 /** Eigenvalues of a real square matrix (ml-matrix), sorted by real then imaginary part. */
 export function eigenvalues(A: number[][]): Complex[] {
   if (A.length === 0) return [];
-  const e = new EigenvalueDecomposition(new Matrix(A), { assumeSymmetric: false });
+  // Balance first: block realisations mix time scales (a Padé block of a 0.5 ms delay has
+  // companion entries ~1e12), which costs the unbalanced eigenvalues several digits.
+  const m = A.map((r) => r.slice());
+  balanceMatrix(m);
+  const e = new EigenvalueDecomposition(new Matrix(m), { assumeSymmetric: false });
   return e.realEigenvalues.map((re, i) => cx(re, e.imaginaryEigenvalues[i])).sort((a, b) => a.re - b.re || a.im - b.im);
 }
 

@@ -44,7 +44,6 @@ export function sweepRange(d: Diagram, name: string, value: number): { min: numb
   return value >= 0 ? { min: v / 10, max: v * 10, scale: 'log' } : { min: -v * 10, max: -v / 10, scale: 'linear' };
 }
 
-const maxAbs = (p: readonly number[]) => p.reduce((m, c) => Math.max(m, Math.abs(c)), 0);
 
 /**
  * The characteristic polynomial as D0 + k·N0 when it is affine in the parameter (checked at
@@ -58,12 +57,18 @@ export function affineSplit(d: Diagram, name: string, overrides: ParameterOverri
   const [p1, p2, p3] = cps.map((c) => c.poly);
   const n0 = poly.scale(poly.sub(p2, p1), 1 / (ks[1] - ks[0]));
   const d0 = poly.sub(p1, poly.scale(n0, ks[0]));
-  const residual = poly.sub(p3, poly.add(d0, poly.scale(n0, ks[2])));
-  const scale = Math.max(maxAbs(p1), maxAbs(p2), maxAbs(p3));
-  if (maxAbs(residual) > AFFINE_TOL * scale) return null;
-  // Clean round-off: coefficients of N0 far below the scale are zero.
-  const clean = (p: number[]) => poly.trim(p.map((c) => (Math.abs(c) <= 1e-13 * scale ? 0 : c)));
-  return { n0: clean(n0), d0: clean(d0), handling: cps[0].handling };
+  // Coefficient by coefficient, relative to the size of that coefficient in the samples (the
+  // coefficients of a multi-loop determinant span many decades).
+  const len = Math.max(p1.length, p2.length, p3.length);
+  const size = (i: number) => Math.max(Math.abs(p1[i] ?? 0), Math.abs(p2[i] ?? 0), Math.abs(p3[i] ?? 0));
+  for (let i = 0; i < len; i++) {
+    const r = (p3[i] ?? 0) - ((d0[i] ?? 0) + ks[2] * (n0[i] ?? 0));
+    if (Math.abs(r) > AFFINE_TOL * size(i)) return null;
+  }
+  // A coefficient that does not change with k beyond round-off belongs to D0 alone.
+  const clean = (p: number[], ref: (i: number) => number) => poly.trim(p.map((c, i) => (Math.abs(c) <= 1e-13 * ref(i) ? 0 : c)));
+  const kScale = Math.max(...ks.map(Math.abs));
+  return { n0: clean(n0, (i) => size(i) / kScale), d0: clean(d0, size), handling: cps[0].handling };
 }
 
 export function sweepLocus(d: Diagram, parameter: string, overrides: ParameterOverrides = {}, opts: SweepOptions = {}): SweepLocus {
