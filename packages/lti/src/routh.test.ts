@@ -55,4 +55,28 @@ describe('routhHurwitz', () => {
       { numRuns: 1000 },
     );
   });
+
+  it('property: integer real roots with imaginary-axis pairs ±jk, including ε-then-row-of-zeros cases (1,000 runs)', () => {
+    // Exact integer coefficients, so rows of zeros appear exactly; some draws need ε first
+    // (e.g. roots −3, 4, −2, 1, ±2j), where a single numeric ε would miss the later zero row.
+    fc.assert(
+      fc.property(
+        fc.uniqueArray(fc.integer({ min: -4, max: 4 }).filter((k) => k !== 0), { maxLength: 5 }),
+        fc.uniqueArray(fc.integer({ min: 1, max: 3 }), { minLength: 1, maxLength: 2 }),
+        (reals, ims) => {
+          const roots = [...reals.map((r) => cx(r)), ...ims.flatMap((k) => [cx(0, k), cx(0, -k)])];
+          const r = routhHurwitz(fromRoots(roots));
+          expect([r.rhp, r.jw, r.lhp]).toEqual([reals.filter((x) => x > 0).length, 2 * ims.length, reals.filter((x) => x < 0).length]);
+        },
+      ),
+      { numRuns: 1000 },
+    );
+  });
+
+  it('ε followed by a row of zeros: (s − 1)(s − 4)(s + 2)(s + 3)(s² + 4)', () => {
+    const r = routhHurwitz(fromRoots([cx(-3), cx(4), cx(-2), cx(1), cx(0, 2), cx(0, -2)]));
+    expect(r.epsilonRows.length).toBeGreaterThan(0);
+    expect(r.auxiliaries.length).toBeGreaterThan(0);
+    expect([r.rhp, r.jw, r.lhp]).toEqual([2, 2, 2]);
+  });
 });
