@@ -151,19 +151,30 @@ function failure(problems: string[], note = '', field?: string): DiagramError {
 
 /** Refuses object-internal keys and absurd nesting, iteratively (no recursion to overflow). */
 function scanKeys(root: Json): void {
-  const stack: { node: Json; path: PropertyKey[] }[] = [{ node: root, path: [] }];
+  // Paths are rebuilt from parent links only when something is refused (keeps the scan cheap).
+  interface Entry { node: object; key: PropertyKey; parent: Entry | null; depth: number }
+  const pathOf = (e: Entry | null): PropertyKey[] => {
+    const out: PropertyKey[] = [];
+    for (let x = e; x && x.parent; x = x.parent) out.unshift(x.key);
+    return out;
+  };
+  const stack: Entry[] = [{ node: root as object, key: '', parent: null, depth: 0 }];
   while (stack.length) {
-    const { node, path } = stack.pop()!;
-    if (path.length > MAX_DEPTH) throw failure([`${pathLabel(root, path.slice(0, 8))}…: nested deeper than ${MAX_DEPTH} levels`]);
+    const e = stack.pop()!;
+    if (e.depth > MAX_DEPTH) throw failure([`${pathLabel(root, pathOf(e).slice(0, 8))}…: nested deeper than ${MAX_DEPTH} levels`]);
+    const node = e.node;
     if (Array.isArray(node)) {
-      for (let i = 0; i < node.length; i++) if (typeof node[i] === 'object' && node[i] !== null) stack.push({ node: node[i], path: [...path, i] });
-    } else if (typeof node === 'object' && node !== null) {
+      for (let i = 0; i < node.length; i++) {
+        const c = node[i];
+        if (typeof c === 'object' && c !== null) stack.push({ node: c, key: i, parent: e, depth: e.depth + 1 });
+      }
+    } else {
       for (const key of Object.keys(node)) {
         if (FORBIDDEN_KEYS.has(key)) {
-          throw failure([`${pathLabel(root, [...path, key])}: the key "${key}" is not allowed in a diagram`], '', key);
+          throw failure([`${pathLabel(root, [...pathOf(e), key])}: the key "${key}" is not allowed in a diagram`], '', key);
         }
-        const child = (node as Record<string, unknown>)[key];
-        if (typeof child === 'object' && child !== null) stack.push({ node: child, path: [...path, key] });
+        const c = (node as Record<string, unknown>)[key];
+        if (typeof c === 'object' && c !== null) stack.push({ node: c, key, parent: e, depth: e.depth + 1 });
       }
     }
   }

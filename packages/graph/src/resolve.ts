@@ -42,6 +42,8 @@ function resolveNumber(block: Block, spec: ParamSpec, raw: unknown, scope: Recor
   }
   if (typeof raw === 'number') {
     value = raw;
+  } else if (typeof raw === 'string' && quickValue(raw, scope) !== undefined) {
+    value = quickValue(raw, scope)!;
   } else if (typeof raw === 'string') {
     try {
       value = parseScalar(raw, scope);
@@ -63,6 +65,31 @@ function resolveNumber(block: Block, spec: ParamSpec, raw: unknown, scope: Recor
     throw fieldError(block, spec, `${value}${unit} must be at most ${spec.max}${unit}`);
   }
   return value;
+}
+
+const BARE_NAME = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*$/;
+const PLAIN_NUMBER = /^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*$/;
+/**
+ * The value of the commonest field texts without running the expression parser: a bare
+ * named parameter ("Kp") or a plain number ("0.5"). Anything else (or a name the scope lacks,
+ * or `s`) returns undefined and goes through parseScalar, which gives the positioned error.
+ */
+function quickValue(text: string, scope: Record<string, number>): number | undefined {
+  const m = BARE_NAME.exec(text);
+  if (m) return m[1] !== 's' && Object.prototype.hasOwnProperty.call(scope, m[1]) ? scope[m[1]] : undefined;
+  if (PLAIN_NUMBER.test(text)) {
+    const v = Number(text);
+    return Number.isFinite(v) ? v : undefined;
+  }
+  return undefined;
+}
+
+/** Names used by a field text; a bare name without running the parser (see quickValue). */
+export function fieldParameters(text: string, parse: (t: string) => string[]): string[] {
+  const m = BARE_NAME.exec(text);
+  if (m && m[1] !== 's' && m[1] !== 'exp') return [m[1]];
+  if (PLAIN_NUMBER.test(text)) return [];
+  return parse(text);
 }
 
 /**

@@ -1,7 +1,7 @@
 import { InputError, expressionParameters, relativeDegree, poly } from '@loopwright/lti';
 import { blockSpec, isBlockKind } from '../catalogue/index.ts';
 import type { Block, Diagram } from '../document-types.ts';
-import { linearFormWithScope, parameterScope, type ParameterOverrides } from '../resolve.ts';
+import { fieldParameters, linearFormWithScope, parameterScope, type ParameterOverrides } from '../resolve.ts';
 import type { Finding } from './finding.ts';
 
 /**
@@ -141,7 +141,7 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
       const field = `blocks.${b.id}.params.${ps.name}`;
       let names: string[];
       try {
-        names = expressionParameters(raw);
+        names = fieldParameters(raw, expressionParameters);
       } catch (e) {
         if (!(e instanceof InputError)) throw e;
         err('invalid-expression', `field ${ps.name}: "${raw}": ${e.message}`, { blocks: [b.id], field });
