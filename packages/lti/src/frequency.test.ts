@@ -1,0 +1,94 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { complex, exp, multiply, divide, add, pow, type Complex as MComplex } from 'mathjs';
+import { cx } from './complex.ts';
+import { InputError } from './errors.ts';
+import * as P from './poly.ts';
+import { defaultFrequencyGrid, frequencyResponse, logspace } from './frequency.ts';
+import { tfFromCoefficients } from './transfer.ts';
+
+/** G(jω) by mathjs complex arithmetic (an independent evaluation). */
+function mathjsValue(num: number[], den: number[], delay: number, w: number): MComplex {
+  const s = complex(0, w);
+  const ev = (p: number[]) => p.reduce<MComplex>((acc, c, i) => add(acc, multiply(c, pow(s, i) as MComplex)) as MComplex, complex(0, 0));
+  return multiply(divide(ev(num), ev(den)), exp(complex(0, -w * delay))) as MComplex;
+}
+
+describe('logspace and grids', () => {
+  it('logspace hits both ends and is evenly spaced in log10', () => {
+    const w = logspace(-2, 3, 6);
+    [0.01, 0.1, 1, 10, 100, 1000].forEach((x, i) => expect(Math.abs(w[i] - x) / x).toBeLessThan(1e-14));
+    expect(() => logspace(0, 1, 0)).toThrow(InputError);
+  });
+  it('default grid spans two decades beyond the poles, zeros and 1/T', () => {
+    const g = defaultFrequencyGrid(tfFromCoefficients([1, 1], P.fromRoots([cx(-0.3), cx(-40)]), 0.5));
+    expect(g[0]).toBeCloseTo(0.001, 12); // 0.3 → decade 0.1 → two below
+    expect(g[g.length - 1]).toBeCloseTo(10000, 6); // 40 → decade 100 → two above
+  });
+});
+
+describe('frequencyResponse', () => {
+  it('agrees with mathjs complex evaluation (value and magnitude)', () => {
+    const num = [2, 0.5];
+    const den = P.fromRoots([cx(-1), cx(-0.2, 3), cx(-0.2, -3)]);
+    const w = logspace(-2, 2, 41);
+    const r = frequencyResponse(tfFromCoefficients(num, den, 0.3), w);
+    w.forEach((x, i) => {
+      const ref = mathjsValue(num, den, 0.3, x);
+      expect(Math.abs(r.re[i] - ref.re)).toBeLessThan(1e-12 * (1 + Math.hypot(ref.re, ref.im)));
+      expect(Math.abs(r.im[i] - ref.im)).toBeLessThan(1e-12 * (1 + Math.hypot(ref.re, ref.im)));
+      expect(Math.abs(r.magDb[i] - 20 * Math.log10(Math.hypot(ref.re, ref.im)))).toBeLessThan(1e-9);
+    });
+  });
+  it('anchors the low-frequency phase by the integrators and the sign', () => {
+    // 1/s: −90° at every ω; 1/s²: −180°; −1/(s+1): −180° − atan ω; (1 − s)/(1 + s): −2·atan ω (all by hand).
+    expect(frequencyResponse(tfFromCoefficients([1], [0, 1]), [1e-3, 1, 1e3]).phaseDeg).toEqual([-90, -90, -90]);
+    for (const p of frequencyResponse(tfFromCoefficients([1], [0, 0, 1]), [1e-3, 1, 1e3]).phaseDeg) expect(p).toBeCloseTo(-180, 12);
+    const w = [0.1, 1, 10];
+    frequencyResponse(tfFromCoefficients([-1], [1, 1]), w).phaseDeg.forEach((p, i) => expect(p).toBeCloseTo(-180 - (Math.atan(w[i]) * 180) / Math.PI, 10));
+    frequencyResponse(tfFromCoefficients([1, -1], [1, 1]), w).phaseDeg.forEach((p, i) => expect(p).toBeCloseTo((-2 * Math.atan(w[i]) * 180) / Math.PI, 10));
+  });
+  it('dead time contributes exactly −ωT, far past −360°', () => {
+    const w = [0.5, 10, 100];
+    const r = frequencyResponse(tfFromCoefficients([1], [1, 1], 2), w);
+    r.phaseDeg.forEach((p, i) => expect(p).toBeCloseTo(((-Math.atan(w[i]) - 2 * w[i]) * 180) / Math.PI, 8));
+  });
+  it('a lightly damped pair drops the phase by 180° even on a coarse grid', () => {
+    // 1/(s² + 0.002s + 1): phase 0° below ω = 1 and → −180° above; the grid step (×10) straddles the resonance.
+    const r = frequencyResponse(tfFromCoefficients([1], [1, 0.002, 1]), [0.1, 10]);
+    expect(r.phaseDeg[0]).toBeCloseTo(-(Math.atan2(0.0002, 0.99) * 180) / Math.PI, 10);
+    expect(r.phaseDeg[1]).toBeCloseTo(-180 + (Math.atan2(0.02, 99) * 180) / Math.PI, 10);
+  });
+  it('an undamped pair: phase 0° below and −180° above (limit from the left half-plane)', () => {
+    const r = frequencyResponse(tfFromCoefficients([1], [1, 0, 1]), [0.5, 2]);
+    expect(r.phaseDeg).toEqual([0, -180]);
+  });
+  it('rejects negative or non-finite frequencies', () => {
+    expect(() => frequencyResponse(tfFromCoefficients([1], [1, 1]), [1, -1])).toThrow(/below 0/);
+    expect(() => frequencyResponse(tfFromCoefficients([1], [1, 1]), [NaN])).toThrow(InputError);
+  });
+  it('property: phase is grid-independent and continuous on a dense grid (fast-check)', () => {
+    const arb = fc.record({
+      poles: fc.array(fc.record({ re: fc.double({ min: -5, max: 5, noNaN: true }), im: fc.double({ min: 0, max: 5, noNaN: true }) }), { minLength: 1, maxLength: 4 }),
+      zeros: fc.array(fc.double({ min: -5, max: 5, noNaN: true }), { maxLength: 3 }),
+      delay: fc.constantFrom(0, 0.1, 1),
+      gain: fc.constantFrom(1, -2),
+    });
+    fc.assert(
+      fc.property(arb, (x) => {
+        const roots = x.poles.flatMap((p) => (Math.abs(p.im) < 0.05 ? [cx(p.re)] : [cx(p.re, p.im), cx(p.re, -p.im)]));
+        if (roots.some((r) => Math.hypot(r.re, r.im) < 0.05 || (Math.abs(r.re) < 0.05 && r.im !== 0))) return true;
+        if (x.zeros.some((z) => Math.abs(z) < 0.05)) return true;
+        const tf = tfFromCoefficients(P.fromRoots(x.zeros.map((z) => cx(z)), x.gain), P.fromRoots(roots), x.delay);
+        const dense = logspace(-2, 2, 2001);
+        const r = frequencyResponse(tf, dense);
+        // Consecutive samples (ratio 1.0046) move by well under 180°: no wrap jumps.
+        for (let i = 1; i < dense.length; i++) if (!(Math.abs(r.phaseDeg[i] - r.phaseDeg[i - 1]) < 90)) return false;
+        // A coarse grid gives the same phase at shared points (no dependence on unwrapping history).
+        const coarse = frequencyResponse(tf, [dense[0], dense[1000], dense[2000]]);
+        return [0, 1000, 2000].every((j, i) => Math.abs(coarse.phaseDeg[i] - r.phaseDeg[j]) < 1e-9);
+      }),
+      { numRuns: 200 },
+    );
+  });
+});
