@@ -200,6 +200,21 @@ describe('parseTransferFunction: bad input names the problem and the place', () 
     expect(msg.split('\n')).toEqual([text, '        ^^^', expect.stringMatching(/unknown function 'sin'/)]);
   });
 
+  it('fuzz: arbitrary unicode strings and parseScalar/expressionParameters also end in success or InputError', () => {
+    fc.assert(
+      fc.property(fc.string({ maxLength: 30, unit: 'binary' }), (text) => {
+        for (const f of [() => parseTransferFunction(text, { K: 1 }), () => parseScalar(text, { K: 1 }), () => expressionParameters(text)]) {
+          try {
+            f();
+          } catch (e) {
+            if (!(e instanceof InputError)) throw e;
+          }
+        }
+      }),
+      { numRuns: 1000 },
+    );
+  });
+
   it('fuzz: random strings give a transfer function or an InputError, never anything else', () => {
     const alphabet = ['s', 'K', 'T', '1', '2', '0', '.', 'e', '+', '-', '*', '/', '^', '(', ')', ' ', 'exp(', 'x', '6', ','];
     fc.assert(
