@@ -78,6 +78,9 @@ describe('messages name what is at fault', () => {
     const e = loadError(withDoc((d) => (d.blocks[3].params.tc = 1)));
     expect(e.message).toContain('blocks[3] (id "g").params.tc: unknown field (a first-order-lag block has k, tau)');
   });
+  it('a block that is not an object', () => {
+    expect(loadError(withDoc((d) => (d.blocks[1] = 5))).message).toContain('blocks[1]: expected a block (an object), got 5');
+  });
   it('an unknown block kind', () => {
     const e = loadError(withDoc((d) => (d.blocks[1].kind = 'mixer')));
     expect(e.message).toMatch(/blocks\[1\] \(id "e"\)\.kind: unknown block kind; expected one of .*"pid".*got "mixer"/);

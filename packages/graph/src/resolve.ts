@@ -76,10 +76,10 @@ const PLAIN_NUMBER = /^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*$/;
  */
 function quickValue(text: string, scope: Record<string, number>): number | undefined {
   const m = BARE_NAME.exec(text);
-  if (m) return m[1] !== 's' && Object.prototype.hasOwnProperty.call(scope, m[1]) ? scope[m[1]] : undefined;
+  if (m) return m[1] !== 's' && Object.prototype.hasOwnProperty.call(scope, m[1]) ? scope[m[1]] + 0 : undefined; // + 0: no −0, as parseScalar
   if (PLAIN_NUMBER.test(text)) {
     const v = Number(text);
-    return Number.isFinite(v) ? v : undefined;
+    return Number.isFinite(v) ? v + 0 : undefined;
   }
   return undefined;
 }

@@ -182,3 +182,38 @@ describe('resolveParams', () => {
     expect(() => resolveParams(D0, block('gain', { k: 'hasOwnProperty' }))).toThrow(InputError);
   });
 });
+
+describe('defaults and the parser-free shortcut', () => {
+  it('a block of each kind with every default written out loads and passes the structural checks of its fields', async () => {
+    const { validateDiagram } = await import('../document.ts');
+    const { checkStructure } = await import('../checks/structure.ts');
+    const d = { ...emptyDiagram(), blocks: catalogue.map((s, i) => block(s.kind, Object.fromEntries(s.params.map((p) => [p.name, p.default])), `b${i}`)) };
+    const loaded = validateDiagram(JSON.parse(JSON.stringify(d)));
+    const bad = checkStructure(loaded).filter((f) => f.code === 'invalid-parameter' || f.code === 'improper-block' || f.code === 'invalid-expression');
+    expect(bad).toEqual([]);
+  });
+  it('bare names and plain numbers resolve exactly as lti parseScalar evaluates them (fast-check)', async () => {
+    const fc = (await import('fast-check')).default;
+    const { parseScalar } = await import('@loopwright/lti');
+    const name = fc.stringMatching(/^[A-Za-z_][A-Za-z0-9_]{0,6}$/).filter((n) => !['s', 'exp', 'e', 'pi', 'mod', 'to', 'in', 'and', 'or', 'not', 'xor', 'true', 'false', 'null', 'undefined', 'NaN', 'Infinity'].includes(n));
+    const numberText = fc.oneof(
+      fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e12, max: 1e12 }).map(String),
+      fc.integer().map(String),
+      fc.constantFrom('0.5', '.25', '1e-3', '2E+2', ' 7 ', '-0', '+3'),
+    );
+    fc.assert(
+      fc.property(name, fc.double({ noNaN: true, noDefaultInfinity: true }), numberText, (n, value, text) => {
+        const d = diagramWith([{ name: n, value }]);
+        expect(resolveParams(d, block('gain', { k: n })).k).toBe(parseScalar(n, { [n]: value }));
+        let viaParser: number | undefined;
+        try {
+          viaParser = parseScalar(text, {});
+        } catch {
+          viaParser = undefined;
+        }
+        if (viaParser !== undefined) expect(resolveParams(d, block('gain', { k: text })).k).toBe(viaParser);
+      }),
+      { numRuns: 300 },
+    );
+  });
+});
