@@ -212,12 +212,8 @@ export function reductionOf(raw: RawTransmission, opts: ReduceOptions = {}): Red
     hidden = c.cancelled;
     r = hidden.length ? rational(cleanRoundOff(c.result.num), cleanRoundOff(c.result.den)) : c.result;
   }
-  const poles = polyRoots(r.den);
-  const zeros = poly.isZero(r.num) ? [] : polyRoots(r.num);
-  return {
+  const out = {
     tf: transfer(r, raw.delay),
-    poles,
-    zeros,
     gain: poly.lead(r.num) / poly.lead(r.den),
     dcGain: rdcGain(r),
     delay: raw.delay,
@@ -226,6 +222,23 @@ export function reductionOf(raw: RawTransmission, opts: ReduceOptions = {}): Red
     rawNumerator: raw.num,
     rawDenominator: raw.den,
   };
+  // Poles and zeros are found on first use (a cut's L(s) or a sweep rarely needs them); own
+  // enumerable getters, so JSON and structured clone still carry them.
+  lazy(out, 'poles', () => polyRoots(r.den));
+  lazy(out, 'zeros', () => (poly.isZero(r.num) ? [] : polyRoots(r.num)));
+  return out as Reduction;
+}
+
+function lazy<T extends object>(o: T, key: string, compute: () => unknown): void {
+  let value: unknown;
+  let done = false;
+  Object.defineProperty(o, key, {
+    enumerable: true,
+    get: () => {
+      if (!done) { value = compute(); done = true; }
+      return value;
+    },
+  });
 }
 
 /** Compiles a diagram (or an already linear graph) once; analysis functions accept either. */
