@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { useEffect, useState, type CSSProperties } from 'react';
 import { ReactFlowProvider } from '@xyflow/react';
 import { AnalysisArea } from './views/AnalysisArea.tsx';
 import { Canvas } from './canvas/Canvas.tsx';
@@ -37,6 +37,40 @@ function NoticeBar() {
   );
 }
 
+/** The bar between canvas and analysis views: drag it (or use the arrow keys) to share the height. */
+function Splitter() {
+  const h = useUiStore((s) => s.analysisHeight);
+  const set = (px: number) => useUiStore.getState().setAnalysisHeight(Math.round(Math.min(Math.max(px, 60), window.innerHeight - 220)));
+  const current = () => h ?? document.querySelector('.analysis')?.getBoundingClientRect().height ?? 300;
+  return (
+    <div
+      className="splitter"
+      role="separator"
+      aria-orientation="horizontal"
+      aria-label="Resize analysis area"
+      tabIndex={0}
+      onPointerDown={(e) => {
+        const el = e.currentTarget;
+        el.setPointerCapture(e.pointerId);
+        const startY = e.clientY;
+        const start = current();
+        const move = (ev: PointerEvent) => set(start + (startY - ev.clientY));
+        const up = () => {
+          el.removeEventListener('pointermove', move);
+          el.removeEventListener('pointerup', up);
+        };
+        el.addEventListener('pointermove', move);
+        el.addEventListener('pointerup', up);
+      }}
+      onDoubleClick={() => useUiStore.getState().setAnalysisHeight(null)}
+      onKeyDown={(e) => {
+        if (e.key === 'ArrowUp') set(current() + 30);
+        if (e.key === 'ArrowDown') set(current() - 30);
+      }}
+    />
+  );
+}
+
 /**
  * The editor layout: top bar, Parts (left), canvas (centre), Details / Parameters / Findings
  * (right), the analysis views (bottom, from views/AnalysisArea) and a footer with the caution.
@@ -44,6 +78,7 @@ function NoticeBar() {
 export function App() {
   const theme = useUiStore((s) => s.theme);
   const collapsed = useUiStore((s) => s.analysisCollapsed);
+  const analysisHeight = useUiStore((s) => s.analysisHeight);
   const [dropping, setDropping] = useState(false);
   useEffect(() => {
     document.documentElement.dataset.theme = theme;
@@ -53,6 +88,7 @@ export function App() {
     <ReactFlowProvider>
       <div
         className={`app${collapsed ? ' analysis-collapsed' : ''}${dropping ? ' is-dropping' : ''}`}
+        style={analysisHeight ? ({ '--analysis-height': `${analysisHeight}px` } as CSSProperties) : undefined}
         onDragOver={(e) => {
           if (e.dataTransfer.types.includes('Files')) {
             e.preventDefault();
@@ -83,6 +119,7 @@ export function App() {
           <FindingsPanel />
         </aside>
         <section className="analysis" aria-label="Analysis">
+          <Splitter />
           <AnalysisArea />
         </section>
         <footer className="footer">

@@ -24,6 +24,7 @@ import { useUiStore } from '../store/ui-store.ts';
 import { identifiersIn } from '../store/rename.ts';
 import { nodeTypes, type BlockFlowNode } from './nodes.tsx';
 import { edgeTypes, type WireFlowEdge } from './WireEdge.tsx';
+import { fitReadable } from './fit.ts';
 
 export const GRID = 10;
 export const PART_MIME = 'application/x-loopwright-part';
@@ -118,10 +119,9 @@ export function Canvas() {
   const edges = useMemo(() => buildEdges(diagram, selWires, faults.wires), [diagram, selWires, faults]);
 
   // Fit the view when asked (load, new, open, demo) and once the first measurements exist.
-  const fitted = useRef(0);
+  const box = useRef<HTMLDivElement>(null);
   useEffect(() => {
-    const t = setTimeout(() => void flow.fitView({ padding: 0.15, maxZoom: 1.25, duration: 0 }), 30);
-    fitted.current = fitRequest;
+    const t = setTimeout(() => fitReadable(flow, box.current), 60);
     return () => clearTimeout(t);
   }, [fitRequest, flow]);
 
@@ -185,6 +185,7 @@ export function Canvas() {
   );
 
   return (
+    <div ref={box} className="canvas-box">
     <ReactFlow<BlockFlowNode, WireFlowEdge>
       nodes={nodes}
       edges={edges}
@@ -206,13 +207,13 @@ export function Canvas() {
       colorMode={theme}
       minZoom={0.2}
       maxZoom={3}
-      fitView
-      fitViewOptions={{ padding: 0.15, maxZoom: 1.25 }}
+      onInit={() => setTimeout(() => fitReadable(flow, box.current), 60)}
       proOptions={{ hideAttribution: true }}
       aria-label="Diagram canvas"
     >
       <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1.2} color="var(--grid)" />
       <Controls showInteractive={false} position="bottom-right" aria-label="Zoom controls" />
     </ReactFlow>
+    </div>
   );
 }

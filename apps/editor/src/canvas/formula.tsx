@@ -149,10 +149,15 @@ function renderName(v: string, swept: string | undefined, key?: string | number)
   else if (GREEK[v]) body = GREEK[v];
   else if (v === 'wn') body = <>ω<sub>n</sub></>;
   else {
-    const g = /^([a-z]+)_?([A-Za-z0-9]+)$/.exec(v);
-    const m = /^([A-Z])_?([a-z0-9]{1,4})$/.exec(v);
-    if (m) body = <>{m[1]}<sub>{m[2]}</sub></>;
-    else if (g && GREEK[g[1]]) body = <>{GREEK[g[1]]}<sub>{g[2]}</sub></>;
+    // head[_tail]: "Kp" → K_p, "Ti_spd" → T_i,spd, "r_pulley" → r_pulley, "tau_m" → τ_m
+    const [head, ...rest] = v.split('_');
+    const tail = rest.join('_');
+    const m = /^([A-Z])([a-z0-9]{1,4})$/.exec(head);
+    const sub = (base: ReactNode, s: string) => (s ? <>{base}<sub>{s}</sub></> : base);
+    if (m) body = sub(m[1], [m[2], tail].filter(Boolean).join(','));
+    else if (GREEK[head]) body = sub(GREEK[head], tail);
+    else if (head === 'wn') body = sub('ω', ['n', tail].filter(Boolean).join(','));
+    else if (tail && head) body = sub(head, tail);
   }
   return (
     <span key={key} className={cls} title={title}>

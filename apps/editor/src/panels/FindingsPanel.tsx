@@ -43,7 +43,10 @@ export function FindingsPanel() {
                 <span className={`sev ${f.severity}`} aria-hidden="true">
                   {ICON[f.severity]}
                 </span>
-                <span>{f.message}</span>
+                <span>
+                  {(f.blocks?.length || f.wires?.length) ? <span className="where mono">{[...(f.blocks ?? []), ...(f.wires ?? [])].join(', ')}: </span> : null}
+                  {f.message}
+                </span>
               </button>
             </li>
           ))}

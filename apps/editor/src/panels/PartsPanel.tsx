@@ -10,16 +10,33 @@ const GROUPS: { category: 'signal' | 'linear' | 'nonlinear'; title: string }[] =
   { category: 'nonlinear', title: 'Nonlinear' },
 ];
 
+const CELL = { w: 200, h: 110 };
+
+/**
+ * Where a clicked part lands: the first grid cell in view, left to right and top to bottom,
+ * that no block occupies (so successive parts line up instead of stacking).
+ */
+export function freeSpot(taken: { x: number; y: number }[], from: { x: number; y: number }, to: { x: number; y: number }) {
+  const x0 = Math.round(from.x / GRID) * GRID;
+  const y0 = Math.round(from.y / GRID) * GRID;
+  const cols = Math.max(1, Math.floor((to.x - x0) / CELL.w));
+  for (let i = 0; i < 400; i++) {
+    const x = x0 + (i % cols) * CELL.w;
+    const y = y0 + Math.floor(i / cols) * CELL.h;
+    if (!taken.some((p) => Math.abs(p.x - x) < CELL.w * 0.8 && Math.abs(p.y - y) < CELL.h * 0.8)) return { x, y };
+  }
+  return { x: x0, y: y0 };
+}
+
 export function PartsPanel() {
   const flow = useReactFlow();
   const add = (kind: BlockKind) => {
     const el = document.querySelector('.canvas');
     const r = el?.getBoundingClientRect();
-    const n = useDiagramStore.getState().diagram.blocks.length;
-    // Near the centre of what is in view, stepped so that successive parts do not stack.
-    const screen = r ? { x: r.left + r.width * 0.3 + (n % 5) * 40, y: r.top + r.height * 0.3 + (n % 4) * 30 } : { x: 300, y: 200 };
-    const p = flow.screenToFlowPosition(screen);
-    useDiagramStore.getState().addBlock(kind, { x: Math.round(p.x / GRID) * GRID, y: Math.round(p.y / GRID) * GRID });
+    const topLeft = flow.screenToFlowPosition(r ? { x: r.left + 30, y: r.top + 40 } : { x: 200, y: 100 });
+    const bottomRight = flow.screenToFlowPosition(r ? { x: r.right - 30, y: r.bottom - 40 } : { x: 900, y: 500 });
+    const spot = freeSpot(useDiagramStore.getState().diagram.blocks.map((b) => b.position), topLeft, bottomRight);
+    useDiagramStore.getState().addBlock(kind, spot);
   };
   return (
     <aside className="parts panel" aria-label="Parts">

@@ -22,6 +22,9 @@ interface UiState {
   notify(n: Notice | null): void;
   aboutOpen: boolean;
   setAboutOpen(v: boolean): void;
+  /** Height of the analysis area in px (null: the layout default). */
+  analysisHeight: number | null;
+  setAnalysisHeight(h: number | null): void;
   analysisCollapsed: boolean;
   setAnalysisCollapsed(v: boolean): void;
 }
@@ -52,6 +55,8 @@ export const useUiStore = create<UiState>()((set, get) => ({
   notify: (notice) => set({ notice }),
   aboutOpen: false,
   setAboutOpen: (aboutOpen) => set({ aboutOpen }),
+  analysisHeight: null,
+  setAnalysisHeight: (analysisHeight) => set({ analysisHeight }),
   analysisCollapsed: false,
   setAnalysisCollapsed: (analysisCollapsed) => set({ analysisCollapsed }),
 }));

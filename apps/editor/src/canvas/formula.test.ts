@@ -1,0 +1,27 @@
+import { describe, expect, it } from 'vitest';
+import { parseForDisplay } from './formula.tsx';
+import { cardContent } from './block-formula.ts';
+
+// The display parser follows ordinary operator precedence (common practice, no source).
+describe('parseForDisplay', () => {
+  it('binds ^ tighter than * and / tighter than +', () => {
+    const e = parseForDisplay('1 + 2*s^2/3');
+    expect(e).toEqual({
+      t: 'bin', op: '+', a: { t: 'num', v: '1' },
+      b: { t: 'bin', op: '/', a: { t: 'bin', op: '*', a: { t: 'num', v: '2' }, b: { t: 'bin', op: '^', a: { t: 'name', v: 's' }, b: { t: 'num', v: '2' } } }, b: { t: 'num', v: '3' } },
+    });
+  });
+  it('keeps exp calls and parentheses; refuses junk', () => {
+    expect(parseForDisplay('exp(-T*s)')).toMatchObject({ t: 'call', f: 'exp' });
+    expect(parseForDisplay('(s+1)')).toMatchObject({ t: 'paren' });
+    expect(parseForDisplay('2*#')).toBeNull();
+    expect(parseForDisplay('2*(s+1')).toBeNull();
+  });
+  it('builds card formulas from block parameters', () => {
+    const lag = cardContent({ id: 'a', kind: 'first-order-lag', position: { x: 0, y: 0 }, params: { k: 2, tau: 'T1' } });
+    expect(lag.formula).toBe('2/(T1*s + 1)');
+    const pid = cardContent({ id: 'p', kind: 'pid', position: { x: 0, y: 0 }, params: { form: 'ideal', kp: 'Kp', ti: 1.5, td: 0, n: 10, umin: '', umax: '' } });
+    expect(pid.formula).toBe('Kp*(1 + 1/(1.5*s))');
+    expect(parseForDisplay(pid.formula!)).not.toBeNull();
+  });
+});
