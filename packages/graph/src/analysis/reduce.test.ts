@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { type Complex, cabs, csub, cx, poly, polyRoots, revalComplex } from '@loopwright/lti';
 import { cleanRoundOff, closedLoop, characteristicPolynomial, closedLoopPoles } from './reduce.ts';
 import { loopAtCut } from './cuts.ts';
@@ -56,7 +57,7 @@ describe('closed-loop reduction of two-loop cascades', () => {
     const inner = closedLoop(innerOnly(1, [[1], [1, 2]], 2), { block: 'r' }, { block: 'y' });
     expect(inner.tf.rational.num[0]).toBeCloseTo(1, 9);
     expect(Math.abs(inner.tf.rational.den[0] - 4)).toBeLessThanOrEqual(1e-9);
-    expect(Math.abs(inner.dcGain - 0.25)).toBeLessThanOrEqual(1e-9);
+    expect(Math.abs(inner.staticGain - 0.25)).toBeLessThanOrEqual(1e-9);
     const t = closedLoop(cascade(6, 1, [[1], [1, 2]], 2, [[1], [1, 0]], 1), { block: 'r' }, { block: 'y' });
     const den = poly.toDescending(t.tf.rational.den);
     [1, 4, 6].forEach((c, i) => expect(Math.abs(den[i] - c)).toBeLessThanOrEqual(1e-9));
@@ -83,7 +84,7 @@ describe("Mason's gain formula with touching and non-touching loops", () => {
     expect(t.rawDenominator.length).toBe(1);
     expect(Math.abs(t.rawDenominator[0] - 5.2)).toBeLessThanOrEqual(1e-9);
     expect(Math.abs(t.rawNumerator[0] - 24)).toBeLessThanOrEqual(1e-9);
-    expect(Math.abs(t.dcGain - 4.6154)).toBeLessThanOrEqual(1e-4);
+    expect(Math.abs(t.staticGain - 4.6154)).toBeLessThanOrEqual(1e-4);
   });
 
   it('R30: dynamic gains, T = 6/(s³ + 9s² + 16s + 14)', () => {
@@ -200,5 +201,51 @@ describe('round-off cleaning after a cancellation', () => {
     expect(cleanRoundOff(exact)).toEqual(exact);
     // A lightly damped pair s² + 0.002s + 1 keeps its damping term (1e-3 ≫ 1e-12).
     expect(cleanRoundOff([1, 0.002, 1])).toEqual([1, 0.002, 1]);
+  });
+});
+
+describe('injection at a block output', () => {
+  it('a disturbance added to the plant output reaches it through S = 1/(1 + L)', () => {
+    // Output disturbance: y = d/(1 + L) (Skogestad & Postlethwaite, Sec. 2.2 (from memory)).
+    const g = graph(
+      [sourceBlock('r'), sumBlock('e', '+-'), tfBlock('C', [3]), tfBlock('P', [2], [1, 1, 0]), probeBlock('y')],
+      wires('r->e.in1', 'e->C', 'C->P', 'fb:P->e.in2', 'P->y'),
+    );
+    const t = closedLoop(g, { block: 'P' }, { block: 'y' });
+    // L = 6/(s² + s): S = (s² + s)/(s² + s + 6)
+    expect(poly.toDescending(t.tf.rational.num).map((c) => +c.toFixed(12))).toEqual([1, 1, 0]);
+    expect(poly.toDescending(t.tf.rational.den).map((c) => +c.toFixed(12))).toEqual([1, 1, 6]);
+  });
+});
+
+describe('property: methods A and B agree on random cascades', () => {
+  it('random gains and lags in nested loops of depth 1–4 (fast-check)', () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 4 }),
+        fc.array(fc.tuple(fc.double({ min: 0.1, max: 20, noNaN: true }), fc.double({ min: 0.01, max: 5, noNaN: true }), fc.constantFrom('+-', '++')), { minLength: 4, maxLength: 4 }),
+        (n, stages) => {
+          const blocks = [sourceBlock('r'), probeBlock('y')];
+          const ws: string[] = ['r->e1.in1'];
+          for (let i = 1; i <= n; i++) {
+            const [k, tau, signs] = stages[i - 1];
+            blocks.push(sumBlock(`e${i}`, signs), tfBlock(`C${i}`, [k]), tfBlock(`P${i}`, [1], [tau, 1]));
+            ws.push(`e${i}->C${i}`, `fb${i}:P${i}->e${i}.in2`, i < n ? `C${i}->e${i + 1}.in1` : `C${i}->P${i}`);
+            if (i > 1) ws.push(`P${i}->P${i - 1}`);
+          }
+          ws.push('P1->y');
+          const g = graph(blocks, wires(...ws));
+          const a = closedLoop(g, { block: 'r' }, { block: 'y' });
+          const sys = assembleStateSpace(g, { block: 'r' }, { block: 'y' });
+          const s = cx(0.37, 1.3);
+          const va = revalComplex(a.tf.rational, s);
+          expect(near(va, evaluateStateSpace(sys, s))).toBeLessThanOrEqual(1e-8 * Math.max(1, cabs(va)));
+          const pa = closedLoopPoles(g);
+          const scale = Math.max(1, ...pa.map(cabs));
+          expect(rootError(closedLoopPolesStateSpace(g), pa)).toBeLessThanOrEqual(1e-6 * scale);
+        },
+      ),
+      { numRuns: 60 },
+    );
   });
 });
