@@ -38,7 +38,7 @@ export function cardContent(b: Block): CardContent {
     case 'transfer-function':
       return { formula: String(p.expression ?? '') };
     case 'gain':
-      return { formula: term(p.k) ?? '?' };
+      return { formula: typeof p.k === 'string' && p.k.trim() ? p.k : (term(p.k) ?? '?') };
     case 'integrator':
       return { formula: `${term(p.k) ?? '1'}/s` };
     case 'first-order-lag':
