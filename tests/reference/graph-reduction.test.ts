@@ -105,7 +105,7 @@ describe('two-loop cascades (block-diagram algebra)', () => {
     const inner = closedLoop(innerOnly, { block: 'r' }, { block: 'y' });
     expectDescending(inner.tf.rational.num, [1], 1e-9);
     expectDescending(inner.tf.rational.den, [1, 4], 1e-9);
-    expect(Math.abs(inner.dcGain - 0.25)).toBeLessThanOrEqual(1e-9);
+    expect(Math.abs(inner.staticGain - 0.25)).toBeLessThanOrEqual(1e-9);
     expectMethodsAgree(d, 'r', 'y');
   });
 });
@@ -127,7 +127,7 @@ describe("Mason's gain formula: touching and non-touching loops", () => {
     expect(t.rawDenominator.length).toBe(1);
     expect(Math.abs(t.rawDenominator[0] - 5.2)).toBeLessThanOrEqual(1e-9);
     expect(Math.abs(t.rawNumerator[0] - 24)).toBeLessThanOrEqual(1e-4);
-    expect(Math.abs(t.dcGain - 4.6154)).toBeLessThanOrEqual(1e-4);
+    expect(Math.abs(t.staticGain - 4.6154)).toBeLessThanOrEqual(1e-4);
     // The loop gains, each read at a cut (L_cut = −loop gain with the 1 + L convention, the others closed
     // — so read here with the other loops' feedback gains set to zero).
     const only = (h: number[]) => masonDiagram([['gain', { k: 2 }], ['gain', { k: 3 }], ['gain', { k: 1 }], ['gain', { k: 4 }]], h);

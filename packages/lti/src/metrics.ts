@@ -5,7 +5,7 @@ export interface MetricsOptions {
   band?: number;
   /** The commanded value; when given, the error e = reference − y is used for steadyStateError, IAE and ISE. */
   reference?: number;
-  /** The final value y∞ if known (e.g. from the DC gain); otherwise the last sample is used. */
+  /** The final value y∞ if known (e.g. from the static gain); otherwise the last sample is used. */
   finalValue?: number;
   /** The value before the step (default y(0), the first sample); matters for a direct feedthrough that jumps at t = 0. */
   initialValue?: number;

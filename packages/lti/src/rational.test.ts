@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import * as P from './poly.ts';
 import {
-  S, isProper, rational, radd, rcompose, rconst, rdcGain, rderivative, rdiv, revalComplex, revalReal, rformat,
+  S, isProper, rational, radd, rcompose, rconst, rstaticGain, rderivative, rdiv, revalComplex, revalReal, rformat,
   rinv, rmul, rpow, rsub, rvalueAtInfinity, relativeDegree,
 } from './rational.ts';
 import { cabs, csub, cx } from './complex.ts';
@@ -56,11 +56,11 @@ describe('rational functions', () => {
 
   it('gives static gain, value at infinity, relative degree and properness', () => {
     const g = rational([120 * 2, 120], [12, 7, 1]); // 120(s+2)/((s+3)(s+4)): Kp = 20, Nise Sec. 7.3 (from memory) [R38]
-    expect(rdcGain(g)).toBeCloseTo(20, 12);
+    expect(rstaticGain(g)).toBeCloseTo(20, 12);
     expect(rvalueAtInfinity(g)).toBe(0);
     expect(relativeDegree(g)).toBe(1);
     expect(isProper(rational([0, 0, 1], [1, 1]))).toBe(false);
-    expect(rdcGain(rational([1], [0, 1]))).toBe(Infinity);
+    expect(rstaticGain(rational([1], [0, 1]))).toBe(Infinity);
     expect(rvalueAtInfinity(rational([1, 2], [3, 4]))).toBeCloseTo(0.5, 15);
   });
 

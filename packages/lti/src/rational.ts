@@ -94,7 +94,7 @@ export function rvalueAtInfinity(a: Rational): number {
   return P.lead(a.num) / P.lead(a.den);
 }
 /** Static gain N(0)/D(0) (the value at s = 0); ±Infinity for a pole at the origin. */
-export function rdcGain(a: Rational): number {
+export function rstaticGain(a: Rational): number {
   const n0 = a.num[0] ?? 0;
   const d0 = a.den[0] ?? 0;
   if (d0 === 0) return n0 === 0 ? NaN : n0 > 0 ? Infinity : -Infinity;

@@ -54,7 +54,7 @@ export const reduceCommand: Command = {
             poles: r.poles,
             zeros: r.zeros,
             gain: r.gain,
-            dcGain: r.dcGain,
+            staticGain: r.staticGain,
             delay: r.delay,
             delayHandling: r.delayHandling,
             hiddenModes: r.hiddenModes,
@@ -70,7 +70,7 @@ export const reduceCommand: Command = {
       `  denominator (highest power first): ${poly.format(denA)}`,
       `  poles: ${fmtRoots(r.poles)}`,
       `  zeros: ${fmtRoots(r.zeros)}`,
-      `  gain (leading coefficient): ${fmtNumber(r.gain)}   static gain T(0): ${fmtNumber(r.dcGain)}`,
+      `  gain (leading coefficient): ${fmtNumber(r.gain)}   static gain T(0): ${fmtNumber(r.staticGain)}`,
       `  dead time: ${r.delay > 0 ? `${fmtNumber(r.delay)} s` : 'none'}   (${r.delayHandling.note})`,
     ];
     if (r.hiddenModes.length) lines.push(`  cancelled (hidden) modes: ${fmtRoots(r.hiddenModes)}`);

@@ -95,7 +95,7 @@ describe('positioning-axis demo', () => {
     expect(rep.separations.map((s) => `${s.inner}<${s.outer}`).sort()).toEqual(['cut-current<cut-speed', 'cut-speed<cut-position']);
     const t = closedLoop(d, { block: 'position-setpoint' }, { block: 'position' });
     // Type-1 loop (integrating pulley): zero steady-state position error (final-value theorem, Nise Sec. 7.3 (from memory)).
-    expect(Math.abs(t.dcGain - 1)).toBeLessThan(1e-9);
+    expect(Math.abs(t.staticGain - 1)).toBeLessThan(1e-9);
     expect(t.delayHandling.mode).toBe('pade');
   });
 });
@@ -108,6 +108,6 @@ describe('heating-cascade demo', () => {
   });
   it('room loop with integral action: unit static gain from setpoint to room temperature', () => {
     const t = closedLoop(d, { block: 'room-setpoint' }, { block: 'room-temperature' });
-    expect(Math.abs(t.dcGain - 1)).toBeLessThan(1e-9);
+    expect(Math.abs(t.staticGain - 1)).toBeLessThan(1e-9);
   });
 });

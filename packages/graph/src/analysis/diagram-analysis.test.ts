@@ -103,7 +103,7 @@ describe('diagram reduction with catalogue blocks', () => {
   it('reference to position of the axis: type-1 loop, unit static gain; both methods agree on poles', () => {
     const d = threeLoopAxis();
     const t = closedLoop(d, { block: 'ref' }, { block: 'pos' });
-    expect(Math.abs(t.dcGain - 1)).toBeLessThan(1e-9); // integrating loop: zero steady-state error (final-value theorem, Nise Sec. 7.3 (from memory))
+    expect(Math.abs(t.staticGain - 1)).toBeLessThan(1e-9); // integrating loop: zero steady-state error (final-value theorem, Nise Sec. 7.3 (from memory))
     const a = closedLoopPoles(d);
     const b = closedLoopPolesStateSpace(d);
     expect(rootError(b, a)).toBeLessThan(1e-6);

@@ -8,7 +8,7 @@ import {
   poly,
   polyRoots,
   rational,
-  rdcGain,
+  rstaticGain,
   transfer,
 } from '@loopwright/lti';
 import type { Diagram } from '../document-types.ts';
@@ -53,7 +53,7 @@ export interface Reduction {
   /** Leading-coefficient gain k of k·Π(s − z)/Π(s − p). */
   gain: number;
   /** Static gain T(0) of the rational part (±Infinity with a pole at the origin). */
-  dcGain: number;
+  staticGain: number;
   delay: number;
   delayHandling: DelayHandling;
   /** Roots common to numerator and denominator that were cancelled (modes the path cannot see). */
@@ -215,7 +215,7 @@ export function reductionOf(raw: RawTransmission, opts: ReduceOptions = {}): Red
   const out = {
     tf: transfer(r, raw.delay),
     gain: poly.lead(r.num) / poly.lead(r.den),
-    dcGain: rdcGain(r),
+    staticGain: rstaticGain(r),
     delay: raw.delay,
     delayHandling: raw.handling,
     hiddenModes: hidden,

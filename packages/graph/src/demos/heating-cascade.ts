@@ -9,7 +9,7 @@ const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id,
  * Temperatures are deviations from the operating point (room 20 °C, supply 50 °C); the valve
  * is shown in absolute % (0–100, saturation) by adding and removing its 50 % operating
  * point. Invented but plausible numbers: 0.8 K of supply per % valve with a 90 s lag, 20 s
- * transport delay in the pipework to the supply sensor, radiators 600 s, room 3600 s, 40 %
+ * transit delay in the pipework to the supply sensor, radiators 600 s, room 3600 s, 40 %
  * of the room's heat balance from the radiators and 60 % from outdoors.
  */
 export const heatingCascade: Diagram = {
@@ -27,7 +27,7 @@ export const heatingCascade: Diagram = {
     { name: 'Ti_room', value: 2880, unit: 's', min: 300, max: 20000, scale: 'log', description: 'Room controller integral time' },
     { name: 'Kp_sup', value: 2.5, unit: '%/K', min: 0.3, max: 10, scale: 'log', description: 'Supply controller gain: % valve per K of supply error' },
     { name: 'Ti_sup', value: 90, unit: 's', min: 10, max: 600, scale: 'log', description: 'Supply controller integral time' },
-    { name: 'T_pipe', value: 20, unit: 's', min: 0, max: 120, scale: 'linear', description: 'Transport delay in the pipework from the mixing valve to the supply sensor' },
+    { name: 'T_pipe', value: 20, unit: 's', min: 0, max: 120, scale: 'linear', description: 'Transit delay in the pipework from the mixing valve to the supply sensor' },
   ],
   blocks: [
     { id: 'room-setpoint', kind: 'source', label: 'room setpoint (K)', position: at(0, 0), params: { shape: 'step', amplitude: 1, start: 600, offset: 0 } },
@@ -51,7 +51,7 @@ export const heatingCascade: Diagram = {
     { id: 'valve', kind: 'saturation', label: 'mixing valve 0–100 %', position: at(6, 0), params: { lower: 0, upper: 100 } },
     { id: 'valve-bias-remove', kind: 'summing-junction', label: '− operating point', position: at(7, 0), params: { signs: '+-' } },
     { id: 'boiler', kind: 'first-order-lag', label: 'boiler and mixing (K per %)', position: at(8, 0), params: { k: 0.8, tau: 90 } },
-    { id: 'pipework', kind: 'dead-time', label: 'pipework transport delay', position: at(9, 0), params: { delay: 'T_pipe' } },
+    { id: 'pipework', kind: 'dead-time', label: 'pipework transit delay', position: at(9, 0), params: { delay: 'T_pipe' } },
     { id: 'radiators', kind: 'first-order-lag', label: 'radiators', position: at(10, 0), params: { k: 1, tau: 600 } },
     { id: 'radiator-share', kind: 'gain', label: 'radiator share of heat balance', position: at(11, 0), params: { k: 0.4 } },
     { id: 'heat-balance', kind: 'summing-junction', label: 'heat balance', position: at(12, 0), params: { signs: '++' } },
