@@ -1,12 +1,147 @@
-import type { Command } from '../io.ts';
+import { type Complex, InputError, type RootLocus, padeDelay, poly, rootLocus } from '@loopwright/lti';
+import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
+import { UsageError, type CliIo, type Command } from '../io.ts';
+import { fmtNumber, fmtRoots, fmtTransfer, readDiagram } from './diagram-input.ts';
+import { locusFromDiagram } from './locus-diagram.ts';
+import { loopFromArgs } from './loop-input.ts';
 
-// Placeholder until the owning issue lands this command; it refuses with exit code 1.
+const help = `loopwright locus --loop "<expression>" [--param NAME=VALUE ...] [--negative] [--json]
+loopwright locus FILE --sweep PARAM [--set NAME=VALUE ...] [--negative] [--json]
+
+Root locus: every closed-loop pole as a gain k varies.
+
+Loop form: the roots of 1 + k·L(s) = 0 with L = N/D from --loop, for k > 0 (or k < 0 with
+--negative): poles and zeros of L, asymptote centroid and angles, real-axis parts, breakaway
+and break-in points (real and complex) with their gains, imaginary-axis crossings with the
+exact gain and frequency, departure angles at complex poles and arrival angles at complex
+zeros, and the branches (each point [re, im, k]; breakaways and crossings are exact members).
+
+Diagram form: the locus of every closed-loop pole of the whole diagram as the named parameter
+PARAM varies, all others fixed (exact geometry when PARAM enters the characteristic polynomial
+affinely, e.g. a gain; otherwise a sampled parameter locus).
+
+  --loop EXPR      the loop L(s), e.g. "(s+3)/(s*(s+1)*(s+2)*(s+4))"
+  --param NAME=V   value of a parameter used in EXPR (repeatable)
+  --negative       trace k < 0 instead of k > 0
+  --k-max K        largest |k| traced (default: far enough that branches reach zeros/asymptotes)
+  --samples N      base gain samples (default 400; more are added where poles move fast)
+  --pade-order N   a dead time in L is replaced by a Padé (N,N) approximant (default 3)
+  FILE             a diagram (.loop.json), with --sweep PARAM and --set NAME=VALUE (repeatable)
+  --json           machine-readable output; complex numbers are [re, im]
+
+Example: npx loopwright locus --loop "1/(s*(s+1)*(s+2))"
+`;
+
+/** The JSON shape of the loop form (see --help). */
+export function locusJson(L: RootLocus, delayHandling: { mode: 'none' } | { mode: 'pade'; order: number; delay: number }) {
+  const pair = (z: Complex) => [z.re, z.im];
+  return {
+    negative: L.negative,
+    numeratorAscending: L.num,
+    denominatorAscending: L.den,
+    delayHandling,
+    poles: L.poles.map(pair),
+    zeros: L.zeros.map(pair),
+    asymptotes: { centroid: L.asymptotes.centroid, anglesDeg: L.asymptotes.anglesDeg },
+    realAxisSegments: L.realAxisSegments.map((s) => [s.from, s.to]),
+    breakaway: L.breakaways.map((b) => ({ s: pair(b.s), gain: b.gain, branches: b.branches })),
+    crossings: L.crossings.map((c) => ({ omega: c.omega, gain: c.gain })),
+    departures: L.departures.map((d) => ({ at: pair(d.at), angleDeg: d.angleDeg, multiplicity: d.multiplicity, anglesDeg: d.anglesDeg })),
+    arrivals: L.arrivals.map((d) => ({ at: pair(d.at), angleDeg: d.angleDeg, multiplicity: d.multiplicity, anglesDeg: d.anglesDeg })),
+    kRange: L.kRange,
+    degreeDropGain: L.degreeDropGain,
+    branches: L.branches.map((br) => br.map((p) => [p.s.re, p.s.im, p.k])),
+  };
+}
+
+type LocusSummary = {
+  poles: number[][];
+  zeros: number[][];
+  asymptotes: { centroid: number | null; anglesDeg: number[] };
+  breakaway: { s: number[]; gain: number }[];
+  crossings: { omega: number; gain: number }[];
+  departures: { at: number[]; angleDeg: number }[];
+  arrivals?: { at: number[]; angleDeg: number }[];
+  branches: number[][][];
+};
+
+const cplx = (p: number[]) => (p[1] === 0 ? fmtNumber(p[0]) : `${fmtNumber(p[0])} ${p[1] < 0 ? '-' : '+'} ${fmtNumber(Math.abs(p[1]))}j`);
+const asRoots = (ps: number[][]): Complex[] => ps.map((p) => ({ re: p[0], im: p[1] }));
+
+function humanSummary(j: LocusSummary, head: string[]): string {
+  const lines = [...head];
+  lines.push(`open-loop poles    ${fmtRoots(asRoots(j.poles))}`);
+  lines.push(`open-loop zeros    ${fmtRoots(asRoots(j.zeros))}`);
+  lines.push(
+    `asymptotes         ${j.asymptotes.centroid === null ? 'none (every branch ends at a finite zero)' : `centroid ${fmtNumber(j.asymptotes.centroid)}, angles ${j.asymptotes.anglesDeg.map((a) => `${fmtNumber(a, 5)}°`).join(', ')}`}`,
+  );
+  lines.push(`breakaway points   ${j.breakaway.length ? j.breakaway.map((b) => `s = ${cplx(b.s)} (k = ${fmtNumber(b.gain)})`).join('; ') : 'none'}`);
+  lines.push(`jω-axis crossings  ${j.crossings.length ? j.crossings.map((c) => `ω = ${fmtNumber(c.omega)} rad/s (k = ${fmtNumber(c.gain)})`).join('; ') : 'none'}`);
+  lines.push(`departure angles   ${j.departures.length ? j.departures.map((d) => `${fmtNumber(d.angleDeg, 5)}° from ${cplx(d.at)}`).join('; ') : 'none (no complex poles)'}`);
+  if (j.arrivals) lines.push(`arrival angles     ${j.arrivals.length ? j.arrivals.map((d) => `${fmtNumber(d.angleDeg, 5)}° at ${cplx(d.at)}`).join('; ') : 'none (no complex zeros)'}`);
+  const pts = j.branches.reduce((n, b) => n + b.length, 0);
+  lines.push(`branches           ${j.branches.length} (${pts} points; --json lists them)`);
+  return lines.join('\n') + '\n';
+}
+
+async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo): Promise<number> {
+  if (a.positional.length !== 1) throw new UsageError('locus: give exactly one diagram FILE (see --help)');
+  if (has(a, 'loop') || has(a, 'param')) throw new UsageError('locus: --loop/--param and a diagram FILE exclude each other');
+  const sweep = one(a, 'sweep');
+  if (!sweep) throw new UsageError('locus: the diagram form needs --sweep PARAM (the parameter to vary)');
+  const sets = parseAssignments(all(a, 'set'), 'set');
+  const d = await readDiagram(io, a.positional[0]);
+  const j = locusFromDiagram(d, sweep, sets, has(a, 'negative'));
+  if (has(a, 'json')) {
+    io.stdout(toJson(j));
+    return 0;
+  }
+  const head = [`locus of every closed-loop pole as ${j.parameter} varies (${j.mode === 'exact' ? 'exact geometry' : 'sampled'}; now ${fmtNumber(j.value)})${j.negative ? ', negative direction' : ''}`];
+  if (j.mode === 'sampled') head.push(`reason: ${j.reason}`, `range ${fmtNumber(j.range[0])} … ${fmtNumber(j.range[1])}`);
+  io.stdout(humanSummary(j, head));
+  return 0;
+}
+
 export const locusCommand: Command = {
   name: 'locus',
-  summary: '(being built)',
-  help: 'loopwright locus: not available yet',
-  async run(_argv, io) {
-    io.stderr('loopwright locus: not available yet\n');
-    return 1;
+  summary: 'root locus of a loop, or of a whole diagram as one parameter varies',
+  help,
+  async run(argv, io) {
+    const a = parseArgs(argv, ['loop', 'param', 'sweep', 'set', 'k-max', 'samples', 'pade-order'], ['negative', 'json']);
+    if (a.positional.length > 0) return diagramForm(a, io);
+    if (has(a, 'sweep') || has(a, 'set')) throw new UsageError('locus: --sweep and --set need a diagram FILE (locus FILE --sweep PARAM)');
+    const { text, tf } = loopFromArgs(a, 'locus');
+    const kMax = numberFlag(a, 'k-max');
+    const samples = numberFlag(a, 'samples');
+    const padeOrder = numberFlag(a, 'pade-order') ?? 3;
+    let num = tf.rational.num.slice();
+    let den = tf.rational.den.slice();
+    let delayHandling: { mode: 'none' } | { mode: 'pade'; order: number; delay: number } = { mode: 'none' };
+    if (tf.delay > 0) {
+      const p = padeDelay(tf.delay, padeOrder);
+      num = poly.mul(num, p.num);
+      den = poly.mul(den, p.den);
+      delayHandling = { mode: 'pade', order: padeOrder, delay: tf.delay };
+    }
+    if (poly.isZero(num)) throw new InputError(`--loop "${text}" is identically zero: there is no gain to sweep`);
+    const L = rootLocus(num, den, {
+      negative: has(a, 'negative'),
+      ...(kMax !== undefined ? { kMax } : {}),
+      ...(samples !== undefined ? { samples } : {}),
+    });
+    const j = locusJson(L, delayHandling);
+    if (has(a, 'json')) {
+      io.stdout(toJson(j));
+      return 0;
+    }
+    const head = [
+      `root locus of 1 + k·L(s) = 0 for k ${L.negative ? '< 0' : '> 0'}, |k| up to ${fmtNumber(Math.abs(L.kRange[1]))}`,
+      `L(s) = ${fmtTransfer(tf.rational.num, tf.rational.den, tf.delay)}`,
+    ];
+    if (delayHandling.mode === 'pade') head.push(`dead time ${fmtNumber(tf.delay)} s replaced by a Padé (${padeOrder},${padeOrder}) approximant for the poles`);
+    const segs = L.realAxisSegments.map((s) => `[${fmtNumber(s.from)}, ${fmtNumber(s.to)}]`).join(', ');
+    head.push(`real-axis parts    ${segs || 'none'}`);
+    io.stdout(humanSummary(j, head));
+    return 0;
   },
 };
