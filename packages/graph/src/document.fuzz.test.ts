@@ -95,7 +95,32 @@ function apply(doc: any, m: Mutation): void {
   }
 }
 
-const bases = demoDiagrams.map((d) => serializeDiagram(d.diagram));
+// Mostly a small loop (cheap, so 10,000 runs stay within seconds), sometimes a full demo.
+const smallLoop = JSON.stringify({
+  format: 'loopwright.diagram',
+  version: 1,
+  title: 'loop',
+  description: '',
+  parameters: [{ name: 'Kp', value: 2, unit: '1', min: 0, max: 10, scale: 'linear' }],
+  blocks: [
+    { id: 'r', kind: 'source', position: { x: 0, y: 0 }, params: { shape: 'step', amplitude: 1 } },
+    { id: 'e', kind: 'summing-junction', position: { x: 180, y: 0 }, params: { signs: '+-' } },
+    { id: 'c', kind: 'pid', position: { x: 360, y: 0 }, params: { kp: 'Kp', ti: 2, umin: '', umax: 5 } },
+    { id: 'g', kind: 'transfer-function', position: { x: 540, y: 0 }, params: { expression: 'exp(-0.1*s)/(s*(s+1))' } },
+    { id: 'y', kind: 'probe', position: { x: 720, y: 0 }, params: {} },
+  ],
+  wires: [
+    { id: 'w1', from: { block: 'r', port: 'out' }, to: { block: 'e', port: 'in1' } },
+    { id: 'w2', from: { block: 'e', port: 'out' }, to: { block: 'c', port: 'in' } },
+    { id: 'w3', from: { block: 'c', port: 'out' }, to: { block: 'g', port: 'in' } },
+    { id: 'w4', from: { block: 'g', port: 'out' }, to: { block: 'y', port: 'in' } },
+    { id: 'w5', from: { block: 'g', port: 'out' }, to: { block: 'e', port: 'in2' } },
+  ],
+  cuts: [{ id: 'k1', wire: 'w5' }],
+  sweeps: [{ id: 's1', parameter: 'Kp', min: 0.1, max: 10, scale: 'log' }],
+  view: { activeCut: 'k1', activeProbe: 'y' },
+});
+const bases = [smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, ...demoDiagrams.map((d) => serializeDiagram(d.diagram))];
 
 describe('document fuzz', () => {
   it('10,000 mutated documents load or give a clear InputError; fast; no prototype pollution', () => {
@@ -134,5 +159,5 @@ describe('document fuzz', () => {
     expect(loaded).toBeGreaterThan(100);
     expect(refused).toBeGreaterThan(100);
     console.log(`fuzz: ${loaded} loaded, ${refused} refused, slowest ${slowest.toFixed(1)} ms`);
-  });
+  }, 120_000); // a few seconds alone; generous for a machine shared with parallel test files
 });
