@@ -169,7 +169,11 @@ export function buildRun(model: CompiledModel, overrides: Record<string, number>
         nd.so = nStates;
         nStates += nd.ns;
         nd.a = Float64Array.from(nd.ns > 0 ? ss.A[nd.ns - 1].map((v) => -v) : []);
-        nd.c = Float64Array.from(ss.C);
+        // scale the states (x = z/σ) so that they have the size of the output: the
+        // integrator's absolute tolerance then means the same for a lag of 1 s and of 10 µs
+        const sigma = Math.max(...ss.C.map(Math.abs));
+        nd.b = sigma > 0 && Number.isFinite(sigma) ? sigma : 1;
+        nd.c = Float64Array.from(ss.C.map((v) => v / nd.b));
         nd.d = ss.D;
         nd.feedthrough = ss.D !== 0;
         add(nd, cb.index);

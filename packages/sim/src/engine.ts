@@ -9,7 +9,7 @@ import { sourceValue, type SourceParams } from './sources.ts';
  * Everything in the hot path works on preallocated typed arrays.
  */
 export const OP_SOURCE = 0;
-export const OP_LTI = 1; // controllable canonical: ẋ_j = x_(j+1), ẋ_(n−1) = u − Σ a_j x_j, y = Σ c_j x_j + d·u
+export const OP_LTI = 1; // controllable canonical: ẋ_j = x_(j+1), ẋ_(n−1) = b·u − Σ a_j x_j, y = Σ c_j x_j + d·u
 export const OP_SUM = 2;
 export const OP_DELAY = 3;
 export const OP_SAT = 4;
@@ -37,6 +37,8 @@ export class SimNode {
   a: Float64Array = new Float64Array(0);
   c: Float64Array = new Float64Array(0);
   d = 0;
+  /** Input gain of the last canonical state (scales the states to the output's size). */
+  b = 1;
   // limits (saturation, dead zone, PID output) and rates
   lo = -Infinity;
   hi = Infinity;
@@ -71,6 +73,8 @@ export class Engine {
   readonly rateNodes: SimNode[];
   readonly delayNodes: SimNode[];
   readonly guards: Float64Array;
+  /** Size of the signal behind each guard (1 + |u|): a guard fires only below −1e-11·scale (round-off). */
+  readonly guardScale: Float64Array;
   readonly udot: Float64Array;
   /** State index → node owning it (messages). */
   readonly stateOwner: Int32Array;
@@ -100,6 +104,7 @@ export class Engine {
       ng += n.ng;
     }
     this.guards = new Float64Array(ng);
+    this.guardScale = new Float64Array(ng).fill(1);
     this.udot = new Float64Array(nodes.length);
     this.stateOwner = new Int32Array(nStates).fill(-1);
     for (const n of this.stateNodes) for (let j = 0; j < n.ns; j++) this.stateOwner[n.so + j] = n.block;
@@ -177,7 +182,7 @@ export class Engine {
         case OP_LTI: {
           const n = nd.ns;
           const a = nd.a;
-          let acc = sig[nd.in0];
+          let acc = nd.b * sig[nd.in0];
           for (let j = 0; j < n; j++) acc -= a[j] * x[so + j];
           for (let j = 0; j < n - 1; j++) dx[so + j] = x[so + j + 1];
           dx[so + n - 1] = acc;
@@ -219,8 +224,8 @@ export class Engine {
   }
 
   /** Guard values at (t, x): evaluates the network (and input slopes where a rate limiter tracks). */
-  computeGuards(t: number, x: ArrayLike<number>): Float64Array {
-    let needSlopes = false;
+  computeGuards(t: number, x: ArrayLike<number>, forceSlopes = false): Float64Array {
+    let needSlopes = forceSlopes && this.rateNodes.length > 0;
     for (const nd of this.rateNodes) if (nd.mode === 0) needSlopes = true;
     if (needSlopes) this.inputSlopes(t, x);
     else this.evalNet(t, x);
@@ -233,6 +238,7 @@ export class Engine {
         case OP_DEADZONE:
         case OP_PID: {
           const u = nd.op === OP_PID ? nd.v : sig[nd.in0];
+          this.guardScale[o] = this.guardScale[o + 1] = 1 + Math.abs(u);
           if (nd.mode === 0) {
             g[o] = u - nd.lo;
             g[o + 1] = nd.hi - u;
@@ -251,6 +257,7 @@ export class Engine {
         }
         case OP_RATE: {
           const u = sig[nd.in0];
+          this.guardScale[o] = this.guardScale[o + 1] = 1 + Math.abs(u);
           if (nd.mode === 0) {
             const s = this.udot[nd.in0];
             g[o] = nd.rising - s;

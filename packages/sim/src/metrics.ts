@@ -1,7 +1,11 @@
+import { responseMetrics, type MetricsOptions, type ResponseMetrics } from '@loopwright/lti';
+
 /**
- * Response metrics of a probe's trace. The figures themselves come from lti's
- * `responseMetrics` (one implementation for the whole project).
+ * Response metrics of a probe's trace, from lti's `responseMetrics` (one implementation for
+ * the whole project). null when the trace cannot be measured (fewer than two samples, or a
+ * diverged run with non-finite values).
  */
-export function probeMetrics(_time: number[], _y: number[]): unknown {
-  return null; // wired to lti responseMetrics once it lands
+export function probeMetrics(time: number[], y: number[], opts?: MetricsOptions): ResponseMetrics | null {
+  if (time.length < 2 || !y.every(Number.isFinite)) return null;
+  return responseMetrics(time, y, opts);
 }

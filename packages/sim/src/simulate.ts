@@ -1,4 +1,4 @@
-import { InputError } from '@loopwright/lti';
+import { InputError, type ResponseMetrics } from '@loopwright/lti';
 import { Outcome, Solver } from 'odex';
 import { buildRun, statesBehind } from './build.ts';
 import type { CompiledModel } from './compile.ts';
@@ -11,6 +11,8 @@ import type { ActuatorFigures, SimEvent, SimResult, SimStatus, SimulateOptions }
 const MAX_PROPAGATION = 4;
 const MAX_BREAKPOINTS = 50000;
 const MAX_GRID = 2_000_000;
+/** Guards below −GUARD_TOL·(1 + |signal|) fire; nearer zero is round-off of a signal on its boundary. */
+const GUARD_TOL = 1e-11;
 
 const now = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
 
@@ -155,6 +157,7 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
   let segments = 0;
   let lastProgress = 0;
   let zeroProgress = 0;
+  let dwellUntil = -Infinity;
   const hRing = new Float64Array(64);
   let hSum = 0;
   let segStart = 0;
@@ -183,7 +186,7 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     if (nd.op === OP_RATE) return m > 0 ? 'rate-rising' : m < 0 ? 'rate-falling' : 'rate-leave';
     return m > 0 ? 'limit-upper' : m < 0 ? 'limit-lower' : 'limit-leave';
   };
-  const setMode = (nd: SimNode, m: number, at: number) => {
+  const setModeEvent = (nd: SimNode, m: number, at: number) => {
     const old = nd.mode;
     if (m === old) return;
     nd.mode = m;
@@ -194,9 +197,9 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
       if (old === 0 && m !== 0) tr.since = at;
       if (old !== 0 && m === 0) tr.total += at - tr.since;
     }
-    if (nd.op === OP_PID && m === 0) setFrozen(nd, false, at);
+    if (nd.op === OP_PID && m === 0) setFrozenEvent(nd, false, at);
   };
-  const setFrozen = (nd: SimNode, f: boolean, at: number) => {
+  const setFrozenEvent = (nd: SimNode, f: boolean, at: number) => {
     if (nd.frozen === f) return;
     nd.frozen = f;
     events.push({ time: at, kind: f ? 'integration-hold' : 'integration-resume', block: blockId(nd.block) });
@@ -207,9 +210,23 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
   };
 
   /** Chooses every mode from the signals at (t, x), upstream first; ties keep the current mode. */
+  const savedMode = new Int8Array(eng.guardNodes.length);
+  const savedFrozen = new Uint8Array(eng.guardNodes.length);
   const selectModes = (at: number, xv: Float64Array) => {
+    // modes change silently while the selection settles; events record only the net change
+    eng.guardNodes.forEach((nd, i) => {
+      savedMode[i] = nd.mode;
+      savedFrozen[i] = nd.frozen ? 1 : 0;
+    });
+    const setMode = (nd: SimNode, m: number) => {
+      nd.mode = m;
+      if (m === 0) nd.frozen = false;
+    };
+    const setFrozen = (nd: SimNode, f: boolean) => {
+      nd.frozen = f;
+    };
     for (let iter = 0; iter < eng.guardNodes.length + 2; iter++) {
-      eng.computeGuards(at, xv);
+      eng.computeGuards(at, xv, true);
       let changed = false;
       for (const nd of eng.guardNodes) {
         const old = nd.mode;
@@ -218,13 +235,17 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
           const r = xv[nd.so];
           const eps = 1e-9 * (1 + Math.abs(u));
           let m: number;
-          if (nd.mode === 0) {
+          if (Math.abs(u - r) > eps) m = u > r ? 1 : -1; // behind the input: slew towards it
+          else if (at < dwellUntil && nd.mode !== 0) m = nd.mode;
+          else {
+            // on the input: follow it unless its slope is beyond a limit; a slope within a hair
+            // of the limit stays tracking (its guard then fires if it really crosses)
             const s = eng.udot[nd.in0];
-            m = s > nd.rising ? 1 : s < -nd.falling ? -1 : 0;
-          } else m = u > r + eps && nd.mode > 0 ? 1 : u < r - eps && nd.mode < 0 ? -1 : 0;
-          if (nd.mode === 0 && m !== 0) xv[nd.so] = u;
+            m = s > nd.rising + 1e-7 * (1 + nd.rising) ? 1 : s < -nd.falling - 1e-7 * (1 + nd.falling) ? -1 : 0;
+            if (m !== 0) xv[nd.so] = u;
+          }
           if (m !== old) {
-            setMode(nd, m, at);
+            setMode(nd, m);
             changed = true;
           }
           continue;
@@ -237,7 +258,7 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
         else if (old === 1 && u >= nd.hi - eps) m = 1;
         else if (old === -1 && u <= nd.lo + eps) m = -1;
         if (m !== old) {
-          setMode(nd, m, at);
+          setMode(nd, m);
           changed = true;
         }
         if (nd.op === OP_PID && nd.aw === AW_CONDITIONAL && nd.mode !== 0) {
@@ -246,13 +267,21 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
           const pe = 1e-12 * (1 + Math.abs(e));
           const f = p > pe ? true : p < -pe ? false : nd.frozen || old === 0;
           if (f !== nd.frozen) {
-            setFrozen(nd, f, at);
+            setFrozen(nd, f);
             changed = true;
           }
         }
       }
       if (!changed) break;
     }
+    eng.guardNodes.forEach((nd, i) => {
+      const m = nd.mode;
+      const f = nd.frozen;
+      nd.mode = savedMode[i];
+      nd.frozen = savedFrozen[i] === 1;
+      setModeEvent(nd, m, at);
+      setFrozenEvent(nd, f, at);
+    });
   };
   // Rate limiters: a jump of the input (at a segment start) cannot be followed.
   const selectRateJumps = (xv: Float64Array) => {
@@ -261,8 +290,8 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
       const u = sig[nd.in0];
       const r = xv[nd.so];
       const eps = 1e-9 * (1 + Math.abs(u));
-      if (u > r + eps) setMode(nd, 1, t);
-      else if (u < r - eps) setMode(nd, -1, t);
+      if (u > r + eps) setModeEvent(nd, 1, t);
+      else if (u < r - eps) setModeEvent(nd, -1, t);
     }
   };
 
@@ -272,24 +301,24 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
       if (gi < nd.go || gi >= nd.go + nd.ng) continue;
       const slot = gi - nd.go;
       if (nd.op === OP_PID && slot === 2) {
-        setFrozen(nd, !nd.frozen, at);
+        setFrozenEvent(nd, !nd.frozen, at);
         return;
       }
       if (nd.op === OP_RATE) {
         if (nd.mode === 0) {
           xv[nd.so] = sig[nd.in0];
-          setMode(nd, slot === 0 ? 1 : -1, at);
-        } else setMode(nd, 0, at);
+          setModeEvent(nd, slot === 0 ? 1 : -1, at);
+        } else if (!(at < dwellUntil)) setModeEvent(nd, 0, at); // in a dwell keep slewing: its slope is the limit itself
         return;
       }
       if (nd.mode === 0) {
         // slot 0: u went below lo; slot 1: above hi. Dead zone: leaving the band.
-        setMode(nd, slot === 0 ? -1 : 1, at);
+        setModeEvent(nd, slot === 0 ? -1 : 1, at);
         if (nd.op === OP_PID && nd.aw === AW_CONDITIONAL) {
           const p = nd.mode * Math.sign(nd.ki) * sig[nd.in0];
-          setFrozen(nd, p > 0, at);
+          setFrozenEvent(nd, p > 0, at);
         }
-      } else setMode(nd, 0, at);
+      } else setModeEvent(nd, 0, at);
       return;
     }
   };
@@ -322,13 +351,13 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     fillDense(dense, tau);
     return eng.computeGuards(tau, xs)[gi];
   };
-  const findRoot = (dense: Dense, gi: number, a: number, fa: number, b: number, fb: number): number => {
+  const findRoot = (dense: Dense, gi: number, shift: number, a: number, fa: number, b: number, fb: number): number => {
     let side = 0;
     for (let it = 0; it < 80; it++) {
       if (b - a <= 1e-13 * Math.max(1, Math.abs(b))) break;
       let c = fb !== fa ? (a * fb - b * fa) / (fb - fa) : 0.5 * (a + b);
       if (!(c > a && c < b)) c = 0.5 * (a + b);
-      const fc = guardAt(dense, gi, c);
+      const fc = guardAt(dense, gi, c) + shift;
       if (fc < 0) {
         b = c;
         fb = fc;
@@ -385,7 +414,11 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
         if (j < DEGREE) fillDense(dense, tau);
         if (hasGuards) {
           const g = eng.computeGuards(tau, xs);
-          for (let i = 0; i < ng; i++) if (g[i] < 0 && gLast[i] >= 0) fired = true;
+          const gs = eng.guardScale;
+          if (tau < dwellUntil) {
+            // just after repeated switches at one instant: hold the modes for a short dwell (see below)
+            for (let i = 0; i < ng; i++) if (g[i] < 0) g[i] = 0;
+          } else for (let i = 0; i < ng; i++) if (g[i] < -GUARD_TOL * gs[i] && gLast[i] >= -GUARD_TOL * gs[i]) fired = true;
           if (fired) {
             jFired = j;
             break;
@@ -405,9 +438,13 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
         const gaCopy = Float64Array.from(ga);
         let te = Infinity;
         let which = -1;
+        const gs = Float64Array.from(eng.guardScale);
         for (let i = 0; i < ng; i++) {
-          if (gb[i] < 0 && gaCopy[i] >= 0) {
-            const r = findRoot(dense, i, a, gaCopy[i], b, gb[i]);
+          const tol = GUARD_TOL * gs[i];
+          if (gb[i] < -tol && gaCopy[i] >= -tol) {
+            // the root of g itself when the bracket allows it, else where g = −tol (a round-off away)
+            const shift = gaCopy[i] >= 0 ? 0 : tol;
+            const r = findRoot(dense, i, shift, a, gaCopy[i] + shift, b, gb[i] + shift);
             if (r < te) {
               te = r;
               which = i;
@@ -443,7 +480,8 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     if (accepted >= 256 && slot === 0) {
       const hAvg = hSum / 64;
       const need = (until - xnew) / hAvg;
-      if (need > maxSteps - steps - accepted && hAvg < 1e-3 * hCap) {
+      // step size collapsed far below what the segment allows, and the budget would not reach the end (or the collapse is extreme)
+      if ((need > maxSteps - steps - accepted && hAvg < 1e-3 * hCap) || (accepted >= 1024 && hAvg < 1e-5 * hCap)) {
         stop(
           'stiff',
           `the step size collapsed to about ${fmt(hAvg)} s at t = ${fmt(xnew)} s (about ${fmt(need)} more steps needed, ` +
@@ -489,7 +527,8 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
       selectRateJumps(x);
       selectModes(t, x);
       const g = eng.computeGuards(t, x);
-      for (let i = 0; i < ng; i++) gPrev[i] = g[i] < 0 && g[i] > -1e-7 * (1 + Math.abs(g[i])) ? 0 : g[i];
+      // a guard a hair below zero right after a switch counts as on the boundary
+      for (let i = 0; i < ng; i++) gPrev[i] = g[i] < 0 && g[i] > -1e-6 ? 0 : g[i];
     } else eng.evalNet(t, x);
     if (t > lastRec + 1e-12 * Math.max(1, t) || time.length === 0) recordAt(t);
     for (let d = 0; d < delayNodes.length; d++) prevSample[d] = sig[delayNodes[d].in0];
@@ -505,6 +544,11 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     if (stopped) break;
     if (!Number.isNaN(eventT)) {
       zeroProgress = eventT - t <= 1e-12 * Math.max(1, t) ? zeroProgress + 1 : 0;
+      // A signal grazing its limit (slope equal to a rate limit, a peak touching a saturation)
+      // can make modes flip back and forth on round-off at one instant. After a few such
+      // switches the modes are held for a dwell of 1e-6 of the run, long enough for the guard
+      // to grow above round-off; a rate limiter holds its slewing mode (slope = the limit).
+      if (zeroProgress >= 3) dwellUntil = eventT + 1e-6 * until;
       x.set(restart);
       t = eventT;
       eng.evalNet(t, x);
@@ -548,10 +592,10 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
   const traces: Record<string, number[]> = {};
   keys.forEach((key, i) => (traces[key] = cols[i]));
   const metricsFor = opts.metricsFor ?? model.probes.map((p) => model.blocks[p].id);
-  const metrics: Record<string, unknown> = {};
+  const metrics: Record<string, ResponseMetrics | null> = {};
   for (const id of metricsFor) {
     if (!traces[id]) throw new InputError(`simulation option metricsFor: "${id}" is not a probe`, { field: 'metricsFor' });
-    metrics[id] = probeMetrics(time, traces[id]);
+    metrics[id] = probeMetrics(time, traces[id], opts.metricsOptions);
   }
   return {
     time,

@@ -1,4 +1,5 @@
 /** Options and results of a time simulation (see simulate.ts). */
+import type { MetricsOptions, ResponseMetrics } from '@loopwright/lti';
 
 export interface SimulateOptions {
   /** End time in seconds (> 0). */
@@ -22,6 +23,8 @@ export interface SimulateOptions {
   divergenceBound?: number;
   /** Probe whose response metrics to compute (default: every probe). */
   metricsFor?: string[];
+  /** Passed to lti responseMetrics (settling band, reference, …). */
+  metricsOptions?: MetricsOptions;
   /** Called with the fraction of simulated time done (0..1), at most about every 1 %. */
   onProgress?: (fraction: number) => void;
   /** Polled during the run; returning true ends it with status 'cancelled' and the partial traces. */
@@ -69,7 +72,7 @@ export interface SimResult {
   /** Simulated time reached (= until when status is 'ok'). */
   timeReached: number;
   /** Response metrics per probe (lti responseMetrics), computed from the traces. */
-  metrics: Record<string, unknown>;
+  metrics: Record<string, ResponseMetrics | null>;
   /** Per limiting block id. */
   actuators: Record<string, ActuatorFigures>;
   stats: SimStats;
