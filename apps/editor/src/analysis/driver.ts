@@ -7,7 +7,7 @@
 import type { Diagram } from '@loopwright/graph';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { useAnalysisStore } from './analysis-store.ts';
-import { useResultsStore } from './results-store.ts';
+import { useResultsStore, type ResultsState } from './results-store.ts';
 import {
   asSweepDiagram,
   documentValue,
@@ -37,7 +37,11 @@ export function currentInputs(): AnalysisInputs {
   const choice = choices.find((c) => c.key === ui.sweepKey) ?? preferredChoice(diagram, choices);
   const engineDiagram = choice ? asSweepDiagram(diagram, choice.target) : diagram;
   const value = ui.liveValue ?? (choice ? documentValue(diagram, choice.target) : Number.NaN);
-  const sweep = choice && Number.isFinite(value) ? { parameter: engineParameterName(choice.target), value, negative: ui.negativeLocus } : null;
+  const range = choice ? ui.ranges[choice.key] ?? choice.range : null;
+  const sweep: SweepSpec | null =
+    choice && range && Number.isFinite(value)
+      ? { parameter: engineParameterName(choice.target), value, negative: ui.negativeLocus, min: range.min, max: range.max }
+      : null;
   const cutId =
     ui.cutId && (diagram.cuts.some((c) => c.id === ui.cutId) || ui.cutId.startsWith('auto:'))
       ? ui.cutId
@@ -74,57 +78,75 @@ export function engineClient(): EngineClient {
  */
 export function startAnalysisDriver(): () => void {
   const engine = engineClient();
-  const sentKey: Record<Channel, string> = { analysis: '', response: '' };
-  const genOf: Record<Channel, Map<number, number>> = { analysis: new Map(), response: new Map() };
+  const sentKey: Record<Channel, string> = { analysis: '', loops: '', response: '' };
+  const genOf: Record<Channel, Map<number, number>> = { analysis: new Map(), loops: new Map(), response: new Map() };
 
   const off = engine.onReply((reply) => {
-    const gen = genOf[reply.channel].get(reply.id) ?? 0;
-    genOf[reply.channel].delete(reply.id);
-    if (reply.channel === 'analysis') {
-      useResultsStore.setState(
-        reply.ok ? { analysis: reply.result as never, analysisGeneration: gen, analysisError: null } : { analysisGeneration: gen, analysisError: reply.error },
-      );
-    } else {
-      useResultsStore.setState(
-        reply.ok ? { response: reply.result as never, responseGeneration: gen, responseError: null } : { responseGeneration: gen, responseError: reply.error },
-      );
+    const ch = reply.channel;
+    const gen = genOf[ch].get(reply.id) ?? 0;
+    genOf[ch].delete(reply.id);
+    const s = useResultsStore.getState();
+    const patch: Partial<ResultsState> = {
+      held: { ...s.held, [ch]: gen },
+      errors: { ...s.errors, [ch]: reply.ok ? null : reply.error },
+    };
+    if (reply.ok) {
+      if (reply.channel === 'analysis') {
+        patch.analysis = reply.result;
+        patch.computeMs = { ...s.computeMs, analysis: reply.result.elapsedMs };
+      } else if (reply.channel === 'loops') {
+        patch.loops = reply.result.loops;
+        patch.computeMs = { ...s.computeMs, loops: reply.result.elapsedMs };
+      } else {
+        patch.response = reply.result;
+        patch.computeMs = { ...s.computeMs, response: reply.result.elapsedMs };
+      }
     }
+    useResultsStore.setState(patch);
   });
 
   const update = () => {
     const inp = currentInputs();
     const base = analysisKey(inp.engineDiagram);
-    const aKey = JSON.stringify([base, inp.sweep, inp.cutId]);
-    const rKey = JSON.stringify([base, inp.overrides, inp.until]);
-    const changedA = aKey !== sentKey.analysis;
-    const changedR = rKey !== sentKey.response;
-    if (!changedA && !changedR) return;
+    const keys: Record<Channel, string> = {
+      analysis: JSON.stringify([base, inp.sweep, inp.cutId]),
+      loops: JSON.stringify([base, inp.overrides]),
+      response: JSON.stringify([base, inp.overrides, inp.until]),
+    };
+    const changed = (Object.keys(keys) as Channel[]).filter((c) => keys[c] !== sentKey[c]);
+    if (changed.length === 0) return;
     const rs = useResultsStore.getState();
     const gen = rs.generation + 1;
     // A channel whose inputs did not change keeps the generation it was last asked for.
-    useResultsStore.setState({
-      generation: gen,
-      generationAt: performance.now(),
-      ...(changedA ? { analysisWanted: gen } : {}),
-      ...(changedR ? { responseWanted: gen } : {}),
-    });
-    if (changedA) {
-      sentKey.analysis = aKey;
-      const id = engine.send({ channel: 'analysis', diagram: inp.engineDiagram, sweep: inp.sweep, cutId: inp.cutId });
-      genOf.analysis.set(id, gen);
-    }
-    if (changedR) {
-      sentKey.response = rKey;
-      const id = engine.send({ channel: 'response', diagram: inp.engineDiagram, overrides: inp.overrides, until: inp.until });
-      genOf.response.set(id, gen);
+    const wanted = { ...rs.wanted };
+    for (const c of changed) wanted[c] = gen;
+    useResultsStore.setState({ generation: gen, generationAt: performance.now(), wanted });
+    for (const c of changed) {
+      sentKey[c] = keys[c];
+      const id =
+        c === 'analysis'
+          ? engine.send({ channel: 'analysis', diagram: inp.engineDiagram, sweep: inp.sweep, cutId: inp.cutId })
+          : c === 'loops'
+            ? engine.send({ channel: 'loops', diagram: inp.engineDiagram, overrides: inp.overrides })
+            : engine.send({ channel: 'response', diagram: inp.engineDiagram, overrides: inp.overrides, until: inp.until });
+      genOf[c].set(id, gen);
     }
   };
 
+  // The diagram's own sweep choice (Parameters panel "Sweep") takes over from the sweep bar's.
+  let activeSweep = useDiagramStore.getState().diagram.view.activeSweep;
+  const offActive = useDiagramStore.subscribe((st) => {
+    if (st.diagram.view.activeSweep !== activeSweep) {
+      activeSweep = st.diagram.view.activeSweep;
+      useAnalysisStore.getState().setSweepKey(null);
+    }
+  });
   const offDiagram = useDiagramStore.subscribe(update);
   const offUi = useAnalysisStore.subscribe(update);
   update();
   return () => {
     off();
+    offActive();
     offDiagram();
     offUi();
   };

@@ -43,6 +43,48 @@ export function keyPoints(locus: LocusData | null, current: readonly Cx[]): Cx[]
 }
 
 /**
+ * The part of the locus the slider actually moves: branch points whose sweep value lies in
+ * the slider range, on branches that move by more than 2 % of their size over that range.
+ * Fast modes of inner loops (or Padé poles) barely move when an outer gain is swept; framing
+ * them would shrink the interesting part to a dot.
+ */
+export function activePoints(branches: readonly LocusBranch[], kMin: number, kMax: number): Cx[] {
+  const lo = Math.min(kMin, kMax);
+  const hi = Math.max(kMin, kMax);
+  const out: Cx[] = [];
+  for (const b of branches) {
+    const pts: Cx[] = [];
+    for (let i = 0; i < b.k.length; i++) if (b.k[i] >= lo && b.k[i] <= hi) pts.push({ re: b.re[i], im: b.im[i] });
+    if (pts.length < 2) continue;
+    let x0 = Infinity;
+    let x1 = -Infinity;
+    let y0 = Infinity;
+    let y1 = -Infinity;
+    let size = 0;
+    for (const p of pts) {
+      x0 = Math.min(x0, p.re);
+      x1 = Math.max(x1, p.re);
+      y0 = Math.min(y0, p.im);
+      y1 = Math.max(y1, p.im);
+      size = Math.max(size, Math.hypot(p.re, p.im));
+    }
+    if (Math.hypot(x1 - x0, y1 - y0) > 0.02 * size) out.push(...pts);
+  }
+  return out;
+}
+
+/** Key points near a set of focus points (within `factor` times their extent). */
+export function pointsNear(points: readonly Cx[], focus: readonly Cx[], factor = 1.5): Cx[] {
+  if (focus.length === 0) return [...points];
+  let r = 0;
+  let cx = 0;
+  for (const f of focus) cx += f.re / focus.length;
+  for (const f of focus) r = Math.max(r, Math.hypot(f.re - cx, f.im));
+  r = Math.max(r * factor, 1e-9);
+  return points.filter((p) => Math.hypot(p.re - cx, p.im) <= r);
+}
+
+/**
  * An equal-aspect window (same units per pixel on both axes) that holds the key points with a
  * margin, plus the branch points within a few radii of them (branches running off to infinity
  * along asymptotes are clipped, not followed), symmetric about the real axis.
@@ -153,28 +195,36 @@ export function dampingOf(s: Cx): { zeta: number; omegaN: number } {
   return { zeta: wn === 0 ? 1 : -s.re / wn, omegaN: wn };
 }
 
-/** Gain k at s from D0(s) + k·N0(s) = 0 (real part of −D0/N0; polynomials ascending). */
-export function gainAt(n0: readonly number[], d0: readonly number[], s: Cx): number {
-  const ev = (p: readonly number[]) => {
-    let re = 0;
-    let im = 0;
-    for (let i = p.length - 1; i >= 0; i--) {
-      const r = re * s.re - im * s.im + p[i];
-      im = re * s.im + im * s.re;
-      re = r;
-    }
-    return { re, im };
-  };
-  const d = ev(d0);
-  const n = ev(n0);
-  const den = n.re * n.re + n.im * n.im;
-  if (den === 0) return Number.POSITIVE_INFINITY;
-  return -(d.re * n.re + d.im * n.im) / den;
-}
-
 /** Distance from s to the nearest of the poles, relative to |s| (or absolute near the origin). */
 export function relativeDistanceToNearest(s: Cx, poles: readonly Cx[]): number {
   let best = Infinity;
   for (const p of poles) best = Math.min(best, Math.hypot(p.re - s.re, p.im - s.im));
   return best / Math.max(Math.hypot(s.re, s.im), 1e-12);
+}
+
+export interface PlaneZoom {
+  /** Window size relative to the fitted one (< 1 zooms in). */
+  scale: number;
+  /** Centre of the window. */
+  re: number;
+  im: number;
+}
+
+/** The fitted window zoomed: same aspect, `scale` times the size, centred on the zoom centre. */
+export function zoomWindow(win: PlaneWindow, z: PlaneZoom | null): PlaneWindow {
+  if (!z) return win;
+  const hw = ((win.xMax - win.xMin) / 2) * z.scale;
+  const hh = ((win.yMax - win.yMin) / 2) * z.scale;
+  return { xMin: z.re - hw, xMax: z.re + hw, yMin: z.im - hh, yMax: z.im + hh, step: niceStep((win.step * z.scale) / 1) };
+}
+
+/** Zooms by `factor` keeping the plane point under the pointer fixed. */
+export function zoomAt(fitted: PlaneWindow, current: PlaneWindow, box: PlotBox, x: number, y: number, factor: number, z: PlaneZoom | null): PlaneZoom {
+  const at = fromPixel(current, box, x, y);
+  const scale = Math.min(20, Math.max(1e-4, (z?.scale ?? 1) * factor));
+  const cur = { re: (current.xMin + current.xMax) / 2, im: (current.yMin + current.yMax) / 2 };
+  // The pointed-at point keeps its place: centre moves towards it by (1 − factor).
+  const f = scale / (z?.scale ?? 1);
+  void fitted;
+  return { scale, re: at.re + (cur.re - at.re) * f, im: at.im + (cur.im - at.im) * f };
 }

@@ -1,45 +1,47 @@
 /**
  * The latest engine results, derived from the document and the live sweep value (never a
  * source of truth: the driver overwrites them whenever their inputs change). `generation`
- * counts input changes; `renderedGeneration` is set by the analysis area after it has drawn
- * the results of a generation, so tests and the bench can wait for "all views updated".
+ * counts input changes; each channel records the generation it was last asked for and the
+ * one its held result belongs to. `renderedGeneration` is set by the analysis area after it
+ * has drawn a complete generation, so tests and the bench can wait for "all views updated".
  */
 import { create } from 'zustand';
-import type { AnalysisResult, ResponseResult } from '../worker/protocol.ts';
+import type { AnalysisResult, Channel, LoopsData, Part, ResponseResult } from '../worker/protocol.ts';
 
 export interface ResultsState {
   generation: number;
   /** performance.now() when the inputs of `generation` changed. */
   generationAt: number;
   analysis: AnalysisResult | null;
-  /** Generation of the newest analysis request, and of the analysis result held. */
-  analysisWanted: number;
-  analysisGeneration: number;
-  analysisError: string | null;
+  loops: Part<LoopsData> | null;
   response: ResponseResult | null;
-  responseWanted: number;
-  responseGeneration: number;
-  responseError: string | null;
+  /** Per channel: generation of the newest request, and of the result held. */
+  wanted: Record<Channel, number>;
+  held: Record<Channel, number>;
+  errors: Record<Channel, string | null>;
+  /** Worker compute time of the latest result per channel, ms. */
+  computeMs: Record<Channel, number>;
   renderedGeneration: number;
   /** Input-to-drawn latencies (ms) of recent generations, newest last. */
   latencies: number[];
 }
 
+const perChannel = <T>(v: T): Record<Channel, T> => ({ analysis: v, loops: v, response: v });
+
 export const useResultsStore = create<ResultsState>()(() => ({
   generation: 0,
   generationAt: 0,
   analysis: null,
-  analysisWanted: 0,
-  analysisGeneration: 0,
-  analysisError: null,
+  loops: null,
   response: null,
-  responseWanted: 0,
-  responseGeneration: 0,
-  responseError: null,
+  wanted: perChannel(0),
+  held: perChannel(0),
+  errors: perChannel<string | null>(null),
+  computeMs: perChannel(0),
   renderedGeneration: 0,
   latencies: [],
 }));
 
 /** True when every channel holds the result of the request it was last sent. */
 export const resultsComplete = (s: ResultsState): boolean =>
-  s.analysisGeneration === s.analysisWanted && s.responseGeneration === s.responseWanted;
+  s.held.analysis === s.wanted.analysis && s.held.loops === s.wanted.loops && s.held.response === s.wanted.response;

@@ -3,7 +3,7 @@
  * copies of what the views draw. Pinning copies; later results never change a snapshot.
  */
 import type { Diagram } from '@loopwright/graph';
-import type { AnalysisResult, Cx, FrequencyData, LoopsData, ResponseResult } from '../worker/protocol.ts';
+import type { AnalysisResult, Cx, FrequencyData, LoopsData, Part, ResponseResult } from '../worker/protocol.ts';
 
 export interface AnalysisSnapshot {
   takenAt: string;
@@ -28,7 +28,7 @@ export function tunedValues(d: Diagram, overrides: Record<string, number>, overr
   return out;
 }
 
-export function takeSnapshot(label: string, values: Record<string, number>, a: AnalysisResult | null, r: ResponseResult | null): AnalysisSnapshot {
+export function takeSnapshot(label: string, values: Record<string, number>, a: AnalysisResult | null, loops: Part<LoopsData> | null, r: ResponseResult | null): AnalysisSnapshot {
   const copy = <T>(x: T): T => (x === null ? x : structuredClone(x));
   return {
     takenAt: new Date().toISOString(),
@@ -36,7 +36,7 @@ export function takeSnapshot(label: string, values: Record<string, number>, a: A
     values: { ...values },
     poles: a?.poles.ok ? copy(a.poles.value) : [],
     frequency: a?.frequency?.ok ? copy(a.frequency.value) : null,
-    loops: a?.loops.ok ? copy(a.loops.value) : null,
+    loops: loops?.ok ? copy(loops.value) : null,
     response: copy(r),
   };
 }

@@ -1,4 +1,133 @@
-// Placeholder: the analysis engineer (E2) replaces this with the Locus/Response/Frequency/Loops views.
+/**
+ * The analysis area: the sweep bar on top, the Locus always on the left (it is what the
+ * slider moves), and the Response, Frequency, Loops and Compare views in tabs on the right.
+ * Starts the analysis driver (document → worker → results) and the test hook.
+ */
+import { useEffect, useLayoutEffect, useMemo } from 'react';
+import './analysis.css';
+import { currentInputs, startAnalysisDriver } from '../analysis/driver.ts';
+import { installAnalysisHook } from '../analysis/test-hook.ts';
+import { useAnalysisStore, type AnalysisViewId } from '../analysis/analysis-store.ts';
+import { resultsComplete, useResultsStore } from '../analysis/results-store.ts';
+import { useDiagramStore } from '../store/diagram-store.ts';
+import { designReportHtml } from '../analysis/report.ts';
+import { download, slug } from '../analysis/export.ts';
+import { SweepBar } from './SweepBar.tsx';
+import { LocusView } from './LocusView.tsx';
+import { ResponseView } from './ResponseView.tsx';
+import { FrequencyView } from './FrequencyView.tsx';
+import { LoopsView } from './LoopsView.tsx';
+import { CompareView, pinCurrent } from './CompareView.tsx';
+import { palette } from './palette.ts';
+
+const TABS: { id: Exclude<AnalysisViewId, 'locus'>; label: string }[] = [
+  { id: 'response', label: 'Response' },
+  { id: 'frequency', label: 'Frequency' },
+  { id: 'loops', label: 'Loops' },
+  { id: 'compare', label: 'Compare' },
+];
+
+function useDark(): boolean {
+  const theme = useDiagramStore((s) => s.diagram.view.theme);
+  if (theme) return theme === 'dark';
+  return typeof document !== 'undefined' && document.documentElement.dataset.theme === 'dark';
+}
+
+export function exportReport(): void {
+  const d = useDiagramStore.getState().diagram;
+  const rs = useResultsStore.getState();
+  const inp = currentInputs();
+  const html = designReportHtml({
+    diagram: d,
+    sweepLabel: inp.choice?.label ?? null,
+    sweepValue: inp.sweep?.value ?? null,
+    analysis: rs.analysis,
+    loops: rs.loops,
+    response: rs.response,
+    generatedAt: new Date(),
+  });
+  download(`${slug(d.title)}-report.html`, html, 'text/html');
+}
+
 export function AnalysisArea() {
-  return <div className="analysis-placeholder" aria-label="Analysis views">Analysis views</div>;
+  const view = useAnalysisStore((s) => s.view);
+  const setView = useAnalysisStore((s) => s.setView);
+  const pinned = useAnalysisStore((s) => s.pinned);
+  const dark = useDark();
+  const pal = useMemo(() => palette(dark), [dark]);
+  const results = useResultsStore();
+  const tab = view === 'locus' ? 'response' : view;
+
+  useEffect(() => startAnalysisDriver(), []);
+  useEffect(() => installAnalysisHook(), []);
+
+  // After the charts of a complete generation have been given their options (child effects run
+  // first), wait one frame for the paint and record the generation as drawn.
+  useLayoutEffect(() => {
+    if (!resultsComplete(results) || results.renderedGeneration === results.generation) return;
+    const gen = results.generation;
+    const at = results.generationAt;
+    const raf = requestAnimationFrame(() => {
+      const s = useResultsStore.getState();
+      if (s.generation !== gen) return;
+      useResultsStore.setState({ renderedGeneration: gen, latencies: [...s.latencies.slice(-199), performance.now() - at] });
+    });
+    return () => cancelAnimationFrame(raf);
+  }, [results]);
+
+  return (
+    <div className="lw-analysis" data-theme-dark={dark ? 'true' : 'false'}>
+      <div
+        className="lw-resize"
+        role="separator"
+        aria-orientation="horizontal"
+        aria-label="Resize the analysis area"
+        onPointerDown={(e) => {
+          const app = (e.currentTarget as HTMLElement).closest('.app') as HTMLElement | null;
+          if (!app) return;
+          const startY = e.clientY;
+          const area = (e.currentTarget.parentElement as HTMLElement).getBoundingClientRect().height;
+          const move = (ev: PointerEvent) => {
+            const h = Math.min(app.clientHeight - 160, Math.max(200, area + startY - ev.clientY));
+            app.style.setProperty('--analysis-height', `${h}px`);
+          };
+          const up = () => {
+            window.removeEventListener('pointermove', move);
+            window.removeEventListener('pointerup', up);
+          };
+          window.addEventListener('pointermove', move);
+          window.addEventListener('pointerup', up);
+        }}
+      />
+      <SweepBar />
+      <div className="lw-analysis-body">
+        <div className="lw-locus-pane">
+          <LocusView pal={pal} />
+        </div>
+        <div className="lw-views-pane">
+          <div className="lw-tabs" role="tablist" aria-label="Analysis views">
+            {TABS.map((t) => (
+              <button key={t.id} type="button" role="tab" aria-selected={tab === t.id} className={tab === t.id ? 'lw-tab lw-tab-on' : 'lw-tab'} onClick={() => setView(t.id)}>
+                {t.label}
+                {t.id === 'compare' && pinned ? ' •' : ''}
+              </button>
+            ))}
+            <span className="lw-spacer" />
+            <button type="button" className="lw-mini" onClick={pinCurrent} title="Pin the current results to compare against">
+              Pin
+            </button>
+            <button type="button" className="lw-mini" data-export="report:html" onClick={exportReport} title="Design report (HTML, self-contained)">
+              Report
+            </button>
+          </div>
+          <div className="lw-view-body" role="tabpanel" aria-label={tab}>
+            {tab === 'response' && <ResponseView pal={pal} />}
+            {tab === 'frequency' && <FrequencyView pal={pal} />}
+            {tab === 'loops' && <LoopsView pal={pal} />}
+            {tab === 'compare' && <CompareView pal={pal} />}
+          </div>
+        </div>
+      </div>
+    </div>
+  );
 }

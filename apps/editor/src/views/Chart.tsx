@@ -16,6 +16,8 @@ export interface ChartProps {
   onPointerMove?(chart: ChartInstance, x: number, y: number): void;
   onPointerLeave?(chart: ChartInstance): void;
   onPointerClick?(chart: ChartInstance, x: number, y: number): void;
+  /** Mouse wheel over the chart; return true to stop the page from scrolling. */
+  onWheel?(chart: ChartInstance, x: number, y: number, delta: number): boolean;
 }
 
 export function Chart(props: ChartProps) {
@@ -32,6 +34,9 @@ export function Chart(props: ChartProps) {
     zr.on('mousemove', (e: { offsetX: number; offsetY: number }) => handlers.current.onPointerMove?.(chart, e.offsetX, e.offsetY));
     zr.on('globalout', () => handlers.current.onPointerLeave?.(chart));
     zr.on('click', (e: { offsetX: number; offsetY: number }) => handlers.current.onPointerClick?.(chart, e.offsetX, e.offsetY));
+    zr.on('mousewheel', (e: { offsetX: number; offsetY: number; wheelDelta: number; event?: { preventDefault?(): void } }) => {
+      if (handlers.current.onWheel?.(chart, e.offsetX, e.offsetY, e.wheelDelta)) e.event?.preventDefault?.();
+    });
     const ro = new ResizeObserver(() => {
       chart.resize();
       handlers.current.onSize?.({ width: el.clientWidth, height: el.clientHeight });

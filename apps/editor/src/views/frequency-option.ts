@@ -3,13 +3,26 @@
  * and margins marked), Nyquist of L with the critical point, and |S|, |T| with their peaks.
  * A pinned result is overlaid dotted.
  */
-import type { FrequencyData } from '../worker/protocol.ts';
+import type { FrequencyData, MarginsData } from '../worker/protocol.ts';
 import { fmt } from '../analysis/sweep.ts';
 import type { Palette } from './palette.ts';
 import type { ChartOption } from './echarts-setup.ts';
 
 const zip = (x: readonly number[], y: readonly number[]) => x.map((v, i) => [v, y[i]]);
-const title = (pal: Palette, text: string) => ({ text, left: 8, top: 4, textStyle: { color: pal.text, fontSize: 13, fontWeight: 'normal' } });
+/** The margins in one line (GM at the phase crossover, PM at the gain crossover, DM). */
+export function marginsText(m: MarginsData): string {
+  const parts = [
+    `GM ${m.gainMarginDb === null ? '∞' : `${fmt(m.gainMarginDb, 3)} dB`}${m.phaseCrossover ? ` @ ${fmt(m.phaseCrossover, 3)}` : ''}`,
+    `PM ${m.phaseMarginDeg === null ? '—' : `${fmt(m.phaseMarginDeg, 3)}°`}${m.gainCrossover ? ` @ ${fmt(m.gainCrossover, 3)}` : ''}`,
+  ];
+  if (m.delayMargin !== null) parts.push(`DM ${fmt(m.delayMargin, 3)} s`);
+  if (m.lowerGainMarginDb !== null) parts.push(`lower GM ${fmt(m.lowerGainMarginDb, 3)} dB`);
+  return parts.join(' · ');
+}
+
+export function sensitivityText(m: MarginsData): string {
+  return `Ms ${fmt(m.peakSensitivity, 3)} · Mt ${fmt(m.peakComplementary, 3)} · bandwidth ${m.bandwidth === null ? '—' : `${fmt(m.bandwidth, 3)} rad/s`}`;
+}
 
 function valueAxis(pal: Palette, name: string, extra: object = {}) {
   return {
@@ -63,19 +76,16 @@ export function bodeOption(f: FrequencyData, pinned: FrequencyData | null, pal: 
   const wMax = f.omega[f.omega.length - 1];
   const vline = (x: number, label: string) => ({ xAxis: x, label: { formatter: label, color: pal.text, fontSize: 10 } });
   const magMarks: unknown[] = [{ yAxis: 0, label: { show: false }, lineStyle: { color: pal.axis, type: 'solid' } }];
-  for (const wc of m.gainCrossovers) magMarks.push(vline(wc, `ωc ${fmt(wc, 3)}`));
+  const inRange = (w: number) => w >= wMin && w <= wMax;
+  for (const wc of m.gainCrossovers.filter(inRange).slice(0, 6)) magMarks.push(wc === m.gainCrossover ? vline(wc, `ωc ${fmt(wc, 3)}`) : { xAxis: wc, label: { show: false } });
   const phaseMarks: unknown[] = [];
-  for (const k of [-180, -540, 180]) {
-    if (f.phaseDeg.some((p) => Math.abs(p - k) < 200)) phaseMarks.push({ yAxis: k, label: { show: false }, lineStyle: { color: pal.axis, type: 'solid' } });
+  const pMin = Math.min(...f.phaseDeg);
+  const pMax = Math.max(...f.phaseDeg);
+  for (let k = -1980; k <= 1980; k += 360) {
+    if (k >= pMin - 30 && k <= pMax + 30) phaseMarks.push({ yAxis: k, label: { show: false }, lineStyle: { color: pal.axis, type: 'solid' } });
   }
-  for (const wp of m.phaseCrossovers) phaseMarks.push(vline(wp, `ω180 ${fmt(wp, 3)}`));
+  for (const wp of m.phaseCrossovers.filter(inRange).slice(0, 6)) phaseMarks.push(wp === m.phaseCrossover ? vline(wp, `ω180 ${fmt(wp, 3)}`) : { xAxis: wp, label: { show: false } });
   const marks = { silent: true, symbol: 'none', lineStyle: { color: pal.limit, type: 'dashed' }, animation: false };
-
-  const annotations: string[] = [];
-  annotations.push(`GM ${m.gainMarginDb === null ? '∞' : `${fmt(m.gainMarginDb, 3)} dB`}${m.phaseCrossover ? ` at ${fmt(m.phaseCrossover, 3)} rad/s` : ''}`);
-  annotations.push(`PM ${m.phaseMarginDeg === null ? '—' : `${fmt(m.phaseMarginDeg, 3)}°`}${m.gainCrossover ? ` at ${fmt(m.gainCrossover, 3)} rad/s` : ''}`);
-  if (m.delayMargin !== null) annotations.push(`DM ${fmt(m.delayMargin, 3)} s`);
-  if (m.lowerGainMarginDb !== null) annotations.push(`lower GM ${fmt(m.lowerGainMarginDb, 3)} dB`);
 
   const series: unknown[] = [
     lineSeries('|L| dB', zip(f.omega, f.magDb), pal.series[0], { xAxisIndex: 0, yAxisIndex: 0, markLine: { ...marks, data: magMarks } }),
@@ -96,11 +106,10 @@ export function bodeOption(f: FrequencyData, pinned: FrequencyData | null, pal: 
   return {
     animation: false,
     backgroundColor: pal.background,
-    title: [title(pal, `Bode of L at ${f.label}`), { text: annotations.join('   '), right: 10, top: 6, textStyle: { color: pal.text, fontSize: 11, fontWeight: 'normal' } }],
     tooltip: { trigger: 'axis', axisPointer: { type: 'cross' }, valueFormatter: (v: number) => fmt(v) },
     grid: [
-      { left: 62, right: 20, top: 34, height: '36%' },
-      { left: 62, right: 20, top: '58%', bottom: 40 },
+      { left: 62, right: 16, top: 14, height: '38%' },
+      { left: 62, right: 16, top: '56%', bottom: 38 },
     ],
     xAxis: [logAxis(pal, 'ω [rad/s]', 0, wMin, wMax, false), logAxis(pal, 'ω [rad/s]', 1, wMin, wMax)],
     yAxis: [valueAxis(pal, '|L| [dB]', { gridIndex: 0 }), valueAxis(pal, '∠L [°]', { gridIndex: 1 })],
@@ -138,8 +147,8 @@ export function nyquistOption(f: FrequencyData, pinned: FrequencyData | null, pa
     yMin = Math.min(yMin, y, -y);
     yMax = Math.max(yMax, y, -y);
   }
-  const w = Math.max(1, size.width - 80);
-  const h = Math.max(1, size.height - 74);
+  const w = Math.max(1, size.width - 68);
+  const h = Math.max(1, size.height - 52);
   const ux = (xMax - xMin) / w;
   const uy = (yMax - yMin) / h;
   if (ux > uy) {
@@ -173,9 +182,8 @@ export function nyquistOption(f: FrequencyData, pinned: FrequencyData | null, pa
   return {
     animation: false,
     backgroundColor: pal.background,
-    title: title(pal, `Nyquist of L at ${f.label}`),
     tooltip: { trigger: 'item', valueFormatter: (v: number) => fmt(v) },
-    grid: { left: 62, right: 18, top: 34, bottom: 40 },
+    grid: { left: 54, right: 14, top: 14, bottom: 38 },
     xAxis: ax('Re L', xMin, xMax),
     yAxis: ax('Im L', yMin, yMax),
     series,
@@ -200,14 +208,12 @@ export function sensitivityOption(f: FrequencyData, pinned: FrequencyData | null
     series.push(lineSeries('pinned |S| dB', zip(pinned.omega, pinned.sensDb), pal.pinned, pinnedStyle(pal)));
     series.push(lineSeries('pinned |T| dB', zip(pinned.omega, pinned.compDb), pal.pinned, pinnedStyle(pal)));
   }
-  const txt = `Ms ${fmt(m.peakSensitivity, 3)}  Mt ${fmt(m.peakComplementary, 3)}  bandwidth ${m.bandwidth === null ? '—' : `${fmt(m.bandwidth, 3)} rad/s`}`;
   return {
     animation: false,
     backgroundColor: pal.background,
-    title: [title(pal, `|S| and |T| at ${f.label}`), { text: txt, right: 10, top: 6, textStyle: { color: pal.text, fontSize: 11, fontWeight: 'normal' } }],
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
-    legend: { top: 24, right: 10, textStyle: { color: pal.muted } },
-    grid: { left: 62, right: 20, top: 50, bottom: 40 },
+    legend: { top: 2, right: 10, textStyle: { color: pal.muted } },
+    grid: { left: 62, right: 16, top: 28, bottom: 38 },
     xAxis: logAxis(pal, 'ω [rad/s]', 0, f.omega[0], f.omega[f.omega.length - 1]),
     yAxis: valueAxis(pal, '[dB]'),
     series,

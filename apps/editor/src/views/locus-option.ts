@@ -13,7 +13,7 @@ import type { ChartOption } from './echarts-setup.ts';
 /** A filled × (ECharts path symbols are filled, so the cross is drawn as a polygon). */
 export const CROSS_SYMBOL = 'path://M2,0L5,3L8,0L10,2L7,5L10,8L8,10L5,7L2,10L0,8L3,5L0,2Z';
 
-export const LOCUS_GRID = { left: 58, right: 18, top: 34, bottom: 40 };
+export const LOCUS_GRID = { left: 58, right: 14, top: 26, bottom: 38 };
 
 export function locusBox(width: number, height: number): PlotBox {
   return {
@@ -99,6 +99,15 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
   }
 
   if (locus) {
+    (locus.rangeBranches ?? []).forEach((b, i) => {
+      series.push({
+        ...lineBase,
+        name: i === 0 ? 'slider range' : `slider range ${i + 1}`,
+        z: 2,
+        lineStyle: { color: pal.sweep, width: 8, cap: 'round' },
+        data: b.re.map((re, j) => [re, b.im[j]]),
+      });
+    });
     locus.branches.forEach((b, i) => {
       series.push({
         ...lineBase,
@@ -128,7 +137,7 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
         symbol: 'triangle',
         symbolSize: 9,
         itemStyle: { color: pal.axis },
-        label: { show: true, position: 'bottom', color: pal.muted, fontSize: 10, formatter: `centroid ${fmt(c, 3)}` },
+        label: { show: c >= win.xMin && c <= win.xMax, position: 'bottom', color: pal.muted, fontSize: 10, formatter: `centroid ${fmt(c, 3)}` },
         data: [[c, 0]],
       });
     }
@@ -152,7 +161,18 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
       itemStyle: { color: 'rgba(0,0,0,0)', borderColor: pal.zero, borderWidth: 2 },
       data: pts(locus.zeros),
     });
-    if (locus.breakaways.length > 0) {
+    const inside = (re: number, im: number) => re >= win.xMin && re <= win.xMax && im >= win.yMin && im <= win.yMax;
+    const labelled: number[][] = [];
+    // One label per neighbourhood (8 % of the window): crowded special points keep their marker only.
+    const roomFor = (re: number, im: number) => {
+      const r = 0.08 * (win.xMax - win.xMin);
+      if (labelled.some(([x, y]) => Math.hypot(x - re, y - im) < r)) return false;
+      labelled.push([re, im]);
+      return true;
+    };
+    const breakaways = locus.breakaways.filter((b) => inside(b.s.re, b.s.im));
+    const crossings = locus.crossings.filter((c) => inside(0, c.omega));
+    if (breakaways.length > 0) {
       series.push({
         type: 'scatter',
         name: 'breakaway points',
@@ -162,10 +182,10 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
         symbolSize: 7,
         itemStyle: { color: pal.muted },
         label: { show: true, position: 'top', color: pal.text, fontSize: 10, formatter: (p: { value: number[] }) => `k=${fmt(p.value[2], 3)}` },
-        data: locus.breakaways.map((b) => [b.s.re, b.s.im, b.gain]),
+        data: breakaways.map((b) => ({ value: [b.s.re, b.s.im, b.gain], label: { show: roomFor(b.s.re, b.s.im) } })),
       });
     }
-    if (locus.crossings.length > 0) {
+    if (crossings.length > 0) {
       series.push({
         type: 'scatter',
         name: 'axis crossings',
@@ -181,7 +201,14 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
           fontSize: 10,
           formatter: (p: { value: number[] }) => `k=${fmt(p.value[2], 3)}  ω=${fmt(Math.abs(p.value[1]), 3)}`,
         },
-        data: locus.crossings.flatMap((c) => (c.omega === 0 ? [[0, 0, c.gain]] : [[0, c.omega, c.gain], [0, -c.omega, c.gain]])),
+        data: crossings.flatMap((c) =>
+          c.omega === 0
+            ? [{ value: [0, 0, c.gain], label: { show: roomFor(0, 0) } }]
+            : [
+                { value: [0, c.omega, c.gain], label: { show: roomFor(0, c.omega) } },
+                { value: [0, -c.omega, c.gain], label: { show: false } },
+              ],
+        ),
       });
     }
   }
@@ -220,33 +247,49 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
     });
   }
 
-  const axis = (name: string, min: number, max: number) => ({
+  // Ticks on multiples of the step (ECharts would start them at the window edge, which is
+  // not a round number in an equal-aspect window); grid lines drawn as mark lines to match.
+  const ticks = (min: number, max: number) => {
+    const out: number[] = [];
+    for (let v = Math.ceil(min / win.step) * win.step; v <= max + 1e-9 * win.step; v += win.step) out.push(Math.abs(v) < 1e-12 * win.step ? 0 : v);
+    return out;
+  };
+  const xt = ticks(win.xMin, win.xMax);
+  const yt = ticks(win.yMin, win.yMax);
+  const axis = (name: string, min: number, max: number, values: number[]) => ({
     type: 'value',
     name,
     nameLocation: 'middle',
-    nameGap: name === 'Re s' ? 26 : 40,
+    nameGap: name === 'Re s' ? 24 : 42,
     nameTextStyle: { color: pal.muted },
     min,
     max,
-    interval: win.step,
     axisLine: { onZero: false, lineStyle: { color: pal.axis } },
-    axisTick: { lineStyle: { color: pal.axis } },
-    axisLabel: { color: pal.muted, showMinLabel: false, showMaxLabel: false, formatter: (v: number) => fmt(v, 3) },
-    splitLine: { lineStyle: { color: pal.grid } },
+    axisTick: { customValues: values, lineStyle: { color: pal.axis } },
+    axisLabel: { customValues: values, color: pal.muted, formatter: (v: number) => fmt(v, 3) },
+    splitLine: { show: false },
   });
+  const gridLines = {
+    silent: true,
+    symbol: 'none',
+    animation: false,
+    label: { show: false },
+    lineStyle: { color: pal.grid, type: 'solid', width: 1 },
+    data: [...xt.map((v) => ({ xAxis: v })), ...yt.map((v) => ({ yAxis: v }))],
+  };
 
   return {
     animation: false,
     backgroundColor: pal.background,
-    title: { text: `Locus — ${inp.parameterLabel}`, left: 8, top: 4, textStyle: { color: pal.text, fontSize: 13, fontWeight: 'normal' } },
     grid: { ...LOCUS_GRID, containLabel: false },
-    xAxis: axis('Re s', win.xMin, win.xMax),
-    yAxis: axis('Im s', win.yMin, win.yMax),
+    xAxis: axis('Re s', win.xMin, win.xMax, xt),
+    yAxis: axis('Im s', win.yMin, win.yMax, yt),
     series: [
       ...series,
       // The imaginary axis, drawn over the grid.
       { ...lineBase, name: 'imaginary axis', z: 2, lineStyle: { color: pal.axis, width: 1 }, data: [[0, win.yMin], [0, win.yMax]] },
       { ...lineBase, name: 'real axis', z: 2, lineStyle: { color: pal.axis, width: 1 }, data: [[win.xMin, 0], [win.xMax, 0]] },
+      { ...lineBase, name: 'grid', z: 0, lineStyle: { width: 0 }, data: [], markLine: gridLines },
     ],
   };
 }

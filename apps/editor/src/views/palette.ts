@@ -13,6 +13,8 @@ export interface Palette {
   current: string;
   pinned: string;
   limit: string;
+  /** The swept part of the locus (slider range). */
+  sweep: string;
 }
 
 const SERIES_LIGHT = ['#2f6fb0', '#c2572b', '#2e8b57', '#8a4fbf', '#b08a16', '#1c8c9c', '#b0407a', '#5a6b2f'];
@@ -34,6 +36,7 @@ export function palette(dark: boolean): Palette {
         current: '#ff5a5a',
         pinned: '#9aa3ad',
         limit: '#e0a030',
+        sweep: 'rgba(255, 179, 102, 0.35)',
       }
     : {
         dark,
@@ -49,5 +52,6 @@ export function palette(dark: boolean): Palette {
         current: '#d62828',
         pinned: '#7d8790',
         limit: '#c77c00',
+        sweep: 'rgba(230, 140, 40, 0.30)',
       };
 }

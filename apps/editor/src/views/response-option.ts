@@ -21,7 +21,11 @@ export function tracePairs(t: readonly number[], y: readonly number[] | undefine
   return out;
 }
 
-const title = (pal: Palette, text: string) => ({ text, left: 8, top: 4, textStyle: { color: pal.text, fontSize: 13, fontWeight: 'normal' } });
+/** A probe keeps its colour whichever probes are shown. */
+export function probeColor(r: ResponseResult, id: string, pal: Palette): string {
+  const i = Math.max(0, r.probes.findIndex((p) => p.id === id));
+  return pal.series[i % pal.series.length];
+}
 
 function axes(pal: Palette, until: number, yName: string) {
   return {
@@ -63,21 +67,21 @@ const line = (name: string, data: number[][], color: string, type: 'solid' | 'da
 
 export function responseOption(r: ResponseResult, probes: string[], pinned: ResponseResult | null, pal: Palette): ChartOption {
   const series: unknown[] = [];
-  probes.forEach((id, i) => {
+  const names: string[] = [];
+  probes.forEach((id) => {
     const label = r.probes.find((p) => p.id === id)?.label ?? id;
-    const color = pal.series[i % pal.series.length];
+    const color = probeColor(r, id, pal);
+    names.push(label);
     series.push(line(label, tracePairs(r.nonlinear.time, r.nonlinear.traces[id]), color, 'solid'));
     series.push(line(`${label} (linear)`, tracePairs(r.linear.time, r.linear.traces[id]), color, 'dashed', 1.5));
     if (pinned?.nonlinear.traces[id]) series.push(line(`${label} (pinned)`, tracePairs(pinned.nonlinear.time, pinned.nonlinear.traces[id]), pal.pinned, 'dotted', 1.5));
   });
-  const status = r.nonlinear.status === 'ok' ? '' : `  — simulation ${r.nonlinear.status}: ${r.nonlinear.message}`;
   return {
     animation: false,
     backgroundColor: pal.background,
-    title: title(pal, `Response${status}`),
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
-    legend: { top: 24, left: 70, right: 10, textStyle: { color: pal.muted }, type: 'plain' },
-    grid: { left: 64, right: 20, top: 62, bottom: 40 },
+    legend: { type: 'scroll', top: 0, left: 60, right: 10, data: names, textStyle: { color: pal.muted } },
+    grid: { left: 64, right: 16, top: 28, bottom: 38 },
     ...axes(pal, r.until, 'value'),
     series,
   };
@@ -85,8 +89,10 @@ export function responseOption(r: ResponseResult, probes: string[], pinned: Resp
 
 export function actuatorOption(r: ResponseResult, pinned: ResponseResult | null, pal: Palette): ChartOption {
   const series: unknown[] = [];
+  const names: string[] = [];
   r.actuators.forEach((a, i) => {
     const color = pal.series[(i + 4) % pal.series.length];
+    names.push(a.label);
     const limits = [a.lower, a.upper]
       .filter((v): v is number => v !== null && Number.isFinite(v))
       .map((v) => ({ yAxis: v, label: { formatter: `limit ${fmt(v, 3)}`, color: pal.limit, fontSize: 10, position: 'insideEndTop' } }));
@@ -100,10 +106,9 @@ export function actuatorOption(r: ResponseResult, pinned: ResponseResult | null,
   return {
     animation: false,
     backgroundColor: pal.background,
-    title: title(pal, 'Actuator'),
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
-    legend: { top: 24, left: 70, right: 10, textStyle: { color: pal.muted } },
-    grid: { left: 64, right: 20, top: 62, bottom: 40 },
+    legend: { type: 'scroll', top: 0, left: 60, right: 10, data: names, textStyle: { color: pal.muted } },
+    grid: { left: 64, right: 16, top: 28, bottom: 38 },
     ...axes(pal, r.until, 'actuator'),
     series,
   };

@@ -4,14 +4,29 @@
  * value, and a compiled simulation model does not depend on parameter values.
  */
 import {
+  affineSplit,
   analyseLoops,
   closedLoopPoles,
+  compiledOf,
+  feedbackWires,
+  loopAtCut,
   resolveParams,
   sweepLocus,
   type Diagram,
   type LoopsReport,
 } from '@loopwright/graph';
-import { defaultFrequencyGrid, frequencyResponse, loopMargins, rootLocus, type Complex, type LoopMargins, type RootLocus, type TransferFunction } from '@loopwright/lti';
+import {
+  defaultFrequencyGrid,
+  frequencyResponse,
+  loopMargins,
+  poly,
+  polyRoots,
+  rootLocus,
+  type Complex,
+  type LoopMargins,
+  type RootLocus,
+  type TransferFunction,
+} from '@loopwright/lti';
 import { compileModel, simulate, type CompiledModel, type SimResult } from '@loopwright/sim';
 import type {
   ActuatorInfo,
@@ -22,12 +37,15 @@ import type {
   LocusBranch,
   LocusData,
   LoopsData,
+  LoopsRequest,
+  LoopsResult,
   MarginsData,
   MetricsRow,
   Part,
   ResponseRequest,
   ResponseResult,
   SimRun,
+  SweepSpec,
 } from './protocol.ts';
 
 const now = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
@@ -78,39 +96,55 @@ function branchesOf(br: { s: Complex; k: number }[][]): LocusBranch[] {
   return br.map((b) => ({ re: b.map((p) => p.s.re), im: b.map((p) => p.s.im), k: b.map((p) => p.k) }));
 }
 
-function locusData(d: Diagram, parameter: string, value: number, negative: boolean): LocusData {
-  const key = `${parameter}|${negative}|${engineKey(d, parameter)}`;
+function locusData(d: Diagram, sweep: SweepSpec): LocusData {
+  const { parameter, negative } = sweep;
+  const key = `${parameter}|${negative}|${sweep.min}|${sweep.max}|${engineKey(d, parameter)}`;
   const hit = locusCache.get(key);
   if (hit) return hit;
-  // The locus does not depend on the swept value; compute it at the document value so that
-  // the cache holds across slider moves.
-  const sw = sweepLocus(d, parameter, {});
+  // The locus does not depend on the swept value (only on everything else), so it is cached
+  // across slider moves. Exact when the characteristic polynomial is affine in the parameter.
+  const split = affineSplit(d, parameter, {});
   let out: LocusData;
-  if (sw.mode === 'exact') {
-    const L: RootLocus = sw.locus;
-    let neg: LocusBranch[] | null = null;
-    if (negative) neg = branchesOf(rootLocus(sw.n0, sw.d0, { negative: true }).branches);
+  if (split && !poly.isZero(split.n0) && !poly.isZero(split.d0)) {
+    const { n0, d0 } = split;
+    // The whole locus (out to the zeros and asymptotes) for the geometry, and the slider's
+    // part again, densely, for hit-testing, framing and the current-pole track.
+    const L: RootLocus = rootLocus(n0, d0);
+    let rangeBranches: LocusBranch[] | null = null;
+    const lo = Math.min(Math.abs(sweep.min), Math.abs(sweep.max));
+    const hi = Math.max(Math.abs(sweep.min), Math.abs(sweep.max));
+    const sameSign = sweep.min * sweep.max > 0;
+    if (hi > 0 && Number.isFinite(hi)) {
+      rangeBranches = branchesOf(
+        rootLocus(n0, d0, { negative: sweep.max < 0, kMin: sameSign ? lo : 0, kMax: hi, samples: 240 }).branches,
+      );
+    }
+    const neg = negative ? branchesOf(rootLocus(n0, d0, { negative: true }).branches) : null;
     out = {
       mode: 'exact',
       parameter,
       negative,
       branches: branchesOf(L.branches),
+      rangeBranches,
       negativeBranches: neg,
       poles: L.poles.map(plain),
       zeros: L.zeros.map(plain),
       asymptotes: L.asymptotes.centroid === null ? null : { centroid: L.asymptotes.centroid, anglesDeg: [...L.asymptotes.anglesDeg] },
       breakaways: L.breakaways.map((b) => ({ s: plain(b.s), gain: b.gain })),
       crossings: L.crossings.map((c) => ({ omega: c.omega, gain: c.gain })),
-      n0: [...sw.n0],
-      d0: [...sw.d0],
+      n0: [...n0],
+      d0: [...d0],
     };
   } else {
-    const first = sw.branches.map((b) => b[0]?.s).filter((s): s is Complex => Boolean(s));
+    const sw = sweepLocus(d, parameter, {});
+    const branches = sw.mode === 'sampled' ? sw.branches : sw.locus.branches;
+    const first = branches.map((b) => b[0]?.s).filter((s): s is Complex => Boolean(s));
     out = {
       mode: 'sampled',
       parameter,
       negative: false,
-      branches: branchesOf(sw.branches),
+      branches: branchesOf(branches),
+      rangeBranches: null,
       negativeBranches: null,
       // A sampled locus starts where the range starts; those are its "open-loop" ends.
       poles: first.map(plain),
@@ -122,7 +156,6 @@ function locusData(d: Diagram, parameter: string, value: number, negative: boole
       d0: null,
     };
   }
-  void value;
   locusCache.set(key, out);
   return out;
 }
@@ -147,19 +180,33 @@ export function marginsData(m: LoopMargins): MarginsData {
   };
 }
 
-/** Frequency data of L at one cut of the report (the first cut when none is asked for). */
-function frequencyAt(rep: LoopsReport, cutId: string | null): FrequencyData | null {
-  const cut = rep.cuts.find((c) => c.cut === cutId) ?? (cutId === null ? rep.cuts[0] : undefined);
-  if (!cut) {
-    if (cutId === null) return null;
-    const note = rep.notes.find((n) => n.includes(cutId));
-    throw new Error(note ?? `cut ${cutId}: no loop to analyse`);
-  }
-  const L = cut.loop;
-  const margins = cut.margins;
-  // The grid spans the loop's own corner frequencies; the crossovers are added exactly.
+/** The cut the Frequency view opens: the one asked for, else the first cut, else a proposed one. */
+function cutFor(d: Diagram, cutId: string | null, overrides: Record<string, number>): { id: string; wire: string; label: string } | null {
+  const cut = d.cuts.find((c) => c.id === cutId) ?? (cutId === null || cutId.startsWith('auto:') ? undefined : null);
+  if (cut) return { id: cut.id, wire: cut.wire, label: cut.label ?? cut.wire };
+  if (cut === null) throw new Error(`cut ${cutId} is not in the diagram`);
+  if (cutId === null && d.cuts.length > 0) return { id: d.cuts[0].id, wire: d.cuts[0].wire, label: d.cuts[0].label ?? d.cuts[0].wire };
+  const wire = cutId?.startsWith('auto:') ? cutId.slice(5) : feedbackWires(compiledOf(d, overrides))[0];
+  return wire ? { id: `auto:${wire}`, wire, label: wire } : null;
+}
+
+/** Frequency data of L at a cut (with every other loop closed), margins marked. */
+function frequencyAt(d: Diagram, cutId: string | null, overrides: Record<string, number>): FrequencyData | null {
+  const cut = cutFor(d, cutId, overrides);
+  if (!cut) return null;
+  const L = loopAtCut(d, cut.wire, overrides);
+  const margins = loopMargins(L);
+  // Two decades above the highest gain crossover (and past the phase crossover the gain margin
+  // is read at) are enough: beyond, a dead time only winds the phase round and round.
   let omega = defaultFrequencyGrid(L, 60);
-  const extra = [...margins.gainCrossovers, ...margins.phaseCrossovers].filter((w) => w > 0 && Number.isFinite(w));
+  const wc = margins.gainCrossovers.filter((w) => w > 0 && Number.isFinite(w));
+  if (wc.length > 0) {
+    const hi = Math.max(100 * Math.max(...wc), 3 * (margins.phaseCrossover ?? 0), 3 * (margins.peakSensitivityFrequency ?? 0));
+    const clipped = omega.filter((w) => w <= hi);
+    if (clipped.length > 20) omega = clipped;
+  }
+  const top = omega[omega.length - 1];
+  const extra = [...margins.gainCrossovers, ...margins.phaseCrossovers].filter((w) => w > 0 && Number.isFinite(w) && w <= top);
   if (extra.length) omega = [...omega, ...extra].sort((x, y) => x - y);
   const fr = frequencyResponse(L, omega);
   const sensDb: number[] = [];
@@ -171,7 +218,7 @@ function frequencyAt(rep: LoopsReport, cutId: string | null): FrequencyData | nu
     compDb.push(20 * Math.log10(l / one));
   }
   return {
-    cutId: cut.cut,
+    cutId: cut.id,
     wire: cut.wire,
     label: cut.label,
     omega: fr.omega,
@@ -228,19 +275,24 @@ export function loopsFromReport(rep: LoopsReport): LoopsData {
 export function computeAnalysis(req: AnalysisRequest): AnalysisResult {
   const t0 = now();
   const d = req.diagram;
-  const overrides = req.sweep ? { [req.sweep.parameter]: req.sweep.value } : {};
-  const locus = req.sweep ? part(() => locusData(d, req.sweep!.parameter, req.sweep!.value, req.sweep!.negative)) : null;
-  const report = part(() => analyseLoops(d, overrides));
-  // The report already holds the closed-loop poles and every cut's loop: reuse them.
-  const poles: Part<Cx[]> = report.ok ? { ok: true, value: report.value.closedLoopPoles.map(plain) } : part(() => closedLoopPoles(d, overrides).map(plain));
-  const frequency: Part<FrequencyData> | null = report.ok
-    ? (() => {
-        const f = part(() => frequencyAt(report.value, req.cutId));
-        return f.ok && f.value === null ? null : (f as Part<FrequencyData>);
-      })()
-    : { ok: false, error: report.error };
-  const loops: Part<LoopsData> = report.ok ? part(() => loopsFromReport(report.value)) : report;
-  return { locus, poles, frequency, loops, elapsedMs: now() - t0 };
+  const sweep = req.sweep;
+  const overrides = sweep ? { [sweep.parameter]: sweep.value } : {};
+  const locus = sweep ? part(() => locusData(d, sweep)) : null;
+  // On an exact locus the closed-loop poles are the roots of D0 + k·N0: the same polynomial
+  // the whole-diagram reduction gives, without redoing the reduction on every slider move.
+  const exact = locus?.ok && locus.value.mode === 'exact' && locus.value.n0 && locus.value.d0 ? locus.value : null;
+  const poles = exact
+    ? part(() => polyRoots(poly.add(exact.d0!, poly.scale(exact.n0!, sweep!.value))).map(plain))
+    : part(() => closedLoopPoles(d, overrides).map(plain));
+  const freq = part(() => frequencyAt(d, req.cutId, overrides));
+  const frequency: Part<FrequencyData> | null = freq.ok && freq.value === null ? null : (freq as Part<FrequencyData>);
+  return { locus, poles, frequency, elapsedMs: now() - t0 };
+}
+
+export function computeLoops(req: LoopsRequest): LoopsResult {
+  const t0 = now();
+  const loops = part(() => loopsFromReport(analyseLoops(req.diagram, req.overrides)));
+  return { loops, elapsedMs: now() - t0 };
 }
 
 // ---------------------------------------------------------------- response
@@ -355,7 +407,8 @@ export function computeResponse(req: ResponseRequest, isCancelled?: () => boolea
   const until = req.until && req.until > 0 ? req.until : automaticEnd(d, req.overrides);
   const actuators = actuatorsOf(d, req.overrides);
   const wires = actuators.map((a) => a.key.slice(5));
-  const common = { until, overrides: req.overrides, wires, maxWallMs: 5000, outputStep: until / 600, isCancelled };
+  // A preview for live tuning: rtol 1e-4 is well inside what the eye resolves on a chart.
+  const common = { until, overrides: req.overrides, wires, maxWallMs: 5000, outputStep: until / 500, rtol: 1e-4, atol: 1e-7, isCancelled };
   const nl = simulate(model, common);
   const lin = simulate(model, { ...common, linear: true });
   return {

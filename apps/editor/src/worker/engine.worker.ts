@@ -5,7 +5,7 @@
  * follows takes just the latest (older ones are answered by nothing; the client drops any
  * stray reply by id anyway). One request is computed per task so new messages get in between.
  */
-import { computeAnalysis, computeResponse } from './compute.ts';
+import { computeAnalysis, computeLoops, computeResponse } from './compute.ts';
 import type { Channel, EngineReply, EngineRequest } from './protocol.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -29,7 +29,9 @@ function drain(): void {
     reply =
       req.channel === 'analysis'
         ? { channel: 'analysis', id: req.id, ok: true, result: computeAnalysis(req) }
-        : { channel: 'response', id: req.id, ok: true, result: computeResponse(req) };
+        : req.channel === 'loops'
+          ? { channel: 'loops', id: req.id, ok: true, result: computeLoops(req) }
+          : { channel: 'response', id: req.id, ok: true, result: computeResponse(req) };
   } catch (e) {
     reply = { channel: req.channel, id: req.id, ok: false, error: e instanceof Error ? e.message : String(e) };
   }

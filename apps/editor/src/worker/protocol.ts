@@ -22,6 +22,9 @@ export interface SweepSpec {
   parameter: string;
   value: number;
   negative: boolean;
+  /** The slider range: the part of the locus traced densely (what the slider can reach). */
+  min: number;
+  max: number;
 }
 
 export interface LocusBranch {
@@ -36,6 +39,8 @@ export interface LocusData {
   parameter: string;
   negative: boolean;
   branches: LocusBranch[];
+  /** The branches again, traced densely over the slider range only (exact mode; null otherwise). */
+  rangeBranches: LocusBranch[] | null;
   /** The k < 0 locus, when asked for (drawn dashed). */
   negativeBranches: LocusBranch[] | null;
   /** Open-loop poles and zeros of the swept characteristic equation D0 + k·N0 = 0 (exact mode). */
@@ -127,8 +132,12 @@ export interface AnalysisResult {
   locus: Part<LocusData> | null;
   poles: Part<Cx[]>;
   frequency: Part<FrequencyData> | null;
-  loops: Part<LoopsData>;
   /** Worker compute time, ms. */
+  elapsedMs: number;
+}
+
+export interface LoopsResult {
+  loops: Part<LoopsData>;
   elapsedMs: number;
 }
 
@@ -172,7 +181,7 @@ export interface ResponseResult {
   elapsedMs: number;
 }
 
-export type Channel = 'analysis' | 'response';
+export type Channel = 'analysis' | 'loops' | 'response';
 
 export interface AnalysisRequest {
   channel: 'analysis';
@@ -180,6 +189,13 @@ export interface AnalysisRequest {
   diagram: Diagram;
   sweep: SweepSpec | null;
   cutId: string | null;
+}
+
+export interface LoopsRequest {
+  channel: 'loops';
+  id: number;
+  diagram: Diagram;
+  overrides: Record<string, number>;
 }
 
 export interface ResponseRequest {
@@ -190,9 +206,10 @@ export interface ResponseRequest {
   until: number | null;
 }
 
-export type EngineRequest = AnalysisRequest | ResponseRequest;
+export type EngineRequest = AnalysisRequest | LoopsRequest | ResponseRequest;
 
 export type EngineReply =
   | { channel: 'analysis'; id: number; ok: true; result: AnalysisResult }
+  | { channel: 'loops'; id: number; ok: true; result: LoopsResult }
   | { channel: 'response'; id: number; ok: true; result: ResponseResult }
   | { channel: Channel; id: number; ok: false; error: string };

@@ -1,0 +1,80 @@
+/**
+ * Differences between a pinned snapshot and the current results: tuned values, each loop's
+ * margins, each probe's response metrics, and the dominant closed-loop pole.
+ */
+import type { AnalysisSnapshot } from './snapshot.ts';
+import type { Cx } from '../worker/protocol.ts';
+
+export interface DiffRow {
+  group: 'value' | 'loop' | 'response' | 'poles';
+  item: string;
+  quantity: string;
+  pinned: number | null;
+  current: number | null;
+}
+
+/** The slowest closed-loop pole (largest real part): it sets the settling. */
+export function dominantPole(poles: readonly Cx[]): Cx | null {
+  let best: Cx | null = null;
+  for (const p of poles) if (!best || p.re > best.re) best = p;
+  return best;
+}
+
+const MARGINS: [string, string][] = [
+  ['gainCrossover', 'crossover [rad/s]'],
+  ['phaseMarginDeg', 'phase margin [°]'],
+  ['gainMarginDb', 'gain margin [dB]'],
+  ['delayMargin', 'delay margin [s]'],
+  ['peakSensitivity', 'Ms'],
+  ['bandwidth', 'bandwidth [rad/s]'],
+];
+const METRICS: [string, string][] = [
+  ['riseTime', 'rise time [s]'],
+  ['overshootPct', 'overshoot [%]'],
+  ['settlingTime', 'settling time [s]'],
+  ['steadyStateError', 'steady-state error'],
+  ['iae', 'IAE'],
+  ['timeInSaturation', 'time at limit [s]'],
+  ['peakEffort', 'peak effort'],
+];
+
+const numOrNull = (v: unknown): number | null => (typeof v === 'number' ? v : null);
+
+export function differences(pinned: AnalysisSnapshot, now: AnalysisSnapshot): DiffRow[] {
+  const rows: DiffRow[] = [];
+  const names = new Set([...Object.keys(pinned.values), ...Object.keys(now.values)]);
+  for (const n of names) rows.push({ group: 'value', item: n, quantity: 'value', pinned: pinned.values[n] ?? null, current: now.values[n] ?? null });
+  const cuts = new Set([...(pinned.loops?.rows ?? []), ...(now.loops?.rows ?? [])].map((r) => r.cutId));
+  for (const c of cuts) {
+    const a = pinned.loops?.rows.find((r) => r.cutId === c);
+    const b = now.loops?.rows.find((r) => r.cutId === c);
+    const label = b?.label ?? a?.label ?? c;
+    for (const [f, q] of MARGINS) {
+      rows.push({
+        group: 'loop',
+        item: label,
+        quantity: q,
+        pinned: a ? numOrNull((a.margins as unknown as Record<string, unknown>)[f]) : null,
+        current: b ? numOrNull((b.margins as unknown as Record<string, unknown>)[f]) : null,
+      });
+    }
+  }
+  const probes = new Set([...(pinned.response?.metrics ?? []), ...(now.response?.metrics ?? [])].map((m) => m.probe));
+  for (const p of probes) {
+    const a = pinned.response?.metrics.find((m) => m.probe === p);
+    const b = now.response?.metrics.find((m) => m.probe === p);
+    for (const [f, q] of METRICS) {
+      const pa = a ? numOrNull((a as unknown as Record<string, unknown>)[f]) : null;
+      const pb = b ? numOrNull((b as unknown as Record<string, unknown>)[f]) : null;
+      if (pa === null && pb === null) continue;
+      rows.push({ group: 'response', item: b?.label ?? a?.label ?? p, quantity: q, pinned: pa, current: pb });
+    }
+  }
+  const da = dominantPole(pinned.poles);
+  const db = dominantPole(now.poles);
+  if (da || db) {
+    rows.push({ group: 'poles', item: 'dominant pole', quantity: 'Re s', pinned: da?.re ?? null, current: db?.re ?? null });
+    rows.push({ group: 'poles', item: 'dominant pole', quantity: '|Im s|', pinned: da ? Math.abs(da.im) : null, current: db ? Math.abs(db.im) : null });
+  }
+  return rows;
+}

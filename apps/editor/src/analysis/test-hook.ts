@@ -1,0 +1,64 @@
+/**
+ * `window.__loopwright.analysis`: the data the analysis views draw, for browser tests and the
+ * bench (read the charts' data, not their pixels), plus pixel positions on the locus chart
+ * so a test can click a branch point.
+ */
+import { useResultsStore, resultsComplete } from './results-store.ts';
+import { useAnalysisStore } from './analysis-store.ts';
+import { currentInputs } from './driver.ts';
+import { chartInstance, chartNames } from '../views/chart-registry.ts';
+
+export interface AnalysisHook {
+  state(): unknown;
+  /** ECharts getOption() of a chart on screen (functions dropped). */
+  chartOption(name: string): unknown;
+  chartNames(): string[];
+  /** Page coordinates (CSS px) of the s-plane point (re, im) on the locus chart. */
+  locusPagePoint(re: number, im: number): { x: number; y: number } | null;
+  latencies(): number[];
+}
+
+const json = <T>(x: T): T => JSON.parse(JSON.stringify(x, (_k, v) => (typeof v === 'function' ? undefined : v))) as T;
+
+export function installAnalysisHook(): void {
+  const hook: AnalysisHook = {
+    state() {
+      const rs = useResultsStore.getState();
+      const ui = useAnalysisStore.getState();
+      const inp = currentInputs();
+      const a = rs.analysis;
+      return json({
+        generation: rs.generation,
+        renderedGeneration: rs.renderedGeneration,
+        complete: resultsComplete(rs) && rs.renderedGeneration === rs.generation,
+        view: ui.view,
+        sweep: inp.choice ? { key: inp.choice.key, label: inp.choice.label, value: inp.sweep?.value ?? null, live: ui.liveValue, parameter: inp.sweep?.parameter ?? null } : null,
+        poles: a?.poles.ok ? a.poles.value : null,
+        locus: a?.locus?.ok ? a.locus.value : null,
+        locusError: a?.locus && !a.locus.ok ? a.locus.error : null,
+        frequency: a?.frequency?.ok ? a.frequency.value : null,
+        loops: rs.loops?.ok ? rs.loops.value : null,
+        computeMs: rs.computeMs,
+        response: rs.response,
+        errors: rs.errors,
+        pinned: ui.pinned ? { label: ui.pinned.label, values: ui.pinned.values } : null,
+      });
+    },
+    chartOption: (name) => {
+      const c = chartInstance(name);
+      return c ? json(c.getOption()) : null;
+    },
+    chartNames,
+    locusPagePoint(re, im) {
+      const c = chartInstance('locus');
+      if (!c) return null;
+      const p = c.convertToPixel({ gridIndex: 0 }, [re, im]) as number[];
+      const rect = c.getDom().getBoundingClientRect();
+      return { x: rect.left + p[0], y: rect.top + p[1] };
+    },
+    latencies: () => [...useResultsStore.getState().latencies],
+  };
+  const w = window as unknown as { __loopwright?: Record<string, unknown> };
+  w.__loopwright = w.__loopwright ?? {};
+  w.__loopwright.analysis = hook;
+}

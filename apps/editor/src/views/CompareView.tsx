@@ -1,0 +1,96 @@
+/**
+ * Compare: pin the current results, change parameters, and see both overlaid (here and, dotted,
+ * in every other view), with a table of the differences.
+ */
+import { useMemo } from 'react';
+import { useResultsStore } from '../analysis/results-store.ts';
+import { useAnalysisStore } from '../analysis/analysis-store.ts';
+import { useDiagramStore } from '../store/diagram-store.ts';
+import { currentInputs } from '../analysis/driver.ts';
+import { takeSnapshot, tunedValues, type AnalysisSnapshot } from '../analysis/snapshot.ts';
+import { differences } from '../analysis/compare.ts';
+import { engineParameterName } from '../analysis/sweep.ts';
+import { fmt } from '../analysis/sweep.ts';
+import { responseOption } from './response-option.ts';
+import { bodeOption } from './frequency-option.ts';
+import { ChartFrame } from './ChartFrame.tsx';
+import type { Palette } from './palette.ts';
+
+/** A snapshot of what the views show now. */
+export function currentSnapshot(label: string): AnalysisSnapshot {
+  const inp = currentInputs();
+  const rs = useResultsStore.getState();
+  const extra = inp.choice ? { engineName: engineParameterName(inp.choice.target), key: inp.choice.label.replace(/ \[.*\]$/, '') } : undefined;
+  return takeSnapshot(label, tunedValues(inp.diagram, inp.overrides, extra), rs.analysis, rs.loops, rs.response);
+}
+
+export function pinCurrent(): void {
+  const n = new Date();
+  useAnalysisStore.getState().pin(currentSnapshot(`pinned ${n.toLocaleTimeString()}`));
+}
+
+export function CompareView({ pal }: { pal: Palette }) {
+  const pinned = useAnalysisStore((s) => s.pinned);
+  const analysis = useResultsStore((s) => s.analysis);
+  const response = useResultsStore((s) => s.response);
+  const loops = useResultsStore((s) => s.loops);
+  const diagram = useDiagramStore((s) => s.diagram);
+  const live = useAnalysisStore((s) => s.liveValue);
+  const now = useMemo(() => currentSnapshot('now'), [analysis, loops, response, diagram, live]); // eslint-disable-line react-hooks/exhaustive-deps
+  const rows = useMemo(() => (pinned ? differences(pinned, now) : []), [pinned, now]);
+  const resp = useMemo(() => {
+    if (!response) return null;
+    const probes = response.probes.map((p) => p.id);
+    return responseOption(response, probes, pinned?.response ?? null, pal);
+  }, [response, pinned, pal]);
+  const f = analysis?.frequency?.ok ? analysis.frequency.value : null;
+  const bode = useMemo(() => (f ? bodeOption(f, pinned?.frequency && pinned.frequency.cutId === f.cutId ? pinned.frequency : null, pal) : null), [f, pinned, pal]);
+
+  return (
+    <div className="lw-view lw-compare">
+      <div className="lw-view-tools">
+        <button type="button" onClick={pinCurrent} data-testid="pin">
+          {pinned ? 'Pin again' : 'Pin current results'}
+        </button>
+        <button type="button" disabled={!pinned} onClick={() => useAnalysisStore.getState().pin(null)}>
+          Unpin
+        </button>
+        <span className="lw-muted">{pinned ? `${pinned.label} — change parameters to compare; pinned traces are dotted in every view` : 'Pin the current results, then change parameters to compare.'}</span>
+      </div>
+      {pinned && (
+        <>
+          <table className="lw-table lw-compact" data-testid="compare-table">
+            <thead>
+              <tr>
+                <th>item</th>
+                <th>quantity</th>
+                <th>pinned</th>
+                <th>now</th>
+                <th>change</th>
+              </tr>
+            </thead>
+            <tbody>
+              {rows.map((r, i) => {
+                const d = r.pinned !== null && r.current !== null ? r.current - r.pinned : null;
+                const changed = d !== null && Math.abs(d) > 1e-12 * Math.max(1, Math.abs(r.pinned ?? 0));
+                return (
+                  <tr key={i} className={changed ? 'lw-changed' : ''}>
+                    <td>{r.item}</td>
+                    <td>{r.quantity}</td>
+                    <td>{fmt(r.pinned)}</td>
+                    <td>{fmt(r.current)}</td>
+                    <td>{d === null ? (r.pinned === r.current ? '' : 'n/a') : changed ? `${d > 0 ? '+' : '−'}${fmt(Math.abs(d))}` : '='}</td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+          <div className="lw-grid-2">
+            {resp && <ChartFrame name="compare-response" title="Response: now vs pinned" background={pal.background} option={resp} />}
+            {bode && <ChartFrame name="compare-bode" title="Bode: now vs pinned" background={pal.background} option={bode} />}
+          </div>
+        </>
+      )}
+    </div>
+  );
+}

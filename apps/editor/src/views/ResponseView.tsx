@@ -1,0 +1,148 @@
+/**
+ * The Response view: simulated responses of the chosen probes to the diagram's sources, with
+ * nonlinearities, over the linear model's response; the actuator signals with their limits;
+ * the metrics table. CSV export of every trace.
+ */
+import { useMemo } from 'react';
+import { useResultsStore } from '../analysis/results-store.ts';
+import { useAnalysisStore } from '../analysis/analysis-store.ts';
+import { useDiagramStore } from '../store/diagram-store.ts';
+import { fmt } from '../analysis/sweep.ts';
+import { download, responseCsv, slug } from '../analysis/export.ts';
+import { actuatorOption, probeColor, responseOption } from './response-option.ts';
+import { ChartFrame } from './ChartFrame.tsx';
+import type { Palette } from './palette.ts';
+import type { ResponseResult } from '../worker/protocol.ts';
+
+export function exportResponseCsv(r: ResponseResult): void {
+  download(`${slug(useDiagramStore.getState().diagram.title)}-traces.csv`, responseCsv(r), 'text/csv');
+}
+
+export function ResponseView({ pal }: { pal: Palette }) {
+  const r = useResultsStore((s) => s.response);
+  const error = useResultsStore((s) => s.errors.response);
+  const chosen = useAnalysisStore((s) => s.probes);
+  const pinned = useAnalysisStore((s) => s.pinned);
+  const simEnd = useAnalysisStore((s) => s.simulationEnd);
+  const setOptions = useAnalysisStore((s) => s.setOptions);
+
+  const activeProbe = useDiagramStore((s) => s.diagram.view.activeProbe);
+  // Probes measure different quantities (mm, V, A): by default show one, the diagram's active probe.
+  const probes = useMemo(() => {
+    if (!r) return [];
+    const fallback = r.probes.find((p) => p.id === activeProbe)?.id ?? r.probes[0]?.id;
+    return (chosen ?? (fallback ? [fallback] : [])).filter((id) => r.probes.some((p) => p.id === id));
+  }, [r, chosen, activeProbe]);
+  const option = useMemo(() => (r ? responseOption(r, probes, pinned?.response ?? null, pal) : null), [r, probes, pinned, pal]);
+  const actOption = useMemo(() => (r && r.actuators.length > 0 ? actuatorOption(r, pinned?.response ?? null, pal) : null), [r, pinned, pal]);
+
+  if (!r) return <div className="lw-empty">{error ? `Response: ${error}` : 'Simulating…'}</div>;
+  const toggle = (id: string) => {
+    const cur = new Set(probes);
+    if (cur.has(id)) cur.delete(id);
+    else cur.add(id);
+    setOptions({ probes: r.probes.map((p) => p.id).filter((p) => cur.has(p)) });
+  };
+  return (
+    <div className="lw-view lw-response">
+      <div className="lw-view-tools">
+        <span className="lw-muted">Probes</span>
+        {r.probes.map((p) => (
+          <label key={p.id} className="lw-check">
+            <input type="checkbox" checked={probes.includes(p.id)} onChange={() => toggle(p.id)} />
+            <span className="lw-swatch" style={{ background: probeColor(r, p.id, pal) }} />
+            {p.label}
+          </label>
+        ))}
+        {r.probes.length === 0 && <span className="lw-muted">add a probe block to see a response</span>}
+        <label className="lw-field">
+          <span>until</span>
+          <input
+            key={r.until}
+            className="lw-num"
+            aria-label="Simulation end time"
+            defaultValue={simEnd ?? r.until}
+            onBlur={(e) => {
+              const v = Number(e.target.value);
+              setOptions({ simulationEnd: e.target.value.trim() === '' ? null : Number.isFinite(v) && v > 0 ? v : simEnd });
+            }}
+            onKeyDown={(e) => e.key === 'Enter' && (e.target as HTMLInputElement).blur()}
+          />
+          <span>s</span>
+        </label>
+      </div>
+      {error && <div className="lw-error">{error}</div>}
+      <div className={actOption ? 'lw-grid-2' : 'lw-grid-1'}>
+        <ChartFrame
+          name="response"
+          title="Response"
+          background={pal.background}
+          option={option!}
+          extra={
+            <>
+              <span className="lw-muted" title="solid: with nonlinearities · dashed: the linear model · dotted: pinned">
+                solid: nonlinear · dashed: linear{pinned ? ' · dotted: pinned' : ''}
+              </span>
+              {r.nonlinear.status !== 'ok' && <span className="lw-bad">simulation {r.nonlinear.status}: {r.nonlinear.message}</span>}
+              <button type="button" className="lw-mini" data-export="traces:csv" title="Every trace as CSV" onClick={() => exportResponseCsv(r)}>
+                CSV
+              </button>
+            </>
+          }
+        />
+        {actOption && <ChartFrame name="actuator" title="Actuator" background={pal.background} option={actOption} />}
+      </div>
+      <MetricsTable r={r} pinned={pinned?.response ?? null} />
+    </div>
+  );
+}
+
+function MetricsTable({ r, pinned }: { r: ResponseResult; pinned: ResponseResult | null }) {
+  const rows = r.metrics;
+  if (rows.length === 0) return null;
+  const pin = (probe: string) => pinned?.metrics.find((m) => m.probe === probe);
+  const cell = (v: number | null, p: number | null | undefined, unit = '') => (
+    <td>
+      {fmt(v)}
+      {unit}
+      {p !== undefined && p !== v && <span className="lw-pinned-val"> ({fmt(p)})</span>}
+    </td>
+  );
+  return (
+    <table className="lw-table" data-testid="metrics-table">
+      <thead>
+        <tr>
+          <th>signal</th>
+          <th>rise time 10–90 % [s]</th>
+          <th>overshoot [%]</th>
+          <th>peak time [s]</th>
+          <th>settling ±2 % [s]</th>
+          <th>steady state</th>
+          <th>steady-state error</th>
+          <th>IAE</th>
+          <th>time at limit [s]</th>
+          <th>peak effort</th>
+        </tr>
+      </thead>
+      <tbody>
+        {rows.map((m) => {
+          const p = pin(m.probe);
+          return (
+            <tr key={m.probe}>
+              <td>{m.label}</td>
+              {cell(m.riseTime, p?.riseTime)}
+              {cell(m.overshootPct, p?.overshootPct)}
+              {cell(m.peakTime, p?.peakTime)}
+              {cell(m.settlingTime, p?.settlingTime)}
+              {cell(m.steadyState, p?.steadyState)}
+              {cell(m.steadyStateError, p?.steadyStateError)}
+              {cell(m.iae, p?.iae)}
+              {cell(m.timeInSaturation, p?.timeInSaturation)}
+              {cell(m.peakEffort, p?.peakEffort)}
+            </tr>
+          );
+        })}
+      </tbody>
+    </table>
+  );
+}

@@ -1,0 +1,173 @@
+/**
+ * The sweep bar: pick the swept quantity, set its range and scale, move the slider. The
+ * slider's value is live (analysis store) and follows into every view at once; releasing the
+ * slider, pressing Apply or Enter commits it to the document (one undo step).
+ */
+import { useMemo } from 'react';
+import { useDiagramStore } from '../store/diagram-store.ts';
+import { useAnalysisStore } from '../analysis/analysis-store.ts';
+import { documentValue, fmt, positionToValue, preferredChoice, sweepChoices, valueToPosition, type SweepChoice, type SweepRange } from '../analysis/sweep.ts';
+
+const STEPS = 1000;
+
+export function useSweepChoice(): { choices: SweepChoice[]; choice: SweepChoice | null; range: SweepRange | null; value: number } {
+  const diagram = useDiagramStore((s) => s.diagram);
+  const sweepKey = useAnalysisStore((s) => s.sweepKey);
+  const liveValue = useAnalysisStore((s) => s.liveValue);
+  const ranges = useAnalysisStore((s) => s.ranges);
+  const choices = useMemo(() => sweepChoices(diagram), [diagram]);
+  const choice = choices.find((c) => c.key === sweepKey) ?? preferredChoice(diagram, choices);
+  const range = choice ? ranges[choice.key] ?? choice.range : null;
+  const value = liveValue ?? (choice ? documentValue(diagram, choice.target) : Number.NaN);
+  return { choices, choice, range, value };
+}
+
+/** Writes a sweep value into the document (a parameter's value or a gain block's k). */
+export function commitSweepValue(choice: SweepChoice, value: number): void {
+  if (!Number.isFinite(value)) return;
+  const st = useDiagramStore.getState();
+  const current = documentValue(st.diagram, choice.target);
+  if (current !== value) {
+    if (choice.target.kind === 'parameter') st.setParameterValue(choice.target.name, value);
+    else st.updateBlockParams(choice.target.block, { [choice.target.field]: value });
+  }
+  useAnalysisStore.getState().setLiveValue(null);
+}
+
+/** Widens the slider range (on a nice boundary) so that it holds v. */
+export function widenRangeFor(choice: SweepChoice, range: SweepRange, v: number): void {
+  if (v >= range.min && v <= range.max) return;
+  const r = { ...range };
+  if (v < r.min) r.min = r.scale === 'log' && v > 0 ? v / 2 : v - Math.abs(v) * 0.2;
+  if (v > r.max) r.max = r.scale === 'log' && v > 0 ? v * 2 : v + Math.abs(v) * 0.2;
+  if (r.scale === 'log' && r.min * r.max <= 0) r.scale = 'linear';
+  useAnalysisStore.getState().setRange(choice.key, r);
+}
+
+function persistRange(choice: SweepChoice, r: SweepRange): void {
+  useAnalysisStore.getState().setRange(choice.key, r);
+  if (choice.target.kind !== 'parameter') return;
+  const st = useDiagramStore.getState();
+  const name = choice.target.name;
+  const existing = st.diagram.sweeps.find((s) => s.parameter === name);
+  if (existing) st.updateSweep(existing.id, { min: r.min, max: r.max, scale: r.scale });
+  else st.addSweep({ parameter: name, min: r.min, max: r.max, scale: r.scale });
+}
+
+export function SweepBar() {
+  const { choices, choice, range, value } = useSweepChoice();
+  const live = useAnalysisStore((s) => s.liveValue);
+  const ui = useAnalysisStore.getState;
+
+  if (!choice || !range) {
+    return (
+      <div className="lw-sweepbar" role="group" aria-label="Sweep">
+        <span className="lw-muted">No sweep: add a named parameter (Parameters) or a gain block to sweep it.</span>
+      </div>
+    );
+  }
+  const pos = Math.round(valueToPosition(range, value) * STEPS);
+  const commit = () => {
+    const v = useAnalysisStore.getState().liveValue;
+    if (v !== null) commitSweepValue(choice, v);
+  };
+  const setRange = (patch: Partial<SweepRange>) => {
+    const r = { ...range, ...patch };
+    if (!(r.max > r.min)) return;
+    if (r.scale === 'log' && r.min * r.max <= 0) r.scale = 'linear';
+    persistRange(choice, r);
+  };
+
+  return (
+    <div className="lw-sweepbar" role="group" aria-label="Sweep">
+      <label className="lw-field">
+        <span>Sweep</span>
+        <select
+          aria-label="Swept quantity"
+          value={choice.key}
+          onChange={(e) => {
+            const c = choices.find((x) => x.key === e.target.value);
+            ui().setSweepKey(e.target.value);
+            if (c?.target.kind === 'parameter') {
+              const sw = useDiagramStore.getState().diagram.sweeps.find((s) => s.parameter === (c.target as { name: string }).name);
+              if (sw) useDiagramStore.getState().setView({ activeSweep: sw.id });
+            }
+          }}
+        >
+          {choices.map((c) => (
+            <option key={c.key} value={c.key}>
+              {c.label}
+            </option>
+          ))}
+        </select>
+      </label>
+      <NumberBox label="from" value={range.min} onCommit={(v) => setRange({ min: v })} />
+      <input
+        type="range"
+        className="lw-slider"
+        aria-label={`Sweep value of ${choice.label}`}
+        data-testid="sweep-slider"
+        min={0}
+        max={STEPS}
+        step={1}
+        value={pos}
+        onChange={(e) => ui().setLiveValue(positionToValue(range, Number(e.target.value) / STEPS))}
+        onPointerUp={commit}
+        onKeyUp={(e) => {
+          if (e.key.startsWith('Arrow') || e.key === 'Home' || e.key === 'End' || e.key.startsWith('Page')) commit();
+        }}
+      />
+      <NumberBox label="to" value={range.max} onCommit={(v) => setRange({ max: v })} />
+      <select aria-label="Slider scale" value={range.scale} onChange={(e) => setRange({ scale: e.target.value as 'linear' | 'log' })}>
+        <option value="linear">linear</option>
+        <option value="log">log</option>
+      </select>
+      <NumberBox
+        label="value"
+        wide
+        testId="sweep-value"
+        value={value}
+        onCommit={(v) => {
+          widenRangeFor(choice, range, v);
+          commitSweepValue(choice, v);
+        }}
+      />
+      <button type="button" disabled={live === null} onClick={commit} title="Write the slider value into the diagram (Enter)">
+        Apply
+      </button>
+      <button type="button" disabled={live === null} onClick={() => ui().setLiveValue(null)} title="Back to the diagram's value">
+        Reset
+      </button>
+      {live !== null && <span className="lw-live" title="Not yet applied to the diagram">live</span>}
+    </div>
+  );
+}
+
+/** A number input that commits on Enter or blur and shows the value with 4 digits otherwise. */
+function NumberBox(props: { label: string; value: number; onCommit(v: number): void; wide?: boolean; testId?: string }) {
+  return (
+    <label className="lw-field">
+      <span>{props.label}</span>
+      <input
+        key={props.value}
+        className={props.wide ? 'lw-num lw-num-wide' : 'lw-num'}
+        data-testid={props.testId}
+        defaultValue={fmt(props.value)}
+        aria-label={props.label}
+        onKeyDown={(e) => {
+          if (e.key === 'Enter') (e.target as HTMLInputElement).blur();
+          if (e.key === 'Escape') {
+            (e.target as HTMLInputElement).value = fmt(props.value);
+            (e.target as HTMLInputElement).blur();
+          }
+        }}
+        onBlur={(e) => {
+          const text = e.target.value.trim();
+          const v = Number(text.replace('−', '-'));
+          if (text !== '' && text !== fmt(props.value) && Number.isFinite(v)) props.onCommit(v);
+          else e.target.value = fmt(props.value);
+        }}
+      />
+    </label>
+  );
+}
