@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { type Complex, cabs, csub, cx, poly, polyRoots, revalComplex } from '@loopwright/lti';
-import { cleanRoundOff, closedLoop, characteristicPolynomial, closedLoopPoles } from './reduce.ts';
+import { cleanRoundOff, closedLoop, characteristicPolynomial, closedLoopPoles, divideExactly } from './reduce.ts';
 import { loopAtCut } from './cuts.ts';
 import { assembleStateSpace, closedLoopPolesStateSpace, evaluateStateSpace } from './state-space.ts';
 import { graph, nestedChain, probeBlock, sourceBlock, sumBlock, tfBlock, wires } from './test-graphs.ts';
@@ -247,5 +247,19 @@ describe('property: methods A and B agree on random cascades', () => {
       ),
       { numRuns: 60 },
     );
+  });
+});
+
+describe('exact division by block factors', () => {
+  it('recovers the cofactor of a product and refuses a non-factor', () => {
+    // p = f·q by construction (polynomial multiplication); a Padé-like factor with large roots
+    // and a small one are both recovered.
+    const q = poly.fromRoots([cx(-1), cx(-0.5, 2), cx(-0.5, -2), cx(-30)]);
+    for (const f of [poly.fromRoots([cx(-9288.7), cx(-7355.6, 7017.5), cx(-7355.6, -7017.5)]), [500, 1], [0, 1]]) {
+      const got = divideExactly(poly.mul(q, f), f)!;
+      expect(got.length).toBe(q.length);
+      got.forEach((c, i) => expect(Math.abs(c - q[i])).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(q[i]))));
+    }
+    expect(divideExactly(q, [2, 1])).toBeNull();
   });
 });

@@ -69,6 +69,8 @@ export interface RawTransmission {
   den: number[];
   delay: number;
   handling: DelayHandling;
+  /** Block factors (node numerators and denominators) that may divide both sides exactly. */
+  factors?: number[][];
 }
 
 const padeOrderOf = (o: ReduceOptions) => {
@@ -170,7 +172,8 @@ export function transmissionOfGraph(g: SignalGraph, opts: ReduceOptions = {}): R
     fg = subFlowGraph(g, keep, num, den).fg;
   }
   const t = transmission(fg, plain.map[g.input], plain.map[g.output], cycles);
-  return { num: t.num, den: t.den, delay: exactDelay, handling: handlingOf(g, pade, order, exactDelay, why) };
+  const factors = [...fg.num, ...fg.den].filter((f) => poly.degree(f) > 0).map((f) => f.slice());
+  return { num: t.num, den: t.den, delay: exactDelay, handling: handlingOf(g, pade, order, exactDelay, why), factors };
 }
 
 export function loopMembers(n: number, cycles: readonly Cycle[]): boolean[] {
@@ -204,13 +207,23 @@ export function cleanRoundOff(p: readonly number[]): number[] {
 /** Normalises and cancels a raw transmission into a Reduction (poles, zeros, gains, hidden modes). */
 export function reductionOf(raw: RawTransmission, opts: ReduceOptions = {}): Reduction {
   if (poly.isZero(raw.den)) throw new InputError('the diagram is ill-posed: its interconnection determinant is identically zero (an algebraic loop with loop gain 1?)');
-  const r0 = rational(raw.num, raw.den);
+  const structural = divideBlockFactors(raw.num, raw.den, raw.factors ?? []);
+  const r0 = rational(structural.num, structural.den);
   let r: Rational = r0;
-  let hidden: Complex[] = [];
-  if (!poly.isZero(r0.num)) {
-    const c = cancelCommon(r0, opts.cancelTolerance ?? 1e-7);
-    hidden = c.cancelled;
-    r = hidden.length ? rational(cleanRoundOff(c.result.num), cleanRoundOff(c.result.den)) : c.result;
+  let hidden: Complex[] = structural.cancelled;
+  let poles: Complex[] | null = null;
+  if (!poly.isZero(r0.num) && poly.degree(r0.num) > 0 && poly.degree(r0.den) > 0) {
+    // Cheap screen first: the full cancellation (roots of both sides, clustered) runs only when
+    // some pole nearly annuls the numerator; otherwise those poles are the result's.
+    const denRoots = polyRoots(r0.den);
+    if (denRoots.some((p) => nearlyAnnuls(r0.num, p))) {
+      const c = cancelCommon(r0, opts.cancelTolerance ?? 1e-7);
+      if (c.cancelled.length) {
+        hidden = [...hidden, ...c.cancelled];
+        r = rational(cleanRoundOff(c.result.num), cleanRoundOff(c.result.den));
+      }
+    }
+    if (r === r0) poles = denRoots;
   }
   const out = {
     tf: transfer(r, raw.delay),
@@ -224,9 +237,88 @@ export function reductionOf(raw: RawTransmission, opts: ReduceOptions = {}): Red
   };
   // Poles and zeros are found on first use (a cut's L(s) or a sweep rarely needs them); own
   // enumerable getters, so JSON and structured clone still carry them.
-  lazy(out, 'poles', () => polyRoots(r.den));
+  lazy(out, 'poles', () => poles ?? polyRoots(r.den));
   lazy(out, 'zeros', () => (poly.isZero(r.num) ? [] : polyRoots(r.num)));
   return out as Reduction;
+}
+
+/**
+ * Exact division p = q·f when f divides p to round-off, else null. Both long divisions are
+ * tried — from the top (stable for small roots of f) and from the constant term (stable for
+ * large ones) — and the quotient with the smaller residual ‖p − q·f‖ is kept if that residual
+ * is at round-off level coefficient by coefficient.
+ */
+export function divideExactly(p: readonly number[], f: readonly number[]): number[] | null {
+  const pt = poly.trim(p);
+  const ft = poly.trim(f);
+  const m = ft.length - 1;
+  const n = pt.length - 1;
+  if (m < 1 || n < m) return null;
+  const top = poly.divmod(pt, ft).q;
+  let bottom: number[] | null = null;
+  if (ft[0] !== 0) {
+    const q = new Array<number>(n - m + 1).fill(0);
+    for (let k = 0; k <= n - m; k++) {
+      let acc = pt[k];
+      for (let j = 1; j <= Math.min(k, m); j++) acc -= ft[j] * q[k - j];
+      q[k] = acc / ft[0];
+    }
+    bottom = q;
+  }
+  let best: number[] | null = null;
+  let bestErr = Infinity;
+  for (const q of bottom ? [top, bottom] : [top]) {
+    let worst = 0;
+    for (let k = 0; k <= n; k++) {
+      let prod = 0;
+      let mag = Math.abs(pt[k]);
+      for (let j = Math.max(0, k - (q.length - 1)); j <= Math.min(k, m); j++) {
+        prod += ft[j] * (q[k - j] ?? 0);
+        mag += Math.abs(ft[j] * (q[k - j] ?? 0));
+      }
+      worst = Math.max(worst, mag > 0 ? Math.abs(pt[k] - prod) / mag : 0);
+    }
+    if (worst < bestErr) { bestErr = worst; best = q; }
+  }
+  return bestErr <= 1e-10 ? poly.trim(best!) : null;
+}
+
+/**
+ * Removes block factors that divide both numerator and denominator of a transmission exactly
+ * (a mode of a block that the path cannot see, or a controller zero on a plant pole): cheap
+ * and structural, before any root-based cancellation.
+ */
+function divideBlockFactors(num: number[], den: number[], factors: readonly number[][]): { num: number[]; den: number[]; cancelled: Complex[] } {
+  const cancelled: Complex[] = [];
+  if (poly.isZero(num)) return { num, den, cancelled };
+  const seen = new Set<string>();
+  for (const f of factors) {
+    const key = f.join(',');
+    if (seen.has(key)) continue;
+    seen.add(key);
+    for (;;) {
+      const qn = divideExactly(num, f);
+      if (!qn) break;
+      const qd = divideExactly(den, f);
+      if (!qd) break;
+      num = qn;
+      den = qd;
+      cancelled.push(...polyRoots(f));
+    }
+  }
+  return { num, den, cancelled: cancelled.sort((a, b) => a.re - b.re || a.im - b.im) };
+}
+
+/**
+ * |N(p)| small against the size of its terms Σ|n_k||p|^k: p is within ~1e−4 relative of a root
+ * of N (a loose screen; cancelCommon decides with its own tolerance).
+ */
+function nearlyAnnuls(num: readonly number[], p: Complex): boolean {
+  const v = poly.evalComplex(num, p);
+  const r = Math.hypot(p.re, p.im);
+  let size = 0;
+  for (let k = num.length - 1; k >= 0; k--) size = size * r + Math.abs(num[k]);
+  return Math.hypot(v.re, v.im) <= 1e-4 * size;
 }
 
 function lazy<T extends object>(o: T, key: string, compute: () => unknown): void {
