@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { type Complex, cabs, csub, cx, poly, polyRoots, revalComplex } from '@loopwright/lti';
 import { cleanRoundOff, closedLoop, characteristicPolynomial, closedLoopPoles, divideExactly } from './reduce.ts';
-import { loopAtCut } from './cuts.ts';
+import { cutFrequencyData, loopAtCut } from './cuts.ts';
 import { assembleStateSpace, closedLoopPolesStateSpace, evaluateStateSpace } from './state-space.ts';
 import { graph, nestedChain, probeBlock, sourceBlock, sumBlock, tfBlock, wires } from './test-graphs.ts';
 import type { LinearGraph } from './linear-graph.ts';
@@ -261,5 +261,21 @@ describe('exact division by block factors', () => {
       got.forEach((c, i) => expect(Math.abs(c - q[i])).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(q[i]))));
     }
     expect(divideExactly(q, [2, 1])).toBeNull();
+  });
+});
+
+describe('frequency data at a cut', () => {
+  it('S + T = 1 and |S| peaks at Ms = 3 for L = 4/(s+1)³ (R25)', () => {
+    // Ms exact 3 at ω = √2: Skogestad & Postlethwaite, Sec. 2.4.3 definitions (from memory); values derived in the table [R25]
+    const g = graph(
+      [sourceBlock('r'), sumBlock('e', '+-'), tfBlock('P', [4], [1, 3, 3, 1]), probeBlock('y')],
+      wires('r->e.in1', 'e->P', 'fb:P->e.in2', 'P->y'),
+    );
+    const f = cutFrequencyData(g, 'fb', undefined, [0.5, 1, Math.SQRT2, 2]);
+    f.omega.forEach((_, i) => {
+      expect(Math.abs(f.sensitivity.re[i] + f.complementary.re[i] - 1)).toBeLessThan(1e-12);
+      expect(Math.abs(f.sensitivity.im[i] + f.complementary.im[i])).toBeLessThan(1e-12);
+    });
+    expect(Math.abs(10 ** (f.sensitivity.magDb[2] / 20) - 3)).toBeLessThan(1e-6);
   });
 });
