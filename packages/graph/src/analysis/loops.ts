@@ -159,13 +159,21 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
   const enclosesWire = (outerWire: string, innerWire: string) =>
     outerWire !== innerWire && onLoop.get(outerWire)!.has(junction(innerWire)) && !onLoop.get(innerWire)!.has(junction(outerWire));
   for (const k of valid) {
+    try {
+      cuts.push(analyseCut(k));
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      notes.push(`cut ${k.cut} on wire ${k.wire}: ${err.message}`);
+    }
+  }
+  function analyseCut(k: (typeof valid)[number]): CutAnalysis {
     const r = loopAtCutDetailed(c, k.wire, undefined, opts);
     const margins = loopMargins(r.tf);
     const mine = blocksOf(k.wire);
     const opened = valid.filter((o) => enclosesWire(o.wire, k.wire)).map((o) => o.wire);
     const aloneLoop = opened.length ? loopAtCutDetailed(withoutWires(c, opened), k.wire, undefined, opts).tf : r.tf;
     const aloneMargins = opened.length ? loopMargins(aloneLoop) : margins;
-    cuts.push({
+    return {
       ...k,
       alone: { loop: aloneLoop, margins: aloneMargins, crossover: aloneMargins.gainCrossover, bandwidth: aloneMargins.bandwidth, opened },
       loop: r.tf,
@@ -176,7 +184,7 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
       bandwidth: margins.bandwidth,
       blocks: mine,
       stable: margins.closedLoopStable,
-    });
+    };
   }
   // Nesting (enclosesWire): pair each inner loop with the smallest loop around it.
   const separations: Separation[] = [];

@@ -52,8 +52,18 @@ export function sweepRange(d: Diagram, name: string, value: number): { min: numb
 export function affineSplit(d: Diagram, name: string, overrides: ParameterOverrides = {}, opts: ReduceOptions = {}): { n0: number[]; d0: number[]; handling: DelayHandling } | null {
   const v = overrides[name] ?? namedParameter(d, name).value;
   const base = v !== 0 ? v : 1;
-  const ks = [base, base * 1.7, base * 0.45];
-  const cps = ks.map((k) => characteristicPolynomial(d, { ...overrides, [name]: k }, opts));
+  let ks = [base, base * 1.7, base * 0.45];
+  const at = (k: number) => characteristicPolynomial(d, { ...overrides, [name]: k }, opts);
+  let cps: ReturnType<typeof at>[];
+  try {
+    cps = ks.map(at);
+  } catch (err) {
+    // A field refused one of the trial values (e.g. above its limit): try inside the sweep range.
+    if (!(err instanceof InputError)) throw err;
+    const r = sweepRange(d, name, v);
+    ks = [0.25, 0.5, 0.75].map((f) => r.min + (r.max - r.min) * f);
+    cps = ks.map(at);
+  }
   const [p1, p2, p3] = cps.map((c) => c.poly);
   const n0 = poly.scale(poly.sub(p2, p1), 1 / (ks[1] - ks[0]));
   const d0 = poly.sub(p1, poly.scale(n0, ks[0]));

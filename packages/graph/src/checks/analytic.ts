@@ -1,19 +1,13 @@
 import { type Complex, InputError, cabs, poly, polyRoots } from '@loopwright/lti';
 import type { Diagram } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
+import type { Finding } from './finding.ts';
 import { type CompiledGraph, feedthroughOf } from '../analysis/linear-graph.ts';
 import { determinantPoly, flowGraph, simpleCycles } from '../analysis/mason.ts';
 import { type Linearisable, closedLoopPoles, compiledOf } from '../analysis/reduce.ts';
 
-/** One finding of a check (shared shape with the structural checks). */
-export interface AnalyticFinding {
-  severity: 'error' | 'warning' | 'info';
-  code: string;
-  message: string;
-  blocks?: string[];
-  wires?: string[];
-  field?: string;
-}
+/** Analytical findings have the shape of every check's findings. */
+export type AnalyticFinding = Finding;
 
 const fmtC = (z: Complex) => (Math.abs(z.im) < 1e-12 ? `${+z.re.toPrecision(6)}` : `${+z.re.toPrecision(6)}${z.im < 0 ? '-' : '+'}${+Math.abs(z.im).toPrecision(6)}j`);
 
@@ -46,8 +40,8 @@ export function algebraicLoopFindings(c: CompiledGraph): AnalyticFinding[] {
       severity: improper ? 'error' : 'warning',
       code: 'algebraic-loop',
       message: improper
-        ? `algebraic loop through ${blocks.join(' → ')} contains an improper block (gain growing without bound at high frequency): the loop is ill-posed`
-        : `algebraic loop through ${blocks.join(' → ')}: every block on it passes its input straight through (loop gain at s → ∞ = ${+gain.toPrecision(6)}); the signals are found by solving it`,
+        ? 'algebraic loop (blocks in loop order) with an improper block (gain growing without bound at high frequency): the loop is ill-posed'
+        : `algebraic loop (blocks in loop order): every block on it passes its input straight through (loop gain at s → ∞ = ${+gain.toPrecision(6)}); the signals are found by solving it`,
       blocks,
     });
   }
@@ -57,7 +51,7 @@ export function algebraicLoopFindings(c: CompiledGraph): AnalyticFinding[] {
     out.push({
       severity: 'error',
       code: 'ill-posed-algebraic-loop',
-      message: `ill-posed algebraic loop through ${blocks.join(', ')}: 1 − (loop gain at s → ∞) = 0, so no signal values satisfy it`,
+      message: 'ill-posed algebraic loop: 1 − (loop gain at s → ∞) = 0, so no signal values satisfy it',
       blocks,
     });
   }
