@@ -71,6 +71,45 @@ async function dragSliderTo(page: Page, fraction: number) {
   };
 }
 
+type Branch = { re: number[]; im: number[]; k: number[] };
+/** The slider-range branch (upper half-plane) that moves most relative to its size: the dominant pair. */
+function dominantRangeBranch(st: HookState): Branch {
+  const range = (st.locus as unknown as { rangeBranches: Branch[] }).rangeBranches;
+  return range
+    .map((b) => ({ b, span: Math.hypot(b.re[b.re.length - 1] - b.re[0], b.im[b.im.length - 1] - b.im[0]) / Math.max(1, Math.hypot(b.re[0], b.im[0])) }))
+    .filter((x) => Math.max(...x.b.im) > 0)
+    .sort((a, b) => b.span - a.span)[0].b;
+}
+
+const locusPagePoint = (page: Page, p: Cx) =>
+  page.evaluate(
+    ([re, im]) => (window as unknown as { __loopwright: { analysis: { locusPagePoint(a: number, b: number): { x: number; y: number } } } }).__loopwright.analysis.locusPagePoint(re, im),
+    [p.re, p.im],
+  );
+
+/** RFC 4180 fields of one CSV line (quoted fields may hold commas and doubled quotes). */
+function csvFields(line: string): string[] {
+  const out: string[] = [];
+  let cur = '';
+  let quoted = false;
+  for (let i = 0; i < line.length; i++) {
+    const ch = line[i];
+    if (quoted) {
+      if (ch === '"' && line[i + 1] === '"') {
+        cur += '"';
+        i++;
+      } else if (ch === '"') quoted = false;
+      else cur += ch;
+    } else if (ch === '"') quoted = true;
+    else if (ch === ',') {
+      out.push(cur);
+      cur = '';
+    } else cur += ch;
+  }
+  out.push(cur);
+  return out;
+}
+
 const dist = (a: Cx, b: Cx) => Math.hypot(a.re - b.re, a.im - b.im);
 const sortPoles = (p: Cx[]) => [...p].sort((a, b) => a.re - b.re || a.im - b.im);
 
@@ -98,12 +137,226 @@ describe('analysis views', () => {
     rmSync(downloads, { recursive: true, force: true });
   });
 
+  it('moving the slider moves the closed-loop poles along the branches and changes the response', async () => {
+    const s0 = await settled(page);
+    expect(s0.sweep?.parameter).toBe('Kp_pos');
+    expect(s0.locus?.mode).toBe('exact');
+    const probe = s0.response!.probes[0].id;
+    const y0 = s0.response!.nonlinear.traces[probe];
+    // The poles as the Locus chart was given them (not the hook's copy of the results).
+    const chartPoles = async () => {
+      const opt = (await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { chartOption(n: string): unknown } } }).__loopwright.analysis.chartOption('locus'))) as {
+        series: { name: string; data: number[][] }[];
+      };
+      return opt.series.find((x) => x.name === 'closed-loop poles')!.data.map(([re, im]) => ({ re, im }));
+    };
+    const p0 = await chartPoles();
+    expect(sortPoles(p0)).toEqual(sortPoles(s0.poles!));
+
+    const drag = await dragSliderTo(page, 0.85);
+    const s1 = await settled(page);
+    expect(s1.sweep!.live, 'the slider value is live, not yet in the document').not.toBeNull();
+    const v1 = s1.sweep!.value;
+    expect(v1).toBeGreaterThan(s0.sweep!.value * 1.5);
+    const p1 = await chartPoles();
+    expect(sortPoles(p1)).toEqual(sortPoles(s1.poles!));
+    // Some pole moved by more than 1 % of its size…
+    const moved = p1.filter((p) => Math.min(...p0.map((q) => dist(p, q))) > 0.01 * Math.hypot(p.re, p.im));
+    expect(moved.length).toBeGreaterThan(0);
+    // …and every pole lies on a branch of the locus drawn (within 1 % of its modulus): the
+    // nearest point of the traced polylines, segment by segment.
+    const branches = [...s1.locus!.branches, ...((s1.locus as unknown as { rangeBranches: typeof NonNullable<typeof s1.locus>["branches"] }).rangeBranches ?? [])];
+    const toBranches = (p: Cx) => {
+      let best = Infinity;
+      for (const b of branches) {
+        for (let i = 0; i + 1 < b.re.length; i++) {
+          const ax = b.re[i], ay = b.im[i], dx = b.re[i + 1] - ax, dy = b.im[i + 1] - ay;
+          const l2 = dx * dx + dy * dy;
+          const t = l2 > 0 ? Math.max(0, Math.min(1, ((p.re - ax) * dx + (p.im - ay) * dy) / l2)) : 0;
+          best = Math.min(best, Math.hypot(ax + t * dx - p.re, ay + t * dy - p.im));
+        }
+      }
+      return best;
+    };
+    for (const p of p1) expect(toBranches(p), `pole ${p.re} ${p.im} on a branch`).toBeLessThan(0.01 * Math.max(1, Math.hypot(p.re, p.im)));
+    // The response changed with it.
+    const y1 = s1.response!.nonlinear.traces[probe];
+    const diff = Math.max(...y1.map((v, i) => Math.abs(v - (y0[i] ?? v))));
+    const scale = Math.max(...y0.map(Math.abs));
+    expect(diff).toBeGreaterThan(0.01 * scale);
+    // Releasing commits the value to the document (one undoable edit).
+    const before = await page.evaluate(() => (window as unknown as { __loopwright: { historySize(): { past: number } } }).__loopwright.historySize().past);
+    await drag.release();
+    await expect.poll(async () => (await state(page)).sweep!.live).toBeNull();
+    const doc = await page.evaluate(() => (window as unknown as { __loopwright: { getDiagram(): Diagram } }).__loopwright.getDiagram());
+    expect(doc.parameters.find((p) => p.name === 'Kp_pos')!.value).toBeCloseTo(v1, 9);
+    const after = await page.evaluate(() => (window as unknown as { __loopwright: { historySize(): { past: number } } }).__loopwright.historySize().past);
+    expect(after).toBe(before + 1);
+  });
+
+  it('clicking a branch point sets the gain that puts a closed-loop pole within 1 % of it', async () => {
+    const s0 = await settled(page);
+    const moving = dominantRangeBranch(s0);
+    const picks = [0.3, 0.7].map((f) => Math.round(f * (moving.re.length - 1)));
+    for (const i of picks) {
+      const target = { re: moving.re[i], im: moving.im[i] };
+      // Zoom in around the point with the mouse wheel until a pixel is well below 1 % of |s|,
+      // as a user would to pick a pole position precisely.
+      const fit = page.getByRole('button', { name: 'Fit locus window' });
+      if (await fit.isEnabled()) await fit.click();
+      for (let z = 0; z < 40; z++) {
+        const a = await locusPagePoint(page, target);
+        const b = await locusPagePoint(page, { re: target.re + Math.hypot(target.re, target.im) * 0.01, im: target.im });
+        if (Math.abs(b.x - a.x) >= 12) break;
+        await page.mouse.move(a.x, a.y);
+        await page.mouse.wheel(0, -100);
+        await page.waitForTimeout(30);
+      }
+      const at = await locusPagePoint(page, target);
+      const rect = (await page.locator('[data-chart="locus"]').boundingBox())!;
+      expect(at.x > rect.x && at.x < rect.x + rect.width && at.y > rect.y && at.y < rect.y + rect.height, 'target on the chart').toBe(true);
+      const gen = s0.generation;
+      await page.mouse.move(at.x, at.y);
+      await page.mouse.click(at.x, at.y);
+      await page.waitForFunction((g) => (window as unknown as { __loopwright: { analysis: { state(): { generation: number } } } }).__loopwright.analysis.state().generation > g, gen);
+      const s1 = await settled(page);
+      const nearest = Math.min(...s1.poles!.map((p) => dist(p, target)));
+      expect(nearest / Math.hypot(target.re, target.im), `pole near the clicked point ${target.re} ${target.im}`).toBeLessThan(0.01);
+      // The gain found is the branch's own gain there (within the trace's resolution).
+      expect(Math.abs(s1.sweep!.value - moving.k[i]) / moving.k[i]).toBeLessThan(0.05);
+    }
+  });
+
+  it('the Loops table shows the margins that `loopwright loops --json` gives for the same file', async () => {
+    const d = demo('positioning-axis');
+    await loadDiagram(page, d);
+    await settled(page);
+    const file = join(downloads, 'positioning-axis.loop.json');
+    writeFileSync(file, serializeDiagram(d));
+    const r = spawnSync(process.execPath, [join(ROOT, 'apps/cli/bin/loopwright.mjs'), 'loops', file, '--json'], { cwd: ROOT, encoding: 'utf8' });
+    expect(r.status, r.stderr).toBe(0);
+    const cli = JSON.parse(r.stdout) as { cuts: { cut: string; margins: Record<string, number | boolean | null> }[] };
+    await page.getByRole('tab', { name: 'Loops' }).click();
+    const table = page.getByTestId('loops-table');
+    await expect.poll(() => table.locator('tbody tr').count()).toBe(cli.cuts.length);
+    expect(cli.cuts.length).toBeGreaterThan(1);
+    for (const c of cli.cuts) {
+      const row = table.locator(`tr[data-cut="${c.cut}"]`);
+      for (const field of ['gainCrossover', 'phaseMarginDeg', 'gainMarginDb', 'phaseCrossover', 'delayMargin', 'peakSensitivity', 'bandwidth', 'closedLoopStable']) {
+        const cell = row.locator(`td[data-field="${field}"]`);
+        const raw = await cell.getAttribute('data-value');
+        const want = c.margins[field];
+        if (want === null) expect(raw, `${c.cut} ${field}`).toBe('null');
+        else if (typeof want === 'boolean') expect(raw, `${c.cut} ${field}`).toBe(String(want));
+        else {
+          expect(Number(raw), `${c.cut} ${field}`).toBeCloseTo(want, 6);
+          // The text shown rounds the same number to 4 significant digits.
+          const shown = Number((await cell.textContent())!.replace('−', '-'));
+          expect(Math.abs(shown - want), `${c.cut} ${field} shown`).toBeLessThanOrEqual(Math.abs(want) * 5e-4 + 1e-12);
+        }
+      }
+    }
+  });
+
+  it('each export produces a valid file: PNG and SVG of every chart, traces CSV, design report', async () => {
+    const save = async (selector: string) => {
+      const [dl] = await Promise.all([page.waitForEvent('download'), page.locator(`[data-export="${selector}"]`).first().click()]);
+      const path = join(downloads, dl.suggestedFilename());
+      await dl.saveAs(path);
+      return { path, name: dl.suggestedFilename(), bytes: readFileSync(path) };
+    };
+    const views: [string, string[]][] = [
+      ['Response', ['locus', 'response', 'actuator']],
+      ['Frequency', ['bode', 'nyquist', 'sensitivity']],
+    ];
+    for (const [tab, charts] of views) {
+      await page.getByRole('tab', { name: tab }).click();
+      await settled(page);
+      for (const c of charts) {
+        const png = await save(`${c}:png`);
+        expect(png.name).toMatch(new RegExp(`${c}\\.png$`));
+        const size = pngSize(png.bytes);
+        const box = (await page.locator(`[data-chart="${c}"]`).boundingBox())!;
+        // Exported at pixel ratio 2 from the chart as drawn.
+        expect(size.width).toBe(Math.round(box.width) * 2);
+        expect(size.height).toBe(Math.round(box.height) * 2);
+        const svg = await save(`${c}:svg`);
+        const text = svg.bytes.toString('utf8');
+        expect(text.trimStart().startsWith('<svg')).toBe(true);
+        expect(text.trimEnd().endsWith('</svg>')).toBe(true);
+        expect(text).toMatch(/<path|<polyline|<line/);
+      }
+    }
+    await page.getByRole('tab', { name: 'Response' }).click();
+    const csv = await save('traces:csv');
+    const lines = csv.bytes.toString('utf8').trim().split('\n');
+    const header = csvFields(lines[0]);
+    const st = await settled(page);
+    const keys = Object.keys(st.response!.nonlinear.traces);
+    expect(header.length).toBe(1 + 2 * keys.length);
+    expect(header[0]).toBe('t');
+    expect(header.filter((h) => h.endsWith('(linear)')).length).toBe(keys.length);
+    expect(lines.length - 1).toBe(st.response!.nonlinear.time.length);
+    for (const line of [lines[1], lines[Math.floor(lines.length / 2)], lines[lines.length - 1]]) {
+      const cells = csvFields(line);
+      expect(cells.length).toBe(header.length);
+      for (const c of cells) expect(Number.isFinite(Number(c)), `CSV cell ${c}`).toBe(true);
+    }
+    expect(Number(csvFields(lines[lines.length - 1])[0])).toBeCloseTo(st.response!.nonlinear.time.at(-1)!, 9);
+    const report = await save('report:html');
+    const html = report.bytes.toString('utf8');
+    expect(html.startsWith('<!doctype html>')).toBe(true);
+    expect(html).toMatch(/functional-safety standards/);
+    expect(html).toMatch(/<h2>Loops<\/h2>/);
+    expect((html.match(/<svg/g) ?? []).length).toBeGreaterThanOrEqual(5); // the diagram and the charts
+    expect(html).not.toMatch(/<script|src="http|href="http/); // self-contained
+    for (const p of demo('positioning-axis').parameters) expect(html).toContain(p.name);
+  });
+
+  it('pinning and comparing shows both results and a table of the differences', async () => {
+    await page.getByRole('tab', { name: 'Compare' }).click();
+    await page.getByTestId('pin').click();
+    await settled(page);
+    const drag = await dragSliderTo(page, 0.2);
+    await drag.release();
+    await settled(page);
+    const table = page.getByTestId('compare-table');
+    await expect.poll(() => table.locator('tr.lw-changed').count()).toBeGreaterThan(2);
+    await expect.poll(() => table.textContent()).toMatch(/Kp_pos/);
+    await page.waitForTimeout(150);
+    await screenshot(page, 'analysis-compare');
+  });
+
   it('screenshots of every view for the demo', async () => {
+    await loadDiagram(page, demo('positioning-axis'));
+    const fit = page.getByRole('button', { name: 'Fit locus window' });
+    if (await fit.isEnabled()) await fit.click();
     for (const tab of ['Response', 'Frequency', 'Loops']) {
       await page.getByRole('tab', { name: tab }).click();
       await settled(page);
       await page.waitForTimeout(150);
       await screenshot(page, `analysis-${tab.toLowerCase()}`);
     }
+    // The locus with its readout while hovering a branch point.
+    const st = await settled(page);
+    const b = dominantRangeBranch(st);
+    const i = Math.floor(b.re.length / 2);
+    const at = await locusPagePoint(page, { re: b.re[i], im: b.im[i] });
+    await page.mouse.move(at.x, at.y);
+    await expect.poll(() => page.getByTestId('locus-readout').count()).toBe(1);
+    expect(await page.getByTestId('locus-readout').textContent()).toMatch(/ζ = .*ωn = /);
+    await screenshot(page, 'analysis-locus-hover');
+    // The second demo, and the dark theme.
+    await loadDiagram(page, demo('heating-cascade'));
+    await page.getByRole('tab', { name: 'Response' }).click();
+    await settled(page);
+    await page.waitForTimeout(150);
+    await screenshot(page, 'analysis-heating-response');
+    const dark = { ...demo('heating-cascade'), view: { ...demo('heating-cascade').view, theme: 'dark' as const } };
+    await loadDiagram(page, dark);
+    await page.getByRole('tab', { name: 'Frequency' }).click();
+    await settled(page);
+    await page.waitForTimeout(150);
+    await screenshot(page, 'analysis-heating-frequency-dark');
   });
 });

@@ -3,7 +3,7 @@
  * current closed-loop poles. Hovering near a branch reads gain, s, ζ and ωn there; clicking
  * sets the sweep to the gain that puts a closed-loop pole at that point of the branch.
  */
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { gainAtPoint } from '@loopwright/lti';
 import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
@@ -55,6 +55,9 @@ export function LocusView({ pal }: { pal: Palette }) {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [locus, locus ? null : current, box.width, box.height, range?.min, range?.max]);
   const win = useMemo(() => zoomWindow(fitted, zoom), [fitted, zoom]);
+  // A different locus (another diagram or sweep) starts fitted again.
+  const locusIdentity = locus ? `${locus.parameter}|${JSON.stringify(locus.poles)}|${JSON.stringify(locus.zeros)}` : '';
+  useEffect(() => setZoom(null), [locusIdentity]);
   const option = useMemo(
     () =>
       locusOption({
@@ -130,7 +133,7 @@ export function LocusView({ pal }: { pal: Palette }) {
           <label className="lw-check" title="Constant natural-frequency arcs">
             <input type="checkbox" checked={freq} onChange={(e) => setOptions({ showFrequencyGuides: e.target.checked })} /> ωn
           </label>
-          <button type="button" className="lw-mini" disabled={!zoom} onClick={() => setZoom(null)} title="Fit the window to the swept part of the locus (mouse wheel zooms)">
+          <button type="button" className="lw-mini" aria-label="Fit locus window" disabled={!zoom} onClick={() => setZoom(null)} title="Fit the window to the swept part of the locus (mouse wheel zooms)">
             Fit
           </button>
           </div>
