@@ -4,6 +4,15 @@ import { analyseLoops, closedLoop, compiledOf, demoDiagrams, loopAtCut, sweepLoc
 // Test builders (not public API): a cascade of N nested loops.
 import { nestedChain } from '../../packages/graph/src/analysis/test-graphs.ts';
 
+/** Mean CPU time per run (user + system, ms): on a shared machine wall time also counts other people's work. */
+function cpuMs(fn: () => unknown, runs: number): number {
+  fn();
+  const u = process.cpuUsage();
+  for (let i = 0; i < runs; i++) fn();
+  const du = process.cpuUsage(u);
+  return (du.user + du.system) / 1000 / runs;
+}
+
 export function run(): void {
   section('graph analysis');
   const d = demoDiagrams.find((x) => x.id === 'positioning-axis')!.diagram;
@@ -16,7 +25,10 @@ export function run(): void {
     for (const cut of d.cuts) loopAtCut(c, cut.wire);
   };
   report(bench(`positioning axis: ${sources.length * probes.length} closed-loop forms + ${d.cuts.length} cuts' L(s)`, allForms, { minRuns: 30 }), 10);
-  report(bench('positioning axis: exact locus of Kp_pos (whole diagram)', () => sweepLocus(d, 'Kp_pos'), { minRuns: 20 }), 25);
+  console.log(`  (same, mean CPU time per run: ${cpuMs(allForms, 30).toFixed(2)} ms)`);
+  const locus = () => sweepLocus(d, 'Kp_pos');
+  report(bench('positioning axis: exact locus of Kp_pos (whole diagram)', locus, { minRuns: 20 }), 25);
+  console.log(`  (same, mean CPU time per run: ${cpuMs(locus, 20).toFixed(2)} ms)`);
   report(bench('positioning axis: loops report (cuts, margins, separations, ideal inner)', () => analyseLoops(d), { minRuns: 10 }));
 
   const ns = [2, 4, 8, 16];
