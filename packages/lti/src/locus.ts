@@ -396,8 +396,8 @@ function realSegments(N: number[], D: number[], sgn: number, poles: Complex[], z
 function autoKMax(N: number[], D: number[], n: number, m: number, R: number, zeros: Cluster[], special: number[]): number {
   let k = 0;
   for (const g of special) k = Math.max(k, 10 * g);
-  // Asymptotic branches reach |s| ≈ 20·R: |k·lead N| ≈ |lead D|·|s|^(n−m).
-  if (n > m) k = Math.max(k, Math.abs(P.lead(D) / P.lead(N)) * (20 * R) ** (n - m));
+  // Asymptotic branches reach |s| ≈ 10·R: |k·lead N| ≈ |lead D|·|s|^(n−m).
+  if (n > m) k = Math.max(k, Math.abs(P.lead(D) / P.lead(N)) * (10 * R) ** (n - m));
   // Branches ending at zeros come within 1 % of R of them.
   for (const z of zeros) {
     const s = cx(z.center.re + 0.01 * R, z.center.im);
@@ -451,6 +451,7 @@ class Tracer {
   private readonly n: number;
   private readonly re: Float64Array;
   private readonly im: Float64Array;
+  private readonly done: Uint8Array;
   constructor(
     private readonly N: number[],
     private readonly D: number[],
@@ -463,6 +464,7 @@ class Tracer {
     this.n = D.length - 1;
     this.re = new Float64Array(this.n);
     this.im = new Float64Array(this.n);
+    this.done = new Uint8Array(this.n);
   }
 
   trace(kMin: number, kMax: number, samples: number, poles: Complex[]): { branches: LocusPoint[][]; gains: number[]; kStar: number } {
@@ -584,17 +586,37 @@ class Tracer {
       re[i] = prev[i].re;
       im[i] = prev[i].im;
     }
+    // Coincident starting roots (a snapped breakaway, a repeated pole) would divide by zero:
+    // split them slightly, as a conjugate-symmetric pair off the real axis when they are real.
+    for (let i = 0; i < n; i++) {
+      for (let j = i + 1; j < n; j++) {
+        if (re[i] !== re[j] || im[i] !== im[j]) continue;
+        const d = 1e-7 * (Math.hypot(re[i], im[i]) + this.scale);
+        if (im[i] === 0) {
+          im[i] = d;
+          im[j] = -d;
+        } else {
+          re[i] += d;
+          re[j] -= d;
+        }
+      }
+    }
+    const done = this.done;
+    done.fill(0);
     let converged = false;
-    for (let it = 0; it < 12 && !converged; it++) {
+    for (let it = 0; it < 30 && !converged; it++) {
       converged = true;
       for (let i = 0; i < n; i++) {
+        if (done[i]) continue; // converged roots stay put (they still repel the others)
         const zr = re[i];
         const zi = im[i];
-        // Horner for p and p' together.
+        const za = Math.hypot(zr, zi);
+        // Horner for p and p' together, and Σ|p_j|·|z|^j for the rounding level of p(z).
         let pr = p[n];
         let pi = 0;
         let dr = 0;
         let di = 0;
+        let ab = Math.abs(p[n]);
         for (let j = n - 1; j >= 0; j--) {
           const ndr = dr * zr - di * zi + pr;
           di = dr * zi + di * zr + pi;
@@ -602,13 +624,29 @@ class Tracer {
           const npr = pr * zr - pi * zi + p[j];
           pi = pr * zi + pi * zr;
           pr = npr;
+          ab = ab * za + Math.abs(p[j]);
         }
-        if (pr === 0 && pi === 0) continue;
-        const dd = dr * dr + di * di;
-        if (dd === 0) return null;
-        // ratio = p/p'
-        const qr = (pr * dr + pi * di) / dd;
-        const qi = (pi * dr - pr * di) / dd;
+        if (pr === 0 && pi === 0) {
+          done[i] = 1;
+          continue;
+        }
+        // At the rounding level of p(z) no further step can improve z (backward-stable root).
+        const atRounding = Math.hypot(pr, pi) <= 32 * Number.EPSILON * ab;
+        if (dr === 0 && di === 0) return null;
+        // ratio = p/p' by Smith's method (no squares: high orders at large gains overflow them)
+        let qr: number;
+        let qi: number;
+        if (Math.abs(dr) >= Math.abs(di)) {
+          const t = di / dr;
+          const den = dr + di * t;
+          qr = (pr + pi * t) / den;
+          qi = (pi - pr * t) / den;
+        } else {
+          const t = dr / di;
+          const den = dr * t + di;
+          qr = (pr * t + pi) / den;
+          qi = (pi * t - pr) / den;
+        }
         let sr = 0;
         let si = 0;
         for (let j = 0; j < n; j++) {
@@ -629,7 +667,8 @@ class Tracer {
         const wi = (qi * br - qr * bi) / bb;
         re[i] = zr - wr;
         im[i] = zi - wi;
-        if (Math.hypot(wr, wi) > 1e-12 * (Math.hypot(zr, zi) + this.scale)) converged = false;
+        if (!atRounding && Math.hypot(wr, wi) > 1e-12 * (za + this.scale)) converged = false;
+        else done[i] = 1;
       }
     }
     if (!converged) return null;
