@@ -19,6 +19,12 @@ for (let j = 0; j < NS; j++) {
 }
 NODES[0] = 0;
 NODES[DEGREE] = 1;
+/** Last row of the differentiation matrix: p'(1) = Σ END_SLOPE[j]·p(x_j) on [0, 1]. */
+const END_SLOPE = new Float64Array(NS);
+for (let j = 0; j < DEGREE; j++) {
+  END_SLOPE[j] = WEIGHTS[j] / WEIGHTS[DEGREE] / (1 - NODES[j]);
+  END_SLOPE[DEGREE] -= END_SLOPE[j];
+}
 
 export class History {
   private starts: number[] = [];
@@ -26,12 +32,27 @@ export class History {
   private values = new Float64Array(NS * 256);
   private count = 0;
   private cursor = 0;
+  /** End of the record, its value and slope there (for the linear extrapolation beyond it). */
+  end = 0;
+  endValue = 0;
+  endSlope = 0;
+  /** Largest |value| recorded (the signal's range, for relative tolerances). */
+  maxAbs = 0;
 
   reset(): void {
     this.starts.length = 0;
     this.ends.length = 0;
     this.count = 0;
     this.cursor = 0;
+    this.end = 0;
+    this.endValue = 0;
+    this.endSlope = 0;
+    this.maxAbs = 0;
+  }
+
+  /** Beyond the record (a step longer than the dead time): linear extrapolation from its end, checked after the step. */
+  extrapolate(tau: number): number {
+    return this.endValue + this.endSlope * (tau - this.end);
   }
 
   /** Appends the piece [a, b] from NS samples at a + NODES[j]·(b − a). */
@@ -43,10 +64,19 @@ export class History {
       this.values = bigger;
     }
     const o = this.count * NS;
-    for (let j = 0; j < NS; j++) this.values[o + j] = samples[j];
+    for (let j = 0; j < NS; j++) {
+      this.values[o + j] = samples[j];
+      const m = Math.abs(samples[j]);
+      if (m > this.maxAbs) this.maxAbs = m;
+    }
     this.starts.push(a);
     this.ends.push(b);
     this.count++;
+    let slope = 0;
+    for (let j = 0; j < NS; j++) slope += END_SLOPE[j] * samples[j];
+    this.endValue = samples[DEGREE];
+    this.endSlope = slope / (b - a);
+    this.end = b;
   }
 
   /** The signal at time tau; `bias` is a time inside the segment being integrated minus the delay, which picks the side of a boundary jump. */
@@ -59,6 +89,7 @@ export class History {
       if (this.starts[0] - tau > eps || bias < this.starts[0]) return 0;
       tau = this.starts[0];
     }
+    if (tau > this.end + eps) return this.extrapolate(tau);
     const starts = this.starts;
     const ends = this.ends;
     let k = this.cursor;

@@ -92,15 +92,26 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
   solver.denseOutput = true;
   solver.relativeTolerance = rtol;
   solver.absoluteTolerance = atol;
+  // odex's stability check compares stage derivatives with the initial one; at an exact
+  // equilibrium (ẋ ≈ 0) round-off makes it fail every step and the step size collapses.
+  // Step control by the extrapolation error estimate stays in force.
+  solver.stabilityCheckCount = 0;
   let comps: number[];
-  if (hasGuards) comps = Array.from({ length: n }, (_, i) => i);
+  if (hasGuards || hasDelays) comps = Array.from({ length: n }, (_, i) => i);
   else {
     comps = statesBehind(eng, [...sigIdx, ...delayNodes.map((d) => d.in0)]);
     if (comps.length === 0) comps = [0];
     solver.denseComponents = comps;
   }
-  let hMaxBase = Math.min(run.delays[0] ?? Infinity, until);
+  // Steps may be longer than a dead time: the delayed signal past the end of its record is then
+  // extrapolated linearly, and every such step is checked against the signal it produced; a
+  // miss beyond the tolerance restarts the step in "safe" mode (steps ≤ the dead time, so the
+  // delayed value is always recorded) for 50 dead times.
+  const tMin = run.delays[0] ?? Infinity;
+  let hMaxBase = until;
   if (hasGuards) hMaxBase = Math.min(hMaxBase, until / 50);
+  let safeUntil = -Infinity;
+  let safe = false;
 
   // --- breakpoints (sorted, with the number of dead times they have passed through)
   const bpT: number[] = [];
@@ -403,6 +414,31 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
         return false;
       }
     }
+    // a step longer than a dead time used extrapolated delayed values: check them
+    if (hasDelays && !safe && xnew - tMin > xold) {
+      for (let d = 0; d < delayNodes.length; d++) {
+        const nd = delayNodes[d];
+        const reach = xnew - nd.delay;
+        if (!(reach > xold)) continue;
+        for (const frac of [0.5, 1]) {
+          const tau = xold + frac * (reach - xold);
+          for (let i = 0; i < n; i++) xs[i] = y[i];
+          fillDense(dense, tau);
+          eng.evalNet(tau, xs);
+          const v = sig[nd.in0];
+          const guess = nd.hist!.extrapolate(tau);
+          // tolerance relative to the signal's range so far (as the integrator's own error control)
+          if (Math.abs(v - guess) > atol + rtol * Math.max(Math.abs(v), nd.hist!.maxAbs)) {
+            for (let i = 0; i < n; i++) restart[i] = dense(i, xold);
+            eventT = xold;
+            eventGuard = -1;
+            safeUntil = xold + 50 * tMin;
+            reached = xold;
+            return false;
+          }
+        }
+      }
+    }
     // sample the step at the Lobatto nodes: guards (mode switches) and dead-time histories
     let fired = false;
     let jFired = 0;
@@ -517,7 +553,10 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
   // --- the segment loop
   while (!stopped) {
     const k = nextBreak(t);
-    const tEnd = k >= 0 ? bpT[k] : until;
+    let tEnd = k >= 0 ? bpT[k] : until;
+    safe = t < safeUntil - 1e-12 * Math.max(1, t);
+    const atBreak = !(safe && safeUntil < tEnd);
+    if (!atBreak) tEnd = safeUntil;
     segStart = t;
     segEnd = tEnd;
     eng.piece = 0.5 * (t + tEnd);
@@ -535,7 +574,7 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     if (budgetChecks(t)) break;
 
     eventT = NaN;
-    hCap = Math.min(hMaxBase, tEnd - t);
+    hCap = Math.min(hMaxBase, tEnd - t, safe ? tMin : Infinity);
     solver.maxStepSize = hCap;
     solver.maxSteps = Math.max(1, maxSteps - steps);
     const res = solver.solve(f, t, Array.from(x), tEnd, solOut);
@@ -543,7 +582,7 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     rejected += res.nReject;
     if (stopped) break;
     if (!Number.isNaN(eventT)) {
-      zeroProgress = eventT - t <= 1e-12 * Math.max(1, t) ? zeroProgress + 1 : 0;
+      if (eventGuard >= 0) zeroProgress = eventT - t <= 1e-12 * Math.max(1, t) ? zeroProgress + 1 : 0;
       // A signal grazing its limit (slope equal to a rate limit, a peak touching a saturation)
       // can make modes flip back and forth on round-off at one instant. After a few such
       // switches the modes are held for a dwell of 1e-6 of the run, long enough for the guard
@@ -553,8 +592,10 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
       t = eventT;
       eng.evalNet(t, x);
       syncRates(x);
-      fire(eventGuard, t, x);
-      propagate(t, 0);
+      if (eventGuard >= 0) {
+        fire(eventGuard, t, x);
+        propagate(t, 0);
+      }
       if (zeroProgress > 40 || events.length > 200000) {
         stop('budget', `mode switches repeat at t = ${fmt(t)} s without progress (chattering): the run cannot continue`);
         break;
@@ -576,7 +617,7 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
       if (t > lastRec) recordAt(t);
       break;
     }
-    propagate(t, k >= 0 ? bpL[k] : 0);
+    if (atBreak) propagate(t, k >= 0 ? bpL[k] : 0);
   }
 
   if (!stopped) message = `completed at t = ${fmt(until)} s`;
