@@ -12,7 +12,7 @@ import { InputError, poly, type TransferFunction } from '@loopwright/lti';
  * `fromDiagram.ts` builds it from a document through each block's linear form.
  */
 export type LinearBlock =
-  | { id: string; kind: 'transfer'; tf: TransferFunction; feedthrough?: boolean }
+  | { id: string; kind: 'transfer'; tf: TransferFunction }
   | { id: string; kind: 'sum'; signs: number[] }
   | { id: string; kind: 'source' }
   | { id: string; kind: 'probe' };

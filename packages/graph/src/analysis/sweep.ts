@@ -95,7 +95,7 @@ export function sweepLocus(d: Diagram, parameter: string, overrides: ParameterOv
     return { mode: 'exact', parameter, value, locus, n0: split.n0, d0: split.d0, delayHandling: split.handling };
   }
   const reason = split
-    ? poly.isZero(split.n0 ?? [])
+    ? poly.isZero(split.n0)
       ? `the closed-loop poles do not depend on ${parameter} (it enters outside every loop)`
       : `the characteristic polynomial is affine in ${parameter} but vanishes at ${parameter} = 0`
     : `${parameter} does not enter the characteristic polynomial affinely (it enters more than once or in a denominator)`;

@@ -1,5 +1,4 @@
 import { type Complex, InputError, cabs, poly, polyRoots } from '@loopwright/lti';
-import type { Diagram } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
 import type { Finding } from './finding.ts';
 import { type CompiledGraph, feedthroughOf } from '../analysis/linear-graph.ts';
@@ -139,10 +138,10 @@ export function stabilityFindings(c: CompiledGraph): AnalyticFinding[] {
  * closed-loop stability. A diagram whose linear model cannot be built (unknown block, bad
  * field) gives one error finding here; the structural checks name the details.
  */
-export function checkAnalytic(d: Diagram | Linearisable, overrides?: ParameterOverrides): AnalyticFinding[] {
+export function checkAnalytic(d: Linearisable, overrides?: ParameterOverrides): AnalyticFinding[] {
   let c: CompiledGraph;
   try {
-    c = compiledOf(d as Linearisable, overrides);
+    c = compiledOf(d, overrides);
   } catch (err) {
     if (err instanceof InputError) return [{ severity: 'error', code: 'linear-model', message: `no linear model: ${err.message}`, ...(err.details.field ? { field: err.details.field } : {}) }];
     throw err;
