@@ -188,6 +188,13 @@ describe('dead time', () => {
     // L at the cut keeps both dead times exact: the loop is opened there.
     const L = loopAtCut(g, 'fb');
     expect(L.delay).toBe(1);
+    // Closed-loop poles: the lag, plus the Padé (3,3) poles of the dead time inside the loop; the
+    // dead time outside every loop adds none. Roots of (s + 1)·D3(s) + 2·N3(s) with the Padé
+    // coefficients 1, 1/2, 1/10, 1/120 (Golub & Van Loan, Sec. 9.3.1 (from memory)) [R31/R32 family].
+    const d3 = [1, 0.5, 0.1, 1 / 120];
+    const n3 = d3.map((c, k) => (k % 2 ? -c : c));
+    const want = polyRoots(poly.add(poly.mul([1, 1], d3), poly.scale(n3, 2)));
+    expect(rootError(closedLoopPoles(g), want)).toBeLessThanOrEqual(1e-9);
   });
 });
 
