@@ -512,6 +512,10 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
         return false;
       }
     }
+    if (accepted >= maxSteps) {
+      stop('budget', `the step budget of ${maxSteps} steps ran out at t = ${fmt(xnew)} s`);
+      return false;
+    }
     if ((accepted & 7) === 0 && budgetChecks(xnew)) return false;
     if (accepted >= 256 && slot === 0) {
       const hAvg = hSum / 64;
