@@ -165,7 +165,7 @@ describe('analysis views', () => {
     expect(moved.length).toBeGreaterThan(0);
     // …and every pole lies on a branch of the locus drawn (within 1 % of its modulus): the
     // nearest point of the traced polylines, segment by segment.
-    const branches = [...s1.locus!.branches, ...((s1.locus as unknown as { rangeBranches: typeof NonNullable<typeof s1.locus>["branches"] }).rangeBranches ?? [])];
+    const branches = [...s1.locus!.branches, ...((s1.locus as unknown as { rangeBranches: Branch[] | null }).rangeBranches ?? [])];
     const toBranches = (p: Cx) => {
       let best = Infinity;
       for (const b of branches) {
@@ -352,11 +352,15 @@ describe('analysis views', () => {
     await settled(page);
     await page.waitForTimeout(150);
     await screenshot(page, 'analysis-heating-response');
-    const dark = { ...demo('heating-cascade'), view: { ...demo('heating-cascade').view, theme: 'dark' as const } };
-    await loadDiagram(page, dark);
+    await page.getByRole('button', { name: 'Switch to dark theme' }).click();
     await page.getByRole('tab', { name: 'Frequency' }).click();
     await settled(page);
     await page.waitForTimeout(150);
     await screenshot(page, 'analysis-heating-frequency-dark');
+    await page.getByRole('tab', { name: 'Loops' }).click();
+    await settled(page);
+    await page.waitForTimeout(100);
+    await screenshot(page, 'analysis-heating-loops-dark');
+    await page.getByRole('button', { name: 'Switch to light theme' }).click();
   });
 });

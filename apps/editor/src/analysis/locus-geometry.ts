@@ -115,7 +115,7 @@ export function planeWindow(box: PlotBox, key: readonly Cx[], branches: readonly
   xMin = Math.min(xMin, 0);
   xMax = Math.max(xMax, 0);
   let span = Math.max(xMax - xMin, 2 * yMax);
-  if (!(span > 0)) span = 2;
+  if (!(span > 1e-200)) span = 2;
   const pad = span * 0.12;
   xMin -= pad;
   xMax += pad;

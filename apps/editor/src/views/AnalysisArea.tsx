@@ -3,7 +3,7 @@
  * slider moves), and the Response, Frequency, Loops and Compare views in tabs on the right.
  * Starts the analysis driver (document → worker → results) and the test hook.
  */
-import { useEffect, useLayoutEffect, useMemo } from 'react';
+import { useEffect, useLayoutEffect, useMemo, useState } from 'react';
 import './analysis.css';
 import { currentInputs, startAnalysisDriver } from '../analysis/driver.ts';
 import { installAnalysisHook } from '../analysis/test-hook.ts';
@@ -27,10 +27,17 @@ const TABS: { id: Exclude<AnalysisViewId, 'locus'>; label: string }[] = [
   { id: 'compare', label: 'Compare' },
 ];
 
+/** Dark when the page shows the dark theme (the <html data-theme> the theme switch sets). */
 function useDark(): boolean {
   const theme = useDiagramStore((s) => s.diagram.view.theme);
-  if (theme) return theme === 'dark';
-  return typeof document !== 'undefined' && document.documentElement.dataset.theme === 'dark';
+  const read = () => (typeof document !== 'undefined' ? document.documentElement.dataset.theme : undefined);
+  const [attr, setAttr] = useState(read);
+  useEffect(() => {
+    const mo = new MutationObserver(() => setAttr(read()));
+    mo.observe(document.documentElement, { attributes: true, attributeFilter: ['data-theme'] });
+    return () => mo.disconnect();
+  }, []);
+  return (attr ?? theme) === 'dark';
 }
 
 export function exportReport(): void {

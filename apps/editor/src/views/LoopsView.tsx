@@ -37,10 +37,9 @@ export function LoopsTable({ loops, pinned, names }: { loops: LoopsData; pinned:
             const p = pinned?.rows.find((x) => x.cutId === r.cutId);
             return (
               <tr key={r.cutId} data-cut={r.cutId} data-wire={r.wire}>
-                <td>
+                <td className="lw-nowrap" title={`wire ${r.wire}; loop through ${r.blocks.join(', ')}`}>
                   {r.label}
                   {r.auto && <span className="lw-muted"> (proposed)</span>}
-                  <div className="lw-muted lw-small">wire {r.wire}</div>
                 </td>
                 {LOOP_COLUMNS.map((c) => {
                   const v = r.margins[c.field] as number | null;
