@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { type Complex, cabs, csub, poly, polyRoots } from '@loopwright/lti';
 import { closedLoop, closedLoopPoles } from './reduce.ts';
 import { closedLoopPolesStateSpace } from './state-space.ts';
-import { sweepLocus } from './sweep.ts';
+import { matchRoots, sweepLocus } from './sweep.ts';
+import fc from 'fast-check';
 import { analyseLoops } from './loops.ts';
 import { diagramOf, threeLoopAxis } from './test-diagrams.ts';
 
@@ -114,5 +115,21 @@ describe('diagram reduction with catalogue blocks', () => {
     expect(Math.abs(t.hiddenModes[0].re + 500)).toBeLessThan(1e-6);
     expect(a.some((p) => Math.abs(p.re + 500) < 1e-6)).toBe(true);
     expect(t.poles.length).toBe(a.length - 1);
+  });
+});
+
+describe('root matching between samples', () => {
+  it('recovers a shuffled, slightly moved root set (fast-check)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 8 }), fc.integer({ min: 0, max: 1000 }), (n, seed) => {
+        // Roots on a spread grid (spacing 1), moved by at most 0.1 and shuffled by a known permutation.
+        const prev = Array.from({ length: n }, (_, i) => ({ re: -1 - i, im: (i % 3) - 1 }));
+        const perm = prev.map((_, i) => i).sort((a, b) => ((a * 7919 + seed) % 13) - ((b * 7919 + seed) % 13));
+        const next = perm.map((i) => ({ re: prev[i].re + 0.05 * Math.sin(seed + i), im: prev[i].im + 0.05 * Math.cos(seed + i) }));
+        const m = matchRoots(prev, next);
+        prev.forEach((_, i) => expect(perm[m[i]]).toBe(i));
+      }),
+      { numRuns: 100 },
+    );
   });
 });
