@@ -183,6 +183,7 @@ describe('editor', () => {
     expect(await alert.locator('[data-position]').getAttribute('data-position')).toBe(String(expectedPos));
     expect(await alert.locator('.echo-bad').textContent()).toBe('#');
     expect(await field.getAttribute('aria-invalid')).toBe('true');
+    await screenshot(page, 'editor-expression-error');
     await field.press('Enter');
     await page.getByLabel('Diagram title').click(); // leave the field (blur commits only valid text)
     expect(await getDiagram(page)).toEqual(before);
@@ -265,6 +266,63 @@ describe('editor', () => {
     const sel = await page.evaluate(() => (window as unknown as { __loopwright: { getSelection(): { blocks: string[] } } }).__loopwright.getSelection());
     expect(sel.blocks).toContain('sum1');
     expect(await page.locator('[data-block="sum1"]').getAttribute('class')).toMatch(/fault-/);
+    await page.getByRole('button', { name: 'Undo' }).click();
+    expect(await getDiagram(page)).toEqual(built);
+  });
+
+  it('parts by drag and drop, copy/paste, a cut drawn on its wire, tidy layout — each one undo step', async () => {
+    expect(await getDiagram(page)).toEqual(built);
+    const pane = page.locator('.react-flow__pane');
+    const box = (await pane.boundingBox())!;
+    await page.getByRole('button', { name: 'Add Gain', exact: true }).dragTo(pane, { targetPosition: { x: 60, y: box.height - 60 } });
+    await expect.poll(async () => (await getDiagram(page)).blocks.map((b) => b.id)).toContain('gain1');
+    await page.keyboard.press('Delete');
+    expect(await getDiagram(page)).toEqual(built);
+
+    await selectBlock(page, 'pid1');
+    await page.keyboard.press('Control+c');
+    await page.keyboard.press('Control+v');
+    const pasted = await getDiagram(page);
+    expect(pasted.blocks.map((b) => b.id)).toEqual([...built.blocks.map((b) => b.id), 'pid2']);
+    expect(pasted.blocks.at(-1)!.params).toEqual(built.blocks.find((b) => b.id === 'pid1')!.params);
+    await page.keyboard.press('Control+z');
+    expect(await getDiagram(page)).toEqual(built);
+
+    // Select the feedback wire on the canvas and cut it from Details.
+    await page.getByRole('button', { name: 'Show whole diagram' }).click();
+    await page.waitForTimeout(300);
+    const onWire = await page.locator('[data-testid="rf__edge-w6"] .react-flow__edge-interaction').evaluate((el) => {
+      const path = el as SVGPathElement;
+      const p = path.getPointAtLength(path.getTotalLength() * 0.5);
+      const m = path.getScreenCTM()!;
+      return { x: p.x * m.a + p.y * m.c + m.e, y: p.x * m.b + p.y * m.d + m.f };
+    });
+    await page.mouse.click(onWire.x, onWire.y);
+    await expect.poll(async () => (await page.evaluate(() => (window as unknown as { __loopwright: { getSelection(): { wires: string[] } } }).__loopwright.getSelection())).wires).toEqual(['w6']);
+    await page.getByRole('button', { name: 'Cut wire w6' }).click();
+    expect((await getDiagram(page)).cuts).toEqual([{ id: 'cut1', wire: 'w6' }]);
+    await expect.poll(() => page.getByTestId('cut-cut1').count()).toBe(1);
+    await screenshot(page, 'editor-cut');
+    await page.keyboard.press('Control+z');
+    expect(await getDiagram(page)).toEqual(built);
+
+    const before = (await history(page)).past;
+    await page.getByRole('button', { name: 'Tidy layout' }).click();
+    await expect.poll(async () => JSON.stringify((await getDiagram(page)).blocks.map((b) => b.position))).not.toBe(JSON.stringify(built.blocks.map((b) => b.position)));
+    expect((await history(page)).past).toBe(before + 1);
+    await page.waitForTimeout(200);
+    // Left to right along the forward path, and no two cards overlap on screen.
+    const tidy = await getDiagram(page);
+    const x = (id: string) => tidy.blocks.find((b) => b.id === id)!.position.x;
+    expect(x('src1') < x('sum1') && x('sum1') < x('pid1') && x('pid1') < x('sat1') && x('sat1') < x('tf1') && x('tf1') < x('probe1')).toBe(true);
+    const rects = await page.locator('.react-flow__node').evaluateAll((els) => els.map((e) => e.getBoundingClientRect().toJSON() as DOMRect));
+    for (let i = 0; i < rects.length; i++)
+      for (let j = i + 1; j < rects.length; j++) {
+        const a = rects[i], b = rects[j];
+        const overlap = a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
+        expect(overlap, `nodes ${i} and ${j} overlap`).toBe(false);
+      }
+    await screenshot(page, 'editor-tidy');
     await page.getByRole('button', { name: 'Undo' }).click();
     expect(await getDiagram(page)).toEqual(built);
   });

@@ -120,7 +120,8 @@ export function App() {
         </aside>
         <section className="analysis" aria-label="Analysis">
           <Splitter />
-          <AnalysisArea />
+          {/* Keyed on the theme: the charts are rebuilt in the new colours. */}
+          <AnalysisArea key={theme} />
         </section>
         <footer className="footer">
           <span>Results are design aids — validate on the real plant with limits and interlocks in place.</span>

@@ -5,8 +5,10 @@ import './theme/theme.css';
 import { App } from './App.tsx';
 import { bootDocument } from './files/autosave.ts';
 import { installTestHook } from './store/test-hook.ts';
+import { useUiStore } from './store/ui-store.ts';
 
 bootDocument();
+document.documentElement.dataset.theme = useUiStore.getState().theme;
 installTestHook();
 createRoot(document.getElementById('root')!).render(
   <StrictMode>

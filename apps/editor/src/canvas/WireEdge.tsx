@@ -3,7 +3,7 @@
  * to several inputs, and a cut drawn across it (an opened wire: a gap with two bars and its label).
  */
 import { memo } from 'react';
-import { BaseEdge, EdgeLabelRenderer, getSmoothStepPath, type Edge, type EdgeProps } from '@xyflow/react';
+import { BaseEdge, EdgeLabelRenderer, Position, getSmoothStepPath, useInternalNode, type Edge, type EdgeProps, type InternalNode } from '@xyflow/react';
 
 export interface WireData extends Record<string, unknown> {
   fanOut: boolean;
@@ -13,9 +13,44 @@ export interface WireData extends Record<string, unknown> {
 }
 export type WireFlowEdge = Edge<WireData, 'wire'>;
 
+const STUB = 18;
+const CLEAR = 26;
+
+function box(n: InternalNode | undefined) {
+  if (!n) return null;
+  const { x, y } = n.internals.positionAbsolute;
+  return { top: y, bottom: y + (n.measured.height ?? 0) };
+}
+
+/**
+ * A feedback wire (its input lies left of its output) is routed around the blocks: out to the
+ * right, down below (or up above) both blocks, back left, and into the input — the textbook
+ * return path, instead of cutting through the cards between.
+ */
+export function feedbackPath(
+  sx: number, sy: number, tx: number, ty: number, targetPosition: Position,
+  s: { top: number; bottom: number } | null, t: { top: number; bottom: number } | null,
+): [string, number, number] | null {
+  if (tx > sx + 2 * STUB) return null;
+  const above = targetPosition === Position.Top;
+  const lane = above
+    ? Math.min(s?.top ?? sy, t?.top ?? ty) - CLEAR
+    : Math.max(s?.bottom ?? sy, t?.bottom ?? ty) + CLEAR;
+  const x1 = sx + STUB;
+  if (targetPosition === Position.Bottom || targetPosition === Position.Top) {
+    return [`M${sx},${sy} H${x1} V${lane} H${tx} V${ty}`, (x1 + tx) / 2, lane];
+  }
+  const x2 = tx - STUB;
+  return [`M${sx},${sy} H${x1} V${lane} H${x2} V${ty} H${tx}`, (x1 + x2) / 2, lane];
+}
+
 export const WireEdge = memo(function WireEdge(props: EdgeProps<WireFlowEdge>) {
-  const { id, sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, data, selected, markerEnd } = props;
-  const [path, labelX, labelY] = getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, borderRadius: 6, offset: 18 });
+  const { id, source, target, sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, data, selected, markerEnd } = props;
+  const sNode = useInternalNode(source);
+  const tNode = useInternalNode(target);
+  const [path, labelX, labelY] =
+    feedbackPath(sourceX, sourceY, targetX, targetY, targetPosition, box(sNode), box(tNode)) ??
+    getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, borderRadius: 6, offset: STUB });
   const cls = ['lw-wire', selected ? 'is-selected' : '', data?.fault ? `fault-${data.fault}` : '', data?.cut ? 'is-cut' : ''].filter(Boolean).join(' ');
   return (
     <>

@@ -10,6 +10,37 @@ import { blockSpec } from '../store/graph-bridge.ts';
 const elk = new ELK();
 const GRID = 10;
 
+/**
+ * The wires that close loops, found by a depth-first walk from the sources along the signal
+ * direction: a wire into a block still on the walk's stack is a feedback wire. They are left
+ * out of the layering so that the forward path runs left to right (the canvas routes them
+ * back underneath).
+ */
+export function feedbackWires(d: Diagram): Set<string> {
+  const out = new Map<string, Diagram['wires']>();
+  for (const w of d.wires) {
+    const list = out.get(w.from.block) ?? [];
+    list.push(w);
+    out.set(w.from.block, list);
+  }
+  // Main inputs (in, in1) before side inputs, so a junction's reference path wins.
+  for (const list of out.values()) list.sort((a, b) => a.to.port.localeCompare(b.to.port, 'en', { numeric: true }));
+  const state = new Map<string, 'open' | 'done'>();
+  const back = new Set<string>();
+  const visit = (id: string) => {
+    state.set(id, 'open');
+    for (const w of out.get(id) ?? []) {
+      const s = state.get(w.to.block);
+      if (s === 'open') back.add(w.id);
+      else if (!s) visit(w.to.block);
+    }
+    state.set(id, 'done');
+  };
+  const order = [...d.blocks.filter((b) => b.kind === 'source'), ...d.blocks.filter((b) => b.kind !== 'source')];
+  for (const b of order) if (!state.has(b.id)) visit(b.id);
+  return back;
+}
+
 export async function tidyPositions(
   d: Diagram,
   sizes: Record<string, { width: number; height: number }>,
@@ -26,7 +57,8 @@ export async function tidyPositions(
     ];
     return { id: b.id, width: size.width, height: size.height, ports, layoutOptions: { 'elk.portConstraints': 'FIXED_SIDE' } };
   });
-  const edges = d.wires.map((w) => ({ id: w.id, sources: [`${w.from.block}:${w.from.port}`], targets: [`${w.to.block}:${w.to.port}`] }));
+  const back = feedbackWires(d);
+  const edges = d.wires.filter((w) => !back.has(w.id)).map((w) => ({ id: w.id, sources: [`${w.from.block}:${w.from.port}`], targets: [`${w.to.block}:${w.to.port}`] }));
   const result = await elk.layout({
     id: 'root',
     layoutOptions: {

@@ -97,3 +97,13 @@ describe('diagram store', () => {
     expect(st().diagram.parameters[0].value).toBe(1);
   });
 });
+
+describe('selection after undo', () => {
+  it('drops elements that no longer exist', () => {
+    loadDocument(emptyDiagram());
+    const a = useDiagramStore.getState().addBlock('gain', { x: 0, y: 0 });
+    expect(useDiagramStore.getState().selection.blocks).toEqual([a]);
+    undo();
+    expect(useDiagramStore.getState().selection.blocks).toEqual([]);
+  });
+});

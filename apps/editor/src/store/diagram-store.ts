@@ -338,3 +338,13 @@ export function endGesture(): void {
     t.setState({ pastStates: past, futureStates: [] });
   }
 }
+
+// Undo, redo and file loads can remove selected elements: keep the selection to what exists.
+useDiagramStore.subscribe((s, prev) => {
+  if (s.diagram === prev.diagram) return;
+  const blocks = new Set(s.diagram.blocks.map((b) => b.id));
+  const wires = new Set(s.diagram.wires.map((w) => w.id));
+  const sel = s.selection;
+  if (sel.blocks.every((id) => blocks.has(id)) && sel.wires.every((id) => wires.has(id))) return;
+  useDiagramStore.setState({ selection: { blocks: sel.blocks.filter((id) => blocks.has(id)), wires: sel.wires.filter((id) => wires.has(id)) } });
+});

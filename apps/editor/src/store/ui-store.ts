@@ -47,6 +47,8 @@ export const useUiStore = create<UiState>()((set, get) => ({
     } catch {
       // storage unavailable: the theme still changes for this session
     }
+    // Set before React renders, so views that read data-theme while rendering see the new one.
+    if (typeof document !== 'undefined') document.documentElement.dataset.theme = theme;
     set({ theme });
   },
   fitRequest: 0,
