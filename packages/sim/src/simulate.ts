@@ -416,15 +416,20 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     }
     // a step longer than a dead time used extrapolated delayed values: check them
     if (hasDelays && !safe && xnew - tMin > xold) {
+      let evaluatedAt = NaN;
       for (let d = 0; d < delayNodes.length; d++) {
         const nd = delayNodes[d];
         const reach = xnew - nd.delay;
         if (!(reach > xold)) continue;
-        for (const frac of [0.5, 1]) {
-          const tau = xold + frac * (reach - xold);
-          for (let i = 0; i < n; i++) xs[i] = y[i];
-          fillDense(dense, tau);
-          eng.evalNet(tau, xs);
+        for (let q = 1; q <= 2; q++) {
+          const tau = xold + 0.5 * q * (reach - xold);
+          if (tau !== evaluatedAt) {
+            // dead times of equal length share the evaluation
+            for (let i = 0; i < n; i++) xs[i] = y[i];
+            fillDense(dense, tau);
+            eng.evalNet(tau, xs);
+            evaluatedAt = tau;
+          }
           const v = sig[nd.in0];
           const guess = nd.hist!.extrapolate(tau);
           // tolerance relative to the signal's range so far (as the integrator's own error control)
