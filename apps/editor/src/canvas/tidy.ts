@@ -3,11 +3,12 @@
  * west side, outputs east, a summing junction's second input from below, so that feedback
  * wires come back underneath as in a textbook diagram.
  */
-import ELK from 'elkjs/lib/elk.bundled.js';
 import type { Diagram } from '../store/graph-bridge.ts';
 import { blockSpec } from '../store/graph-bridge.ts';
 
-const elk = new ELK();
+// elkjs is about 480 kB gzipped: loaded on the first Tidy, not with the editor.
+let elkReady: Promise<{ layout(graph: unknown): Promise<any> }> | null = null; // eslint-disable-line @typescript-eslint/no-explicit-any
+const loadElk = () => (elkReady ??= import('elkjs/lib/elk.bundled.js').then((m) => new m.default()));
 const GRID = 10;
 
 /**
@@ -59,6 +60,7 @@ export async function tidyPositions(
   });
   const back = feedbackWires(d);
   const edges = d.wires.filter((w) => !back.has(w.id)).map((w) => ({ id: w.id, sources: [`${w.from.block}:${w.from.port}`], targets: [`${w.to.block}:${w.to.port}`] }));
+  const elk = await loadElk();
   const result = await elk.layout({
     id: 'root',
     layoutOptions: {
