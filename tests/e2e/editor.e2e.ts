@@ -306,6 +306,14 @@ describe('editor', () => {
     await page.keyboard.press('Control+z');
     expect(await getDiagram(page)).toEqual(built);
 
+    // Sweeping Kp highlights it where it enters (the PID's gain), and nowhere else.
+    await page.getByRole('button', { name: 'Sweep Kp' }).click();
+    await expect.poll(() => page.locator('[data-block="pid1"] .fx-swept').count()).toBe(1);
+    expect(await page.locator('.fx-swept').count()).toBe(1);
+    expect(await page.getByRole('button', { name: 'Sweep Kp' }).getAttribute('aria-pressed')).toBe('true');
+    await page.keyboard.press('Control+z');
+    expect(await getDiagram(page)).toEqual(built);
+
     const before = (await history(page)).past;
     await page.getByRole('button', { name: 'Tidy layout' }).click();
     await expect.poll(async () => JSON.stringify((await getDiagram(page)).blocks.map((b) => b.position))).not.toBe(JSON.stringify(built.blocks.map((b) => b.position)));

@@ -25,14 +25,16 @@ import { identifiersIn } from '../store/rename.ts';
 import { nodeTypes, type BlockFlowNode } from './nodes.tsx';
 import { edgeTypes, type WireFlowEdge } from './WireEdge.tsx';
 import { fitReadable } from './fit.ts';
+// The sweep the analysis views vary (E2's sweep bar), so the canvas highlights the same one.
+import { useSweepChoice } from '../views/SweepBar.tsx';
 
 export const GRID = 10;
 export const PART_MIME = 'application/x-loopwright-part';
 
-/** The parameter the active sweep varies, if any. */
-export function sweptParameter(d: Diagram): string | undefined {
-  const s = d.sweeps.find((x) => x.id === d.view.activeSweep) ?? d.sweeps[0];
-  return s?.parameter;
+/** What the sweep varies: a named parameter, or a gain block's k (chosen in the analysis sweep bar). */
+export interface SweptTarget {
+  parameter?: string;
+  block?: string;
 }
 
 function safeInputs(kind: BlockKind, params: Record<string, unknown>): string[] {
@@ -43,14 +45,15 @@ function safeInputs(kind: BlockKind, params: Record<string, unknown>): string[] 
   }
 }
 
-function buildNodes(d: Diagram, selected: Set<string>, faults: Map<string, Finding>, prev: BlockFlowNode[]): BlockFlowNode[] {
+function buildNodes(d: Diagram, selected: Set<string>, faults: Map<string, Finding>, prev: BlockFlowNode[], target: SweptTarget): BlockFlowNode[] {
   const old = new Map(prev.map((n) => [n.id, n]));
-  const swept = sweptParameter(d);
+  const swept = target.parameter;
   return d.blocks.map((b) => {
     const spec = blockSpec(b.kind);
     const f = faults.get(b.id);
     const p = old.get(b.id);
-    const sweptHere = swept !== undefined && Object.values(b.params).some((v) => typeof v === 'string' && identifiersIn(v).includes(swept));
+    const sweptHere =
+      target.block === b.id || (swept !== undefined && Object.values(b.params).some((v) => typeof v === 'string' && identifiersIn(v).includes(swept)));
     return {
       ...(p ?? {}),
       id: b.id,
@@ -66,6 +69,7 @@ function buildNodes(d: Diagram, selected: Set<string>, faults: Map<string, Findi
         faultText: f?.message,
         swept,
         sweptHere,
+        sweptWhole: target.block === b.id,
       },
     } as BlockFlowNode;
   });
@@ -112,10 +116,14 @@ export function Canvas() {
   const selBlocks = useMemo(() => new Set(selection.blocks), [selection.blocks]);
   const selWires = useMemo(() => new Set(selection.wires), [selection.wires]);
 
-  const [nodes, setNodes] = useState<BlockFlowNode[]>(() => buildNodes(diagram, selBlocks, faults.blocks, []));
+  const { choice } = useSweepChoice();
+  const sweptParam = choice?.target.kind === 'parameter' ? choice.target.name : undefined;
+  const sweptBlock = choice?.target.kind === 'block' ? choice.target.block : undefined;
+  const target = useMemo(() => ({ parameter: sweptParam, block: sweptBlock }), [sweptParam, sweptBlock]);
+  const [nodes, setNodes] = useState<BlockFlowNode[]>(() => buildNodes(diagram, selBlocks, faults.blocks, [], target));
   useEffect(() => {
-    setNodes((prev) => buildNodes(diagram, selBlocks, faults.blocks, prev));
-  }, [diagram, selBlocks, faults]);
+    setNodes((prev) => buildNodes(diagram, selBlocks, faults.blocks, prev, target));
+  }, [diagram, selBlocks, faults, target]);
   const edges = useMemo(() => buildEdges(diagram, selWires, faults.wires), [diagram, selWires, faults]);
 
   // Fit the view when asked (load, new, open, demo) and once the first measurements exist.

@@ -19,6 +19,8 @@ export interface BlockNodeData extends Record<string, unknown> {
   swept?: string;
   /** The swept parameter enters this block. */
   sweptHere: boolean;
+  /** The block's own gain is what is swept. */
+  sweptWhole?: boolean;
 }
 export type BlockFlowNode = Node<BlockNodeData, 'block' | 'sum'>;
 
@@ -51,7 +53,13 @@ export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<B
       </div>
       {content.formula !== undefined && (
         <div className="lw-card-formula">
-          <Formula text={content.formula} swept={swept} />
+          {data.sweptWhole ? (
+            <span className="fx-swept" title="swept">
+              <Formula text={content.formula} />
+            </span>
+          ) : (
+            <Formula text={content.formula} swept={swept} />
+          )}
         </div>
       )}
       {content.caption && <div className="lw-card-caption">{content.caption}</div>}

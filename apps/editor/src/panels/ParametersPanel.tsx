@@ -7,6 +7,9 @@ import { useEffect, useState } from 'react';
 import { beginGesture, endGesture, useDiagramStore } from '../store/diagram-store.ts';
 import type { Diagram, NamedParameter } from '../store/graph-bridge.ts';
 import { compact } from '../canvas/block-formula.ts';
+// The analysis sweep bar's choice (E2) is what is really swept; "Sweep" here sets both.
+import { useSweepChoice } from '../views/SweepBar.tsx';
+import { useAnalysisStore } from '../analysis/analysis-store.ts';
 
 /** Same rule as the document schema: an identifier, not s / exp / an expression keyword. */
 const NAME_RE = /^(?!(?:s|exp|__proto__|constructor|prototype|mod|to|in|and|or|not|xor|true|false|null|undefined|NaN|Infinity|e|pi|i)$)[A-Za-z_][A-Za-z0-9_]{0,63}$/;
@@ -55,7 +58,7 @@ function sliderValue(p: NamedParameter, lo: number, hi: number, pos: number): nu
   return Number(v.toPrecision(4));
 }
 
-function ParameterRow({ diagram, p }: { diagram: Diagram; p: NamedParameter }) {
+function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedParameter; sweptName: string | undefined }) {
   const st = useDiagramStore.getState();
   const [name, setName] = useState(p.name);
   useEffect(() => setName(p.name), [p.name]);
@@ -63,7 +66,7 @@ function ParameterRow({ diagram, p }: { diagram: Diagram; p: NamedParameter }) {
   const lo = p.min ?? Math.min(0, p.value);
   const hi = p.max ?? Math.max(1, 2 * Math.abs(p.value));
   const sweep = diagram.sweeps.find((s) => s.parameter === p.name);
-  const active = sweep && (diagram.view.activeSweep ?? diagram.sweeps[0]?.id) === sweep.id;
+  const active = sweptName === p.name;
   const commitName = () => {
     if (name === p.name) return;
     if (problem) return;
@@ -107,6 +110,7 @@ function ParameterRow({ diagram, p }: { diagram: Diagram; p: NamedParameter }) {
               const id = st.addSweep({ parameter: p.name, min: lo, max: hi, scale: p.scale ?? 'linear' });
               st.setView({ activeSweep: id });
             }
+            useAnalysisStore.getState().setSweepKey(`param:${p.name}`);
           }}
         >
           Sweep
@@ -145,6 +149,8 @@ function ParameterRow({ diagram, p }: { diagram: Diagram; p: NamedParameter }) {
 
 export function ParametersPanel() {
   const diagram = useDiagramStore((s) => s.diagram);
+  const { choice } = useSweepChoice();
+  const sweptName = choice?.target.kind === 'parameter' ? choice.target.name : undefined;
   return (
     <section className="panel params" aria-label="Parameters">
       <h2>
@@ -158,7 +164,7 @@ export function ParametersPanel() {
       ) : (
         <ul className="param-list">
           {diagram.parameters.map((p) => (
-            <ParameterRow key={p.name} diagram={diagram} p={p} />
+            <ParameterRow key={p.name} diagram={diagram} p={p} sweptName={sweptName} />
           ))}
         </ul>
       )}
