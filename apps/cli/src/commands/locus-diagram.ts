@@ -10,7 +10,8 @@ import { checkSets } from './diagram-input.ts';
  *   {poles, zeros, asymptotes: {centroid, anglesDeg}, breakaway: [{s: [re, im], gain}],
  *    crossings: [{omega, gain}], departures: [{at, angleDeg}], branches: [[[re, im, k], …], …]}
  * — plus `mode`, `parameter`, `value` and, for an exact locus, the characteristic polynomial
- * split D0 + k·N0 (`numeratorAscending` = N0, `denominatorAscending` = D0).
+ * split D0 + k·N0 (`numeratorAscending` = N0, `denominatorAscending` = D0) and `fixedPoles`,
+ * closed-loop poles that do not move with the parameter (left out of the geometry).
  * - mode "exact": the parameter enters the characteristic polynomial affinely; poles/zeros are
  *   the roots of D0/N0 and the geometry is exact.
  * - mode "sampled": any other parameter; branches over the sweep range; `poles` are the roots
@@ -34,6 +35,7 @@ export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Re
       negative,
       numeratorAscending: sw.n0,
       denominatorAscending: sw.d0,
+      fixedPoles: sw.fixedPoles.map(pair),
       delayHandling: sw.delayHandling,
       poles: L.poles.map(pair),
       zeros: L.zeros.map(pair),

@@ -78,8 +78,15 @@ describe('positioning-axis demo', () => {
     for (let i = 0; i < 20; i++) {
       const k = 5 * 40 ** (i / 19); // 5 … 200, the demo's sweep range, log spaced
       const fromSweep = polyRoots(poly.add(sw.d0, poly.scale(sw.n0, k)));
-      expect(rootError(fromSweep, closedLoopPoles(d, { Kp_pos: k }))).toBeLessThan(1e-6);
+      const fresh = closedLoopPoles(d, { Kp_pos: k });
+      expect(rootError(fromSweep, fresh)).toBeLessThan(1e-6);
+      // The locus geometry's polynomials plus the fixed poles give the same set.
+      const geometric = polyRoots(poly.add(sw.locus.den, poly.scale(sw.locus.num, k)));
+      expect(rootError([...geometric, ...sw.fixedPoles], fresh)).toBeLessThan(1e-6);
     }
+    // The two encoders carry identical Padé approximants fed from related signals: one copy's
+    // poles do not move with the gain (a mode the loops cannot see).
+    expect(sw.fixedPoles.length).toBe(3);
   });
 
   it('the speed gain also sweeps exactly; the encoder delay only by samples', () => {

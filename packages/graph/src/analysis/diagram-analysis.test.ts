@@ -34,8 +34,11 @@ describe('sweeps over a whole diagram', () => {
       expect(rootError(fromSweep, closedLoopPoles(d, { Kpos: k }))).toBeLessThan(1e-6);
       expect(rootError(fromSweep, closedLoopPolesStateSpace(d, { Kpos: k }))).toBeLessThan(1e-6);
     }
-    // The locus starts at the poles with Kpos = 0, i.e. of the diagram with the position gain removed.
-    expect(rootError(sw.locus.poles, closedLoopPoles(d, { Kpos: 1e-300 }))).toBeLessThan(1e-6);
+    // The locus starts at the poles with Kpos = 0, i.e. of the diagram with the position gain
+    // removed; the current PI's zero on the winding pole (−500) stays put for every gain.
+    expect(sw.fixedPoles.length).toBe(1);
+    expect(Math.abs(sw.fixedPoles[0].re + 500)).toBeLessThan(1e-6);
+    expect(rootError([...sw.locus.poles, ...sw.fixedPoles], closedLoopPoles(d, { Kpos: 1e-300 }))).toBeLessThan(1e-6);
   });
 
   it('a time constant (enters a denominator) gives a sampled locus with continuous branches', () => {

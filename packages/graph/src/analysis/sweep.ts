@@ -1,4 +1,4 @@
-import { type Complex, InputError, type RootLocus, cabs, csub, poly, polyRoots, rootLocus } from '@loopwright/lti';
+import { type Complex, InputError, type RootLocus, cabs, cancelCommon, csub, poly, polyRoots, rational, rootLocus } from '@loopwright/lti';
 import type { Diagram, Sweep } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
 import { type DelayHandling, type ReduceOptions, characteristicPolynomial } from './reduce.ts';
@@ -10,7 +10,19 @@ import { type DelayHandling, type ReduceOptions, characteristicPolynomial } from
  * - sampled: any other parameter, roots at sampled values joined into continuous branches.
  */
 export type SweepLocus =
-  | { mode: 'exact'; parameter: string; value: number; locus: RootLocus; n0: number[]; d0: number[]; delayHandling: DelayHandling }
+  | {
+      mode: 'exact';
+      parameter: string;
+      value: number;
+      /** Locus of 1 + k·N/D with the factors common to N0 and D0 removed (see fixedPoles). */
+      locus: RootLocus;
+      /** The full split: closed-loop poles at k are the roots of d0 + k·n0 (ascending). */
+      n0: number[];
+      d0: number[];
+      /** Closed-loop poles that do not move with the parameter (common roots of N0 and D0, e.g. a mode no loop through it sees). */
+      fixedPoles: Complex[];
+      delayHandling: DelayHandling;
+    }
   | { mode: 'sampled'; parameter: string; value: number; values: number[]; branches: { s: Complex; k: number }[][]; reason: string; delayHandling: DelayHandling };
 
 export interface SweepOptions extends ReduceOptions {
@@ -86,13 +98,16 @@ export function sweepLocus(d: Diagram, parameter: string, overrides: ParameterOv
   const split = affineSplit(d, parameter, overrides, opts);
   const range = sweepRange(d, parameter, value);
   if (split && !poly.isZero(split.n0) && !poly.isZero(split.d0)) {
+    // A root shared by N0 and D0 is a closed-loop pole for every k: it is reported apart and
+    // left out of the geometry (cancelCommon keeps N/D, so k keeps its meaning).
+    const c = cancelCommon(rational(split.n0, split.d0), 1e-7);
     // The whole geometry is traced (branches reach their zeros/asymptotes) unless kMax is given.
-    const locus = rootLocus(split.n0, split.d0, {
+    const locus = rootLocus(c.result.num, c.result.den, {
       negative: opts.negative,
       ...(opts.kMax !== undefined ? { kMax: opts.kMax } : {}),
       ...(opts.samples ? { samples: opts.samples } : {}),
     });
-    return { mode: 'exact', parameter, value, locus, n0: split.n0, d0: split.d0, delayHandling: split.handling };
+    return { mode: 'exact', parameter, value, locus, n0: split.n0, d0: split.d0, fixedPoles: c.cancelled, delayHandling: split.handling };
   }
   const reason = split
     ? poly.isZero(split.n0)
