@@ -110,6 +110,32 @@ describe('LTI diagrams match the matrix-exponential solution (rtol 1e-9)', () =>
     expect(maxError(res2.traces.y, exact2)).toBeLessThan(1e-6 * Math.abs(exact2[exact2.length - 1]));
   });
 
+  it('parallel-form PID kp + ki/s + kd·s/(1 + (kd/kp)·s/n) around a lag pair', () => {
+    const kp = 2;
+    const ki = 1.5;
+    const kd = 0.4;
+    const n = 10;
+    const d = buildDiagram(
+      [
+        ['r', 'source', { shape: 'step', amplitude: 1, start: 0.5 }],
+        ['e', 'summing-junction', { signs: '+-' }],
+        ['c', 'pid', { form: 'parallel', kp, ki, kd, n }],
+        ['p', 'transfer-function', { expression: '1/((s+1)*(0.3*s+1))' }],
+        ['y', 'probe'],
+      ],
+      ['r -> e.in1', 'p -> e.in2', 'e -> c', 'c -> p', 'p -> y'],
+    );
+    const Cs = radd(radd(rconst(kp), rational([ki], [0, 1])), rational([0, kd], [1, kd / kp / n]));
+    const T = unityFeedback(rmul(Cs, rational([1], poly.mul([1, 1], [1, 0.3]))));
+    const res = simulate(compileModel(d), { until: 10.5, rtol: 1e-9, atol: 1e-12, outputStep: 0.05 });
+    expect(res.status).toBe('ok');
+    // the step starts at 0.5 s: shift the exact response by ten grid points
+    const exact = exactStep(T, res.time.slice(0, res.time.length - 10));
+    const sim = res.traces.y.slice(10);
+    expect(res.traces.y.slice(0, 11).every((v) => v === 0)).toBe(true);
+    expect(maxError(sim, exact)).toBeLessThan(1e-6 * Math.abs(exact[exact.length - 1]));
+  });
+
   it('sinusoidal source into a filtered PID loop (derivative filter states included)', () => {
     const kp = 3;
     const ti = 2;

@@ -3,3 +3,4 @@
 export { compileModel, type CompiledModel, type CompiledBlock } from './compile.ts';
 export { simulate } from './simulate.ts';
 export type { SimulateOptions, SimResult, SimStatus, SimEvent, ActuatorFigures, SimStats } from './types.ts';
+export { tracesCsv } from './csv.ts';

@@ -1,4 +1,4 @@
-import { compileModel, simulate, type SimResult } from '@loopwright/sim';
+import { compileModel, simulate, tracesCsv, type SimResult } from '@loopwright/sim';
 import { all, has, numberFlag, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { readDiagram } from './diagram-input.ts';
@@ -23,17 +23,6 @@ Exit code 0 when the run completes, 1 when it stops early (diverged, stiff, budg
 message names the cause and the time reached; the partial traces are still written),
 2 for bad input.
 `;
-
-const csvCell = (s: string) => (/[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
-
-export function tracesCsv(res: SimResult): string {
-  const keys = Object.keys(res.traces);
-  const rows = [['time', ...keys].map(csvCell).join(',')];
-  for (let i = 0; i < res.time.length; i++) {
-    rows.push([res.time[i], ...keys.map((k) => res.traces[k][i])].map((v) => String(v)).join(','));
-  }
-  return rows.join('\n') + '\n';
-}
 
 const fmt = (v: number | null | undefined, unit = '') =>
   v === null || v === undefined || !Number.isFinite(v) ? '—' : `${+v.toPrecision(5)}${unit}`;
