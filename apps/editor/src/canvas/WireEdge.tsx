@@ -3,7 +3,7 @@
  * to several inputs, and a cut drawn across it (an opened wire: a gap with two bars and its label).
  */
 import { memo } from 'react';
-import { BaseEdge, EdgeLabelRenderer, Position, getSmoothStepPath, useInternalNode, type Edge, type EdgeProps, type InternalNode } from '@xyflow/react';
+import { BaseEdge, EdgeLabelRenderer, Position, useInternalNode, type Edge, type EdgeProps, type InternalNode } from '@xyflow/react';
 
 export interface WireData extends Record<string, unknown> {
   fanOut: boolean;
@@ -31,7 +31,7 @@ export function feedbackPath(
   sx: number, sy: number, tx: number, ty: number, targetPosition: Position,
   s: { top: number; bottom: number } | null, t: { top: number; bottom: number } | null,
 ): [string, number, number] | null {
-  if (tx > sx + 2 * STUB) return null;
+  if (tx >= sx + 4) return null;
   const above = targetPosition === Position.Top;
   const lane = above
     ? Math.min(s?.top ?? sy, t?.top ?? ty) - CLEAR
@@ -44,13 +44,21 @@ export function feedbackPath(
   return [`M${sx},${sy} H${x1} V${lane} H${x2} V${ty} H${tx}`, (x1 + x2) / 2, lane];
 }
 
+/** A forward wire: out, across at the midpoint, in; into a bottom/top input it turns once. */
+export function forwardPath(sx: number, sy: number, tx: number, ty: number, targetPosition: Position): [string, number, number] {
+  if (Math.abs(ty - sy) < 0.5) return [`M${sx},${sy} H${tx}`, (sx + tx) / 2, sy];
+  if (targetPosition === Position.Bottom || targetPosition === Position.Top) return [`M${sx},${sy} H${tx} V${ty}`, (sx + tx) / 2, sy];
+  const mid = Math.round((sx + tx) / 2);
+  return [`M${sx},${sy} H${mid} V${ty} H${tx}`, mid, (sy + ty) / 2];
+}
+
 export const WireEdge = memo(function WireEdge(props: EdgeProps<WireFlowEdge>) {
-  const { id, source, target, sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, data, selected, markerEnd } = props;
+  const { id, source, target, sourceX, sourceY, targetX, targetY, targetPosition, data, selected, markerEnd } = props;
   const sNode = useInternalNode(source);
   const tNode = useInternalNode(target);
   const [path, labelX, labelY] =
     feedbackPath(sourceX, sourceY, targetX, targetY, targetPosition, box(sNode), box(tNode)) ??
-    getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, borderRadius: 6, offset: STUB });
+    forwardPath(sourceX, sourceY, targetX, targetY, targetPosition);
   const cls = ['lw-wire', selected ? 'is-selected' : '', data?.fault ? `fault-${data.fault}` : '', data?.cut ? 'is-cut' : ''].filter(Boolean).join(' ');
   return (
     <>
