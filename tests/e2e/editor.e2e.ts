@@ -333,6 +333,28 @@ describe('editor', () => {
     await screenshot(page, 'editor-tidy');
     await page.getByRole('button', { name: 'Undo' }).click();
     expect(await getDiagram(page)).toEqual(built);
+
+    // Moving a block: by mouse drag (snapped to the grid), then by arrow key; one step each.
+    const probeAt = () => getDiagram(page).then((d) => d.blocks.find((b) => b.id === 'probe1')!.position);
+    await page.getByRole('button', { name: 'Show whole diagram' }).click();
+    await page.waitForTimeout(300);
+    const p0 = await probeAt();
+    const card = (await page.locator('[data-block="probe1"]').boundingBox())!;
+    const h1 = (await history(page)).past;
+    await page.mouse.move(card.x + 20, card.y + 6);
+    await page.mouse.down();
+    await page.mouse.move(card.x + 60, card.y + 66, { steps: 6 });
+    await page.mouse.up();
+    await expect.poll(async () => (await probeAt()).y).toBeGreaterThan(p0.y);
+    const p1 = await probeAt();
+    expect(Math.abs(p1.x % 10) + Math.abs(p1.y % 10)).toBe(0);
+    expect((await history(page)).past).toBe(h1 + 1);
+    await page.keyboard.press('ArrowRight');
+    await expect.poll(async () => (await probeAt()).x).toBeGreaterThan(p1.x);
+    expect((await history(page)).past).toBe(h1 + 2);
+    await page.keyboard.press('Control+z');
+    await page.keyboard.press('Control+z');
+    expect(await getDiagram(page)).toEqual(built);
   });
 
   it('the demo loads from the picker; screenshots in light and dark themes', async () => {

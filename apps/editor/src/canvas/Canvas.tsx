@@ -135,6 +135,10 @@ export function Canvas() {
 
   const onNodesChange = useCallback((changes: NodeChange<BlockFlowNode>[]) => {
     setNodes((nds) => applyNodeChanges(changes, nds));
+    // Moves that are not drags (arrow keys on a focused, selected block) commit at once.
+    const moved: Record<string, { x: number; y: number }> = {};
+    for (const c of changes) if (c.type === 'position' && c.position && !c.dragging) moved[c.id] = c.position;
+    if (Object.keys(moved).length) useDiagramStore.getState().moveBlocks(moved);
     const sel = changes.filter((c) => c.type === 'select');
     if (sel.length) {
       const st = useDiagramStore.getState();
