@@ -237,6 +237,24 @@ describe('editor', () => {
     await page.getByTestId('open-file-input').setInputFiles(path);
     await expect.poll(async () => (await getDiagram(page)).blocks.length).toBe(built.blocks.length);
     expect(await getDiagram(page)).toEqual(built);
+
+    // Ctrl+S saves the same bytes; dropping the file on the window opens it.
+    await page.locator('.react-flow__pane').click({ position: { x: 5, y: 5 } });
+    const [again] = await Promise.all([page.waitForEvent('download'), page.keyboard.press('Control+s')]);
+    const path2 = join(downloads, `again-${again.suggestedFilename()}`);
+    await again.saveAs(path2);
+    expect(readFileSync(path2, 'utf8')).toBe(bytes);
+    await page.getByRole('button', { name: 'New diagram' }).click();
+    expect((await getDiagram(page)).blocks).toEqual([]);
+    const dt = await page.evaluateHandle((text) => {
+      const d = new DataTransfer();
+      d.items.add(new File([text], 'dropped.loop.json', { type: 'application/json' }));
+      return d;
+    }, bytes);
+    await page.dispatchEvent('.app', 'dragover', { dataTransfer: dt });
+    await page.dispatchEvent('.app', 'drop', { dataTransfer: dt });
+    await expect.poll(async () => (await getDiagram(page)).blocks.length).toBe(built.blocks.length);
+    expect(await getDiagram(page)).toEqual(built);
   });
 
   it('a corrupt or invalid file opens nothing, says why, and leaves the diagram untouched', async () => {
