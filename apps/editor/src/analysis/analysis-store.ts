@@ -28,6 +28,8 @@ export interface AnalysisUiState {
   /** Simulation end time in s (null = the document's view.simulationEnd or automatic). */
   simulationEnd: number | null;
   pinned: AnalysisSnapshot | null;
+  /** > 0 while something needs every result at once (pinning, the report): hidden views are computed too. */
+  needAll: number;
 
   setView(v: AnalysisViewId): void;
   setSweepKey(key: string | null): void;
@@ -35,6 +37,7 @@ export interface AnalysisUiState {
   setRange(key: string, r: SweepRange): void;
   setOptions(patch: Partial<Pick<AnalysisUiState, 'negativeLocus' | 'showDampingGuides' | 'showFrequencyGuides' | 'cutId' | 'probes' | 'simulationEnd'>>): void;
   pin(s: AnalysisSnapshot | null): void;
+  setNeedAll(delta: number): void;
 }
 
 export const useAnalysisStore = create<AnalysisUiState>()((set) => ({
@@ -49,6 +52,7 @@ export const useAnalysisStore = create<AnalysisUiState>()((set) => ({
   probes: null,
   simulationEnd: null,
   pinned: null,
+  needAll: 0,
 
   setView: (view) => set({ view }),
   setSweepKey: (sweepKey) => set({ sweepKey, liveValue: null }),
@@ -56,4 +60,5 @@ export const useAnalysisStore = create<AnalysisUiState>()((set) => ({
   setRange: (key, r) => set((s) => ({ ranges: { ...s.ranges, [key]: r } })),
   setOptions: (patch) => set(patch),
   pin: (pinned) => set({ pinned }),
+  setNeedAll: (delta) => set((s) => ({ needAll: Math.max(0, s.needAll + delta) })),
 }));

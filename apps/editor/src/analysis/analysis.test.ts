@@ -153,7 +153,7 @@ describe('locus plane geometry', () => {
 describe('engine computations (what the worker runs)', () => {
   it('closed-loop poles of K/(s(s+2)) with unity feedback are −1 ± √(1−K) (characteristic equation s² + 2s + K = 0)', () => {
     for (const K of [0.5, 4]) {
-      const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(K), sweep: sweepOf(K), cutId: 'c1' });
+      const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(K), sweep: sweepOf(K), cutId: 'c1', frequency: true });
       expect(r.poles.ok).toBe(true);
       const poles = r.poles.ok ? [...r.poles.value].sort((a, b) => a.re - b.re || a.im - b.im) : [];
       const disc = 1 - K;
@@ -165,7 +165,7 @@ describe('engine computations (what the worker runs)', () => {
     }
   });
   it('the locus of K/(s(s+2)) is exact with its breakaway at s = −1, K = 1 (Ogata, root-locus rules, from memory)', () => {
-    const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(2), sweep: sweepOf(2), cutId: 'c1' });
+    const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(2), sweep: sweepOf(2), cutId: 'c1', frequency: true });
     expect(r.locus?.ok).toBe(true);
     const L = r.locus!.ok ? r.locus!.value : null;
     expect(L!.mode).toBe('exact');
@@ -177,7 +177,7 @@ describe('engine computations (what the worker runs)', () => {
     for (const b of L!.rangeBranches!) for (const k of b.k) expect(k).toBeGreaterThanOrEqual(0.1 - 1e-12), expect(k).toBeLessThanOrEqual(10 + 1e-9);
   });
   it('margins at the cut: |L(jωc)| = 1 at ωc² = −2 + √20 and PM = 90° − atan(ωc/2) for L = 4/(s(s+2)) (closed form)', () => {
-    const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(4), sweep: sweepOf(4), cutId: 'c1' });
+    const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(4), sweep: sweepOf(4), cutId: 'c1', frequency: true });
     expect(r.frequency?.ok).toBe(true);
     const f = r.frequency!.ok ? r.frequency!.value : null;
     const wc = Math.sqrt(-2 + Math.sqrt(20));
@@ -193,7 +193,7 @@ describe('engine computations (what the worker runs)', () => {
   });
   it('the loops table matches the frequency view at the same cut', () => {
     const d = unityLoop(4);
-    const a = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: sweepOf(4), cutId: 'c1' });
+    const a = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: sweepOf(4), cutId: 'c1', frequency: true });
     const l = computeLoops({ channel: 'loops', id: 1, diagram: d, overrides: { K: 4 } });
     expect(l.loops.ok).toBe(true);
     const row = l.loops.ok ? l.loops.value.rows[0] : null;
@@ -228,7 +228,7 @@ describe('engine computations (what the worker runs)', () => {
       const d = demo.diagram;
       const sw = d.sweeps[0];
       const v = d.parameters.find((p) => p.name === sw.parameter)!.value;
-      const a = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: { parameter: sw.parameter, value: v, negative: true, min: sw.min, max: sw.max }, cutId: null });
+      const a = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: { parameter: sw.parameter, value: v, negative: true, min: sw.min, max: sw.max }, cutId: null, frequency: true });
       expect(a.locus?.ok, JSON.stringify(a.locus)).toBe(true);
       expect(a.poles.ok).toBe(true);
       expect(a.frequency?.ok).toBe(true);
@@ -241,7 +241,7 @@ describe('engine computations (what the worker runs)', () => {
 describe('exports', () => {
   const d = unityLoop(4);
   const response = computeResponse({ channel: 'response', id: 1, diagram: d, overrides: {}, until: 5 });
-  const analysis = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: sweepOf(4), cutId: 'c1' });
+  const analysis = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: sweepOf(4), cutId: 'c1', frequency: true });
   const loops = computeLoops({ channel: 'loops', id: 1, diagram: d, overrides: {} }).loops;
   it('CSV: a t column, each trace with and without nonlinearities, one row per sample', () => {
     const lines = responseCsv(response).trim().split('\n');
@@ -261,7 +261,7 @@ describe('exports', () => {
     expect(html).not.toMatch(/<script|(src|href)="https?:/); // self-contained (SVG namespaces are names, not fetches)
   });
   it('the comparison lists what changed between a pinned and a current result', () => {
-    const a2 = computeAnalysis({ channel: 'analysis', id: 2, diagram: unityLoop(8), sweep: sweepOf(8), cutId: 'c1' });
+    const a2 = computeAnalysis({ channel: 'analysis', id: 2, diagram: unityLoop(8), sweep: sweepOf(8), cutId: 'c1', frequency: true });
     const l2 = computeLoops({ channel: 'loops', id: 2, diagram: unityLoop(8), overrides: {} }).loops;
     const pinned = takeSnapshot('pinned', { K: 4 }, analysis, loops, null);
     const now = takeSnapshot('now', { K: 8 }, a2, l2, null);

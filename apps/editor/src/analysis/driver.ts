@@ -107,13 +107,23 @@ export function startAnalysisDriver(): () => void {
 
   const update = () => {
     const inp = currentInputs();
+    // Only what a view on screen (or a pin / report in progress) shows is computed: the Locus
+    // is always on screen; the others follow their tab.
+    const ui = useAnalysisStore.getState();
+    const all = ui.needAll > 0 || ui.view === 'compare';
+    const needed: Record<Channel, boolean> = {
+      analysis: true,
+      loops: all || ui.view === 'loops',
+      response: all || ui.view === 'response' || ui.view === 'locus',
+    };
+    const withFrequency = all || ui.view === 'frequency';
     const base = analysisKey(inp.engineDiagram);
     const keys: Record<Channel, string> = {
-      analysis: JSON.stringify([base, inp.sweep, inp.cutId]),
+      analysis: JSON.stringify([base, inp.sweep, inp.cutId, withFrequency]),
       loops: JSON.stringify([base, inp.overrides]),
       response: JSON.stringify([base, inp.overrides, inp.until]),
     };
-    const changed = (Object.keys(keys) as Channel[]).filter((c) => keys[c] !== sentKey[c]);
+    const changed = (Object.keys(keys) as Channel[]).filter((c) => needed[c] && keys[c] !== sentKey[c]);
     if (changed.length === 0) return;
     const rs = useResultsStore.getState();
     const gen = rs.generation + 1;
@@ -125,7 +135,7 @@ export function startAnalysisDriver(): () => void {
       sentKey[c] = keys[c];
       const id =
         c === 'analysis'
-          ? engine.send({ channel: 'analysis', diagram: inp.engineDiagram, sweep: inp.sweep, cutId: inp.cutId })
+          ? engine.send({ channel: 'analysis', diagram: inp.engineDiagram, sweep: inp.sweep, cutId: inp.cutId, frequency: withFrequency })
           : c === 'loops'
             ? engine.send({ channel: 'loops', diagram: inp.engineDiagram, overrides: inp.overrides })
             : engine.send({ channel: 'response', diagram: inp.engineDiagram, overrides: inp.overrides, until: inp.until });
@@ -150,4 +160,35 @@ export function startAnalysisDriver(): () => void {
     offDiagram();
     offUi();
   };
+}
+
+/**
+ * Resolves once every result is computed for the current inputs and drawn (hidden views
+ * included): for pinning and the report, which need everything at once.
+ */
+export async function withAllResults<T>(fn: () => T, timeoutMs = 20_000): Promise<T> {
+  useAnalysisStore.getState().setNeedAll(1);
+  try {
+    await new Promise<void>((resolve) => {
+      const done = () => {
+        const s = useResultsStore.getState();
+        return s.held.analysis === s.wanted.analysis && s.held.loops === s.wanted.loops && s.held.response === s.wanted.response && s.loops !== null && s.response !== null;
+      };
+      if (done()) return resolve();
+      const t = setTimeout(() => {
+        off();
+        resolve();
+      }, timeoutMs);
+      const off = useResultsStore.subscribe(() => {
+        if (done()) {
+          clearTimeout(t);
+          off();
+          resolve();
+        }
+      });
+    });
+    return fn();
+  } finally {
+    useAnalysisStore.getState().setNeedAll(-1);
+  }
 }

@@ -5,10 +5,11 @@
  */
 import { useEffect, useLayoutEffect, useMemo, useState } from 'react';
 import './analysis.css';
-import { currentInputs, startAnalysisDriver } from '../analysis/driver.ts';
+import { currentInputs, startAnalysisDriver, withAllResults } from '../analysis/driver.ts';
 import { installAnalysisHook } from '../analysis/test-hook.ts';
 import { useAnalysisStore, type AnalysisViewId } from '../analysis/analysis-store.ts';
-import { resultsComplete, useResultsStore } from '../analysis/results-store.ts';
+import { resultsComplete, useResultsStore, type ResultsState } from '../analysis/results-store.ts';
+import { useShallow } from 'zustand/react/shallow';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { designReportHtml } from '../analysis/report.ts';
 import { download, slug } from '../analysis/export.ts';
@@ -40,7 +41,8 @@ function useDark(): boolean {
   return (attr ?? theme) === 'dark';
 }
 
-export function exportReport(): void {
+export async function exportReport(): Promise<void> {
+  await withAllResults(() => undefined);
   const d = useDiagramStore.getState().diagram;
   const rs = useResultsStore.getState();
   const inp = currentInputs();
@@ -62,7 +64,10 @@ export function AnalysisArea() {
   const pinned = useAnalysisStore((s) => s.pinned);
   const dark = useDark();
   const pal = useMemo(() => palette(dark), [dark]);
-  const results = useResultsStore();
+  // Only what the drawn-generation bookkeeping needs: the views subscribe to their own data.
+  const results = useResultsStore(
+    useShallow((s) => ({ generation: s.generation, generationAt: s.generationAt, wanted: s.wanted, held: s.held, renderedGeneration: s.renderedGeneration })),
+  );
   const tab = view === 'locus' ? 'response' : view;
 
   useEffect(() => startAnalysisDriver(), []);
@@ -71,7 +76,7 @@ export function AnalysisArea() {
   // After the charts of a complete generation have been given their options (child effects run
   // first), wait one frame for the paint and record the generation as drawn.
   useLayoutEffect(() => {
-    if (!resultsComplete(results) || results.renderedGeneration === results.generation) return;
+    if (!resultsComplete(results as ResultsState) || results.renderedGeneration === results.generation) return;
     const gen = results.generation;
     const at = results.generationAt;
     const raf = requestAnimationFrame(() => {
@@ -120,10 +125,10 @@ export function AnalysisArea() {
               </button>
             ))}
             <span className="lw-spacer" />
-            <button type="button" className="lw-mini" onClick={pinCurrent} title="Pin the current results to compare against">
+            <button type="button" className="lw-mini" onClick={() => void pinCurrent()} title="Pin the current results to compare against">
               Pin
             </button>
-            <button type="button" className="lw-mini" data-export="report:html" onClick={exportReport} title="Design report (HTML, self-contained)">
+            <button type="button" className="lw-mini" data-export="report:html" onClick={() => void exportReport()} title="Design report (HTML, self-contained)">
               Report
             </button>
           </div>

@@ -10,6 +10,8 @@ import { registerChart, unregisterChart } from './chart-registry.ts';
 export interface ChartProps {
   name: string;
   option: ChartOption;
+  /** A merge patch applied over `option` (cheap updates of a few series by id). */
+  patch?: ChartOption;
   height?: number | string;
   onSize?(size: { width: number; height: number }): void;
   /** Pixel-level pointer events on the whole drawing surface (offsetX/offsetY). */
@@ -55,8 +57,16 @@ export function Chart(props: ChartProps) {
     const chart = inst.current;
     if (!chart) return;
     chart.setOption({ animation: false, ...(props.option as object) }, { notMerge: true, lazyUpdate: false });
-    registerChart(props.name, chart, props.option);
+    if (handlers.current.patch) chart.setOption(handlers.current.patch, { notMerge: false, lazyUpdate: false });
+    registerChart(props.name, chart, props.option, handlers.current.patch);
   }, [props.option, props.name]);
+
+  useEffect(() => {
+    const chart = inst.current;
+    if (!chart || !props.patch) return;
+    chart.setOption(props.patch, { notMerge: false, lazyUpdate: false });
+    registerChart(props.name, chart, props.option, props.patch);
+  }, [props.patch]); // eslint-disable-line react-hooks/exhaustive-deps
 
   return <div ref={box} className="lw-chart" data-chart={props.name} style={{ width: '100%', height: props.height ?? 320 }} />;
 }

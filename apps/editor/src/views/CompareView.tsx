@@ -6,7 +6,7 @@ import { useMemo } from 'react';
 import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { useDiagramStore } from '../store/diagram-store.ts';
-import { currentInputs } from '../analysis/driver.ts';
+import { currentInputs, withAllResults } from '../analysis/driver.ts';
 import { takeSnapshot, tunedValues, type AnalysisSnapshot } from '../analysis/snapshot.ts';
 import { differences } from '../analysis/compare.ts';
 import { engineParameterName } from '../analysis/sweep.ts';
@@ -24,9 +24,11 @@ export function currentSnapshot(label: string): AnalysisSnapshot {
   return takeSnapshot(label, tunedValues(inp.diagram, inp.overrides, extra), rs.analysis, rs.loops, rs.response);
 }
 
-export function pinCurrent(): void {
-  const n = new Date();
-  useAnalysisStore.getState().pin(currentSnapshot(`pinned ${n.toLocaleTimeString()}`));
+export function pinCurrent(): Promise<void> {
+  return withAllResults(() => {
+    const n = new Date();
+    useAnalysisStore.getState().pin(currentSnapshot(`pinned ${n.toLocaleTimeString()}`));
+  });
 }
 
 export function CompareView({ pal }: { pal: Palette }) {
@@ -49,7 +51,7 @@ export function CompareView({ pal }: { pal: Palette }) {
   return (
     <div className="lw-view lw-compare">
       <div className="lw-view-tools">
-        <button type="button" onClick={pinCurrent} data-testid="pin">
+        <button type="button" onClick={() => void pinCurrent()} data-testid="pin">
           {pinned ? 'Pin again' : 'Pin current results'}
         </button>
         <button type="button" disabled={!pinned} onClick={() => useAnalysisStore.getState().pin(null)}>

@@ -5,6 +5,7 @@
 import { useMemo, useState } from 'react';
 import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
+import { useDiagramStore } from '../store/diagram-store.ts';
 import { bodeOption, marginsText, nyquistOption, sensitivityOption, sensitivityText } from './frequency-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
@@ -15,8 +16,13 @@ export function FrequencyView({ pal }: { pal: Palette }) {
   const setOptions = useAnalysisStore((s) => s.setOptions);
   const [nySize, setNySize] = useState({ width: 360, height: 300 });
   const f = analysis?.frequency?.ok ? analysis.frequency.value : null;
-  const loops = useResultsStore((s) => s.loops);
-  const rows = loops?.ok ? loops.value.rows : [];
+  const cuts = useDiagramStore((s) => s.diagram.cuts);
+  // The diagram's cuts, and the proposed one the engine opened when the diagram has none.
+  const rows = useMemo(() => {
+    const list = cuts.map((c) => ({ cutId: c.id, label: c.label ?? c.wire, auto: false }));
+    if (f && !list.some((r) => r.cutId === f.cutId)) list.push({ cutId: f.cutId, label: f.label, auto: true });
+    return list;
+  }, [cuts, f]);
   const pin = pinned?.frequency && f && pinned.frequency.cutId === f.cutId ? pinned.frequency : null;
 
   const bode = useMemo(() => (f ? bodeOption(f, pin, pal) : null), [f, pin, pal]);

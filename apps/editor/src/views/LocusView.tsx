@@ -9,7 +9,7 @@ import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { activePoints, dampingOf, keyPoints, nearestOnBranches, planeWindow, pointsNear, zoomAt, zoomWindow, type LocusHit, type PlaneZoom } from '../analysis/locus-geometry.ts';
 import { fmt } from '../analysis/sweep.ts';
-import { locusBox, locusOption } from './locus-option.ts';
+import { locusBox, locusLivePatch, locusOption } from './locus-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import { commitSweepValue, useSweepChoice, widenRangeFor } from './SweepBar.tsx';
 import type { Palette } from './palette.ts';
@@ -62,17 +62,18 @@ export function LocusView({ pal }: { pal: Palette }) {
     () =>
       locusOption({
         locus,
-        current,
+        current: [],
         pinned: pinned?.poles ?? null,
         win,
         pal,
         dampingGuides: damping,
         frequencyGuides: freq,
         parameterLabel: choice?.label ?? '—',
-        hover: hover ? { s: hover.s } : null,
+        hover: null,
       }),
-    [locus, current, pinned, win, pal, damping, freq, choice?.label, hover],
+    [locus, pinned, win, pal, damping, freq, choice?.label],
   );
+  const patch = useMemo(() => locusLivePatch(current, hover ? { s: hover.s } : null), [current, hover]);
 
   const hitAt = (x: number, y: number): LocusHit | null => {
     if (!locus) return null;
@@ -117,6 +118,7 @@ export function LocusView({ pal }: { pal: Palette }) {
       title={`Locus — ${choice?.label ?? 'no sweep'}`}
       background={pal.background}
       option={option}
+      patch={patch}
       onSize={setSize}
       extra={locus ? <span className="lw-tag" title={locus.mode === 'exact' ? 'characteristic equation affine in the swept value: exact root locus' : 'sampled parameter locus'}>{locus.mode}</span> : undefined}
       overlay={

@@ -8,12 +8,13 @@ import { echarts, type ChartInstance, type ChartOption } from './echarts-setup.t
 interface Entry {
   instance: ChartInstance;
   option: ChartOption;
+  patch?: ChartOption;
 }
 
 const charts = new Map<string, Entry>();
 
-export function registerChart(name: string, instance: ChartInstance, option: ChartOption): void {
-  charts.set(name, { instance, option });
+export function registerChart(name: string, instance: ChartInstance, option: ChartOption, patch?: ChartOption): void {
+  charts.set(name, { instance, option, patch });
 }
 
 export function unregisterChart(name: string, instance: ChartInstance): void {
@@ -39,6 +40,7 @@ export function chartSvgText(name: string, background = '#ffffff'): string | nul
   const svg = echarts.init(null, null, { renderer: 'svg', ssr: true, width, height });
   try {
     svg.setOption({ ...(e.option as object), backgroundColor: background, animation: false });
+    if (e.patch) svg.setOption(e.patch);
     return svg.renderToSVGString();
   } finally {
     svg.dispose();

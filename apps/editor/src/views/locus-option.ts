@@ -226,6 +226,7 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
   }
   series.push({
     type: 'scatter',
+    id: 'closed-loop-poles',
     name: 'closed-loop poles',
     silent: true,
     z: 8,
@@ -234,18 +235,17 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
     itemStyle: { color: pal.current, borderColor: pal.background, borderWidth: 1 },
     data: pts(inp.current),
   });
-  if (inp.hover) {
-    series.push({
-      type: 'scatter',
-      name: 'hover',
-      silent: true,
-      z: 9,
-      symbol: 'circle',
-      symbolSize: 9,
-      itemStyle: { color: 'rgba(0,0,0,0)', borderColor: pal.text, borderWidth: 2 },
-      data: [[inp.hover.s.re, inp.hover.s.im]],
-    });
-  }
+  series.push({
+    type: 'scatter',
+    id: 'hover',
+    name: 'hover',
+    silent: true,
+    z: 9,
+    symbol: 'circle',
+    symbolSize: 9,
+    itemStyle: { color: 'rgba(0,0,0,0)', borderColor: pal.text, borderWidth: 2 },
+    data: inp.hover ? [[inp.hover.s.re, inp.hover.s.im]] : [],
+  });
 
   // Ticks on multiples of the step (ECharts would start them at the window edge, which is
   // not a round number in an equal-aspect window); grid lines drawn as mark lines to match.
@@ -298,4 +298,18 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
 function labelOnRay(win: PlaneWindow, th: number): { coord: number[] }[] {
   const r = Math.min(win.yMax / Math.max(Math.sin(th), 1e-6), -win.xMin / Math.max(Math.cos(th), 1e-6)) * 0.92;
   return [{ coord: [-r * Math.cos(th), r * Math.sin(th)] }];
+}
+
+/**
+ * What changes while the slider moves or the pointer hovers: the current poles and the hover
+ * marker, as a merge patch over the base option (series matched by id), so that the rest of
+ * the locus is not rebuilt on every slider step.
+ */
+export function locusLivePatch(current: Cx[], hover: { s: Cx } | null): ChartOption {
+  return {
+    series: [
+      { id: 'closed-loop-poles', data: pts(current) },
+      { id: 'hover', data: hover ? [[hover.s.re, hover.s.im]] : [] },
+    ],
+  };
 }

@@ -284,8 +284,8 @@ export function computeAnalysis(req: AnalysisRequest): AnalysisResult {
   const poles = exact
     ? part(() => polyRoots(poly.add(exact.d0!, poly.scale(exact.n0!, sweep!.value))).map(plain))
     : part(() => closedLoopPoles(d, overrides).map(plain));
-  const freq = part(() => frequencyAt(d, req.cutId, overrides));
-  const frequency: Part<FrequencyData> | null = freq.ok && freq.value === null ? null : (freq as Part<FrequencyData>);
+  const freq = req.frequency ? part(() => frequencyAt(d, req.cutId, overrides)) : null;
+  const frequency: Part<FrequencyData> | null = !freq || (freq.ok && freq.value === null) ? null : (freq as Part<FrequencyData>);
   return { locus, poles, frequency, elapsedMs: now() - t0 };
 }
 

@@ -34,8 +34,8 @@ describe('engine client', () => {
     });
     const got: EngineReply[] = [];
     c.onReply((r) => got.push(r));
-    const a = c.send({ channel: 'analysis', diagram, sweep: null, cutId: null });
-    const b = c.send({ channel: 'analysis', diagram, sweep: null, cutId: null });
+    const a = c.send({ channel: 'analysis', diagram, sweep: null, cutId: null, frequency: false });
+    const b = c.send({ channel: 'analysis', diagram, sweep: null, cutId: null, frequency: false });
     expect(workers).toHaveLength(1);
     workers[0].reply({ channel: 'analysis', id: a, ok: false, error: 'old' });
     expect(got).toHaveLength(0);
@@ -54,7 +54,7 @@ describe('engine client', () => {
     const got: EngineReply[] = [];
     c.onReply((r) => got.push(r));
     c.send({ channel: 'response', diagram, overrides: {}, until: 1 });
-    const a = c.send({ channel: 'analysis', diagram, sweep: null, cutId: null });
+    const a = c.send({ channel: 'analysis', diagram, sweep: null, cutId: null, frequency: false });
     expect(workers).toHaveLength(2);
     workers[1].reply({ channel: 'analysis', id: a, ok: false, error: 'x' });
     expect(got.map((r) => r.channel)).toEqual(['analysis']);

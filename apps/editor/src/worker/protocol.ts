@@ -189,6 +189,8 @@ export interface AnalysisRequest {
   diagram: Diagram;
   sweep: SweepSpec | null;
   cutId: string | null;
+  /** Frequency data at the cut only when a view shows it (saves a reduction per slider step). */
+  frequency: boolean;
 }
 
 export interface LoopsRequest {
