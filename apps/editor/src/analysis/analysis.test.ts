@@ -165,9 +165,9 @@ describe('engine computations (what the worker runs)', () => {
     }
   });
   it('the locus of K/(s(s+2)) is exact with its breakaway at s = −1, K = 1 (Ogata, root-locus rules, from memory)', () => {
-    const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(2), sweep: sweepOf(2), cutId: 'c1', frequency: true });
-    expect(r.locus?.ok).toBe(true);
-    const L = r.locus!.ok ? r.locus!.value : null;
+    const res = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(2), sweep: sweepOf(2), cutId: 'c1', frequency: true });
+    expect(res.locus?.ok).toBe(true);
+    const L = res.locus!.ok ? res.locus!.value : null;
     expect(L!.mode).toBe('exact');
     expect(L!.breakaways).toHaveLength(1);
     expect(L!.breakaways[0].s.re).toBeCloseTo(-1, 8);
