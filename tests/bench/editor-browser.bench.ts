@@ -27,9 +27,10 @@ const line = (name: string, xs: number[], target: number, on: 'median' | 'p95') 
 async function drawnAfterLoad(page: Page): Promise<number> {
   await page.waitForFunction(
     () => {
-      const h = (window as unknown as { __loopwright?: { analysis?: { state(): { complete: boolean; renderedGeneration: number; response: unknown; loops: unknown } } } }).__loopwright?.analysis;
+      // Every view on screen drawn: the Locus with the closed-loop poles, and the open tab.
+      const h = (window as unknown as { __loopwright?: { analysis?: { state(): { complete: boolean; renderedGeneration: number; poles: unknown; locus: unknown } } } }).__loopwright?.analysis;
       const s = h?.state();
-      return Boolean(s && s.complete && s.renderedGeneration > 0 && s.response && s.loops);
+      return Boolean(s && s.complete && s.renderedGeneration > 0 && s.poles && s.locus);
     },
     undefined,
     { timeout: 30_000, polling: 10 },

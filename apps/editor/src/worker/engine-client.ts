@@ -22,6 +22,8 @@ export type WorkerFactory = () => WorkerLike;
 
 interface ChannelState {
   worker: WorkerLike | null;
+  /** Newest request id, shared with the worker when the page is cross-origin isolated (its sim polls it). */
+  newest: Int32Array | null;
   seq: number;
   /** Newest request id sent and not yet answered (0 when idle). */
   pending: number;
@@ -57,6 +59,7 @@ export class EngineClient {
     const full = { ...req, id } as EngineRequest;
     ch.pending = id;
     ch.pendingRequest = full;
+    if (ch.newest) Atomics.store(ch.newest, 0, id);
     if (ch.busyId === 0) {
       ch.busyId = id;
       ch.busySince = performance.now();
@@ -83,7 +86,7 @@ export class EngineClient {
   private state(channel: Channel): ChannelState {
     let ch = this.channels.get(channel);
     if (!ch) {
-      ch = { worker: null, seq: 0, pending: 0, pendingRequest: null, busySince: 0, busyId: 0, watchdog: null, restarts: 0, dropped: 0 };
+      ch = { worker: null, newest: null, seq: 0, pending: 0, pendingRequest: null, busySince: 0, busyId: 0, watchdog: null, restarts: 0, dropped: 0 };
       this.channels.set(channel, ch);
     }
     return ch;
@@ -104,6 +107,13 @@ export class EngineClient {
       if (id) this.emit({ channel, id, ok: false, error: `engine worker failed: ${e.message ?? 'unknown error'}` });
     };
     ch.worker = w;
+    // Where shared memory is allowed, the worker's simulation sees a newer request at once and
+    // stops (sim isCancelled); elsewhere the watchdog below restarts the worker instead.
+    if (typeof SharedArrayBuffer !== 'undefined' && (globalThis as { crossOriginIsolated?: boolean }).crossOriginIsolated) {
+      ch.newest = new Int32Array(new SharedArrayBuffer(4));
+      Atomics.store(ch.newest, 0, ch.pending);
+      w.postMessage({ channel: 'control', newest: ch.newest });
+    }
     return w;
   }
 

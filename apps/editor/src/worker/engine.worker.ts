@@ -10,6 +10,8 @@ import type { Channel, EngineReply, EngineRequest } from './protocol.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 const held = new Map<Channel, EngineRequest>();
+/** The client's newest request id (shared memory, cross-origin isolated pages only). */
+let newest: Int32Array | null = null;
 let scheduled = false;
 
 function schedule(): void {
@@ -31,7 +33,7 @@ function drain(): void {
         ? { channel: 'analysis', id: req.id, ok: true, result: computeAnalysis(req) }
         : req.channel === 'loops'
           ? { channel: 'loops', id: req.id, ok: true, result: computeLoops(req) }
-          : { channel: 'response', id: req.id, ok: true, result: computeResponse(req) };
+          : { channel: 'response', id: req.id, ok: true, result: computeResponse(req, newest ? () => Atomics.load(newest!, 0) > req.id : undefined) };
   } catch (e) {
     reply = { channel: req.channel, id: req.id, ok: false, error: e instanceof Error ? e.message : String(e) };
   }
@@ -39,7 +41,11 @@ function drain(): void {
   if (held.size > 0) schedule();
 }
 
-scope.onmessage = (e: MessageEvent<EngineRequest>) => {
+scope.onmessage = (e: MessageEvent<EngineRequest | { channel: 'control'; newest: Int32Array }>) => {
+  if (e.data.channel === 'control') {
+    newest = e.data.newest;
+    return;
+  }
   held.set(e.data.channel, e.data);
   schedule();
 };
