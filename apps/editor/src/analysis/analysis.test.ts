@@ -218,6 +218,28 @@ describe('engine computations (what the worker runs)', () => {
     expect(os).toBeCloseTo(100 * Math.exp((-Math.PI * zeta) / Math.sqrt(1 - zeta * zeta)), 0);
     expect(r.until).toBe(8);
   });
+  it('sweeping a gain block (numeric k) is the same exact locus as sweeping a parameter that sets it', () => {
+    const byParam = unityLoop(3);
+    const byBlock = unityLoop(3);
+    byBlock.parameters = [];
+    byBlock.blocks[2].params.k = 3;
+    const choice = sweepChoices(byBlock).find((c) => c.target.kind === 'block')!;
+    const d = asSweepDiagram(byBlock, choice.target);
+    const name = engineParameterName(choice.target);
+    const a = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: { parameter: name, value: 5, negative: false, min: 0.3, max: 30 }, cutId: null, frequency: false });
+    const b = computeAnalysis({ channel: 'analysis', id: 1, diagram: byParam, sweep: { parameter: 'K', value: 5, negative: false, min: 0.3, max: 30 }, cutId: null, frequency: false });
+    expect(a.locus?.ok && a.locus.value.mode).toBe('exact');
+    const sort = (p: { re: number; im: number }[]) => [...p].sort((x, y) => x.im - y.im);
+    const pa = sort(a.poles.ok ? a.poles.value : []);
+    const pb = sort(b.poles.ok ? b.poles.value : []);
+    expect(pa).toHaveLength(2);
+    pa.forEach((p, i) => {
+      expect(p.re).toBeCloseTo(pb[i].re, 9);
+      expect(p.im).toBeCloseTo(pb[i].im, 9);
+    });
+    // s² + 2s + 5 = 0: −1 ± 2j.
+    expect(Math.abs(pa[0].im)).toBeCloseTo(2, 9);
+  });
   it('an automatic run length covers several time constants of the slowest pole', () => {
     const T = automaticEnd(unityLoop(0.5), { K: 0.5 });
     // Slowest pole −1 + √0.5 ≈ −0.293: 6 time constants ≈ 20.5 s, rounded up to 50 (1-2-5 series).

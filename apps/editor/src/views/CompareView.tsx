@@ -39,7 +39,13 @@ export function CompareView({ pal }: { pal: Palette }) {
   const diagram = useDiagramStore((s) => s.diagram);
   const live = useAnalysisStore((s) => s.liveValue);
   const now = useMemo(() => currentSnapshot('now'), [analysis, loops, response, diagram, live]); // eslint-disable-line react-hooks/exhaustive-deps
-  const rows = useMemo(() => (pinned ? differences(pinned, now) : []), [pinned, now]);
+  // What changed first, then the rest for reference.
+  const rows = useMemo(() => {
+    if (!pinned) return [];
+    const all = differences(pinned, now);
+    const changed = (r: (typeof all)[number]) => r.pinned !== r.current && !(r.pinned !== null && r.current !== null && Math.abs(r.current - r.pinned) <= 1e-12 * Math.max(1, Math.abs(r.pinned)));
+    return [...all.filter(changed), ...all.filter((r) => !changed(r))];
+  }, [pinned, now]);
   const resp = useMemo(() => {
     if (!response) return null;
     const probes = response.probes.map((p) => p.id);
