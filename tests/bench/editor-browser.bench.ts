@@ -81,6 +81,8 @@ export async function run(): Promise<void> {
           await drawnAfterLoad(page);
           await sliderLatencies(page, 5); // warm-up
           line(`slider → all views drawn, ${tab} view shown (positioning demo)`, await sliderLatencies(page, 40), 50, 'p95');
+          const br = (await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { breakdown(): [number, number][] } } }).__loopwright.analysis.breakdown())).slice(-40);
+          console.log(`    of which: input → last engine reply median ${q(br.map((b) => b[0]), 0.5).toFixed(1)} ms, reply → drawn median ${q(br.map((b) => b[1]), 0.5).toFixed(1)} ms`);
         }
         const ms = await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { state(): { computeMs: Record<string, number> } } } }).__loopwright.analysis.state().computeMs);
         console.log(`  worker compute per update (last): analysis ${ms.analysis.toFixed(1)} ms, loops ${ms.loops.toFixed(1)} ms, response ${ms.response.toFixed(1)} ms`);

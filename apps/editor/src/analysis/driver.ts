@@ -17,7 +17,7 @@ import {
   type SweepChoice,
 } from './sweep.ts';
 import { EngineClient, type WorkerLike } from '../worker/engine-client.ts';
-import type { Channel, SweepSpec } from '../worker/protocol.ts';
+import type { Channel, LocusData, SweepSpec } from '../worker/protocol.ts';
 
 export interface AnalysisInputs {
   diagram: Diagram;
@@ -60,6 +60,12 @@ export function analysisKey(d: Diagram): string {
   });
 }
 
+/** Identity of a locus: its defining polynomials (exact) or its sampled points' ends. */
+function locusSignature(l: LocusData): string {
+  const ends = (bs: LocusData['branches'] | null) => (bs ?? []).map((b) => [b.re.length, b.re[0], b.im[0], b.re[b.re.length - 1], b.im[b.im.length - 1]]);
+  return JSON.stringify([l.mode, l.parameter, l.negative, l.n0, l.d0, ends(l.branches), ends(l.rangeBranches), ends(l.negativeBranches)]);
+}
+
 let client: EngineClient | null = null;
 
 function makeWorker(): WorkerLike {
@@ -88,10 +94,16 @@ export function startAnalysisDriver(): () => void {
     const s = useResultsStore.getState();
     const patch: Partial<ResultsState> = {
       held: { ...s.held, [ch]: gen },
+      arrivedAt: { ...s.arrivedAt, [ch]: performance.now() },
       errors: { ...s.errors, [ch]: reply.ok ? null : reply.error },
     };
     if (reply.ok) {
       if (reply.channel === 'analysis') {
+        // The locus does not change while the slider moves: keep the same object so that the
+        // Locus chart's base option (thousands of points) is not rebuilt on every step.
+        const prev = s.analysis?.locus;
+        const next = reply.result.locus;
+        if (prev?.ok && next?.ok && locusSignature(prev.value) === locusSignature(next.value)) reply.result.locus = prev;
         patch.analysis = reply.result;
         patch.computeMs = { ...s.computeMs, analysis: reply.result.elapsedMs };
       } else if (reply.channel === 'loops') {

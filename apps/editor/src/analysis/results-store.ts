@@ -22,6 +22,10 @@ export interface ResultsState {
   /** Worker compute time of the latest result per channel, ms. */
   computeMs: Record<Channel, number>;
   renderedGeneration: number;
+  /** performance.now() when the last reply of each channel arrived (latency breakdown). */
+  arrivedAt: Record<Channel, number>;
+  /** Per drawn generation: [input→last reply, last reply→drawn] in ms, newest last. */
+  breakdown: [number, number][];
   /** Input-to-drawn latencies (ms) of recent generations, newest last. */
   latencies: number[];
 }
@@ -39,6 +43,8 @@ export const useResultsStore = create<ResultsState>()(() => ({
   errors: perChannel<string | null>(null),
   computeMs: perChannel(0),
   renderedGeneration: 0,
+  arrivedAt: perChannel(0),
+  breakdown: [],
   latencies: [],
 }));
 

@@ -16,6 +16,8 @@ export interface AnalysisHook {
   /** Page coordinates (CSS px) of the s-plane point (re, im) on the locus chart. */
   locusPagePoint(re: number, im: number): { x: number; y: number } | null;
   latencies(): number[];
+  /** Per drawn generation: [input → last engine reply, last reply → drawn], ms. */
+  breakdown(): [number, number][];
 }
 
 const json = <T>(x: T): T => JSON.parse(JSON.stringify(x, (_k, v) => (typeof v === 'function' ? undefined : v))) as T;
@@ -57,6 +59,7 @@ export function installAnalysisHook(): void {
       return { x: rect.left + p[0], y: rect.top + p[1] };
     },
     latencies: () => [...useResultsStore.getState().latencies],
+    breakdown: () => useResultsStore.getState().breakdown.map((b) => [...b] as [number, number]),
   };
   const w = window as unknown as { __loopwright?: Record<string, unknown> };
   w.__loopwright = w.__loopwright ?? {};

@@ -82,7 +82,13 @@ export function AnalysisArea() {
     const raf = requestAnimationFrame(() => {
       const s = useResultsStore.getState();
       if (s.generation !== gen) return;
-      useResultsStore.setState({ renderedGeneration: gen, latencies: [...s.latencies.slice(-199), performance.now() - at] });
+      const t = performance.now();
+      const last = Math.max(s.arrivedAt.analysis, s.arrivedAt.loops, s.arrivedAt.response);
+      useResultsStore.setState({
+        renderedGeneration: gen,
+        latencies: [...s.latencies.slice(-199), t - at],
+        breakdown: [...s.breakdown.slice(-199), [Math.max(0, last - at), t - Math.max(last, at)]],
+      });
     });
     return () => cancelAnimationFrame(raf);
   }, [results]);
