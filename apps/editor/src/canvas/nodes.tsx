@@ -3,8 +3,8 @@
  * the output on the right) and summing junctions drawn as circles with the sign of each input
  * beside where it enters (first input from the left, second from below, third from above).
  */
-import { memo } from 'react';
-import { Handle, Position, type Node, type NodeProps } from '@xyflow/react';
+import { memo, useEffect } from 'react';
+import { Handle, Position, useUpdateNodeInternals, type Node, type NodeProps } from '@xyflow/react';
 import type { Block } from '../store/graph-bridge.ts';
 import { Formula } from './formula.tsx';
 import { cardContent } from './block-formula.ts';
@@ -98,8 +98,12 @@ export function sumPortSide(i: number): Position {
   return Position.Left;
 }
 
-export const SumNode = memo(function SumNode({ data, selected }: NodeProps<BlockFlowNode>) {
+export const SumNode = memo(function SumNode({ id, data, selected }: NodeProps<BlockFlowNode>) {
   const { block, inputs, fault } = data;
+  // Its ports follow the signs: React Flow must re-measure them when they change.
+  const updateInternals = useUpdateNodeInternals();
+  const portKey = inputs.join(',');
+  useEffect(() => updateInternals(id), [id, portKey, updateInternals]);
   const signs = typeof block.params.signs === 'string' ? block.params.signs : '';
   const leftPorts = inputs.filter((_, i) => sumPortSide(i) === Position.Left);
   const cls = ['lw-sum', selected ? 'is-selected' : '', fault ? `fault-${fault}` : ''].filter(Boolean).join(' ');

@@ -184,9 +184,7 @@ export function DetailsPanel() {
             key={diagram.description}
             defaultValue={diagram.description}
             onBlur={(e) => {
-              if (e.target.value === diagram.description) return;
-              const d = { ...diagram, description: e.target.value };
-              useDiagramStore.setState({ diagram: d });
+              if (e.target.value !== diagram.description) st.setDescription(e.target.value);
             }}
           />
         </div>

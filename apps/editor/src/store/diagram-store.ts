@@ -1,5 +1,5 @@
 /**
- * The editor store: the diagram document plus UI state (selection, drag positions).
+ * The editor store: the diagram document plus UI state (selection, clipboard).
  * Undo/redo (zundo) records ONLY the document and compares by value, so selection changes,
  * React Flow measurements and in-progress drags never create history entries.
  */
@@ -22,8 +22,6 @@ export interface Clipboard {
 export interface DiagramState {
   diagram: Diagram;
   selection: Selection;
-  /** Positions of blocks being dragged right now (committed to the document on drop). */
-  dragging: Record<string, { x: number; y: number }>;
   clipboard: Clipboard | null;
 
   // ---- contract actions (shared with the analysis views) ----
@@ -43,7 +41,6 @@ export interface DiagramState {
   addBlock(kind: BlockKind, position: { x: number; y: number }, params?: Record<string, ParamValue>): string;
   setBlockLabel(id: string, label: string): void;
   moveBlocks(positions: Record<string, { x: number; y: number }>): void;
-  setDragging(positions: Record<string, { x: number; y: number }>): void;
   connect(from: { block: string; port: string }, to: { block: string; port: string }): string | null;
   deleteSelection(): void;
   removeWires(ids: string[]): void;
@@ -51,6 +48,7 @@ export interface DiagramState {
   copySelection(): void;
   paste(): void;
   setTitle(title: string): void;
+  setDescription(text: string): void;
   addParameter(p?: Partial<NamedParameter>): string;
   updateParameter(name: string, patch: Partial<NamedParameter>): void;
   renameParameter(oldName: string, newName: string): void;
@@ -105,10 +103,9 @@ export const useDiagramStore = create<DiagramState>()(
       return {
         diagram: emptyDiagram(),
         selection: { blocks: [], wires: [] },
-        dragging: {},
         clipboard: null,
 
-        setDiagram: (d) => set({ diagram: clone(d), selection: { blocks: [], wires: [] }, dragging: {} }),
+        setDiagram: (d) => set({ diagram: clone(d), selection: { blocks: [], wires: [] } }),
         updateBlockParams: (id, patch) =>
           edit((d) => {
             const b = d.blocks.find((x) => x.id === id);
@@ -188,9 +185,8 @@ export const useDiagramStore = create<DiagramState>()(
               const p = positions[b.id];
               if (p) b.position = { x: Math.round(p.x), y: Math.round(p.y) };
             }
-            set({ diagram: d, dragging: {} });
+            set({ diagram: d });
           },
-        setDragging: (positions) => set({ dragging: { ...get().dragging, ...positions } }),
         connect: (from, to) => {
           const d = clone(get().diagram);
           if (from.block === to.block) return null;
@@ -264,6 +260,7 @@ export const useDiagramStore = create<DiagramState>()(
           });
         },
         setTitle: (title) => edit((d) => void (d.title = title)),
+        setDescription: (text) => edit((d) => void (d.description = text)),
         addParameter: (p) => {
           const d = clone(get().diagram);
           const name = p?.name ?? nextId('p', d.parameters.map((x) => x.name));
