@@ -197,6 +197,20 @@ describe('editor', () => {
     await ti.press('Escape');
     await ti.press('Enter');
     expect(await getDiagram(page)).toEqual(before);
+    // An unknown name is an error with a way out: create the parameter, and the field is written.
+    await ti.click();
+    await ti.press('Control+a');
+    await ti.pressSequentially('Tint');
+    await expect.poll(() => page.getByRole('alert', { name: 'Integral time ti error' }).textContent()).toMatch(/Tint/);
+    await page.getByRole('button', { name: 'Create parameter Tint' }).click();
+    const after = await getDiagram(page);
+    expect(after.parameters.map((p) => p.name)).toEqual(['Kp', 'Tint']);
+    expect(after.blocks.find((b) => b.id === 'pid1')!.params.ti).toBe('Tint');
+    await page.keyboard.press('Escape');
+    await page.locator('.react-flow__pane').click({ position: { x: 5, y: 5 } });
+    await page.keyboard.press('Control+z');
+    await page.keyboard.press('Control+z');
+    expect(await getDiagram(page)).toEqual(before);
   });
 
   it('undo and redo walk through the whole build, step by step', async () => {
