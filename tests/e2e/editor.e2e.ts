@@ -366,6 +366,19 @@ describe('editor', () => {
     await page.getByRole('button', { name: 'Undo' }).click();
     expect(await getDiagram(page)).toEqual(built);
 
+    // Shift+drag draws a selection box: everything inside it is selected.
+    await page.getByRole('button', { name: 'Show whole diagram' }).click();
+    await page.waitForTimeout(300);
+    const paneBox = (await pane.boundingBox())!;
+    await page.keyboard.down('Shift');
+    await page.mouse.move(paneBox.x + 4, paneBox.y + 4);
+    await page.mouse.down();
+    await page.mouse.move(paneBox.x + paneBox.width - 4, paneBox.y + paneBox.height - 4, { steps: 8 });
+    await page.mouse.up();
+    await page.keyboard.up('Shift');
+    await expect.poll(async () => (await page.evaluate(() => (window as unknown as { __loopwright: { getSelection(): { blocks: string[] } } }).__loopwright.getSelection())).blocks.length).toBe(built.blocks.length);
+    await page.keyboard.press('Escape');
+
     // Moving a block: by mouse drag (snapped to the grid), then by arrow key; one step each.
     const probeAt = () => getDiagram(page).then((d) => d.blocks.find((b) => b.id === 'probe1')!.position);
     await page.getByRole('button', { name: 'Show whole diagram' }).click();
