@@ -237,8 +237,9 @@ describe('analysis views', () => {
     expect(r.status, r.stderr).toBe(0);
     const cli = JSON.parse(r.stdout) as { cuts: { cut: string; margins: Record<string, number | boolean | null> }[] };
     await page.getByRole('tab', { name: 'Loops' }).click();
+    await settled(page);
     const table = page.getByTestId('loops-table');
-    await expect.poll(() => table.locator('tbody tr').count()).toBe(cli.cuts.length);
+    await expect.poll(() => table.locator('tbody tr').count(), { timeout: 15_000 }).toBe(cli.cuts.length);
     expect(cli.cuts.length).toBeGreaterThan(1);
     for (const c of cli.cuts) {
       const row = table.locator(`tr[data-cut="${c.cut}"]`);
@@ -315,14 +316,16 @@ describe('analysis views', () => {
 
   it('pinning and comparing shows both results and a table of the differences', async () => {
     await page.getByRole('tab', { name: 'Compare' }).click();
-    await page.getByTestId('pin').click();
     await settled(page);
+    await page.getByTestId('pin').click();
+    // Pinning waits for every result of the current inputs (hidden views included).
+    await page.waitForFunction(() => (window as unknown as { __loopwright: { analysis: { state(): { pinned: unknown } } } }).__loopwright.analysis.state().pinned !== null, undefined, { timeout: 20_000 });
     const drag = await dragSliderTo(page, 0.2);
     await drag.release();
     await settled(page);
     const table = page.getByTestId('compare-table');
-    await expect.poll(() => table.locator('tr.lw-changed').count()).toBeGreaterThan(2);
-    await expect.poll(() => table.textContent()).toMatch(/Kp_pos/);
+    await expect.poll(() => table.locator('tr.lw-changed').count(), { timeout: 15_000 }).toBeGreaterThan(2);
+    await expect.poll(() => table.textContent(), { timeout: 15_000 }).toMatch(/Kp_pos/);
     await page.waitForTimeout(150);
     await screenshot(page, 'analysis-compare');
   });
@@ -343,7 +346,7 @@ describe('analysis views', () => {
     const i = Math.floor(b.re.length / 2);
     const at = await locusPagePoint(page, { re: b.re[i], im: b.im[i] });
     await page.mouse.move(at.x, at.y);
-    await expect.poll(() => page.getByTestId('locus-readout').count()).toBe(1);
+    await expect.poll(() => page.getByTestId('locus-readout').count(), { timeout: 10_000 }).toBe(1);
     expect(await page.getByTestId('locus-readout').textContent()).toMatch(/ζ = .*ωn = /);
     await screenshot(page, 'analysis-locus-hover');
     // The second demo, and the dark theme.

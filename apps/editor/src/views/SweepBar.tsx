@@ -3,7 +3,7 @@
  * slider's value is live (analysis store) and follows into every view at once; releasing the
  * slider, pressing Apply or Enter commits it to the document (one undo step).
  */
-import { useMemo } from 'react';
+import { useEffect, useMemo, useRef } from 'react';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { documentValue, fmt, positionToValue, preferredChoice, sweepChoices, valueToPosition, type SweepChoice, type SweepRange } from '../analysis/sweep.ts';
@@ -58,6 +58,20 @@ export function SweepBar() {
   const { choices, choice, range, value } = useSweepChoice();
   const live = useAnalysisStore((s) => s.liveValue);
   const ui = useAnalysisStore.getState;
+  const slider = useRef<HTMLInputElement>(null);
+  const choiceRef = useRef(choice);
+  choiceRef.current = choice;
+  // The native change event fires when a drag ends, wherever the pointer is released.
+  useEffect(() => {
+    const el = slider.current;
+    if (!el) return;
+    const onChange = () => {
+      const v = useAnalysisStore.getState().liveValue;
+      if (v !== null && choiceRef.current) commitSweepValue(choiceRef.current, v);
+    };
+    el.addEventListener('change', onChange);
+    return () => el.removeEventListener('change', onChange);
+  }, [choice?.key]);
 
   if (!choice || !range) {
     return (
@@ -103,6 +117,7 @@ export function SweepBar() {
       </label>
       <NumberBox label="from" value={range.min} onCommit={(v) => setRange({ min: v })} />
       <input
+        ref={slider}
         type="range"
         className="lw-slider"
         aria-label={`Sweep value of ${choice.label}`}

@@ -61,6 +61,7 @@ const lineSeries = (name: string, data: number[][], color: string, extra: object
   type: 'line',
   name,
   showSymbol: false,
+  sampling: 'lttb',
   animation: false,
   lineStyle: { color, width: 2 },
   itemStyle: { color },

@@ -59,6 +59,8 @@ const line = (name: string, data: number[][], color: string, type: 'solid' | 'da
   type: 'line',
   name,
   showSymbol: false,
+  // Down-sample to the pixel width when drawing (largest-triangle-three-buckets keeps peaks).
+  sampling: 'lttb',
   animation: false,
   lineStyle: { color, width, type },
   itemStyle: { color },
