@@ -59,7 +59,7 @@ export function FrequencyView({ pal }: { pal: Palette }) {
         {pin && <span className="lw-muted">dotted: pinned</span>}
       </div>
       <div className="lw-grid-freq">
-        <ChartFrame name="bode" title={`Bode of L`} background={pal.background} option={bode!} extra={<span className="lw-muted">{marginsText(f.margins)}</span>} />
+        <ChartFrame name="bode" title={`Bode of L`} background={pal.background} option={bode!} extra={<span className="lw-muted" title={marginsText(f.margins)}>{marginsText(f.margins)}</span>} />
         <ChartFrame name="nyquist" title="Nyquist of L" background={pal.background} option={nyq!} onSize={setNySize} />
       </div>
       <div className="lw-grid-1">

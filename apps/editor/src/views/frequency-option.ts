@@ -164,9 +164,10 @@ export function nyquistOption(f: FrequencyData, pinned: FrequencyData | null, pa
   const circle: number[][] = [];
   for (let i = 0; i <= 96; i++) circle.push([Math.cos((2 * Math.PI * i) / 96), Math.sin((2 * Math.PI * i) / 96)]);
   const series: unknown[] = [
-    lineSeries('unit circle', circle, pal.guide, { silent: true, lineStyle: { color: pal.guide, width: 1, type: 'dotted' } }),
-    lineSeries('L(jω), ω > 0', all, pal.series[0]),
-    lineSeries('L(jω), ω < 0', zip(f.re, f.im.map((v) => -v)), pal.series[0], { lineStyle: { color: pal.series[0], width: 1, type: 'dashed' } }),
+    lineSeries('unit circle', circle, pal.guide, { silent: true, sampling: undefined, lineStyle: { color: pal.guide, width: 1, type: 'dotted' } }),
+    // A parametric curve (x not monotonic): no down-sampling by x.
+    lineSeries('L(jω), ω > 0', all, pal.series[0], { sampling: undefined }),
+    lineSeries('L(jω), ω < 0', zip(f.re, f.im.map((v) => -v)), pal.series[0], { sampling: undefined, lineStyle: { color: pal.series[0], width: 1, type: 'dashed' } }),
     {
       type: 'scatter',
       name: 'critical point −1',
@@ -177,7 +178,7 @@ export function nyquistOption(f: FrequencyData, pinned: FrequencyData | null, pa
       data: [[-1, 0]],
     },
   ];
-  if (pinned) series.push(lineSeries('pinned L(jω)', zip(pinned.re, pinned.im), pal.pinned, pinnedStyle(pal)));
+  if (pinned) series.push(lineSeries('pinned L(jω)', zip(pinned.re, pinned.im), pal.pinned, { ...pinnedStyle(pal), sampling: undefined }));
   const ax = (name: string, min: number, max: number) =>
     valueAxis(pal, name, { min, max, scale: false, nameGap: name === 'Re L' ? 26 : 44, axisLabel: { color: pal.muted, showMinLabel: false, showMaxLabel: false, formatter: (v: number) => fmt(v, 3) } });
   return {
