@@ -224,7 +224,7 @@ export function Canvas() {
       aria-label="Diagram canvas"
     >
       <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1.2} color="var(--grid)" />
-      <Controls showInteractive={false} position="bottom-right" aria-label="Zoom controls" />
+      <Controls showInteractive={false} position="top-right" aria-label="Zoom controls" />
     </ReactFlow>
     </div>
   );
