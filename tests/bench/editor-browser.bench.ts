@@ -95,11 +95,18 @@ export async function run(): Promise<void> {
   }
   const dir = join(ROOT, 'dist', 'editor', 'assets');
   const js = readdirSync(dir).filter((f) => f.endsWith('.js'));
+  // Loaded at start: the entry script(s) named in index.html and the engine worker; the rest
+  // are chunks loaded on demand (e.g. the layout engine behind Tidy).
+  const html = readFileSync(join(ROOT, 'dist', 'editor', 'index.html'), 'utf8');
   let total = 0;
+  let atStart = 0;
   for (const f of js) {
     const gz = gzipSync(readFileSync(join(dir, f))).length;
     total += gz;
-    console.log(`  ${f.padEnd(58)} ${(gz / 1024).toFixed(0).padStart(6)} kB gzipped`);
+    const start = html.includes(f) || f.startsWith('engine.worker');
+    if (start) atStart += gz;
+    console.log(`  ${f.padEnd(58)} ${(gz / 1024).toFixed(0).padStart(6)} kB gzipped${start ? '' : ' (loaded on demand)'}`);
   }
-  console.log(`  production JavaScript, gzipped, all chunks                 ${(total / 1024).toFixed(0).padStart(6)} kB  (target ≤ 800 kB: ${total <= 800 * 1024 ? 'met' : 'MISSED'})`);
+  console.log(`  production JavaScript loaded at start, gzipped               ${(atStart / 1024).toFixed(0).padStart(6)} kB  (target ≤ 800 kB: ${atStart <= 800 * 1024 ? 'met' : 'MISSED'})`);
+  console.log(`  production JavaScript, all chunks, gzipped                   ${(total / 1024).toFixed(0).padStart(6)} kB  (target ≤ 800 kB: ${total <= 800 * 1024 ? 'met' : 'MISSED'})`);
 }
