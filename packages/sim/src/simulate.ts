@@ -44,6 +44,7 @@ interface Tracker {
  */
 export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult {
   const wall0 = now();
+  if (opts.until === undefined) throw new InputError('simulation option until: the end time is required', { field: 'until' });
   const until = positive(opts.until, NaN, 'until', 1e9);
   const rtol = positive(opts.rtol, 1e-6, 'rtol', 1);
   const atol = positive(opts.atol, 1e-9, 'atol', 1e6);
