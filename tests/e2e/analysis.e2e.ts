@@ -349,6 +349,16 @@ describe('analysis views', () => {
     await expect.poll(() => page.getByTestId('locus-readout').count(), { timeout: 10_000 }).toBe(1);
     expect(await page.getByTestId('locus-readout').textContent()).toMatch(/ζ = .*ωn = /);
     await screenshot(page, 'analysis-locus-hover');
+    // The negative-gain locus (dashed) and constant-ωn arcs on request.
+    await page.mouse.move(5, 5);
+    await page.getByLabel('k < 0').check();
+    await page.getByLabel('ωn', { exact: true }).check();
+    await expect.poll(async () => ((await state(page)).locus as unknown as { negativeBranches: unknown[] | null } | null)?.negativeBranches?.length ?? 0, { timeout: 20_000 }).toBeGreaterThan(0);
+    await settled(page);
+    await page.waitForTimeout(150);
+    await screenshot(page, 'analysis-locus-negative');
+    await page.getByLabel('k < 0').uncheck();
+    await page.getByLabel('ωn', { exact: true }).uncheck();
     // The second demo, and the dark theme.
     await loadDiagram(page, demo('heating-cascade'));
     await page.getByRole('tab', { name: 'Response' }).click();
