@@ -181,8 +181,9 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
 
   const updatePeaks = () => {
     for (let i = 0; i < trackerList.length; i++) {
-      const [nd, tr] = trackerList[i];
-      const v = Math.abs(sig[nd.self]);
+      const entry = trackerList[i];
+      const tr = entry[1];
+      const v = Math.abs(sig[entry[0].self]);
       if (v > tr.peak) tr.peak = v;
     }
   };
