@@ -1,4 +1,4 @@
-import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { matrixEigenvalues } from './eigen.ts';
 import { type Complex, cabs, carg, cdiv, cx } from './complex.ts';
 import { InputError, MAX_ORDER, assertFinite } from './errors.ts';
 import * as P from './poly.ts';
@@ -291,7 +291,9 @@ function findBreakaways(N: number[], D: number[], sgn: number): RootLocus['break
     if (cabs(dv) <= 1e-10 * polyMagnitude(D, s)) continue; // a repeated pole (k = 0)
     const k = cdiv(dv, nv);
     const kr = -k.re;
-    if (Math.abs(k.im) > 1e-6 * Math.abs(kr)) continue; // complex gain: not on any real-gain locus
+    // Complex gain: not on any real-gain locus. The bound is tight because near a (near-)triple
+    // point k(s) ≈ k0 + a(s − c)³ has critical points off the axis with Im k ~ a·r³, tiny but not 0.
+    if (Math.abs(k.im) > 1e-9 * Math.abs(kr)) continue;
     if (Math.sign(kr) !== sgn) continue;
     out.push({ s, gain: kr, branches: cl.multiplicity + 1 });
   }
@@ -422,11 +424,11 @@ function rootsAnyDegree(p: number[]): Complex[] {
   for (let i = 0; i < deg; i++) a.push(new Array<number>(deg).fill(0));
   for (let j = 0; j < deg; j++) a[0][j] = -q[deg - 1 - j] / q[deg];
   for (let i = 1; i < deg; i++) a[i][i - 1] = 1;
-  const e = new EigenvalueDecomposition(new Matrix(a), { assumeSymmetric: false });
+  const eig = matrixEigenvalues(a, 'companion matrix of the breakaway polynomial');
   const d = P.derivative(q);
   const out: Complex[] = new Array<Complex>(lowZeros).fill(cx(0));
-  e.realEigenvalues.forEach((re, i) => {
-    let z = cx(re, e.imaginaryEigenvalues[i]);
+  eig.forEach((z0) => {
+    let z = z0;
     for (let it = 0; it < 4; it++) {
       const dz = cdiv(P.evalComplex(q, z), P.evalComplex(d, z));
       if (!Number.isFinite(dz.re) || !Number.isFinite(dz.im)) break;
@@ -540,8 +542,7 @@ class Tracer {
     while (stack.length) {
       const target = stack[stack.length - 1];
       const kSigned = this.sgn * target.k;
-      let r = this.solve(kSigned, rCur);
-      if (target.exact) r = this.snap(kSigned, r);
+      const r = (target.exact && this.exactRoots(kSigned, rCur)) || (target.exact ? this.snap(kSigned, this.solve(kSigned, rCur)) : this.solve(kSigned, rCur));
       const tooSmall = target.k - kCur <= 1e-13 * Math.max(target.k, 1e-300);
       if (tooSmall || this.withinBound(rCur, r)) {
         push(kSigned, r);
@@ -674,6 +675,31 @@ class Tracer {
     if (!converged) return null;
     for (let i = 0; i < n; i++) if (!Number.isFinite(re[i]) || !Number.isFinite(im[i])) return null;
     return symmetrizeInPlace(re, im, this.scale);
+  }
+
+  /**
+   * At a special gain the special points are known roots (a breakaway with its multiplicity,
+   * ±jω of a crossing): divide them out of D + kN and solve only the rest, so the special points
+   * are exact members and the others are not spoilt by the ill-conditioned multiple root.
+   * Null when the division leaves a remainder (then `snap` is used).
+   */
+  private exactRoots(k: number, prev: Complex[]): Complex[] | null {
+    const rel = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b));
+    const known: Complex[] = [];
+    for (const b of this.breakaways) if (rel(b.gain, k)) for (let i = 0; i < b.branches; i++) known.push(b.s);
+    for (const x of this.crossings) {
+      if (!rel(x.gain, k)) continue;
+      known.push(cx(0, x.omega));
+      if (x.omega > 0) known.push(cx(0, -x.omega));
+    }
+    if (known.length === 0 || known.length > this.n) return null;
+    const p = this.charPoly(k);
+    const { q, r } = P.divmod(p, P.fromRoots(known));
+    const size = p.reduce((m, c) => Math.max(m, Math.abs(c)), 0);
+    if (r.some((c) => Math.abs(c) > 1e-7 * size)) return null;
+    const rest = q.length > 1 ? polyRoots(q) : [];
+    if (known.length + rest.length !== this.n) return null;
+    return matchRoots(prev, [...known, ...rest]);
   }
 
   /** At a special gain, moves the roots nearest each special point exactly onto it. */
