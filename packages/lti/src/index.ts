@@ -6,6 +6,7 @@ export type { Poly } from './poly.ts';
 export * from './rational.ts';
 export * from './transfer.ts';
 export * from './roots.ts';
+export * from './eigen.ts';
 export * from './statespace.ts';
 export * from './frequency.ts';
 export * from './margins.ts';

@@ -149,3 +149,22 @@ describe('realize', () => {
     expect(() => realize(rational([0, 0, 1], [1, 1]), 'block plant')).toThrow(/block plant is improper/);
   });
 });
+
+describe('safety against floating-point extremes', () => {
+  it('refuses, rather than hangs on, coefficients whose ratios overflow (ml-matrix spins on NaN)', () => {
+    // A leading coefficient of 1e-320 makes the companion entries overflow to Infinity.
+    expect(() => polyRoots([1, 1, 1, 1e-320])).toThrow(InputError);
+    expect(() => polyRoots([1e300, 1, 1, 1e-300])).toThrow(/too wide a range/);
+  });
+});
+
+describe('subnormal and tiny coefficients', () => {
+  it('finds roots of polynomials with subnormal inner coefficients without hanging', () => {
+    // (found by fast-check: a 5e-324 coefficient made the old balancing overflow to NaN,
+    // on which ml-matrix's QR iteration never returns)
+    const p = [3, 5e-324, -2, 1e-310, 1];
+    const r = polyRoots(p);
+    expect(r).toHaveLength(4);
+    for (const z of r) expect(cabs(P.evalComplex(p, z))).toBeLessThan(1e-9);
+  });
+});

@@ -1,7 +1,7 @@
-import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { type Complex, cabs, cdiv, compareComplex, csub, cx } from './complex.ts';
 import { InputError, MAX_ORDER, assertFinite } from './errors.ts';
 import { type Poly, derivative, evalComplex, trim } from './poly.ts';
+import { matrixEigenvalues } from './eigen.ts';
 
 /**
  * All roots of a real polynomial (ascending coefficients), as eigenvalues of its balanced
@@ -56,49 +56,7 @@ function companionEigenvalues(c: readonly number[]): Complex[] {
   // Upper Hessenberg companion: first row −c[n−1..0]/lead, ones on the subdiagonal.
   for (let j = 0; j < n; j++) m[0][j] = -c[n - 1 - j] / lead;
   for (let i = 1; i < n; i++) m[i][i - 1] = 1;
-  balance(m);
-  const e = new EigenvalueDecomposition(new Matrix(m), { assumeSymmetric: false });
-  const re = e.realEigenvalues;
-  const im = e.imaginaryEigenvalues;
-  return re.map((r, i) => cx(r, im[i]));
-}
-
-/** Parlett–Reinsch diagonal balancing in place (powers of 2: exact), improves eigenvalue accuracy. */
-function balance(a: number[][]): void {
-  const n = a.length;
-  const radix = 2;
-  let done = false;
-  for (let sweep = 0; !done && sweep < 100; sweep++) {
-    done = true;
-    for (let i = 0; i < n; i++) {
-      let r = 0;
-      let col = 0;
-      for (let j = 0; j < n; j++) {
-        if (j === i) continue;
-        col += Math.abs(a[j][i]);
-        r += Math.abs(a[i][j]);
-      }
-      if (col === 0 || r === 0) continue;
-      let g = r / radix;
-      let f = 1;
-      const s = col + r;
-      while (col < g) {
-        f *= radix;
-        col *= radix * radix;
-      }
-      g = r * radix;
-      while (col > g) {
-        f /= radix;
-        col /= radix * radix;
-      }
-      if ((col + r) / f < 0.95 * s) {
-        done = false;
-        const inv = 1 / f;
-        for (let j = 0; j < n; j++) a[i][j] *= inv;
-        for (let j = 0; j < n; j++) a[j][i] *= f;
-      }
-    }
-  }
+  return matrixEigenvalues(m, 'companion matrix of the polynomial');
 }
 
 /** A few Newton steps on the original polynomial; keeps the step only while |p| decreases. */
@@ -187,4 +145,3 @@ export function rootClusters(roots: readonly Complex[], tol = 1e-4): RootCluster
 
 
 /** Parlett–Reinsch diagonal balancing of a square matrix, in place (also used for assembled state matrices). */
-export { balance as balanceMatrix };

@@ -1,5 +1,5 @@
-import { type Complex, InputError, balanceMatrix, cx, padeDelay, poly, rational, realize } from '@loopwright/lti';
-import { EigenvalueDecomposition, Matrix, inverse } from 'ml-matrix';
+import { type Complex, InputError, cx, matrixEigenvalues, padeDelay, poly, rational, realize } from '@loopwright/lti';
+import { Matrix, inverse } from 'ml-matrix';
 import type { ParameterOverrides } from '../resolve.ts';
 import { type ReduceOptions, DEFAULT_PADE_ORDER, type Linearisable, compiledOf } from './reduce.ts';
 import { type SignalGraph, type SignalRef, prepareTransmission, wholeGraph } from './points.ts';
@@ -106,10 +106,7 @@ export function eigenvalues(A: number[][]): Complex[] {
   if (A.length === 0) return [];
   // Balance first: block realisations mix time scales (a Padé block of a 0.5 ms delay has
   // companion entries ~1e12), which costs the unbalanced eigenvalues several digits.
-  const m = A.map((r) => r.slice());
-  balanceMatrix(m);
-  const e = new EigenvalueDecomposition(new Matrix(m), { assumeSymmetric: false });
-  return e.realEigenvalues.map((re, i) => cx(re, e.imaginaryEigenvalues[i])).sort((a, b) => a.re - b.re || a.im - b.im);
+  return matrixEigenvalues(A, 'assembled state matrix of the diagram').sort((a, b) => a.re - b.re || a.im - b.im);
 }
 
 /** Closed-loop poles by method B: eigenvalues of the assembled state matrix (all dead times Padé). */
