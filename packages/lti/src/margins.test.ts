@@ -67,6 +67,33 @@ describe('loopMargins: delay margin', () => {
   });
 });
 
+describe('loopMargins: a gain crossover reached with phase lead', () => {
+  // L = 4s/((s + 1)(0.01s + 1)): closed loop 0.01s² + 5.01s + 1, stable (both coefficients of one
+  // sign). |L| = 1 first near ω ≈ 0.25 with ∠L ≈ +76° (a lead), then near ω ≈ 400. Dead time only
+  // adds lag, so at each crossover the delay that reaches −1 is ((180° + ∠L) mod 360°)/ω — checked
+  // here against the definition: with that delay, L(jω)·e^(−jωT) = −1 (derived here).
+  const L = tfFromCoefficients([0, 4], P.mul([1, 1], [1, 0.01]));
+  const m = loopMargins(L);
+  it('reports a positive delay margin for every crossover of a stable loop', () => {
+    expect(m.closedLoopStable).toBe(true);
+    expect(m.gainCrossoverDetails).toHaveLength(2);
+    const ev = frequencyEvaluator(L);
+    for (const c of m.gainCrossoverDetails) {
+      expect(c.delayMargin).toBeGreaterThan(0);
+      const v = ev(c.omega);
+      const rot = -c.omega * c.delayMargin;
+      const re = v.re * Math.cos(rot) - v.im * Math.sin(rot);
+      const im = v.re * Math.sin(rot) + v.im * Math.cos(rot);
+      expect(Math.hypot(re + 1, im)).toBeLessThan(1e-6);
+    }
+    expect(m.delayMargin).toBe(Math.min(...m.gainCrossoverDetails.map((c) => c.delayMargin)));
+  });
+  it('the closed loop is stable just below the delay margin and unstable just above (Padé poles)', () => {
+    expect(loopMargins({ ...L, delay: 0.98 * m.delayMargin! }).closedLoopStable).toBe(true);
+    expect(loopMargins({ ...L, delay: 1.02 * m.delayMargin! }).closedLoopStable).toBe(false);
+  });
+});
+
 describe('loopMargins: edge cases', () => {
   it('a loop that never reaches |L| = 1 has no phase margin; a first-order loop has no phase crossover', () => {
     const m = loopMargins(tfFromCoefficients([0.5], [1, 1]));

@@ -14,8 +14,11 @@ import { MAX_PADE_ORDER, padeDelay, padeOrderFor } from './pade.ts';
  * Definitions (Ogata, Sec. 7-6; Skogestad & Postlethwaite, Sec. 2.4.3 (from memory)):
  *  - gain crossover ω_gc: |L(jω)| = 1 (all of them are found); phase margin PMᵢ = 180° + ∠L(jωᵢ),
  *    wrapped to (−180°, 180°]; the reported phase margin is the smallest (worst) one.
- *  - delay margin: min over gain crossovers of PMᵢ[rad]/ωᵢ (extra dead time that puts the
- *    Nyquist curve through −1 at that crossover; negative when that PM already is).
+ *  - delay margin: min over gain crossovers of the extra dead time that puts the Nyquist curve
+ *    through −1 there. Dead time only adds lag (−ωT), so for a stable closed loop it is the lag
+ *    still available, ((180° + ∠L) mod 360°)[rad]/ωᵢ ≥ 0 — a crossover reached with phase lead
+ *    (∠L > 0, e.g. an inner loop read with its outer loop closed) has PMᵢ < 0 after wrapping yet
+ *    a positive delay margin. For an unstable closed loop it is PMᵢ[rad]/ωᵢ (≤ 0 where PMᵢ is).
  *  - phase crossover ω_pc: ∠L(jω) = −180° + k·360° (all of them); each gives the factor
  *    1/|L(jω_pc)| that moves the curve onto −1. Gain margin = the smallest factor above 1;
  *    lower gain margin = the largest factor below 1 (conditionally stable loops).
@@ -156,7 +159,6 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
   }
   let worst: (typeof gainCrossoverDetails)[number] | null = null;
   for (const c of gainCrossoverDetails) if (!worst || c.phaseMarginDeg < worst.phaseMarginDeg) worst = c;
-  const delayMargin = gainCrossoverDetails.length ? Math.min(...gainCrossoverDetails.map((c) => c.delayMargin)) : null;
 
   const sVals = Array.from(grid, (_w, i) => 1 / Math.hypot(1 + re[i], im[i]));
   const tVals = Array.from(grid, (_w, i) => mag[i] / Math.hypot(1 + re[i], im[i]));
@@ -173,9 +175,14 @@ export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): Loop
   // crossover (lti-core's padeOrderFor), at least 3; an explicit opts.padeOrder wins.
   const wRef = 2 * Math.max(1e-12, ...gainCrossoverDetails.map((c) => c.omega), upper ? upper.omega : 0);
   const hint = L.delay > 0 ? Math.max(3, padeOrderFor(L.delay, wRef)) : 1;
+  const stability = verdict(hint);
+  if (stability.closedLoopStable) {
+    for (const c of gainCrossoverDetails) c.delayMargin = (lag360(c.phaseMarginDeg) / DEG) / c.omega;
+  }
+  const delayMargin = gainCrossoverDetails.length ? Math.min(...gainCrossoverDetails.map((c) => c.delayMargin)) : null;
   return {
     ...empty,
-    ...verdict(hint),
+    ...stability,
     gainMargin: upper ? upper.gainFactor : null,
     gainMarginDb: upper ? 20 * Math.log10(upper.gainFactor) : null,
     phaseCrossover: upper ? upper.omega : null,
@@ -228,6 +235,9 @@ function dcValue(num: readonly number[], den: readonly number[]): number | null 
   if (d0 === 0) return null;
   return (num[0] ?? 0) / d0;
 }
+
+/** An angle reduced to [0°, 360°): the lag still available before the phase reaches −180° (mod 360°). */
+const lag360 = (deg: number): number => ((deg % 360) + 360) % 360;
 
 const wrap180 = (deg: number): number => {
   let x = deg % 360;
