@@ -261,6 +261,14 @@ describe('analysis views', () => {
 
   it('each export produces a valid file: PNG and SVG of every chart, traces CSV, design report', async () => {
     const save = async (selector: string) => {
+      const [chart] = selector.split(':');
+      if (chart !== 'traces' && chart !== 'report') {
+        // A chart exports once it is drawn; under load the redraw after a tab switch can lag.
+        await page.waitForFunction((name) => {
+          const h = (window as unknown as { __loopwright?: { analysis?: { chartOption(n: string): unknown } } }).__loopwright?.analysis;
+          return !!h && h.chartOption(name) != null;
+        }, chart, { timeout: 30_000, polling: 50 });
+      }
       const [dl] = await Promise.all([page.waitForEvent('download'), page.locator(`[data-export="${selector}"]`).first().click()]);
       const path = join(downloads, dl.suggestedFilename());
       await dl.saveAs(path);

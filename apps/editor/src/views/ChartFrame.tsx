@@ -4,16 +4,18 @@ import { Chart, type ChartProps } from './Chart.tsx';
 import { chartPngDataUrl, chartSvgText } from './chart-registry.ts';
 import { dataUrlToBlob, download, slug } from '../analysis/export.ts';
 import { useDiagramStore } from '../store/diagram-store.ts';
+import { useUiStore } from '../store/ui-store.ts';
 
 export function exportChart(name: string, kind: 'png' | 'svg', background: string): void {
   const title = slug(useDiagramStore.getState().diagram.title);
-  if (kind === 'png') {
-    const url = chartPngDataUrl(name, background);
-    if (url) download(`${title}-${name}.png`, dataUrlToBlob(url));
-  } else {
-    const svg = chartSvgText(name, background);
-    if (svg) download(`${title}-${name}.svg`, svg, 'image/svg+xml');
+  const data = kind === 'png' ? chartPngDataUrl(name, background) : chartSvgText(name, background);
+  if (!data) {
+    // The chart is being redrawn (theme change, tab switch): say so rather than do nothing.
+    useUiStore.getState().notify({ kind: 'info', title: `The ${name} chart is still being drawn; export again in a moment.` });
+    return;
   }
+  if (kind === 'png') download(`${title}-${name}.png`, dataUrlToBlob(data));
+  else download(`${title}-${name}.svg`, data, 'image/svg+xml');
 }
 
 export function ChartFrame(props: ChartProps & { title: string; background: string; extra?: ReactNode; overlay?: ReactNode }) {
