@@ -118,3 +118,21 @@ describe('heating-cascade demo', () => {
     expect(Math.abs(t.staticGain - 1)).toBeLessThan(1e-9);
   });
 });
+
+describe('positioning axis: outer loop against an ideal inner loop', () => {
+  it('an ideal speed loop leaves the position loop Kp_pos·e^(−T_enc·s)/s, with its closed-form margins', () => {
+    // With the speed loop ideal (motor speed = demand), the position loop is Kp_pos/r_pulley ·
+    // r_pulley/s · e^(−T s) = k e^(−θs)/s: ωgc = k, PM = 90° − kθ, GM = π/(2kθ) — the
+    // integrator-plus-dead-time formulas of reference row R24 (derived there from the definitions).
+    const d = demo('positioning-axis');
+    const value = (n: string) => d.parameters.find((p) => p.name === n)!.value;
+    const k = value('Kp_pos');
+    const theta = value('T_enc');
+    const pair = analyseLoops(d).outerVsIdeal.find((o) => o.outer === 'cut-position')!;
+    expect(pair).toBeDefined();
+    expect(pair.ideal.gainCrossover!).toBeCloseTo(k, 6);
+    expect(pair.ideal.phaseMarginDeg!).toBeCloseTo(90 - (k * theta * 180) / Math.PI, 4);
+    expect(pair.ideal.gainMargin!).toBeCloseTo(Math.PI / (2 * k * theta), 3);
+    expect(pair.ideal.closedLoopStable).toBe(true);
+  });
+});

@@ -100,17 +100,34 @@ export function feedbackWires(c: CompiledGraph): string[] {
 }
 
 /**
- * The diagram with the loop opened at `wire` replaced by an ideal one: the signal fed back
- * (the wire's source) follows its set-point exactly, i.e. the summing junction the wire enters
- * sees zero error: w·y + Σ other inputs = 0 ⇒ y = −Σ(w_e·x_e)/w.
+ * The diagram with the loop opened at `wire` replaced by an ideal one: the controlled signal
+ * follows its set-point exactly, i.e. the summing junction the wire enters sees zero error.
+ * The controlled signal is found by walking back from the wire through the measurement chain
+ * (blocks that only feed the loop's return path: encoders, sensor lags, dead times) to the
+ * first signal used elsewhere; with g the chain's static gain, w·g·y + Σ other inputs = 0 ⇒
+ * y = −Σ(w_e·x_e)/(w·g). Forcing the sensor output instead would leave the real plant driven by
+ * a controller that sees no feedback.
  */
 export function withIdealInnerLoop(c: CompiledGraph, wire: string): CompiledGraph {
   const br = c.wireIndex.get(wire);
   if (!br || br.to < 0 || c.kinds[br.to] !== 'sum') {
     throw new InputError(`wire ${wire}: an ideal inner loop needs the cut to enter a summing junction`, { field: 'wire' });
   }
-  const a = br.from;
   const j = br.to;
+  let a = br.from;
+  let sensorGain = 1;
+  for (let guard = 0; guard < c.ids.length; guard++) {
+    if (c.kinds[a] !== 'transfer') break;
+    const outs = c.branches.filter((b) => b.from === a && b.to >= 0);
+    const ins = c.branches.filter((b) => b.to === a);
+    if (outs.length !== 1 || ins.length !== 1 || ins[0].from < 0) break;
+    const n0 = c.num[a][0] ?? 0;
+    const d0 = c.den[a][0] ?? 0;
+    const g = (n0 / d0) * ins[0].weight;
+    if (!Number.isFinite(g) || g === 0) break; // an integrating or differentiating element is no sensor
+    sensorGain *= g;
+    a = ins[0].from;
+  }
   const num = c.num.slice();
   const den = c.den.slice();
   const delay = c.delay.slice();
@@ -119,7 +136,9 @@ export function withIdealInnerLoop(c: CompiledGraph, wire: string): CompiledGrap
   delay[a] = 0;
   const branches: Branch[] = c.branches.filter((b) => b.wire !== wire && b.to !== a);
   for (const b of c.branches) {
-    if (b.to === j && b.wire !== wire) branches.push({ wire: `${b.wire}~ideal`, from: b.from, to: a, weight: -b.weight / br.weight, toBlock: c.ids[a] });
+    if (b.to === j && b.wire !== wire) {
+      branches.push({ wire: `${b.wire}~ideal`, from: b.from, to: a, weight: -b.weight / (br.weight * sensorGain), toBlock: c.ids[a] });
+    }
   }
   const kinds = c.kinds.slice();
   kinds[a] = 'sum';
