@@ -400,3 +400,46 @@ function sweepGrid(L: TransferFunction, g: FrequencyEvaluator, opts: MarginOptio
   return pts;
 }
 
+
+/** The scalar figures of a LoopMargins as plain, serialisable data (CLI JSON, worker messages, tables). */
+export interface MarginFigures {
+  gainMargin: number | null;
+  gainMarginDb: number | null;
+  phaseCrossover: number | null;
+  lowerGainMargin: number | null;
+  lowerGainMarginDb: number | null;
+  lowerPhaseCrossover: number | null;
+  phaseMarginDeg: number | null;
+  gainCrossover: number | null;
+  delayMargin: number | null;
+  peakSensitivity: number | null;
+  peakSensitivityFrequency: number | null;
+  peakComplementary: number | null;
+  peakComplementaryFrequency: number | null;
+  bandwidth: number | null;
+  closedLoopStable: boolean;
+  gainCrossovers: number[];
+  phaseCrossovers: number[];
+}
+
+export function marginFigures(m: LoopMargins): MarginFigures {
+  return {
+    gainMargin: m.gainMargin,
+    gainMarginDb: m.gainMarginDb,
+    phaseCrossover: m.phaseCrossover,
+    lowerGainMargin: m.lowerGainMargin,
+    lowerGainMarginDb: m.lowerGainMarginDb,
+    lowerPhaseCrossover: m.lowerPhaseCrossover,
+    phaseMarginDeg: m.phaseMarginDeg,
+    gainCrossover: m.gainCrossover,
+    delayMargin: m.delayMargin,
+    peakSensitivity: m.peakSensitivity,
+    peakSensitivityFrequency: m.peakSensitivityFrequency,
+    peakComplementary: m.peakComplementary,
+    peakComplementaryFrequency: m.peakComplementaryFrequency,
+    bandwidth: m.bandwidth,
+    closedLoopStable: m.closedLoopStable,
+    gainCrossovers: [...m.gainCrossovers],
+    phaseCrossovers: [...m.phaseCrossovers],
+  };
+}

@@ -1,5 +1,5 @@
 import { type CutAnalysis, MIN_SEPARATION, analyseLoops } from '@loopwright/graph';
-import type { LoopMargins } from '@loopwright/lti';
+import { type LoopMargins, marginFigures } from '@loopwright/lti';
 import { all, has, numberFlag, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { checkSets, fmtNumber, fmtRoots, fmtTransfer, jsonForm, readDiagram } from './diagram-input.ts';
@@ -17,23 +17,7 @@ it opened); inner/outer separation ratios of nested loops (flagged below ${MIN_S
   --json          machine-readable output (coefficients ascending, complex numbers [re, im])
 `;
 
-const marginSummary = (m: LoopMargins) => ({
-  gainCrossover: m.gainCrossover,
-  gainCrossovers: m.gainCrossovers,
-  phaseMarginDeg: m.phaseMarginDeg,
-  phaseCrossover: m.phaseCrossover,
-  phaseCrossovers: m.phaseCrossovers,
-  gainMargin: m.gainMargin,
-  gainMarginDb: m.gainMarginDb,
-  lowerGainMargin: m.lowerGainMargin,
-  lowerGainMarginDb: m.lowerGainMarginDb,
-  delayMargin: m.delayMargin,
-  peakSensitivity: m.peakSensitivity,
-  peakSensitivityFrequency: m.peakSensitivityFrequency,
-  peakComplementary: m.peakComplementary,
-  bandwidth: m.bandwidth,
-  closedLoopStable: m.closedLoopStable,
-});
+const marginSummary = marginFigures;
 
 const cutJson = (c: CutAnalysis) => ({
   cut: c.cut,

@@ -1,4 +1,4 @@
-import { type LoopMargins, loopMargins } from '@loopwright/lti';
+import { type LoopMargins, loopMargins, marginFigures } from '@loopwright/lti';
 import { has, numberFlag, parseArgs, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { fmtNumber, fmtRoots, fmtTransfer } from './diagram-input.ts';
@@ -30,25 +30,9 @@ Example: npx loopwright margins --loop "4/(s+1)^3"
 /** The JSON shape of the margins command (see --help). */
 export function marginsJson(m: LoopMargins) {
   return {
-    gainMargin: m.gainMargin,
-    gainMarginDb: m.gainMarginDb,
-    phaseCrossover: m.phaseCrossover,
-    lowerGainMargin: m.lowerGainMargin,
-    lowerGainMarginDb: m.lowerGainMarginDb,
-    lowerPhaseCrossover: m.lowerPhaseCrossover,
-    phaseMarginDeg: m.phaseMarginDeg,
-    gainCrossover: m.gainCrossover,
-    delayMargin: m.delayMargin,
-    peakSensitivity: m.peakSensitivity,
-    peakSensitivityFrequency: m.peakSensitivityFrequency,
-    peakComplementary: m.peakComplementary,
-    peakComplementaryFrequency: m.peakComplementaryFrequency,
-    bandwidth: m.bandwidth,
-    closedLoopStable: m.closedLoopStable,
+    ...marginFigures(m),
     closedLoopPoles: m.closedLoopPoles.map((p) => [p.re, p.im]),
     padeOrder: m.padeOrder,
-    gainCrossovers: m.gainCrossovers,
-    phaseCrossovers: m.phaseCrossovers,
     gainCrossoverDetails: m.gainCrossoverDetails,
     phaseCrossoverDetails: m.phaseCrossoverDetails,
   };

@@ -19,6 +19,7 @@ import {
   defaultFrequencyGrid,
   frequencyResponse,
   loopMargins,
+  marginFigures,
   poly,
   polyRoots,
   rootLocus,
@@ -160,25 +161,7 @@ function locusData(d: Diagram, sweep: SweepSpec): LocusData {
   return out;
 }
 
-export function marginsData(m: LoopMargins): MarginsData {
-  return {
-    gainMargin: m.gainMargin,
-    gainMarginDb: m.gainMarginDb,
-    phaseCrossover: m.phaseCrossover,
-    lowerGainMargin: m.lowerGainMargin,
-    lowerGainMarginDb: m.lowerGainMarginDb,
-    phaseMarginDeg: m.phaseMarginDeg,
-    gainCrossover: m.gainCrossover,
-    delayMargin: m.delayMargin,
-    peakSensitivity: m.peakSensitivity,
-    peakSensitivityFrequency: m.peakSensitivityFrequency,
-    peakComplementary: m.peakComplementary,
-    bandwidth: m.bandwidth,
-    closedLoopStable: m.closedLoopStable,
-    gainCrossovers: [...m.gainCrossovers],
-    phaseCrossovers: [...m.phaseCrossovers],
-  };
-}
+export const marginsData: (m: LoopMargins) => MarginsData = marginFigures;
 
 /** The cut the Frequency view opens: the one asked for, else the first cut, else a proposed one. */
 function cutFor(d: Diagram, cutId: string | null, overrides: Record<string, number>): { id: string; wire: string; label: string } | null {

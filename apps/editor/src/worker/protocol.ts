@@ -8,6 +8,7 @@
  * that is not for its newest request.
  */
 import type { Diagram } from '@loopwright/graph';
+import type { MarginFigures } from '@loopwright/lti';
 
 export interface Cx {
   re: number;
@@ -54,23 +55,7 @@ export interface LocusData {
   d0: number[] | null;
 }
 
-export interface MarginsData {
-  gainMargin: number | null;
-  gainMarginDb: number | null;
-  phaseCrossover: number | null;
-  lowerGainMargin: number | null;
-  lowerGainMarginDb: number | null;
-  phaseMarginDeg: number | null;
-  gainCrossover: number | null;
-  delayMargin: number | null;
-  peakSensitivity: number | null;
-  peakSensitivityFrequency: number | null;
-  peakComplementary: number | null;
-  bandwidth: number | null;
-  closedLoopStable: boolean;
-  gainCrossovers: number[];
-  phaseCrossovers: number[];
-}
+export type MarginsData = MarginFigures;
 
 export interface FrequencyData {
   cutId: string;
