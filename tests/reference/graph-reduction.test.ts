@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { type Complex, cabs, csub, cx, poly, revalComplex } from '@loopwright/lti';
+import { type Complex, cabs, csub, cx, poly, revalComplex, rootSetMismatch } from '@loopwright/lti';
 import {
   DIAGRAM_FORMAT,
   DIAGRAM_VERSION,
@@ -35,18 +35,7 @@ function diagram(blocks: [string, BlockKind, Record<string, ParamValue>?][], wir
   });
 }
 
-function rootError(got: Complex[], want: Complex[]): number {
-  expect(got.length).toBe(want.length);
-  const used = new Array<boolean>(got.length).fill(false);
-  let worst = 0;
-  for (const w of want) {
-    let best = -1;
-    for (let i = 0; i < got.length; i++) if (!used[i] && (best < 0 || cabs(csub(got[i], w)) < cabs(csub(got[best], w)))) best = i;
-    used[best] = true;
-    worst = Math.max(worst, cabs(csub(got[best], w)));
-  }
-  return worst;
-}
+const rootError = (got: Complex[], want: Complex[]) => rootSetMismatch(got, want);
 
 const expectDescending = (asc: readonly number[], want: number[], tol: number) => {
   const d = poly.toDescending(asc);

@@ -145,3 +145,30 @@ export function rootClusters(roots: readonly Complex[], tol = 1e-4): RootCluster
 
 
 /** Parlett–Reinsch diagonal balancing of a square matrix, in place (also used for assembled state matrices). */
+
+/**
+ * How far a computed root set is from an expected one: each expected root is matched (greedily,
+ * nearest first come) to a distinct computed root and the worst distance is returned, divided by
+ * max(relativeFloor, |expected|) when a floor is given (absolute distance otherwise). Infinity
+ * when the counts differ. Used to compare pole sets from two independent methods.
+ */
+export function rootSetMismatch(got: readonly Complex[], want: readonly Complex[], relativeFloor?: number): number {
+  if (got.length !== want.length) return Infinity;
+  const used = new Array<boolean>(got.length).fill(false);
+  let worst = 0;
+  for (const w of want) {
+    let best = -1;
+    let bestD = Infinity;
+    for (let i = 0; i < got.length; i++) {
+      if (used[i]) continue;
+      const d = cabs(csub(got[i], w));
+      if (d < bestD) {
+        bestD = d;
+        best = i;
+      }
+    }
+    used[best] = true;
+    worst = Math.max(worst, relativeFloor === undefined ? bestD : bestD / Math.max(relativeFloor, cabs(w)));
+  }
+  return worst;
+}

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { type Complex, cabs, csub, cx, poly, polyRoots, revalComplex } from '@loopwright/lti';
+import { type Complex, cabs, csub, cx, poly, polyRoots, revalComplex, rootSetMismatch } from '@loopwright/lti';
 import { demoDiagrams } from '../demos/index.ts';
 import { closedLoop, closedLoopPoles } from './reduce.ts';
 import { assembleStateSpace, closedLoopPolesStateSpace, evaluateStateSpace } from './state-space.ts';
@@ -7,19 +7,7 @@ import { sweepLocus } from './sweep.ts';
 import { analyseLoops } from './loops.ts';
 import { loopAtCut } from './cuts.ts';
 
-/** Largest relative distance from each expected root to a distinct computed root. */
-function rootError(got: Complex[], want: Complex[]): number {
-  expect(got.length).toBe(want.length);
-  const used = new Array<boolean>(got.length).fill(false);
-  let worst = 0;
-  for (const w of want) {
-    let best = -1;
-    for (let i = 0; i < got.length; i++) if (!used[i] && (best < 0 || cabs(csub(got[i], w)) < cabs(csub(got[best], w)))) best = i;
-    used[best] = true;
-    worst = Math.max(worst, cabs(csub(got[best], w)) / Math.max(1e-12, cabs(w)));
-  }
-  return worst;
-}
+const rootError = (got: Complex[], want: Complex[]) => rootSetMismatch(got, want, 1e-12);
 
 const demo = (id: string) => demoDiagrams.find((x) => x.id === id)!.diagram;
 const pade = { delays: 'pade' as const };

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { type Complex, cabs, csub, poly, polyRoots } from '@loopwright/lti';
+import { type Complex, cabs, csub, poly, polyRoots, rootSetMismatch } from '@loopwright/lti';
 import { closedLoop, closedLoopPoles } from './reduce.ts';
 import { closedLoopPolesStateSpace } from './state-space.ts';
 import { matchRoots, sweepLocus } from './sweep.ts';
@@ -7,18 +7,7 @@ import fc from 'fast-check';
 import { analyseLoops } from './loops.ts';
 import { diagramOf, threeLoopAxis } from './test-diagrams.ts';
 
-function rootError(got: Complex[], want: Complex[]): number {
-  expect(got.length).toBe(want.length);
-  const used = new Array<boolean>(got.length).fill(false);
-  let worst = 0;
-  for (const w of want) {
-    let best = -1;
-    for (let i = 0; i < got.length; i++) if (!used[i] && (best < 0 || cabs(csub(got[i], w)) < cabs(csub(got[best], w)))) best = i;
-    used[best] = true;
-    worst = Math.max(worst, cabs(csub(got[best], w)) / Math.max(1, cabs(w)));
-  }
-  return worst;
-}
+const rootError = (got: Complex[], want: Complex[]) => rootSetMismatch(got, want, 1);
 
 describe('sweeps over a whole diagram', () => {
   it('a gain in a three-loop diagram gives an exact locus that reproduces freshly reduced poles at 20 gains', () => {

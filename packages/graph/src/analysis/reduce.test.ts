@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { type Complex, cabs, csub, cx, poly, polyRoots, revalComplex } from '@loopwright/lti';
+import { type Complex, cabs, csub, cx, poly, polyRoots, revalComplex, rootSetMismatch } from '@loopwright/lti';
 import { cleanRoundOff, closedLoop, characteristicPolynomial, closedLoopPoles, divideExactly } from './reduce.ts';
 import { cutFrequencyData, loopAtCut } from './cuts.ts';
 import { assembleStateSpace, closedLoopPolesStateSpace, evaluateStateSpace } from './state-space.ts';
@@ -8,19 +8,7 @@ import { graph, nestedChain, probeBlock, sourceBlock, sumBlock, tfBlock, wires }
 import type { LinearGraph } from './linear-graph.ts';
 
 const near = (a: Complex, b: Complex) => cabs(csub(a, b));
-/** Largest distance from each expected root to its nearest computed root (counts must match). */
-function rootError(got: Complex[], want: Complex[]): number {
-  expect(got.length).toBe(want.length);
-  const used = new Array<boolean>(got.length).fill(false);
-  let worst = 0;
-  for (const w of want) {
-    let best = -1;
-    for (let i = 0; i < got.length; i++) if (!used[i] && (best < 0 || near(got[i], w) < near(got[best], w))) best = i;
-    used[best] = true;
-    worst = Math.max(worst, near(got[best], w));
-  }
-  return worst;
-}
+const rootError = (got: Complex[], want: Complex[]) => rootSetMismatch(got, want);
 
 /** Two-loop cascade of R27/R28: r → e1 → C1 → e2 → C2 → G2 → G1 → y, H2 from G2 to e2, H1 from G1 to e1. */
 function cascade(c1: number, c2: number, g2: [number[], number[]], h2: number, g1: [number[], number[]], h1: number): LinearGraph {
