@@ -9,9 +9,12 @@ let passed = 0;
 let failed = 0;
 let ok = true;
 
-function run(label, cmd, args) {
+// Each stage has a wall-clock cap, so that a runaway test fails the run loudly instead of
+// holding CI until its own limit.
+function run(label, cmd, args, minutes = 20) {
   console.log(`\n=== ${label}: ${cmd} ${args.join(' ')}`);
-  const r = spawnSync(cmd, args, { stdio: 'inherit', env: process.env });
+  const r = spawnSync(cmd, args, { stdio: 'inherit', env: process.env, timeout: minutes * 60_000, killSignal: 'SIGKILL' });
+  if (r.error) console.error(`${label}: stopped after ${minutes} min (${r.error.message})`);
   if (r.status !== 0) ok = false;
   return r.status === 0;
 }
