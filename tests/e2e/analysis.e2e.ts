@@ -235,14 +235,22 @@ describe('analysis views', () => {
     writeFileSync(file, serializeDiagram(d));
     const r = spawnSync(process.execPath, [join(ROOT, 'apps/cli/bin/loopwright.mjs'), 'loops', file, '--json'], { cwd: ROOT, encoding: 'utf8' });
     expect(r.status, r.stderr).toBe(0);
-    const cli = JSON.parse(r.stdout) as { cuts: { cut: string; margins: Record<string, number | boolean | null> }[] };
+    const cli = JSON.parse(r.stdout) as {
+      cuts: { cut: string; margins: Record<string, number | boolean | null>; alone?: { opened: string[]; margins: Record<string, number | boolean | null> } }[];
+    };
     await page.getByRole('tab', { name: 'Loops' }).click();
     await settled(page);
     const table = page.getByTestId('loops-table');
-    await expect.poll(() => table.locator('tbody tr').count(), { timeout: 15_000 }).toBe(cli.cuts.length);
+    await expect.poll(() => table.locator('tbody tr[data-cut]').count(), { timeout: 15_000 }).toBe(cli.cuts.length);
     expect(cli.cuts.length).toBeGreaterThan(1);
-    for (const c of cli.cuts) {
-      const row = table.locator(`tr[data-cut="${c.cut}"]`);
+    // Each cut's row (other loops closed) and, for an enclosed loop, its inner-first row (loops around it opened).
+    const readings = cli.cuts.flatMap((c) => [
+      { name: c.cut, row: `tr[data-cut="${c.cut}"]`, margins: c.margins },
+      ...(c.alone && c.alone.opened.length ? [{ name: `${c.cut} inner-first`, row: `tr[data-cut-alone="${c.cut}"]`, margins: c.alone.margins }] : []),
+    ]);
+    expect(readings.length).toBeGreaterThan(cli.cuts.length);
+    for (const c of readings.map((x) => ({ cut: x.name, rowSel: x.row, margins: x.margins }))) {
+      const row = table.locator(c.rowSel);
       for (const field of ['gainCrossover', 'phaseMarginDeg', 'gainMarginDb', 'phaseCrossover', 'delayMargin', 'peakSensitivity', 'bandwidth', 'closedLoopStable']) {
         const cell = row.locator(`td[data-field="${field}"]`);
         const raw = await cell.getAttribute('data-value');

@@ -35,7 +35,8 @@ export function LoopsTable({ loops, pinned, names }: { loops: LoopsData; pinned:
         <tbody>
           {loops.rows.map((r) => {
             const p = pinned?.rows.find((x) => x.cutId === r.cutId);
-            return (
+            const inner = r.alone;
+            return [
               <tr key={r.cutId} data-cut={r.cutId} data-wire={r.wire}>
                 <td className="lw-nowrap" title={`wire ${r.wire}; loop through ${r.blocks.join(', ')}`}>
                   {r.label}
@@ -54,8 +55,26 @@ export function LoopsTable({ loops, pinned, names }: { loops: LoopsData; pinned:
                 <td data-field="closedLoopStable" data-value={String(r.margins.closedLoopStable)} className={r.margins.closedLoopStable ? 'lw-ok' : 'lw-bad'}>
                   {r.margins.closedLoopStable ? 'stable' : 'UNSTABLE'}
                 </td>
-              </tr>
-            );
+              </tr>,
+              inner && (
+                <tr key={`${r.cutId}:alone`} data-cut-alone={r.cutId} className="lw-muted">
+                  <td className="lw-nowrap" title={`opened: ${inner.opened.join(', ')}`}>
+                    ↳ tuned inner-first
+                  </td>
+                  {LOOP_COLUMNS.map((c) => {
+                    const v = inner.margins[c.field] as number | null;
+                    return (
+                      <td key={c.field} data-field={c.field} data-value={v === null ? 'null' : String(v)}>
+                        {cellText(v, c.field)}
+                      </td>
+                    );
+                  })}
+                  <td data-field="closedLoopStable" data-value={String(inner.margins.closedLoopStable)} className={inner.margins.closedLoopStable ? 'lw-ok' : 'lw-bad'}>
+                    {inner.margins.closedLoopStable ? 'stable' : 'UNSTABLE'}
+                  </td>
+                </tr>
+              ),
+            ];
           })}
         </tbody>
       </table>

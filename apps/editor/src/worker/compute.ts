@@ -232,6 +232,7 @@ export function loopsFromReport(rep: LoopsReport): LoopsData {
       stable: c.stable,
       blocks: [...c.blocks],
       margins: marginsData(c.margins),
+      alone: c.alone.opened.length ? { margins: marginsData(c.alone.margins), opened: [...c.alone.opened] } : null,
     })),
     separations: rep.separations.map((s) => ({ inner: s.inner, outer: s.outer, ratio: s.ratio, basis: s.basis, flag: s.flag, note: s.note })),
     outerVsIdeal: rep.outerVsIdeal.map((o) => {

@@ -81,6 +81,8 @@ export interface LoopRow {
   stable: boolean;
   blocks: string[];
   margins: MarginsData;
+  /** The same cut read inner-first: the loops around it opened (null when none enclose it). */
+  alone: { margins: MarginsData; opened: string[] } | null;
 }
 
 export interface SeparationRow {
