@@ -8,5 +8,6 @@ export default defineConfig({
     exclude: ['**/node_modules/**', 'tests/e2e/**'],
     testTimeout: 30000,
     pool: 'threads',
+    setupFiles: ['tests/setup-fast-check.ts'],
   },
 });

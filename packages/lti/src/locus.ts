@@ -424,7 +424,7 @@ function rootsAnyDegree(p: number[]): Complex[] {
   for (let i = 0; i < deg; i++) a.push(new Array<number>(deg).fill(0));
   for (let j = 0; j < deg; j++) a[0][j] = -q[deg - 1 - j] / q[deg];
   for (let i = 1; i < deg; i++) a[i][i - 1] = 1;
-  const eig = matrixEigenvalues(a, 'companion matrix of the breakaway polynomial');
+  const eig = matrixEigenvalues(a, 'companion matrix of the breakaway polynomial', true, true);
   const d = P.derivative(q);
   const out: Complex[] = new Array<Complex>(lowZeros).fill(cx(0));
   eig.forEach((z0) => {

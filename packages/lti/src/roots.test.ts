@@ -170,3 +170,18 @@ describe('subnormal and tiny coefficients', () => {
     for (const z of r) expect(cabs(P.evalComplex(p, z))).toBeLessThan(1e-9);
   });
 });
+
+describe('termination on QR-unfriendly companion matrices', () => {
+  it('finds the roots of a polynomial whose companion matrix stalls a QR iteration without a cap', () => {
+    // Found by fast-check: ml-matrix's general eigen-solver never returned on this one.
+    const p = [-10, -4.136346617284749e-32, -1.3310666205952676e-101, -5e-323, -1.8160199860257576e-140, 1.52774589344386e-247,
+      5.846963351755644e-258, -6.555440980410604e-236, -2.3195021885070776e-234, 9.834027066831423e-286, -10];
+    const r = polyRoots(p);
+    expect(r).toHaveLength(10);
+    // ≈ the tenth roots of −1: all on the unit circle, and each a root to rounding.
+    for (const z of r) {
+      expect(Math.abs(cabs(z) - 1)).toBeLessThan(1e-12);
+      expect(cabs(P.evalComplex(p, z))).toBeLessThan(1e-12);
+    }
+  });
+});

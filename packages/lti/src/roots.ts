@@ -56,7 +56,7 @@ function companionEigenvalues(c: readonly number[]): Complex[] {
   // Upper Hessenberg companion: first row −c[n−1..0]/lead, ones on the subdiagonal.
   for (let j = 0; j < n; j++) m[0][j] = -c[n - 1 - j] / lead;
   for (let i = 1; i < n; i++) m[i][i - 1] = 1;
-  return matrixEigenvalues(m, 'companion matrix of the polynomial');
+  return matrixEigenvalues(m, 'companion matrix of the polynomial', true, true);
 }
 
 /** A few Newton steps on the original polynomial; keeps the step only while |p| decreases. */
