@@ -402,25 +402,7 @@ function sweepGrid(L: TransferFunction, g: FrequencyEvaluator, opts: MarginOptio
 
 
 /** The scalar figures of a LoopMargins as plain, serialisable data (CLI JSON, worker messages, tables). */
-export interface MarginFigures {
-  gainMargin: number | null;
-  gainMarginDb: number | null;
-  phaseCrossover: number | null;
-  lowerGainMargin: number | null;
-  lowerGainMarginDb: number | null;
-  lowerPhaseCrossover: number | null;
-  phaseMarginDeg: number | null;
-  gainCrossover: number | null;
-  delayMargin: number | null;
-  peakSensitivity: number | null;
-  peakSensitivityFrequency: number | null;
-  peakComplementary: number | null;
-  peakComplementaryFrequency: number | null;
-  bandwidth: number | null;
-  closedLoopStable: boolean;
-  gainCrossovers: number[];
-  phaseCrossovers: number[];
-}
+export type MarginFigures = Omit<LoopMargins, 'closedLoopPoles' | 'padeOrder' | 'gainCrossoverDetails' | 'phaseCrossoverDetails'>;
 
 export function marginFigures(m: LoopMargins): MarginFigures {
   return {

@@ -78,13 +78,18 @@ export function responseOption(r: ResponseResult, probes: string[], pinned: Resp
     series.push(line(`${label} (linear)`, tracePairs(r.linear.time, r.linear.traces[id]), color, 'dashed', 1.5));
     if (pinned?.nonlinear.traces[id]) series.push(line(`${label} (pinned)`, tracePairs(pinned.nonlinear.time, pinned.nonlinear.traces[id]), pal.pinned, 'dotted', 1.5));
   });
+  return timeChart(pal, r.until, 'value', names, series);
+}
+
+/** The frame both time charts share: tooltip, scrolling legend, grid and time/value axes. */
+function timeChart(pal: Palette, until: number, yName: string, names: string[], series: unknown[]): ChartOption {
   return {
     animation: false,
     backgroundColor: pal.background,
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
     legend: { type: 'scroll', top: 0, left: 60, right: 10, data: names, textStyle: { color: pal.muted } },
     grid: { left: 64, right: 16, top: 28, bottom: 38 },
-    ...axes(pal, r.until, 'value'),
+    ...axes(pal, until, yName),
     series,
   };
 }
@@ -105,13 +110,5 @@ export function actuatorOption(r: ResponseResult, pinned: ResponseResult | null,
     series.push(line(`${a.label} (linear)`, tracePairs(r.linear.time, r.linear.traces[a.key]), color, 'dashed', 1.5));
     if (pinned?.nonlinear.traces[a.key]) series.push(line(`${a.label} (pinned)`, tracePairs(pinned.nonlinear.time, pinned.nonlinear.traces[a.key]), pal.pinned, 'dotted', 1.5));
   });
-  return {
-    animation: false,
-    backgroundColor: pal.background,
-    tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
-    legend: { type: 'scroll', top: 0, left: 60, right: 10, data: names, textStyle: { color: pal.muted } },
-    grid: { left: 64, right: 16, top: 28, bottom: 38 },
-    ...axes(pal, r.until, 'actuator'),
-    series,
-  };
+  return timeChart(pal, r.until, 'actuator', names, series);
 }
