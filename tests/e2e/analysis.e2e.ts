@@ -8,7 +8,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Page } from 'playwright-core';
+import type { Download, Page } from 'playwright-core';
 import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph';
 import { openEditor, screenshot, type EditorSession } from './harness.ts';
 
@@ -277,7 +277,15 @@ describe('analysis views', () => {
           return !!h && h.chartOption(name) != null;
         }, chart, { timeout: 30_000, polling: 50 });
       }
-      const [dl] = await Promise.all([page.waitForEvent('download'), page.locator(`[data-export="${selector}"]`).first().click()]);
+      // A chart being redrawn at the moment of the click (a late worker reply) answers with a
+      // notice asking to export again, as a user would be told; the test then clicks again.
+      let dl: Download | null = null;
+      for (let attempt = 0; attempt < 3 && !dl; attempt++) {
+        const waiting = page.waitForEvent('download', { timeout: 10_000 }).catch(() => null);
+        await page.locator(`[data-export="${selector}"]`).first().click();
+        dl = await waiting;
+      }
+      if (!dl) throw new Error(`export ${selector}: no download after three clicks`);
       const path = join(downloads, dl.suggestedFilename());
       await dl.saveAs(path);
       return { path, name: dl.suggestedFilename(), bytes: readFileSync(path) };
