@@ -1,0 +1,2 @@
+// Public API of @loopwright/study.
+export {};

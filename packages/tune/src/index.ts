@@ -1,0 +1,2 @@
+// Public API of @loopwright/tune.
+export {};
