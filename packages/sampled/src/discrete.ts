@@ -120,7 +120,7 @@ export function dtFormat(h: DiscreteTransferFunction, digits = 6): string {
   return d.length === 1 && d[0] === 1 ? n : `(${n})/(${P.format(d, 'z', digits)})`;
 }
 
-/** DC gain H(1) (±Infinity with a pole at z = 1). */
+/** Static gain H(1) (±Infinity with a pole at z = 1). */
 export function dtStaticGain(h: DiscreteTransferFunction): number {
   const n = P.evalReal(h.rational.num, 1);
   const d = P.evalReal(h.rational.den, 1);

@@ -140,7 +140,7 @@ export function holdEquivalent(G: TransferFunction, sampleTime: number, opts: Ho
 }
 
 /**
- * Frequency response of the zero-order hold with the sampler's 1/T (unit DC gain):
+ * Frequency response of the zero-order hold with the sampler's 1/T (unit static gain):
  * H(jω) = (1 − e^(−jωT))/(jωT) = e^(−jωT/2)·sin(ωT/2)/(ωT/2): half a sample of lag and a
  * sinc magnitude (Franklin, Powell & Workman, ch. 6 (from memory)).
  */

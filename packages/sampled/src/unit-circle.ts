@@ -12,7 +12,7 @@ const DEG = 180 / Math.PI;
  * arg(1 − e^(jθ)/r), again with a term in (−90°, 90°). Both are continuous in θ = ωT (a root on
  * the circle is taken as the limit from inside: −180° across it, as a lightly damped pole).
  * The sum is shifted by a multiple of 360° so that the low-frequency phase matches the
- * continuous convention (−90° per integrator at z = 1, −180° for a negative DC gain), and
+ * continuous convention (−90° per integrator at z = 1, −180° for a negative static gain), and
  * snapped to the principal argument of the directly evaluated H.
  */
 export interface UnitCircleEvaluator {
@@ -51,7 +51,7 @@ export function unitCircleEvaluator(h: DiscreteTransferFunction): UnitCircleEval
     return s;
   };
   const q = poles.filter(atOne).length - zeros.filter(atOne).length;
-  // Sign of the DC gain of the factors away from z = 1: c·Π(1 − zᵢ)/Π(1 − pⱼ).
+  // Sign of the static gain of the factors away from z = 1: c·Π(1 − zᵢ)/Π(1 − pⱼ).
   const anchor = (dcSign(c, zeros, poles, atOne) < 0 ? -180 : 0) - 90 * q;
   const offset = 360 * Math.round((anchor - sumAt(0, true) * DEG) / 360);
 
