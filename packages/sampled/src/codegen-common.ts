@@ -48,8 +48,9 @@ export function stNumber(v: number): string {
   return exp === undefined ? m : `${m}E${exp.startsWith('+') ? exp.slice(1) : exp}`;
 }
 
+const KIND_TEXT = { pid: 'PID', 'lead-lag': 'lead-lag', gain: 'gain', 'transfer-function': 'transfer-function' } as const;
 const INTEGRAL_TEXT = { backward: 'backward difference', forward: 'forward difference', tustin: 'trapezoidal (Tustin)' } as const;
-const METHOD_TEXT = { zoh: 'zero-order-hold equivalent', tustin: 'Tustin (bilinear)', matched: 'matched pole–zero' } as const;
+const METHOD_TEXT = { zoh: 'zero-order-hold equivalent', tustin: 'Tustin (bilinear)', matched: 'matched pole-zero' } as const;
 
 /** Plain-text lines describing a controller for the head of generated files. */
 export function describeController(c: DiscreteController, name: string): string[] {
@@ -59,7 +60,7 @@ export function describeController(c: DiscreteController, name: string): string[
     lines.push(`${name}: sampled PID controller, position form.`);
     lines.push(`Integral: ${INTEGRAL_TEXT[c.integral]}; derivative filter: ${c.derivative === 'tustin' ? 'Tustin' : 'backward difference'}; anti-windup: ${c.antiWindup}.`);
   } else {
-    lines.push(`${name}: sampled ${c.source} controller, order ${c.coefficients.a.length - 1}, ${METHOD_TEXT[c.method]}.`);
+    lines.push(`${name}: sampled ${KIND_TEXT[c.source]} controller, order ${c.coefficients.a.length - 1}, ${METHOD_TEXT[c.method]}.`);
     lines.push(`Anti-windup: ${c.antiWindup === 'limited-feedback' ? 'recursion on the limited output' : 'off'}.`);
   }
   lines.push(`Sample time T = ${T} s: call the step function exactly once every T.`);
@@ -69,10 +70,18 @@ export function describeController(c: DiscreteController, name: string): string[
       : `Computation delay assumed in the analysis: ${c.computeDelay} sample(s) (${c.computeDelay * T} s from sampling to output); this code does not add it.`,
   );
   lines.push(`C(z) = ${dtFormat(c.transfer, 10)} (limits ignored).`);
-  lines.push('Input e = setpoint − measurement; output u limited to [umin, umax].');
+  lines.push('Input e = setpoint - measurement; output u limited to [umin, umax].');
   lines.push('Caution: a design aid. Validate on the real plant with limits, interlocks and emergency');
   lines.push('stops in place, and follow the applicable functional-safety standards and local codes.');
   return lines;
+}
+
+/** Generated code is plain ASCII (embedded toolchains and PLC editors); typographic signs are spelled out. */
+export function asciiOnly(text: string): string {
+  const out = text.replace(/[—–−]/g, '-').replace(/·/g, '*').replace(/Σ/g, 'sum ').replace(/≤/g, '<=').replace(/≥/g, '>=');
+  const bad = out.match(/[^\x09\x0a\x0d\x20-\x7e]/);
+  if (bad) throw new Error(`generated code holds a non-ASCII character ${JSON.stringify(bad[0])}`);
+  return out;
 }
 
 /** Human-readable coefficient listing (the `coefficients` export). */

@@ -1,4 +1,4 @@
-import { checkCodeName, describeController, stNumber } from './codegen-common.ts';
+import { asciiOnly, checkCodeName, describeController, stNumber } from './codegen-common.ts';
 import type { DiscreteController, DiscreteLinear, DiscretePid } from './controller.ts';
 
 /**
@@ -15,7 +15,7 @@ export function generateStructuredText(c: DiscreteController, name: string): { p
   const head = ['(*', ...describeController(c, name).map((l) => `  ${l}`), '  An absent output limit is written as +/-1.0E308.', '*)'];
   const body = c.kind === 'pid' ? pidSt(c) : linearSt(c);
   const text = [...head, `FUNCTION_BLOCK ${fb}`, ...body, 'END_FUNCTION_BLOCK', ''].join('\n');
-  return { path: `${name}.st`, text };
+  return { path: `${name}.st`, text: asciiOnly(text) };
 }
 
 const io = [
@@ -114,8 +114,9 @@ function linearSt(c: DiscreteLinear): string[] {
     'IF RESET OR NOT STARTED THEN',
   ];
   if (n > 0) {
-    lines.push(`    W[${n - 1}] := -A[${n}] * U_INIT;`);
-    if (n > 1) lines.push(`    FOR I := ${n - 2} TO 0 BY -1 DO`, '        W[I] := -A[I + 1] * U_INIT + W[I + 1];', '    END_FOR;');
+    // W[1] … W[n−1] as for a held output; then W[0] so that the output starts at U_INIT.
+    if (n > 1) lines.push(`    W[${n - 1}] := -A[${n}] * U_INIT;`);
+    if (n > 2) lines.push(`    FOR I := ${n - 2} TO 1 BY -1 DO`, '        W[I] := -A[I + 1] * U_INIT + W[I + 1];', '    END_FOR;');
     lines.push('    W[0] := U_INIT;');
   }
   lines.push('    LAST_E := 0.0;', '    B0_USED := B[0];', '    STARTED := TRUE;', 'END_IF;');

@@ -31,8 +31,9 @@ export function createControllerState(c: DiscreteController, initialOutput = 0):
     const { a } = c.coefficients;
     const n = a.length - 1;
     s.w = new Array<number>(n).fill(0);
-    // Held output u0 with e = 0: wᵢ = −Σ_{j>i} a_j·u0 (steady for controllers with an integrator); then v = u0 exactly.
-    for (let i = n - 1; i >= 0; i--) s.w[i] = -a[i + 1] * initialOutput + (i + 1 < n ? s.w[i + 1] : 0);
+    // w1 … w(n−1) as for a held output u0 with e = 0 (wᵢ = −Σ_{j>i} a_j·u0); w0 = u0 so that v = u0
+    // exactly (the held state itself for controllers with an integrator, where −Σ_{j≥1} a_j = 1).
+    for (let i = n - 1; i >= 1; i--) s.w[i] = -a[i + 1] * initialOutput + (i + 1 < n ? s.w[i + 1] : 0);
     if (n > 0) s.w[0] = initialOutput;
   }
   return s;
