@@ -16,3 +16,4 @@ export * from './sampled-loop.ts';
 export * from './sample-rate.ts';
 export * from './sampled-margins.ts';
 export * from './zlocus.ts';
+export * from './delay-margin.ts';

@@ -3,6 +3,7 @@ import { cabs, loopMargins, poly, tfFromCoefficients } from '@loopwright/lti';
 import { discreteTransfer, dtDelay } from './discrete.ts';
 import { holdEquivalent } from './hold.ts';
 import { pulseMargins, sampledMarginFigures, sampledMargins } from './sampled-margins.ts';
+import { sampledDelayMargin } from './delay-margin.ts';
 import { sampleRateCheck } from './sample-rate.ts';
 import { sampledFrequencyResponse, unitCircleEvaluator } from './unit-circle.ts';
 
@@ -115,5 +116,31 @@ describe('sample time against the crossover', () => {
     expect(slow.notes.map((n) => n.code)).toContain('slow-sampling');
     expect(slow.continuousEstimate!.label).toMatch(/estimate/);
     expect(sampledMargins({ plant: L, sampleTime: 0.005 }).notes).toEqual([]);
+  });
+});
+
+describe('exact delay margin of a sampled loop', () => {
+  it('is the boundary: stable with 0.999·DM of extra dead time, not with 1.001·DM; close to the PM/ω reading for a well-filtered loop', () => {
+    const plant = tfFromCoefficients([1.2], fd([1, 2, 1, 0]));
+    for (const T of [0.1, 0.3]) {
+      const dm = sampledDelayMargin({ plant, sampleTime: T })!;
+      const at = (f: number) => sampledMargins({ plant: tfFromCoefficients([1.2], fd([1, 2, 1, 0]), f * dm), sampleTime: T }).closedLoopStable;
+      expect(at(0.999)).toBe(true);
+      expect(at(1.001)).toBe(false);
+      const reading = sampledMargins({ plant, sampleTime: T }).delayMargin!;
+      expect(Math.abs(dm - reading)).toBeLessThanOrEqual(0.01 * reading);
+    }
+  });
+  it('a whole number of samples of extra delay is exactly the PM/ω reading’s boundary', () => {
+    const G = tfFromCoefficients([0.4], fd([1, 1, 0]));
+    const T = 0.5;
+    const dm = sampledDelayMargin({ plant: G, sampleTime: T })!;
+    const reading = sampledMargins({ plant: G, sampleTime: T }).delayMargin!;
+    // both lie between the same whole samples
+    expect(Math.floor(dm / T)).toBe(Math.floor(reading / T));
+  });
+  it('0 for a loop that is already unstable; null when stable over the whole scan', () => {
+    expect(sampledDelayMargin({ plant: tfFromCoefficients([30], fd([1, 3, 2, 0])), sampleTime: 0.1 })).toBe(0);
+    expect(sampledDelayMargin({ plant: tfFromCoefficients([0.01], [1, 1]), sampleTime: 0.1 }, { maxDelay: 1 })).toBeNull();
   });
 });

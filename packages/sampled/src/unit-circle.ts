@@ -28,6 +28,8 @@ export interface UnitCircleEvaluator {
 
 /** Tolerance for a root at z = 1 (an integrator) and for a root on the unit circle. */
 const ON_CIRCLE = 1e-9;
+/** A computed root at z = 1 within rounding: an integrator (its coefficients rarely sum to exactly 0). */
+const atOne = (r: Complex) => Math.abs(r.re - 1) <= ON_CIRCLE && Math.abs(r.im) <= ON_CIRCLE;
 
 export function unitCircleEvaluator(h: DiscreteTransferFunction): UnitCircleEvaluator {
   const T = h.sampleTime;
@@ -41,7 +43,6 @@ export function unitCircleEvaluator(h: DiscreteTransferFunction): UnitCircleEval
   const zeros = num.length > 1 ? polyRoots(num) : [];
   const poles = den.length > 1 ? polyRoots(den) : [];
   const c = num[num.length - 1] / den[den.length - 1];
-  const atOne = (r: Complex) => Math.abs(r.re - 1) <= ON_CIRCLE && Math.abs(r.im) <= ON_CIRCLE;
   const fz = zeros.map(factorAngle);
   const fp = poles.map(factorAngle);
   const sumAt = (theta: number, lowLimit: boolean) => {
@@ -133,7 +134,7 @@ export function sampledFrequencyGrid(g: UnitCircleEvaluator, pointsPerDecade = 2
   const sizes: number[] = [];
   for (const r of [...g.poles, ...g.zeros]) {
     const m = cabs(r);
-    if (m === 0) continue;
+    if (m === 0 || atOne(r)) continue;
     const s = Math.hypot(Math.log(m), Math.atan2(r.im, r.re)) / T;
     if (s > 0 && Number.isFinite(s)) sizes.push(s);
   }
