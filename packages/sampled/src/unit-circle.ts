@@ -45,10 +45,14 @@ export function unitCircleEvaluator(h: DiscreteTransferFunction): UnitCircleEval
   const c = num[num.length - 1] / den[den.length - 1];
   const fz = zeros.map(factorAngle);
   const fp = poles.map(factorAngle);
+  const zOne = zeros.map(atOne);
+  const pOne = poles.map(atOne);
   const sumAt = (theta: number, lowLimit: boolean) => {
+    const cs = Math.cos(theta);
+    const sn = Math.sin(theta);
     let s = c < 0 ? Math.PI : 0;
-    zeros.forEach((r, i) => (s += lowLimit && atOne(r) ? Math.PI / 2 : fz[i](theta)));
-    poles.forEach((r, i) => (s -= lowLimit && atOne(r) ? Math.PI / 2 : fp[i](theta)));
+    for (let i = 0; i < fz.length; i++) s += lowLimit && zOne[i] ? Math.PI / 2 : fz[i](theta, cs, sn);
+    for (let i = 0; i < fp.length; i++) s -= lowLimit && pOne[i] ? Math.PI / 2 : fp[i](theta, cs, sn);
     return s;
   };
   const q = poles.filter(atOne).length - zeros.filter(atOne).length;
@@ -75,26 +79,20 @@ export function unitCircleEvaluator(h: DiscreteTransferFunction): UnitCircleEval
   return Object.assign(eval_, { poles, zeros, integrators: q, ...extra });
 }
 
-/** The continuous angle of the factor (e^(jθ) − r) as a function of θ (radians). */
-function factorAngle(r: Complex): (theta: number) => number {
+/** The continuous angle of the factor (e^(jθ) − r) as a function of θ (radians), given cos θ and sin θ. */
+function factorAngle(r: Complex): (th: number, cs: number, sn: number) => number {
   const m = cabs(r);
   if (m <= 1 + ON_CIRCLE) {
     // On the circle: use the unit-modulus root so that Re(1 − r·e^(−jθ)) ≥ 0.
     const rr = Math.abs(m - 1) <= ON_CIRCLE ? { re: r.re / m, im: r.im / m } : r;
-    return (th) => {
-      const cs = Math.cos(th);
-      const sn = Math.sin(th);
-      return th + Math.atan2(rr.re * sn - rr.im * cs, 1 - (rr.re * cs + rr.im * sn));
-    };
+    const a = rr.re;
+    const b = rr.im;
+    return (th, cs, sn) => th + Math.atan2(a * sn - b * cs, 1 - (a * cs + b * sn));
   }
   const base = Math.atan2(-r.im, -r.re);
   const qre = r.re / (m * m);
   const qim = -r.im / (m * m);
-  return (th) => {
-    const cs = Math.cos(th);
-    const sn = Math.sin(th);
-    return base + Math.atan2(-(sn * qre + cs * qim), 1 - (cs * qre - sn * qim));
-  };
+  return (_th, cs, sn) => base + Math.atan2(-(sn * qre + cs * qim), 1 - (cs * qre - sn * qim));
 }
 
 function dcSign(c: number, zeros: readonly Complex[], poles: readonly Complex[], atOne: (r: Complex) => boolean): number {
