@@ -13,20 +13,20 @@ export function run(): void {
   const pi = discretizeController({ kind: 'pid', kp: 0.9, ti: 0.012, umin: -10, umax: 10 }, { sampleTime: T, computeDelay: 1 });
   const continuousPi = tfFromCoefficients([0.9 / 0.012, 0.9], [0, 1]);
 
-  const zoh = bench('holdEquivalent, 2nd order with a fractional dead time', () => holdEquivalent(plant, T, { computeDelay: 1 }), { minRuns: 200, minMs: 300 });
+  const zoh = bench('sampled.zoh (2nd order, fractional dead time)', () => holdEquivalent(plant, T, { computeDelay: 1 }), { minRuns: 200, minMs: 300 });
   report(zoh);
   const loop = { plant, sampleTime: T, computeDelay: 1, controller: pi.transfer, continuousController: continuousPi };
-  const sm = bench('sampled.margins (pulse margins + continuous figures + estimate)', () => sampledMargins(loop), { minRuns: 20, minMs: 500 });
+  const sm = bench('sampled.margins (unit circle + continuous + estimate)', () => sampledMargins(loop), { minRuns: 20, minMs: 500 });
   report(sm, 50);
-  const cont = bench('lti loopMargins of the continuous loop (for comparison)', () => loopMargins(tmul(continuousPi, plant)), { minRuns: 20, minMs: 300 });
+  const cont = bench('sampled.margins.continuousOnly (lti loopMargins)', () => loopMargins(tmul(continuousPi, plant)), { minRuns: 20, minMs: 300 });
   report(cont);
   ratio('sampled margins / continuous margins', sm, cont);
-  const loc = bench('sampled.locus (z-plane locus with unit-circle crossings)', () => sampledLocus({ plant, sampleTime: T, computeDelay: 1, controller: pi.transfer }), { minRuns: 10, minMs: 500 });
+  const loc = bench('sampled.locus (z-plane, unit-circle crossings)', () => sampledLocus({ plant, sampleTime: T, computeDelay: 1, controller: pi.transfer }), { minRuns: 10, minMs: 500 });
   report(loc, 100);
-  const dm = bench('sampled.delayMargin (exact, scan + bisection)', () => sampledDelayMargin(loop), { minRuns: 5, minMs: 500, warmup: 1 });
+  const dm = bench('sampled.delayMargin (exact: scan + bisection)', () => sampledDelayMargin(loop), { minRuns: 5, minMs: 500, warmup: 1 });
   report(dm);
   const vec = exerciseInput(2000, 5);
-  const code = bench('export C + Structured Text + test vector (2000 samples)', () => {
+  const code = bench('sampled.export (C + ST + 2000-sample test vector)', () => {
     exportController(pi, 'c', 'speed_pi');
     exportController(pi, 'st', 'speed_pi');
     makeTestVector(pi, vec);

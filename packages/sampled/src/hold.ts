@@ -1,6 +1,7 @@
 import {
   type Complex,
   InputError,
+  MAX_ORDER,
   type StateSpace,
   type TransferFunction,
   cexp,
@@ -100,6 +101,13 @@ export function holdEquivalent(G: TransferFunction, sampleTime: number, opts: Ho
   const { samples: d, fraction: tau } = splitDelay(G.delay + D * T, T);
   if (num.length === 0) return discreteTransfer([], [1], T);
   const n = den.length - 1;
+  const order = n + d + (tau > 0 ? 1 : 0);
+  if (order > MAX_ORDER) {
+    throw new InputError(
+      `the dead time of ${G.delay + D * T} s is ${d} samples of ${T} s: the pulse transfer function would have order ${order}, above the limit of ${MAX_ORDER}; use a longer sample time for this loop`,
+      { field: 'sampleTime' },
+    );
+  }
 
   // Frequency scaling s = ω0·σ; the same H(z) is the hold equivalent of G(ω0σ) at T' = ω0·T.
   let q = 0;
