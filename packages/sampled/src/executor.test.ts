@@ -4,7 +4,7 @@ import { tfFromCoefficients } from '@loopwright/lti';
 import { type DiscreteLinear, type DiscretePid, discretizeController, linearController } from './controller.ts';
 import { filterSequence } from './discrete.ts';
 import { createControllerState, retuneController, runController, stepController, withCoefficients } from './executor.ts';
-import { exerciseInput, makeTestVector, testVectorMismatch } from './test-vector.ts';
+import { exerciseInput, makeTestVector, testVectorFromJson, testVectorMismatch, testVectorToJson } from './test-vector.ts';
 
 const pid = (over: Record<string, unknown> = {}, integral: 'backward' | 'forward' | 'tustin' = 'backward') =>
   discretizeController({ kind: 'pid', kp: 2, ti: 0.8, td: 0.1, n: 8, ...over }, { sampleTime: 0.01, integral }) as DiscretePid;
@@ -140,7 +140,14 @@ describe('test vectors', () => {
     const input = exerciseInput(300, 2);
     const v = makeTestVector(c, input, { name: 'axis_pid', retunes: [{ atSample: 150, coefficients: retuned.coefficients }] });
     expect(v.format).toBe('loopwright-test-vector');
-    expect(JSON.parse(JSON.stringify(v, (_k, x) => (x === Infinity ? 'inf' : x)))).toBeTruthy();
+    // JSON round trip keeps absent limits (±Infinity) of a retune
+    const open = pid({ kp: 2.5 });
+    const w = makeTestVector(c, input, { retunes: [{ atSample: 10, coefficients: { ...open.coefficients } }] });
+    const back = testVectorFromJson(testVectorToJson(w));
+    expect(back).toEqual(w);
+    expect(back.retunes[0].coefficients.umax).toBe(Infinity);
+    expect(() => testVectorFromJson('{"format":"other"}')).toThrow(/format/);
+    expect(() => testVectorFromJson(testVectorToJson({ ...w, output: w.output.slice(1) }))).toThrow(/outputs/);
     expect(testVectorMismatch(v, runController(c, input, { retunes: v.retunes }))).toBe(0);
     const bad = v.output.slice();
     bad[200] += 1e-6;

@@ -82,3 +82,40 @@ export function exerciseInput(count: number, amplitude = 1): number[] {
   }
   return out;
 }
+
+/**
+ * The test vector as JSON text. JSON has no infinity: an absent output limit (±Infinity) is
+ * written as null and read back as −Infinity (umin) or +Infinity (umax).
+ */
+export function testVectorToJson(v: TestVector): string {
+  return JSON.stringify(v, (_k, x) => (x === Infinity || x === -Infinity ? null : x), 1);
+}
+
+/** Reads a test vector written by `testVectorToJson` (or by hand), checking its shape; errors name the field. */
+export function testVectorFromJson(text: string): TestVector {
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch (err) {
+    throw new InputError(`test vector: not valid JSON (${(err as Error).message})`);
+  }
+  const v = raw as TestVector;
+  if (!v || typeof v !== 'object' || v.format !== 'loopwright-test-vector' || v.version !== 1) {
+    throw new InputError('test vector: field format must be "loopwright-test-vector" with version 1', { field: 'format' });
+  }
+  for (const f of ['input', 'output'] as const) {
+    if (!Array.isArray(v[f])) throw new InputError(`test vector: field ${f} must be an array of numbers`, { field: f });
+    assertFinite(v[f], `test vector ${f}`);
+  }
+  if (v.input.length !== v.output.length) throw new InputError(`test vector: ${v.input.length} inputs but ${v.output.length} outputs`, { field: 'output' });
+  for (const f of ['sampleTime', 'computeDelay', 'initialOutput', 'tolerance'] as const) {
+    if (typeof v[f] !== 'number' || !Number.isFinite(v[f])) throw new InputError(`test vector: field ${f} must be a finite number`, { field: f });
+  }
+  const retunes = Array.isArray(v.retunes) ? v.retunes : [];
+  for (const r of retunes) {
+    const c = r.coefficients as { umin: number | null; umax: number | null };
+    if (c.umin === null) c.umin = -Infinity;
+    if (c.umax === null) c.umax = Infinity;
+  }
+  return { ...v, retunes };
+}
