@@ -2,7 +2,7 @@
 import { bench, fitExponent, report, section } from './harness.ts';
 import { analyseLoops, closedLoop, compiledOf, demoDiagrams, loopAtCut, sweepLocus } from '@loopwright/graph';
 // Test builders (not public API): a cascade of N nested loops.
-import { nestedChain } from '../../packages/graph/src/analysis/test-graphs.ts';
+import { nestedChain } from '@loopwright/graph/testing';
 
 /** Mean CPU time per run (user + system, ms): on a shared machine wall time also counts other people's work. */
 function cpuMs(fn: () => unknown, runs: number): number {

@@ -3,7 +3,7 @@
 import { positioningAxis, type BlockKind, type ParamValue } from '@loopwright/graph';
 import { compileModel, simulate } from '@loopwright/sim';
 import { Solver } from 'odex';
-import { buildDiagram } from '../../packages/sim/src/test-support/build-diagram.ts';
+import { buildDiagram } from '@loopwright/sim/testing';
 import { bench, fitExponent, ratio, report, section } from './harness.ts';
 
 function chain(n: number) {

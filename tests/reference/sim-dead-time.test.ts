@@ -1,6 +1,6 @@
 import { compileModel, simulate } from '@loopwright/sim';
 import { describe, expect, it } from 'vitest';
-import { buildDiagram } from '../../packages/sim/src/test-support/build-diagram.ts';
+import { buildDiagram } from '@loopwright/sim/testing';
 
 const at = (res: { time: number[]; traces: Record<string, number[]> }, key: string, t: number) => {
   const i = res.time.findIndex((x) => Math.abs(x - t) < 1e-9);

@@ -2,7 +2,7 @@ import { compileModel, simulate } from '@loopwright/sim';
 import { poly, rational, radd, rmul, rdiv, rconst, realize, type Rational } from '@loopwright/lti';
 import { expm, matrix, type Matrix } from 'mathjs';
 import { describe, expect, it } from 'vitest';
-import { buildDiagram } from '../../packages/sim/src/test-support/build-diagram.ts';
+import { buildDiagram } from '@loopwright/sim/testing';
 
 /**
  * LTI diagrams against the exact solution: the closed loop is assembled here as one rational

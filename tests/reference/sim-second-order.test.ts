@@ -1,6 +1,6 @@
 import { compileModel, simulate } from '@loopwright/sim';
 import { describe, expect, it } from 'vitest';
-import { buildDiagram } from '../../packages/sim/src/test-support/build-diagram.ts';
+import { buildDiagram } from '@loopwright/sim/testing';
 
 describe('second-order step response (R20, R17)', () => {
   // 4/(s² + 2s + 4): ζ = 0.5, ωn = 2; y(t) = 1 − e^(−t)(cos √3t + sin √3t/√3) — derived here from the

@@ -3,7 +3,7 @@ import { main } from '../main.ts';
 import type { CliIo } from '../io.ts';
 import { locusFromDiagram } from './locus-diagram.ts';
 // Test-only builders from the graph package (not part of its public API).
-import { diagramOf, threeLoopAxis } from '../../../../packages/graph/src/analysis/test-diagrams.ts';
+import { diagramOf, threeLoopAxis } from '@loopwright/graph/testing';
 
 function fakeIo(files: Record<string, string>) {
   let out = '';
