@@ -37,12 +37,18 @@ function baseline(num: number[], den: number[], gains: readonly number[]): numbe
       for (let i = 0; i < n; i++) {
         let col = 0;
         let row = 0;
-        for (let j = 0; j < n; j++) if (j !== i) (col += Math.abs(a[j][i])), (row += Math.abs(a[i][j]));
+        for (let j = 0; j < n; j++) if (j !== i) {
+          col += Math.abs(a[j][i]);
+          row += Math.abs(a[i][j]);
+        }
         if (col === 0 || row === 0) continue;
         const f = 2 ** Math.round(Math.log2(Math.sqrt(row / col)));
         if (f === 1) continue;
         changed = true;
-        for (let j = 0; j < n; j++) (a[i][j] /= f), (a[j][i] *= f);
+        for (let j = 0; j < n; j++) {
+          a[i][j] /= f;
+          a[j][i] *= f;
+        }
       }
       if (!changed) break;
     }

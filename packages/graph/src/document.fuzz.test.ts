@@ -19,7 +19,11 @@ function paths(root: Json): Path[] {
   const out: Path[] = [];
   const walk = (node: Json, path: Path) => {
     if (Array.isArray(node)) node.forEach((c, i) => (out.push([...path, i]), walk(c, [...path, i])));
-    else if (node && typeof node === 'object') for (const k of Object.keys(node)) (out.push([...path, k]), walk(node[k], [...path, k]));
+    else if (node && typeof node === 'object')
+      for (const k of Object.keys(node)) {
+        out.push([...path, k]);
+        walk(node[k], [...path, k]);
+      }
   };
   walk(root, []);
   return out;

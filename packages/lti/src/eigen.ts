@@ -119,11 +119,12 @@ export function hessenbergEigenvalues(a: number[][], what = 'matrix'): Complex[]
   let p = 0;
   let q = 0;
   let r = 0;
-  let s = 0;
-  let w = 0;
-  let x = 0;
-  let y = 0;
-  let z = 0;
+  // Scratch values of the QR sweep, each assigned before it is read.
+  let s: number;
+  let w: number;
+  let x: number;
+  let y: number;
+  let z: number;
   while (nn >= 0) {
     let its = 0;
     let l: number;

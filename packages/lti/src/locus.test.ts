@@ -33,12 +33,18 @@ function mathjsRoots(p: readonly number[]): Complex[] {
     for (let i = 0; i < n; i++) {
       let c = 0;
       let r = 0;
-      for (let j = 0; j < n; j++) if (j !== i) (c += Math.abs(m[j][i])), (r += Math.abs(m[i][j]));
+      for (let j = 0; j < n; j++) if (j !== i) {
+        c += Math.abs(m[j][i]);
+        r += Math.abs(m[i][j]);
+      }
       if (c === 0 || r === 0) continue;
       const f = 2 ** Math.round(Math.log2(Math.sqrt(r / c)));
       if (f === 1) continue;
       changed = true;
-      for (let j = 0; j < n; j++) (m[i][j] /= f), (m[j][i] *= f);
+      for (let j = 0; j < n; j++) {
+        m[i][j] /= f;
+        m[j][i] *= f;
+      }
     }
     if (!changed) break;
   }

@@ -12,7 +12,7 @@ function errorOf(f: () => unknown): InputError {
     f();
   } catch (e) {
     if (e instanceof InputError) return e;
-    throw new Error(`expected InputError, got ${String(e)}`);
+    throw new Error(`expected InputError, got ${String(e)}`, { cause: e });
   }
   throw new Error('expected InputError, got success');
 }

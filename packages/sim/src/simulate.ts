@@ -172,10 +172,10 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
   let dwellUntil = -Infinity;
   const hRing = new Float64Array(64);
   let hSum = 0;
-  let segStart = 0;
   let segEnd = 0;
   let hCap = until;
-  let eventT = NaN;
+  // Where the segment's first event was located (NaN: none); reset at each segment start.
+  let eventT: number;
   let eventGuard = -1;
   let reached = 0;
 
@@ -568,7 +568,6 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     safe = t < safeUntil - 1e-12 * Math.max(1, t);
     const atBreak = !(safe && safeUntil < tEnd);
     if (!atBreak) tEnd = safeUntil;
-    segStart = t;
     segEnd = tEnd;
     eng.piece = 0.5 * (t + tEnd);
     segments++;

@@ -41,7 +41,7 @@ describe('loopwright check', () => {
     expect(await main(['check', 'b.loop.json'], h.io)).toBe(2);
     const lines = h.out.join('').split('\n');
     expect(lines).toContain('error  block speed-controller: field kp: "2*Kq" uses "Kq", not a named parameter');
-    expect(lines.some((l) => /^error  blocks current: |^error  block current: input "in" is driven by 2 wires/.test(l))).toBe(true);
+    expect(lines.some((l) => /^error {2}blocks current: |^error {2}block current: input "in" is driven by 2 wires/.test(l))).toBe(true);
     expect(lines.at(-2)).toMatch(/^b\.loop\.json: 2 errors, /);
   });
   it('--json lists the findings with counts', async () => {

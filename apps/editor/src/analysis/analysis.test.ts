@@ -174,7 +174,10 @@ describe('engine computations (what the worker runs)', () => {
     expect(L!.breakaways[0].gain).toBeCloseTo(1, 8);
     expect(L!.asymptotes!.centroid).toBeCloseTo(-1, 10);
     // The dense trace covers the slider range only.
-    for (const b of L!.rangeBranches!) for (const k of b.k) expect(k).toBeGreaterThanOrEqual(0.1 - 1e-12), expect(k).toBeLessThanOrEqual(10 + 1e-9);
+    for (const b of L!.rangeBranches!) for (const k of b.k) {
+      expect(k).toBeGreaterThanOrEqual(0.1 - 1e-12);
+      expect(k).toBeLessThanOrEqual(10 + 1e-9);
+    }
   });
   it('margins at the cut: |L(jωc)| = 1 at ωc² = −2 + √20 and PM = 90° − atan(ωc/2) for L = 4/(s(s+2)) (closed form)', () => {
     const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(4), sweep: sweepOf(4), cutId: 'c1', frequency: true });

@@ -18,7 +18,7 @@ const CLEAR = 26;
 
 function box(n: InternalNode | undefined) {
   if (!n) return null;
-  const { x, y } = n.internals.positionAbsolute;
+  const { y } = n.internals.positionAbsolute;
   return { top: y, bottom: y + (n.measured.height ?? 0) };
 }
 

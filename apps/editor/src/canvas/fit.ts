@@ -8,8 +8,7 @@ import type { ReactFlowInstance } from '@xyflow/react';
 export const READABLE_ZOOM = 0.6;
 const PAD = 30;
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-export function fitReadable(flow: ReactFlowInstance<any, any>, el: Element | null, maxZoom = 1.2): void {
+export function fitReadable(flow: ReactFlowInstance, el: Element | null, maxZoom = 1.2): void {
   const nodes = flow.getNodes();
   if (!el || nodes.length === 0) return;
   const r = el.getBoundingClientRect();

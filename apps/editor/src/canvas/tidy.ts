@@ -3,11 +3,12 @@
  * west side, outputs east, a summing junction's second input from below, so that feedback
  * wires come back underneath as in a textbook diagram.
  */
+import type { ELK } from 'elkjs/lib/elk.bundled.js';
 import type { Diagram } from '../store/graph-bridge.ts';
 import { blockSpec } from '../store/graph-bridge.ts';
 
 // elkjs is about 480 kB gzipped: loaded on the first Tidy, not with the editor.
-let elkReady: Promise<{ layout(graph: unknown): Promise<any> }> | null = null; // eslint-disable-line @typescript-eslint/no-explicit-any
+let elkReady: Promise<ELK> | null = null;
 const loadElk = () => (elkReady ??= import('elkjs/lib/elk.bundled.js').then((m) => new m.default()));
 const GRID = 10;
 

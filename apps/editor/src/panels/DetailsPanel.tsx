@@ -37,7 +37,7 @@ function outputsOf(d: Diagram, except: string): { value: string; label: string }
 function BlockDetails({ diagram, block }: { diagram: Diagram; block: Block }) {
   const st = useDiagramStore.getState();
   const spec = blockSpec(block.kind);
-  let inputs: string[] = [];
+  let inputs: string[];
   try {
     inputs = spec.inputs(block.params);
   } catch {

@@ -26,7 +26,10 @@ export function Chart(props: ChartProps) {
   const box = useRef<HTMLDivElement>(null);
   const inst = useRef<ChartInstance | null>(null);
   const handlers = useRef(props);
-  handlers.current = props;
+  // The latest handlers, for the chart's own event callbacks (refs are written after render, not during it).
+  useLayoutEffect(() => {
+    handlers.current = props;
+  });
 
   useLayoutEffect(() => {
     const el = box.current!;

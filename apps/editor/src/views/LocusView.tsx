@@ -27,6 +27,9 @@ export function gainForHit(locus: LocusData, hit: LocusHit): number {
   return hit.k;
 }
 
+/** One empty pole list, so that memo dependencies stay equal while no poles are in. */
+const NO_POLES: never[] = [];
+
 export function LocusView({ pal }: { pal: Palette }) {
   const analysis = useResultsStore((s) => s.analysis);
   const error = useResultsStore((s) => s.errors.analysis);
@@ -41,7 +44,7 @@ export function LocusView({ pal }: { pal: Palette }) {
   const [zoom, setZoom] = useState<PlaneZoom | null>(null);
 
   const locus = analysis?.locus?.ok ? analysis.locus.value : null;
-  const current = analysis?.poles.ok ? analysis.poles.value : [];
+  const current = analysis?.poles.ok ? analysis.poles.value : NO_POLES;
   const box = locusBox(size.width, size.height);
   // The window frames the part of the locus the slider range moves (and the poles, zeros and
   // special points near it), not the moving poles themselves, so it stays put while sliding.

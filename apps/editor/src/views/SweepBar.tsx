@@ -3,7 +3,7 @@
  * slider's value is live (analysis store) and follows into every view at once; releasing the
  * slider, pressing Apply or Enter commits it to the document (one undo step).
  */
-import { useEffect, useMemo, useRef } from 'react';
+import { useEffect, useLayoutEffect, useMemo, useRef } from 'react';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { documentValue, fmt, positionToValue, preferredChoice, sweepChoices, valueToPosition, type SweepChoice, type SweepRange } from '../analysis/sweep.ts';
@@ -60,7 +60,9 @@ export function SweepBar() {
   const ui = useAnalysisStore.getState;
   const slider = useRef<HTMLInputElement>(null);
   const choiceRef = useRef(choice);
-  choiceRef.current = choice;
+  useLayoutEffect(() => {
+    choiceRef.current = choice;
+  });
   // The native change event fires when a drag ends, wherever the pointer is released.
   useEffect(() => {
     const el = slider.current;

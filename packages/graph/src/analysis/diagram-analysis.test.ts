@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { type Complex, cabs, csub, poly, polyRoots, rootSetMismatch } from '@loopwright/lti';
+import { type Complex, cabs, poly, polyRoots, rootSetMismatch } from '@loopwright/lti';
 import { closedLoop, closedLoopPoles } from './reduce.ts';
 import { closedLoopPolesStateSpace } from './state-space.ts';
 import { matchRoots, sweepLocus } from './sweep.ts';

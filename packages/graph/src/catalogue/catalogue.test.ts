@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { type Complex, InputError, cx, tevalComplex } from '@loopwright/lti';
+import { type Complex, InputError, tevalComplex } from '@loopwright/lti';
 import type { Block, BlockKind, Diagram } from '../document-types.ts';
 import { emptyDiagram } from '../document.ts';
 import { linearForm, resolveParams } from '../resolve.ts';
