@@ -1,5 +1,7 @@
 #!/usr/bin/env node
-// `npm test`: type-check, unit + reference tests (vitest), then browser tests (tests/e2e/run.mjs).
+// `npm test`: the CLI bundle rebuilt (so nothing runs a stale one), type-check (tsc -b, every
+// project), lint, unit + reference tests (vitest), the installable-CLI check, then browser tests
+// (tests/e2e/run.mjs).
 // Prints one closing line "N passed, N failed" over everything it ran.
 import { spawnSync } from 'node:child_process';
 import { mkdirSync, readFileSync, existsSync } from 'node:fs';
@@ -26,9 +28,12 @@ function count(jsonFile) {
   failed += j.numFailedTests ?? 0;
 }
 
-if (!run('type-check', 'npx', ['tsc', '-p', 'tsconfig.json'])) failed += 1;
+if (!run('CLI bundle', 'npm', ['run', '--silent', 'build:cli'], 5)) failed += 1;
+if (!run('type-check', 'npm', ['run', '--silent', 'typecheck'])) failed += 1;
+if (!run('lint', 'npm', ['run', '--silent', 'lint'])) failed += 1;
 run('unit and reference tests', 'npx', ['vitest', 'run', '--reporter=default', '--reporter=json', '--outputFile.json=test-artifacts/unit.json']);
 count('test-artifacts/unit.json');
+if (!run('installable CLI', 'npm', ['run', '--silent', 'test:package'], 5)) failed += 1;
 run('browser tests', 'node', ['tests/e2e/run.mjs']);
 count('test-artifacts/e2e.json');
 

@@ -1,4 +1,5 @@
-import { create, parseDependencies, type MathNode } from 'mathjs';
+// The number-only build: parsing needs none of mathjs' BigNumber, Fraction or Complex types.
+import { create, parseDependencies, type MathNode } from 'mathjs/number';
 import { type Complex, cabs, csub } from './complex.ts';
 import { InputError, MAX_ORDER } from './errors.ts';
 import { polyRoots } from './roots.ts';
