@@ -15,7 +15,14 @@ import tseslint from 'typescript-eslint';
 const ROOT = path.dirname(fileURLToPath(import.meta.url));
 
 /** Files that only tests run: the tests beside code, their builders and tests/. */
-const TEST_FILES = ['**/*.test.ts', '**/*.test.tsx', 'packages/*/src/testing.ts', 'packages/*/src/**/test-*.ts', 'packages/*/src/test-support/**', 'tests/**'];
+const TEST_FILES = [
+  '**/*.test.ts',
+  '**/*.test.tsx',
+  'packages/*/src/testing.ts',
+  'packages/*/src/**/test-*.ts',
+  'packages/*/src/test-support/**',
+  'tests/**',
+];
 const PURE_SOURCES = ['packages/*/src/**/*.ts'];
 
 /** Globals every runtime of the pure packages has (declared for them in types/portable-globals.d.ts). */
@@ -27,10 +34,17 @@ const PLATFORM_GLOBALS = [...new Set([...Object.keys(globals.browser), ...Object
   .sort();
 
 const pureImports = {
-  paths: [...builtinModules.filter((m) => !m.startsWith('_')).map((name) => ({ name, message: 'packages/* are pure: no Node modules (take data as arguments; I/O belongs in an app).' }))],
+  paths: [
+    ...builtinModules
+      .filter((m) => !m.startsWith('_'))
+      .map((name) => ({ name, message: 'packages/* are pure: no Node modules (take data as arguments; I/O belongs in an app).' })),
+  ],
   patterns: [
     { regex: '^node:', message: 'packages/* are pure: no Node modules (take data as arguments; I/O belongs in an app).' },
-    { regex: '^(react|react-dom|@xyflow|zustand|zundo|echarts|elkjs)(/|$)', message: 'packages/* are pure: no React, DOM or editor libraries.' },
+    {
+      regex: '^(react|react-dom|@xyflow|zustand|zundo|echarts|elkjs)(/|$)',
+      message: 'packages/* are pure: no React, DOM or editor libraries.',
+    },
     { regex: '^@loopwright/(editor|cli)(/|$)', message: 'packages/* never import apps.' },
   ],
 };
@@ -41,11 +55,15 @@ const pureImports = {
  * `testing` entry, from test code.
  */
 const boundaries = {
-  meta: { type: 'problem', schema: [], messages: {
-    escape: 'Relative import "{{source}}" leaves {{from}}: import {{entry}} instead.',
-    deep: 'Import "{{source}}" reaches into a package\'s files: use its entry "{{entry}}".',
-    testing: '"{{source}}" holds test-only helpers: only tests and their builders may import it.',
-  } },
+  meta: {
+    type: 'problem',
+    schema: [],
+    messages: {
+      escape: 'Relative import "{{source}}" leaves {{from}}: import {{entry}} instead.',
+      deep: 'Import "{{source}}" reaches into a package\'s files: use its entry "{{entry}}".',
+      testing: '"{{source}}" holds test-only helpers: only tests and their builders may import it.',
+    },
+  },
   create(context) {
     const file = path.relative(ROOT, context.filename).split(path.sep).join('/');
     const home = /^(packages|apps)\/[^/]+/.exec(file)?.[0];
@@ -55,7 +73,10 @@ const boundaries = {
       if (source === undefined) return;
       if (source.startsWith('.')) {
         if (!home) return;
-        const target = path.relative(ROOT, path.resolve(path.dirname(context.filename), source)).split(path.sep).join('/');
+        const target = path
+          .relative(ROOT, path.resolve(path.dirname(context.filename), source))
+          .split(path.sep)
+          .join('/');
         if (target === home || target.startsWith(home + '/')) return;
         const other = /^(packages|apps)\/([^/]+)/.exec(target);
         const entry = other ? `"@loopwright/${other[2]}"` : 'through a package entry';
@@ -103,7 +124,10 @@ export default tseslint.config(
       'no-restricted-imports': ['error', pureImports],
       'no-restricted-globals': [
         'error',
-        ...PLATFORM_GLOBALS.map((name) => ({ name, message: 'packages/* are pure: no DOM or Node globals (take it as an argument, or move this into an app).' })),
+        ...PLATFORM_GLOBALS.map((name) => ({
+          name,
+          message: 'packages/* are pure: no DOM or Node globals (take it as an argument, or move this into an app).',
+        })),
       ],
     },
   },

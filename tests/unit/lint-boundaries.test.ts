@@ -60,9 +60,13 @@ describe('packages/* are pure', () => {
   });
 
   it('the CLI may use Node, the editor may use the DOM, and neither rule reaches them', async () => {
-    expect(await findings('apps/cli/src/virtual-probe.ts', "import { readFileSync } from 'node:fs';\nexport const r = readFileSync;")).toEqual([]);
+    expect(
+      await findings('apps/cli/src/virtual-probe.ts', "import { readFileSync } from 'node:fs';\nexport const r = readFileSync;"),
+    ).toEqual([]);
     expect(await findings('apps/editor/src/virtual-probe.ts', 'export const t = (): string => document.title;')).toEqual([]);
-    expect(await findings('apps/editor/src/virtual-probe.ts', "import { readFileSync } from 'node:fs';\nexport const r = readFileSync;")).toEqual(['no-restricted-imports@1']);
+    expect(
+      await findings('apps/editor/src/virtual-probe.ts', "import { readFileSync } from 'node:fs';\nexport const r = readFileSync;"),
+    ).toEqual(['no-restricted-imports@1']);
   });
 });
 
@@ -73,18 +77,27 @@ describe('packages are reached only through their entries', () => {
     });
     expect(result.messages.map((m) => m.ruleId)).toEqual(['loopwright/boundaries']);
     expect(result.messages[0].message).toContain('@loopwright/lti');
-    expect(await findings('apps/cli/src/commands/virtual-probe.ts', "export { main } from '../../../editor/src/main.tsx';")).toEqual(['loopwright/boundaries@1']);
+    expect(await findings('apps/cli/src/commands/virtual-probe.ts', "export { main } from '../../../editor/src/main.tsx';")).toEqual([
+      'loopwright/boundaries@1',
+    ]);
   });
 
   it("a package's files are reached only through its entry; the testing entry only from tests", async () => {
-    expect(await findings('apps/cli/src/virtual-probe.ts', "export { poly } from '@loopwright/lti/src/poly.ts';")).toEqual(['loopwright/boundaries@1']);
-    expect(await findings('apps/cli/src/virtual-probe.ts', "export { diagramOf } from '@loopwright/graph/testing';")).toEqual(['loopwright/boundaries@1']);
+    expect(await findings('apps/cli/src/virtual-probe.ts', "export { poly } from '@loopwright/lti/src/poly.ts';")).toEqual([
+      'loopwright/boundaries@1',
+    ]);
+    expect(await findings('apps/cli/src/virtual-probe.ts', "export { diagramOf } from '@loopwright/graph/testing';")).toEqual([
+      'loopwright/boundaries@1',
+    ]);
     expect(await findings('apps/cli/src/virtual-probe.test.ts', "export { diagramOf } from '@loopwright/graph/testing';")).toEqual([]);
     expect(await findings('tests/reference/virtual-probe.test.ts', "export { buildDiagram } from '@loopwright/sim/testing';")).toEqual([]);
   });
 
   it('a suppression that suppresses nothing is itself an error', async () => {
-    const found = await findings('packages/lti/src/virtual-probe.ts', '// eslint-disable-next-line @typescript-eslint/no-explicit-any\nexport const x = 1;');
+    const found = await findings(
+      'packages/lti/src/virtual-probe.ts',
+      '// eslint-disable-next-line @typescript-eslint/no-explicit-any\nexport const x = 1;',
+    );
     expect(found).toEqual(['fatal@1']);
   });
 });

@@ -30,10 +30,7 @@ function packageOf(input) {
 }
 
 function licences(packages) {
-  const parts = [
-    'Libraries compiled into loopwright.mjs, with their licences.',
-    '',
-  ];
+  const parts = ['Libraries compiled into loopwright.mjs, with their licences.', ''];
   for (const name of [...packages].sort()) {
     const dir = join(ROOT, 'node_modules', name);
     const pkg = JSON.parse(readFileSync(join(dir, 'package.json'), 'utf8'));
@@ -67,13 +64,25 @@ export async function buildCli() {
   const [out] = result.outputFiles;
   const inputs = Object.keys(result.metafile.inputs);
   // Libraries whose code is in the bundle (imported files that tree-shaking emptied do not count).
-  const used = Object.entries(Object.values(result.metafile.outputs)[0].inputs).filter(([, v]) => v.bytesInOutput > 0).map(([k]) => packageOf(k));
+  const used = Object.entries(Object.values(result.metafile.outputs)[0].inputs)
+    .filter(([, v]) => v.bytesInOutput > 0)
+    .map(([k]) => packageOf(k));
   const ours = inputs.filter((i) => packageOf(i) === null).map((i) => resolve(ROOT, i));
   // Besides the sources: this script and the lockfile (a library upgrade changes the bundle too).
   ours.push(fileURLToPath(import.meta.url), join(ROOT, 'package-lock.json'));
   const fromDist = (f) => relative(DIST, f).split(sep).join('/');
   writeAtomically(join(DIST, 'THIRD-PARTY-LICENSES.txt'), licences(new Set(used.filter(Boolean))));
-  writeAtomically(INPUTS, JSON.stringify({ note: 'Written by apps/cli/scripts/build.mjs; paths relative to this folder.', files: ours.filter(existsSync).map(fromDist).sort() }, null, 1) + '\n');
+  writeAtomically(
+    INPUTS,
+    JSON.stringify(
+      {
+        note: 'Written by apps/cli/scripts/build.mjs; paths relative to this folder.',
+        files: ours.filter(existsSync).map(fromDist).sort(),
+      },
+      null,
+      1,
+    ) + '\n',
+  );
   // The bundle last: its time stamp is what bin/ compares the inputs against.
   writeAtomically(BUNDLE, out.text);
   return { bytes: out.contents.length, ms: performance.now() - t0 };

@@ -23,7 +23,9 @@ env.npm_config_update_notifier = 'false';
 function run(cmd, args, cwd) {
   const r = spawnSync(cmd, args, { cwd, env, encoding: 'utf8', timeout: 180_000 });
   if (r.status !== 0) {
-    throw new Error(`${cmd} ${args.join(' ')} (in ${cwd}) failed with ${r.error?.message ?? `exit code ${r.status}`}\n${r.stdout ?? ''}${r.stderr ?? ''}`);
+    throw new Error(
+      `${cmd} ${args.join(' ')} (in ${cwd}) failed with ${r.error?.message ?? `exit code ${r.status}`}\n${r.stdout ?? ''}${r.stderr ?? ''}`,
+    );
   }
   return r.stdout;
 }
@@ -43,7 +45,9 @@ try {
   const gm = JSON.parse(margins).gainMargin;
   if (!(Math.abs(gm - 2) < 1e-9)) throw new Error(`installed CLI: gain margin of 4/(s+1)^3 is ${gm}, expected 2`);
   const files = run('npm', ['ls', '--parseable', '--all'], user).trim().split('\n').length - 1;
-  console.log(`installable CLI: ${tarball} installs offline into an empty folder (${files} package, no dependencies) and runs; ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+  console.log(
+    `installable CLI: ${tarball} installs offline into an empty folder (${files} package, no dependencies) and runs; ${((performance.now() - t0) / 1000).toFixed(1)} s`,
+  );
 } catch (err) {
   console.error(`installable CLI: FAILED\n${err instanceof Error ? err.message : String(err)}`);
   process.exitCode = 1;

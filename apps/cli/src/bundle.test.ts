@@ -38,9 +38,13 @@ describe('the bundled command', () => {
     ['a bad expression (exit 2)', ['margins', '--loop', '4/(s+1']],
     ['an unknown command (exit 2)', ['no-such-command']],
   ];
-  it.each(cases)('%s: same output and exit code as main() in-process', async (_label, argv) => {
-    const want = await inProcess(argv);
-    const got = bundled(argv);
-    expect(got).toEqual(want);
-  }, 180_000);
+  it.each(cases)(
+    '%s: same output and exit code as main() in-process',
+    async (_label, argv) => {
+      const want = await inProcess(argv);
+      const got = bundled(argv);
+      expect(got).toEqual(want);
+    },
+    180_000,
+  );
 });
