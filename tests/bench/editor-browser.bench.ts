@@ -10,7 +10,7 @@ import { join, resolve } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import type { Page } from 'playwright-core';
 import { CHROMIUM, openEditor, setup, teardown } from '../e2e/harness.ts';
-import { section } from './harness.ts';
+import { record, section, slug } from './harness.ts';
 
 const ROOT = resolve(import.meta.dirname, '..', '..');
 
@@ -20,6 +20,9 @@ const q = (xs: number[], f: number) => {
 };
 const line = (name: string, xs: number[], target: number, on: 'median' | 'p95') => {
   const v = on === 'median' ? q(xs, 0.5) : q(xs, 0.95);
+  record(`${slug(name)}.median`, q(xs, 0.5), 'ms');
+  record(`${slug(name)}.p95`, q(xs, 0.95), 'ms');
+  record(`${slug(name)}.runs`, xs.length, 'runs');
   const verdict = v <= target ? 'met' : 'MISSED';
   console.log(`  ${name.padEnd(58)} median ${q(xs, 0.5).toFixed(1).padStart(8)} ms  p95 ${q(xs, 0.95).toFixed(1).padStart(8)} ms  n=${xs.length}  (target ${on} ≤ ${target} ms: ${verdict})`);
 };
@@ -82,9 +85,12 @@ export async function run(): Promise<void> {
           await sliderLatencies(page, 5); // warm-up
           line(`slider → all views drawn, ${tab} view shown (positioning demo)`, await sliderLatencies(page, 40), 50, 'p95');
           const br = (await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { breakdown(): [number, number][] } } }).__loopwright.analysis.breakdown())).slice(-40);
-          console.log(`    of which: input → last engine reply median ${q(br.map((b) => b[0]), 0.5).toFixed(1)} ms, reply → drawn median ${q(br.map((b) => b[1]), 0.5).toFixed(1)} ms`);
+          const reply = record(`slider-${tab.toLowerCase()}.input-to-reply.median`, q(br.map((b) => b[0]), 0.5), 'ms');
+          const drawn = record(`slider-${tab.toLowerCase()}.reply-to-drawn.median`, q(br.map((b) => b[1]), 0.5), 'ms');
+          console.log(`    of which: input → last engine reply median ${reply.toFixed(1)} ms, reply → drawn median ${drawn.toFixed(1)} ms`);
         }
         const ms = await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { state(): { computeMs: Record<string, number> } } } }).__loopwright.analysis.state().computeMs);
+        for (const part of ['analysis', 'loops', 'response']) record(`worker-compute.${part}`, ms[part], 'ms');
         console.log(`  worker compute per update (last): analysis ${ms.analysis.toFixed(1)} ms, loops ${ms.loops.toFixed(1)} ms, response ${ms.response.toFixed(1)} ms`);
         await s.close();
       }
@@ -105,8 +111,12 @@ export async function run(): Promise<void> {
     total += gz;
     const start = html.includes(f) || f.startsWith('engine.worker');
     if (start) atStart += gz;
+    // Chunk names without vite's content hash, so that the figure's name is stable.
+    record(`chunk.${f.replace(/-[\w-]{8}\.js$/, '')}.gzip`, gz / 1024, 'kB');
     console.log(`  ${f.padEnd(58)} ${(gz / 1024).toFixed(0).padStart(6)} kB gzipped${start ? '' : ' (loaded on demand)'}`);
   }
+  record('javascript-at-start.gzip', atStart / 1024, 'kB');
+  record('javascript-all.gzip', total / 1024, 'kB');
   console.log(`  production JavaScript loaded at start, gzipped               ${(atStart / 1024).toFixed(0).padStart(6)} kB  (target ≤ 800 kB: ${atStart <= 800 * 1024 ? 'met' : 'MISSED'})`);
   console.log(`  production JavaScript, all chunks, gzipped                   ${(total / 1024).toFixed(0).padStart(6)} kB  (target ≤ 800 kB: ${total <= 800 * 1024 ? 'met' : 'MISSED'})`);
 }

@@ -1,5 +1,5 @@
 // graph analysis: closed-loop forms, cuts, exact sweeps, and cost growth with nested loops.
-import { bench, fitExponent, report, section } from './harness.ts';
+import { bench, fitExponent, record, report, section } from './harness.ts';
 import { analyseLoops, closedLoop, compiledOf, demoDiagrams, loopAtCut, sweepLocus } from '@loopwright/graph';
 // Test builders (not public API): a cascade of N nested loops.
 import { nestedChain } from '@loopwright/graph/testing';
@@ -24,11 +24,11 @@ export function run(): void {
     for (const from of sources) for (const to of probes) closedLoop(c, { block: from }, { block: to });
     for (const cut of d.cuts) loopAtCut(c, cut.wire);
   };
-  report(bench(`positioning axis: ${sources.length * probes.length} closed-loop forms + ${d.cuts.length} cuts' L(s)`, allForms, { minRuns: 30 }), 10);
-  console.log(`  (same, mean CPU time per run: ${cpuMs(allForms, 30).toFixed(2)} ms)`);
+  report(bench(`positioning axis: ${sources.length * probes.length} closed-loop forms + ${d.cuts.length} cuts' L(s)`, allForms, { minRuns: 30 }), 10, 'positioning-axis-all-forms');
+  console.log(`  (same, mean CPU time per run: ${record('positioning-axis-all-forms.cpu', cpuMs(allForms, 30), 'ms').toFixed(2)} ms)`);
   const locus = () => sweepLocus(d, 'Kp_pos');
   report(bench('positioning axis: exact locus of Kp_pos (whole diagram)', locus, { minRuns: 20 }), 25);
-  console.log(`  (same, mean CPU time per run: ${cpuMs(locus, 20).toFixed(2)} ms)`);
+  console.log(`  (same, mean CPU time per run: ${record('positioning-axis-exact-locus-of-kp-pos-whole-diagram.cpu', cpuMs(locus, 20), 'ms').toFixed(2)} ms)`);
   report(bench('positioning axis: loops report (cuts, margins, separations, ideal inner)', () => analyseLoops(d), { minRuns: 10 }));
 
   const ns = [2, 4, 8, 16];
@@ -43,5 +43,5 @@ export function run(): void {
     report(r);
     times.push(r.median);
   }
-  console.log(`  fitted cost exponent over N = ${ns.join(', ')}: time ∝ N^${fitExponent(ns, times).toFixed(2)}`);
+  console.log(`  fitted cost exponent over N = ${ns.join(', ')}: time ∝ N^${record('nested-chain.exponent', fitExponent(ns, times), 'exponent').toFixed(2)}`);
 }

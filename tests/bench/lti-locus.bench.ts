@@ -2,7 +2,7 @@
 // ratios, not absolute times).
 import { eigs } from 'mathjs';
 import { type Complex, cx, loopMargins, poly, rootLocus, tfFromCoefficients } from '@loopwright/lti';
-import { bench, fitExponent, ratio, report, section } from './harness.ts';
+import { bench, fitExponent, ratio, record, report, section } from './harness.ts';
 
 /** A loop with n poles and m zeros spread over two decades, some complex (our own test plant). */
 function plant(n: number, m: number): { num: number[]; den: number[] } {
@@ -66,6 +66,9 @@ export async function run(): Promise<void> {
   const { num, den } = plant(10, 4);
   const once = rootLocus(num, den, { samples: 400 });
   const special = once.breakaways.length + once.crossings.length;
+  record('locus-10-4.gains', once.gains.length, 'count');
+  record('locus-10-4.breakaways', once.breakaways.length, 'count');
+  record('locus-10-4.crossings', once.crossings.length, 'count');
   console.log(
     `  10-pole, 4-zero loop: ${once.gains.length} traced gains (400 base + adaptive), ${special} special points (breakaways ${once.breakaways.length}, crossings ${once.crossings.length})`,
   );
@@ -78,12 +81,12 @@ export async function run(): Promise<void> {
   if (failed.length) {
     // mathjs gives up (after its iteration limit) at some gains, which inflates the baseline:
     // also time it on only the gains where it converges, and compare per gain.
-    console.log(`  (mathjs eigs did not converge at ${failed.length} of ${once.gains.length} gains)`);
+    console.log(`  (mathjs eigs did not converge at ${record('baseline.failed-gains', failed.length, 'count')} of ${once.gains.length} gains)`);
     const bad = new Set(failed);
     const good = once.gains.filter((k) => !bad.has(k));
     if (good.length) {
       const fair = bench(`baseline on the ${good.length} converging gains only`, () => baseline(num, den, good), { minRuns: 5, minMs: 0, warmup: 1 });
-      report(fair);
+      report(fair, undefined, 'baseline-converging-gains');
       const perGain = { ...fair, median: (fair.median / good.length) * once.gains.length };
       ratio('baseline (converging gains, per gain) / locus', perGain, fast, { atLeast: 10 });
     }
@@ -93,6 +96,10 @@ export async function run(): Promise<void> {
   // Gain set so the loop crosses over near 1 rad/s (a working loop, not a near-open one).
   const L = tfFromCoefficients(poly.scale(dl.num, 20), dl.den, 0.3);
   const mr = loopMargins(L);
+  record('margins-loop.gain-margin', mr.gainMargin ?? NaN, 'ratio');
+  record('margins-loop.phase-margin', mr.phaseMarginDeg ?? NaN, 'deg');
+  record('margins-loop.phase-crossovers', mr.phaseCrossovers.length, 'count');
+  record('margins-loop.pade-order', mr.padeOrder ?? NaN, 'order');
   console.log(`  margins loop: GM ${mr.gainMargin?.toFixed(4)}, PM ${mr.phaseMarginDeg?.toFixed(2)}°, ${mr.phaseCrossovers.length} phase crossovers, Padé ${mr.padeOrder}`);
   report(bench('margins, 10th-order loop with dead time', () => loopMargins(L), { minRuns: 30, minMs: 500 }), 5);
 
@@ -108,5 +115,5 @@ export async function run(): Promise<void> {
     report(r);
     medians.push(r.median);
   }
-  console.log(`  fitted cost exponent (time ∝ n^p): p = ${fitExponent(sizes, medians).toFixed(2)}`);
+  console.log(`  fitted cost exponent (time ∝ n^p): p = ${record('locus-growth.exponent', fitExponent(sizes, medians), 'exponent').toFixed(2)}`);
 }

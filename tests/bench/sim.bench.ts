@@ -4,7 +4,7 @@ import { positioningAxis, type BlockKind, type ParamValue } from '@loopwright/gr
 import { compileModel, simulate } from '@loopwright/sim';
 import { Solver } from 'odex';
 import { buildDiagram } from '@loopwright/sim/testing';
-import { bench, fitExponent, ratio, report, section } from './harness.ts';
+import { bench, fitExponent, ratio, record, report, section } from './harness.ts';
 
 function chain(n: number) {
   const blocks: [string, BlockKind, Record<string, ParamValue>?][] = [['r', 'source', { shape: 'step', amplitude: 1 }]];
@@ -77,6 +77,9 @@ export async function run(): Promise<void> {
   section('sim: positioning-axis demo, 10 s simulated (saturation, dead time), rtol 1e-6');
   const axis = compileModel(positioningAxis);
   const probe = simulate(axis, { until: 10, rtol: 1e-6 });
+  record('positioning-axis-10-s.steps', probe.stats.accepted, 'count');
+  record('positioning-axis-10-s.evaluations', probe.stats.evaluations, 'count');
+  record('positioning-axis-10-s.events', probe.events.length, 'count');
   console.log(`  (${probe.status}; ${probe.stats.accepted} steps, ${probe.stats.evaluations} evaluations, ${probe.events.length} events)`);
   report(bench('positioning axis 10 s', () => simulate(axis, { until: 10, rtol: 1e-6 }), { minRuns: 5, minMs: 500, warmup: 2 }), 30);
   report(bench('positioning axis 0.3 s (the demo\'s own run)', () => simulate(axis, { until: 0.3, rtol: 1e-6 }), { minRuns: 10 }));
@@ -88,6 +91,9 @@ export async function run(): Promise<void> {
   const b = handWritten(opts.until, opts.outputStep, opts.rtol, opts.atol);
   let diff = 0;
   for (let i = 0; i < b.length; i++) diff = Math.max(diff, Math.abs(a.traces.y[i] - b[i]));
+  record('compiled-vs-hand-written.points', a.time.length, 'count');
+  record('compiled-vs-hand-written.hand-points', b.length, 'count');
+  record('compiled-vs-hand-written.max-difference', diff, 'value');
   console.log(`  (same grid: ${a.time.length} vs ${b.length} points, max difference ${diff.toExponential(2)})`);
   const compiled = bench('compiled PI loop, 20 s', () => simulate(model, opts), { minRuns: 20 });
   const hand = bench('hand-written RHS, same loop', () => handWritten(opts.until, opts.outputStep, opts.rtol, opts.atol), { minRuns: 20 });
@@ -103,7 +109,7 @@ export async function run(): Promise<void> {
     report(r);
     return r.median;
   });
-  console.log(`  fitted exponent (cost ∝ states^k): k = ${fitExponent(ns, perN).toFixed(2)}`);
+  console.log(`  fitted exponent (cost ∝ states^k): k = ${record('chain-growth.exponent', fitExponent(ns, perN), 'exponent').toFixed(2)}`);
 
   section('sim: cost growth with simulated time (PI loop, sinusoidal reference, fixed output step)');
   const ts = [10, 40, 160];
@@ -112,5 +118,5 @@ export async function run(): Promise<void> {
     report(r);
     return r.median;
   });
-  console.log(`  fitted exponent (cost ∝ time^k): k = ${fitExponent(ts, perT).toFixed(2)}`);
+  console.log(`  fitted exponent (cost ∝ time^k): k = ${record('time-growth.exponent', fitExponent(ts, perT), 'exponent').toFixed(2)}`);
 }
