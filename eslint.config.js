@@ -23,7 +23,7 @@ const TEST_FILES = [
   'packages/*/src/test-support/**',
   'tests/**',
 ];
-const PURE_SOURCES = ['packages/*/src/**/*.ts'];
+const PURE_SOURCES = ['packages/*/src/**/*.{ts,tsx}'];
 
 /** Globals every runtime of the pure packages has (declared for them in types/portable-globals.d.ts). */
 const PORTABLE_GLOBALS = new Set(['console', 'performance', 'structuredClone']);
