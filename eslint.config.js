@@ -72,15 +72,16 @@ const boundaries = {
       const source = node?.type === 'Literal' && typeof node.value === 'string' ? node.value : undefined;
       if (source === undefined) return;
       if (source.startsWith('.')) {
-        if (!home) return;
         const target = path
           .relative(ROOT, path.resolve(path.dirname(context.filename), source))
           .split(path.sep)
           .join('/');
-        if (target === home || target.startsWith(home + '/')) return;
+        // Inside a package or app: anything of its own. Elsewhere (tests/, configs): nothing of one.
+        if (home ? target === home || target.startsWith(home + '/') : !/^(packages|apps)\//.test(target)) return;
         const other = /^(packages|apps)\/([^/]+)/.exec(target);
-        const entry = other ? `"@loopwright/${other[2]}"` : 'through a package entry';
-        context.report({ node, messageId: 'escape', data: { source, from: home, entry } });
+        const name = other ? `@loopwright/${other[2]}` : '';
+        const entry = !other ? 'through a package entry' : isTest ? `"${name}" (or "${name}/testing")` : `"${name}"`;
+        context.report({ node, messageId: 'escape', data: { source, from: home ?? path.dirname(file), entry } });
         return;
       }
       const deep = /^@loopwright\/([^/]+)\/(.+)$/.exec(source);

@@ -91,6 +91,12 @@ describe('packages are reached only through their entries', () => {
     ]);
     expect(await findings('apps/cli/src/virtual-probe.test.ts', "export { diagramOf } from '@loopwright/graph/testing';")).toEqual([]);
     expect(await findings('tests/reference/virtual-probe.test.ts', "export { buildDiagram } from '@loopwright/sim/testing';")).toEqual([]);
+    expect(
+      await findings(
+        'tests/reference/virtual-probe.test.ts',
+        "export { buildDiagram } from '../../packages/sim/src/test-support/build-diagram.ts';",
+      ),
+    ).toEqual(['loopwright/boundaries@1']);
   });
 
   it('a suppression that suppresses nothing is itself an error', async () => {

@@ -7,7 +7,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { cTestProgram, exerciseInput, generateC, makeTestVector } from '@loopwright/sampled';
-import { CASES } from '../../packages/sampled/src/test-support/controller-cases.ts';
+import { CASES } from '@loopwright/sampled/testing';
 
 const hasCc = spawnSync('cc', ['--version'], { encoding: 'utf8' }).status === 0;
 if (!hasCc) console.log('sampled code generation: no C compiler (cc) found, so the generated C is not compiled here');

@@ -79,7 +79,7 @@ export function describeController(c: DiscreteController, name: string): string[
 /** Generated code is plain ASCII (embedded toolchains and PLC editors); typographic signs are spelled out. */
 export function asciiOnly(text: string): string {
   const out = text.replace(/[—–−]/g, '-').replace(/·/g, '*').replace(/Σ/g, 'sum ').replace(/≤/g, '<=').replace(/≥/g, '>=');
-  const bad = out.match(/[^\x09\x0a\x0d\x20-\x7e]/);
+  const bad = out.match(/[^\t\n\r\x20-\x7e]/);
   if (bad) throw new Error(`generated code holds a non-ASCII character ${JSON.stringify(bad[0])}`);
   return out;
 }
