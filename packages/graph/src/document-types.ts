@@ -6,7 +6,7 @@
  */
 
 export const DIAGRAM_FORMAT = 'loopwright.diagram';
-export const DIAGRAM_VERSION = 1;
+export const DIAGRAM_VERSION = 2;
 
 /** A block parameter: a number, or an expression text over the diagram's named parameters (e.g. "Kp", "2*Kv"). */
 export type ParamValue = number | string | boolean;
@@ -84,7 +84,21 @@ export interface ViewSettings {
   activeCut?: string;
   activeSweep?: string;
   activeProbe?: string;
-  simulationEnd?: number;
+}
+
+/**
+ * How the diagram is simulated (version 2; older files kept the end time in the view). Used
+ * by the editor's Response view and by `loopwright simulate` alike; command-line flags
+ * override. An absent field means "the engine chooses" (see @loopwright/study).
+ */
+export interface SimulationSettings {
+  /** End time of a run in seconds (absent: from the slowest closed-loop pole). */
+  end?: number;
+  /** Integrator tolerances (absent: the engine's defaults). */
+  rtol?: number;
+  atol?: number;
+  /** Probes a run shows (the Response chart, the command-line summary); absent: every probe. */
+  probes?: string[];
 }
 
 export interface Diagram {
@@ -97,5 +111,7 @@ export interface Diagram {
   wires: Wire[];
   cuts: Cut[];
   sweeps: Sweep[];
+  /** Absent in a document built in code means "all defaults"; files written by Loopwright always have it. */
+  simulation?: SimulationSettings;
   view: ViewSettings;
 }

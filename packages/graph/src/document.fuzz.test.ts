@@ -102,7 +102,7 @@ function apply(doc: any, m: Mutation): void {
 // Mostly a small loop (cheap, so 10,000 runs stay within seconds), sometimes a full demo.
 const smallLoop = JSON.stringify({
   format: 'loopwright.diagram',
-  version: 1,
+  version: 2,
   title: 'loop',
   description: '',
   parameters: [{ name: 'Kp', value: 2, unit: '1', min: 0, max: 10, scale: 'linear' }],
@@ -122,6 +122,7 @@ const smallLoop = JSON.stringify({
   ],
   cuts: [{ id: 'k1', wire: 'w5' }],
   sweeps: [{ id: 's1', parameter: 'Kp', min: 0.1, max: 10, scale: 'log' }],
+  simulation: { end: 5, probes: ['y'] },
   view: { activeCut: 'k1', activeProbe: 'y' },
 });
 const bases = [smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, ...demoDiagrams.map((d) => serializeDiagram(d.diagram))];

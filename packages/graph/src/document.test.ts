@@ -5,7 +5,7 @@ import type { Diagram } from './document-types.ts';
 
 const base = (): Diagram => ({
   format: 'loopwright.diagram',
-  version: 1,
+  version: 2,
   title: 'Small loop',
   description: 'A gain around a lag',
   parameters: [{ name: 'Kp', value: 2, unit: '', min: 0, max: 10, scale: 'linear' }],
@@ -25,6 +25,7 @@ const base = (): Diagram => ({
   ],
   cuts: [{ id: 'cut1', wire: 'w5', label: 'loop' }],
   sweeps: [{ id: 'sw1', parameter: 'Kp', min: 0.1, max: 10, scale: 'log' }],
+  simulation: { end: 4, rtol: 1e-6, atol: 1e-9, probes: ['y'] },
   view: { zoom: 1, offset: { x: 0, y: 0 }, theme: 'light' },
 });
 
@@ -131,7 +132,7 @@ describe('versions', () => {
   };
   it('migrates version 0 (block "parameters" → "params"; adds cuts, sweeps, view)', () => {
     const d = parseDiagram(JSON.stringify(v0));
-    expect(d.version).toBe(1);
+    expect(d.version).toBe(2);
     expect(d.blocks[0].params).toEqual({ k: 'K' });
     expect(d.cuts).toEqual([]);
     expect(d.sweeps).toEqual([]);
@@ -141,11 +142,32 @@ describe('versions', () => {
   it('says when a problem was found after migration', () => {
     const bad = structuredClone(v0) as any;
     bad.blocks[0].parameters.k = [1];
-    expect(loadError(JSON.stringify(bad)).message).toContain('after upgrading the document from version 0 to 1');
+    expect(loadError(JSON.stringify(bad)).message).toContain('after upgrading the document from version 0 to 2');
+  });
+  it('migrates version 1: the view\'s simulationEnd becomes simulation.end, the rest of the view stays', () => {
+    const v1: any = JSON.parse(serializeDiagram(base()));
+    v1.version = 1;
+    delete v1.simulation;
+    v1.view = { theme: 'dark', simulationEnd: 12.5 };
+    const d = parseDiagram(JSON.stringify(v1));
+    expect(d.version).toBe(2);
+    expect(d.simulation).toEqual({ end: 12.5 });
+    expect(d.view).toEqual({ theme: 'dark' });
+    // Without an end time there are no settings yet, but the section is there (saved as {}).
+    delete v1.view.simulationEnd;
+    const e = parseDiagram(JSON.stringify(v1));
+    expect(e.simulation).toEqual({});
+    expect(serializeDiagram(e)).toContain('"simulation": {},');
+  });
+  it('version 2 refuses the old place of the end time, and bad simulation settings, naming the field', () => {
+    expect(loadError(withDoc((d) => (d.view.simulationEnd = 3))).message).toContain('view.simulationEnd: unknown field');
+    expect(loadError(withDoc((d) => (d.simulation.end = -1))).message).toContain('simulation.end: expected a duration above 0 s');
+    expect(loadError(withDoc((d) => (d.simulation.rtol = 0))).message).toContain('simulation.rtol: expected a tolerance above 0');
+    expect(loadError(withDoc((d) => (d.simulation.probes = ['y', 7]))).message).toContain('simulation.probes[1]');
   });
   it('refuses a newer version with a clear message', () => {
     const e = loadError(withDoc((d) => (d.version = 7)));
-    expect(e.message).toContain('written by a newer Loopwright (format version 7); this one reads versions up to 1');
+    expect(e.message).toContain('written by a newer Loopwright (format version 7); this one reads versions up to 2');
   });
   it('refuses a missing or non-integer version', () => {
     expect(loadError(withDoc((d) => delete d.version)).message).toContain('version: missing');

@@ -207,7 +207,24 @@ function migrateV0(doc: Record<string, unknown>): Record<string, unknown> {
   };
 }
 
-const MIGRATIONS: Record<number, (doc: Record<string, unknown>) => Record<string, unknown>> = { 0: migrateV0 };
+/**
+ * Version 1 kept the run's end time in the view (`view.simulationEnd`). Version 2 gives the
+ * simulation its own settings (end time, tolerances, probes shown), so the end time moves there.
+ */
+function migrateV1(doc: Record<string, unknown>): Record<string, unknown> {
+  const out: Record<string, unknown> = { ...doc, version: 2 };
+  const view = doc.view;
+  if (isObject(view) && 'simulationEnd' in view) {
+    const { simulationEnd, ...rest } = view;
+    out.view = rest;
+    out.simulation = { end: simulationEnd };
+  } else {
+    out.simulation = {};
+  }
+  return out;
+}
+
+const MIGRATIONS: Record<number, (doc: Record<string, unknown>) => Record<string, unknown>> = { 0: migrateV0, 1: migrateV1 };
 
 function upgrade(doc: Record<string, unknown>): { doc: Record<string, unknown>; from: number } {
   if (doc.format !== DIAGRAM_FORMAT) {
@@ -298,6 +315,7 @@ export function emptyDiagram(title = 'Untitled diagram'): Diagram {
     wires: [],
     cuts: [],
     sweeps: [],
+    simulation: {},
     view: {},
   };
 }
@@ -354,8 +372,10 @@ export function serializeDiagram(d: Diagram): string {
     })),
     cuts: d.cuts.map((c, i) => pick(c, ['id', 'wire', 'label'], `cuts[${i}]`)),
     sweeps: d.sweeps.map((s, i) => pick(s, ['id', 'parameter', 'min', 'max', 'scale', 'label'], `sweeps[${i}]`)),
+    // Written whenever present (even empty), so a file loads and saves to the same bytes.
+    simulation: d.simulation ? pick(d.simulation, ['end', 'rtol', 'atol', 'probes'], 'simulation') : undefined,
     view: (() => {
-      const v = pick(d.view, ['zoom', 'offset', 'theme', 'activeCut', 'activeSweep', 'activeProbe', 'simulationEnd'], 'view');
+      const v = pick(d.view, ['zoom', 'offset', 'theme', 'activeCut', 'activeSweep', 'activeProbe'], 'view');
       if (v.offset) v.offset = xy(d.view.offset, 'view.offset');
       return v;
     })(),

@@ -4,7 +4,7 @@ import type { ParamSpec } from './catalogue/types.ts';
 import { DIAGRAM_FORMAT, DIAGRAM_VERSION } from './document-types.ts';
 
 /**
- * The zod schema of a version-1 diagram, built from the block catalogue so that every kind's
+ * The zod schema of the current diagram version, built from the block catalogue so that every kind's
  * parameter names and types are part of it (and of the exported JSON Schema). Structural
  * relations (wires pointing at real blocks, unique ids) are not schema matters: they are
  * reported by checkStructure, so that the editor can open a broken diagram and show what is
@@ -113,7 +113,17 @@ export const viewSchema = z.strictObject({
   activeCut: idSchema.optional(),
   activeSweep: idSchema.optional(),
   activeProbe: idSchema.optional(),
-  simulationEnd: finiteNumber().positive({ error: 'expected a duration above 0 s' }).max(1e9).optional(),
+});
+
+const tolerance = finiteNumber()
+  .positive({ error: 'expected a tolerance above 0' })
+  .max(0.1, { error: 'a tolerance above 0.1 would make the run meaningless' });
+
+export const simulationSchema = z.strictObject({
+  end: finiteNumber().positive({ error: 'expected a duration above 0 s' }).max(1e9).optional(),
+  rtol: tolerance.optional(),
+  atol: tolerance.optional(),
+  probes: z.array(idSchema, { error: 'expected a list of probe ids' }).max(LIMITS.maxBlocks).optional(),
 });
 
 const tooMany = (n: number, what: string) => ({ error: `more than ${n} ${what}: refused (split the diagram)` });
@@ -129,6 +139,7 @@ export const diagramSchema = z
     wires: z.array(wireSchema, { error: 'expected a list' }).max(LIMITS.maxWires, tooMany(LIMITS.maxWires, 'wires')),
     cuts: z.array(cutSchema, { error: 'expected a list' }).max(LIMITS.maxCuts, tooMany(LIMITS.maxCuts, 'cuts')),
     sweeps: z.array(sweepSchema, { error: 'expected a list' }).max(LIMITS.maxSweeps, tooMany(LIMITS.maxSweeps, 'sweeps')),
+    simulation: simulationSchema.optional(),
     view: viewSchema,
   })
   .meta({

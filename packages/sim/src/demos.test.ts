@@ -6,7 +6,7 @@ describe('demo diagrams simulate within budget', () => {
   for (const demo of demoDiagrams) {
     it(`${demo.id}: nonlinear run and its linear overlay complete`, () => {
       const model = compileModel(demo.diagram);
-      const until = demo.diagram.view.simulationEnd ?? 10;
+      const until = demo.diagram.simulation?.end ?? 10;
       const res = simulate(model, { until, maxWallMs: 5000 });
       expect(res.status, res.message).toBe('ok');
       expect(res.timeReached).toBe(until);

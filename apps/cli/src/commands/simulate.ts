@@ -56,7 +56,7 @@ export const simulateCommand: Command = {
     const file = args.positional[0];
     const overrides = parseAssignments(all(args, 'set'), 'set');
     const diagram = await readDiagram(io, file);
-    const until = numberFlag(args, 'until') ?? diagram.view.simulationEnd ?? 10;
+    const until = numberFlag(args, 'until') ?? diagram.simulation?.end ?? 10;
     if (!(until > 0)) throw new UsageError(`--until: ${until} must be above 0 s`);
     for (const name of Object.keys(overrides)) {
       if (!diagram.parameters.some((p) => p.name === name)) {

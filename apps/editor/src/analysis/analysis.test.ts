@@ -18,7 +18,7 @@ import { takeSnapshot } from './snapshot.ts';
 function unityLoop(K: number, plant = '1/(s*(s + 2))'): Diagram {
   return {
     format: 'loopwright.diagram',
-    version: 1,
+    version: 2,
     title: 'unity loop',
     description: '',
     parameters: [{ name: 'K', value: K, min: 0.1, max: 10, scale: 'log' }],

@@ -46,7 +46,7 @@ export function currentInputs(): AnalysisInputs {
     ui.cutId && (diagram.cuts.some((c) => c.id === ui.cutId) || ui.cutId.startsWith('auto:'))
       ? ui.cutId
       : diagram.cuts.find((c) => c.id === diagram.view.activeCut)?.id ?? diagram.cuts[0]?.id ?? null;
-  const until = ui.simulationEnd ?? diagram.view.simulationEnd ?? null;
+  const until = ui.simulationEnd ?? diagram.simulation?.end ?? null;
   return { diagram, engineDiagram, choice, sweep, overrides: sweep ? { [sweep.parameter]: sweep.value } : {}, cutId, until };
 }
 

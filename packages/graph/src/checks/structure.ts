@@ -110,6 +110,9 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
   if (v.activeCut !== undefined && !d.cuts.some((c) => c.id === v.activeCut)) warn('dangling-view', `view: the shown cut "${v.activeCut}" does not exist`, { field: 'view.activeCut' });
   if (v.activeSweep !== undefined && !d.sweeps.some((s) => s.id === v.activeSweep)) warn('dangling-view', `view: the shown sweep "${v.activeSweep}" does not exist`, { field: 'view.activeSweep' });
   if (v.activeProbe !== undefined && blocks.get(v.activeProbe)?.kind !== 'probe') warn('dangling-view', `view: the shown probe "${v.activeProbe}" is not a probe block of this diagram`, { field: 'view.activeProbe' });
+  for (const id of d.simulation?.probes ?? []) {
+    if (blocks.get(id)?.kind !== 'probe') warn('dangling-simulation-probe', `simulation: the shown probe "${id}" is not a probe block of this diagram`, { field: 'simulation.probes' });
+  }
 
   // --- named parameters
   for (const p of d.parameters) {

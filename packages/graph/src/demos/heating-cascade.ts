@@ -14,7 +14,7 @@ const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id,
  */
 export const heatingCascade: Diagram = {
   format: 'loopwright.diagram',
-  version: 1,
+  version: 2,
   title: 'Building heating cascade',
   description:
     'Supply-temperature loop (PI on a 0–100 % mixing valve) inside a room-temperature loop (PI). Temperatures are ' +
@@ -97,5 +97,6 @@ export const heatingCascade: Diagram = {
     { id: 'sweep-kp-room', parameter: 'Kp_room', min: 1, max: 50, scale: 'log', label: 'room gain' },
     { id: 'sweep-kp-sup', parameter: 'Kp_sup', min: 0.3, max: 10, scale: 'log', label: 'supply gain' },
   ],
-  view: { activeCut: 'cut-room', activeSweep: 'sweep-kp-room', activeProbe: 'room-temperature', simulationEnd: 14400 },
+  simulation: { end: 14400, probes: ['room-temperature'] },
+  view: { activeCut: 'cut-room', activeSweep: 'sweep-kp-room', activeProbe: 'room-temperature' },
 };

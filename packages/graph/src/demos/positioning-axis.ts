@@ -15,7 +15,7 @@ const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id,
  */
 export const positioningAxis: Diagram = {
   format: 'loopwright.diagram',
-  version: 1,
+  version: 2,
   title: 'Belt-driven positioning axis',
   description:
     'Cascade of current, speed and position loops on a belt-driven axis (invented but plausible numbers: ' +
@@ -100,5 +100,6 @@ export const positioningAxis: Diagram = {
     { id: 'sweep-kp-pos', parameter: 'Kp_pos', min: 5, max: 200, scale: 'log', label: 'position gain' },
     { id: 'sweep-kp-spd', parameter: 'Kp_spd', min: 0.1, max: 5, scale: 'log', label: 'speed gain' },
   ],
-  view: { activeCut: 'cut-speed', activeSweep: 'sweep-kp-pos', activeProbe: 'position', simulationEnd: 0.3 },
+  simulation: { end: 0.3, probes: ['position'] },
+  view: { activeCut: 'cut-speed', activeSweep: 'sweep-kp-pos', activeProbe: 'position' },
 };
