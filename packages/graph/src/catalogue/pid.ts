@@ -79,6 +79,7 @@ export const pidSpec: BlockSpec = {
     { name: 'antiWindup', label: 'Anti-windup', type: 'choice', default: 'back-calculation', choices: ANTI_WINDUP_MODES },
     { name: 'tt', label: 'Tracking time tt', unit: 's', type: 'number', default: '', min: 0, exclusiveMin: true, blank: NaN, description: 'Back-calculation; blank = √(ti·td), or ti without derivative' },
   ],
+  actuator: { lower: 'umin', upper: 'umax', onlyWithLimits: true },
   inputs: singleInput,
   outputs: singleOutput,
   complete: (p) => {

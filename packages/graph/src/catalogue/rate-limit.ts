@@ -13,6 +13,7 @@ export const rateLimitSpec: BlockSpec = {
     { name: 'rising', label: 'Rising rate', unit: '1/s', type: 'number', default: 1, min: 0, exclusiveMin: true, blank: Infinity },
     { name: 'falling', label: 'Falling rate', unit: '1/s', type: 'number', default: 1, min: 0, exclusiveMin: true, blank: Infinity },
   ],
+  actuator: {},
   inputs: singleInput,
   outputs: singleOutput,
   linear: (p) => {

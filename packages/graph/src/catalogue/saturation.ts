@@ -22,6 +22,7 @@ export const saturationSpec: BlockSpec = {
     { name: 'lower', label: 'Lower limit', type: 'number', default: -1, blank: -Infinity },
     { name: 'upper', label: 'Upper limit', type: 'number', default: 1, blank: Infinity },
   ],
+  actuator: { lower: 'lower', upper: 'upper' },
   inputs: singleInput,
   outputs: singleOutput,
   linear: (p) => {

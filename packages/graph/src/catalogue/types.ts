@@ -56,6 +56,13 @@ export interface BlockSpec {
    * make no sense (e.g. a negative time constant), naming the field.
    */
   linear(p: ResolvedParams, scope?: Readonly<Record<string, number>>): LinearForm;
+  /**
+   * The block limits the signal it puts out (an actuator limit): a run records its output and
+   * reports it as an actuator (time at a limit, peak effort). `lower`/`upper` name the fields
+   * holding the value limits (none for a rate limit); `onlyWithLimits`: an actuator only when
+   * one of those limits is set (a PID without output limits is not one).
+   */
+  actuator?: { lower?: string; upper?: string; onlyWithLimits?: boolean };
   /** Fills derived defaults after resolution (e.g. the PID tracking time when blank). */
   complete?(p: Record<string, number | string | boolean>): void;
 }

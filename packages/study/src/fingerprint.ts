@@ -1,0 +1,38 @@
+/**
+ * The diagram fingerprint: what the engine sees of a diagram — parameters, blocks (kind,
+ * label, parameters), wires, cuts, sweeps and simulation settings — and not its layout, title,
+ * description or view. Two diagrams with the same fingerprint give the same results, so the
+ * apps key caches and "has anything changed" on it.
+ */
+import type { Diagram } from '@loopwright/graph';
+
+/** The engine's view of a diagram as a canonical text (exact: use it as a cache key). */
+export function engineText(d: Diagram, without?: string): string {
+  return JSON.stringify([
+    d.parameters.map((p) => [p.name, p.name === without ? null : p.value, p.min ?? null, p.max ?? null, p.scale ?? null, p.unit ?? null]),
+    d.blocks.map((b) => [b.id, b.kind, b.label ?? null, b.params]),
+    d.wires.map((w) => [w.id, w.from.block, w.from.port, w.to.block, w.to.port]),
+    d.cuts.map((c) => [c.id, c.wire, c.label ?? null]),
+    d.sweeps.map((s) => [s.id, s.parameter, s.min, s.max, s.scale]),
+    d.simulation ?? {},
+  ]);
+}
+
+/** cyrb53: a fast 53-bit string hash (public domain, bryc) — short identities, not security. */
+function hash53(text: string): number {
+  let h1 = 0xdeadbeef;
+  let h2 = 0x41c6ce57;
+  for (let i = 0; i < text.length; i++) {
+    const ch = text.charCodeAt(i);
+    h1 = Math.imul(h1 ^ ch, 2654435761);
+    h2 = Math.imul(h2 ^ ch, 1597334677);
+  }
+  h1 = Math.imul(h1 ^ (h1 >>> 16), 2246822507) ^ Math.imul(h2 ^ (h2 >>> 13), 3266489909);
+  h2 = Math.imul(h2 ^ (h2 >>> 16), 2246822507) ^ Math.imul(h1 ^ (h1 >>> 13), 3266489909);
+  return 4294967296 * (2097151 & h2) + (h1 >>> 0);
+}
+
+/** A short identity of what the engine sees (14 hex digits). Equal diagrams, equal fingerprints. */
+export function diagramFingerprint(d: Diagram): string {
+  return hash53(engineText(d)).toString(16).padStart(14, '0');
+}

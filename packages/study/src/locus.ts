@@ -1,0 +1,129 @@
+/**
+ * The locus of a sweep: every closed-loop pole of the whole diagram as one quantity varies,
+ * the others fixed. Exact root-locus geometry when the characteristic polynomial is affine in
+ * the swept value — computed by graph's sweepLocus, so the factors common to N0 and D0 are
+ * removed (reported as fixed poles) exactly as the command line does — else a sampled locus
+ * over the sweep range. The direction follows the sign of the swept value: a negative gain
+ * sweeps k < 0 (the negative-gain locus) with its own geometry.
+ */
+import { DEFAULT_PADE_ORDER, sweepLocus, type Diagram } from '@loopwright/graph';
+import { InputError, rootLocus, type Complex, type LocusPoint } from '@loopwright/lti';
+import { Lru, cached } from './cache.ts';
+import { engineText } from './fingerprint.ts';
+import { without } from './split.ts';
+import { checkTarget, documentValue, engineDiagram, engineParameterName, targetKey, targetRange } from './sweep-target.ts';
+import type { LocusAngleData, LocusBranch, LocusData, SweepRange, SweepTarget } from './types.ts';
+import { assertAnalysable } from './validate.ts';
+
+export interface LocusRequest {
+  target: SweepTarget;
+  /** The value in force (its sign sets the direction); default: the document's. */
+  value?: number;
+  /** The slider range (traced densely; the sampled locus spans it); default: the target's range in the document. */
+  range?: SweepRange;
+  /** 'auto' (default): the sign of the value; or force one direction. */
+  direction?: 'auto' | 'positive' | 'negative';
+  /** Also trace the other sign (drawn dashed). */
+  opposite?: boolean;
+  /** Other parameters' values (CLI --set); a value for the swept one is ignored. */
+  overrides?: Record<string, number>;
+  padeOrder?: number;
+  /** Base samples of the traced geometry (lti rootLocus; default 400). */
+  samples?: number;
+}
+
+const loci = new Lru<LocusData>(12);
+const plain = (c: Complex) => ({ re: c.re, im: c.im });
+const branchesOf = (br: LocusPoint[][]): LocusBranch[] => br.map((b) => ({ re: b.map((p) => p.s.re), im: b.map((p) => p.s.im), k: b.map((p) => p.k) }));
+const angles = (xs: { at: Complex; angleDeg: number; multiplicity: number }[]): LocusAngleData[] =>
+  xs.map((a) => ({ at: plain(a.at), angleDeg: a.angleDeg, multiplicity: a.multiplicity }));
+
+export function locusStudy(d: Diagram, req: LocusRequest): LocusData {
+  checkTarget(d, req.target);
+  const ed = engineDiagram(d, req.target);
+  const name = engineParameterName(req.target);
+  const value = req.value ?? documentValue(d, req.target);
+  const range = req.range ?? targetRange(d, req.target);
+  if (!(range.max > range.min)) throw new InputError(`sweep range: max ${range.max} must be above min ${range.min}`, { field: 'range' });
+  const direction = req.direction === 'positive' || req.direction === 'negative' ? req.direction : value < 0 || (value === 0 && range.max <= 0) ? 'negative' : 'positive';
+  const overrides = without(req.overrides ?? {}, name);
+  assertAnalysable(ed, overrides);
+  const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
+  const key = JSON.stringify([engineText(ed), name, overrides, range, direction, req.opposite === true, padeOrder, req.samples ?? null]);
+  return cached(loci, key, () => compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples));
+}
+
+function compute(
+  ed: Diagram,
+  target: string,
+  name: string,
+  range: SweepRange,
+  direction: 'positive' | 'negative',
+  opposite: boolean,
+  overrides: Record<string, number>,
+  padeOrder: number,
+  samples: number | undefined,
+): LocusData {
+  // The sweep range travels in the diagram (graph's sampled locus reads it from there).
+  const ranged: Diagram = { ...ed, sweeps: [{ id: '~study-range', parameter: name, ...range }, ...ed.sweeps.filter((s) => s.parameter !== name)] };
+  const sw = sweepLocus(ranged, name, overrides, { negative: direction === 'negative', padeOrder, ...(samples ? { samples } : {}) });
+  if (sw.mode === 'sampled') {
+    const first = sw.branches.filter((b) => b[0].k === sw.values[0]).map((b) => plain(b[0].s));
+    return {
+      mode: 'sampled',
+      target,
+      parameter: name,
+      direction: range.max <= 0 ? 'negative' : 'positive',
+      branches: branchesOf(sw.branches),
+      rangeBranches: null,
+      oppositeBranches: null,
+      poles: first,
+      zeros: [],
+      fixedPoles: [],
+      asymptotes: null,
+      realAxisSegments: [],
+      breakaways: [],
+      crossings: [],
+      departures: [],
+      arrivals: [],
+      n0: null,
+      d0: null,
+      range,
+      delayHandling: sw.delayHandling,
+      reason: sw.reason,
+    };
+  }
+  const L = sw.locus;
+  // The slider's part again, densely: for hit-testing, framing and the current-pole track.
+  // A range through zero is traced on both sides of it.
+  const part = (negative: boolean, lo: number, hi: number) => (hi > lo ? branchesOf(rootLocus(L.num, L.den, { negative, kMin: lo, kMax: hi, samples: 240 }).branches) : []);
+  const rangeBranches =
+    range.min >= 0
+      ? part(false, range.min, range.max)
+      : range.max <= 0
+        ? part(true, -range.max, -range.min)
+        : [...part(false, 0, range.max), ...part(true, 0, -range.min)];
+  return {
+    mode: 'exact',
+    target,
+    parameter: name,
+    direction,
+    branches: branchesOf(L.branches),
+    rangeBranches,
+    oppositeBranches: opposite ? branchesOf(rootLocus(L.num, L.den, { negative: direction === 'positive' }).branches) : null,
+    poles: L.poles.map(plain),
+    zeros: L.zeros.map(plain),
+    fixedPoles: sw.fixedPoles.map(plain),
+    asymptotes: L.asymptotes.centroid === null ? null : { centroid: L.asymptotes.centroid, anglesDeg: [...L.asymptotes.anglesDeg] },
+    realAxisSegments: L.realAxisSegments.map((s) => [s.from, s.to] as [number, number]),
+    breakaways: L.breakaways.map((b) => ({ s: plain(b.s), gain: b.gain })),
+    crossings: L.crossings.map((c) => ({ omega: c.omega, gain: c.gain })),
+    departures: angles(L.departures),
+    arrivals: angles(L.arrivals),
+    n0: [...sw.n0],
+    d0: [...sw.d0],
+    range,
+    delayHandling: sw.delayHandling,
+    reason: null,
+  };
+}

@@ -1,0 +1,49 @@
+/**
+ * Studies of a loop given as an expression rather than a diagram (`loopwright margins --loop`,
+ * `loopwright locus --loop`): margins with the dead time exact, and the root locus of
+ * 1 + k·L(s) = 0 with a dead time replaced by a Padé approximant (the only place poles need it).
+ */
+import { InputError, loopMargins, padeDelay, parseTransferFunction, poly, rootLocus, type LoopMargins, type RootLocus, type TransferFunction } from '@loopwright/lti';
+
+export interface ExpressionLoop {
+  text: string;
+  /** Values of the names used in the text. */
+  params?: Record<string, number>;
+}
+
+/** The loop L(s) of an expression (InputError with the position of a fault). */
+export function loopOfExpression(e: ExpressionLoop): TransferFunction {
+  if (e.text.trim() === '') throw new InputError('the loop expression is empty', { field: 'loop' });
+  return parseTransferFunction(e.text, e.params ?? {});
+}
+
+export function expressionMargins(e: ExpressionLoop, opts: { padeOrder?: number } = {}): { loop: TransferFunction; margins: LoopMargins } {
+  const loop = loopOfExpression(e);
+  return { loop, margins: loopMargins(loop, opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {}) };
+}
+
+export type PadeNote = { mode: 'none' } | { mode: 'pade'; order: number; delay: number };
+
+export function expressionLocus(
+  e: ExpressionLoop,
+  opts: { negative?: boolean; kMax?: number; samples?: number; padeOrder?: number } = {},
+): { loop: TransferFunction; locus: RootLocus; delayHandling: PadeNote } {
+  const loop = loopOfExpression(e);
+  const order = opts.padeOrder ?? 3;
+  let num = [...loop.rational.num];
+  let den = [...loop.rational.den];
+  let delayHandling: PadeNote = { mode: 'none' };
+  if (loop.delay > 0) {
+    const p = padeDelay(loop.delay, order);
+    num = poly.mul(num, p.num);
+    den = poly.mul(den, p.den);
+    delayHandling = { mode: 'pade', order, delay: loop.delay };
+  }
+  if (poly.isZero(num)) throw new InputError(`the loop "${e.text}" is identically zero: there is no gain to sweep`, { field: 'loop' });
+  const locus = rootLocus(num, den, {
+    negative: opts.negative === true,
+    ...(opts.kMax !== undefined ? { kMax: opts.kMax } : {}),
+    ...(opts.samples !== undefined ? { samples: opts.samples } : {}),
+  });
+  return { loop, locus, delayHandling };
+}

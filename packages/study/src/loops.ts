@@ -1,0 +1,79 @@
+/**
+ * The loops table: every cut (or one proposed on each feedback wire) read with every other
+ * loop closed and, where loops enclose it, inner-first (those opened), each with the number of
+ * open-loop right-half-plane poles of its L; separation ratios of nested loops; and for every
+ * nested pair the outer loop with the real inner loop against an ideal one — both curves and
+ * both margin rows in one configuration (the loops around the outer one opened).
+ */
+import { DEFAULT_PADE_ORDER, analyseLoops, type CutAnalysis, type Diagram } from '@loopwright/graph';
+import { marginFigures, type Complex } from '@loopwright/lti';
+import { without } from './split.ts';
+import { engineParameterName, withLiveValue } from './sweep-target.ts';
+import { bodeOf, rhpPoleCount, sharedGrid, transferData } from './transfer-data.ts';
+import type { LiveValue, LoopRow, LoopsData, OuterIdealData } from './types.ts';
+import { assertAnalysable } from './validate.ts';
+
+export interface LoopsRequest {
+  overrides?: Record<string, number>;
+  live?: LiveValue | null;
+  padeOrder?: number;
+}
+
+const plain = (c: Complex) => ({ re: c.re, im: c.im });
+
+export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
+  const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  const rep = analyseLoops(diagram, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER });
+  // Opened loops are named by their cut ids (one name per loop across table, canvas and report).
+  const cutOfWire = new Map(rep.cuts.map((c) => [c.wire, c.cut]));
+  const names = (wires: readonly string[]) => wires.map((w) => cutOfWire.get(w) ?? w);
+  const rows: LoopRow[] = rep.cuts.map((c) => ({
+    cutId: c.cut,
+    wire: c.wire,
+    label: c.label,
+    auto: c.auto,
+    stable: c.stable,
+    blocks: [...c.blocks],
+    margins: marginFigures(c.margins),
+    loop: transferData(c.loop),
+    openLoopRhpPoles: rhpPoleCount(c.loop),
+    delayHandling: c.delayHandling,
+    hiddenModes: c.hiddenModes.map(plain),
+    alone: c.alone.opened.length
+      ? { loop: transferData(c.alone.loop), margins: marginFigures(c.alone.margins), openLoopRhpPoles: rhpPoleCount(c.alone.loop), opened: names(c.alone.opened) }
+      : null,
+  }));
+  const byCut = new Map<string, CutAnalysis>(rep.cuts.map((c) => [c.cut, c]));
+  const outerVsIdeal: OuterIdealData[] = [];
+  for (const o of rep.outerVsIdeal) {
+    const outer = byCut.get(o.outer);
+    if (!outer) continue;
+    // The real curve is the outer loop as read for its margins here: inner-first (outer.alone).
+    const grid = sharedGrid([o.idealLoop, outer.alone.loop]);
+    const ideal = bodeOf(o.idealLoop, grid);
+    const real = bodeOf(outer.alone.loop, grid);
+    outerVsIdeal.push({
+      outer: o.outer,
+      inner: o.inner,
+      omega: ideal.omega,
+      realMagDb: real.magDb,
+      realPhaseDeg: real.phaseDeg,
+      idealMagDb: ideal.magDb,
+      idealPhaseDeg: ideal.phaseDeg,
+      realMargins: marginFigures(o.real),
+      idealMargins: marginFigures(o.ideal),
+      realLoop: transferData(outer.alone.loop),
+      idealLoop: transferData(o.idealLoop),
+      opened: names(outer.alone.opened),
+    });
+  }
+  return {
+    rows,
+    separations: rep.separations.map((s) => ({ ...s })),
+    outerVsIdeal,
+    closedLoopPoles: rep.closedLoopPoles.map(plain),
+    stable: rep.stable,
+    notes: [...rep.notes],
+  };
+}

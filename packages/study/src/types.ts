@@ -1,0 +1,321 @@
+/**
+ * The result shapes of every study: plain, structured-clone-safe data (no class instances, no
+ * functions, no Maps), so that a worker can post them and the command line can print them as
+ * JSON. Polynomials are ascending; complex numbers are {re, im}.
+ */
+import type { DelayHandling, Finding, SignalRef } from '@loopwright/graph';
+import type { MarginFigures } from '@loopwright/lti';
+
+export type { DelayHandling, Finding, SignalRef };
+
+export interface Cx {
+  re: number;
+  im: number;
+}
+
+/**
+ * A result part that may fail on its own (an unstable cut must not blank the locus).
+ * `reason`: 'input' — the diagram or request is at fault (the message names what); 'budget' —
+ * the analysis ran out of time or size (the message names which); 'internal' — a bug.
+ * `at` names the block, wire, field or character position at fault where known.
+ */
+export type Part<T> = { ok: true; value: T } | { ok: false; error: string; reason: 'input' | 'budget' | 'internal'; at: string | null };
+
+// ------------------------------------------------------------------------------ sweep
+
+/** What the sweep moves: a named parameter, or the numeric k of a gain block. */
+export type SweepTarget = { kind: 'parameter'; name: string } | { kind: 'block'; block: string; field: 'k' };
+
+export interface SweepRange {
+  min: number;
+  max: number;
+  scale: 'linear' | 'log';
+}
+
+export interface SweepChoice {
+  /** `param:<name>` or `block:<id>.k`. */
+  key: string;
+  target: SweepTarget;
+  label: string;
+  /** The value in the document. */
+  value: number;
+  /** The document's range for it (its sweep, its slider range, else a decade each side). */
+  range: SweepRange;
+}
+
+/** A value held for a sweep target without writing it into the document (the live slider value). */
+export interface LiveValue {
+  target: SweepTarget;
+  value: number;
+}
+
+export interface LocusBranch {
+  re: number[];
+  im: number[];
+  /** Sweep value at each point (signed: negative on a k < 0 locus). */
+  k: number[];
+}
+
+export interface LocusAngleData {
+  at: Cx;
+  angleDeg: number;
+  multiplicity: number;
+}
+
+export interface LocusData {
+  /** exact: the characteristic polynomial is affine in the swept value (root-locus geometry of the whole diagram); sampled: roots at sampled values. */
+  mode: 'exact' | 'sampled';
+  /** Sweep target key and the parameter name the engine varies (a gain block gets a synthetic one). */
+  target: string;
+  parameter: string;
+  /** The direction of `branches` and the geometry: the sign of the swept value (k < 0: 'negative'). */
+  direction: 'positive' | 'negative';
+  branches: LocusBranch[];
+  /** The branches again, traced densely over the slider range only (exact mode; null otherwise). */
+  rangeBranches: LocusBranch[] | null;
+  /** The locus for values of the other sign, when asked for (drawn dashed). */
+  oppositeBranches: LocusBranch[] | null;
+  /** Roots of D0 and N0 after common factors are removed (exact); the ends of the range (sampled). */
+  poles: Cx[];
+  zeros: Cx[];
+  /** Closed-loop poles that do not move with the swept value (common roots of N0 and D0). */
+  fixedPoles: Cx[];
+  asymptotes: { centroid: number; anglesDeg: number[] } | null;
+  realAxisSegments: [number, number][];
+  breakaways: { s: Cx; gain: number }[];
+  crossings: { omega: number; gain: number }[];
+  departures: LocusAngleData[];
+  arrivals: LocusAngleData[];
+  /** The full split D0 + k·N0 (ascending; exact mode only): closed-loop poles at k and the gain at a clicked point. */
+  n0: number[] | null;
+  d0: number[] | null;
+  range: SweepRange;
+  delayHandling: DelayHandling;
+  /** Why the locus is sampled (null when exact). */
+  reason: string | null;
+}
+
+// ------------------------------------------------------------------------------ poles
+
+/**
+ * How a closed-loop pole was found. 'exact': no dead time was approximated. With a dead time
+ * inside a loop the poles are those of a Padé approximant: 'approximated' poles stay put when
+ * the Padé order is raised by two (they approximate true roots of the characteristic
+ * equation); 'approximant' poles move (they belong to the approximation, not to the plant).
+ */
+export type PoleOrigin = 'exact' | 'approximated' | 'approximant';
+
+export interface PolesData {
+  poles: Cx[];
+  origin: PoleOrigin[];
+  delayHandling: DelayHandling;
+  stable: boolean;
+}
+
+// ------------------------------------------------------------------------------ cuts and loops
+
+/** A transfer function: num/den ascending (monic denominator) times e^(−s·delay). */
+export interface TransferData {
+  num: number[];
+  den: number[];
+  delay: number;
+}
+
+export type MarginsData = MarginFigures;
+
+export interface FrequencyData {
+  cutId: string;
+  wire: string;
+  label: string;
+  omega: number[];
+  magDb: number[];
+  phaseDeg: number[];
+  re: number[];
+  im: number[];
+  /** |S| and |T| in dB, S = 1/(1+L), T = L/(1+L). */
+  sensDb: number[];
+  compDb: number[];
+  margins: MarginsData;
+  /** Poles of L in the open right half-plane (Nyquist: encirclements of −1 needed for stability). */
+  openLoopRhpPoles: number;
+  loop: TransferData;
+  delayHandling: DelayHandling;
+}
+
+/** One reading of a loop: L at the cut with a given set of other loops opened. */
+export interface LoopReading {
+  loop: TransferData;
+  margins: MarginsData;
+  openLoopRhpPoles: number;
+  /** Cut ids opened for this reading (the loops around this one); empty: every other loop closed. */
+  opened: string[];
+}
+
+export interface LoopRow {
+  /** Cut id, or "auto:<wire>" for a loop the engine proposed on a feedback wire. */
+  cutId: string;
+  wire: string;
+  label: string;
+  auto: boolean;
+  stable: boolean;
+  blocks: string[];
+  /** With every other loop closed. */
+  margins: MarginsData;
+  loop: TransferData;
+  openLoopRhpPoles: number;
+  delayHandling: DelayHandling;
+  hiddenModes: Cx[];
+  /** The same cut read inner-first: the loops around it opened (null when none enclose it). */
+  alone: LoopReading | null;
+}
+
+export interface SeparationRow {
+  inner: string;
+  outer: string;
+  ratio: number | null;
+  basis: 'bandwidth' | 'crossover' | 'none';
+  crossoverRatio: number | null;
+  bandwidthRatio: number | null;
+  flag: boolean;
+  note: string;
+}
+
+/**
+ * The outer loop of a nested pair with the real inner loop against an ideal (unity) one. Both
+ * readings — margins and curves — use one configuration: the loops around the outer one opened.
+ */
+export interface OuterIdealData {
+  outer: string;
+  inner: string;
+  omega: number[];
+  realMagDb: number[];
+  realPhaseDeg: number[];
+  idealMagDb: number[];
+  idealPhaseDeg: number[];
+  realMargins: MarginsData;
+  idealMargins: MarginsData;
+  realLoop: TransferData;
+  idealLoop: TransferData;
+  /** Cut ids opened for both readings. */
+  opened: string[];
+}
+
+export interface LoopsData {
+  rows: LoopRow[];
+  separations: SeparationRow[];
+  /** Every nested pair (each inner loop with the smallest loop around it). */
+  outerVsIdeal: OuterIdealData[];
+  closedLoopPoles: Cx[];
+  /** Whole-diagram stability from the closed-loop poles. */
+  stable: boolean;
+  notes: string[];
+}
+
+// ------------------------------------------------------------------------------ closed loop
+
+export interface ClosedLoopData {
+  from: SignalRef;
+  to: SignalRef;
+  /** "block r", "wire w3". */
+  fromLabel: string;
+  toLabel: string;
+  transfer: TransferData;
+  poles: Cx[];
+  zeros: Cx[];
+  /** Leading-coefficient gain k of k·Π(s − z)/Π(s − p); static gain T(0) (±Infinity with a pole at 0). */
+  gain: number;
+  staticGain: number;
+  delayHandling: DelayHandling;
+  hiddenModes: Cx[];
+  bode: { omega: number[]; magDb: number[]; phaseDeg: number[] } | null;
+  /** Exact step response of the rational part times the dead time (null when not asked or not finite). */
+  step: { time: number[]; value: number[] } | null;
+}
+
+// ------------------------------------------------------------------------------ runs
+
+export interface ActuatorInfo {
+  /** Trace key ("wire:<id>") of the limited signal. */
+  key: string;
+  block: string;
+  label: string;
+  lower: number | null;
+  upper: number | null;
+}
+
+export interface RunTrace {
+  time: number[];
+  /** Keyed by probe id, and "wire:<id>" for recorded wires. */
+  traces: Record<string, number[]>;
+  status: 'ok' | 'diverged' | 'stiff' | 'budget' | 'cancelled';
+  message: string;
+  timeReached: number;
+  events: { time: number; kind: string; block: string }[];
+  stats: { steps: number; accepted: number; rejected: number; evaluations: number; segments: number; wallMs: number };
+  /** The simulator's figures per probe (null: not measurable) and per limiting block. */
+  probeFigures: Record<string, ProbeFigures | null>;
+  actuatorFigures: Record<string, { timeInSaturation: number; peakEffort: number; limitHits: number }>;
+}
+
+export interface ProbeFigures {
+  riseTime: number | null;
+  overshootPct: number | null;
+  peakTime: number | null;
+  peak: number | null;
+  settlingTime: number | null;
+  steadyState: number | null;
+  steadyStateError: number | null;
+  undershootPct: number | null;
+  iae: number | null;
+  ise: number | null;
+}
+
+export interface MetricsRow {
+  /** Probe id, or the actuator's trace key. */
+  probe: string;
+  label: string;
+  riseTime: number | null;
+  overshootPct: number | null;
+  peakTime: number | null;
+  peak: number | null;
+  settlingTime: number | null;
+  steadyState: number | null;
+  steadyStateError: number | null;
+  iae: number | null;
+  timeInSaturation: number | null;
+  peakEffort: number | null;
+  limitHits: number | null;
+}
+
+/** The settings a run used and where its end time came from. */
+export interface RunSettings {
+  until: number;
+  untilFrom: 'request' | 'diagram' | 'automatic';
+  rtol: number;
+  atol: number;
+  outputStep: number;
+  maxSteps: number | null;
+}
+
+export interface ResponseResult {
+  /** The run as drawn (with its nonlinearities), or the linear model when the request asked for that alone. */
+  run: RunTrace;
+  model: 'as-drawn' | 'linear';
+  /** The linear model's run for an overlay (null when not asked for). */
+  linear: RunTrace | null;
+  probes: { id: string; label: string }[];
+  /** Probes the diagram shows (simulation.probes, else every probe), in diagram order. */
+  shownProbes: string[];
+  actuators: ActuatorInfo[];
+  metrics: MetricsRow[];
+  settings: RunSettings;
+  /** Same as settings.until (kept for the views). */
+  until: number;
+}
+
+// ------------------------------------------------------------------------------ checks
+
+export interface CheckData {
+  findings: Finding[];
+  counts: { error: number; warning: number; info: number };
+}
