@@ -6,7 +6,11 @@
  */
 import type { Diagram } from '@loopwright/graph';
 
-/** The engine's view of a diagram as a canonical text (exact: use it as a cache key). */
+/**
+ * The analysis's view of a diagram as a canonical text (exact: use it as a cache key), without
+ * the simulation settings (no locus or margin depends on them); `without` leaves one
+ * parameter's value out.
+ */
 export function engineText(d: Diagram, without?: string): string {
   return JSON.stringify([
     d.parameters.map((p) => [p.name, p.name === without ? null : p.value, p.min ?? null, p.max ?? null, p.scale ?? null, p.unit ?? null]),
@@ -14,9 +18,11 @@ export function engineText(d: Diagram, without?: string): string {
     d.wires.map((w) => [w.id, w.from.block, w.from.port, w.to.block, w.to.port]),
     d.cuts.map((c) => [c.id, c.wire, c.label ?? null]),
     d.sweeps.map((s) => [s.id, s.parameter, s.min, s.max, s.scale]),
-    d.simulation ?? {},
   ]);
 }
+
+/** Everything the engine sees, simulation settings included. */
+export const fingerprintText = (d: Diagram): string => `${engineText(d)}|${JSON.stringify(d.simulation ?? {})}`;
 
 /** cyrb53: a fast 53-bit string hash (public domain, bryc) — short identities, not security. */
 function hash53(text: string): number {
@@ -34,5 +40,5 @@ function hash53(text: string): number {
 
 /** A short identity of what the engine sees (14 hex digits). Equal diagrams, equal fingerprints. */
 export function diagramFingerprint(d: Diagram): string {
-  return hash53(engineText(d)).toString(16).padStart(14, '0');
+  return hash53(fingerprintText(d)).toString(16).padStart(14, '0');
 }

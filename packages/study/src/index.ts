@@ -3,7 +3,7 @@
 export * from './types.ts';
 export { runStudy, runStudies, type StudyKinds, type StudyKind, type StudyRequest, type StudyResult, type StudyResultOf, type StudyContext } from './study.ts';
 export { part, failure, isInputError, isBudgetError, errorAt, type FailedPart } from './part.ts';
-export { diagramFingerprint, engineText } from './fingerprint.ts';
+export { diagramFingerprint, engineText, fingerprintText } from './fingerprint.ts';
 export {
   targetKey,
   parseTargetKey,

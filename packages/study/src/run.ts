@@ -100,13 +100,20 @@ export function runSettings(d: Diagram, req: RunRequest = {}, overrides: Record<
   };
 }
 
-/** Probes a run shows: the request's list, else the diagram's simulation.probes, else every probe (diagram order). */
+/**
+ * Probes a run shows: the asked list, else the diagram's simulation.probes, else every probe
+ * (diagram order). An asked id that is not a probe is an InputError; one left in the diagram's
+ * settings after its block went is dropped (check warns about it).
+ */
 export function shownProbes(d: Diagram, asked?: string[] | 'all'): string[] {
   const all = d.blocks.filter((b) => b.kind === 'probe').map((b) => b.id);
-  const want = asked === 'all' ? null : (asked ?? d.simulation?.probes ?? null);
-  if (!want) return all;
-  for (const id of want) if (!all.includes(id)) throw new InputError(`probe "${id}" is not a probe block of the diagram (probes: ${all.join(', ') || 'none'})`, { field: 'probes' });
-  return all.filter((id) => want.includes(id));
+  if (asked === 'all') return all;
+  if (asked) {
+    for (const id of asked) if (!all.includes(id)) throw new InputError(`probe "${id}" is not a probe block of the diagram (probes: ${all.join(', ') || 'none'})`, { field: 'probes' });
+    return all.filter((id) => asked.includes(id));
+  }
+  const want = d.simulation?.probes;
+  return want ? all.filter((id) => want.includes(id)) : all;
 }
 
 /** Blocks whose catalogue spec says they limit their output, with the wire leaving each and the limits in force. */

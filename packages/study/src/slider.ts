@@ -1,6 +1,7 @@
 /**
- * The sweep slider's mapping between positions in [0, 1] and values, and range edits. A log
- * scale needs both ends of one sign; a range through zero falls back to linear.
+ * The sweep slider's mapping between positions in [0, 1] and values, and range edits. The
+ * mapping is logarithmic in |value| for a log range of one sign; edits keep to the document's
+ * rule (a log scale needs min > 0: structure check) and fall back to linear otherwise.
  */
 import type { SweepRange } from './types.ts';
 
@@ -37,14 +38,14 @@ export function widenedRange(range: SweepRange, v: number): SweepRange | null {
   const r = { ...range };
   if (v < r.min) r.min = r.scale === 'log' && v > 0 ? v / 2 : v - Math.abs(v) * 0.2;
   if (v > r.max) r.max = r.scale === 'log' && v > 0 ? v * 2 : v + Math.abs(v) * 0.2;
-  if (r.scale === 'log' && r.min * r.max <= 0) r.scale = 'linear';
+  if (r.scale === 'log' && !(r.min > 0)) r.scale = 'linear';
   return r;
 }
 
-/** A range edit applied, or null when it is not a range (max must stay above min); log falls back to linear across zero. */
+/** A range edit applied, or null when it is not a range (max must stay above min); log falls back to linear unless min > 0. */
 export function editedRange(range: SweepRange, patch: Partial<SweepRange>): SweepRange | null {
   const r = { ...range, ...patch };
   if (!(r.max > r.min) || !Number.isFinite(r.min) || !Number.isFinite(r.max)) return null;
-  if (r.scale === 'log' && r.min * r.max <= 0) r.scale = 'linear';
+  if (r.scale === 'log' && !(r.min > 0)) r.scale = 'linear';
   return r;
 }

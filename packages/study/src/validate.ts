@@ -8,14 +8,14 @@
 import { checkDiagram, findingSubject, type Diagram, type Finding } from '@loopwright/graph';
 import { InputError } from '@loopwright/lti';
 import { Lru, cached } from './cache.ts';
-import { engineText } from './fingerprint.ts';
+import { fingerprintText } from './fingerprint.ts';
 import type { CheckData } from './types.ts';
 
 const checks = new Lru<Finding[]>(16);
 
 /** Every finding of the diagram (structural, then analytical), errors first. Cached per diagram and overrides. */
 export function findingsOf(d: Diagram, overrides: Record<string, number> = {}): Finding[] {
-  return cached(checks, `${engineText(d)}|${JSON.stringify(overrides)}`, () => checkDiagram(d, overrides));
+  return cached(checks, `${fingerprintText(d)}|${JSON.stringify(overrides)}`, () => checkDiagram(d, overrides));
 }
 
 export function checkStudy(d: Diagram, overrides: Record<string, number> = {}): CheckData {

@@ -1,6 +1,7 @@
 /**
  * UI state of the analysis area: which view is open, the sweep target and its live slider
- * value, display options, and a pinned snapshot for comparison. None of this is part of the
+ * value, display options, and a pinned snapshot for comparison (the run's end time and the
+ * probes shown are simulation settings of the document). None of this is part of the
  * document or its undo history; the live sweep value reaches the document only when the user
  * applies it (SweepBar → setParameterValue / updateBlockParams).
  */
@@ -23,10 +24,6 @@ export interface AnalysisUiState {
   showFrequencyGuides: boolean;
   /** Cut shown in the Frequency view (null = the document's active cut or first cut). */
   cutId: string | null;
-  /** Probes shown in the Response view (null = all probes). */
-  probes: string[] | null;
-  /** Simulation end time in s (null = the document's view.simulationEnd or automatic). */
-  simulationEnd: number | null;
   pinned: AnalysisSnapshot | null;
   /** > 0 while something needs every result at once (pinning, the report): hidden views are computed too. */
   needAll: number;
@@ -35,7 +32,7 @@ export interface AnalysisUiState {
   setSweepKey(key: string | null): void;
   setLiveValue(v: number | null): void;
   setRange(key: string, r: SweepRange): void;
-  setOptions(patch: Partial<Pick<AnalysisUiState, 'negativeLocus' | 'showDampingGuides' | 'showFrequencyGuides' | 'cutId' | 'probes' | 'simulationEnd'>>): void;
+  setOptions(patch: Partial<Pick<AnalysisUiState, 'negativeLocus' | 'showDampingGuides' | 'showFrequencyGuides' | 'cutId'>>): void;
   pin(s: AnalysisSnapshot | null): void;
   setNeedAll(delta: number): void;
 }
@@ -49,8 +46,6 @@ export const useAnalysisStore = create<AnalysisUiState>()((set) => ({
   showDampingGuides: true,
   showFrequencyGuides: false,
   cutId: null,
-  probes: null,
-  simulationEnd: null,
   pinned: null,
   needAll: 0,
 

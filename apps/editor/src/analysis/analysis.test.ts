@@ -1,92 +1,38 @@
 /**
- * Unit tests of the analysis layer that runs without a browser: slider mapping, locus-plane
- * geometry, the engine computations the worker runs (against textbook closed forms), the CSV
- * and report exports, the comparison table.
+ * Unit tests of the editor's analysis layer that run without a browser: locus-plane geometry,
+ * the worker's compute entry (it runs study requests and nothing else), the CSV and report
+ * exports, the comparison table. The analyses themselves are tested in packages/study.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { demoDiagrams, type Diagram } from '@loopwright/graph';
-import { positionToValue, valueToPosition, sweepChoices, asSweepDiagram, engineParameterName, documentValue, fmt } from './sweep.ts';
+import { demoDiagrams } from '@loopwright/graph';
+import { runStudy, type FrequencyData, type LoopsData, type PolesData, type ResponseResult } from '@loopwright/study';
 import { dampingOf, nearestOnBranches, planeWindow, toPixel, fromPixel, niceStep, activePoints, zoomWindow, zoomAt } from './locus-geometry.ts';
-import { computeAnalysis, computeLoops, computeResponse, automaticEnd } from '../worker/compute.ts';
+import { computeReply } from '../worker/compute.ts';
+import { channelStudies, type AnalysisInputs } from './driver.ts';
+import { resolveSweep } from './sweep.ts';
 import { responseCsv } from './export.ts';
 import { designReportHtml, SAFETY_CAUTION } from './report.ts';
 import { differences, dominantPole } from './compare.ts';
 import { takeSnapshot } from './snapshot.ts';
+import type { AnalysisResult } from './results-store.ts';
+// Test-only builders of the study package (not its public API).
+import { unityLoop } from '../../../../packages/study/src/test-support.ts';
 
-/** r → step → sum(+ −) → gain K → plant 1/(s(s+2)) → probe, unity feedback, a cut on the feedback wire. */
-function unityLoop(K: number, plant = '1/(s*(s + 2))'): Diagram {
+const K = { kind: 'parameter', name: 'K' } as const;
+
+/** What the analysis channel shows for a diagram at K (locus, poles, frequency at the cut). */
+function analysisAt(Kv: number): AnalysisResult {
+  const d = unityLoop(Kv);
+  const live = { target: K, value: Kv };
+  const f = runStudy(d, { kind: 'cut', cut: 'c1', live }) as FrequencyData;
   return {
-    format: 'loopwright.diagram',
-    version: 2,
-    title: 'unity loop',
-    description: '',
-    parameters: [{ name: 'K', value: K, min: 0.1, max: 10, scale: 'log' }],
-    blocks: [
-      { id: 'r', kind: 'source', position: { x: 0, y: 0 }, params: { shape: 'step', amplitude: 1, start: 0, offset: 0, omega: 1, width: 1, period: 2 } },
-      { id: 'e', kind: 'summing-junction', position: { x: 150, y: 0 }, params: { signs: '+-' } },
-      { id: 'k', kind: 'gain', position: { x: 250, y: 0 }, params: { k: 'K' } },
-      { id: 'g', kind: 'transfer-function', position: { x: 400, y: 0 }, params: { expression: plant } },
-      { id: 'y', kind: 'probe', position: { x: 550, y: 0 }, params: {} },
-    ],
-    wires: [
-      { id: 'w1', from: { block: 'r', port: 'out' }, to: { block: 'e', port: 'in1' } },
-      { id: 'w2', from: { block: 'e', port: 'out' }, to: { block: 'k', port: 'in' } },
-      { id: 'w3', from: { block: 'k', port: 'out' }, to: { block: 'g', port: 'in' } },
-      { id: 'w4', from: { block: 'g', port: 'out' }, to: { block: 'y', port: 'in' } },
-      { id: 'w5', from: { block: 'g', port: 'out' }, to: { block: 'e', port: 'in2' } },
-    ],
-    cuts: [{ id: 'c1', wire: 'w5', label: 'loop' }],
-    sweeps: [],
-    view: {},
+    locus: { ok: true, value: runStudy(d, { kind: 'locus', target: K, value: Kv }) },
+    poles: { ok: true, value: runStudy(d, { kind: 'poles', live }) as PolesData },
+    frequency: { ok: true, value: f },
+    elapsedMs: 0,
   };
 }
-
-const sweepOf = (K: number) => ({ parameter: 'K', value: K, negative: false, min: 0.1, max: 10 });
-
-describe('slider mapping', () => {
-  it('log and linear ranges map ends to ends and round-trip (property)', () => {
-    fc.assert(
-      fc.property(fc.double({ min: 1e-3, max: 1e3, noNaN: true }), fc.double({ min: 1.01, max: 1e4, noNaN: true }), fc.double({ min: 0, max: 1, noNaN: true }), (a, ratio, p) => {
-        for (const scale of ['log', 'linear'] as const) {
-          const r = { min: a, max: a * ratio, scale };
-          expect(positionToValue(r, 0)).toBeCloseTo(r.min, 9);
-          expect(positionToValue(r, 1) / r.max).toBeCloseTo(1, 9);
-          expect(valueToPosition(r, positionToValue(r, p))).toBeCloseTo(p, 9);
-        }
-      }),
-      { numRuns: 200 },
-    );
-  });
-  it('a log slider puts the geometric mean in the middle (definition of a log scale)', () => {
-    expect(positionToValue({ min: 1, max: 100, scale: 'log' }, 0.5)).toBeCloseTo(10, 12);
-    expect(positionToValue({ min: -100, max: -1, scale: 'log' }, 0.5)).toBeCloseTo(-10, 12);
-    // A range through zero cannot be logarithmic: linear instead.
-    expect(positionToValue({ min: -1, max: 3, scale: 'log' }, 0.5)).toBeCloseTo(1, 12);
-  });
-  it('readouts keep 4 significant digits', () => {
-    expect(fmt(123.456)).toBe('123.5');
-    expect(fmt(null)).toBe('—');
-    expect(fmt(1.5e-5)).toBe('1.500e-5');
-  });
-});
-
-describe('sweep targets', () => {
-  it('lists named parameters and numeric gain blocks; a gain block becomes a synthetic parameter', () => {
-    const d = unityLoop(2);
-    d.blocks[2].params.k = 3; // a numeric gain, no parameter
-    const c = sweepChoices(d);
-    expect(c.map((x) => x.key)).toEqual(['param:K', 'block:k.k']);
-    const t = c[1].target;
-    const e = asSweepDiagram(d, t);
-    const name = engineParameterName(t);
-    expect(e.parameters.find((p) => p.name === name)?.value).toBe(3);
-    expect(e.blocks.find((b) => b.id === 'k')?.params.k).toBe(name);
-    expect(documentValue(d, t)).toBe(3);
-    // The document itself is untouched.
-    expect(d.blocks[2].params.k).toBe(3);
-  });
-});
 
 describe('locus plane geometry', () => {
   const box = { left: 50, top: 20, width: 400, height: 300 };
@@ -150,131 +96,47 @@ describe('locus plane geometry', () => {
   });
 });
 
-describe('engine computations (what the worker runs)', () => {
-  it('closed-loop poles of K/(s(s+2)) with unity feedback are −1 ± √(1−K) (characteristic equation s² + 2s + K = 0)', () => {
-    for (const K of [0.5, 4]) {
-      const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(K), sweep: sweepOf(K), cutId: 'c1', frequency: true });
-      expect(r.poles.ok).toBe(true);
-      const poles = r.poles.ok ? [...r.poles.value].sort((a, b) => a.re - b.re || a.im - b.im) : [];
-      const disc = 1 - K;
-      const want = disc >= 0 ? [{ re: -1 - Math.sqrt(disc), im: 0 }, { re: -1 + Math.sqrt(disc), im: 0 }] : [{ re: -1, im: -Math.sqrt(-disc) }, { re: -1, im: Math.sqrt(-disc) }];
-      poles.forEach((p, i) => {
-        expect(p.re).toBeCloseTo(want[i].re, 8);
-        expect(p.im).toBeCloseTo(want[i].im, 8);
-      });
-    }
-  });
-  it('the locus of K/(s(s+2)) is exact with its breakaway at s = −1, K = 1 (Ogata, root-locus rules, from memory)', () => {
-    const res = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(2), sweep: sweepOf(2), cutId: 'c1', frequency: true });
-    expect(res.locus?.ok).toBe(true);
-    const L = res.locus!.ok ? res.locus!.value : null;
-    expect(L!.mode).toBe('exact');
-    expect(L!.breakaways).toHaveLength(1);
-    expect(L!.breakaways[0].s.re).toBeCloseTo(-1, 8);
-    expect(L!.breakaways[0].gain).toBeCloseTo(1, 8);
-    expect(L!.asymptotes!.centroid).toBeCloseTo(-1, 10);
-    // The dense trace covers the slider range only.
-    for (const b of L!.rangeBranches!) for (const k of b.k) {
-      expect(k).toBeGreaterThanOrEqual(0.1 - 1e-12);
-      expect(k).toBeLessThanOrEqual(10 + 1e-9);
-    }
-  });
-  it('margins at the cut: |L(jωc)| = 1 at ωc² = −2 + √20 and PM = 90° − atan(ωc/2) for L = 4/(s(s+2)) (closed form)', () => {
-    const r = computeAnalysis({ channel: 'analysis', id: 1, diagram: unityLoop(4), sweep: sweepOf(4), cutId: 'c1', frequency: true });
-    expect(r.frequency?.ok).toBe(true);
-    const f = r.frequency!.ok ? r.frequency!.value : null;
-    const wc = Math.sqrt(-2 + Math.sqrt(20));
-    expect(f!.margins.gainCrossover).toBeCloseTo(wc, 6);
-    expect(f!.margins.phaseMarginDeg).toBeCloseTo(90 - (Math.atan(wc / 2) * 180) / Math.PI, 5);
-    expect(f!.margins.gainMarginDb).toBeNull(); // a second-order loop never reaches −180°
-    // |S| = 1/|1 + L| and |T| = |L|/|1 + L| (definitions of S and T).
-    for (let i = 0; i < f!.omega.length; i += 50) {
-      const one = Math.hypot(1 + f!.re[i], f!.im[i]);
-      expect(10 ** (f!.sensDb[i] / 20) * one).toBeCloseTo(1, 9);
-      expect(10 ** (f!.compDb[i] / 20)).toBeCloseTo(Math.hypot(f!.re[i], f!.im[i]) / one, 9);
-    }
-  });
-  it('the loops table matches the frequency view at the same cut', () => {
-    const d = unityLoop(4);
-    const a = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: sweepOf(4), cutId: 'c1', frequency: true });
-    const l = computeLoops({ channel: 'loops', id: 1, diagram: d, overrides: { K: 4 } });
-    expect(l.loops.ok).toBe(true);
-    const row = l.loops.ok ? l.loops.value.rows[0] : null;
-    const f = a.frequency!.ok ? a.frequency!.value : null;
-    expect(row!.cutId).toBe('c1');
-    expect(row!.margins.phaseMarginDeg).toBeCloseTo(f!.margins.phaseMarginDeg!, 9);
-  });
-  it('the linear step response of 4/(s(s+2)) in unity feedback matches the underdamped second-order formula (ωn = 2, ζ = 0.5)', () => {
-    const d = unityLoop(4);
-    const r = computeResponse({ channel: 'response', id: 1, diagram: d, overrides: { K: 4 }, until: 8 });
-    const wn = 2;
-    const zeta = 0.5;
-    const wd = wn * Math.sqrt(1 - zeta * zeta);
-    const phi = Math.acos(zeta);
-    const exact = (t: number) => 1 - (Math.exp(-zeta * wn * t) / Math.sqrt(1 - zeta * zeta)) * Math.sin(wd * t + phi);
-    const { time, traces } = r.linear;
-    for (let i = 0; i < time.length; i += 25) expect(traces.y[i]).toBeCloseTo(exact(time[i]), 3);
-    // No nonlinearity in this diagram: both runs agree.
-    for (let i = 0; i < time.length; i += 25) expect(r.nonlinear.traces.y[i]).toBeCloseTo(traces.y[i], 3);
-    // Overshoot exp(−πζ/√(1−ζ²)) = 16.3 % (second-order formula).
-    const os = r.metrics.find((m) => m.probe === 'y')!.overshootPct!;
-    expect(os).toBeCloseTo(100 * Math.exp((-Math.PI * zeta) / Math.sqrt(1 - zeta * zeta)), 0);
-    expect(r.until).toBe(8);
-  });
-  it('sweeping a gain block (numeric k) is the same exact locus as sweeping a parameter that sets it', () => {
-    const byParam = unityLoop(3);
-    const byBlock = unityLoop(3);
-    byBlock.parameters = [];
-    byBlock.blocks[2].params.k = 3;
-    const choice = sweepChoices(byBlock).find((c) => c.target.kind === 'block')!;
-    const d = asSweepDiagram(byBlock, choice.target);
-    const name = engineParameterName(choice.target);
-    const a = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: { parameter: name, value: 5, negative: false, min: 0.3, max: 30 }, cutId: null, frequency: false });
-    const b = computeAnalysis({ channel: 'analysis', id: 1, diagram: byParam, sweep: { parameter: 'K', value: 5, negative: false, min: 0.3, max: 30 }, cutId: null, frequency: false });
-    expect(a.locus?.ok && a.locus.value.mode).toBe('exact');
-    const sort = (p: { re: number; im: number }[]) => [...p].sort((x, y) => x.im - y.im);
-    const pa = sort(a.poles.ok ? a.poles.value : []);
-    const pb = sort(b.poles.ok ? b.poles.value : []);
-    expect(pa).toHaveLength(2);
-    pa.forEach((p, i) => {
-      expect(p.re).toBeCloseTo(pb[i].re, 9);
-      expect(p.im).toBeCloseTo(pb[i].im, 9);
+describe('the worker compute entry', () => {
+  it('answers one part per study request, in order, each failing on its own', () => {
+    const reply = computeReply({
+      channel: 'analysis',
+      id: 7,
+      diagram: unityLoop(2),
+      studies: [{ kind: 'poles' }, { kind: 'cut', cut: 'nope' }, { kind: 'loops' }],
     });
-    // s² + 2s + 5 = 0: −1 ± 2j.
-    expect(Math.abs(pa[0].im)).toBeCloseTo(2, 9);
+    expect(reply.ok && reply.id === 7).toBe(true);
+    const results = reply.ok ? reply.results : [];
+    expect(results.map((r) => r.ok)).toEqual([true, false, true]);
+    expect(results[1].ok ? null : results[1].error).toMatch(/cut nope is not in the diagram/);
   });
-  it('an automatic run length covers several time constants of the slowest pole', () => {
-    const T = automaticEnd(unityLoop(0.5), { K: 0.5 });
-    // Slowest pole −1 + √0.5 ≈ −0.293: 6 time constants ≈ 20.5 s, rounded up to 50 (1-2-5 series).
-    expect(T).toBeGreaterThanOrEqual(6 / (1 - Math.sqrt(0.5)));
-  });
-  it('the demos compute without errors in every part', () => {
+  it('the demos compute without errors in every part the views ask for', () => {
     for (const demo of demoDiagrams) {
       const d = demo.diagram;
-      const sw = d.sweeps[0];
-      const v = d.parameters.find((p) => p.name === sw.parameter)!.value;
-      const a = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: { parameter: sw.parameter, value: v, negative: true, min: sw.min, max: sw.max }, cutId: null, frequency: true });
-      expect(a.locus?.ok, JSON.stringify(a.locus)).toBe(true);
-      expect(a.poles.ok).toBe(true);
-      expect(a.frequency?.ok).toBe(true);
-      const l = computeLoops({ channel: 'loops', id: 1, diagram: d, overrides: {} });
-      expect(l.loops.ok).toBe(true);
+      const sweep = resolveSweep(d, { key: null, liveValue: null });
+      const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null };
+      const studies = channelStudies(inp, { frequency: true, opposite: true });
+      for (const [channel, reqs] of Object.entries(studies)) {
+        if (channel === 'response') continue; // simulated in the agreement test
+        const reply = computeReply({ channel: channel as 'analysis', id: 1, diagram: d, studies: reqs });
+        expect(reply.ok).toBe(true);
+        if (reply.ok) for (const r of reply.results) expect(r.ok, `${demo.id} ${channel}: ${JSON.stringify(r).slice(0, 300)}`).toBe(true);
+      }
     }
   });
 });
 
 describe('exports', () => {
   const d = unityLoop(4);
-  const response = computeResponse({ channel: 'response', id: 1, diagram: d, overrides: {}, until: 5 });
-  const analysis = computeAnalysis({ channel: 'analysis', id: 1, diagram: d, sweep: sweepOf(4), cutId: 'c1', frequency: true });
-  const loops = computeLoops({ channel: 'loops', id: 1, diagram: d, overrides: {} }).loops;
+  const response = runStudy(d, { kind: 'run', until: 5, linearOverlay: true }) as ResponseResult;
+  const analysis = analysisAt(4);
+  const loops = { ok: true as const, value: runStudy(d, { kind: 'loops' }) as LoopsData };
   it('CSV: a t column, each trace with and without nonlinearities, one row per sample', () => {
     const lines = responseCsv(response).trim().split('\n');
     expect(lines[0]).toBe('t,y,y (linear)');
-    expect(lines).toHaveLength(response.nonlinear.time.length + 1);
+    expect(lines).toHaveLength(response.run.time.length + 1);
     const last = lines[lines.length - 1].split(',').map(Number);
-    expect(last[0]).toBe(response.nonlinear.time.at(-1));
-    expect(last[1]).toBe(response.nonlinear.traces.y.at(-1));
+    expect(last[0]).toBe(response.run.time.at(-1));
+    expect(last[1]).toBe(response.run.traces.y.at(-1));
   });
   it('the report is one self-contained HTML file with the caution, the parameters, the loops and the charts', () => {
     const html = designReportHtml({ diagram: d, sweepLabel: 'K', sweepValue: 4, analysis, loops, response, generatedAt: new Date(0) });
@@ -286,8 +148,8 @@ describe('exports', () => {
     expect(html).not.toMatch(/<script|(src|href)="https?:/); // self-contained (SVG namespaces are names, not fetches)
   });
   it('the comparison lists what changed between a pinned and a current result', () => {
-    const a2 = computeAnalysis({ channel: 'analysis', id: 2, diagram: unityLoop(8), sweep: sweepOf(8), cutId: 'c1', frequency: true });
-    const l2 = computeLoops({ channel: 'loops', id: 2, diagram: unityLoop(8), overrides: {} }).loops;
+    const a2 = analysisAt(8);
+    const l2 = { ok: true as const, value: runStudy(unityLoop(8), { kind: 'loops' }) as LoopsData };
     const pinned = takeSnapshot('pinned', { K: 4 }, analysis, loops, null);
     const now = takeSnapshot('now', { K: 8 }, a2, l2, null);
     const rows = differences(pinned, now);

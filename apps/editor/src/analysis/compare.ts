@@ -3,7 +3,7 @@
  * margins, each probe's response metrics, and the dominant closed-loop pole.
  */
 import type { AnalysisSnapshot } from './snapshot.ts';
-import type { Cx } from '../worker/protocol.ts';
+import type { Cx } from '@loopwright/study';
 
 export interface DiffRow {
   group: 'value' | 'loop' | 'response' | 'poles';

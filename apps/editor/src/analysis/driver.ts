@@ -1,69 +1,86 @@
 /**
  * The analysis driver: watches the document and the analysis UI state, and whenever the inputs
- * of a result change, asks the engine worker for it. Results land in the results store. The
- * slider's live value travels as a parameter override, so moving it never touches the
- * document (nor its undo history).
+ * of a result change, sends the study requests for it to the engine worker. What to compute —
+ * which sweep, which cut, how long a run — is decided by @loopwright/study; the driver only
+ * says what the views on screen need. Results land in the results store. The slider's live
+ * value travels as a held value, so moving it never touches the document (nor its undo history).
  */
 import type { Diagram } from '@loopwright/graph';
+import {
+  engineText,
+  fingerprintText,
+  resolveSweep,
+  type CheckData,
+  type FrequencyData,
+  type LiveValue,
+  type LocusData,
+  type LoopsData,
+  type Part,
+  type PolesData,
+  type ResolvedSweep,
+  type ResponseResult,
+  type StudyRequest,
+  type StudyResult,
+} from '@loopwright/study';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { useAnalysisStore } from './analysis-store.ts';
-import { useResultsStore, type ResultsState } from './results-store.ts';
-import {
-  asSweepDiagram,
-  documentValue,
-  engineParameterName,
-  preferredChoice,
-  sweepChoices,
-  type SweepChoice,
-} from './sweep.ts';
+import { resultsComplete, useResultsStore, type AnalysisResult, type ResultsState } from './results-store.ts';
 import { EngineClient, type WorkerLike } from '../worker/engine-client.ts';
-import type { Channel, LocusData, SweepSpec } from '../worker/protocol.ts';
+import { CHANNELS, type Channel } from '../worker/protocol.ts';
 
 export interface AnalysisInputs {
   diagram: Diagram;
-  engineDiagram: Diagram;
-  choice: SweepChoice | null;
-  sweep: SweepSpec | null;
-  overrides: Record<string, number>;
+  sweep: ResolvedSweep;
+  /** The swept target's value in force (live slider value, else the document's). */
+  live: LiveValue | null;
+  /** The cut the user picked in the Frequency view (null: the study's default). */
   cutId: string | null;
-  until: number | null;
 }
 
 /** The inputs the views are computed from, as they stand now. */
 export function currentInputs(): AnalysisInputs {
   const diagram = useDiagramStore.getState().diagram;
   const ui = useAnalysisStore.getState();
-  const choices = sweepChoices(diagram);
-  const choice = choices.find((c) => c.key === ui.sweepKey) ?? preferredChoice(diagram, choices);
-  const engineDiagram = choice ? asSweepDiagram(diagram, choice.target) : diagram;
-  const value = ui.liveValue ?? (choice ? documentValue(diagram, choice.target) : Number.NaN);
-  const range = choice ? ui.ranges[choice.key] ?? choice.range : null;
-  const sweep: SweepSpec | null =
-    choice && range && Number.isFinite(value)
-      ? { parameter: engineParameterName(choice.target), value, negative: ui.negativeLocus, min: range.min, max: range.max }
-      : null;
-  const cutId =
-    ui.cutId && (diagram.cuts.some((c) => c.id === ui.cutId) || ui.cutId.startsWith('auto:'))
-      ? ui.cutId
-      : diagram.cuts.find((c) => c.id === diagram.view.activeCut)?.id ?? diagram.cuts[0]?.id ?? null;
-  const until = ui.simulationEnd ?? diagram.simulation?.end ?? null;
-  return { diagram, engineDiagram, choice, sweep, overrides: sweep ? { [sweep.parameter]: sweep.value } : {}, cutId, until };
+  const sweep = resolveSweep(diagram, { key: ui.sweepKey, liveValue: ui.liveValue, ranges: ui.ranges });
+  return { diagram, sweep, live: sweep.live, cutId: ui.cutId };
 }
 
-/** What the engine sees of a diagram: not the layout, title or view settings. */
-export function analysisKey(d: Diagram): string {
-  return JSON.stringify({
-    parameters: d.parameters,
-    blocks: d.blocks.map((b) => [b.id, b.kind, b.params]),
-    wires: d.wires,
-    cuts: d.cuts,
-  });
+/** The study requests of each channel for the views that need them. */
+export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; opposite: boolean }): Record<Channel, StudyRequest[]> {
+  const { live } = inp;
+  const { choice, range, value } = inp.sweep;
+  const analysis: StudyRequest[] = [];
+  if (choice && range && Number.isFinite(value)) analysis.push({ kind: 'locus', target: choice.target, value, range, opposite: opts.opposite });
+  analysis.push({ kind: 'poles', live });
+  if (opts.frequency) analysis.push({ kind: 'cut', cut: inp.cutId, live, fallback: true });
+  return {
+    check: [{ kind: 'check' }],
+    analysis,
+    loops: [{ kind: 'loops', live }],
+    // A live preview: 5 s of wall time at most (a run that needs more says so).
+    response: [{ kind: 'run', live, linearOverlay: true, maxWallMs: 5000 }],
+  };
 }
 
 /** Identity of a locus: its defining polynomials (exact) or its sampled points' ends. */
 function locusSignature(l: LocusData): string {
   const ends = (bs: LocusData['branches'] | null) => (bs ?? []).map((b) => [b.re.length, b.re[0], b.im[0], b.re[b.re.length - 1], b.im[b.im.length - 1]]);
-  return JSON.stringify([l.mode, l.parameter, l.negative, l.n0, l.d0, ends(l.branches), ends(l.rangeBranches), ends(l.negativeBranches)]);
+  return JSON.stringify([l.mode, l.target, l.direction, l.n0, l.d0, ends(l.branches), ends(l.rangeBranches), ends(l.oppositeBranches)]);
+}
+
+/** The analysis channel's parts, by kind. */
+function analysisOf(studies: StudyRequest[], results: Part<StudyResult>[], elapsedMs: number): AnalysisResult {
+  const byKind = (kind: StudyRequest['kind']) => {
+    const i = studies.findIndex((s) => s.kind === kind);
+    return i < 0 ? null : results[i];
+  };
+  const unwrap = <T>(p: Part<StudyResult> | null): Part<T> | null => (p === null ? null : p.ok ? { ok: true, value: p.value.value as T } : p);
+  const locus = unwrap<LocusData>(byKind('locus'));
+  const poles = unwrap<PolesData>(byKind('poles'))!;
+  const cut = unwrap<FrequencyData | null>(byKind('cut'));
+  // A diagram with no loop has nothing to show in the Frequency view: no part, no error.
+  const frequency = !cut || (cut.ok && cut.value === null) ? null : (cut as AnalysisResult['frequency']);
+  return { locus, poles, frequency, elapsedMs };
 }
 
 let client: EngineClient | null = null;
@@ -84,58 +101,69 @@ export function engineClient(): EngineClient {
  */
 export function startAnalysisDriver(): () => void {
   const engine = engineClient();
-  const sentKey: Record<Channel, string> = { analysis: '', loops: '', response: '' };
-  const genOf: Record<Channel, Map<number, number>> = { analysis: new Map(), loops: new Map(), response: new Map() };
+  const sentKey = Object.fromEntries(CHANNELS.map((c) => [c, ''])) as Record<Channel, string>;
+  const genOf = Object.fromEntries(CHANNELS.map((c) => [c, new Map<number, number>()])) as Record<Channel, Map<number, number>>;
+  const studiesOf = Object.fromEntries(CHANNELS.map((c) => [c, new Map<number, StudyRequest[]>()])) as Record<Channel, Map<number, StudyRequest[]>>;
 
   const off = engine.onReply((reply) => {
     const ch = reply.channel;
     const gen = genOf[ch].get(reply.id) ?? 0;
+    const studies = studiesOf[ch].get(reply.id) ?? [];
     genOf[ch].delete(reply.id);
+    studiesOf[ch].delete(reply.id);
     const s = useResultsStore.getState();
     const patch: Partial<ResultsState> = {
       held: { ...s.held, [ch]: gen },
       arrivedAt: { ...s.arrivedAt, [ch]: performance.now() },
-      errors: { ...s.errors, [ch]: reply.ok ? null : reply.error },
     };
+    let error: string | null = reply.ok ? null : reply.error;
     if (reply.ok) {
-      if (reply.channel === 'analysis') {
+      patch.computeMs = { ...s.computeMs, [ch]: reply.elapsedMs };
+      const first = reply.results[0];
+      if (ch === 'analysis') {
+        const next = analysisOf(studies, reply.results, reply.elapsedMs);
         // The locus does not change while the slider moves: keep the same object so that the
         // Locus chart's base option (thousands of points) is not rebuilt on every step.
         const prev = s.analysis?.locus;
-        const next = reply.result.locus;
-        if (prev?.ok && next?.ok && locusSignature(prev.value) === locusSignature(next.value)) reply.result.locus = prev;
-        patch.analysis = reply.result;
-        patch.computeMs = { ...s.computeMs, analysis: reply.result.elapsedMs };
-      } else if (reply.channel === 'loops') {
-        patch.loops = reply.result.loops;
-        patch.computeMs = { ...s.computeMs, loops: reply.result.elapsedMs };
+        if (prev?.ok && next.locus?.ok && locusSignature(prev.value) === locusSignature(next.locus.value)) next.locus = prev;
+        patch.analysis = next;
+      } else if (ch === 'loops') {
+        patch.loops = first.ok ? { ok: true, value: first.value.value as LoopsData } : first;
+      } else if (ch === 'check') {
+        patch.check = first.ok ? (first.value.value as CheckData) : null;
+        if (!first.ok) error = first.error;
       } else {
-        patch.response = reply.result;
-        patch.computeMs = { ...s.computeMs, response: reply.result.elapsedMs };
+        // A run that could not start leaves no old traces drawn under its error.
+        patch.response = first.ok ? (first.value.value as ResponseResult) : null;
+        if (!first.ok) error = first.error;
       }
+    } else if (ch === 'response') {
+      patch.response = null;
     }
+    patch.errors = { ...s.errors, [ch]: error };
     useResultsStore.setState(patch);
   });
 
   const update = () => {
     const inp = currentInputs();
     // Only what a view on screen (or a pin / report in progress) shows is computed: the Locus
-    // is always on screen; the others follow their tab.
+    // and the findings always; the others follow their tab.
     const ui = useAnalysisStore.getState();
     const all = ui.needAll > 0 || ui.view === 'compare';
     const needed: Record<Channel, boolean> = {
+      check: true,
       analysis: true,
       loops: all || ui.view === 'loops',
       response: all || ui.view === 'response' || ui.view === 'locus',
     };
-    const withFrequency = all || ui.view === 'frequency';
-    const base = analysisKey(inp.engineDiagram);
-    const keys: Record<Channel, string> = {
-      analysis: JSON.stringify([base, inp.sweep, inp.cutId, withFrequency]),
-      loops: JSON.stringify([base, inp.overrides]),
-      response: JSON.stringify([base, inp.overrides, inp.until]),
-    };
-    const changed = (Object.keys(keys) as Channel[]).filter((c) => needed[c] && keys[c] !== sentKey[c]);
+    const studies = channelStudies(inp, { frequency: all || ui.view === 'frequency', opposite: ui.negativeLocus });
+    // What each channel's results depend on: findings on everything; a run on the simulation
+    // settings but not on which probes are shown; the analyses on neither.
+    const d = inp.diagram;
+    const run = { ...(d.simulation ?? {}), probes: undefined };
+    const base: Record<Channel, string> = { check: fingerprintText(d), analysis: engineText(d), loops: engineText(d), response: `${engineText(d)}|${JSON.stringify(run)}` };
+    const keys = Object.fromEntries(CHANNELS.map((c) => [c, `${base[c]}|${JSON.stringify(studies[c])}`])) as Record<Channel, string>;
+    const changed = CHANNELS.filter((c) => needed[c] && keys[c] !== sentKey[c]);
     if (changed.length === 0) return;
     const rs = useResultsStore.getState();
     const gen = rs.generation + 1;
@@ -145,13 +173,9 @@ export function startAnalysisDriver(): () => void {
     useResultsStore.setState({ generation: gen, generationAt: performance.now(), wanted });
     for (const c of changed) {
       sentKey[c] = keys[c];
-      const id =
-        c === 'analysis'
-          ? engine.send({ channel: 'analysis', diagram: inp.engineDiagram, sweep: inp.sweep, cutId: inp.cutId, frequency: withFrequency })
-          : c === 'loops'
-            ? engine.send({ channel: 'loops', diagram: inp.engineDiagram, overrides: inp.overrides })
-            : engine.send({ channel: 'response', diagram: inp.engineDiagram, overrides: inp.overrides, until: inp.until });
+      const id = engine.send({ channel: c, diagram: inp.diagram, studies: studies[c] });
       genOf[c].set(id, gen);
+      studiesOf[c].set(id, studies[c]);
     }
   };
 
@@ -182,10 +206,7 @@ export async function withAllResults<T>(fn: () => T, timeoutMs = 20_000): Promis
   useAnalysisStore.getState().setNeedAll(1);
   try {
     await new Promise<void>((resolve) => {
-      const done = () => {
-        const s = useResultsStore.getState();
-        return s.held.analysis === s.wanted.analysis && s.held.loops === s.wanted.loops && s.held.response === s.wanted.response && s.loops !== null && s.response !== null;
-      };
+      const done = () => resultsComplete(useResultsStore.getState());
       if (done()) return resolve();
       const t = setTimeout(() => {
         off();

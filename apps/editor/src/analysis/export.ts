@@ -2,7 +2,7 @@
  * Export: chart pictures (PNG from the drawn canvas, SVG from the SVG renderer), traces as
  * CSV, and file download through a temporary link.
  */
-import type { ResponseResult } from '../worker/protocol.ts';
+import type { ResponseResult } from '@loopwright/study';
 
 /** Offers a file to the user (the browser's download). */
 export function download(filename: string, data: Blob | string, type = 'application/octet-stream'): void {
@@ -42,16 +42,17 @@ const num = (v: number | undefined): string => (v === undefined || Number.isNaN(
 
 /**
  * Traces as CSV: a column `t` and, per recorded trace, its value with nonlinearities and the
- * linear model's value ("<name> (linear)"). The two runs share one time grid only when their
+ * linear model's value ("<name> (linear)") when the run has a linear overlay. The two runs share one time grid only when their
  * grids agree; otherwise each row holds the nonlinear grid and the linear value interpolated.
  */
 export function responseCsv(r: ResponseResult): string {
   const label = (key: string) => r.probes.find((p) => p.id === key)?.label ?? r.actuators.find((a) => a.key === key)?.label ?? key;
-  const keys = Object.keys(r.nonlinear.traces);
-  const header = ['t', ...keys.flatMap((k) => [label(k), `${label(k)} (linear)`])];
+  const keys = Object.keys(r.run.traces);
+  const lin = r.linear;
+  const header = ['t', ...keys.flatMap((k) => (lin ? [label(k), `${label(k)} (linear)`] : [label(k)]))];
   const lines = [header.map(csvCell).join(',')];
-  const tn = r.nonlinear.time;
-  const tl = r.linear.time;
+  const tn = r.run.time;
+  const tl = lin?.time ?? [];
   const sameGrid = tn.length === tl.length && tn.every((t, i) => t === tl[i]);
   let j = 0;
   for (let i = 0; i < tn.length; i++) {
@@ -59,14 +60,15 @@ export function responseCsv(r: ResponseResult): string {
     const row = [num(t)];
     if (!sameGrid) while (j + 1 < tl.length && tl[j + 1] < t) j++;
     for (const k of keys) {
-      row.push(num(r.nonlinear.traces[k][i]));
-      const lin = r.linear.traces[k];
-      if (!lin) row.push('');
-      else if (sameGrid) row.push(num(lin[i]));
+      row.push(num(r.run.traces[k][i]));
+      if (!lin) continue;
+      const trace = lin.traces[k];
+      if (!trace) row.push('');
+      else if (sameGrid) row.push(num(trace[i]));
       else if (j + 1 < tl.length && tl[j + 1] !== tl[j]) {
         const f = Math.min(1, Math.max(0, (t - tl[j]) / (tl[j + 1] - tl[j])));
-        row.push(num(lin[j] + f * (lin[j + 1] - lin[j])));
-      } else row.push(num(lin[j]));
+        row.push(num(trace[j] + f * (trace[j + 1] - trace[j])));
+      } else row.push(num(trace[j]));
     }
     lines.push(row.join(','));
   }

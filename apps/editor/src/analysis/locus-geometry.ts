@@ -3,7 +3,7 @@
  * interesting points, nice tick steps, pixel ↔ s mapping, the locus point nearest the pointer
  * (projected onto the branch segment), damping ratio and natural frequency.
  */
-import type { Cx, LocusBranch, LocusData } from '../worker/protocol.ts';
+import type { Cx, LocusBranch, LocusData } from '@loopwright/study';
 
 export interface PlotBox {
   /** Grid rectangle inside the chart, px. */

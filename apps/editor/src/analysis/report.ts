@@ -4,7 +4,8 @@
  * inline SVG, and the safety caution.
  */
 import type { Diagram } from '@loopwright/graph';
-import type { AnalysisResult, LoopsData, Part, ResponseResult } from '../worker/protocol.ts';
+import type { AnalysisResult } from './results-store.ts';
+import type { LoopsData, Part, ResponseResult } from '@loopwright/study';
 import { echarts, type ChartOption } from '../views/echarts-setup.ts';
 import { locusBox, locusOption } from '../views/locus-option.ts';
 import { bodeOption, nyquistOption, sensitivityOption } from '../views/frequency-option.ts';
@@ -46,7 +47,7 @@ export function reportCharts(inp: ReportInput): { title: string; svg: string }[]
   const out: { title: string; svg: string }[] = [];
   const a = inp.analysis;
   const locus = a?.locus?.ok ? a.locus.value : null;
-  const poles = a?.poles.ok ? a.poles.value : [];
+  const poles = a?.poles.ok ? a.poles.value.poles : [];
   if (locus || poles.length) {
     const [w, h] = [720, 480];
     const box = locusBox(w, h);
@@ -131,13 +132,17 @@ export function designReportHtml(inp: ReportInput): string {
     sections.push(`<p>${esc(inp.loops && !inp.loops.ok ? inp.loops.error : 'not computed')}</p>`);
   }
   if (a?.poles.ok) {
-    sections.push(`<p>Closed-loop poles: ${a.poles.value.map((p) => esc(`${fmt(p.re)}${p.im ? ` ${p.im < 0 ? '−' : '+'} j${fmt(Math.abs(p.im))}` : ''}`)).join(', ')}</p>`);
+    const P = a.poles.value;
+    // Poles of a Padé approximant are said to be so (DelayHandling note; PoleOrigin per pole).
+    const mark = (i: number) => (P.origin[i] === 'approximant' ? ' (Padé)' : P.origin[i] === 'approximated' ? ' (approx.)' : '');
+    sections.push(`<p>Closed-loop poles: ${P.poles.map((p, i) => esc(`${fmt(p.re)}${p.im ? ` ${p.im < 0 ? '−' : '+'} j${fmt(Math.abs(p.im))}` : ''}${mark(i)}`)).join(', ')}</p>`);
+    if (P.delayHandling.mode === 'pade') sections.push(`<p class="note">${esc(P.delayHandling.note)}: poles marked (approx.) approximate true roots; (Padé) ones belong to the approximation.</p>`);
   }
 
   const r = inp.response;
   if (r) {
     sections.push('<h2>Response</h2>');
-    sections.push(`<p>Simulated to ${esc(fmt(r.until))} s: ${esc(r.nonlinear.message)}.</p>`);
+    sections.push(`<p>Simulated to ${esc(fmt(r.until))} s: ${esc(r.run.message)}.</p>`);
     sections.push(
       table(
         ['signal', 'rise time [s]', 'overshoot [%]', 'settling [s]', 'steady state', 'steady-state error', 'IAE', 'time at limit [s]', 'peak effort'],

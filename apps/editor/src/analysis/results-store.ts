@@ -6,12 +6,24 @@
  * has drawn a complete generation, so tests and the bench can wait for "all views updated".
  */
 import { create } from 'zustand';
-import type { AnalysisResult, Channel, LoopsData, Part, ResponseResult } from '../worker/protocol.ts';
+import { resultsComplete as allIn, type CheckData, type FrequencyData, type LocusData, type LoopsData, type Part, type PolesData, type ResponseResult } from '@loopwright/study';
+import { CHANNELS, type Channel } from '../worker/protocol.ts';
+
+/** What the analysis channel gives back: the locus of the sweep, the closed-loop poles, L at the cut. */
+export interface AnalysisResult {
+  locus: Part<LocusData> | null;
+  poles: Part<PolesData>;
+  frequency: Part<FrequencyData> | null;
+  /** Worker compute time, ms. */
+  elapsedMs: number;
+}
 
 export interface ResultsState {
   generation: number;
   /** performance.now() when the inputs of `generation` changed. */
   generationAt: number;
+  /** Findings of the document (checkDiagram, run in the worker once per edit). */
+  check: CheckData | null;
   analysis: AnalysisResult | null;
   loops: Part<LoopsData> | null;
   response: ResponseResult | null;
@@ -30,11 +42,12 @@ export interface ResultsState {
   latencies: number[];
 }
 
-const perChannel = <T>(v: T): Record<Channel, T> => ({ analysis: v, loops: v, response: v });
+const perChannel = <T>(v: T): Record<Channel, T> => Object.fromEntries(CHANNELS.map((c) => [c, v])) as Record<Channel, T>;
 
 export const useResultsStore = create<ResultsState>()(() => ({
   generation: 0,
   generationAt: 0,
+  check: null,
   analysis: null,
   loops: null,
   response: null,
@@ -48,6 +61,5 @@ export const useResultsStore = create<ResultsState>()(() => ({
   latencies: [],
 }));
 
-/** True when every channel holds the result of the request it was last sent. */
-export const resultsComplete = (s: ResultsState): boolean =>
-  s.held.analysis === s.wanted.analysis && s.held.loops === s.wanted.loops && s.held.response === s.wanted.response;
+/** True when every channel holds the result of the request it was last sent (the study's "all results in"). */
+export const resultsComplete = (s: Pick<ResultsState, 'wanted' | 'held'>): boolean => allIn(s, CHANNELS);

@@ -3,7 +3,9 @@
  * copies of what the views draw. Pinning copies; later results never change a snapshot.
  */
 import type { Diagram } from '@loopwright/graph';
-import type { AnalysisResult, Cx, FrequencyData, LoopsData, Part, ResponseResult } from '../worker/protocol.ts';
+import type { AnalysisResult } from './results-store.ts';
+import type { LiveValue } from '@loopwright/study';
+import type { Cx, FrequencyData, LoopsData, Part, ResponseResult } from '@loopwright/study';
 
 export interface AnalysisSnapshot {
   takenAt: string;
@@ -16,15 +18,13 @@ export interface AnalysisSnapshot {
   response: ResponseResult | null;
 }
 
-/** Every value the results depend on that a user would tune: parameters and numeric gains. */
-export function tunedValues(d: Diagram, overrides: Record<string, number>, overrideLabel?: { engineName: string; key: string }): Record<string, number> {
+/** Every value the results depend on that a user would tune: parameters and numeric gains, with the live sweep value in force. */
+export function tunedValues(d: Diagram, live: LiveValue | null): Record<string, number> {
   const out: Record<string, number> = {};
+  const gainKey = (id: string) => `${d.blocks.find((b) => b.id === id)?.label ?? id} · k`;
   for (const p of d.parameters) out[p.name] = p.value;
-  for (const b of d.blocks) if (b.kind === 'gain' && typeof b.params.k === 'number') out[`${b.label ?? b.id} · k`] = b.params.k;
-  for (const [name, v] of Object.entries(overrides)) {
-    if (overrideLabel && name === overrideLabel.engineName) out[overrideLabel.key] = v;
-    else out[name] = v;
-  }
+  for (const b of d.blocks) if (b.kind === 'gain' && typeof b.params.k === 'number') out[gainKey(b.id)] = b.params.k;
+  if (live) out[live.target.kind === 'parameter' ? live.target.name : gainKey(live.target.block)] = live.value;
   return out;
 }
 
@@ -34,7 +34,7 @@ export function takeSnapshot(label: string, values: Record<string, number>, a: A
     takenAt: new Date().toISOString(),
     label,
     values: { ...values },
-    poles: a?.poles.ok ? copy(a.poles.value) : [],
+    poles: a?.poles.ok ? copy(a.poles.value.poles) : [],
     frequency: a?.frequency?.ok ? copy(a.frequency.value) : null,
     loops: loops?.ok ? copy(loops.value) : null,
     response: copy(r),

@@ -6,6 +6,7 @@
 import { useResultsStore, resultsComplete } from './results-store.ts';
 import { useAnalysisStore } from './analysis-store.ts';
 import { currentInputs } from './driver.ts';
+import { engineParameterName } from '@loopwright/study';
 import { chartInstance, chartNames } from '../views/chart-registry.ts';
 
 export interface AnalysisHook {
@@ -34,8 +35,12 @@ export function installAnalysisHook(): void {
         renderedGeneration: rs.renderedGeneration,
         complete: resultsComplete(rs) && rs.renderedGeneration === rs.generation,
         view: ui.view,
-        sweep: inp.choice ? { key: inp.choice.key, label: inp.choice.label, value: inp.sweep?.value ?? null, live: ui.liveValue, parameter: inp.sweep?.parameter ?? null } : null,
-        poles: a?.poles.ok ? a.poles.value : null,
+        sweep: inp.sweep.choice
+          ? { key: inp.sweep.choice.key, label: inp.sweep.choice.label, value: inp.sweep.value, live: ui.liveValue, parameter: engineParameterName(inp.sweep.choice.target) }
+          : null,
+        poles: a?.poles.ok ? a.poles.value.poles : null,
+        polesDetail: a?.poles.ok ? a.poles.value : null,
+        findings: rs.check?.findings ?? null,
         locus: a?.locus?.ok ? a.locus.value : null,
         locusError: a?.locus && !a.locus.ok ? a.locus.error : null,
         frequency: a?.frequency?.ok ? a.frequency.value : null,

@@ -5,7 +5,7 @@
  */
 import { create } from 'zustand';
 import { temporal } from 'zundo';
-import type { Block, BlockKind, Diagram, NamedParameter, ParamValue, Sweep, ViewSettings, Wire } from './graph-bridge.ts';
+import type { Block, BlockKind, Diagram, NamedParameter, ParamValue, SimulationSettings, Sweep, ViewSettings, Wire } from './graph-bridge.ts';
 import { defaultParams, emptyDiagram } from './graph-bridge.ts';
 import { renameInExpression } from './rename.ts';
 
@@ -31,6 +31,8 @@ export interface DiagramState {
   addCut(wireId: string): void;
   removeCut(id: string): void;
   setView(patch: Partial<ViewSettings>): void;
+  /** Simulation settings of the document (an undefined field is removed: "the engine chooses"). */
+  setSimulation(patch: Partial<SimulationSettings>): void;
   addSweep(sweep: Omit<Sweep, 'id'> & { id?: string }): string;
   updateSweep(id: string, patch: Partial<Omit<Sweep, 'id'>>): void;
   removeSweep(id: string): void;
@@ -136,6 +138,12 @@ export const useDiagramStore = create<DiagramState>()(
             if (d.view.activeCut === id) d.view.activeCut = d.cuts[0]?.id;
           }),
         setView: (patch) => edit((d) => void (d.view = { ...d.view, ...patch })),
+        setSimulation: (patch) =>
+          edit((d) => {
+            const next: Record<string, unknown> = { ...(d.simulation ?? {}), ...patch };
+            for (const k of Object.keys(next)) if (next[k] === undefined) delete next[k];
+            d.simulation = next as SimulationSettings;
+          }),
         addSweep: (sweep) => {
           const d = clone(get().diagram);
           const id = sweep.id ?? nextId('sweep', d.sweeps.map((s) => s.id));
@@ -209,6 +217,7 @@ export const useDiagramStore = create<DiagramState>()(
           d.cuts = d.cuts.filter((c) => d.wires.some((w) => w.id === c.wire));
           if (d.view.activeCut && !d.cuts.some((c) => c.id === d.view.activeCut)) d.view.activeCut = d.cuts[0]?.id;
           if (d.view.activeProbe && !d.blocks.some((b) => b.id === d.view.activeProbe)) delete d.view.activeProbe;
+          if (d.simulation?.probes) d.simulation.probes = d.simulation.probes.filter((id) => !gone.has(id));
           set({ diagram: d, selection: { blocks: [], wires: [] } });
         },
         removeWires: (ids) =>

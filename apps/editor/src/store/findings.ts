@@ -1,11 +1,11 @@
-import { useMemo } from 'react';
-import { useDiagramStore } from './diagram-store.ts';
-import { findingsOf, type Finding } from './graph-bridge.ts';
+import type { Finding } from './graph-bridge.ts';
+import { useResultsStore } from '../analysis/results-store.ts';
 
-/** The diagram's findings, recomputed only when the document changes. */
+const NONE: Finding[] = [];
+
+/** The diagram's findings: checked once per edit in the engine worker (the previous edit's until the new ones arrive). */
 export function useFindings(): Finding[] {
-  const diagram = useDiagramStore((s) => s.diagram);
-  return useMemo(() => findingsOf(diagram), [diagram]);
+  return useResultsStore((s) => s.check?.findings ?? NONE);
 }
 
 const RANK = { error: 3, warning: 2, info: 1 } as const;

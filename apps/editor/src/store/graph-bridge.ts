@@ -7,7 +7,7 @@ import * as graph from '@loopwright/graph';
 import { blockSpec, emptyDiagram as graphEmptyDiagram, parseDiagram, serializeDiagram } from '@loopwright/graph';
 import type { BlockKind, Diagram } from '@loopwright/graph';
 
-export type { Diagram, Block, Wire, BlockKind, NamedParameter, Cut, Sweep, ViewSettings, ParamValue, BlockSpec, ParamSpec } from '@loopwright/graph';
+export type { Diagram, Block, Wire, BlockKind, NamedParameter, Cut, Sweep, ViewSettings, SimulationSettings, ParamValue, BlockSpec, ParamSpec } from '@loopwright/graph';
 export { blockSpec, catalogue } from '@loopwright/graph';
 
 // Exports that other engineers are still landing are looked up by name, so the editor builds
@@ -49,22 +49,4 @@ export function defaultDemo(): Diagram {
   return d ? JSON.parse(JSON.stringify(d.diagram)) : emptyDiagram();
 }
 
-export interface Finding {
-  severity: 'error' | 'warning' | 'info';
-  code: string;
-  message: string;
-  blocks?: string[];
-  wires?: string[];
-  field?: string;
-}
-
-/** Diagram findings (structural + analytical checks); a crash in a check becomes a finding. */
-export function findingsOf(d: Diagram): Finding[] {
-  const check = g.checkDiagram as ((d: Diagram) => Finding[]) | undefined;
-  if (typeof check !== 'function') return [];
-  try {
-    return check(d);
-  } catch (err) {
-    return [{ severity: 'error', code: 'check-failed', message: `the diagram checks failed: ${(err as Error).message}` }];
-  }
-}
+export type { Finding } from '@loopwright/graph';

@@ -48,8 +48,8 @@ export async function exportReport(): Promise<void> {
   const inp = currentInputs();
   const html = designReportHtml({
     diagram: d,
-    sweepLabel: inp.choice?.label ?? null,
-    sweepValue: inp.sweep?.value ?? null,
+    sweepLabel: inp.sweep.choice?.label ?? null,
+    sweepValue: inp.sweep.choice ? inp.sweep.value : null,
     analysis: rs.analysis,
     loops: rs.loops,
     response: rs.response,

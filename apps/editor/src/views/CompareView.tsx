@@ -9,7 +9,6 @@ import { useDiagramStore } from '../store/diagram-store.ts';
 import { currentInputs, withAllResults } from '../analysis/driver.ts';
 import { takeSnapshot, tunedValues, type AnalysisSnapshot } from '../analysis/snapshot.ts';
 import { differences } from '../analysis/compare.ts';
-import { engineParameterName } from '../analysis/sweep.ts';
 import { fmt } from '../analysis/sweep.ts';
 import { responseOption } from './response-option.ts';
 import { bodeOption } from './frequency-option.ts';
@@ -20,8 +19,7 @@ import type { Palette } from './palette.ts';
 export function currentSnapshot(label: string): AnalysisSnapshot {
   const inp = currentInputs();
   const rs = useResultsStore.getState();
-  const extra = inp.choice ? { engineName: engineParameterName(inp.choice.target), key: inp.choice.label.replace(/ \[.*\]$/, '') } : undefined;
-  return takeSnapshot(label, tunedValues(inp.diagram, inp.overrides, extra), rs.analysis, rs.loops, rs.response);
+  return takeSnapshot(label, tunedValues(inp.diagram, inp.live), rs.analysis, rs.loops, rs.response);
 }
 
 export function pinCurrent(): Promise<void> {

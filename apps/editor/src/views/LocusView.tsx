@@ -13,7 +13,7 @@ import { locusBox, locusLivePatch, locusOption } from './locus-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import { commitSweepValue, useSweepChoice, widenRangeFor } from './SweepBar.tsx';
 import type { Palette } from './palette.ts';
-import type { LocusData } from '../worker/protocol.ts';
+import type { LocusData } from '@loopwright/study';
 
 export const fmtS = (re: number, im: number): string =>
   `${fmt(re)} ${im < 0 ? '−' : '+'} j${fmt(Math.abs(im))}`;
@@ -44,12 +44,12 @@ export function LocusView({ pal }: { pal: Palette }) {
   const [zoom, setZoom] = useState<PlaneZoom | null>(null);
 
   const locus = analysis?.locus?.ok ? analysis.locus.value : null;
-  const current = analysis?.poles.ok ? analysis.poles.value : NO_POLES;
+  const current = analysis?.poles.ok ? analysis.poles.value.poles : NO_POLES;
   const box = locusBox(size.width, size.height);
   // The window frames the part of the locus the slider range moves (and the poles, zeros and
   // special points near it), not the moving poles themselves, so it stays put while sliding.
   const fitted = useMemo(() => {
-    const all = [...(locus?.branches ?? []), ...(locus?.negativeBranches ?? [])];
+    const all = [...(locus?.branches ?? []), ...(locus?.oppositeBranches ?? [])];
     const lo = range ? range.min : -Infinity;
     const hi = range ? range.max : Infinity;
     const active = locus ? activePoints(locus.rangeBranches ?? all, lo, hi) : [];
@@ -84,7 +84,7 @@ export function LocusView({ pal }: { pal: Palette }) {
     const hitRange = locus.rangeBranches ? nearestOnBranches(locus.rangeBranches, win, box, x, y, 10, false) : null;
     if (hitRange) return hitRange;
     const a = nearestOnBranches(locus.branches, win, box, x, y, 10, false);
-    const b = locus.negativeBranches ? nearestOnBranches(locus.negativeBranches, win, box, x, y, 10, true) : null;
+    const b = locus.oppositeBranches ? nearestOnBranches(locus.oppositeBranches, win, box, x, y, 10, true) : null;
     return a && b ? (a.distancePx <= b.distancePx ? a : b) : (a ?? b);
   };
 
@@ -104,7 +104,7 @@ export function LocusView({ pal }: { pal: Palette }) {
       <div className="lw-readout" data-testid="locus-readout">
         <div>
           {choice?.label ?? 'k'} = <b>{fmt(k)}</b>
-          {hover.negative ? ' (negative locus)' : ''}
+          {hover.negative ? ` (${locus.direction === 'negative' ? 'positive' : 'negative'} locus)` : ''}
         </div>
         <div>s = {fmtS(hover.s.re, hover.s.im)}</div>
         <div>
@@ -129,8 +129,8 @@ export function LocusView({ pal }: { pal: Palette }) {
           {hoverInfo}
           {message && <div className="lw-chart-message">{message}</div>}
           <div className="lw-chart-toggles">
-          <label className="lw-check" title="Show the locus for negative values (dashed)">
-            <input type="checkbox" checked={negative} onChange={(e) => setOptions({ negativeLocus: e.target.checked })} /> k &lt; 0
+          <label className="lw-check" title="Show the locus for values of the other sign (dashed)">
+            <input type="checkbox" checked={negative} onChange={(e) => setOptions({ negativeLocus: e.target.checked })} /> {locus?.direction === 'negative' ? 'k > 0' : 'k < 0'}
           </label>
           <label className="lw-check" title="Constant damping-ratio rays">
             <input type="checkbox" checked={damping} onChange={(e) => setOptions({ showDampingGuides: e.target.checked })} /> ζ

@@ -9,7 +9,7 @@ import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { fmt } from '../analysis/sweep.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
-import type { LoopsData, OuterIdealData } from '../worker/protocol.ts';
+import type { LoopsData, OuterIdealData } from '@loopwright/study';
 import { LOOP_COLUMNS } from './loop-columns.ts';
 import type { ChartOption } from './echarts-setup.ts';
 

@@ -4,6 +4,7 @@
  * the metrics table. CSV export of every trace.
  */
 import { useMemo } from 'react';
+import { shownProbes, type ResponseResult } from '@loopwright/study';
 import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { useDiagramStore } from '../store/diagram-store.ts';
@@ -12,7 +13,6 @@ import { download, responseCsv, slug } from '../analysis/export.ts';
 import { actuatorOption, probeColor, responseOption } from './response-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
-import type { ResponseResult } from '../worker/protocol.ts';
 
 export function exportResponseCsv(r: ResponseResult): void {
   download(`${slug(useDiagramStore.getState().diagram.title)}-traces.csv`, responseCsv(r), 'text/csv');
@@ -21,18 +21,12 @@ export function exportResponseCsv(r: ResponseResult): void {
 export function ResponseView({ pal }: { pal: Palette }) {
   const r = useResultsStore((s) => s.response);
   const error = useResultsStore((s) => s.errors.response);
-  const chosen = useAnalysisStore((s) => s.probes);
   const pinned = useAnalysisStore((s) => s.pinned);
-  const simEnd = useAnalysisStore((s) => s.simulationEnd);
-  const setOptions = useAnalysisStore((s) => s.setOptions);
-
-  const activeProbe = useDiagramStore((s) => s.diagram.view.activeProbe);
-  // Probes measure different quantities (mm, V, A): by default show one, the diagram's active probe.
-  const probes = useMemo(() => {
-    if (!r) return [];
-    const fallback = r.probes.find((p) => p.id === activeProbe)?.id ?? r.probes[0]?.id;
-    return (chosen ?? (fallback ? [fallback] : [])).filter((id) => r.probes.some((p) => p.id === id));
-  }, [r, chosen, activeProbe]);
+  // The run's end time and the probes shown are simulation settings of the document (saved, undoable).
+  const diagram = useDiagramStore((s) => s.diagram);
+  const simEnd = diagram.simulation?.end;
+  const setSimulation = useDiagramStore((s) => s.setSimulation);
+  const probes = useMemo(() => (r ? shownProbes(diagram).filter((id) => r.probes.some((p) => p.id === id)) : []), [r, diagram]);
   const option = useMemo(() => (r ? responseOption(r, probes, pinned?.response ?? null, pal) : null), [r, probes, pinned, pal]);
   const actOption = useMemo(() => (r && r.actuators.length > 0 ? actuatorOption(r, pinned?.response ?? null, pal) : null), [r, pinned, pal]);
 
@@ -41,7 +35,7 @@ export function ResponseView({ pal }: { pal: Palette }) {
     const cur = new Set(probes);
     if (cur.has(id)) cur.delete(id);
     else cur.add(id);
-    setOptions({ probes: r.probes.map((p) => p.id).filter((p) => cur.has(p)) });
+    setSimulation({ probes: r.probes.map((p) => p.id).filter((p) => cur.has(p)) });
   };
   return (
     <div className="lw-view lw-response">
@@ -64,7 +58,10 @@ export function ResponseView({ pal }: { pal: Palette }) {
             defaultValue={simEnd ?? r.until}
             onBlur={(e) => {
               const v = Number(e.target.value);
-              setOptions({ simulationEnd: e.target.value.trim() === '' ? null : Number.isFinite(v) && v > 0 ? v : simEnd });
+              const text = e.target.value.trim();
+              if (text === '') setSimulation({ end: undefined });
+              else if (Number.isFinite(v) && v > 0 && v !== simEnd) setSimulation({ end: v });
+              else e.target.value = String(simEnd ?? r.until);
             }}
             onKeyDown={(e) => e.key === 'Enter' && (e.target as HTMLInputElement).blur()}
           />
@@ -83,7 +80,7 @@ export function ResponseView({ pal }: { pal: Palette }) {
               <span className="lw-muted" title="solid: with nonlinearities · dashed: the linear model · dotted: pinned">
                 solid: nonlinear · dashed: linear{pinned ? ' · dotted: pinned' : ''}
               </span>
-              {r.nonlinear.status !== 'ok' && <span className="lw-bad">simulation {r.nonlinear.status}: {r.nonlinear.message}</span>}
+              {r.run.status !== 'ok' && <span className="lw-bad">simulation {r.run.status}: {r.run.message}</span>}
               <button type="button" className="lw-mini" data-export="traces:csv" title="Every trace as CSV" onClick={() => exportResponseCsv(r)}>
                 CSV
               </button>

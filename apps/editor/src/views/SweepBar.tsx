@@ -6,19 +6,17 @@
 import { useEffect, useLayoutEffect, useMemo, useRef } from 'react';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
-import { documentValue, fmt, positionToValue, preferredChoice, sweepChoices, valueToPosition, type SweepChoice, type SweepRange } from '../analysis/sweep.ts';
+import { documentValue, editedRange, fmt, positionToValue, resolveSweep, valueToPosition, widenedRange, type SweepChoice, type SweepRange } from '../analysis/sweep.ts';
 
 const STEPS = 1000;
 
+/** The sweep in force (the study's answer, the same one the requests use). */
 export function useSweepChoice(): { choices: SweepChoice[]; choice: SweepChoice | null; range: SweepRange | null; value: number } {
   const diagram = useDiagramStore((s) => s.diagram);
-  const sweepKey = useAnalysisStore((s) => s.sweepKey);
+  const key = useAnalysisStore((s) => s.sweepKey);
   const liveValue = useAnalysisStore((s) => s.liveValue);
   const ranges = useAnalysisStore((s) => s.ranges);
-  const choices = useMemo(() => sweepChoices(diagram), [diagram]);
-  const choice = choices.find((c) => c.key === sweepKey) ?? preferredChoice(diagram, choices);
-  const range = choice ? ranges[choice.key] ?? choice.range : null;
-  const value = liveValue ?? (choice ? documentValue(diagram, choice.target) : Number.NaN);
+  const { choices, choice, range, value } = useMemo(() => resolveSweep(diagram, { key, liveValue, ranges }), [diagram, key, liveValue, ranges]);
   return { choices, choice, range, value };
 }
 
@@ -36,12 +34,8 @@ export function commitSweepValue(choice: SweepChoice, value: number): void {
 
 /** Widens the slider range (on a nice boundary) so that it holds v. */
 export function widenRangeFor(choice: SweepChoice, range: SweepRange, v: number): void {
-  if (v >= range.min && v <= range.max) return;
-  const r = { ...range };
-  if (v < r.min) r.min = r.scale === 'log' && v > 0 ? v / 2 : v - Math.abs(v) * 0.2;
-  if (v > r.max) r.max = r.scale === 'log' && v > 0 ? v * 2 : v + Math.abs(v) * 0.2;
-  if (r.scale === 'log' && r.min * r.max <= 0) r.scale = 'linear';
-  useAnalysisStore.getState().setRange(choice.key, r);
+  const r = widenedRange(range, v);
+  if (r) useAnalysisStore.getState().setRange(choice.key, r);
 }
 
 function persistRange(choice: SweepChoice, r: SweepRange): void {
@@ -88,10 +82,8 @@ export function SweepBar() {
     if (v !== null) commitSweepValue(choice, v);
   };
   const setRange = (patch: Partial<SweepRange>) => {
-    const r = { ...range, ...patch };
-    if (!(r.max > r.min)) return;
-    if (r.scale === 'log' && r.min * r.max <= 0) r.scale = 'linear';
-    persistRange(choice, r);
+    const r = editedRange(range, patch);
+    if (r) persistRange(choice, r);
   };
 
   return (

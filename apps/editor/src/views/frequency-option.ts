@@ -3,7 +3,7 @@
  * and margins marked), Nyquist of L with the critical point, and |S|, |T| with their peaks.
  * A pinned result is overlaid dotted.
  */
-import type { FrequencyData, MarginsData } from '../worker/protocol.ts';
+import type { FrequencyData, MarginsData } from '@loopwright/study';
 import { fmt } from '../analysis/sweep.ts';
 import type { Palette } from './palette.ts';
 import type { ChartOption } from './echarts-setup.ts';

@@ -4,7 +4,7 @@
  * ones hollow diamonds; asymptotes dashed from the centroid; breakaways and axis crossings
  * labelled with their gains; optional constant-ζ rays and constant-ωn arcs.
  */
-import type { Cx, LocusData } from '../worker/protocol.ts';
+import type { Cx, LocusData } from '@loopwright/study';
 import { fmt } from '../analysis/sweep.ts';
 import type { PlaneWindow, PlotBox } from '../analysis/locus-geometry.ts';
 import type { Palette } from './palette.ts';
@@ -116,10 +116,10 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
         data: b.re.map((re, j) => [re, b.im[j]]),
       });
     });
-    (locus.negativeBranches ?? []).forEach((b, i) => {
+    (locus.oppositeBranches ?? []).forEach((b, i) => {
       series.push({
         ...lineBase,
-        name: `negative branch ${i + 1}`,
+        name: `${locus.direction === 'negative' ? 'positive' : 'negative'} branch ${i + 1}`,
         lineStyle: { color: pal.series[i % pal.series.length], width: 1.5, type: 'dashed', opacity: 0.7 },
         data: b.re.map((re, j) => [re, b.im[j]]),
       });

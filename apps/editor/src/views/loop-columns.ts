@@ -1,5 +1,5 @@
 /** The margin columns of the Loops table (also used by the design report). */
-import type { MarginsData } from '../worker/protocol.ts';
+import type { MarginsData } from '@loopwright/study';
 
 export const LOOP_COLUMNS: { field: keyof MarginsData; label: string; title: string }[] = [
   { field: 'gainCrossover', label: 'ωc [rad/s]', title: 'gain crossover frequency' },

@@ -3,7 +3,7 @@
  * linear model's response (dashed), the pinned run dotted; and the actuator signals with their
  * limits marked.
  */
-import type { ResponseResult } from '../worker/protocol.ts';
+import type { ResponseResult } from '@loopwright/study';
 import { fmt } from '../analysis/sweep.ts';
 import type { Palette } from './palette.ts';
 import type { ChartOption } from './echarts-setup.ts';
@@ -74,9 +74,9 @@ export function responseOption(r: ResponseResult, probes: string[], pinned: Resp
     const label = r.probes.find((p) => p.id === id)?.label ?? id;
     const color = probeColor(r, id, pal);
     names.push(label);
-    series.push(line(label, tracePairs(r.nonlinear.time, r.nonlinear.traces[id]), color, 'solid'));
-    series.push(line(`${label} (linear)`, tracePairs(r.linear.time, r.linear.traces[id]), color, 'dashed', 1.5));
-    if (pinned?.nonlinear.traces[id]) series.push(line(`${label} (pinned)`, tracePairs(pinned.nonlinear.time, pinned.nonlinear.traces[id]), pal.pinned, 'dotted', 1.5));
+    series.push(line(label, tracePairs(r.run.time, r.run.traces[id]), color, 'solid'));
+    if (r.linear) series.push(line(`${label} (linear)`, tracePairs(r.linear.time, r.linear.traces[id]), color, 'dashed', 1.5));
+    if (pinned?.run.traces[id]) series.push(line(`${label} (pinned)`, tracePairs(pinned.run.time, pinned.run.traces[id]), pal.pinned, 'dotted', 1.5));
   });
   return timeChart(pal, r.until, 'value', names, series);
 }
@@ -104,11 +104,11 @@ export function actuatorOption(r: ResponseResult, pinned: ResponseResult | null,
       .filter((v): v is number => v !== null && Number.isFinite(v))
       .map((v) => ({ yAxis: v, label: { formatter: `limit ${fmt(v, 3)}`, color: pal.limit, fontSize: 10, position: 'insideEndTop' } }));
     series.push({
-      ...line(a.label, tracePairs(r.nonlinear.time, r.nonlinear.traces[a.key]), color, 'solid'),
+      ...line(a.label, tracePairs(r.run.time, r.run.traces[a.key]), color, 'solid'),
       markLine: { silent: true, symbol: 'none', animation: false, lineStyle: { color: pal.limit, type: 'dashed', width: 1.5 }, data: limits },
     });
-    series.push(line(`${a.label} (linear)`, tracePairs(r.linear.time, r.linear.traces[a.key]), color, 'dashed', 1.5));
-    if (pinned?.nonlinear.traces[a.key]) series.push(line(`${a.label} (pinned)`, tracePairs(pinned.nonlinear.time, pinned.nonlinear.traces[a.key]), pal.pinned, 'dotted', 1.5));
+    if (r.linear) series.push(line(`${a.label} (linear)`, tracePairs(r.linear.time, r.linear.traces[a.key]), color, 'dashed', 1.5));
+    if (pinned?.run.traces[a.key]) series.push(line(`${a.label} (pinned)`, tracePairs(pinned.run.time, pinned.run.traces[a.key]), pal.pinned, 'dotted', 1.5));
   });
   return timeChart(pal, r.until, 'actuator', names, series);
 }

@@ -34,8 +34,8 @@ describe('engine client', () => {
     });
     const got: EngineReply[] = [];
     c.onReply((r) => got.push(r));
-    const a = c.send({ channel: 'analysis', diagram, sweep: null, cutId: null, frequency: false });
-    const b = c.send({ channel: 'analysis', diagram, sweep: null, cutId: null, frequency: false });
+    const a = c.send({ channel: 'analysis', diagram, studies: [] });
+    const b = c.send({ channel: 'analysis', diagram, studies: [] });
     expect(workers).toHaveLength(1);
     workers[0].reply({ channel: 'analysis', id: a, ok: false, error: 'old' });
     expect(got).toHaveLength(0);
@@ -53,8 +53,8 @@ describe('engine client', () => {
     });
     const got: EngineReply[] = [];
     c.onReply((r) => got.push(r));
-    c.send({ channel: 'response', diagram, overrides: {}, until: 1 });
-    const a = c.send({ channel: 'analysis', diagram, sweep: null, cutId: null, frequency: false });
+    c.send({ channel: 'response', diagram, studies: [] });
+    const a = c.send({ channel: 'analysis', diagram, studies: [] });
     expect(workers).toHaveLength(2);
     workers[1].reply({ channel: 'analysis', id: a, ok: false, error: 'x' });
     expect(got.map((r) => r.channel)).toEqual(['analysis']);
@@ -71,9 +71,9 @@ describe('engine client', () => {
       }, 400);
       const got: EngineReply[] = [];
       c.onReply((r) => got.push(r));
-      c.send({ channel: 'response', diagram, overrides: { k: 1 }, until: 1 });
+      c.send({ channel: 'response', diagram, studies: [{ kind: 'run', overrides: { k: 1 } }] });
       vi.advanceTimersByTime(100);
-      const newest = c.send({ channel: 'response', diagram, overrides: { k: 2 }, until: 1 });
+      const newest = c.send({ channel: 'response', diagram, studies: [{ kind: 'run', overrides: { k: 2 } }] });
       vi.advanceTimersByTime(500);
       expect(workers[0].terminated).toBe(true);
       expect(workers).toHaveLength(2);

@@ -5,7 +5,7 @@
  * follows takes just the latest (older ones are answered by nothing; the client drops any
  * stray reply by id anyway). One request is computed per task so new messages get in between.
  */
-import { computeAnalysis, computeLoops, computeResponse } from './compute.ts';
+import { computeReply } from './compute.ts';
 import type { Channel, EngineReply, EngineRequest } from './protocol.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -26,17 +26,9 @@ function drain(): void {
   if (next.done) return;
   const [channel, req] = next.value;
   held.delete(channel);
-  let reply: EngineReply;
-  try {
-    reply =
-      req.channel === 'analysis'
-        ? { channel: 'analysis', id: req.id, ok: true, result: computeAnalysis(req) }
-        : req.channel === 'loops'
-          ? { channel: 'loops', id: req.id, ok: true, result: computeLoops(req) }
-          : { channel: 'response', id: req.id, ok: true, result: computeResponse(req, newest ? () => Atomics.load(newest!, 0) > req.id : undefined) };
-  } catch (e) {
-    reply = { channel: req.channel, id: req.id, ok: false, error: e instanceof Error ? e.message : String(e) };
-  }
+  // Where shared memory is allowed, a simulation sees a newer request at once and stops.
+  const isCancelled = newest ? () => Atomics.load(newest!, 0) > req.id : undefined;
+  const reply: EngineReply = computeReply(req, { isCancelled });
   scope.postMessage(reply);
   if (held.size > 0) schedule();
 }

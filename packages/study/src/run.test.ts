@@ -1,0 +1,66 @@
+/** Simulation runs through the study: settings from request, diagram or engine; actuators from the catalogue; figures. */
+import { describe, expect, it } from 'vitest';
+import { catalogue } from '@loopwright/graph';
+import { actuatorsOf, automaticEnd, responseStudy, runSettings, shownProbes } from './run.ts';
+import { build, unityLoop } from './test-support.ts';
+
+describe('runs', () => {
+  it('4/(s(s+2)) in unity feedback follows y = 1 − e^(−t)(cos √3t + sin √3t/√3), overshoot 16.30 % (ζ = 0.5) [R20, R17]', () => {
+    const r = responseStudy(unityLoop(4), { until: 8, linearOverlay: true });
+    const exact = (t: number) => 1 - Math.exp(-t) * (Math.cos(Math.sqrt(3) * t) + Math.sin(Math.sqrt(3) * t) / Math.sqrt(3));
+    const { time, traces } = r.run;
+    for (let i = 0; i < time.length; i += 25) expect(traces.y[i]).toBeCloseTo(exact(time[i]), 4);
+    // No nonlinearity in this diagram: the linear overlay is the same run.
+    for (let i = 0; i < time.length; i += 25) expect(r.linear!.traces.y[i]).toBeCloseTo(traces.y[i], 6);
+    expect(r.metrics.find((m) => m.probe === 'y')!.overshootPct!).toBeCloseTo(100 * Math.exp(-Math.PI * 0.5 / Math.sqrt(0.75)), 1);
+    expect(r.settings).toMatchObject({ until: 8, untilFrom: 'request' });
+  });
+
+  it('settings: the request, else the diagram\'s simulation settings, else the engine (six time constants of the slowest pole, 1-2-5 grid)', () => {
+    const d = unityLoop(0.5);
+    const auto = automaticEnd(d);
+    // Slowest pole −1 + √0.5: 6/0.2929 = 20.5 s, rounded up to 50 (1-2-5 series).
+    expect(auto).toBe(50);
+    expect(runSettings(d)).toMatchObject({ until: 50, untilFrom: 'automatic', rtol: 1e-6, atol: 1e-9, outputStep: 0.05 });
+    d.simulation = { end: 12, rtol: 1e-5 };
+    expect(runSettings(d)).toMatchObject({ until: 12, untilFrom: 'diagram', rtol: 1e-5, atol: 1e-9 });
+    expect(runSettings(d, { until: 3, atol: 1e-8 })).toMatchObject({ until: 3, untilFrom: 'request', rtol: 1e-5, atol: 1e-8 });
+    expect(() => runSettings(d, { until: -1 })).toThrow(/end time/);
+  });
+
+  it('probes shown: the asked list, else the diagram\'s, else every probe; an unknown asked probe is refused', () => {
+    const d = build([['r', 'source'], ['a', 'probe'], ['b', 'probe']], ['r->a', 'r->b']);
+    expect(shownProbes(d)).toEqual(['a', 'b']);
+    d.simulation = { probes: ['b', 'gone'] };
+    expect(shownProbes(d)).toEqual(['b']);
+    expect(shownProbes(d, 'all')).toEqual(['a', 'b']);
+    expect(() => shownProbes(d, ['zz'])).toThrow(/"zz" is not a probe/);
+  });
+
+  it('actuators are the blocks whose catalogue spec says they limit their output (a PID only with a limit set)', () => {
+    const d = build(
+      [
+        ['r', 'source'],
+        ['sat', 'saturation', { lower: -2, upper: 3 }],
+        ['pidL', 'pid', { kp: 1, ti: 1, umin: '', umax: 5 }],
+        ['pidN', 'pid', { kp: 1, ti: 1 }],
+        ['rl', 'rate-limit', { rising: 1, falling: 2 }],
+        ['y', 'probe'],
+      ],
+      ['r->sat', 'o1:sat->pidL', 'o2:pidL->pidN', 'o3:pidN->rl', 'o4:rl->y'],
+    );
+    const acts = actuatorsOf(d);
+    expect(acts.map((a) => [a.block, a.key, a.lower, a.upper])).toEqual([
+      ['sat', 'wire:o1', -2, 3],
+      ['pidL', 'wire:o2', null, 5],
+      ['rl', 'wire:o4', null, null],
+    ]);
+    // Every kind the catalogue marks, and only those, can be an actuator.
+    const marked = catalogue.filter((s) => s.actuator).map((s) => s.kind).sort();
+    expect(marked).toEqual(['pid', 'rate-limit', 'saturation']);
+    // A run records the actuator signals and reports their figures.
+    const r = responseStudy(d, { until: 5 });
+    expect(Object.keys(r.run.traces).sort()).toEqual(['wire:o1', 'wire:o2', 'wire:o4', 'y']);
+    expect(r.metrics.find((m) => m.probe === 'wire:o4')!.timeInSaturation).toBeGreaterThan(0);
+  });
+});
