@@ -4,11 +4,30 @@ export interface CliIo {
   stderr(text: string): void;
   readFile(path: string): Promise<string>;
   writeFile(path: string, text: string): Promise<void>;
+  /** All of standard input as text (for a FILE given as "-"); absent where there is none. */
+  readStdin?(): Promise<string>;
 }
 
-/** Bad input: printed as "loopwright <command>: <message>" and exit code 2. */
+/** Bad input: printed as "loopwright <command>: <message>" and exit code 2; `at` names the flag or field at fault. */
 export class UsageError extends Error {
   override name = 'UsageError';
+  constructor(
+    message: string,
+    readonly at: string | null = null,
+  ) {
+    super(message);
+  }
+}
+
+/** A result could not be written (exit code 2; the message names the path). */
+export class WriteError extends Error {
+  override name = 'WriteError';
+  constructor(
+    message: string,
+    readonly at: string,
+  ) {
+    super(message);
+  }
 }
 
 export interface Command {

@@ -1,5 +1,7 @@
+import { errorAt, isBudgetError, isInputError } from '@loopwright/study';
+import { toJson } from './args.ts';
 import { commands } from './commands/index.ts';
-import { UsageError, type CliIo } from './io.ts';
+import { UsageError, WriteError, type CliIo } from './io.ts';
 
 const overview = () =>
   [
@@ -8,6 +10,11 @@ const overview = () =>
     'usage: npx loopwright <command> [options]   (npx loopwright <command> --help for each)',
     '',
     ...commands.map((c) => `  ${c.name.padEnd(10)} ${c.summary}`),
+    '',
+    'A diagram FILE given as "-" is read from standard input. With --json, an error is written',
+    'as {"error": {"message": ..., "at": ...}} on standard output as well as in words on',
+    'standard error. Exit codes: 0 done, 2 bad input (or a result that could not be written, or',
+    'an analysis past its time or size budget), 1 internal failure or a run that stopped early.',
     '',
     'Results are design aids: validate on the real plant with limits and interlocks in place,',
     'and follow the applicable functional-safety standards, local codes and licensed practice.',
@@ -33,18 +40,26 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
   try {
     return await cmd.run(rest, io);
   } catch (err) {
-    const msg = err instanceof Error ? err.message : String(err);
-    if (isInputError(err)) {
-      io.stderr(`loopwright ${name}: ${msg}\n`);
-      return 2;
-    }
-    io.stderr(`loopwright ${name}: internal error: ${msg}\n`);
-    return 1;
+    const { code, message, at } = errorReport(err);
+    // --json callers parse standard output: the error goes there too, as JSON.
+    if (rest.includes('--json')) io.stdout(toJson({ error: { message, at } }));
+    io.stderr(`loopwright ${name}: ${message}\n`);
+    return code;
   }
 }
 
-/** Errors that mean "the input is wrong": usage errors and the engine's own input errors. */
-function isInputError(err: unknown): boolean {
-  if (err instanceof UsageError) return true;
-  return err instanceof Error && (err as { inputError?: boolean }).inputError === true;
+/**
+ * Exit code and words for an error: 2 for what the user can act on — bad input (usage, the
+ * engine's InputError), a result that could not be written, an analysis past its time or size
+ * budget — and 1, said to be internal, for anything else.
+ */
+export function errorReport(err: unknown): { code: 1 | 2; message: string; at: string | null } {
+  const msg = err instanceof Error ? err.message : String(err);
+  const expected = err instanceof UsageError || err instanceof WriteError || isInputError(err) || isBudgetError(err);
+  return { code: expected ? 2 : 1, message: expected ? msg : `internal error: ${msg}`, at: atOf(err) };
+}
+
+function atOf(err: unknown): string | null {
+  if (err instanceof UsageError || err instanceof WriteError) return err.at;
+  return errorAt(err);
 }

@@ -1,10 +1,12 @@
-import { type Diagram, type Finding, checkDiagram, findingSubject, parseDiagram } from '@loopwright/graph';
+import { type Diagram, type Finding, parseDiagram } from '@loopwright/graph';
+import { checkStudy, errorAt, findingText } from '@loopwright/study';
 import { all, has, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type CliIo, type Command } from '../io.ts';
+import { checkSets, readDiagramText } from './diagram-input.ts';
 
 const help = `loopwright check FILE [--set NAME=VALUE ...] [--json]
 
-Loads a diagram (.loop.json) and lists every finding: structural ones (unconnected or
+Loads a diagram (.loop.json; "-" reads standard input) and lists every finding: structural ones (unconnected or
 misdirected wires, unknown ports, duplicate ids, references to missing blocks, wires, cuts or
 parameters, improper transfer functions, values out of range) and analytical ones (algebraic
 loops, pole-zero cancellations, closed-loop stability).
@@ -14,21 +16,12 @@ loops, pole-zero cancellations, closed-loop stability).
 
 Each line reads "<severity>  <subject>: <message>", e.g.
   error  block pid1: field kp: "Kq" uses an unknown parameter
-Exit code 2 when the file does not load or any finding is an error, 0 otherwise.
+Exit code 2 when the file does not load or any finding is an error, 0 otherwise. Every
+other command (reduce, loops, locus, simulate) refuses a diagram with an error finding,
+with the same message.
 `;
 
-const line = (f: Finding) => {
-  const subject = findingSubject(f);
-  return `${f.severity}  ${subject ? `${subject}: ` : ''}${f.message}`;
-};
-
-function counts(fs: Finding[]) {
-  return {
-    error: fs.filter((f) => f.severity === 'error').length,
-    warning: fs.filter((f) => f.severity === 'warning').length,
-    info: fs.filter((f) => f.severity === 'info').length,
-  };
-}
+const line = (f: Finding) => `${f.severity}  ${findingText(f)}`;
 
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
 
@@ -43,32 +36,20 @@ export const checkCommand: Command = {
     const json = has(args, 'json');
     const overrides = parseAssignments(all(args, 'set'), 'set');
 
-    let text: string;
-    try {
-      text = await io.readFile(file);
-    } catch (err) {
-      const code = (err as { code?: string }).code;
-      throw new UsageError(`cannot read ${file}${code === 'ENOENT' ? ': no such file' : `: ${err instanceof Error ? err.message : String(err)}`}`);
-    }
+    const text = await readDiagramText(io, file);
     let d: Diagram;
     try {
       d = parseDiagram(text);
     } catch (err) {
       if (!(err instanceof Error) || (err as { inputError?: boolean }).inputError !== true) throw err;
       const problems = (err as { problems?: string[] }).problems ?? [err.message];
-      if (json) io.stdout(toJson({ file, loaded: false, error: err.message, problems }));
+      if (json) io.stdout(toJson({ file, loaded: false, error: { message: err.message, at: errorAt(err) }, problems }));
       else io.stdout(`${file}: does not load\n${problems.map((p) => `error  ${p}`).join('\n')}\n`);
       return 2;
     }
-    const known = new Set(d.parameters.map((p) => p.name));
-    for (const name of Object.keys(overrides)) {
-      if (!known.has(name)) {
-        throw new UsageError(`--set ${name}: the diagram has no named parameter "${name}" (known: ${[...known].join(', ') || 'none'})`);
-      }
-    }
+    checkSets(d, overrides);
 
-    const findings = checkDiagram(d, overrides);
-    const n = counts(findings);
+    const { findings, counts: n } = checkStudy(d, overrides);
     if (json) {
       io.stdout(toJson({ file, loaded: true, overrides: { ...overrides }, counts: n, findings }));
     } else {

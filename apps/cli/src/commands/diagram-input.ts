@@ -1,39 +1,29 @@
 import { type Diagram, type SignalRef, parseDiagram } from '@loopwright/graph';
+import { parseSignalRef } from '@loopwright/study';
 import { type Complex, poly } from '@loopwright/lti';
 import { UsageError, type CliIo } from '../io.ts';
 
-/** Reads and validates a diagram file; a missing or unreadable file is a usage error naming it. */
-export async function readDiagram(io: CliIo, path: string): Promise<Diagram> {
-  let text: string;
+/** The text of a diagram file, or of standard input for "-"; a missing or unreadable file is a usage error naming it. */
+export async function readDiagramText(io: CliIo, path: string): Promise<string> {
+  if (path === '-') {
+    if (!io.readStdin) throw new UsageError('standard input is not available here: give a FILE');
+    return io.readStdin();
+  }
   try {
-    text = await io.readFile(path);
+    return await io.readFile(path);
   } catch (err) {
     const code = (err as { code?: string }).code;
-    throw new UsageError(`cannot read ${path}${code === 'ENOENT' ? ': no such file' : `: ${err instanceof Error ? err.message : String(err)}`}`);
+    throw new UsageError(`cannot read ${path}${code === 'ENOENT' ? ': no such file' : `: ${err instanceof Error ? err.message : String(err)}`}`, path);
   }
-  return parseDiagram(text);
 }
 
-/**
- * A point named on the command line: "block:ID", "wire:ID", or a bare ID that names exactly
- * one block or wire of the diagram.
- */
-export function signalRef(d: Diagram, text: string, flag: string): SignalRef {
-  const m = /^(block|wire):(.+)$/.exec(text);
-  if (m) {
-    const ref = m[1] === 'block' ? { block: m[2] } : { wire: m[2] };
-    const known = m[1] === 'block' ? d.blocks.some((b) => b.id === m[2]) : d.wires.some((w) => w.id === m[2]);
-    if (!known) throw new UsageError(`--${flag} ${text}: the diagram has no ${m[1]} "${m[2]}"`);
-    return ref;
-  }
-  const isBlock = d.blocks.some((b) => b.id === text);
-  const isWire = d.wires.some((w) => w.id === text);
-  if (isBlock && isWire) throw new UsageError(`--${flag} ${text}: both a block and a wire have this id; write block:${text} or wire:${text}`);
-  if (isBlock) return { block: text };
-  if (isWire) return { wire: text };
-  const hint = d.blocks.filter((b) => b.kind === 'source' || b.kind === 'probe').map((b) => b.id);
-  throw new UsageError(`--${flag} ${text}: no block or wire with this id${hint.length ? ` (sources and probes: ${hint.join(', ')})` : ''}`);
+/** Reads and validates a diagram file ("-": standard input). */
+export async function readDiagram(io: CliIo, path: string): Promise<Diagram> {
+  return parseDiagram(await readDiagramText(io, path));
 }
+
+/** A point named on the command line (see study parseSignalRef); `flag` names it in messages. */
+export const signalRef = (d: Diagram, text: string, flag: string): SignalRef => parseSignalRef(d, text, `--${flag}`);
 
 /** JSON form of results: complex numbers {re, im} become [re, im] (DEVELOPERS.md). */
 export function jsonForm(v: unknown): unknown {
@@ -80,7 +70,7 @@ export function checkSets(d: Diagram, sets: Record<string, number>): void {
   const known = new Set(d.parameters.map((p) => p.name));
   for (const name of Object.keys(sets)) {
     if (!known.has(name)) {
-      throw new UsageError(`--set ${name}: the diagram has no named parameter "${name}" (known: ${[...known].join(', ') || 'none'})`);
+      throw new UsageError(`--set ${name}: the diagram has no named parameter "${name}" (known: ${[...known].join(', ') || 'none'})`, '--set');
     }
   }
 }

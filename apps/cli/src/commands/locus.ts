@@ -1,9 +1,10 @@
-import { type Complex, InputError, type RootLocus, padeDelay, poly, rootLocus } from '@loopwright/lti';
+import type { Complex, RootLocus } from '@loopwright/lti';
+import { expressionLocus, type PadeNote } from '@loopwright/study';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type CliIo, type Command } from '../io.ts';
-import { fmtNumber, fmtRoots, fmtTransfer, readDiagram } from './diagram-input.ts';
+import { checkSets, fmtNumber, fmtRoots, fmtTransfer, readDiagram } from './diagram-input.ts';
 import { locusFromDiagram } from './locus-diagram.ts';
-import { loopFromArgs } from './loop-input.ts';
+import { loopFromArgs, withCaret } from './loop-input.ts';
 
 const help = `loopwright locus --loop "<expression>" [--param NAME=VALUE ...] [--negative] [--json]
 loopwright locus FILE --sweep PARAM [--set NAME=VALUE ...] [--negative] [--json]
@@ -18,7 +19,9 @@ zeros, and the branches (each point [re, im, k]; breakaways and crossings are ex
 
 Diagram form: the locus of every closed-loop pole of the whole diagram as the named parameter
 PARAM varies, all others fixed (exact geometry when PARAM enters the characteristic polynomial
-affinely, e.g. a gain; otherwise a sampled parameter locus).
+affinely, e.g. a gain; otherwise a sampled parameter locus). Factors common to the swept and
+the fixed part are closed-loop poles the sweep does not move: listed apart as fixed poles. A
+negative PARAM traces the k < 0 locus (as does --negative).
 
   --loop EXPR      the loop L(s), e.g. "(s+3)/(s*(s+1)*(s+2)*(s+4))"
   --param NAME=V   value of a parameter used in EXPR (repeatable)
@@ -26,14 +29,15 @@ affinely, e.g. a gain; otherwise a sampled parameter locus).
   --k-max K        largest |k| traced (default: far enough that branches reach zeros/asymptotes)
   --samples N      base gain samples (default 400; more are added where poles move fast)
   --pade-order N   a dead time in L is replaced by a Padé (N,N) approximant (default 3)
-  FILE             a diagram (.loop.json), with --sweep PARAM and --set NAME=VALUE (repeatable)
+  FILE             a diagram (.loop.json; "-" reads standard input), with --sweep PARAM (a named
+                   parameter, or block:ID.k for a gain block's k) and --set NAME=VALUE (repeatable)
   --json           machine-readable output; complex numbers are [re, im]
 
 Example: npx loopwright locus --loop "1/(s*(s+1)*(s+2))"
 `;
 
 /** The JSON shape of the loop form (see --help). */
-export function locusJson(L: RootLocus, delayHandling: { mode: 'none' } | { mode: 'pade'; order: number; delay: number }) {
+export function locusJson(L: RootLocus, delayHandling: PadeNote) {
   const pair = (z: Complex) => [z.re, z.im];
   return {
     negative: L.negative,
@@ -88,9 +92,10 @@ async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo): Promise<
   if (a.positional.length !== 1) throw new UsageError('locus: give exactly one diagram FILE (see --help)');
   if (has(a, 'loop') || has(a, 'param')) throw new UsageError('locus: --loop/--param and a diagram FILE exclude each other');
   const sweep = one(a, 'sweep');
-  if (!sweep) throw new UsageError('locus: the diagram form needs --sweep PARAM (the parameter to vary)');
+  if (!sweep) throw new UsageError('locus: the diagram form needs --sweep PARAM (the parameter to vary)', '--sweep');
   const sets = parseAssignments(all(a, 'set'), 'set');
   const d = await readDiagram(io, a.positional[0]);
+  checkSets(d, sets);
   const j = locusFromDiagram(d, sweep, sets, has(a, 'negative'));
   if (has(a, 'json')) {
     io.stdout(toJson(j));
@@ -98,6 +103,7 @@ async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo): Promise<
   }
   const head = [`locus of every closed-loop pole as ${j.parameter} varies (${j.mode === 'exact' ? 'exact geometry' : 'sampled'}; now ${fmtNumber(j.value)})${j.negative ? ', negative direction' : ''}`];
   if (j.mode === 'sampled') head.push(`reason: ${j.reason}`, `range ${fmtNumber(j.range[0])} … ${fmtNumber(j.range[1])}`);
+  if (j.mode === 'exact' && j.fixedPoles.length) head.push(`fixed poles        ${fmtRoots(j.fixedPoles.map((p) => ({ re: p[0], im: p[1] })))} (closed-loop poles the sweep does not move)`);
   io.stdout(humanSummary(j, head));
   return 0;
 }
@@ -110,25 +116,13 @@ export const locusCommand: Command = {
     const a = parseArgs(argv, ['loop', 'param', 'sweep', 'set', 'k-max', 'samples', 'pade-order'], ['negative', 'json']);
     if (a.positional.length > 0) return diagramForm(a, io);
     if (has(a, 'sweep') || has(a, 'set')) throw new UsageError('locus: --sweep and --set need a diagram FILE (locus FILE --sweep PARAM)');
-    const { text, tf } = loopFromArgs(a, 'locus');
+    const loop = loopFromArgs(a, 'locus');
     const kMax = numberFlag(a, 'k-max');
     const samples = numberFlag(a, 'samples');
     const padeOrder = numberFlag(a, 'pade-order') ?? 3;
-    let num = tf.rational.num.slice();
-    let den = tf.rational.den.slice();
-    let delayHandling: { mode: 'none' } | { mode: 'pade'; order: number; delay: number } = { mode: 'none' };
-    if (tf.delay > 0) {
-      const p = padeDelay(tf.delay, padeOrder);
-      num = poly.mul(num, p.num);
-      den = poly.mul(den, p.den);
-      delayHandling = { mode: 'pade', order: padeOrder, delay: tf.delay };
-    }
-    if (poly.isZero(num)) throw new InputError(`--loop "${text}" is identically zero: there is no gain to sweep`);
-    const L = rootLocus(num, den, {
-      negative: has(a, 'negative'),
-      ...(kMax !== undefined ? { kMax } : {}),
-      ...(samples !== undefined ? { samples } : {}),
-    });
+    const { loop: tf, locus: L, delayHandling } = withCaret(loop, () =>
+      expressionLocus(loop, { negative: has(a, 'negative'), padeOrder, ...(kMax !== undefined ? { kMax } : {}), ...(samples !== undefined ? { samples } : {}) }),
+    );
     const j = locusJson(L, delayHandling);
     if (has(a, 'json')) {
       io.stdout(toJson(j));

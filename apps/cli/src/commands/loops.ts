@@ -1,5 +1,5 @@
-import { type CutAnalysis, MIN_SEPARATION, analyseLoops } from '@loopwright/graph';
-import { type LoopMargins, marginFigures } from '@loopwright/lti';
+import { MIN_SEPARATION } from '@loopwright/graph';
+import { runStudy, type LoopRow, type MarginsData, type TransferData } from '@loopwright/study';
 import { all, has, numberFlag, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { checkSets, fmtNumber, fmtRoots, fmtTransfer, jsonForm, readDiagram } from './diagram-input.ts';
@@ -8,44 +8,49 @@ const help = `loopwright loops FILE [--set NAME=VALUE ...] [--pade-order N] [--j
 
 Every cut of a diagram (or, when it has none, one proposed on each feedback wire): the loop
 transfer L(s) there with every other loop closed (1 + L = 0), its crossovers and margins, peak
-sensitivity Ms and closed-loop bandwidth; the same loop as tuned inner-first (the loops around
-it opened); inner/outer separation ratios of nested loops (flagged below ${MIN_SEPARATION}: the usual
-3–10× rule of thumb); and each outer loop with the real inner loop against an ideal one.
+sensitivity Ms and closed-loop bandwidth, and the number of open-loop right-half-plane poles of
+L (with P of them, a stable loop encircles −1 P times: a negative phase margin read with the
+outer loops closed can belong to a stable design); the same loop as tuned inner-first (the
+loops around it opened); inner/outer separation ratios of nested loops (flagged below
+${MIN_SEPARATION}: the usual 3–10× rule of thumb); and for every nested pair the outer loop with the
+real inner loop against an ideal one, both read with the loops around the outer one opened.
+FILE "-" reads standard input.
 
   --set NAME=V    override a named parameter (repeatable)
   --pade-order N  Padé order for dead times inside loops (default 3)
   --json          machine-readable output (coefficients ascending, complex numbers [re, im])
 `;
 
-const marginSummary = marginFigures;
+const text = (t: TransferData) => fmtTransfer(t.num, t.den, t.delay);
 
-const cutJson = (c: CutAnalysis) => ({
-  cut: c.cut,
+const cutJson = (c: LoopRow) => ({
+  cut: c.cutId,
   wire: c.wire,
   label: c.label,
   auto: c.auto,
-  loopText: fmtTransfer(c.loop.rational.num, c.loop.rational.den, c.loop.delay),
-  numeratorAscending: c.loop.rational.num,
-  denominatorAscending: c.loop.rational.den,
+  loopText: text(c.loop),
+  numeratorAscending: c.loop.num,
+  denominatorAscending: c.loop.den,
   delay: c.loop.delay,
   delayHandling: c.delayHandling,
   hiddenModes: c.hiddenModes,
   blocks: c.blocks,
   stable: c.stable,
-  margins: marginSummary(c.margins),
-  alone: {
-    opened: c.alone.opened,
-    loopText: fmtTransfer(c.alone.loop.rational.num, c.alone.loop.rational.den, c.alone.loop.delay),
-    margins: marginSummary(c.alone.margins),
-  },
+  openLoopRhpPoles: c.openLoopRhpPoles,
+  margins: c.margins,
+  // Read inner-first; with no loop around it, the same reading (nothing opened).
+  alone: c.alone
+    ? { opened: c.alone.opened, loopText: text(c.alone.loop), openLoopRhpPoles: c.alone.openLoopRhpPoles, margins: c.alone.margins }
+    : { opened: [], loopText: text(c.loop), openLoopRhpPoles: c.openLoopRhpPoles, margins: c.margins },
 });
 
 const f = (x: number | null, unit = '') => (x === null ? '—' : `${fmtNumber(x, 4)}${unit}`);
-const gm = (m: LoopMargins) => (m.gainMargin === null ? '∞' : `${fmtNumber(m.gainMargin, 4)} (${fmtNumber(m.gainMarginDb!, 3)} dB)`);
-const row = (m: LoopMargins) =>
+const gm = (m: MarginsData) => (m.gainMargin === null ? '∞' : `${fmtNumber(m.gainMargin, 4)} (${fmtNumber(m.gainMarginDb!, 3)} dB)`);
+const row = (m: MarginsData, rhp?: number) =>
   `crossover ${f(m.gainCrossover, ' rad/s')}${m.gainCrossovers.length > 1 ? ` (all: ${m.gainCrossovers.map((w) => fmtNumber(w, 4)).join(', ')})` : ''}, ` +
   `PM ${f(m.phaseMarginDeg, '°')}, GM ${gm(m)}${m.lowerGainMargin !== null ? `, lower GM ${fmtNumber(m.lowerGainMargin, 4)}` : ''}, ` +
-  `DM ${f(m.delayMargin, ' s')}, Ms ${f(m.peakSensitivity)}, bandwidth ${f(m.bandwidth, ' rad/s')}, ${m.closedLoopStable ? 'stable' : 'UNSTABLE'}`;
+  `DM ${f(m.delayMargin, ' s')}, Ms ${f(m.peakSensitivity)}, bandwidth ${f(m.bandwidth, ' rad/s')}, ${m.closedLoopStable ? 'stable' : 'UNSTABLE'}` +
+  (rhp ? `, L has ${rhp} open-loop RHP pole${rhp > 1 ? 's' : ''}` : '');
 
 export const loopsCommand: Command = {
   name: 'loops',
@@ -58,20 +63,22 @@ export const loopsCommand: Command = {
     const padeOrder = numberFlag(a, 'pade-order');
     const d = await readDiagram(io, a.positional[0]);
     checkSets(d, sets);
-    const rep = analyseLoops(d, sets, padeOrder !== undefined ? { padeOrder } : {});
+    const rep = runStudy(d, { kind: 'loops', overrides: sets, ...(padeOrder !== undefined ? { padeOrder } : {}) });
     if (has(a, 'json')) {
       io.stdout(
         toJson(
           jsonForm({
             parameters: sets,
-            cuts: rep.cuts.map(cutJson),
+            cuts: rep.rows.map(cutJson),
             separations: rep.separations,
             outerVsIdeal: rep.outerVsIdeal.map((o) => ({
               outer: o.outer,
               inner: o.inner,
-              real: marginSummary(o.real),
-              ideal: marginSummary(o.ideal),
-              idealLoopText: fmtTransfer(o.idealLoop.rational.num, o.idealLoop.rational.den, o.idealLoop.delay),
+              opened: o.opened,
+              real: o.realMargins,
+              ideal: o.idealMargins,
+              realLoopText: text(o.realLoop),
+              idealLoopText: text(o.idealLoop),
             })),
             closedLoopPoles: rep.closedLoopPoles,
             stable: rep.stable,
@@ -84,11 +91,11 @@ export const loopsCommand: Command = {
     const out: string[] = [];
     out.push(`closed loop: ${rep.stable ? 'stable' : 'NOT stable'}; poles ${fmtRoots(rep.closedLoopPoles)}`);
     for (const n of rep.notes) out.push(`note: ${n}`);
-    for (const c of rep.cuts) {
-      out.push('', `cut ${c.cut}${c.label !== c.cut ? ` (${c.label})` : ''} on wire ${c.wire}${c.auto ? ' [proposed]' : ''}`);
-      out.push(`  L(s) = ${fmtTransfer(c.loop.rational.num, c.loop.rational.den, c.loop.delay)}`);
-      out.push(`  every other loop closed: ${row(c.margins)}`);
-      if (c.alone.opened.length) out.push(`  tuned inner-first (opened ${c.alone.opened.join(', ')}): ${row(c.alone.margins)}`);
+    for (const c of rep.rows) {
+      out.push('', `cut ${c.cutId}${c.label !== c.cutId ? ` (${c.label})` : ''} on wire ${c.wire}${c.auto ? ' [proposed]' : ''}`);
+      out.push(`  L(s) = ${text(c.loop)}`);
+      out.push(`  every other loop closed: ${row(c.margins, c.openLoopRhpPoles)}`);
+      if (c.alone) out.push(`  tuned inner-first (opened ${c.alone.opened.join(', ')}): ${row(c.alone.margins, c.alone.openLoopRhpPoles)}`);
       if (c.delayHandling.mode === 'pade') out.push(`  ${c.delayHandling.note}`);
     }
     if (rep.separations.length) {
@@ -96,9 +103,9 @@ export const loopsCommand: Command = {
       for (const s of rep.separations) out.push(`  ${s.inner} in ${s.outer}: ${s.ratio === null ? '—' : `${fmtNumber(s.ratio, 3)}×`} ${s.flag ? '[LOW] ' : ''}${s.note}`);
     }
     for (const o of rep.outerVsIdeal) {
-      out.push('', `outer loop ${o.outer} with inner loop ${o.inner}:`);
-      out.push(`  real inner loop : ${row(o.real)}`);
-      out.push(`  ideal inner loop: ${row(o.ideal)}`);
+      out.push('', `outer loop ${o.outer} with inner loop ${o.inner}${o.opened.length ? ` (opened ${o.opened.join(', ')})` : ''}:`);
+      out.push(`  real inner loop : ${row(o.realMargins)}`);
+      out.push(`  ideal inner loop: ${row(o.idealMargins)}`);
     }
     io.stdout(out.join('\n') + '\n');
     return 0;

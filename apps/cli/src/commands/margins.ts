@@ -1,8 +1,9 @@
-import { type LoopMargins, loopMargins, marginFigures } from '@loopwright/lti';
+import { type LoopMargins, marginFigures } from '@loopwright/lti';
+import { expressionMargins } from '@loopwright/study';
 import { has, numberFlag, parseArgs, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { fmtNumber, fmtRoots, fmtTransfer } from './diagram-input.ts';
-import { loopFromArgs } from './loop-input.ts';
+import { loopFromArgs, withCaret } from './loop-input.ts';
 
 const help = `loopwright margins --loop "<expression>" [--param NAME=VALUE ...] [--pade-order N] [--json]
 
@@ -48,8 +49,8 @@ export const marginsCommand: Command = {
     const a = parseArgs(argv, ['loop', 'param', 'pade-order'], ['json']);
     if (a.positional.length) throw new UsageError(`margins: unexpected argument "${a.positional[0]}" (the loop goes in --loop "...")`);
     const padeOrder = numberFlag(a, 'pade-order');
-    const { tf } = loopFromArgs(a, 'margins');
-    const m = loopMargins(tf, padeOrder !== undefined ? { padeOrder } : {});
+    const loop = loopFromArgs(a, 'margins');
+    const { loop: tf, margins: m } = withCaret(loop, () => expressionMargins(loop, padeOrder !== undefined ? { padeOrder } : {}));
     if (has(a, 'json')) {
       io.stdout(toJson(marginsJson(m)));
       return 0;

@@ -1,13 +1,14 @@
-import { closedLoop, describeRef } from '@loopwright/graph';
+import { describeRef } from '@loopwright/graph';
 import { poly } from '@loopwright/lti';
+import { runStudy } from '@loopwright/study';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { checkSets, fmtNumber, fmtRoots, fmtTransfer, jsonForm, readDiagram, signalRef } from './diagram-input.ts';
 
-const help = `loopwright reduce FILE --from A --to B [--set NAME=VALUE ...] [--pade-order N] [--json]
+const help = `loopwright reduce FILE --from A --to B [--set NAME=VALUE ...] [--pade-order N] [--bode] [--step] [--json]
 
 Closed-loop transfer function of a diagram from A to B, every loop closed, exact as a rational
-function (times a dead time where it factors out of every path).
+function (times a dead time where it factors out of every path). FILE "-" reads standard input.
 
   FILE            a diagram (.loop.json)
   --from A        where a signal is injected: a source block, any block (added to its output)
@@ -15,6 +16,7 @@ function (times a dead time where it factors out of every path).
   --to B          what is measured: a probe, a block's output or a wire
   --set NAME=V    override a named parameter (repeatable)
   --pade-order N  Padé order for dead times inside loops (default 3)
+  --bode, --step  with --json: also the Bode data and the exact step response
   --json          machine-readable output: numeratorAscending/denominatorAscending are
                   coefficients in ascending powers of s; "text" is highest power first
 
@@ -26,21 +28,20 @@ export const reduceCommand: Command = {
   summary: 'closed-loop transfer function between two points of a diagram',
   help,
   async run(argv, io) {
-    const a = parseArgs(argv, ['from', 'to', 'set', 'pade-order'], ['json']);
+    const a = parseArgs(argv, ['from', 'to', 'set', 'pade-order'], ['json', 'bode', 'step']);
     if (a.positional.length !== 1) throw new UsageError('reduce: give exactly one diagram FILE (see --help)');
     const fromText = one(a, 'from');
     const toText = one(a, 'to');
-    if (!fromText || !toText) throw new UsageError('reduce: both --from and --to are needed (see --help)');
+    if (!fromText || !toText) throw new UsageError('reduce: both --from and --to are needed (see --help)', fromText ? '--to' : '--from');
     const sets = parseAssignments(all(a, 'set'), 'set');
     const padeOrder = numberFlag(a, 'pade-order');
     const d = await readDiagram(io, a.positional[0]);
     checkSets(d, sets);
     const from = signalRef(d, fromText, 'from');
     const to = signalRef(d, toText, 'to');
-    const r = closedLoop(d, from, to, sets, padeOrder !== undefined ? { padeOrder } : {});
-    const numA = r.tf.rational.num.slice();
-    const denA = r.tf.rational.den.slice();
-    const text = fmtTransfer(numA, denA, r.delay);
+    const r = runStudy(d, { kind: 'closed-loop', from, to, overrides: sets, bode: has(a, 'bode'), step: has(a, 'step'), ...(padeOrder !== undefined ? { padeOrder } : {}) });
+    const { num: numA, den: denA, delay } = r.transfer;
+    const text = fmtTransfer(numA, denA, delay);
     if (has(a, 'json')) {
       io.stdout(
         toJson(
@@ -55,9 +56,11 @@ export const reduceCommand: Command = {
             zeros: r.zeros,
             gain: r.gain,
             staticGain: r.staticGain,
-            delay: r.delay,
+            delay,
             delayHandling: r.delayHandling,
             hiddenModes: r.hiddenModes,
+            ...(r.bode ? { bode: r.bode } : {}),
+            ...(r.step ? { step: r.step } : {}),
           }),
         ),
       );
@@ -71,7 +74,7 @@ export const reduceCommand: Command = {
       `  poles: ${fmtRoots(r.poles)}`,
       `  zeros: ${fmtRoots(r.zeros)}`,
       `  gain (leading coefficient): ${fmtNumber(r.gain)}   static gain T(0): ${fmtNumber(r.staticGain)}`,
-      `  dead time: ${r.delay > 0 ? `${fmtNumber(r.delay)} s` : 'none'}   (${r.delayHandling.note})`,
+      `  dead time: ${delay > 0 ? `${fmtNumber(delay)} s` : 'none'}   (${r.delayHandling.note})`,
     ];
     if (r.hiddenModes.length) lines.push(`  cancelled (hidden) modes: ${fmtRoots(r.hiddenModes)}`);
     io.stdout(lines.join('\n') + '\n');

@@ -56,7 +56,7 @@ describe('loopwright simulate', () => {
   it('bad input exits 2 naming the problem; an early stop exits 1 with its message', async () => {
     const h = harness({ 'axis.loop.json': serializeDiagram(positioningAxis) });
     expect(await main(['simulate', 'axis.loop.json', '--set', 'Nope=1'], h.io)).toBe(2);
-    expect(h.err.join('')).toMatch(/no parameter "Nope"/);
+    expect(h.err.join('')).toMatch(/no named parameter "Nope"/);
     expect(await main(['simulate', 'missing.loop.json'], h.io)).toBe(2);
     expect(await main(['simulate', 'axis.loop.json', '--until', 'soon'], h.io)).toBe(2);
     const h3 = harness({ 'axis.loop.json': serializeDiagram(positioningAxis) });
