@@ -41,4 +41,5 @@ export {
 } from './run.ts';
 export { loopOfExpression, expressionMargins, expressionLocus, type ExpressionLoop, type PadeNote } from './loop-expression.ts';
 export { resultsComplete, type PartProgress } from './complete.ts';
+export { clearCaches } from './caches.ts';
 export { transferData, rhpPoleCount } from './transfer-data.ts';

@@ -9,6 +9,7 @@
 import { DEFAULT_PADE_ORDER, sweepLocus, type Diagram } from '@loopwright/graph';
 import { InputError, rootLocus, type Complex, type LocusPoint } from '@loopwright/lti';
 import { Lru, cached } from './cache.ts';
+import { registerCache } from './caches.ts';
 import { engineText } from './fingerprint.ts';
 import { without } from './split.ts';
 import { checkTarget, documentValue, engineDiagram, engineParameterName, targetKey, targetRange } from './sweep-target.ts';
@@ -32,7 +33,7 @@ export interface LocusRequest {
   samples?: number;
 }
 
-const loci = new Lru<LocusData>(12);
+const loci = registerCache(new Lru<LocusData>(12));
 const plain = (c: Complex) => ({ re: c.re, im: c.im });
 const branchesOf = (br: LocusPoint[][]): LocusBranch[] => br.map((b) => ({ re: b.map((p) => p.s.re), im: b.map((p) => p.s.im), k: b.map((p) => p.k) }));
 const angles = (xs: { at: Complex; angleDeg: number; multiplicity: number }[]): LocusAngleData[] =>

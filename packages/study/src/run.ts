@@ -9,6 +9,7 @@ import { blockSpec, closedLoopPoles, isBlockKind, resolveParams, type Diagram } 
 import { compileModel, simulate, type CompiledModel, type SimResult } from '@loopwright/sim';
 import { InputError } from '@loopwright/lti';
 import { Lru, cached } from './cache.ts';
+import { registerCache } from './caches.ts';
 import { engineText } from './fingerprint.ts';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
@@ -49,7 +50,7 @@ export interface RunContext {
   isCancelled?: () => boolean;
 }
 
-const models = new Lru<CompiledModel>(6);
+const models = registerCache(new Lru<CompiledModel>(6));
 const finiteOrNull = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
 
 /** A run length long enough to see the slowest closed-loop mode settle (and the sources act), on a 1-2-5 grid. */

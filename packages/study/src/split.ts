@@ -6,6 +6,7 @@
 import { affineSplit, characteristicPolynomial, type DelayHandling, type Diagram } from '@loopwright/graph';
 import { poly } from '@loopwright/lti';
 import { Lru, cached } from './cache.ts';
+import { registerCache } from './caches.ts';
 import { engineText } from './fingerprint.ts';
 
 export interface Split {
@@ -14,7 +15,7 @@ export interface Split {
   handling: DelayHandling;
 }
 
-const splits = new Lru<Split | null>(24);
+const splits = registerCache(new Lru<Split | null>(24));
 
 /** The overrides without the swept parameter (the split is taken at the document's value, so it is the same whatever the slider holds). */
 export function without(overrides: Record<string, number>, name: string): Record<string, number> {

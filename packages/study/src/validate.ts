@@ -8,10 +8,11 @@
 import { checkDiagram, findingSubject, type Diagram, type Finding } from '@loopwright/graph';
 import { InputError } from '@loopwright/lti';
 import { Lru, cached } from './cache.ts';
+import { registerCache } from './caches.ts';
 import { fingerprintText } from './fingerprint.ts';
 import type { CheckData } from './types.ts';
 
-const checks = new Lru<Finding[]>(16);
+const checks = registerCache(new Lru<Finding[]>(16));
 
 /** Every finding of the diagram (structural, then analytical), errors first. Cached per diagram and overrides. */
 export function findingsOf(d: Diagram, overrides: Record<string, number> = {}): Finding[] {

@@ -1,0 +1,175 @@
+/**
+ * One engine: the command line's --json path and the editor worker's compute entry give the
+ * same numbers for the same diagram — both demos and three scenarios of our own (a three-loop
+ * cascade with dead times, a loop with a feedforward, a reverse-acting loop swept over negative
+ * gains). The worker side sends exactly the study requests the editor's driver builds; the
+ * study caches are cleared between the two sides so that each computes afresh.
+ */
+import { describe, expect, it } from 'vitest';
+import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph';
+import { clearCaches, engineParameterName, resolveSweep, type LocusData, type LoopsData, type Part, type ResponseResult, type StudyResult, type CheckData, type ClosedLoopData } from '@loopwright/study';
+import { main } from '../../apps/cli/src/main.ts';
+import type { CliIo } from '../../apps/cli/src/io.ts';
+import { computeReply } from '../../apps/editor/src/worker/compute.ts';
+import { channelStudies, type AnalysisInputs } from '../../apps/editor/src/analysis/driver.ts';
+import type { Channel } from '../../apps/editor/src/worker/protocol.ts';
+import { coolingReverseActing, furnaceCascade, tankFeedforward } from '../../packages/study/src/test-scenarios.ts';
+
+async function cli(argv: string[], file: string): Promise<Record<string, any>> {
+  let out = '';
+  let err = '';
+  const io: CliIo = {
+    stdout: (s) => void (out += s),
+    stderr: (s) => void (err += s),
+    readFile: async () => file,
+    writeFile: async () => {},
+  };
+  const code = await main(argv, io);
+  expect(code, `${argv.join(' ')}: ${err}`).toBe(0);
+  return JSON.parse(out);
+}
+
+/** The worker's answer to the requests the driver sends for the diagram as loaded (no UI choices made). */
+function worker(d: Diagram, channel: Channel): StudyResult['value'][] {
+  const sweep = resolveSweep(d, { key: null, liveValue: null });
+  const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null };
+  const studies = channelStudies(inp, { frequency: true, opposite: false })[channel];
+  const reply = computeReply({ channel, id: 1, diagram: d, studies });
+  if (!reply.ok) throw new Error(reply.error);
+  return reply.results.map((r: Part<StudyResult>) => {
+    if (!r.ok) throw new Error(r.error);
+    return r.value.value;
+  });
+}
+
+/** Equal up to round-off (1e-9 relative to the larger magnitude); null and non-finite alike (JSON has no Infinity). */
+function same(a: unknown, b: unknown, path = '$'): void {
+  if (typeof a === 'number' || typeof b === 'number' || a === null || b === null) {
+    const x = typeof a === 'number' && Number.isFinite(a) ? a : null;
+    const y = typeof b === 'number' && Number.isFinite(b) ? b : null;
+    if (x === null || y === null) return void expect(x, path).toBe(y);
+    expect(Math.abs(x - y) <= 1e-9 * Math.max(1, Math.abs(x), Math.abs(y)), `${path}: ${x} vs ${y}`).toBe(true);
+    return;
+  }
+  if (Array.isArray(a) || Array.isArray(b)) {
+    expect(Array.isArray(a) && Array.isArray(b) && a.length === b.length, `${path}: lengths`).toBe(true);
+    (a as unknown[]).forEach((v, i) => same(v, (b as unknown[])[i], `${path}[${i}]`));
+    return;
+  }
+  if (typeof a === 'object' && typeof b === 'object') {
+    const keys = new Set([...Object.keys(a as object), ...Object.keys(b as object)]);
+    for (const k of keys) same((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], `${path}.${k}`);
+    return;
+  }
+  expect(a, path).toEqual(b);
+}
+
+const pairs = (cs: { re: number; im: number }[]) => cs.map((c) => [c.re, c.im]);
+
+const diagrams: [string, Diagram][] = [
+  ...demoDiagrams.map((x) => [x.id, x.diagram] as [string, Diagram]),
+  ['three-loop cascade with dead times', furnaceCascade()],
+  ['feedforward', tankFeedforward()],
+  ['negative-gain sweep', coolingReverseActing()],
+];
+
+describe('the command line and the editor worker agree', () => {
+  it('the scenarios are what they claim: three nested loops with dead times, a feedforward path, a negative gain swept', () => {
+    const f = furnaceCascade();
+    expect(f.cuts).toHaveLength(3);
+    expect(f.blocks.filter((b) => typeof b.params.expression === 'string' && /exp\(/.test(b.params.expression)).length).toBe(3);
+    expect(tankFeedforward().wires.some((w) => w.from.block === 'inflow' && w.to.block === 'ff')).toBe(true);
+    const c = coolingReverseActing();
+    expect(resolveSweep(c, { key: null, liveValue: null }).value).toBeLessThan(0);
+  });
+
+  for (const [name, d] of diagrams) {
+    describe(name, () => {
+      const file = serializeDiagram(d);
+      const sweep = resolveSweep(d, { key: null, liveValue: null });
+      const param = engineParameterName(sweep.choice!.target);
+      const source = d.blocks.find((b) => b.kind === 'source')!.id;
+      const probe = d.blocks.find((b) => b.kind === 'probe')!.id;
+
+      it('check: the same findings', async () => {
+        clearCaches();
+        const c = await cli(['check', 'd.loop.json', '--json'], file);
+        clearCaches();
+        const [w] = worker(d, 'check') as [CheckData];
+        same(c.findings, w.findings);
+        same(c.counts, w.counts);
+      });
+
+      it('loops: every row, both readings, open-loop RHP poles, separations, every real-vs-ideal pair, closed-loop poles', async () => {
+        clearCaches();
+        const c = await cli(['loops', 'd.loop.json', '--json'], file);
+        clearCaches();
+        const [w] = worker(d, 'loops') as [LoopsData];
+        expect(c.cuts.map((x: { cut: string }) => x.cut)).toEqual(w.rows.map((r) => r.cutId));
+        c.cuts.forEach((row: Record<string, any>, i: number) => {
+          const r = w.rows[i];
+          same(row.margins, r.margins, `${r.cutId}.margins`);
+          same(row.numeratorAscending, r.loop.num);
+          same(row.denominatorAscending, r.loop.den);
+          expect(row.openLoopRhpPoles).toBe(r.openLoopRhpPoles);
+          if (r.alone) {
+            same(row.alone.margins, r.alone.margins, `${r.cutId}.alone`);
+            expect(row.alone.opened).toEqual(r.alone.opened);
+            expect(row.alone.openLoopRhpPoles).toBe(r.alone.openLoopRhpPoles);
+          }
+        });
+        same(c.separations, w.separations);
+        same(c.outerVsIdeal.map((o: Record<string, unknown>) => [o.outer, o.inner, o.real, o.ideal]), w.outerVsIdeal.map((o) => [o.outer, o.inner, o.realMargins, o.idealMargins]));
+        same(c.closedLoopPoles, pairs(w.closedLoopPoles));
+        expect(c.stable).toBe(w.stable);
+      });
+
+      it(`locus of ${param}: the same mode, direction, geometry and branches`, async () => {
+        clearCaches();
+        const c = await cli(['locus', 'd.loop.json', '--sweep', sweep.choice!.key, '--json'], file);
+        clearCaches();
+        const [L] = worker(d, 'analysis') as [LocusData];
+        expect(c.mode).toBe(L.mode);
+        expect(c.negative).toBe(L.direction === 'negative');
+        same(c.poles, pairs(L.poles));
+        same(c.zeros, L.mode === 'exact' ? pairs(L.zeros) : c.zeros);
+        same(c.breakaway, L.breakaways.map((b) => ({ s: [b.s.re, b.s.im], gain: b.gain })));
+        same(c.crossings, L.crossings);
+        if (L.mode === 'exact') {
+          same(c.fixedPoles, pairs(L.fixedPoles));
+          same(c.numeratorAscending, L.n0);
+          same(c.denominatorAscending, L.d0);
+        }
+        same(c.branches, L.branches.map((b) => b.re.map((re, i) => [re, b.im[i], b.k[i]])));
+      });
+
+      it(`closed loop from ${source} to ${probe}: the same transfer function and poles`, async () => {
+        clearCaches();
+        const c = await cli(['reduce', 'd.loop.json', '--from', source, '--to', probe, '--json'], file);
+        clearCaches();
+        const live = sweep.live;
+        const reply = computeReply({ channel: 'analysis', id: 1, diagram: d, studies: [{ kind: 'closed-loop', from: { block: source }, to: { block: probe }, live }] });
+        expect(reply.ok).toBe(true);
+        const part = reply.ok ? reply.results[0] : null;
+        const w = (part?.ok ? part.value.value : null) as ClosedLoopData;
+        same(c.numeratorAscending, w.transfer.num);
+        same(c.denominatorAscending, w.transfer.den);
+        same(c.delay, w.transfer.delay);
+        same(c.poles, pairs(w.poles));
+      });
+
+      it('simulation: the same settings, traces and figures', async () => {
+        clearCaches();
+        const c = await cli(['simulate', 'd.loop.json', '--json'], file);
+        clearCaches();
+        const [w] = worker(d, 'response') as [ResponseResult];
+        expect(c.status).toBe(w.run.status);
+        same(c.settings, w.settings);
+        same(c.time, w.run.time);
+        for (const p of w.probes) same(c.traces[p.id], w.run.traces[p.id], `traces.${p.id}`);
+        same(c.metrics, w.run.probeFigures);
+        same(c.actuators, w.run.actuatorFigures);
+      });
+    });
+  }
+});
