@@ -12,6 +12,8 @@ import { checkDiagram, positioningAxis, serializeDiagram, type Diagram } from '@
 import { findingText } from '@loopwright/study';
 import { errorReport, main } from './main.ts';
 import type { CliIo } from './io.ts';
+// Test-only builders of the study package (not its public API).
+import { unityLoop } from '../../../packages/study/src/test-support.ts';
 
 function fakeIo(files: Record<string, string> = {}, stdin?: string, failWrites = false) {
   let out = '';
@@ -31,33 +33,11 @@ function fakeIo(files: Record<string, string> = {}, stdin?: string, failWrites =
   return { io, out: () => out, err: () => err };
 }
 
-/** r → e(+−) → gain K → 1/(s(s+2)) → y with unity feedback (a cut on the feedback wire). */
+/** r → e(+−) → gain K → 1/(s(s+2)) → y with unity feedback (a cut on the feedback wire), run for 5 s. */
 function loop(): Diagram {
-  return {
-    format: 'loopwright.diagram',
-    version: 2,
-    title: 'loop',
-    description: '',
-    parameters: [{ name: 'K', value: 2 }],
-    blocks: [
-      { id: 'r', kind: 'source', position: { x: 0, y: 0 }, params: {} },
-      { id: 'e', kind: 'summing-junction', position: { x: 1, y: 0 }, params: { signs: '+-' } },
-      { id: 'k', kind: 'gain', position: { x: 2, y: 0 }, params: { k: 'K' } },
-      { id: 'g', kind: 'transfer-function', position: { x: 3, y: 0 }, params: { expression: '1/(s*(s+2))' } },
-      { id: 'y', kind: 'probe', position: { x: 4, y: 0 }, params: {} },
-    ],
-    wires: [
-      { id: 'w1', from: { block: 'r', port: 'out' }, to: { block: 'e', port: 'in1' } },
-      { id: 'w2', from: { block: 'e', port: 'out' }, to: { block: 'k', port: 'in' } },
-      { id: 'w3', from: { block: 'k', port: 'out' }, to: { block: 'g', port: 'in' } },
-      { id: 'w4', from: { block: 'g', port: 'out' }, to: { block: 'y', port: 'in' } },
-      { id: 'fb', from: { block: 'g', port: 'out' }, to: { block: 'e', port: 'in2' } },
-    ],
-    cuts: [{ id: 'c1', wire: 'fb' }],
-    sweeps: [],
-    simulation: { end: 5 },
-    view: {},
-  };
+  const d = unityLoop(2);
+  d.simulation = { end: 5 };
+  return d;
 }
 
 describe('conventions', () => {

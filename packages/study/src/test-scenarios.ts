@@ -8,7 +8,7 @@ import { build } from './test-support.ts';
 
 /**
  * A heat-treatment furnace: fuel-flow loop (valve and transmitter, 0.5 s dead time) inside the
- * chamber-temperature loop (8 s transport delay) inside the load-temperature loop (30 s
+ * chamber-temperature loop (8 s dead time in the flue gas path) inside the load-temperature loop (30 s
  * conduction delay). Flow demand limited to 0..25 (the valve's range).
  */
 export function furnaceCascade(): Diagram {

@@ -5,12 +5,18 @@
  */
 import { DIAGRAM_FORMAT, DIAGRAM_VERSION, type BlockKind, type Cut, type Diagram, type NamedParameter, type ParamValue, type SimulationSettings, type Sweep } from '@loopwright/graph';
 
+/** Like graph's test builder, but with ids that may hold "-" (readable scenario ids) and simulation settings. */
 export function build(
   blocks: [string, BlockKind, Record<string, ParamValue>?][],
   wires: string[],
   parameters: NamedParameter[] = [],
   extra: { cuts?: Cut[]; sweeps?: Sweep[]; simulation?: SimulationSettings; title?: string } = {},
 ): Diagram {
+  const wireOf = (s: string, i: number) => {
+    const m = /^(?:([\w-]+):)?([\w-]+)->([\w-]+)(?:\.(\w+))?$/.exec(s);
+    if (!m) throw new Error(`bad wire spec ${s}`);
+    return { id: m[1] ?? `w${i + 1}`, from: { block: m[2], port: 'out' }, to: { block: m[3], port: m[4] ?? 'in' } };
+  };
   return {
     format: DIAGRAM_FORMAT,
     version: DIAGRAM_VERSION,
@@ -18,11 +24,7 @@ export function build(
     description: '',
     parameters,
     blocks: blocks.map(([id, kind, params], i) => ({ id, kind, position: { x: 180 * i, y: 0 }, params: params ?? {} })),
-    wires: wires.map((s, i) => {
-      const m = /^(?:([\w-]+):)?([\w-]+)->([\w-]+)(?:\.(\w+))?$/.exec(s);
-      if (!m) throw new Error(`bad wire spec ${s}`);
-      return { id: m[1] ?? `w${i + 1}`, from: { block: m[2], port: 'out' }, to: { block: m[3], port: m[4] ?? 'in' } };
-    }),
+    wires: wires.map(wireOf),
     cuts: extra.cuts ?? [],
     sweeps: extra.sweeps ?? [],
     simulation: extra.simulation ?? {},

@@ -3,7 +3,7 @@
  * functions, no Maps), so that a worker can post them and the command line can print them as
  * JSON. Polynomials are ascending; complex numbers are {re, im}.
  */
-import type { DelayHandling, Finding, SignalRef } from '@loopwright/graph';
+import type { DelayHandling, Finding, Separation, SignalRef } from '@loopwright/graph';
 import type { MarginFigures } from '@loopwright/lti';
 
 export type { DelayHandling, Finding, SignalRef };
@@ -169,16 +169,8 @@ export interface LoopRow {
   alone: LoopReading | null;
 }
 
-export interface SeparationRow {
-  inner: string;
-  outer: string;
-  ratio: number | null;
-  basis: 'bandwidth' | 'crossover' | 'none';
-  crossoverRatio: number | null;
-  bandwidthRatio: number | null;
-  flag: boolean;
-  note: string;
-}
+/** Inner/outer separation of a nested pair (graph's Separation: plain data). */
+export type SeparationRow = Separation;
 
 /**
  * The outer loop of a nested pair with the real inner loop against an ideal (unity) one. Both
@@ -270,22 +262,16 @@ export interface ProbeFigures {
   ise: number | null;
 }
 
-export interface MetricsRow {
+/** One row of the response table: a probe's figures, or an actuator's. */
+export type MetricsRow = {
   /** Probe id, or the actuator's trace key. */
   probe: string;
   label: string;
-  riseTime: number | null;
-  overshootPct: number | null;
-  peakTime: number | null;
-  peak: number | null;
-  settlingTime: number | null;
-  steadyState: number | null;
-  steadyStateError: number | null;
-  iae: number | null;
+} & Pick<ProbeFigures, 'riseTime' | 'overshootPct' | 'peakTime' | 'peak' | 'settlingTime' | 'steadyState' | 'steadyStateError' | 'iae'> & {
   timeInSaturation: number | null;
   peakEffort: number | null;
   limitHits: number | null;
-}
+};
 
 /** The settings a run used and where its end time came from. */
 export interface RunSettings {
