@@ -27,7 +27,7 @@ interface HookState {
   locus: { mode: string; branches: { re: number[]; im: number[]; k: number[] }[]; poles: Cx[]; zeros: Cx[] } | null;
   frequency: { cutId: string; margins: Record<string, number | null> } | null;
   loops: { rows: { cutId: string; wire: string; margins: Record<string, number | boolean | null> }[] } | null;
-  response: { nonlinear: { time: number[]; traces: Record<string, number[]> }; linear: { time: number[]; traces: Record<string, number[]> }; probes: { id: string }[] } | null;
+  response: { run: { time: number[]; traces: Record<string, number[]> }; linear: { time: number[]; traces: Record<string, number[]> } | null; probes: { id: string }[] } | null;
 }
 
 const state = (page: Page) =>
@@ -142,7 +142,7 @@ describe('analysis views', () => {
     expect(s0.sweep?.parameter).toBe('Kp_pos');
     expect(s0.locus?.mode).toBe('exact');
     const probe = s0.response!.probes[0].id;
-    const y0 = s0.response!.nonlinear.traces[probe];
+    const y0 = s0.response!.run.traces[probe];
     // The poles as the Locus chart was given them (not the hook's copy of the results).
     const chartPoles = async () => {
       const opt = (await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { chartOption(n: string): unknown } } }).__loopwright.analysis.chartOption('locus'))) as {
@@ -164,10 +164,12 @@ describe('analysis views', () => {
     const moved = p1.filter((p) => Math.min(...p0.map((q) => dist(p, q))) > 0.01 * Math.hypot(p.re, p.im));
     expect(moved.length).toBeGreaterThan(0);
     // …and every pole lies on a branch of the locus drawn (within 1 % of its modulus): the
-    // nearest point of the traced polylines, segment by segment.
+    // nearest point of the traced polylines, segment by segment — or is one of the fixed poles
+    // (common to N0 and D0: closed-loop poles the sweep does not move, drawn as poles).
     const branches = [...s1.locus!.branches, ...((s1.locus as unknown as { rangeBranches: Branch[] | null }).rangeBranches ?? [])];
+    const fixed = (s1.locus as unknown as { fixedPoles: Cx[] }).fixedPoles;
     const toBranches = (p: Cx) => {
-      let best = Infinity;
+      let best = Math.min(Infinity, ...fixed.map((q) => dist(p, q)));
       for (const b of branches) {
         for (let i = 0; i + 1 < b.re.length; i++) {
           const ax = b.re[i], ay = b.im[i], dx = b.re[i + 1] - ax, dy = b.im[i + 1] - ay;
@@ -180,7 +182,7 @@ describe('analysis views', () => {
     };
     for (const p of p1) expect(toBranches(p), `pole ${p.re} ${p.im} on a branch`).toBeLessThan(0.01 * Math.max(1, Math.hypot(p.re, p.im)));
     // The response changed with it.
-    const y1 = s1.response!.nonlinear.traces[probe];
+    const y1 = s1.response!.run.traces[probe];
     const diff = Math.max(...y1.map((v, i) => Math.abs(v - (y0[i] ?? v))));
     const scale = Math.max(...y0.map(Math.abs));
     expect(diff).toBeGreaterThan(0.01 * scale);
@@ -317,17 +319,17 @@ describe('analysis views', () => {
     const lines = csv.bytes.toString('utf8').trim().split('\n');
     const header = csvFields(lines[0]);
     const st = await settled(page);
-    const keys = Object.keys(st.response!.nonlinear.traces);
+    const keys = Object.keys(st.response!.run.traces);
     expect(header.length).toBe(1 + 2 * keys.length);
     expect(header[0]).toBe('t');
     expect(header.filter((h) => h.endsWith('(linear)')).length).toBe(keys.length);
-    expect(lines.length - 1).toBe(st.response!.nonlinear.time.length);
+    expect(lines.length - 1).toBe(st.response!.run.time.length);
     for (const line of [lines[1], lines[Math.floor(lines.length / 2)], lines[lines.length - 1]]) {
       const cells = csvFields(line);
       expect(cells.length).toBe(header.length);
       for (const c of cells) expect(Number.isFinite(Number(c)), `CSV cell ${c}`).toBe(true);
     }
-    expect(Number(csvFields(lines[lines.length - 1])[0])).toBeCloseTo(st.response!.nonlinear.time.at(-1)!, 9);
+    expect(Number(csvFields(lines[lines.length - 1])[0])).toBeCloseTo(st.response!.run.time.at(-1)!, 9);
     const report = await save('report:html');
     const html = report.bytes.toString('utf8');
     expect(html.startsWith('<!doctype html>')).toBe(true);
@@ -377,7 +379,7 @@ describe('analysis views', () => {
     await page.mouse.move(5, 5);
     await page.getByLabel('k < 0').check();
     await page.getByLabel('ωn', { exact: true }).check();
-    await expect.poll(async () => ((await state(page)).locus as unknown as { negativeBranches: unknown[] | null } | null)?.negativeBranches?.length ?? 0, { timeout: 20_000 }).toBeGreaterThan(0);
+    await expect.poll(async () => ((await state(page)).locus as unknown as { oppositeBranches: unknown[] | null } | null)?.oppositeBranches?.length ?? 0, { timeout: 20_000 }).toBeGreaterThan(0);
     await settled(page);
     await page.waitForTimeout(150);
     await screenshot(page, 'analysis-locus-negative');

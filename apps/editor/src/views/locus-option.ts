@@ -149,7 +149,8 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
       symbol: CROSS_SYMBOL,
       symbolSize: 11,
       itemStyle: { color: pal.pole },
-      data: pts(locus.poles),
+      // Fixed poles (common to N0 and D0) do not move with the sweep: a branch of no length.
+      data: pts([...locus.poles, ...locus.fixedPoles]),
     });
     series.push({
       type: 'scatter',
