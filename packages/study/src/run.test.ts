@@ -28,6 +28,13 @@ describe('runs', () => {
     expect(() => runSettings(d, { until: -1 })).toThrow(/end time/);
   });
 
+  it('a caller\'s deadline bounds the run: it stops with status budget and the partial traces, never hangs', () => {
+    const r = responseStudy(unityLoop(4), { until: 1e6, step: 1 }, { deadline: performance.now() + 30 });
+    expect(r.run.status).toBe('budget');
+    expect(r.run.timeReached).toBeLessThan(1e6);
+    expect(r.run.time.length).toBeGreaterThan(0);
+  });
+
   it('probes shown: the asked list, else the diagram\'s, else every probe; an unknown asked probe is refused', () => {
     const d = build([['r', 'source'], ['a', 'probe'], ['b', 'probe']], ['r->a', 'r->b']);
     expect(shownProbes(d)).toEqual(['a', 'b']);

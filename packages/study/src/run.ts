@@ -45,10 +45,14 @@ export interface RunRequest {
   probes?: string[] | 'all';
 }
 
-/** Not plain data, so kept out of the request: cancellation polled during a run. */
+/** What a caller gives besides plain data: cancellation polled during a run, and a deadline. */
 export interface RunContext {
   isCancelled?: () => boolean;
+  /** performance.now() (ms) by which the study must end; a run stops there with status 'budget'. */
+  deadline?: number;
 }
+
+const clock = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
 
 const models = registerCache(new Lru<CompiledModel>(6));
 const finiteOrNull = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
@@ -234,7 +238,8 @@ export function responseStudy(d: Diagram, req: RunRequest = {}, ctx: RunContext 
     rtol: settings.rtol,
     atol: settings.atol,
     outputStep: settings.outputStep,
-    maxWallMs: req.maxWallMs ?? DEFAULT_RUN_MS,
+    // The run's own budget, shortened to what the caller's deadline leaves (half each when an overlay follows).
+    maxWallMs: Math.max(1, Math.min(req.maxWallMs ?? DEFAULT_RUN_MS, ctx.deadline !== undefined ? (ctx.deadline - clock()) / (req.linearOverlay ? 2 : 1) : Infinity)),
     ...(settings.maxSteps !== null ? { maxSteps: settings.maxSteps } : {}),
     isCancelled: ctx.isCancelled,
   };

@@ -37,7 +37,10 @@ export type StudyRequest = { [K in StudyKind]: { kind: K } & StudyKinds[K]['requ
 export type StudyResultOf<K extends StudyKind> = StudyKinds[K]['result'];
 export type StudyResult = { [K in StudyKind]: { kind: K; value: StudyKinds[K]['result'] } }[StudyKind];
 
-/** What a study may be given besides plain data. */
+/**
+ * What a study may be given besides plain data: a cancellation poll and a deadline. Runs honour
+ * both now; the analyses will pass the deadline on as the math packages accept one.
+ */
 export type StudyContext = RunContext;
 
 type Handlers = { [K in StudyKind]: (d: Diagram, req: { kind: K } & StudyKinds[K]['request'], ctx: StudyContext) => StudyKinds[K]['result'] };
