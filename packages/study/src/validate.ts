@@ -38,7 +38,7 @@ export class RefusedDiagram extends InputError {
     readonly finding: Finding,
     readonly errors: number,
   ) {
-    const more = errors > 1 ? ` (and ${errors - 1} more error${errors > 2 ? 's' : ''}: check lists them)` : '';
+    const more = errors > 1 ? ` (and ${errors - 1} more error${errors > 2 ? 's' : ''} in the findings)` : '';
     const at = finding.field ?? (finding.blocks?.length ? `blocks.${finding.blocks[0]}` : finding.wires?.length ? `wires.${finding.wires[0]}` : undefined);
     super(`${findingText(finding)}${more}`, at ? { field: at } : {});
   }
