@@ -217,6 +217,12 @@ describe('loops table', () => {
     expect(o.realMargins).toEqual(outerRow.alone?.margins ?? outerRow.margins);
   });
 
+  it('every cut\'s frequency data on request: the same as the cut study of that cut', () => {
+    const L = loopsStudy(r27(), { frequency: true });
+    for (const row of L.rows) expect(row.frequency).toEqual(cutStudy(r27(), { cut: row.cutId }));
+    expect(loopsStudy(r27()).rows.every((r) => r.frequency === null)).toBe(true);
+  });
+
   it('a three-loop cascade gives two nested pairs, each compared in its own inner-first configuration', () => {
     const d = build(
       [

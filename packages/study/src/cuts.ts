@@ -2,8 +2,8 @@
  * Cuts: which loop the Frequency view opens, and the frequency data of L there (Bode,
  * Nyquist, |S| and |T|) with its margins and the number of open-loop right-half-plane poles.
  */
-import { DEFAULT_PADE_ORDER, compiledOf, feedbackWires, loopAtCutDetailed, type Diagram } from '@loopwright/graph';
-import { InputError, defaultFrequencyGrid, frequencyResponse, loopMargins, marginFigures } from '@loopwright/lti';
+import { DEFAULT_PADE_ORDER, compiledOf, feedbackWires, loopAtCutDetailed, type DelayHandling, type Diagram } from '@loopwright/graph';
+import { InputError, defaultFrequencyGrid, frequencyResponse, loopMargins, marginFigures, type LoopMargins, type TransferFunction } from '@loopwright/lti';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { rhpPoleCount, transferData } from './transfer-data.ts';
@@ -56,8 +56,11 @@ export function cutStudy(d: Diagram, req: CutRequest): FrequencyData | null {
   const cut = chooseCut(diagram, req.cut, overrides, req.fallback === true);
   if (!cut) return null;
   const r = loopAtCutDetailed(diagram, cut.wire, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER });
-  const L = r.tf;
-  const margins = loopMargins(L);
+  return frequencyOfLoop(cut, r.tf, loopMargins(r.tf), r.delayHandling);
+}
+
+/** Bode, Nyquist, |S| and |T| of a loop L at a cut, on a grid that covers its crossovers, with its margins. */
+export function frequencyOfLoop(cut: Pick<ChosenCut, 'id' | 'wire' | 'label'>, L: TransferFunction, margins: LoopMargins, delayHandling: DelayHandling): FrequencyData {
   // Two decades above the highest gain crossover (and past the phase crossover the gain margin
   // is read at) are enough: beyond, a dead time only winds the phase round and round.
   let omega = defaultFrequencyGrid(L, 60);
@@ -93,6 +96,6 @@ export function cutStudy(d: Diagram, req: CutRequest): FrequencyData | null {
     margins: marginFigures(margins),
     openLoopRhpPoles: rhpPoleCount(L),
     loop: transferData(L),
-    delayHandling: r.delayHandling,
+    delayHandling,
   };
 }

@@ -23,7 +23,7 @@ export { positionToValue, valueToPosition, widenedRange, editedRange } from './s
 export { checkStudy, findingsOf, findingText, assertAnalysable, RefusedDiagram } from './validate.ts';
 export { locusStudy, type LocusRequest } from './locus.ts';
 export { polesStudy, stableFrom, type PolesRequest } from './poles.ts';
-export { chooseCut, cutStudy, type ChosenCut, type CutRequest } from './cuts.ts';
+export { chooseCut, cutStudy, frequencyOfLoop, type ChosenCut, type CutRequest } from './cuts.ts';
 export { loopsStudy, type LoopsRequest } from './loops.ts';
 export { parseSignalRef, closedLoopStudy, type ClosedLoopRequest } from './closed-loop.ts';
 export {

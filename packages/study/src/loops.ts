@@ -9,6 +9,7 @@ import { DEFAULT_PADE_ORDER, analyseLoops, type CutAnalysis, type Diagram } from
 import { marginFigures, type Complex } from '@loopwright/lti';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
+import { frequencyOfLoop } from './cuts.ts';
 import { bodeOf, rhpPoleCount, sharedGrid, transferData } from './transfer-data.ts';
 import type { LiveValue, LoopRow, LoopsData, OuterIdealData } from './types.ts';
 import { assertAnalysable } from './validate.ts';
@@ -17,6 +18,8 @@ export interface LoopsRequest {
   overrides?: Record<string, number>;
   live?: LiveValue | null;
   padeOrder?: number;
+  /** Also give every row's Bode, Nyquist, |S| and |T| data (every other loop closed), e.g. for a report. */
+  frequency?: boolean;
 }
 
 const plain = (c: Complex) => ({ re: c.re, im: c.im });
@@ -40,6 +43,7 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
     openLoopRhpPoles: rhpPoleCount(c.loop),
     delayHandling: c.delayHandling,
     hiddenModes: c.hiddenModes.map(plain),
+    frequency: req.frequency ? frequencyOfLoop({ id: c.cut, wire: c.wire, label: c.label }, c.loop, c.margins, c.delayHandling) : null,
     alone: c.alone.opened.length
       ? { loop: transferData(c.alone.loop), margins: marginFigures(c.alone.margins), openLoopRhpPoles: rhpPoleCount(c.alone.loop), opened: names(c.alone.opened) }
       : null,

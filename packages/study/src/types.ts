@@ -167,6 +167,8 @@ export interface LoopRow {
   hiddenModes: Cx[];
   /** The same cut read inner-first: the loops around it opened (null when none enclose it). */
   alone: LoopReading | null;
+  /** Bode/Nyquist/S/T data of L (every other loop closed), when the request asked for it. */
+  frequency: FrequencyData | null;
 }
 
 /** Inner/outer separation of a nested pair (graph's Separation: plain data). */
