@@ -8,12 +8,9 @@
 import { describe, expect, it } from 'vitest';
 import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph';
 import { clearCaches, engineParameterName, resolveSweep, type LocusData, type LoopsData, type Part, type ResponseResult, type StudyResult, type CheckData, type ClosedLoopData } from '@loopwright/study';
-import { main } from '../../apps/cli/src/main.ts';
-import type { CliIo } from '../../apps/cli/src/io.ts';
-import { computeReply } from '../../apps/editor/src/worker/compute.ts';
-import { channelStudies, type AnalysisInputs } from '../../apps/editor/src/analysis/driver.ts';
-import type { Channel } from '../../apps/editor/src/worker/protocol.ts';
-import { coolingReverseActing, furnaceCascade, tankFeedforward } from '../../packages/study/src/test-scenarios.ts';
+import { main, type CliIo } from '@loopwright/cli/testing';
+import { computeReply, channelStudies, type AnalysisInputs, type Channel } from '@loopwright/editor/testing';
+import { coolingReverseActing, furnaceCascade, tankFeedforward } from '@loopwright/study/testing';
 
 async function cli(argv: string[], file: string): Promise<Record<string, any>> {
   let out = '';

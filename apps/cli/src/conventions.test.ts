@@ -13,7 +13,7 @@ import { findingText } from '@loopwright/study';
 import { errorReport, main } from './main.ts';
 import type { CliIo } from './io.ts';
 // Test-only builders of the study package (not its public API).
-import { unityLoop } from '../../../packages/study/src/test-support.ts';
+import { unityLoop } from '@loopwright/study/testing';
 
 function fakeIo(files: Record<string, string> = {}, stdin?: string, failWrites = false) {
   let out = '';

@@ -134,7 +134,10 @@ describe('document fuzz', () => {
     let slowest = 0;
     // Untimed warm-up: the first parse of each base compiles the schema and expression parser
     // paths (the per-case limit is about a document's cost, not module start-up under load).
-    for (const b of bases) serializeDiagram(parseDiagram(b)), checkStructure(parseDiagram(b));
+    for (const b of bases) {
+      serializeDiagram(parseDiagram(b));
+      checkStructure(parseDiagram(b));
+    }
     fc.assert(
       fc.property(fc.nat({ max: bases.length - 1 }), fc.array(mutation, { minLength: 1, maxLength: 4 }), (which, muts) => {
         const doc = JSON.parse(bases[which]);

@@ -12,7 +12,7 @@ import { locusStudy } from './locus.ts';
 import { loopsStudy } from './loops.ts';
 import { polesStudy } from './poles.ts';
 import { runStudies, runStudy } from './study.ts';
-import { build, unityLoop } from './test-support.ts';
+import { build, unityLoop } from './testing.ts';
 import type { Cx } from './types.ts';
 
 const byRe = (p: Cx[]) => [...p].sort((a, b) => a.re - b.re || a.im - b.im);

@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { resultsComplete } from './complete.ts';
 import { diagramFingerprint, engineText } from './fingerprint.ts';
-import { unityLoop } from './test-support.ts';
+import { unityLoop } from './testing.ts';
 
 describe('diagram fingerprint', () => {
   it('ignores layout, title and view; changes with anything the engine sees', () => {

@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { catalogue } from '@loopwright/graph';
 import { actuatorsOf, automaticEnd, responseStudy, runSettings, shownProbes } from './run.ts';
-import { build, unityLoop } from './test-support.ts';
+import { build, unityLoop } from './testing.ts';
 
 describe('runs', () => {
   it('4/(s(s+2)) in unity feedback follows y = 1 − e^(−t)(cos √3t + sin √3t/√3), overshoot 16.30 % (ζ = 0.5) [R20, R17]', () => {

@@ -4,7 +4,7 @@ import fc from 'fast-check';
 import { sweepRange } from '@loopwright/graph';
 import { editedRange, positionToValue, valueToPosition, widenedRange } from './slider.ts';
 import { documentValue, engineDiagram, engineParameterName, parseTargetKey, preferredChoice, resolveSweep, sweepChoices, targetKey, targetRange, withLiveValue } from './sweep-target.ts';
-import { build, unityLoop } from './test-support.ts';
+import { build, unityLoop } from './testing.ts';
 
 describe('slider mapping', () => {
   it('log and linear ranges map ends to ends and round-trip (property)', () => {

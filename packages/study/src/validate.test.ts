@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { checkDiagram, type Diagram } from '@loopwright/graph';
 import { runStudy, type StudyRequest } from './study.ts';
-import { build, unityLoop } from './test-support.ts';
+import { build, unityLoop } from './testing.ts';
 import { checkStudy, findingText, RefusedDiagram } from './validate.ts';
 
 const studies: StudyRequest[] = [

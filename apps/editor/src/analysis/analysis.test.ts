@@ -17,7 +17,7 @@ import { differences, dominantPole } from './compare.ts';
 import { takeSnapshot } from './snapshot.ts';
 import type { AnalysisResult } from './results-store.ts';
 // Test-only builders of the study package (not its public API).
-import { unityLoop } from '../../../../packages/study/src/test-support.ts';
+import { unityLoop } from '@loopwright/study/testing';
 
 const K = { kind: 'parameter', name: 'K' } as const;
 

@@ -4,7 +4,7 @@
  * measured-disturbance feedforward, and a reverse-acting loop swept over negative gains.
  */
 import type { Diagram } from '@loopwright/graph';
-import { build } from './test-support.ts';
+import { build } from './builders.ts';
 
 /**
  * A heat-treatment furnace: fuel-flow loop (valve and transmitter, 0.5 s dead time) inside the

@@ -1,0 +1,5 @@
+// Test-only entry of the editor (`@loopwright/editor/testing`): the worker's compute entry and
+// the study requests the driver builds, for tests that compare the editor with the CLI.
+export { computeReply } from './worker/compute.ts';
+export { channelStudies, type AnalysisInputs } from './analysis/driver.ts';
+export type { Channel } from './worker/protocol.ts';

@@ -1,0 +1,4 @@
+// Test-only helpers of @loopwright/study (`@loopwright/study/testing`): compact diagram builders
+// and scenarios of our own used by tests across the repo. Not part of the public API.
+export { build, unityLoop } from './testing/builders.ts';
+export { coolingReverseActing, furnaceCascade, tankFeedforward } from './testing/scenarios.ts';
