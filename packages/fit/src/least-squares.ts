@@ -42,6 +42,20 @@ export function sumOfSquares(y: ArrayLike<number>, f: ArrayLike<number>): number
   return s;
 }
 
+/** f memoised for the last parameter values it was called with (compared by value). */
+function lastCall<T>(f: (p: readonly number[]) => T): (p: readonly number[]) => T {
+  let key = '';
+  let value = undefined as T;
+  return (p) => {
+    const k = p.join(',');
+    if (k !== key) {
+      value = f(p);
+      key = k;
+    }
+    return value;
+  };
+}
+
 export function leastSquares(problem: LeastSquaresProblem): LeastSquaresResult {
   const { y } = problem;
   const maxIterations = problem.maxIterations ?? 400;
@@ -49,26 +63,8 @@ export function leastSquares(problem: LeastSquaresProblem): LeastSquaresResult {
   const x = Array.from({ length: y.length }, (_, i) => i);
   // Cache by parameter values: the library calls model(p) and jacobian(p) with arrays it then
   // mutates, and asks for one point at a time.
-  let modelKey = '';
-  let modelVal: Float64Array = new Float64Array(0);
-  const modelAt = (p: readonly number[]) => {
-    const key = p.join(',');
-    if (key !== modelKey) {
-      modelVal = problem.model(p);
-      modelKey = key;
-    }
-    return modelVal;
-  };
-  let jacKey = '';
-  let jacVal: Float64Array[] = [];
-  const jacAt = (p: readonly number[]) => {
-    const key = p.join(',');
-    if (key !== jacKey) {
-      jacVal = problem.jacobian(p);
-      jacKey = key;
-    }
-    return jacVal;
-  };
+  const modelAt = lastCall(problem.model);
+  const jacAt = lastCall(problem.jacobian);
   let best = [...problem.start];
   let bestSse = sumOfSquares(y, modelAt(best));
   if (!Number.isFinite(bestSse)) return { p: best, sse: bestSse, iterations: 0, converged: false };

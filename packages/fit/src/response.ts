@@ -42,98 +42,43 @@ function oneMinusExpOverX(x: number): number {
 }
 
 /**
- * One model's unit-gain dynamics, advanced exactly over an interval of length h with input
- * v + slope·t. The state is at most two numbers; `out` reads the undelayed output. The
- * exponentials depend on h only, so they are kept for the last two lengths used: with a
- * uniform sample time every full step and every partial step (the fraction of a sample that
- * the dead time leaves) reuses them.
+ * Exact step of a model's unit-gain dynamics over a length h with input v + slope·t, given the
+ * coefficients c of that length (from `coefficients`). State (x1, x2): the lag (FOPDT), the two
+ * lags in cascade (SOPDT, output x2), or the integral (IPDT). Written as plain functions over
+ * numbers: this is the fit's inner loop.
+ *  - lag: x(h) = x0·E + v·(1 − E) + slope·τ·(a − 1 + E), E = e^(−a), a = h/τ;
+ *  - two lags: with the particular solutions x1p = v(t) − slope·τ1, x2p = v(t) − slope·(τ1 + τ2),
+ *    e1(h) = e1(0)·E1, e2(h) = e2(0)·E2 + e1(0)·φ, φ = (e^(−h/τ1) − e^(−h/τ2))/(τ2(1/τ2 − 1/τ1)),
+ *    written as (h/τ2)·e^(−h/max τ)·(1 − e^(−|Δ|h))/(|Δ|h), so equal lags need no special case;
+ *  - integrator: x(h) = x0 + v·h + slope·h²/2.
  */
-interface Dynamics {
-  readonly size: number;
-  advance(x: Float64Array, v: number, slope: number, h: number): void;
-  out(x: Float64Array): number;
-}
+const IPDT = 0;
+const FOPDT = 1;
+const SOPDT = 2;
 
-/** A two-entry cache of per-length coefficients. */
-function cached(make: (h: number, c: Float64Array) => void, size: number) {
-  const keys = [NaN, NaN];
-  const vals = [new Float64Array(size), new Float64Array(size)];
-  let next = 0;
-  return (h: number): Float64Array => {
-    if (keys[0] === h) return vals[0];
-    if (keys[1] === h) return vals[1];
-    const slot = next;
-    next = 1 - next;
-    keys[slot] = h;
-    make(h, vals[slot]);
-    return vals[slot];
-  };
-}
-
-function lag(tau: number): Dynamics {
-  // x(h) = x0·E + v·(1 − E) + slope·τ·(a − 1 + E), E = e^(−a), a = h/τ.
-  const coef = cached((h, c) => {
-    const a = h / tau;
+function coefficients(kind: number, tau1: number, tau2: number, h: number, c: Float64Array): void {
+  if (kind === FOPDT) {
+    const a = h / tau1;
     const oneMinusE = -Math.expm1(-a);
     c[0] = 1 - oneMinusE;
     c[1] = oneMinusE;
-    c[2] = tau * expm1PlusX(a);
-  }, 3);
-  return {
-    size: 1,
-    advance(x, v, slope, h) {
-      const c = coef(h);
-      x[0] = x[0] * c[0] + v * c[1] + slope * c[2];
-    },
-    out: (x) => x[0],
-  };
-}
-
-function twoLags(tau1: number, tau2: number): Dynamics {
-  // Errors from the particular solutions x1p = v(t) − slope·τ1, x2p = v(t) − slope·(τ1 + τ2):
-  // e1(h) = e1(0)·E1, e2(h) = e2(0)·E2 + e1(0)·φ, φ = (e^(−h/τ1) − e^(−h/τ2))/(τ2·(1/τ2 − 1/τ1)),
-  // written as (h/τ2)·e^(−h/max τ)·(1 − e^(−|Δ|h))/(|Δ|h) so equal lags need no special case.
-  const a = 1 / tau1;
-  const b = 1 / tau2;
-  const coef = cached((h, c) => {
+    c[2] = tau1 * expm1PlusX(a);
+  } else if (kind === SOPDT) {
+    const a = 1 / tau1;
+    const b = 1 / tau2;
     c[0] = Math.exp(-a * h);
     c[1] = Math.exp(-b * h);
     c[2] = h * b * Math.exp(-Math.min(a, b) * h) * oneMinusExpOverX(Math.abs(b - a) * h);
-  }, 3);
-  return {
-    size: 2,
-    advance(x, v, slope, h) {
-      const c = coef(h);
-      const p1 = v - slope * tau1;
-      const p2 = v - slope * (tau1 + tau2);
-      const e1 = x[0] - p1;
-      const e2 = x[1] - p2;
-      const rise = slope * h;
-      x[0] = p1 + rise + e1 * c[0];
-      x[1] = p2 + rise + e2 * c[1] + e1 * c[2];
-    },
-    out: (x) => x[1],
-  };
-}
-
-const integrator: Dynamics = {
-  size: 1,
-  advance(x, v, slope, h) {
-    x[0] += v * h + 0.5 * slope * h * h;
-  },
-  out: (x) => x[0],
-};
-
-function dynamicsOf(kind: ProcessModel['kind'], lags: readonly number[]): Dynamics {
-  if (kind === 'ipdt') return integrator;
-  if (kind === 'fopdt') return lag(lags[0]);
-  return twoLags(lags[0], lags[1]);
+  }
 }
 
 /**
  * The unit-gain response r(t − θ) of a model's dynamics (gain 1) to the sampled input, at the
  * given times (ascending; default: the input's own sample times). The model response is
- * gain·r: the fit uses r directly because the output is linear in the gain.
+ * gain·r: the fit uses r directly because the output is linear in the gain. The exponentials
+ * depend on the step length only and are kept for the last full step and the last partial
+ * step (the fraction of a sample the dead time leaves): with a uniform sample time they are
+ * computed once per call.
  */
 export function unitResponse(
   kind: ProcessModel['kind'],
@@ -145,31 +90,60 @@ export function unitResponse(
   const t = input.time;
   const u = input.value;
   const n = t.length;
-  const dyn = dynamicsOf(kind, timeConstants);
-  const x = new Float64Array(dyn.size);
-  const tmp = new Float64Array(dyn.size);
+  const K = kind === 'ipdt' ? IPDT : kind === 'fopdt' ? FOPDT : SOPDT;
+  const tau1 = timeConstants[0] ?? 0;
+  const tau2 = timeConstants[1] ?? 0;
   const out = new Float64Array(at.length);
   const linear = input.between === 'linear';
-  const slopeAt = (k: number) => (linear && k + 1 < n ? (u[k + 1] - u[k]) / (t[k + 1] - t[k]) : 0);
-  let k = 0; // x is the state at t[k]
+  const full = new Float64Array(3);
+  const part = new Float64Array(3);
+  let hFull = NaN;
+  let hPart = NaN;
+  let x1 = 0;
+  let x2 = 0;
+  let k = 0; // (x1, x2) is the state at t[k]
   for (let i = 0; i < at.length; i++) {
-    const tau = at[i] - deadTime;
-    if (!(tau >= t[0])) {
+    const s = at[i] - deadTime;
+    if (!(s >= t[0])) {
       out[i] = 0;
       continue;
     }
-    while (k + 1 < n && t[k + 1] <= tau) {
-      dyn.advance(x, u[k], slopeAt(k), t[k + 1] - t[k]);
+    while (k + 1 < n && t[k + 1] <= s) {
+      const h = t[k + 1] - t[k];
+      if (h !== hFull) {
+        hFull = h;
+        coefficients(K, tau1, tau2, h, full);
+      }
+      const v = u[k];
+      const slope = linear ? (u[k + 1] - v) / h : 0;
+      if (K === FOPDT) x1 = x1 * full[0] + v * full[1] + slope * full[2];
+      else if (K === SOPDT) {
+        const p1 = v - slope * tau1;
+        const p2 = p1 - slope * tau2;
+        const e1 = x1 - p1;
+        const rise = slope * h;
+        x2 = p2 + rise + (x2 - p2) * full[1] + e1 * full[2];
+        x1 = p1 + rise + e1 * full[0];
+      } else x1 += (v + 0.5 * slope * h) * h;
       k++;
     }
-    const h = tau - t[k];
+    const h = s - t[k];
     if (h === 0) {
-      out[i] = dyn.out(x);
-    } else {
-      tmp.set(x);
-      dyn.advance(tmp, u[k], slopeAt(k), h);
-      out[i] = dyn.out(tmp);
+      out[i] = K === SOPDT ? x2 : x1;
+      continue;
     }
+    if (h !== hPart) {
+      hPart = h;
+      coefficients(K, tau1, tau2, h, part);
+    }
+    const v = u[k];
+    const slope = linear && k + 1 < n ? (u[k + 1] - v) / (t[k + 1] - t[k]) : 0;
+    if (K === FOPDT) out[i] = x1 * part[0] + v * part[1] + slope * part[2];
+    else if (K === SOPDT) {
+      const p1 = v - slope * tau1;
+      const p2 = p1 - slope * tau2;
+      out[i] = p2 + slope * h + (x2 - p2) * part[1] + (x1 - p1) * part[2];
+    } else out[i] = x1 + (v + 0.5 * slope * h) * h;
   }
   return out;
 }
