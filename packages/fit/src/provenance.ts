@@ -48,3 +48,7 @@ export function fitProvenance(log: Pick<TestLog, 'rows' | 'columns' | 'source'>,
 }
 
 const structuredCopy = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
+
+/** The caution shown beside every fit (editor, CLI, report). */
+export const FIT_CAUTION =
+  'A fitted model is only as good as the test behind it: check the residuals and the intervals, and repeat the test around other operating points before relying on it.';

@@ -227,3 +227,7 @@ const fmt = (x: number) => Number(x.toPrecision(4)).toString();
 
 /** The model checked (a caller may have built it from JSON), lags sorted largest first. */
 const checked = (m: ProcessModel): ProcessModel => processModel(m.kind, m.gain, m.timeConstants, m.deadTime);
+
+/** The caution shown beside every suggested setting (editor, CLI, report). */
+export const TUNE_CAUTION =
+  'Suggested settings are starting points computed from a model: commission them in small steps with output limits and interlocks in place, watch the loop, and follow the applicable safety standards and licensed practice.';
