@@ -107,7 +107,10 @@ describe('R47: least squares recovers K = 2, τ = 5, θ = 1.5 from exact samples
   const input = time.map(() => 1); // the unit step acts from t = 0: the log starts at the step
   for (const start of [fopdt(1, 1, 0.5), fopdt(4, 10, 3)]) {
     it(`from (K, τ, θ) = (${start.gain}, ${start.timeConstants[0]}, ${start.deadTime})`, () => {
-      const f = fitProcessModel({ time, input, output }, { model: 'fopdt', between: 'hold', start, operatingPoint: { input: 0, output: 0 } });
+      const f = fitProcessModel(
+        { time, input, output },
+        { model: 'fopdt', between: 'hold', start, operatingPoint: { input: 0, output: 0 } },
+      );
       near(f.model.gain, 2, 1e-6);
       near(f.model.timeConstants[0], 5, 1e-6);
       near(f.model.deadTime, 1.5, 1e-6);
@@ -124,7 +127,12 @@ describe('R48: integrating process with dead time', () => {
     const output = time.map((x) => (x > 2 ? 0.4 * (x - 2) : 0));
     const f = fitProcessModel(
       { time, input: time.map(() => 1), output },
-      { model: 'ipdt', between: 'hold', start: { kind: 'ipdt', gain: 1, timeConstants: [], deadTime: 0.5 }, operatingPoint: { input: 0, output: 0 } },
+      {
+        model: 'ipdt',
+        between: 'hold',
+        start: { kind: 'ipdt', gain: 1, timeConstants: [], deadTime: 0.5 },
+        operatingPoint: { input: 0, output: 0 },
+      },
     );
     near(f.model.gain, 0.4, 1e-6);
     near(f.model.deadTime, 2, 1e-6);

@@ -13,6 +13,11 @@ describe('sha256 = node:crypto sha256 of the UTF-8 bytes', () => {
     }
   });
   it('any text (property)', () => {
-    fc.assert(fc.property(fc.string({ unit: 'binary', maxLength: 300 }), (text) => sha256(text) === createHash('sha256').update(text, 'utf8').digest('hex')));
+    fc.assert(
+      fc.property(
+        fc.string({ unit: 'binary', maxLength: 300 }),
+        (text) => sha256(text) === createHash('sha256').update(text, 'utf8').digest('hex'),
+      ),
+    );
   });
 });

@@ -31,7 +31,9 @@ describe('parseTestLogCsv', () => {
   });
 
   it('reads semicolons with decimal commas, columns chosen by name in any order and case', () => {
-    const text = 'Temp;Zeit;Ventil\n' + rows(12, (i) => `${String(sample(i).y).replace('.', ',')};${String(sample(i).t).replace('.', ',')};${sample(i).u}`);
+    const text =
+      'Temp;Zeit;Ventil\n' +
+      rows(12, (i) => `${String(sample(i).y).replace('.', ',')};${String(sample(i).t).replace('.', ',')};${sample(i).u}`);
     const log = parseTestLogCsv(text, { time: 'zeit', input: 'VENTIL', output: 'Temp' });
     expect(log.source).toMatchObject({ separator: ';', decimal: ',' });
     expect(log.time[3]).toBe(1.5);
@@ -50,7 +52,10 @@ describe('parseTestLogCsv', () => {
   });
 
   it('skips comments, blank lines and a byte-order mark; handles CRLF and quoted cells', () => {
-    const text = '\ufeff# logged by the plant historian\r\n"time","u","y"\r\n\r\n' + rows(12, (i) => `"${sample(i).t}",${sample(i).u},${sample(i).y}`).replace(/\n/g, '\r\n') + '\r\n';
+    const text =
+      '\ufeff# logged by the plant historian\r\n"time","u","y"\r\n\r\n' +
+      rows(12, (i) => `"${sample(i).t}",${sample(i).u},${sample(i).y}`).replace(/\n/g, '\r\n') +
+      '\r\n';
     const log = parseTestLogCsv(text);
     expect(log.time.length).toBe(12);
     expect(log.rows?.[0]).toBe(4);
@@ -66,7 +71,9 @@ describe('parseTestLogCsv', () => {
     const log = parseTestLogCsv(clock);
     expect(log.source.timeFormat).toBe('clock');
     expect(log.time).toEqual(Array.from({ length: 12 }, (_, i) => 2 * i));
-    const iso = 'time;u;y\n' + rows(12, (i) => `2026-03-01T10:00:${String(i).padStart(2, '0')}.${(i * 37) % 1000}+01:00;${sample(i).u};${sample(i).y}`);
+    const iso =
+      'time;u;y\n' +
+      rows(12, (i) => `2026-03-01T10:00:${String(i).padStart(2, '0')}.${(i * 37) % 1000}+01:00;${sample(i).u};${sample(i).y}`);
     const log2 = parseTestLogCsv(iso);
     expect(log2.source.timeFormat).toBe('date-time');
     // Sub-second digits survive: the fractions are kept apart from the epoch seconds.
@@ -81,13 +88,21 @@ describe('parseTestLogCsv', () => {
     expect(e.row).toBe(8);
     expect(e.column).toBe('temp');
     expect(e.message).toContain("row 8, column 'temp': 'abc' is not a number");
-    const nan = thrown(() => parseTestLogCsv('time,valve,temp\n' + rows(12, (i) => (i === 2 ? `${sample(i).t},NaN,1` : good(i))))) as TestLogError;
+    const nan = thrown(() =>
+      parseTestLogCsv('time,valve,temp\n' + rows(12, (i) => (i === 2 ? `${sample(i).t},NaN,1` : good(i)))),
+    ) as TestLogError;
     expect(nan.message).toContain("row 4, column 'valve': 'NaN' is not a number (not a finite number)");
-    const empty = thrown(() => parseTestLogCsv('time,valve,temp\n' + rows(12, (i) => (i === 9 ? `${sample(i).t},,1` : good(i))))) as TestLogError;
+    const empty = thrown(() =>
+      parseTestLogCsv('time,valve,temp\n' + rows(12, (i) => (i === 9 ? `${sample(i).t},,1` : good(i)))),
+    ) as TestLogError;
     expect(empty.message).toContain("row 11, column 'valve': the cell is empty");
-    const short = thrown(() => parseTestLogCsv('time,valve,temp\n' + rows(12, (i) => (i === 9 ? `${sample(i).t},1` : good(i))))) as TestLogError;
+    const short = thrown(() =>
+      parseTestLogCsv('time,valve,temp\n' + rows(12, (i) => (i === 9 ? `${sample(i).t},1` : good(i)))),
+    ) as TestLogError;
     expect(short.message).toContain("row 11 has 2 field(s) with separator ','; column 'temp' (3) is missing");
-    const comma = thrown(() => parseTestLogCsv('time,valve,temp\n' + rows(12, (i) => (i === 1 ? `${sample(i).t},"1,5",1` : good(i))))) as TestLogError;
+    const comma = thrown(() =>
+      parseTestLogCsv('time,valve,temp\n' + rows(12, (i) => (i === 1 ? `${sample(i).t},"1,5",1` : good(i)))),
+    ) as TestLogError;
     expect(comma.message).toContain("(decimal comma? use decimal ',')");
   });
 
@@ -101,7 +116,9 @@ describe('parseTestLogCsv', () => {
 
   it('rejects unknown columns, repeated columns and bad options with the field named', () => {
     const text = 'time,valve,temp\n' + rows(12, (i) => `${sample(i).t},${sample(i).u},${sample(i).y}`);
-    expect(thrown(() => parseTestLogCsv(text, { output: 'flow' })).message).toContain("output column: no column named 'flow' (the header names 'time', 'valve', 'temp')");
+    expect(thrown(() => parseTestLogCsv(text, { output: 'flow' })).message).toContain(
+      "output column: no column named 'flow' (the header names 'time', 'valve', 'temp')",
+    );
     expect(thrown(() => parseTestLogCsv(text, { output: 7 })).message).toContain('position 7 is beyond the 3 column(s)');
     expect(thrown(() => parseTestLogCsv(text, { output: 2 })).message).toContain('three different columns');
     expect(thrown(() => parseTestLogCsv(text, { decimal: ',', separator: ',' })).details.field).toBe('decimal');

@@ -129,9 +129,10 @@ export function parseTestLogCsv(text: string, options: TestLogCsvOptions = {}): 
 
   const pick = (ref: ColumnRef | undefined, fallback: number, role: string): { index: number; name: string } => {
     const r = ref ?? fallback;
-    let index = -1;
+    let index: number;
     if (typeof r === 'number') {
-      if (!Number.isInteger(r) || r < 1) throw new InputError(`${role} column: ${r} is not a column position (1, 2, 3, …)`, { field: role });
+      if (!Number.isInteger(r) || r < 1)
+        throw new InputError(`${role} column: ${r} is not a column position (1, 2, 3, …)`, { field: role });
       index = r - 1;
     } else {
       const want = r.trim();
@@ -139,22 +140,33 @@ export function parseTestLogCsv(text: string, options: TestLogCsvOptions = {}): 
       if (index < 0) index = names.findIndex((n) => n.toLowerCase() === want.toLowerCase());
       if (index < 0 && /^\d+$/.test(want)) index = Number(want) - 1;
       if (index < 0) {
-        const have = header ? `the header names ${names.map((n) => `'${n}'`).join(', ')}` : 'the file has no header row; give a position 1, 2, 3, …';
+        const have = header
+          ? `the header names ${names.map((n) => `'${n}'`).join(', ')}`
+          : 'the file has no header row; give a position 1, 2, 3, …';
         throw new InputError(`${role} column: no column named '${want}' (${have})`, { field: role });
       }
     }
-    if (index >= width) throw new InputError(`${role} column: position ${index + 1} is beyond the ${width} column(s) of the file`, { field: role });
+    if (index >= width)
+      throw new InputError(`${role} column: position ${index + 1} is beyond the ${width} column(s) of the file`, { field: role });
     return { index, name: header && names[index] ? names[index] : `column ${index + 1}` };
   };
   const tCol = pick(options.time, 1, 'time');
   const uCol = pick(options.input, 2, 'input');
   const yCol = pick(options.output, 3, 'output');
   const distinct = new Set([tCol.index, uCol.index, yCol.index]);
-  if (distinct.size < 3) throw new InputError(`time, input and output must be three different columns (got ${tCol.name}, ${uCol.name}, ${yCol.name})`, { field: 'columns' });
+  if (distinct.size < 3)
+    throw new InputError(`time, input and output must be three different columns (got ${tCol.name}, ${uCol.name}, ${yCol.name})`, {
+      field: 'columns',
+    });
 
   const cell = (rec: { row: number; cells: string[] }, col: { index: number; name: string }) => {
     const c = rec.cells[col.index];
-    if (c === undefined) throw new TestLogError(`row ${rec.row} has ${rec.cells.length} field(s) with separator ${sepName(separator)}; column '${col.name}' (${col.index + 1}) is missing`, rec.row, col.name);
+    if (c === undefined)
+      throw new TestLogError(
+        `row ${rec.row} has ${rec.cells.length} field(s) with separator ${sepName(separator)}; column '${col.name}' (${col.index + 1}) is missing`,
+        rec.row,
+        col.name,
+      );
     if (c.trim() === '') throw new TestLogError(`row ${rec.row}, column '${col.name}': the cell is empty`, rec.row, col.name);
     return c;
   };
@@ -162,7 +174,11 @@ export function parseTestLogCsv(text: string, options: TestLogCsvOptions = {}): 
     const c = cell(rec, col);
     const v = parseNumber(c, decimal, pattern);
     if (v === null) {
-      const hint = /^\s*[+-]?(nan|inf|infinity)\s*$/i.test(c) ? ' (not a finite number)' : decimal === '.' && /\d,\d/.test(c) ? " (decimal comma? use decimal ',')" : '';
+      const hint = /^\s*[+-]?(nan|inf|infinity)\s*$/i.test(c)
+        ? ' (not a finite number)'
+        : decimal === '.' && /\d,\d/.test(c)
+          ? " (decimal comma? use decimal ',')"
+          : '';
       throw new TestLogError(`row ${rec.row}, column '${col.name}': '${c.trim()}' is not a number${hint}`, rec.row, col.name);
     }
     return v;
@@ -180,7 +196,11 @@ export function parseTestLogCsv(text: string, options: TestLogCsvOptions = {}): 
       const c = cell(rec, tCol);
       const p = parseTimeOfDay(c);
       if (!p || p.format !== timeFormat) {
-        throw new TestLogError(`row ${rec.row}, column '${tCol.name}': '${c.trim()}' is not a ${timeFormat === 'clock' ? 'clock time hh:mm:ss' : 'date-time YYYY-MM-DD hh:mm:ss'} like the first row's`, rec.row, tCol.name);
+        throw new TestLogError(
+          `row ${rec.row}, column '${tCol.name}': '${c.trim()}' is not a ${timeFormat === 'clock' ? 'clock time hh:mm:ss' : 'date-time YYYY-MM-DD hh:mm:ss'} like the first row's`,
+          rec.row,
+          tCol.name,
+        );
       }
       let whole = p.whole + day;
       if (timeFormat === 'clock' && whole + p.frac < prev - 12 * 3600) {

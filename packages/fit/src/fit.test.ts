@@ -168,7 +168,9 @@ describe('fit results', () => {
     const tf = parseTransferFunction(f.expression);
     const want = processTransfer(f.model);
     expect(Math.abs(tf.delay - f.model.deadTime)).toBeLessThanOrEqual(1e-5 * f.model.deadTime);
-    tf.rational.den.forEach((c, i) => expect(Math.abs(c - want.rational.den[i])).toBeLessThanOrEqual(1e-5 * Math.abs(want.rational.den[i]) + 1e-12));
+    tf.rational.den.forEach((c, i) =>
+      expect(Math.abs(c - want.rational.den[i])).toBeLessThanOrEqual(1e-5 * Math.abs(want.rational.den[i]) + 1e-12),
+    );
     expect(Math.abs(tf.rational.num[0] - want.rational.num[0])).toBeLessThanOrEqual(1e-5 * Math.abs(want.rational.num[0]));
   });
 

@@ -181,7 +181,12 @@ function space(kind: ProcessModelKind, d: Prepared, offset: boolean): Space {
     kind,
     lags: nl,
     offset,
-    toVector: (m, bias = 0) => [(m.gain * d.vs) / d.ys, ...m.timeConstants.map(Math.log), m.deadTime / d.span, ...(offset ? [bias / d.ys] : [])],
+    toVector: (m, bias = 0) => [
+      (m.gain * d.vs) / d.ys,
+      ...m.timeConstants.map(Math.log),
+      m.deadTime / d.span,
+      ...(offset ? [bias / d.ys] : []),
+    ],
     fromVector: (p) => ({
       model: processModel(kind, (p[0] * d.ys) / d.vs, p.slice(1, 1 + nl).map(Math.exp), p[1 + nl] * d.span),
       bias: offset ? p[2 + nl] * d.ys : 0,
@@ -300,7 +305,10 @@ function stepShape(d: Prepared): StepShape | null {
   return { stepTime, stepSize: final };
 }
 
-function classicalStart(kind: ProcessModelKind, d: Prepared): { model: ProcessModel; twoPoint: TwoPointEstimate | null; method: 'two-point' | 'asymptote' } | null {
+function classicalStart(
+  kind: ProcessModelKind,
+  d: Prepared,
+): { model: ProcessModel; twoPoint: TwoPointEstimate | null; method: 'two-point' | 'asymptote' } | null {
   const step = stepShape(d);
   if (!step) return null;
   try {
@@ -313,7 +321,13 @@ function classicalStart(kind: ProcessModelKind, d: Prepared): { model: ProcessMo
       return { model: processModel('ipdt', k, [], Math.min(theta, d.span)), twoPoint: null, method: 'asymptote' };
     }
     const tp = twoPointEstimate(d.t, d.w, { stepTime: step.stepTime, stepSize: step.stepSize });
-    const estimate: TwoPointEstimate = { ...tp, gain: (tp.gain * d.ys) / d.vs, stepSize: tp.stepSize * d.vs, finalChange: tp.finalChange * d.ys, stepTime: tp.stepTime + d.t0 };
+    const estimate: TwoPointEstimate = {
+      ...tp,
+      gain: (tp.gain * d.ys) / d.vs,
+      stepSize: tp.stepSize * d.vs,
+      finalChange: tp.finalChange * d.ys,
+      stepTime: tp.stepTime + d.t0,
+    };
     const tau = Math.max(tp.timeConstant, d.dtMin);
     const theta = Math.min(Math.max(0, tp.deadTime), d.span);
     const lags = kind === 'fopdt' ? [tau] : [tau, Math.max(tau / 4, d.dtMin)];
@@ -339,20 +353,29 @@ function lagOneCorrelation(r: readonly number[]): number {
 
 export function fitProcessModel(log: LogData, options: FitOptions): ProcessFit {
   const kind = options.model;
-  if (!PROCESS_MODEL_KINDS.includes(kind)) throw new InputError(`model: '${String(kind)}' is not one of ${PROCESS_MODEL_KINDS.join(', ')}`, { field: 'model' });
+  if (!PROCESS_MODEL_KINDS.includes(kind))
+    throw new InputError(`model: '${String(kind)}' is not one of ${PROCESS_MODEL_KINDS.join(', ')}`, { field: 'model' });
   const between = options.between ?? 'linear';
-  if (!INPUT_INTERPOLATIONS.includes(between)) throw new InputError(`input between samples: '${String(between)}' is not one of ${INPUT_INTERPOLATIONS.join(', ')}`, { field: 'between' });
+  if (!INPUT_INTERPOLATIONS.includes(between))
+    throw new InputError(`input between samples: '${String(between)}' is not one of ${INPUT_INTERPOLATIONS.join(', ')}`, {
+      field: 'between',
+    });
   const confidence = options.confidence ?? 0.95;
-  if (!(confidence > 0 && confidence < 1)) throw new InputError(`confidence must lie between 0 and 1, got ${confidence}`, { field: 'confidence' });
+  if (!(confidence > 0 && confidence < 1))
+    throw new InputError(`confidence must lie between 0 and 1, got ${confidence}`, { field: 'confidence' });
   const maxIterations = options.maxIterations ?? 400;
-  if (!Number.isInteger(maxIterations) || maxIterations < 1) throw new InputError(`maxIterations must be a whole number ≥ 1, got ${maxIterations}`, { field: 'maxIterations' });
+  if (!Number.isInteger(maxIterations) || maxIterations < 1)
+    throw new InputError(`maxIterations must be a whole number ≥ 1, got ${maxIterations}`, { field: 'maxIterations' });
   const given = options.operatingPoint;
   if (given && !(Number.isFinite(given.input) && Number.isFinite(given.output))) {
-    throw new InputError(`operating point: input and output must be finite numbers, got ${given.input} and ${given.output}`, { field: 'operatingPoint' });
+    throw new InputError(`operating point: input and output must be finite numbers, got ${given.input} and ${given.output}`, {
+      field: 'operatingPoint',
+    });
   }
   const columns = log.columns ?? { time: 'time', input: 'input', output: 'output' };
   checkTestLog({ rows: null, ...log, columns }, given);
-  if (options.start && options.start.kind !== kind) throw new InputError(`start: a ${options.start.kind} model cannot start a ${kind} fit`, { field: 'start' });
+  if (options.start && options.start.kind !== kind)
+    throw new InputError(`start: a ${options.start.kind} model cannot start a ${kind} fit`, { field: 'start' });
 
   const d = prepare(log, between, given);
   const s = space(kind, d, !given);
@@ -498,15 +521,23 @@ function fitWarnings(model: ProcessModel, ps: ParameterEstimate[], d: Prepared, 
   if (!converged) w.push('the least-squares search stopped at its iteration limit before it converged');
   const gain = ps[0];
   if (gain.interval && gain.interval[0] <= 0 && gain.interval[1] >= 0) {
-    w.push('the gain is not distinguishable from zero: the output change is within the noise, or the output does not respond to this input');
+    w.push(
+      'the gain is not distinguishable from zero: the output change is within the noise, or the output does not respond to this input',
+    );
   }
   if (ps.some((q) => q.interval === null)) {
-    w.push(nl === 2
-      ? 'some parameters are not determined by the data (for two nearly equal lags, or a lag the data cannot resolve): try a first-order model'
-      : 'some parameters are not determined by the data');
+    w.push(
+      nl === 2
+        ? 'some parameters are not determined by the data (for two nearly equal lags, or a lag the data cannot resolve): try a first-order model'
+        : 'some parameters are not determined by the data',
+    );
   }
   for (const q of ps) {
-    if (q.interval && (q.name === 'gain' || q.name.startsWith('timeConstant')) && (q.interval[1] - q.interval[0]) / 2 > 0.5 * Math.abs(q.value)) {
+    if (
+      q.interval &&
+      (q.name === 'gain' || q.name.startsWith('timeConstant')) &&
+      (q.interval[1] - q.interval[0]) / 2 > 0.5 * Math.abs(q.value)
+    ) {
       w.push(`${q.name} is poorly determined (its interval is wider than ±50 % of the value)`);
     }
   }
@@ -514,7 +545,8 @@ function fitWarnings(model: ProcessModel, ps: ParameterEstimate[], d: Prepared, 
   if (model.kind !== 'ipdt') {
     const step = d.moveIndex < d.t.length ? d.t[Math.min(d.moveIndex, d.t.length - 1)] : 0;
     const settle = model.deadTime + 3 * model.timeConstants.reduce((a, b) => a + b, 0);
-    if (d.span - step < settle) w.push('the log ends before the response has settled (less than θ + 3·Στ after the input moved): the gain is extrapolated');
+    if (d.span - step < settle)
+      w.push('the log ends before the response has settled (less than θ + 3·Στ after the input moved): the gain is extrapolated');
   }
   if (rho > 0.5) {
     w.push(

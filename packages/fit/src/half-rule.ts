@@ -43,15 +43,22 @@ export function halfRule(process: HalfRuleProcess, target: ProcessModelKind, opt
   const inverse = process.inverseResponse ?? [];
   const theta0 = process.deadTime ?? 0;
   const h = opts.sampleTime ?? 0;
-  if (!Number.isFinite(gain) || gain === 0) throw new InputError(`half rule: gain must be finite and not 0, got ${gain}`, { field: 'gain' });
+  if (!Number.isFinite(gain) || gain === 0)
+    throw new InputError(`half rule: gain must be finite and not 0, got ${gain}`, { field: 'gain' });
   lags.forEach((t) => {
-    if (!(t > 0) || !Number.isFinite(t)) throw new InputError(`half rule: every lag must be a finite time constant > 0 s, got ${t}`, { field: 'lags' });
+    if (!(t > 0) || !Number.isFinite(t))
+      throw new InputError(`half rule: every lag must be a finite time constant > 0 s, got ${t}`, { field: 'lags' });
   });
   inverse.forEach((t) => {
-    if (!(t > 0) || !Number.isFinite(t)) throw new InputError(`half rule: every inverse-response time constant must be finite and > 0 s, got ${t}`, { field: 'inverseResponse' });
+    if (!(t > 0) || !Number.isFinite(t))
+      throw new InputError(`half rule: every inverse-response time constant must be finite and > 0 s, got ${t}`, {
+        field: 'inverseResponse',
+      });
   });
-  if (!(theta0 >= 0) || !Number.isFinite(theta0)) throw new InputError(`half rule: dead time must be finite and ≥ 0 s, got ${theta0}`, { field: 'deadTime' });
-  if (!(h >= 0) || !Number.isFinite(h)) throw new InputError(`half rule: sample time must be finite and ≥ 0 s, got ${h}`, { field: 'sampleTime' });
+  if (!(theta0 >= 0) || !Number.isFinite(theta0))
+    throw new InputError(`half rule: dead time must be finite and ≥ 0 s, got ${theta0}`, { field: 'deadTime' });
+  if (!(h >= 0) || !Number.isFinite(h))
+    throw new InputError(`half rule: sample time must be finite and ≥ 0 s, got ${h}`, { field: 'sampleTime' });
   const integrating = process.integrating === true;
   if (integrating !== (target === 'ipdt')) {
     throw new InputError(
@@ -62,7 +69,8 @@ export function halfRule(process: HalfRuleProcess, target: ProcessModelKind, opt
     );
   }
   const keep = target === 'fopdt' ? 1 : target === 'sopdt' ? 2 : 0;
-  if (lags.length < keep) throw new InputError(`half rule: a ${target} model keeps ${keep} lags, but the process has ${lags.length}`, { field: 'model' });
+  if (lags.length < keep)
+    throw new InputError(`half rule: a ${target} model keeps ${keep} lags, but the process has ${lags.length}`, { field: 'model' });
 
   const shares = lags.map((t) => ({ timeConstant: t, toLag: 0, toDeadTime: 0 }));
   const kept = lags.slice(0, keep);
@@ -112,7 +120,10 @@ export function processFactors(tf: TransferFunction): HalfRuleProcess {
   if (num.length > den.length) throw new InputError('half rule: the process is improper (more zeros than poles)', { field: 'process' });
   const realOf = (what: string) => (r: { re: number; im: number }) => {
     if (Math.abs(r.im) > 1e-3 * cabs(r)) {
-      throw new InputError(`half rule: the process has a complex ${what} pair ${r.re.toPrecision(4)} ± ${Math.abs(r.im).toPrecision(4)}j; the rule needs real lags`, { field: 'process' });
+      throw new InputError(
+        `half rule: the process has a complex ${what} pair ${r.re.toPrecision(4)} ± ${Math.abs(r.im).toPrecision(4)}j; the rule needs real lags`,
+        { field: 'process' },
+      );
     }
     return r.re;
   };
@@ -122,7 +133,8 @@ export function processFactors(tf: TransferFunction): HalfRuleProcess {
   if (origin > 1) throw new InputError(`half rule: the process has ${origin} integrators; at most one is supported`, { field: 'process' });
   if (zeros.some((z) => z === 0)) throw new InputError('half rule: the process has a zero at s = 0 (no static gain)', { field: 'process' });
   const unstable = poles.find((p) => p > 0);
-  if (unstable !== undefined) throw new InputError(`half rule: the process has an unstable pole at s = ${unstable.toPrecision(4)}`, { field: 'process' });
+  if (unstable !== undefined)
+    throw new InputError(`half rule: the process has an unstable pole at s = ${unstable.toPrecision(4)}`, { field: 'process' });
   const lead = zeros.find((z) => z < 0);
   if (lead !== undefined) {
     throw new InputError(

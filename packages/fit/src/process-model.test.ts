@@ -26,7 +26,9 @@ describe('process models', () => {
       const tf = parseTransferFunction(modelExpression(m));
       const want = processTransfer(m);
       expect(tf.delay).toBeCloseTo(m.deadTime, 12);
-      tf.rational.den.forEach((c, i) => expect(Math.abs(c - want.rational.den[i])).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(want.rational.den[i]))));
+      tf.rational.den.forEach((c, i) =>
+        expect(Math.abs(c - want.rational.den[i])).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(want.rational.den[i]))),
+      );
       expect(tf.rational.num[0] / want.rational.num[0]).toBeCloseTo(1, 12);
     }
   });

@@ -28,19 +28,23 @@ export function processModel(kind: ProcessModelKind, gain: number, timeConstants
   if (!PROCESS_MODEL_KINDS.includes(kind)) {
     throw new InputError(`model: '${String(kind)}' is not one of ${PROCESS_MODEL_KINDS.join(', ')}`, { field: 'model' });
   }
-  if (!Number.isFinite(gain) || gain === 0) throw new InputError(`gain must be a finite number other than 0, got ${gain}`, { field: 'gain' });
+  if (!Number.isFinite(gain) || gain === 0)
+    throw new InputError(`gain must be a finite number other than 0, got ${gain}`, { field: 'gain' });
   if (timeConstants.length !== LAGS[kind]) {
     throw new InputError(`a ${kind} model has ${LAGS[kind]} time constant(s), got ${timeConstants.length}`, { field: 'timeConstants' });
   }
   timeConstants.forEach((t, i) => {
-    if (!Number.isFinite(t) || t <= 0) throw new InputError(`time constant ${i + 1} must be a finite number > 0 s, got ${t}`, { field: 'timeConstants' });
+    if (!Number.isFinite(t) || t <= 0)
+      throw new InputError(`time constant ${i + 1} must be a finite number > 0 s, got ${t}`, { field: 'timeConstants' });
   });
-  if (!Number.isFinite(deadTime) || deadTime < 0) throw new InputError(`dead time must be a finite number ≥ 0 s, got ${deadTime}`, { field: 'deadTime' });
+  if (!Number.isFinite(deadTime) || deadTime < 0)
+    throw new InputError(`dead time must be a finite number ≥ 0 s, got ${deadTime}`, { field: 'deadTime' });
   return { kind, gain, timeConstants: [...timeConstants].sort((a, b) => b - a), deadTime };
 }
 
 export const fopdt = (gain: number, tau: number, deadTime: number): ProcessModel => processModel('fopdt', gain, [tau], deadTime);
-export const sopdt = (gain: number, tau1: number, tau2: number, deadTime: number): ProcessModel => processModel('sopdt', gain, [tau1, tau2], deadTime);
+export const sopdt = (gain: number, tau1: number, tau2: number, deadTime: number): ProcessModel =>
+  processModel('sopdt', gain, [tau1, tau2], deadTime);
 export const ipdt = (gain: number, deadTime: number): ProcessModel => processModel('ipdt', gain, [], deadTime);
 
 /** The model as an lti transfer function (dead time kept exact). */

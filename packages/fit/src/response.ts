@@ -170,10 +170,14 @@ export function modelStepResponse(m: ProcessModel, at: readonly number[]): numbe
 export function checkInput(input: SampledInput): void {
   const { time, value } = input;
   if (time.length === 0 || time.length !== value.length) {
-    throw new InputError(`input: ${time.length} times and ${value.length} values; they must be equal in number and not empty`, { field: 'input' });
+    throw new InputError(`input: ${time.length} times and ${value.length} values; they must be equal in number and not empty`, {
+      field: 'input',
+    });
   }
   if (!INPUT_INTERPOLATIONS.includes(input.between)) {
-    throw new InputError(`input between samples: '${String(input.between)}' is not one of ${INPUT_INTERPOLATIONS.join(', ')}`, { field: 'between' });
+    throw new InputError(`input between samples: '${String(input.between)}' is not one of ${INPUT_INTERPOLATIONS.join(', ')}`, {
+      field: 'between',
+    });
   }
   for (let i = 0; i < time.length; i++) {
     if (!Number.isFinite(time[i]) || !Number.isFinite(value[i])) {

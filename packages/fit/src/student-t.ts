@@ -11,8 +11,8 @@ import { InputError } from '@loopwright/lti';
 /** ln Γ(x) for x > 0 (Lanczos, g = 7, 9 terms; relative error ~1e-15). */
 function lnGamma(x: number): number {
   const c = [
-    0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059,
-    12.507343278686905, -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7,
+    0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059, 12.507343278686905,
+    -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7,
   ];
   if (x < 0.5) return Math.log(Math.PI / Math.sin(Math.PI * x)) - lnGamma(1 - x);
   const z = x - 1;
@@ -71,7 +71,8 @@ export function studentTCdf(t: number, nu: number): number {
 /** The t with P(T ≤ t) = p, for 0 < p < 1. */
 export function studentTQuantile(p: number, nu: number): number {
   if (!(p > 0 && p < 1)) throw new InputError(`probability must lie in (0, 1), got ${p}`, { field: 'confidence' });
-  if (!(nu > 0) || !Number.isFinite(nu)) throw new InputError(`degrees of freedom must be a finite number > 0, got ${nu}`, { field: 'degreesOfFreedom' });
+  if (!(nu > 0) || !Number.isFinite(nu))
+    throw new InputError(`degrees of freedom must be a finite number > 0, got ${nu}`, { field: 'degreesOfFreedom' });
   if (p === 0.5) return 0;
   if (p < 0.5) return -studentTQuantile(1 - p, nu);
   let lo = 0;

@@ -29,7 +29,9 @@ describe('checkTestLog', () => {
   });
 
   it('names the sample (or file row) with NaN or a non-increasing time', () => {
-    expect(message(() => testLogFromArrays({ time, input, output: output.map((v, i) => (i === 7 ? NaN : v)) }))).toBe("sample 8, column 'output': NaN is not a finite number");
+    expect(message(() => testLogFromArrays({ time, input, output: output.map((v, i) => (i === 7 ? NaN : v)) }))).toBe(
+      "sample 8, column 'output': NaN is not a finite number",
+    );
     const rows = time.map((_, i) => i + 2);
     const e = message(() =>
       checkTestLog({ time: time.map((t, i) => (i === 4 ? 3 : t)), input, output, rows, columns: { time: 't', input: 'u', output: 'y' } }),
@@ -47,9 +49,19 @@ describe('checkTestLog', () => {
   });
 
   it('with a known operating point, a log that starts at the step is accepted', () => {
-    expect(() => checkTestLog({ time, input: time.map(() => 1), output, rows: null, columns: { time: 't', input: 'u', output: 'y' } }, { input: 0, output: 0 })).not.toThrow();
-    expect(message(() => checkTestLog({ time, input: time.map(() => 0), output, rows: null, columns: { time: 't', input: 'u', output: 'y' } }, { input: 0, output: 0 }))).toContain(
-      'every sample is 0, the operating point',
-    );
+    expect(() =>
+      checkTestLog(
+        { time, input: time.map(() => 1), output, rows: null, columns: { time: 't', input: 'u', output: 'y' } },
+        { input: 0, output: 0 },
+      ),
+    ).not.toThrow();
+    expect(
+      message(() =>
+        checkTestLog(
+          { time, input: time.map(() => 0), output, rows: null, columns: { time: 't', input: 'u', output: 'y' } },
+          { input: 0, output: 0 },
+        ),
+      ),
+    ).toContain('every sample is 0, the operating point');
   });
 });

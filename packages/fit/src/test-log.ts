@@ -51,11 +51,18 @@ const where = (log: Pick<TestLog, 'rows'>, i: number) => (log.rows ? `row ${log.
  * output that moves. With a known initial steady state `from` (a log that starts at the step),
  * input and output need only differ from it somewhere.
  */
-export function checkTestLog(log: Pick<TestLog, 'time' | 'input' | 'output' | 'rows' | 'columns'>, from?: { input: number; output: number }): void {
+export function checkTestLog(
+  log: Pick<TestLog, 'time' | 'input' | 'output' | 'rows' | 'columns'>,
+  from?: { input: number; output: number },
+): void {
   const { time, input, output, columns } = log;
   const n = time.length;
   if (input.length !== n || output.length !== n) {
-    throw new TestLogError(`the test log's columns differ in length: time ${n}, input ${input.length}, output ${output.length}`, null, null);
+    throw new TestLogError(
+      `the test log's columns differ in length: time ${n}, input ${input.length}, output ${output.length}`,
+      null,
+      null,
+    );
   }
   if (n < MIN_SAMPLES) {
     throw new TestLogError(`the test log has ${n} sample${n === 1 ? '' : 's'}; a fit needs at least ${MIN_SAMPLES}`, null, null);
@@ -67,7 +74,8 @@ export function checkTestLog(log: Pick<TestLog, 'time' | 'input' | 'output' | 'r
   ];
   for (let i = 0; i < n; i++) {
     for (const [s, name] of series) {
-      if (!Number.isFinite(s[i])) throw new TestLogError(`${where(log, i)}, column '${name}': ${s[i]} is not a finite number`, log.rows?.[i] ?? null, name);
+      if (!Number.isFinite(s[i]))
+        throw new TestLogError(`${where(log, i)}, column '${name}': ${s[i]} is not a finite number`, log.rows?.[i] ?? null, name);
     }
     if (i > 0 && !(time[i] > time[i - 1])) {
       throw new TestLogError(
@@ -81,10 +89,18 @@ export function checkTestLog(log: Pick<TestLog, 'time' | 'input' | 'output' | 'r
   const y0 = from ? from.output : output[0];
   const against = from ? ', the operating point' : '';
   if (input.every((v) => v === u0)) {
-    throw new TestLogError(`column '${columns.input}' (input): the input never changes (every sample is ${u0}${against}), so there is no test to fit`, null, columns.input);
+    throw new TestLogError(
+      `column '${columns.input}' (input): the input never changes (every sample is ${u0}${against}), so there is no test to fit`,
+      null,
+      columns.input,
+    );
   }
   if (output.every((v) => v === y0)) {
-    throw new TestLogError(`column '${columns.output}' (output): the output never moves (every sample is ${y0}${against}), so there is no response to fit`, null, columns.output);
+    throw new TestLogError(
+      `column '${columns.output}' (output): the output never moves (every sample is ${y0}${against}), so there is no response to fit`,
+      null,
+      columns.output,
+    );
   }
 }
 

@@ -30,7 +30,13 @@ export interface TwoPointEstimate {
  * The first time after `from` at which y reaches `level` (y rising) or falls to it (y falling),
  * by linear interpolation between samples; null if it never does.
  */
-export function crossingTime(time: ArrayLike<number>, y: ArrayLike<number>, level: number, rising: boolean, from = -Infinity): number | null {
+export function crossingTime(
+  time: ArrayLike<number>,
+  y: ArrayLike<number>,
+  level: number,
+  rising: boolean,
+  from = -Infinity,
+): number | null {
   for (let i = 1; i < time.length; i++) {
     if (time[i] < from) continue;
     const a = y[i - 1];
@@ -59,7 +65,8 @@ export function twoPointEstimate(
   if (!(levels[0] > 0 && levels[0] < levels[1] && levels[1] < 1)) {
     throw new InputError(`two-point levels must satisfy 0 < first < second < 1, got ${levels[0]} and ${levels[1]}`, { field: 'levels' });
   }
-  if (!(step.stepSize !== 0 && Number.isFinite(step.stepSize))) throw new InputError(`step size must be a finite number other than 0, got ${step.stepSize}`, { field: 'stepSize' });
+  if (!(step.stepSize !== 0 && Number.isFinite(step.stepSize)))
+    throw new InputError(`step size must be a finite number other than 0, got ${step.stepSize}`, { field: 'stepSize' });
   let final = step.finalChange;
   if (final === undefined) {
     const m = Math.max(3, Math.ceil(0.05 * n));
@@ -67,11 +74,13 @@ export function twoPointEstimate(
     for (let i = n - m; i < n; i++) s += y[i];
     final = s / m;
   }
-  if (!(final !== 0 && Number.isFinite(final))) throw new InputError('two-point method: the output has no final change to measure', { field: 'output' });
+  if (!(final !== 0 && Number.isFinite(final)))
+    throw new InputError('two-point method: the output has no final change to measure', { field: 'output' });
   const rising = final > 0;
   const t1 = crossingTime(time, y, levels[0] * final, rising, step.stepTime);
   const t2 = crossingTime(time, y, levels[1] * final, rising, step.stepTime);
-  if (t1 === null || t2 === null) throw new InputError(`two-point method: the output never reaches ${100 * levels[1]} % of its final change`, { field: 'output' });
+  if (t1 === null || t2 === null)
+    throw new InputError(`two-point method: the output never reaches ${100 * levels[1]} % of its final change`, { field: 'output' });
   // With general levels a < b: τ = (t_b − t_a)/(ln(1/(1−b)) − ln(1/(1−a))); the textbook 1.5 is
   // 1/(1 − 1/3) for the exact levels, kept as 1.5 for the classical 0.283/0.632.
   const classical = levels[0] === TWO_POINT_LEVELS[0] && levels[1] === TWO_POINT_LEVELS[1];
@@ -99,7 +108,11 @@ export function twoPointEstimate(
  * driven by a step Δu at t0: slope = k′·Δu and the line meets y = 0 at t0 + θ (a lag τ behind
  * the integrator shows up as τ of extra dead time).
  */
-export function rampAsymptote(time: ArrayLike<number>, y: ArrayLike<number>, from: number): { slope: number; intercept: number; zeroCrossing: number } {
+export function rampAsymptote(
+  time: ArrayLike<number>,
+  y: ArrayLike<number>,
+  from: number,
+): { slope: number; intercept: number; zeroCrossing: number } {
   let n = 0;
   let st = 0;
   let sy = 0;

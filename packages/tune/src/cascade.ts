@@ -16,8 +16,10 @@ export interface SeparationCheck {
 }
 
 export function separationCheck(inner: number, outer: number, minimum = MIN_SEPARATION): SeparationCheck {
-  if (!(inner > 0 && Number.isFinite(inner))) throw new InputError(`inner-loop frequency must be a finite number > 0 rad/s, got ${inner}`, { field: 'inner' });
-  if (!(outer > 0 && Number.isFinite(outer))) throw new InputError(`outer-loop frequency must be a finite number > 0 rad/s, got ${outer}`, { field: 'outer' });
+  if (!(inner > 0 && Number.isFinite(inner)))
+    throw new InputError(`inner-loop frequency must be a finite number > 0 rad/s, got ${inner}`, { field: 'inner' });
+  if (!(outer > 0 && Number.isFinite(outer)))
+    throw new InputError(`outer-loop frequency must be a finite number > 0 rad/s, got ${outer}`, { field: 'outer' });
   const ratio = inner / outer;
   const ok = ratio >= minimum;
   const r = Number(ratio.toPrecision(3));

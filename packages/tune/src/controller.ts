@@ -21,8 +21,10 @@ export const DEFAULT_DERIVATIVE_FILTER = 10;
 
 export function controllerSetting(kind: ControllerKind, kp: number, ti: number | null, td = 0): ControllerSetting {
   if (!Number.isFinite(kp)) throw new InputError(`controller gain kp must be a finite number, got ${kp}`, { field: 'kp' });
-  if (ti !== null && !(ti > 0 && Number.isFinite(ti))) throw new InputError(`integral time ti must be a finite number > 0 s, got ${ti}`, { field: 'ti' });
-  if (!(td >= 0 && Number.isFinite(td))) throw new InputError(`derivative time td must be a finite number ≥ 0 s, got ${td}`, { field: 'td' });
+  if (ti !== null && !(ti > 0 && Number.isFinite(ti)))
+    throw new InputError(`integral time ti must be a finite number > 0 s, got ${ti}`, { field: 'ti' });
+  if (!(td >= 0 && Number.isFinite(td)))
+    throw new InputError(`derivative time td must be a finite number ≥ 0 s, got ${td}`, { field: 'td' });
   return { kind, kp, ti, td };
 }
 

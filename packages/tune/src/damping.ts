@@ -1,4 +1,17 @@
-import { type Complex, InputError, type MarginFigures, cdiv, cx, loopMargins, marginFigures, poly, polyRoots, rational, relativeDegree, transfer } from '@loopwright/lti';
+import {
+  type Complex,
+  InputError,
+  type MarginFigures,
+  cdiv,
+  cx,
+  loopMargins,
+  marginFigures,
+  poly,
+  polyRoots,
+  rational,
+  relativeDegree,
+  transfer,
+} from '@loopwright/lti';
 
 /**
  * The gain for a target damping on an exact root locus. For the characteristic equation

@@ -55,7 +55,7 @@ function plantGrid(plant: TransferFunction): Grid {
   const T = plant.delay;
   const cap = T > 0 ? Math.PI / (24 * T) : Infinity;
   const limit = T > 0 ? 80 / T : 0;
-  for (let w = lo; w < hi; ) {
+  for (let w = lo; w < hi;) {
     ws.push(w);
     w += w < limit ? Math.min(w * (ratio - 1), cap) : w * (ratio - 1);
   }
@@ -231,17 +231,22 @@ function bestAtTd(g: Grid, td: number, n: number, f: Forbidden, ratio: number, k
 
 export function robustTune(plant: TransferFunction, opts: RobustTuneOptions = {}): TuneSuggestion {
   const kind = opts.controller ?? 'pi';
-  if (kind !== 'pi' && kind !== 'pid') throw new InputError(`controller: the Ms-constrained tuner gives 'pi' or 'pid', not '${String(kind)}'`, { field: 'controller' });
+  if (kind !== 'pi' && kind !== 'pid')
+    throw new InputError(`controller: the Ms-constrained tuner gives 'pi' or 'pid', not '${String(kind)}'`, { field: 'controller' });
   const msMax = opts.msMax ?? 1.4;
-  if (!(msMax > 1 && Number.isFinite(msMax))) throw new InputError(`Ms target must be a finite number > 1, got ${msMax}`, { field: 'msMax' });
+  if (!(msMax > 1 && Number.isFinite(msMax)))
+    throw new InputError(`Ms target must be a finite number > 1, got ${msMax}`, { field: 'msMax' });
   const pm = opts.pmMinDeg;
-  if (pm !== undefined && !(pm > 0 && pm < 90)) throw new InputError(`phase-margin floor must lie between 0° and 90°, got ${pm}`, { field: 'pmMinDeg' });
+  if (pm !== undefined && !(pm > 0 && pm < 90))
+    throw new InputError(`phase-margin floor must lie between 0° and 90°, got ${pm}`, { field: 'pmMinDeg' });
   const gm = opts.gmMin;
-  if (gm !== undefined && !(gm > 1 && Number.isFinite(gm))) throw new InputError(`gain-margin floor must be a finite number > 1, got ${gm}`, { field: 'gmMin' });
+  if (gm !== undefined && !(gm > 1 && Number.isFinite(gm)))
+    throw new InputError(`gain-margin floor must be a finite number > 1, got ${gm}`, { field: 'gmMin' });
   const n = opts.derivativeFilter ?? DEFAULT_DERIVATIVE_FILTER;
   if (!(n > 0 && Number.isFinite(n))) throw new InputError(`derivative filter n must be a finite number > 0, got ${n}`, { field: 'n' });
   const ratio = opts.tiOverTdMin ?? 4;
-  if (!(ratio > 0 && Number.isFinite(ratio))) throw new InputError(`ti/td floor must be a finite number > 0, got ${ratio}`, { field: 'tiOverTdMin' });
+  if (!(ratio > 0 && Number.isFinite(ratio)))
+    throw new InputError(`ti/td floor must be a finite number > 0, got ${ratio}`, { field: 'tiOverTdMin' });
   if (relativeDegree(plant.rational) < 0) throw new InputError('the plant is improper (more zeros than poles)', { field: 'plant' });
   const den = poly.trim(plant.rational.den);
   let q = 0;
@@ -293,7 +298,10 @@ export function robustTune(plant: TransferFunction, opts: RobustTuneOptions = {}
     ({ kp, ki, td } = best);
   }
   if (!(ki > 0) || !Number.isFinite(ki)) {
-    throw new InputError(`no ${kind.toUpperCase()} setting meets Ms ≤ ${msMax}${gm ? `, GM ≥ ${gm}` : ''}${pm ? `, PM ≥ ${pm}°` : ''} for this plant`, { field: 'msMax' });
+    throw new InputError(
+      `no ${kind.toUpperCase()} setting meets Ms ≤ ${msMax}${gm ? `, GM ≥ ${gm}` : ''}${pm ? `, PM ≥ ${pm}°` : ''} for this plant`,
+      { field: 'msMax' },
+    );
   }
 
   // Check on the exact frequency response (lti loopMargins); shrink ki if the grid missed a peak.
@@ -322,7 +330,10 @@ export function robustTune(plant: TransferFunction, opts: RobustTuneOptions = {}
       }
       hi = k;
     }
-    if (Number.isNaN(lo)) throw new InputError(`the Ms-constrained search found no setting that the exact frequency response confirms (Ms ≤ ${msMax})`, { field: 'msMax' });
+    if (Number.isNaN(lo))
+      throw new InputError(`the Ms-constrained search found no setting that the exact frequency response confirms (Ms ≤ ${msMax})`, {
+        field: 'msMax',
+      });
     while (hi - lo > 1e-6 * ki) {
       const mid = 0.5 * (lo + hi);
       if (meets(mid)) lo = mid;
@@ -338,5 +349,14 @@ export function robustTune(plant: TransferFunction, opts: RobustTuneOptions = {}
   if (gm !== undefined) settings.gmMin = gm;
   if (pm !== undefined) settings.pmMinDeg = pm;
   if (kind === 'pid') settings.tiOverTdMin = ratio;
-  return { rule: 'ms', controller, derivativeFilter: n, model: null, reduction: null, settings, predicted: predictLoop(controller, plant, n), notes };
+  return {
+    rule: 'ms',
+    controller,
+    derivativeFilter: n,
+    model: null,
+    reduction: null,
+    settings,
+    predicted: predictLoop(controller, plant, n),
+    notes,
+  };
 }

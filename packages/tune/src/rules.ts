@@ -1,6 +1,13 @@
 import { InputError, type TransferFunction } from '@loopwright/lti';
 import { type HalfRuleResult, type ProcessModel, processModel, processTransfer, reduceModel } from '@loopwright/fit';
-import { type ControllerKind, type ControllerSetting, CONTROLLER_KINDS, DEFAULT_DERIVATIVE_FILTER, controllerSetting, seriesToIdeal } from './controller.ts';
+import {
+  type ControllerKind,
+  type ControllerSetting,
+  CONTROLLER_KINDS,
+  DEFAULT_DERIVATIVE_FILTER,
+  controllerSetting,
+  seriesToIdeal,
+} from './controller.ts';
 import { type Prediction, predictLoop } from './predict.ts';
 
 /**
@@ -76,8 +83,12 @@ const positive = (x: number | undefined, what: string, field: string) => {
 
 function kindOf(opts: RuleOptions, allowed: readonly ControllerKind[], rule: string): ControllerKind {
   const k = opts.controller ?? 'pi';
-  if (!CONTROLLER_KINDS.includes(k)) throw new InputError(`controller: '${String(k)}' is not one of ${CONTROLLER_KINDS.join(', ')}`, { field: 'controller' });
-  if (!allowed.includes(k)) throw new InputError(`the ${rule} rule gives ${allowed.join(' and ').toUpperCase()} settings, not ${k.toUpperCase()}`, { field: 'controller' });
+  if (!CONTROLLER_KINDS.includes(k))
+    throw new InputError(`controller: '${String(k)}' is not one of ${CONTROLLER_KINDS.join(', ')}`, { field: 'controller' });
+  if (!allowed.includes(k))
+    throw new InputError(`the ${rule} rule gives ${allowed.join(' and ').toUpperCase()} settings, not ${k.toUpperCase()}`, {
+      field: 'controller',
+    });
   return k;
 }
 
@@ -107,7 +118,10 @@ function firstOrder(model: ProcessModel, rule: string, notes: string[]): { m: Pr
 
 function needDeadTime(m: ProcessModel, rule: string) {
   if (!(m.deadTime > 0)) {
-    throw new InputError(`the ${rule} rule needs a dead time θ > 0 (its gains grow without bound as θ → 0); give a small θ, e.g. half the sample time`, { field: 'deadTime' });
+    throw new InputError(
+      `the ${rule} rule needs a dead time θ > 0 (its gains grow without bound as θ → 0); give a small θ, e.g. half the sample time`,
+      { field: 'deadTime' },
+    );
   }
 }
 
@@ -148,7 +162,8 @@ export function lambdaRule(model: ProcessModel, opts: RuleOptions = {}): TuneSug
   if (kind === 'pi' && m.kind === 'sopdt') ({ m, reduction } = firstOrder(m, 'lambda PI', notes));
   const theta = m.deadTime;
   const lambda = positive(opts.lambda, 'λ', 'lambda') ?? (m.kind === 'ipdt' ? 3 * theta : m.timeConstants[0]);
-  if (!(lambda > 0)) throw new InputError('lambda: the model has no dead time, so the default λ = 3θ is 0: choose λ > 0', { field: 'lambda' });
+  if (!(lambda > 0))
+    throw new InputError('lambda: the model has no dead time, so the default λ = 3θ is 0: choose λ > 0', { field: 'lambda' });
   const k = m.gain;
   let c: ControllerSetting;
   if (m.kind === 'ipdt') {
@@ -157,9 +172,10 @@ export function lambdaRule(model: ProcessModel, opts: RuleOptions = {}): TuneSug
     c = controllerSetting('pi', ti / (k * (lambda + theta) ** 2), ti, 0);
   } else if (m.kind === 'fopdt') {
     const [tau] = m.timeConstants;
-    c = kind === 'pi'
-      ? controllerSetting('pi', tau / (k * (lambda + theta)), tau, 0)
-      : controllerSetting('pid', (2 * tau + theta) / (k * (2 * lambda + theta)), tau + theta / 2, (tau * theta) / (2 * tau + theta));
+    c =
+      kind === 'pi'
+        ? controllerSetting('pi', tau / (k * (lambda + theta)), tau, 0)
+        : controllerSetting('pid', (2 * tau + theta) / (k * (2 * lambda + theta)), tau + theta / 2, (tau * theta) / (2 * tau + theta));
   } else {
     const [tau1, tau2] = m.timeConstants;
     c = seriesToIdeal(tau1 / (k * (lambda + theta)), tau1, tau2);
@@ -181,9 +197,15 @@ export function amigoRule(model: ProcessModel, opts: RuleOptions = {}): TuneSugg
   } else {
     const K = m.gain;
     const T = m.timeConstants[0];
-    c = kind === 'pi'
-      ? controllerSetting('pi', (0.15 + (0.35 - (L * T) / (L + T) ** 2) * (T / L)) / K, 0.35 * L + (13 * L * T * T) / (T * T + 12 * L * T + 7 * L * L), 0)
-      : controllerSetting('pid', (0.2 + 0.45 * (T / L)) / K, ((0.4 * L + 0.8 * T) * L) / (L + 0.1 * T), (0.5 * L * T) / (0.3 * L + T));
+    c =
+      kind === 'pi'
+        ? controllerSetting(
+            'pi',
+            (0.15 + (0.35 - (L * T) / (L + T) ** 2) * (T / L)) / K,
+            0.35 * L + (13 * L * T * T) / (T * T + 12 * L * T + 7 * L * L),
+            0,
+          )
+        : controllerSetting('pid', (0.2 + 0.45 * (T / L)) / K, ((0.4 * L + 0.8 * T) * L) / (L + 0.1 * T), (0.5 * L * T) / (0.3 * L + T));
   }
   return finish('amigo', c, m, reduction, {}, opts, notes);
 }
@@ -196,7 +218,11 @@ export function zieglerNicholsStepRule(model: ProcessModel, opts: RuleOptions = 
   const L = m.deadTime;
   const a = m.kind === 'ipdt' ? m.gain * L : (m.gain * L) / m.timeConstants[0];
   const c =
-    kind === 'p' ? controllerSetting('p', 1 / a, null, 0) : kind === 'pi' ? controllerSetting('pi', 0.9 / a, 3 * L, 0) : controllerSetting('pid', 1.2 / a, 2 * L, 0.5 * L);
+    kind === 'p'
+      ? controllerSetting('p', 1 / a, null, 0)
+      : kind === 'pi'
+        ? controllerSetting('pi', 0.9 / a, 3 * L, 0)
+        : controllerSetting('pid', 1.2 / a, 2 * L, 0.5 * L);
   notes.push('Ziegler–Nichols settings aim at quarter-amplitude decay: expect small margins (check Ms)');
   return finish('zn-step', c, m, reduction, { a }, opts, notes);
 }
@@ -210,7 +236,8 @@ export interface UltimatePoint {
 export function zieglerNicholsUltimateRule(point: UltimatePoint, opts: RuleOptions = {}): TuneSuggestion {
   const kind = kindOf(opts, ['p', 'pi', 'pid'], 'Ziegler–Nichols ultimate-gain');
   const { ku, pu } = point;
-  if (!Number.isFinite(ku) || ku === 0) throw new InputError(`ultimate gain Ku must be a finite number other than 0, got ${ku}`, { field: 'ku' });
+  if (!Number.isFinite(ku) || ku === 0)
+    throw new InputError(`ultimate gain Ku must be a finite number other than 0, got ${ku}`, { field: 'ku' });
   positive(pu, 'ultimate period Pu', 'pu');
   const c =
     kind === 'p'

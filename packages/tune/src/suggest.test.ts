@@ -9,7 +9,9 @@ const inputError = (text: string) => expect.objectContaining({ inputError: true,
 describe('suggestTuning, the apps’ entry point', () => {
   it('reads FOPDT-, SOPDT- and IPDT-shaped loops exactly, others by the half rule', () => {
     expect(processModelOf(parseTransferFunction('2*exp(-1.5*s)/(5*s+1)')).model).toEqual(fopdt(2, 5, 1.5));
-    expect(processModelOf(parseTransferFunction('0.8*exp(-20*s)/((90*s+1)*(12*s+1))')).model.timeConstants.map((t) => +t.toFixed(9))).toEqual([90, 12]);
+    expect(
+      processModelOf(parseTransferFunction('0.8*exp(-20*s)/((90*s+1)*(12*s+1))')).model.timeConstants.map((t) => +t.toFixed(9)),
+    ).toEqual([90, 12]);
     expect(processModelOf(parseTransferFunction('0.4*exp(-2*s)/s')).model).toMatchObject({ kind: 'ipdt', deadTime: 2 });
     const three = processModelOf(tfFromCoefficients([1], poly.mul(poly.mul([1, 4], [1, 2]), [1, 1])));
     expect(three.reduction).not.toBeNull();

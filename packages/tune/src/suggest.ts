@@ -36,7 +36,10 @@ export interface TuneRequest extends RuleOptions {
 }
 
 /** A loop transfer function as a process model: exact when it has that shape, else by the half rule. */
-export function processModelOf(plant: TransferFunction, controller: ControllerKind = 'pi'): { model: ProcessModel; reduction: HalfRuleResult | null } {
+export function processModelOf(
+  plant: TransferFunction,
+  controller: ControllerKind = 'pi',
+): { model: ProcessModel; reduction: HalfRuleResult | null } {
   const f = processFactors(plant);
   const lags = [...f.lags].sort((a, b) => b - a);
   const inverse = f.inverseResponse ?? [];
@@ -52,13 +55,21 @@ export function processModelOf(plant: TransferFunction, controller: ControllerKi
 }
 
 export function suggestTuning(req: TuneRequest): TuneSuggestion {
-  if (!TUNE_RULES.includes(req.rule)) throw new InputError(`rule: '${String(req.rule)}' is not one of ${TUNE_RULES.join(', ')}`, { field: 'rule' });
+  if (!TUNE_RULES.includes(req.rule))
+    throw new InputError(`rule: '${String(req.rule)}' is not one of ${TUNE_RULES.join(', ')}`, { field: 'rule' });
   if (req.rule === 'ms') {
     const plant = req.plant ?? (req.model ? modelPlant(req.model) : null);
     if (!plant) throw new InputError('the ms rule needs the loop (a plant transfer function or a model)', { field: 'plant' });
     const c = req.controller ?? 'pi';
     if (c !== 'pi' && c !== 'pid') throw new InputError(`controller: the ms rule gives 'pi' or 'pid', not '${c}'`, { field: 'controller' });
-    const s = robustTune(plant, { controller: c, msMax: req.msMax, pmMinDeg: req.pmMinDeg, gmMin: req.gmMin, derivativeFilter: req.derivativeFilter, tiOverTdMin: req.tiOverTdMin });
+    const s = robustTune(plant, {
+      controller: c,
+      msMax: req.msMax,
+      pmMinDeg: req.pmMinDeg,
+      gmMin: req.gmMin,
+      derivativeFilter: req.derivativeFilter,
+      tiOverTdMin: req.tiOverTdMin,
+    });
     return { ...s, model: req.model ?? null };
   }
   if (req.rule === 'zn-ultimate') {
@@ -66,7 +77,10 @@ export function suggestTuning(req: TuneRequest): TuneSuggestion {
     if (!point) {
       if (!req.plant) throw new InputError('the zn-ultimate rule needs Ku and Pu, or the loop to read them from', { field: 'ultimate' });
       const u = ultimatePoint(req.plant);
-      if (!u) throw new InputError('the loop has no phase crossover, so no ultimate gain: the zn-ultimate rule does not apply', { field: 'plant' });
+      if (!u)
+        throw new InputError('the loop has no phase crossover, so no ultimate gain: the zn-ultimate rule does not apply', {
+          field: 'plant',
+        });
       point = { ku: u.ku, pu: u.pu };
     }
     return zieglerNicholsUltimateRule(point, req);
@@ -96,7 +110,13 @@ export function tuneSummary(s: TuneSuggestion) {
     model: s.model,
     settings: { ...s.settings },
     predicted: s.predicted
-      ? { ms: s.predicted.ms, gainMargin: s.predicted.gainMargin, phaseMarginDeg: s.predicted.phaseMarginDeg, delayMargin: s.predicted.delayMargin, closedLoopStable: s.predicted.closedLoopStable }
+      ? {
+          ms: s.predicted.ms,
+          gainMargin: s.predicted.gainMargin,
+          phaseMarginDeg: s.predicted.phaseMarginDeg,
+          delayMargin: s.predicted.delayMargin,
+          closedLoopStable: s.predicted.closedLoopStable,
+        }
       : null,
     notes: [...s.notes],
   };
