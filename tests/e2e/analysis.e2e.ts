@@ -10,6 +10,7 @@ import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Download, Page } from 'playwright-core';
 import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph';
+import { roundSignificant } from '@loopwright/lti';
 import { openEditor, screenshot, type EditorSession } from './harness.ts';
 
 const ROOT = resolve(import.meta.dirname, '..', '..');
@@ -191,7 +192,9 @@ describe('analysis views', () => {
     await drag.release();
     await expect.poll(async () => (await state(page)).sweep!.live).toBeNull();
     const doc = await page.evaluate(() => (window as unknown as { __loopwright: { getDiagram(): Diagram } }).__loopwright.getDiagram());
-    expect(doc.parameters.find((p) => p.name === 'Kp_pos')!.value).toBeCloseTo(v1, 9);
+    // Written rounded to 4 significant digits (issue 11 item 7), the rounding the shared lti routine does.
+    expect(doc.parameters.find((p) => p.name === 'Kp_pos')!.value).toBe(roundSignificant(v1, 4));
+    expect(String(doc.parameters.find((p) => p.name === 'Kp_pos')!.value).replace(/^0\.0*|[.-]|e.*$/g, '').length).toBeLessThanOrEqual(4);
     const after = await page.evaluate(() => (window as unknown as { __loopwright: { historySize(): { past: number } } }).__loopwright.historySize().past);
     expect(after).toBe(before + 1);
   });
@@ -226,6 +229,9 @@ describe('analysis views', () => {
       expect(nearest / Math.hypot(target.re, target.im), `pole near the clicked point ${target.re} ${target.im}`).toBeLessThan(0.01);
       // The gain found is the branch's own gain there (within the trace's resolution).
       expect(Math.abs(s1.sweep!.value - moving.k[i]) / moving.k[i]).toBeLessThan(0.05);
+      // …written with 4 significant digits, not 58.17581689930665 (issue 11 item 7).
+      expect(s1.sweep!.value).toBe(roundSignificant(s1.sweep!.value, 4));
+      expect(s1.sweep!.live).toBeNull();
     }
   });
 

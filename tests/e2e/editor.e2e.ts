@@ -321,7 +321,7 @@ describe('editor', () => {
     expect(await getDiagram(page)).toEqual(built);
 
     // Select the feedback wire on the canvas and cut it from Details.
-    await page.getByRole('button', { name: 'Show whole diagram' }).click();
+    await page.getByRole('button', { name: 'Fit to view' }).click();
     await page.waitForTimeout(300);
     const onWire = await page.locator('[data-testid="rf__edge-w6"] .react-flow__edge-interaction').evaluate((el) => {
       const path = el as SVGPathElement;
@@ -367,7 +367,7 @@ describe('editor', () => {
     expect(await getDiagram(page)).toEqual(built);
 
     // Shift+drag draws a selection box: everything inside it is selected.
-    await page.getByRole('button', { name: 'Show whole diagram' }).click();
+    await page.getByRole('button', { name: 'Fit to view' }).click();
     await page.waitForTimeout(300);
     const paneBox = (await pane.boundingBox())!;
     await page.keyboard.down('Shift');
@@ -381,7 +381,7 @@ describe('editor', () => {
 
     // Moving a block: by mouse drag (snapped to the grid), then by arrow key; one step each.
     const probeAt = () => getDiagram(page).then((d) => d.blocks.find((b) => b.id === 'probe1')!.position);
-    await page.getByRole('button', { name: 'Show whole diagram' }).click();
+    await page.getByRole('button', { name: 'Fit to view' }).click();
     await page.waitForTimeout(300);
     const p0 = await probeAt();
     const card = (await page.locator('[data-block="probe1"]').boundingBox())!;

@@ -11,6 +11,7 @@ import { AboutDialog, SAFETY_TEXT } from './panels/AboutDialog.tsx';
 import { installShortcuts } from './panels/shortcuts.ts';
 import { useUiStore } from './store/ui-store.ts';
 import { openFile } from './files/file-actions.ts';
+import { KeptAutosaveNotice } from './files/KeptAutosaveNotice.tsx';
 
 function NoticeBar() {
   const notice = useUiStore((s) => s.notice);
@@ -112,6 +113,7 @@ export function App() {
         <main className="canvas" aria-label="Diagram">
           <Canvas />
           <NoticeBar />
+          <KeptAutosaveNotice />
         </main>
         <aside className="side" aria-label="Inspector">
           <DetailsPanel />

@@ -17,3 +17,4 @@ export * from './routh.ts';
 export * from './cancel.ts';
 export * from './exact-response.ts';
 export * from './metrics.ts';
+export * from './number-format.ts';

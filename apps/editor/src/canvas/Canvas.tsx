@@ -1,7 +1,9 @@
 /**
  * The diagram canvas. React Flow draws and measures; the store owns the document. Nodes are
  * kept in local state (React Flow needs its measurements on them) and rebuilt from the
- * document; drags move nodes locally and commit ONE document edit on drop.
+ * document; drags move nodes locally and commit ONE document edit on drop. A part dropped on
+ * a wire, or an unwired block dragged onto one, goes into that wire; a wire drawn onto an
+ * input that already has one asks before replacing it; feedback wires get separate lanes.
  */
 import { useCallback, useEffect, useMemo, useRef, useState, type DragEvent } from 'react';
 import {
@@ -11,6 +13,7 @@ import {
   Controls,
   MarkerType,
   applyNodeChanges,
+  useNodesInitialized,
   useReactFlow,
   type Connection,
   type EdgeChange,
@@ -24,12 +27,46 @@ import { useUiStore } from '../store/ui-store.ts';
 import { identifiersIn } from '../store/rename.ts';
 import { nodeTypes, type BlockFlowNode } from './nodes.tsx';
 import { edgeTypes, type WireFlowEdge } from './WireEdge.tsx';
-import { fitReadable } from './fit.ts';
+import { fitAll, MIN_ZOOM } from './fit.ts';
+import { feedbackLanes, type Box } from './lanes.ts';
+import { wireAt } from './wire-geometry.ts';
+import { ReplaceWireDialog } from './ReplaceWireDialog.tsx';
+import { occupyingWire, spliceMode } from '../store/wiring.ts';
 // The sweep the analysis views vary (E2's sweep bar), so the canvas highlights the same one.
 import { useSweepChoice } from '../views/SweepBar.tsx';
 
 export const GRID = 10;
 export const PART_MIME = 'application/x-loopwright-part';
+/** A second drag type naming the kind, readable while dragging (the data itself is not). */
+export const partKindMime = (kind: string) => `application/x-loopwright-kind-${kind}`;
+/** How near (screen px) to a wire a dropped block must land to go into it. */
+const DROP_REACH_PX = 14;
+/** Rough size of a new block before it is measured, to centre it under the pointer. */
+const NEW_SIZE: Record<string, { width: number; height: number }> = { 'summing-junction': { width: 44, height: 44 } };
+const DEFAULT_SIZE = { width: 150, height: 52 };
+
+/** Screen point of a mouse or touch event (a drag ends with the touch in changedTouches). */
+function pointOf(e: MouseEvent | TouchEvent): { x: number; y: number } {
+  if ('clientX' in e) return { x: e.clientX, y: e.clientY };
+  const t = e.touches[0] ?? e.changedTouches[0];
+  return t ? { x: t.clientX, y: t.clientY } : { x: Number.NaN, y: Number.NaN };
+}
+
+function kindFromDrag(types: readonly string[]): BlockKind | null {
+  const prefix = partKindMime('');
+  const t = types.find((x) => x.startsWith(prefix));
+  return t ? (t.slice(prefix.length) as BlockKind) : null;
+}
+
+/** Whether a new block of this kind can go into a wire (it has an input). */
+function kindSplices(kind: BlockKind | null): boolean {
+  if (!kind) return false;
+  try {
+    return blockSpec(kind).inputs(Object.fromEntries(blockSpec(kind).params.map((p) => [p.name, p.default]))).length > 0;
+  } catch {
+    return false;
+  }
+}
 
 /** What the sweep varies: a named parameter, or a gain block's k (chosen in the analysis sweep bar). */
 export interface SweptTarget {
@@ -75,7 +112,7 @@ function buildNodes(d: Diagram, selected: Set<string>, faults: Map<string, Findi
   });
 }
 
-function buildEdges(d: Diagram, selected: Set<string>, faults: Map<string, Finding>): WireFlowEdge[] {
+function buildEdges(d: Diagram, selected: Set<string>, faults: Map<string, Finding>, lanes: Map<string, number>, dropWire: string | null): WireFlowEdge[] {
   const fan = new Map<string, number>();
   for (const w of d.wires) {
     const k = `${w.from.block}:${w.from.port}`;
@@ -100,9 +137,21 @@ function buildEdges(d: Diagram, selected: Set<string>, faults: Map<string, Findi
         cut: cut ? { id: cut.id, label: cut.label ?? cut.id } : undefined,
         fault: f?.severity ?? null,
         faultText: f?.message,
+        lane: lanes.get(w.id),
+        dropTarget: dropWire === w.id,
       },
     };
   });
+}
+
+/** Block boxes in flow units (measured size once React Flow has it). */
+function boxesOf(nodes: BlockFlowNode[]): Map<string, Box> {
+  const m = new Map<string, Box>();
+  for (const n of nodes) {
+    const size = n.measured?.width ? { width: n.measured.width, height: n.measured.height ?? DEFAULT_SIZE.height } : (NEW_SIZE[n.data.block.kind] ?? DEFAULT_SIZE);
+    m.set(n.id, { x: n.position.x, y: n.position.y, ...size });
+  }
+  return m;
 }
 
 export function Canvas() {
@@ -124,14 +173,41 @@ export function Canvas() {
   useEffect(() => {
     setNodes((prev) => buildNodes(diagram, selBlocks, faults.blocks, prev, target));
   }, [diagram, selBlocks, faults, target]);
-  const edges = useMemo(() => buildEdges(diagram, selWires, faults.wires), [diagram, selWires, faults]);
+  const lanes = useMemo(() => feedbackLanes(diagram, boxesOf(nodes)), [diagram, nodes]);
+  const [dropWire, setDropWire] = useState<string | null>(null);
+  const edges = useMemo(() => buildEdges(diagram, selWires, faults.wires, lanes, dropWire), [diagram, selWires, faults, lanes, dropWire]);
 
-  // Fit the view when asked (load, new, open, demo) and once the first measurements exist.
+  // Fit the whole drawing when asked (start, new, open, demo, Tidy, the Fit button), once the
+  // blocks are measured and the wires drawn (their lanes extend the drawing).
   const box = useRef<HTMLDivElement>(null);
+  const initialized = useNodesInitialized();
+  const pendingFit = useRef(true);
   useEffect(() => {
-    const t = setTimeout(() => fitReadable(flow, box.current), 60);
-    return () => clearTimeout(t);
-  }, [fitRequest, flow]);
+    pendingFit.current = true;
+  }, [fitRequest]);
+  useEffect(() => {
+    if (!pendingFit.current || (!initialized && nodes.length > 0)) return;
+    let frame = requestAnimationFrame(() => {
+      frame = requestAnimationFrame(() => {
+        pendingFit.current = false;
+        fitAll(flow, box.current);
+      });
+    });
+    return () => cancelAnimationFrame(frame);
+  }, [fitRequest, initialized, edges, flow, nodes.length]);
+
+  /** The wire under a screen point that a block may go into (none attached to `except`). */
+  const wireUnder = useCallback(
+    (clientX: number, clientY: number, except?: string) => {
+      const p = flow.screenToFlowPosition({ x: clientX, y: clientY });
+      if (!Number.isFinite(clientX) || !Number.isFinite(clientY)) return null;
+      const reach = DROP_REACH_PX / flow.getZoom();
+      const wires = useDiagramStore.getState().diagram.wires;
+      const attached = except ? new Set(wires.filter((w) => w.from.block === except || w.to.block === except).map((w) => w.id)) : null;
+      return wireAt(p, reach, attached ? (id) => attached.has(id) : undefined);
+    },
+    [flow],
+  );
 
   const onNodesChange = useCallback((changes: NodeChange<BlockFlowNode>[]) => {
     setNodes((nds) => applyNodeChanges(changes, nds));
@@ -165,35 +241,83 @@ export function Canvas() {
     st.setSelection({ wires: st.diagram.wires.map((w) => w.id).filter((id) => set.has(id)) });
   }, []);
 
-  const onNodeDragStop = useCallback((_e: unknown, _n: BlockFlowNode, dragged: BlockFlowNode[]) => {
-    const positions: Record<string, { x: number; y: number }> = {};
-    for (const n of dragged) positions[n.id] = n.position;
-    useDiagramStore.getState().moveBlocks(positions);
+  /** A single unwired block that could go into a wire (the others only move). */
+  const insertable = useCallback((dragged: BlockFlowNode[]) => {
+    if (dragged.length !== 1) return null;
+    const d = useDiagramStore.getState().diagram;
+    const id = dragged[0].id;
+    if (d.wires.some((w) => w.from.block === id || w.to.block === id)) return null;
+    return spliceMode(d, id) ? id : null;
   }, []);
+
+  const onNodeDrag = useCallback(
+    (e: MouseEvent | TouchEvent, _n: BlockFlowNode, dragged: BlockFlowNode[]) => {
+      const id = insertable(dragged);
+      const p = pointOf(e);
+      const w = id ? wireUnder(p.x, p.y, id) : null;
+      setDropWire((old) => (old === w ? old : w));
+    },
+    [insertable, wireUnder],
+  );
+
+  const onNodeDragStop = useCallback(
+    (e: MouseEvent | TouchEvent, _n: BlockFlowNode, dragged: BlockFlowNode[]) => {
+      setDropWire(null);
+      const id = insertable(dragged);
+      const p = pointOf(e);
+      const w = id ? wireUnder(p.x, p.y, id) : null;
+      if (id && w) {
+        useDiagramStore.getState().moveBlockOntoWire(id, dragged[0].position, w);
+        return;
+      }
+      const positions: Record<string, { x: number; y: number }> = {};
+      for (const n of dragged) positions[n.id] = n.position;
+      useDiagramStore.getState().moveBlocks(positions);
+    },
+    [insertable, wireUnder],
+  );
 
   const onConnect = useCallback((c: Connection) => {
     if (!c.source || !c.target || !c.sourceHandle || !c.targetHandle) return;
-    useDiagramStore.getState().connect({ block: c.source, port: c.sourceHandle }, { block: c.target, port: c.targetHandle });
+    const from = { block: c.source, port: c.sourceHandle };
+    const to = { block: c.target, port: c.targetHandle };
+    const st = useDiagramStore.getState();
+    if (st.diagram.wires.some((w) => w.from.block === from.block && w.from.port === from.port && w.to.block === to.block && w.to.port === to.port)) return;
+    // An input takes one wire: never replace the one it has without asking.
+    const existing = occupyingWire(st.diagram, from, to);
+    if (existing) useUiStore.getState().setPendingConnection({ from, to, existing: existing.id });
+    else st.connect(from, to);
   }, []);
 
   const isValidConnection: IsValidConnection = useCallback((c) => c.source !== c.target, []);
 
-  const onDragOver = useCallback((e: DragEvent) => {
-    if (e.dataTransfer.types.includes(PART_MIME)) {
+  const onDragOver = useCallback(
+    (e: DragEvent) => {
+      if (!e.dataTransfer.types.includes(PART_MIME)) return;
       e.preventDefault();
       e.dataTransfer.dropEffect = 'copy';
-    }
-  }, []);
+      const w = kindSplices(kindFromDrag(e.dataTransfer.types)) ? wireUnder(e.clientX, e.clientY) : null;
+      setDropWire((old) => (old === w ? old : w));
+    },
+    [wireUnder],
+  );
+  const onDragLeave = useCallback(() => setDropWire(null), []);
   const onDrop = useCallback(
     (e: DragEvent) => {
-      const kind = e.dataTransfer.getData(PART_MIME);
+      setDropWire(null);
+      const kind = e.dataTransfer.getData(PART_MIME) as BlockKind;
       if (!kind) return;
       e.preventDefault();
       e.stopPropagation();
+      // The new block lands centred under the pointer, on the grid.
       const p = flow.screenToFlowPosition({ x: e.clientX, y: e.clientY });
-      useDiagramStore.getState().addBlock(kind as BlockKind, { x: Math.round(p.x / GRID) * GRID, y: Math.round(p.y / GRID) * GRID });
+      const size = NEW_SIZE[kind] ?? DEFAULT_SIZE;
+      const at = { x: Math.round((p.x - size.width / 2) / GRID) * GRID, y: Math.round((p.y - size.height / 2) / GRID) * GRID };
+      const w = kindSplices(kind) ? wireUnder(e.clientX, e.clientY) : null;
+      if (w) useDiagramStore.getState().addBlockOnWire(kind, at, w);
+      else useDiagramStore.getState().addBlock(kind, at);
     },
-    [flow],
+    [flow, wireUnder],
   );
 
   return (
@@ -205,11 +329,13 @@ export function Canvas() {
       edgeTypes={edgeTypes}
       onNodesChange={onNodesChange}
       onEdgesChange={onEdgesChange}
+      onNodeDrag={onNodeDrag}
       onNodeDragStop={onNodeDragStop}
-      onSelectionDragStop={(e, dragged) => onNodeDragStop(e, dragged[0], dragged)}
+      onSelectionDragStop={(e, dragged) => onNodeDragStop(e.nativeEvent, dragged[0], dragged)}
       onConnect={onConnect}
       isValidConnection={isValidConnection}
       onDragOver={onDragOver}
+      onDragLeave={onDragLeave}
       onDrop={onDrop}
       snapToGrid
       snapGrid={[GRID, GRID]}
@@ -217,15 +343,15 @@ export function Canvas() {
       selectionKeyCode="Shift"
       multiSelectionKeyCode={['Control', 'Meta']}
       colorMode={theme}
-      minZoom={0.2}
+      minZoom={MIN_ZOOM}
       maxZoom={3}
-      onInit={() => setTimeout(() => fitReadable(flow, box.current), 60)}
       proOptions={{ hideAttribution: true }}
       aria-label="Diagram canvas"
     >
       <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1.2} color="var(--grid)" />
-      <Controls showInteractive={false} position="top-right" aria-label="Zoom controls" />
+      <Controls showInteractive={false} showFitView={false} position="top-right" aria-label="Zoom controls" />
     </ReactFlow>
+    <ReplaceWireDialog />
     </div>
   );
 }

@@ -2,19 +2,22 @@
  * A wire: an orthogonal path with an arrowhead at the input, a dot where an output fans out
  * to several inputs, and a cut drawn across it (an opened wire: a gap with two bars and its label).
  */
-import { memo } from 'react';
+import { memo, useEffect } from 'react';
 import { BaseEdge, EdgeLabelRenderer, Position, useInternalNode, type Edge, type EdgeProps, type InternalNode } from '@xyflow/react';
+import { CLEAR, STUB } from './lanes.ts';
+import { registerWirePath, unregisterWirePath } from './wire-geometry.ts';
 
 export interface WireData extends Record<string, unknown> {
   fanOut: boolean;
   cut?: { id: string; label: string };
   fault: 'error' | 'warning' | 'info' | null;
   faultText?: string;
+  /** The lane of a feedback wire (lanes.ts), so nested loops return on separate lines. */
+  lane?: number;
+  /** A block dragged over the canvas would be put into this wire. */
+  dropTarget?: boolean;
 }
 export type WireFlowEdge = Edge<WireData, 'wire'>;
-
-const STUB = 18;
-const CLEAR = 26;
 
 function box(n: InternalNode | undefined) {
   if (!n) return null;
@@ -24,18 +27,20 @@ function box(n: InternalNode | undefined) {
 
 /**
  * A feedback wire (its input lies left of its output) is routed around the blocks: out to the
- * right, down below (or up above) both blocks, back left, and into the input — the textbook
- * return path, instead of cutting through the cards between.
+ * right, down below (or up above) both blocks along its lane, back left, and into the input —
+ * the textbook return path, instead of cutting through the cards between. Without an assigned
+ * lane it runs just clear of its two blocks.
  */
 export function feedbackPath(
   sx: number, sy: number, tx: number, ty: number, targetPosition: Position,
   s: { top: number; bottom: number } | null, t: { top: number; bottom: number } | null,
+  assigned?: number,
 ): [string, number, number] | null {
-  if (tx >= sx + 4) return null;
+  if (tx >= sx + 4 && assigned === undefined) return null;
   const above = targetPosition === Position.Top;
-  const lane = above
-    ? Math.min(s?.top ?? sy, t?.top ?? ty) - CLEAR
-    : Math.max(s?.bottom ?? sy, t?.bottom ?? ty) + CLEAR;
+  const lane =
+    assigned ??
+    (above ? Math.min(s?.top ?? sy, t?.top ?? ty) - CLEAR : Math.max(s?.bottom ?? sy, t?.bottom ?? ty) + CLEAR);
   const x1 = sx + STUB;
   if (targetPosition === Position.Bottom || targetPosition === Position.Top) {
     return [`M${sx},${sy} H${x1} V${lane} H${tx} V${ty}`, (x1 + tx) / 2, lane];
@@ -57,9 +62,13 @@ export const WireEdge = memo(function WireEdge(props: EdgeProps<WireFlowEdge>) {
   const sNode = useInternalNode(source);
   const tNode = useInternalNode(target);
   const [path, labelX, labelY] =
-    feedbackPath(sourceX, sourceY, targetX, targetY, targetPosition, box(sNode), box(tNode)) ??
+    feedbackPath(sourceX, sourceY, targetX, targetY, targetPosition, box(sNode), box(tNode), data?.lane) ??
     forwardPath(sourceX, sourceY, targetX, targetY, targetPosition);
-  const cls = ['lw-wire', selected ? 'is-selected' : '', data?.fault ? `fault-${data.fault}` : '', data?.cut ? 'is-cut' : ''].filter(Boolean).join(' ');
+  useEffect(() => registerWirePath(id, path), [id, path]);
+  useEffect(() => () => unregisterWirePath(id), [id]);
+  const cls = ['lw-wire', selected ? 'is-selected' : '', data?.fault ? `fault-${data.fault}` : '', data?.cut ? 'is-cut' : '', data?.dropTarget ? 'is-drop-target' : '']
+    .filter(Boolean)
+    .join(' ');
   return (
     <>
       <BaseEdge id={id} path={path} markerEnd={markerEnd} className={cls} interactionWidth={14} />

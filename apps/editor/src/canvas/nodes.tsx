@@ -8,6 +8,7 @@ import { Handle, Position, useUpdateNodeInternals, type Node, type NodeProps } f
 import type { Block } from '../store/graph-bridge.ts';
 import { Formula } from './formula.tsx';
 import { cardContent } from './block-formula.ts';
+import { inputSide } from './ports.ts';
 
 export interface BlockNodeData extends Record<string, unknown> {
   block: Block;
@@ -48,7 +49,10 @@ export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<B
         />
       ))}
       <div className="lw-card-head">
-        <span className="lw-card-title">{block.label ?? data.title}</span>
+        {/* Sized by the card, never the other way round: a long label is cut short, in full on hover. */}
+        <span className="lw-card-title" title={block.label ?? data.title}>
+          {block.label ?? data.title}
+        </span>
         <span className="lw-card-id">{block.id}</span>
       </div>
       {content.formula !== undefined && (
@@ -91,11 +95,10 @@ const RateIcon = () => (
   </svg>
 );
 
-/** Where input i of a summing junction enters: left, bottom, top, then further left ports. */
+const SIDE = { left: Position.Left, bottom: Position.Bottom, top: Position.Top } as const;
+/** Where input i of a summing junction enters (see ports.ts). */
 export function sumPortSide(i: number): Position {
-  if (i === 1) return Position.Bottom;
-  if (i === 2) return Position.Top;
-  return Position.Left;
+  return SIDE[inputSide('summing-junction', i)];
 }
 
 export const SumNode = memo(function SumNode({ id, data, selected }: NodeProps<BlockFlowNode>) {
@@ -128,7 +131,9 @@ export const SumNode = memo(function SumNode({ id, data, selected }: NodeProps<B
         );
       })}
       <Handle id="out" type="source" position={Position.Right} aria-label={`output ${portLabel(block, 'out')}`} data-testid={`port-${block.id}-out`} />
-      <span className="lw-sum-id">{block.label ?? block.id}</span>
+      <span className="lw-sum-id" title={block.label ?? block.id}>
+        {block.label ?? block.id}
+      </span>
     </div>
   );
 });

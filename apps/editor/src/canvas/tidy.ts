@@ -6,6 +6,9 @@
 import type { ELK } from 'elkjs/lib/elk.bundled.js';
 import type { Diagram } from '../store/graph-bridge.ts';
 import { blockSpec } from '../store/graph-bridge.ts';
+import { inputSide } from './ports.ts';
+
+const ELK_SIDE = { left: 'WEST', bottom: 'SOUTH', top: 'NORTH' } as const;
 
 // elkjs is about 480 kB gzipped: loaded on the first Tidy, not with the editor.
 let elkReady: Promise<ELK> | null = null;
@@ -53,7 +56,7 @@ export async function tidyPositions(
     const ports = [
       ...inputs.map((p, i) => ({
         id: `${b.id}:${p}`,
-        layoutOptions: { 'elk.port.side': b.kind === 'summing-junction' && i === 1 ? 'SOUTH' : b.kind === 'summing-junction' && i === 2 ? 'NORTH' : 'WEST' },
+        layoutOptions: { 'elk.port.side': ELK_SIDE[inputSide(b.kind, i)] },
       })),
       ...blockSpec(b.kind).outputs.map((p) => ({ id: `${b.id}:${p}`, layoutOptions: { 'elk.port.side': 'EAST' } })),
     ];

@@ -55,11 +55,16 @@ export function fileNameFor(d: Diagram): string {
 
 export function saveDiagram(): void {
   const d = useDiagramStore.getState().diagram;
-  const blob = new Blob([serializeDocument(d)], { type: 'application/json' });
+  downloadText(serializeDocument(d), fileNameFor(d));
+}
+
+/** Offers `text` as a file download named `name`, byte for byte. */
+export function downloadText(text: string, name: string): void {
+  const blob = new Blob([text], { type: 'application/json' });
   const url = URL.createObjectURL(blob);
   const a = document.createElement('a');
   a.href = url;
-  a.download = fileNameFor(d);
+  a.download = name;
   document.body.appendChild(a);
   a.click();
   a.remove();

@@ -1,12 +1,15 @@
 /**
- * Parameters: the diagram's named values with unit and slider range. Renaming rewrites every
- * use in block fields token by token; dragging a slider is one undo step; "Sweep" makes the
- * parameter the one the Locus view varies.
+ * Parameters: the diagram's named values with unit and slider range. Values read in
+ * engineering notation with their unit always in view; a slider writes values rounded to 4
+ * significant digits; a slider drag, or a run of arrow-key nudges, is one undo step.
+ * Renaming rewrites every use in block fields token by token; "Sweep" makes the parameter the
+ * one the Locus view varies.
  */
 import { useEffect, useState } from 'react';
-import { beginGesture, endGesture, useDiagramStore } from '../store/diagram-store.ts';
+import { formatEngineering, roundSignificant } from '@loopwright/lti';
+import { beginGesture, coalesced, endCoalescing, endGesture, useDiagramStore } from '../store/diagram-store.ts';
 import type { Diagram, NamedParameter } from '../store/graph-bridge.ts';
-import { compact } from '../canvas/block-formula.ts';
+import { EngineeringInput } from './EngineeringInput.tsx';
 // The analysis sweep bar's choice (E2) is what is really swept; "Sweep" here sets both.
 import { useSweepChoice } from '../views/SweepBar.tsx';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
@@ -21,41 +24,17 @@ export function nameProblem(d: Diagram, oldName: string, name: string): string |
   return null;
 }
 
-function NumberCell({ label, value, onCommit, className }: { label: string; value: number | undefined; onCommit(v: number | undefined): void; className?: string }) {
-  const [draft, setDraft] = useState(value === undefined ? '' : String(value));
-  useEffect(() => setDraft(value === undefined ? '' : String(value)), [value]);
-  const bad = draft.trim() !== '' && !Number.isFinite(Number(draft));
-  const commit = () => {
-    if (bad) return;
-    const v = draft.trim() === '' ? undefined : Number(draft);
-    if (v !== value) onCommit(v);
-  };
-  return (
-    <input
-      className={`num ${className ?? ''}${bad ? ' invalid' : ''}`}
-      aria-label={label}
-      aria-invalid={bad || undefined}
-      value={draft}
-      inputMode="decimal"
-      onChange={(e) => setDraft(e.target.value)}
-      onBlur={commit}
-      onKeyDown={(e) => {
-        if (e.key === 'Enter') commit();
-        if (e.key === 'Escape') setDraft(value === undefined ? '' : String(value));
-      }}
-    />
-  );
-}
-
 function sliderPos(p: NamedParameter, lo: number, hi: number): number {
   const v = Math.min(Math.max(p.value, lo), hi);
   if (p.scale === 'log' && lo > 0) return (Math.log(v / lo) / Math.log(hi / lo)) * 1000;
   return ((v - lo) / (hi - lo || 1)) * 1000;
 }
+/** Significant digits of a value set with a slider (a slider step is finer than a tenth of a per cent only near 1000). */
+export const SLIDER_DIGITS = 4;
 function sliderValue(p: NamedParameter, lo: number, hi: number, pos: number): number {
   const f = pos / 1000;
   const v = p.scale === 'log' && lo > 0 ? lo * Math.pow(hi / lo, f) : lo + f * (hi - lo);
-  return Number(v.toPrecision(4));
+  return roundSignificant(v, SLIDER_DIGITS);
 }
 
 function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedParameter; sweptName: string | undefined }) {
@@ -72,6 +51,26 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
     if (problem) return;
     st.renameParameter(p.name, name);
   };
+  const sweepButton = (
+    <button
+      type="button"
+      className={active ? 'toggle on' : 'toggle'}
+      aria-pressed={Boolean(active)}
+      aria-label={`Sweep ${p.name}`}
+      title="Sweep this parameter in the Locus view"
+      onClick={() => {
+        if (sweep) st.setView({ activeSweep: sweep.id });
+        else {
+          const id = st.addSweep({ parameter: p.name, min: lo, max: hi, scale: p.scale ?? 'linear' });
+          st.setView({ activeSweep: id });
+        }
+        useAnalysisStore.getState().setSweepKey(`param:${p.name}`);
+      }}
+    >
+      Sweep
+    </button>
+  );
+  const unit = p.unit ?? '';
   return (
     <li className={`param-row${active ? ' is-swept' : ''}`} aria-label={`parameter ${p.name}`}>
       <div className="param-line">
@@ -81,6 +80,7 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
           aria-invalid={problem ? true : undefined}
           value={name}
           spellCheck={false}
+          title={p.name}
           onChange={(e) => setName(e.target.value)}
           onBlur={commitName}
           onKeyDown={(e) => {
@@ -89,32 +89,20 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
           }}
         />
         <span>=</span>
-        <NumberCell label={`Value of ${p.name}`} value={p.value} onCommit={(v) => v !== undefined && st.setParameterValue(p.name, v)} />
+        <EngineeringInput label={`Value of ${p.name}`} unit={unit || undefined} value={p.value} onCommit={(v) => v !== undefined && st.setParameterValue(p.name, v)} />
+        {/* Sized to its text, so a unit is never cut off. */}
         <input
           className="unit-in"
           aria-label={`Unit of ${p.name}`}
           placeholder="unit"
-          key={`u:${p.unit ?? ''}`}
-          defaultValue={p.unit ?? ''}
-          onBlur={(e) => e.target.value !== (p.unit ?? '') && st.updateParameter(p.name, { unit: e.target.value || undefined })}
+          key={`u:${unit}`}
+          defaultValue={unit}
+          title={unit ? `unit: ${unit}` : 'unit'}
+          style={{ width: `calc(${Math.max(4, [...unit].length + 1)}ch + 8px)` }}
+          onInput={(e) => ((e.target as HTMLInputElement).style.width = `calc(${Math.max(4, [...(e.target as HTMLInputElement).value].length + 1)}ch + 8px)`)}
+          onBlur={(e) => e.target.value !== unit && st.updateParameter(p.name, { unit: e.target.value || undefined })}
+          onKeyDown={(e) => e.key === 'Enter' && (e.target as HTMLInputElement).blur()}
         />
-        <button
-          type="button"
-          className={active ? 'toggle on' : 'toggle'}
-          aria-pressed={Boolean(active)}
-          aria-label={`Sweep ${p.name}`}
-          title="Sweep this parameter in the Locus view"
-          onClick={() => {
-            if (sweep) st.setView({ activeSweep: sweep.id });
-            else {
-              const id = st.addSweep({ parameter: p.name, min: lo, max: hi, scale: p.scale ?? 'linear' });
-              st.setView({ activeSweep: id });
-            }
-            useAnalysisStore.getState().setSweepKey(`param:${p.name}`);
-          }}
-        >
-          Sweep
-        </button>
         <button type="button" className="icon" aria-label={`Remove parameter ${p.name}`} title="Remove" onClick={() => st.removeParameter(p.name)}>
           ×
         </button>
@@ -125,23 +113,30 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
         </div>
       )}
       <div className="param-line">
-        <NumberCell className="range" label={`Slider minimum of ${p.name}`} value={p.min} onCommit={(v) => st.updateParameter(p.name, { min: v })} />
+        <EngineeringInput className="range" optional label={`Slider minimum of ${p.name}`} unit={unit || undefined} value={p.min} onCommit={(v) => st.updateParameter(p.name, { min: v })} />
         <input
           type="range"
           min={0}
           max={1000}
           step={1}
           aria-label={`Slider for ${p.name}`}
-          aria-valuetext={`${p.name} = ${compact(p.value)}${p.unit ? ` ${p.unit}` : ''}`}
+          aria-valuetext={`${p.name} = ${formatEngineering(p.value, { style: 'si', unit: unit || undefined })}`}
+          title={`${p.name} = ${formatEngineering(p.value, { style: 'si', unit: unit || undefined })}`}
           value={sliderPos(p, lo, hi)}
           onPointerDown={beginGesture}
           onPointerUp={endGesture}
-          onKeyUp={endGesture}
-          onKeyDown={beginGesture}
-          onBlur={endGesture}
-          onChange={(e) => st.setParameterValue(p.name, sliderValue(p, lo, hi, Number(e.target.value)))}
+          onBlur={() => {
+            endGesture();
+            endCoalescing();
+          }}
+          // Keyboard nudges arrive here one by one: a run of them is one undo step.
+          onChange={(e) => {
+            const v = sliderValue(p, lo, hi, Number(e.target.value));
+            coalesced(`parameter-value:${p.name}`, () => st.setParameterValue(p.name, v));
+          }}
         />
-        <NumberCell className="range" label={`Slider maximum of ${p.name}`} value={p.max} onCommit={(v) => st.updateParameter(p.name, { max: v })} />
+        <EngineeringInput className="range" optional label={`Slider maximum of ${p.name}`} unit={unit || undefined} value={p.max} onCommit={(v) => st.updateParameter(p.name, { max: v })} />
+        {sweepButton}
       </div>
     </li>
   );

@@ -1,8 +1,8 @@
-/** Parts: every block kind; click to add it in view, or drag it onto the canvas. */
+/** Parts: every block kind; click to add it in view, or drag it onto the canvas (onto a wire: into the wire). */
 import { useReactFlow } from '@xyflow/react';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { catalogue, type BlockKind } from '../store/graph-bridge.ts';
-import { GRID, PART_MIME } from '../canvas/Canvas.tsx';
+import { GRID, PART_MIME, partKindMime } from '../canvas/Canvas.tsx';
 
 const GROUPS: { category: 'signal' | 'linear' | 'nonlinear'; title: string }[] = [
   { category: 'signal', title: 'Signals' },
@@ -58,6 +58,7 @@ export function PartsPanel() {
                 onClick={() => add(s.kind)}
                 onDragStart={(e) => {
                   e.dataTransfer.setData(PART_MIME, s.kind);
+                  e.dataTransfer.setData(partKindMime(s.kind), s.kind);
                   e.dataTransfer.effectAllowed = 'copy';
                 }}
               >

@@ -7,7 +7,6 @@ import { demos } from '../store/graph-bridge.ts';
 import { useUiStore } from '../store/ui-store.ts';
 import { loadDemo, newDiagram, openFile, saveDiagram } from '../files/file-actions.ts';
 import { tidyPositions } from '../canvas/tidy.ts';
-import { fitReadable } from '../canvas/fit.ts';
 
 export async function tidyLayout(getSizes: () => Record<string, { width: number; height: number }>): Promise<void> {
   const d = useDiagramStore.getState().diagram;
@@ -93,7 +92,7 @@ export function Toolbar() {
               for (const n of flow.getNodes()) out[n.id] = { width: n.measured?.width ?? 140, height: n.measured?.height ?? 70 };
               return out;
             });
-            setTimeout(() => fitReadable(flow, document.querySelector('.canvas-box')), 60);
+            useUiStore.getState().requestFit();
           } finally {
             setBusy(false);
           }
@@ -101,11 +100,8 @@ export function Toolbar() {
       >
         Tidy
       </button>
-      <button type="button" aria-label="Fit to view" title="Fit the diagram in view (kept readable)" onClick={() => fitReadable(flow, document.querySelector('.canvas-box'))}>
+      <button type="button" aria-label="Fit to view" title="Show the whole diagram, every block and wire (zoom in with the wheel or +)" onClick={() => useUiStore.getState().requestFit()}>
         Fit
-      </button>
-      <button type="button" aria-label="Show whole diagram" title="Zoom out until the whole diagram is in view" onClick={() => void flow.fitView({ padding: 0.08, maxZoom: 1.2, duration: 150 })}>
-        All
       </button>
       <span className="spacer" />
       <button

@@ -1,5 +1,5 @@
 import { beforeEach, describe, expect, it } from 'vitest';
-import { beginGesture, endGesture, HISTORY_LIMIT, loadDocument, redo, undo, useDiagramStore } from './diagram-store.ts';
+import { beginGesture, coalesced, COALESCE_MS, endCoalescing, endGesture, HISTORY_LIMIT, loadDocument, redo, undo, useDiagramStore } from './diagram-store.ts';
 import { emptyDiagram } from './graph-bridge.ts';
 
 const st = () => useDiagramStore.getState();
@@ -105,5 +105,112 @@ describe('selection after undo', () => {
     expect(useDiagramStore.getState().selection.blocks).toEqual([a]);
     undo();
     expect(useDiagramStore.getState().selection.blocks).toEqual([]);
+  });
+});
+
+// Wiring and undo coalescing the canvas and the Parameters panel rely on (common practice, no source).
+describe('blocks dropped on wires', () => {
+  beforeEach(() => loadDocument(emptyDiagram()));
+
+  const line = () => {
+    const a = st().addBlock('gain', { x: 0, y: 0 });
+    const b = st().addBlock('probe', { x: 400, y: 0 });
+    const w = st().connect({ block: a, port: 'out' }, { block: b, port: 'in' })!;
+    st().addCut(w);
+    return { a, b, w };
+  };
+
+  it('a block with an input and an output goes in line, in ONE undo step; the cut stays on the upstream half', () => {
+    const { a, b, w } = line();
+    const before = st().diagram;
+    const n = past();
+    const lag = st().addBlockOnWire('first-order-lag', { x: 200, y: 0 }, w);
+    expect(past()).toBe(n + 1);
+    const d = st().diagram;
+    expect(d.wires.map((x) => `${x.id}:${x.from.block}.${x.from.port}->${x.to.block}.${x.to.port}`)).toEqual([`${w}:${a}.out->${lag}.in`, `w2:${lag}.out->${b}.in`]);
+    expect(d.cuts).toEqual([{ id: 'cut1', wire: w }]);
+    undo();
+    expect(st().diagram).toEqual(before);
+  });
+
+  it('a summing junction takes the signal on in1; a probe taps the wire; a source is only placed', () => {
+    const { a, b, w } = line();
+    const sum = st().addBlockOnWire('summing-junction', { x: 200, y: 0 }, w);
+    expect(st().diagram.wires.map((x) => `${x.from.block}->${x.to.block}.${x.to.port}`)).toEqual([`${a}->${sum}.in1`, `${sum}->${b}.in`]);
+    const p = st().addBlockOnWire('probe', { x: 200, y: 100 }, w);
+    expect(st().diagram.wires.map((x) => `${x.from.block}->${x.to.block}.${x.to.port}`)).toEqual([`${a}->${sum}.in1`, `${sum}->${b}.in`, `${a}->${p}.in`]);
+    const wires = st().diagram.wires;
+    const src = st().addBlockOnWire('source', { x: 200, y: 200 }, w);
+    expect(st().diagram.blocks.map((x) => x.id)).toContain(src);
+    expect(st().diagram.wires).toEqual(wires);
+  });
+
+  it('an unwired block dragged onto a wire joins it; a wired one only moves', () => {
+    const { w } = line();
+    const g = st().addBlock('gain', { x: 0, y: 300 });
+    const n = past();
+    expect(st().moveBlockOntoWire(g, { x: 200, y: 0 }, w)).toBe(true);
+    expect(past()).toBe(n + 1);
+    expect(st().diagram.wires).toHaveLength(2);
+    const g2 = st().addBlock('gain', { x: 0, y: 500 });
+    st().connect({ block: g, port: 'out' }, { block: g2, port: 'in' });
+    const wires = st().diagram.wires;
+    expect(st().moveBlockOntoWire(g2, { x: 100, y: 0 }, w)).toBe(false);
+    expect(st().diagram.wires).toEqual(wires);
+    expect(st().diagram.blocks.find((x) => x.id === g2)!.position).toEqual({ x: 100, y: 0 });
+  });
+});
+
+describe('runs of nudges', () => {
+  beforeEach(() => {
+    loadDocument(emptyDiagram());
+    endCoalescing();
+  });
+
+  it('nudges with one key, each within the window, are ONE undo step; undo returns to before the run', () => {
+    st().addParameter({ name: 'K', value: 1 });
+    const n = past();
+    let t = 1000;
+    for (let v = 2; v <= 12; v++) coalesced('K', () => st().setParameterValue('K', v), (t += COALESCE_MS / 2));
+    expect(st().diagram.parameters[0].value).toBe(12);
+    expect(past()).toBe(n + 1);
+    undo();
+    expect(st().diagram.parameters[0].value).toBe(1);
+    redo();
+    expect(st().diagram.parameters[0].value).toBe(12);
+  });
+
+  it('a pause, another key, or another edit in between starts a new step', () => {
+    st().addParameter({ name: 'K', value: 1 });
+    st().addParameter({ name: 'T', value: 1 });
+    const n = past();
+    coalesced('K', () => st().setParameterValue('K', 2), 0);
+    coalesced('K', () => st().setParameterValue('K', 3), COALESCE_MS + 1); // too late
+    expect(past()).toBe(n + 2);
+    coalesced('T', () => st().setParameterValue('T', 2), COALESCE_MS + 2); // another key
+    expect(past()).toBe(n + 3);
+    st().setTitle('edited'); // another edit
+    coalesced('T', () => st().setParameterValue('T', 3), COALESCE_MS + 3);
+    expect(past()).toBe(n + 5);
+    undo();
+    expect(st().diagram.parameters[1].value).toBe(2);
+  });
+
+  it('a run that comes back to where it began leaves no undo step', () => {
+    st().addParameter({ name: 'K', value: 1 });
+    const n = past();
+    coalesced('K', () => st().setParameterValue('K', 2), 0);
+    coalesced('K', () => st().setParameterValue('K', 1), 10);
+    expect(past()).toBe(n);
+  });
+
+  it('inside a pointer gesture the gesture makes the one step', () => {
+    st().addParameter({ name: 'K', value: 1 });
+    const n = past();
+    beginGesture();
+    for (let v = 2; v < 6; v++) coalesced('K', () => st().setParameterValue('K', v), v);
+    endGesture();
+    coalesced('K', () => st().setParameterValue('K', 9), 7);
+    expect(past()).toBe(n + 2);
   });
 });

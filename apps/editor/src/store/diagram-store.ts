@@ -8,6 +8,7 @@ import { temporal } from 'zundo';
 import type { Block, BlockKind, Diagram, NamedParameter, ParamValue, SimulationSettings, Sweep, ViewSettings, Wire } from './graph-bridge.ts';
 import { defaultParams, emptyDiagram } from './graph-bridge.ts';
 import { renameInExpression } from './rename.ts';
+import { spliceIntoWire } from './wiring.ts';
 
 export interface Selection {
   blocks: string[];
@@ -41,6 +42,10 @@ export interface DiagramState {
   setSelection(sel: Partial<Selection>): void;
   selectAll(): void;
   addBlock(kind: BlockKind, position: { x: number; y: number }, params?: Record<string, ParamValue>): string;
+  /** A new block dropped on a wire: added and put into the wire as ONE edit (see spliceIntoWire). */
+  addBlockOnWire(kind: BlockKind, position: { x: number; y: number }, wireId: string): string;
+  /** An unwired block dragged onto a wire: moved there and put into it as ONE edit. */
+  moveBlockOntoWire(id: string, position: { x: number; y: number }, wireId: string): boolean;
   setBlockLabel(id: string, label: string): void;
   moveBlocks(positions: Record<string, { x: number; y: number }>): void;
   connect(from: { block: string; port: string }, to: { block: string; port: string }): string | null;
@@ -178,6 +183,23 @@ export const useDiagramStore = create<DiagramState>()(
           d.blocks.push({ id, kind, position: { x: Math.round(position.x), y: Math.round(position.y) }, params: { ...defaultParams(kind), ...params } });
           set({ diagram: d, selection: { blocks: [id], wires: [] } });
           return id;
+        },
+        addBlockOnWire: (kind, position, wireId) => {
+          const d = clone(get().diagram);
+          const id = nextId(PREFIX[kind], d.blocks.map((b) => b.id));
+          d.blocks.push({ id, kind, position: { x: Math.round(position.x), y: Math.round(position.y) }, params: defaultParams(kind) });
+          spliceIntoWire(d, id, wireId);
+          set({ diagram: d, selection: { blocks: [id], wires: [] } });
+          return id;
+        },
+        moveBlockOntoWire: (id, position, wireId) => {
+          const d = clone(get().diagram);
+          const b = d.blocks.find((x) => x.id === id);
+          if (!b) return false;
+          b.position = { x: Math.round(position.x), y: Math.round(position.y) };
+          const joined = spliceIntoWire(d, id, wireId);
+          set({ diagram: d });
+          return joined;
         },
         setBlockLabel: (id, label) =>
           edit((d) => {
@@ -334,6 +356,7 @@ export function beginGesture(): void {
   useDiagramStore.temporal.getState().pause();
 }
 export function endGesture(): void {
+  run = null;
   if (!gestureStart) return;
   const start = gestureStart;
   gestureStart = null;
@@ -343,6 +366,46 @@ export function endGesture(): void {
     const past = [...t.getState().pastStates, { diagram: start }].slice(-HISTORY_LIMIT);
     t.setState({ pastStates: past, futureStates: [] });
   }
+}
+
+/**
+ * Runs of small edits as ONE undo step: arrow-key nudges of a slider, a block or a sweep value.
+ * An edit made through `coalesced(key, …)` joins the previous one when it has the same key,
+ * follows it within COALESCE_MS, and nothing else changed the document in between (another
+ * edit, undo, redo or a load breaks the run). The history keeps the document from before the
+ * run's first edit; a run that ends where it began leaves no entry at all.
+ */
+export const COALESCE_MS = 1000;
+let run: { key: string; at: number; diagram: Diagram } | null = null;
+export function coalesced(key: string, fn: () => void, now: number = Date.now()): void {
+  const before = useDiagramStore.getState().diagram;
+  if (gestureStart) {
+    // Inside a pointer gesture the gesture already makes one step.
+    fn();
+    return;
+  }
+  const t = useDiagramStore.temporal;
+  const joining = run !== null && run.key === key && now - run.at < COALESCE_MS && run.diagram === before;
+  if (joining) {
+    t.getState().pause();
+    try {
+      fn();
+    } finally {
+      t.getState().resume();
+    }
+    const past = t.getState().pastStates;
+    const after = useDiagramStore.getState().diagram;
+    if (past.length && sameDocument(past[past.length - 1].diagram as Diagram, after)) t.setState({ pastStates: past.slice(0, -1), futureStates: [] });
+    else if (after !== before) t.setState({ futureStates: [] });
+  } else {
+    fn();
+  }
+  const after = useDiagramStore.getState().diagram;
+  if (after !== before || joining) run = { key, at: now, diagram: after };
+}
+/** Ends the current run (the control lost focus): the next nudge starts a new undo step. */
+export function endCoalescing(): void {
+  run = null;
 }
 
 // Undo, redo and file loads can remove selected elements: keep the selection to what exists.

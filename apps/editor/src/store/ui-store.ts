@@ -1,11 +1,20 @@
 /**
  * UI state that is not part of the document (never in undo history or the saved file):
- * the colour theme, a request to fit the view, the message banner, the About dialog.
+ * the colour theme, a request to fit the view, the message banner, a connection waiting for
+ * confirmation, the About dialog.
  */
 import { create } from 'zustand';
 
 export type Theme = 'light' | 'dark';
 export const THEME_KEY = 'loopwright.theme';
+
+/** A wire the user drew onto an input that already has one: waiting for Replace or Cancel. */
+export interface PendingConnection {
+  from: { block: string; port: string };
+  to: { block: string; port: string };
+  /** The wire now driving that input. */
+  existing: string;
+}
 
 export interface Notice {
   kind: 'error' | 'info';
@@ -20,6 +29,8 @@ interface UiState {
   requestFit(): void;
   notice: Notice | null;
   notify(n: Notice | null): void;
+  pendingConnection: PendingConnection | null;
+  setPendingConnection(p: PendingConnection | null): void;
   aboutOpen: boolean;
   setAboutOpen(v: boolean): void;
   /** Height of the analysis area in px (null: the layout default). */
@@ -55,6 +66,8 @@ export const useUiStore = create<UiState>()((set, get) => ({
   requestFit: () => set({ fitRequest: get().fitRequest + 1 }),
   notice: null,
   notify: (notice) => set({ notice }),
+  pendingConnection: null,
+  setPendingConnection: (pendingConnection) => set({ pendingConnection }),
   aboutOpen: false,
   setAboutOpen: (aboutOpen) => set({ aboutOpen }),
   analysisHeight: null,

@@ -4,7 +4,7 @@
  * sets the sweep to the gain that puts a closed-loop pole at that point of the branch.
  */
 import { useEffect, useMemo, useState } from 'react';
-import { gainAtPoint } from '@loopwright/lti';
+import { gainAtPoint, roundSignificant } from '@loopwright/lti';
 import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { activePoints, dampingOf, keyPoints, nearestOnBranches, planeWindow, pointsNear, zoomAt, zoomWindow, type LocusHit, type PlaneZoom } from '../analysis/locus-geometry.ts';
@@ -159,7 +159,7 @@ export function LocusView({ pal }: { pal: Palette }) {
         const k = gainForHit(locus, h);
         if (!Number.isFinite(k)) return;
         widenRangeFor(choice, range, k);
-        commitSweepValue(choice, k);
+        commitSweepValue(choice, roundSignificant(k, 4)); // the gain picked on a branch, to 4 significant digits
       }}
     />
   );

@@ -4,7 +4,8 @@
  * slider, pressing Apply or Enter commits it to the document (one undo step).
  */
 import { useEffect, useLayoutEffect, useMemo, useRef } from 'react';
-import { useDiagramStore } from '../store/diagram-store.ts';
+import { roundSignificant } from '@loopwright/lti';
+import { coalesced, useDiagramStore } from '../store/diagram-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { documentValue, editedRange, fmt, positionToValue, resolveSweep, valueToPosition, widenedRange, type SweepChoice, type SweepRange } from '../analysis/sweep.ts';
 
@@ -63,7 +64,9 @@ export function SweepBar() {
     if (!el) return;
     const onChange = () => {
       const v = useAnalysisStore.getState().liveValue;
-      if (v !== null && choiceRef.current) commitSweepValue(choiceRef.current, v);
+      const c = choiceRef.current;
+      // A slider value is written with 4 significant digits; a run of arrow-key nudges is one undo step.
+      if (v !== null && c) coalesced(`sweep:${c.key}`, () => commitSweepValue(c, roundSignificant(v, 4)));
     };
     el.addEventListener('change', onChange);
     return () => el.removeEventListener('change', onChange);
@@ -79,7 +82,7 @@ export function SweepBar() {
   const pos = Math.round(valueToPosition(range, value) * STEPS);
   const commit = () => {
     const v = useAnalysisStore.getState().liveValue;
-    if (v !== null) commitSweepValue(choice, v);
+    if (v !== null) coalesced(`sweep:${choice.key}`, () => commitSweepValue(choice, roundSignificant(v, 4)));
   };
   const setRange = (patch: Partial<SweepRange>) => {
     const r = editedRange(range, patch);
