@@ -12,13 +12,7 @@ import type { Page } from 'playwright-core';
 import { blockSpec, serializeDiagram, parseDiagram, type Diagram, type BlockKind } from '@loopwright/graph';
 import { InputError, parseTransferFunction } from '@loopwright/lti';
 import { openEditor, screenshot, type EditorSession } from './harness.ts';
-
-type Hook = {
-  getDiagram(): Diagram;
-  historySize(): { past: number; future: number };
-};
-const getDiagram = (page: Page) => page.evaluate(() => (window as unknown as { __loopwright: Hook }).__loopwright.getDiagram());
-const history = (page: Page) => page.evaluate(() => (window as unknown as { __loopwright: Hook }).__loopwright.historySize());
+import { getDiagram, history, selectBlock, setField, wire } from './ui.ts';
 
 /** The document without block positions (where a click lands depends on the viewport). */
 function withoutPositions(d: Diagram) {
@@ -27,31 +21,6 @@ function withoutPositions(d: Diagram) {
 
 function defaults(kind: BlockKind): Record<string, number | string> {
   return Object.fromEntries(blockSpec(kind).params.map((p) => [p.name, p.default]));
-}
-
-/** Drag from one port to another with the mouse (React Flow connects on release over a handle). */
-async function wire(page: Page, from: string, to: string) {
-  const a = await page.getByTestId(`port-${from}`).boundingBox();
-  const b = await page.getByTestId(`port-${to}`).boundingBox();
-  if (!a || !b) throw new Error(`port not visible: ${from} or ${to}`);
-  await page.mouse.move(a.x + a.width / 2, a.y + a.height / 2);
-  await page.mouse.down();
-  await page.mouse.move((a.x + b.x) / 2, (a.y + b.y) / 2 + 10, { steps: 4 });
-  await page.mouse.move(b.x + b.width / 2, b.y + b.height / 2, { steps: 4 });
-  await page.mouse.up();
-}
-
-async function selectBlock(page: Page, id: string) {
-  // Click the card's title strip (not a port), as a user would.
-  await page.locator(`[data-block="${id}"]`).click({ position: { x: 24, y: 8 } });
-}
-
-async function setField(page: Page, label: string, text: string) {
-  const f = page.getByLabel(label, { exact: true });
-  await f.click();
-  await f.press('Control+a');
-  await f.pressSequentially(text);
-  await f.press('Enter');
 }
 
 describe('editor', () => {

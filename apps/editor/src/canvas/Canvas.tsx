@@ -20,7 +20,7 @@ import {
   type NodeChange,
   type IsValidConnection,
 } from '@xyflow/react';
-import { useDiagramStore } from '../store/diagram-store.ts';
+import { coalesced, useDiagramStore } from '../store/diagram-store.ts';
 import { blockSpec, type BlockKind, type Diagram, type Finding } from '../store/graph-bridge.ts';
 import { faultsByElement, useFindings } from '../store/findings.ts';
 import { useUiStore } from '../store/ui-store.ts';
@@ -209,12 +209,18 @@ export function Canvas() {
     [flow],
   );
 
+  // While a mouse drag is on, its moves stay local; onNodeDragStop commits them (React Flow's
+  // last position change of a drag arrives before the stop and must not be a step of its own).
+  const dragging = useRef(false);
   const onNodesChange = useCallback((changes: NodeChange<BlockFlowNode>[]) => {
     setNodes((nds) => applyNodeChanges(changes, nds));
-    // Moves that are not drags (arrow keys on a focused, selected block) commit at once.
+    // Moves that are not drags (arrow keys on a focused, selected block) commit at once; a run
+    // of them is one undo step.
     const moved: Record<string, { x: number; y: number }> = {};
     for (const c of changes) if (c.type === 'position' && c.position && !c.dragging) moved[c.id] = c.position;
-    if (Object.keys(moved).length) useDiagramStore.getState().moveBlocks(moved);
+    if (Object.keys(moved).length && !dragging.current) {
+      coalesced(`move:${Object.keys(moved).sort().join(',')}`, () => useDiagramStore.getState().moveBlocks(moved));
+    }
     const sel = changes.filter((c) => c.type === 'select');
     if (sel.length) {
       const st = useDiagramStore.getState();
@@ -260,8 +266,12 @@ export function Canvas() {
     [insertable, wireUnder],
   );
 
+  const onNodeDragStart = useCallback(() => {
+    dragging.current = true;
+  }, []);
   const onNodeDragStop = useCallback(
     (e: MouseEvent | TouchEvent, _n: BlockFlowNode, dragged: BlockFlowNode[]) => {
+      dragging.current = false;
       setDropWire(null);
       const id = insertable(dragged);
       const p = pointOf(e);
@@ -329,6 +339,8 @@ export function Canvas() {
       edgeTypes={edgeTypes}
       onNodesChange={onNodesChange}
       onEdgesChange={onEdgesChange}
+      onNodeDragStart={onNodeDragStart}
+      onSelectionDragStart={onNodeDragStart}
       onNodeDrag={onNodeDrag}
       onNodeDragStop={onNodeDragStop}
       onSelectionDragStop={(e, dragged) => onNodeDragStop(e.nativeEvent, dragged[0], dragged)}

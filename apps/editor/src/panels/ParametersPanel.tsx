@@ -37,6 +37,9 @@ function sliderValue(p: NamedParameter, lo: number, hi: number, pos: number): nu
   return roundSignificant(v, SLIDER_DIGITS);
 }
 
+/** A width that shows the whole text (at least `min` characters): names and units are never cut off. */
+const fitText = (text: string, min: number) => `calc(${Math.max(min, [...text].length + 1)}ch + 10px)`;
+
 function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedParameter; sweptName: string | undefined }) {
   const st = useDiagramStore.getState();
   const [name, setName] = useState(p.name);
@@ -73,9 +76,10 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
   const unit = p.unit ?? '';
   return (
     <li className={`param-row${active ? ' is-swept' : ''}`} aria-label={`parameter ${p.name}`}>
-      <div className="param-line">
+      <div className="param-line param-head">
         <input
           className={`pname mono${problem ? ' invalid' : ''}`}
+          style={{ width: fitText(name, 6) }}
           aria-label={`Name of parameter ${p.name}`}
           aria-invalid={problem ? true : undefined}
           value={name}
@@ -98,8 +102,8 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
           key={`u:${unit}`}
           defaultValue={unit}
           title={unit ? `unit: ${unit}` : 'unit'}
-          style={{ width: `calc(${Math.max(4, [...unit].length + 1)}ch + 8px)` }}
-          onInput={(e) => ((e.target as HTMLInputElement).style.width = `calc(${Math.max(4, [...(e.target as HTMLInputElement).value].length + 1)}ch + 8px)`)}
+          style={{ width: fitText(unit, 4) }}
+          onInput={(e) => ((e.target as HTMLInputElement).style.width = fitText((e.target as HTMLInputElement).value, 4))}
           onBlur={(e) => e.target.value !== unit && st.updateParameter(p.name, { unit: e.target.value || undefined })}
           onKeyDown={(e) => e.key === 'Enter' && (e.target as HTMLInputElement).blur()}
         />

@@ -204,6 +204,16 @@ describe('runs of nudges', () => {
     expect(past()).toBe(n);
   });
 
+  it('a call that changes nothing does not start a run', () => {
+    st().addParameter({ name: 'K', value: 1 });
+    const n = past();
+    coalesced('K', () => st().setParameterValue('K', 1), 0); // the same value again
+    coalesced('K', () => st().setParameterValue('K', 2), 10);
+    expect(past()).toBe(n + 1);
+    undo();
+    expect(st().diagram.parameters[0].value).toBe(1);
+  });
+
   it('inside a pointer gesture the gesture makes the one step', () => {
     st().addParameter({ name: 'K', value: 1 });
     const n = past();

@@ -401,7 +401,9 @@ export function coalesced(key: string, fn: () => void, now: number = Date.now())
     fn();
   }
   const after = useDiagramStore.getState().diagram;
-  if (after !== before || joining) run = { key, at: now, diagram: after };
+  // A call that changed nothing (a range input reports its value on 'input' and again on
+  // 'change') must not start a run, or the next real nudge would hide in the previous step.
+  if (joining || !sameDocument(before, after)) run = { key, at: now, diagram: after };
 }
 /** Ends the current run (the control lost focus): the next nudge starts a new undo step. */
 export function endCoalescing(): void {

@@ -11,7 +11,7 @@ export interface LoopwrightHook {
   getSelection(): { blocks: string[]; wires: string[] };
   undo(): void;
   redo(): void;
-  historySize(): { past: number; future: number };
+  historySize(): { past: number; future: number; tracking: boolean };
 }
 
 export function installTestHook(): void {
@@ -23,7 +23,7 @@ export function installTestHook(): void {
     redo,
     historySize: () => {
       const t = useDiagramStore.temporal.getState();
-      return { past: t.pastStates.length, future: t.futureStates.length };
+      return { past: t.pastStates.length, future: t.futureStates.length, tracking: t.isTracking };
     },
   };
   (window as unknown as { __loopwright: LoopwrightHook }).__loopwright = hook;
