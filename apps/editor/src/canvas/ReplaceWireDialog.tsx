@@ -3,7 +3,7 @@
  * the new one would replace the old. Nothing changes until the user says Replace; Cancel,
  * Escape or closing keep the diagram as it was.
  */
-import { useEffect, useRef } from 'react';
+import { useModalDialog } from '../panels/use-modal.ts';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { useUiStore } from '../store/ui-store.ts';
 
@@ -15,13 +15,7 @@ const name = (d: ReturnType<typeof useDiagramStore.getState>['diagram'], id: str
 export function ReplaceWireDialog() {
   const pending = useUiStore((s) => s.pendingConnection);
   const diagram = useDiagramStore((s) => s.diagram);
-  const ref = useRef<HTMLDialogElement>(null);
-  useEffect(() => {
-    const d = ref.current;
-    if (!d) return;
-    if (pending && !d.open) d.showModal();
-    if (!pending && d.open) d.close();
-  }, [pending]);
+  const ref = useModalDialog(pending !== null);
   const existing = pending ? diagram.wires.find((w) => w.id === pending.existing) : undefined;
   const close = () => useUiStore.getState().setPendingConnection(null);
   const replace = () => {

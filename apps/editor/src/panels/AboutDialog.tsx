@@ -1,19 +1,12 @@
 /** About & safety: what Loopwright is, and the caution that goes with its results. */
-import { useEffect, useRef } from 'react';
+import { useModalDialog } from './use-modal.ts';
 import { useUiStore } from '../store/ui-store.ts';
 
 export const SAFETY_TEXT =
   'Results are design aids. Where a loop drives machinery, heat or pressure, validate on the real plant with limits and interlocks in place, and defer to the applicable functional-safety standards, local codes and licensed practice.';
 
 export function AboutDialog() {
-  const open = useUiStore((s) => s.aboutOpen);
-  const ref = useRef<HTMLDialogElement>(null);
-  useEffect(() => {
-    const d = ref.current;
-    if (!d) return;
-    if (open && !d.open) d.showModal();
-    if (!open && d.open) d.close();
-  }, [open]);
+  const ref = useModalDialog(useUiStore((s) => s.aboutOpen));
   return (
     <dialog ref={ref} className="about" aria-label="About and safety" onClose={() => useUiStore.getState().setAboutOpen(false)}>
       <h2>Loopwright</h2>
