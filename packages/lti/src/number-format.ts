@@ -1,8 +1,9 @@
 /**
  * Numbers as engineers read and type them: rounding to significant digits, engineering
  * notation (exponent a multiple of three) with an exponent or an SI prefix, and the reverse.
- * The editor and the CLI show parameter values through these, so 5e-5 never reads "0.000"
- * and a value picked with a slider is written as 58.18, not 58.17581689930665.
+ * Pure, so the editor and the CLI can share them: the editor shows and reads parameter values
+ * through these, so 5e-5 never reads "0.000" and a value picked with a slider is written as
+ * 58.18, not 58.17581689930665.
  * Digits are rounded and shifted as decimal text, so a mantissa never picks up binary
  * rounding noise (0.1 * 3 style).
  */
