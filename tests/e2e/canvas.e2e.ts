@@ -61,6 +61,20 @@ async function toScreen(page: Page, p: Point): Promise<{ x: number; y: number }>
   }, [p.x, p.y]);
 }
 
+/** Waits until the canvas stops moving (a fit after Tidy or a load runs a frame or two later). */
+async function viewSettled(page: Page) {
+  const transform = () => page.evaluate(() => (document.querySelector('.react-flow__viewport') as HTMLElement).style.transform);
+  let last = '';
+  await expect
+    .poll(async () => {
+      const now = await transform();
+      const same = now === last;
+      last = now;
+      return same;
+    }, { interval: 250 })
+    .toBe(true);
+}
+
 const rectOf = (page: Page, selector: string) =>
   page.locator(selector).evaluateAll((els) => els.map((e) => {
     const r = e.getBoundingClientRect();
@@ -89,6 +103,7 @@ describe('canvas: the demo at start', () => {
       expect((await getDiagram(page)).title).toBe(demo('positioning-axis').title);
       await expect.poll(() => page.locator('.lw-cut').count()).toBe(demo('positioning-axis').cuts.length);
       await page.waitForTimeout(400);
+      await viewSettled(page);
       await expectAllInView(page, 'at start');
       await screenshot(page, 'canvas-demo-start');
       for (let i = 0; i < 4; i++) await page.getByRole('button', { name: 'Zoom In' }).click();
@@ -98,6 +113,7 @@ describe('canvas: the demo at start', () => {
       expect(outside.length, 'zoomed in, some blocks are out of view').toBeGreaterThan(0);
       await page.getByRole('button', { name: 'Fit to view' }).click();
       await page.waitForTimeout(400);
+      await viewSettled(page);
       await expectAllInView(page, 'after Fit');
     } finally {
       await s.close();
@@ -125,10 +141,12 @@ describe('canvas: a three-loop cascade built through the UI', () => {
 
   it('builds it with Parts, the mouse and Tidy; nested feedback wires get separate lanes and their cut markers stay apart', async () => {
     await page.getByRole('button', { name: 'New diagram' }).click();
+    await viewSettled(page);
     const parts = ['Source', 'Summing junction', 'Gain', 'Summing junction', 'PID controller', 'Summing junction', 'PID controller', 'First-order lag', 'Gain', 'First-order lag', 'Integrator', 'Probe'];
     for (const p of parts) await page.getByRole('button', { name: `Add ${p}`, exact: true }).click();
     await page.getByRole('button', { name: 'Fit to view' }).click();
     await page.waitForTimeout(300);
+    await viewSettled(page);
     const chain = ['src1', 'sum1', 'gain1', 'sum2', 'pid1', 'sum3', 'pid2', 'lag1', 'gain2', 'lag2', 'int1', 'probe1'];
     expect((await getDiagram(page)).blocks.map((b) => b.id)).toEqual(chain);
     const input = (id: string) => (id.startsWith('sum') ? 'in1' : 'in');
@@ -152,7 +170,8 @@ describe('canvas: a three-loop cascade built through the UI', () => {
 
     await page.getByRole('button', { name: 'Tidy layout' }).click();
     await expect.poll(async () => (await getDiagram(page)).blocks.find((b) => b.id === 'probe1')!.position.x > (await getDiagram(page)).blocks.find((b) => b.id === 'src1')!.position.x).toBe(true);
-    await page.waitForTimeout(500);
+    await page.waitForTimeout(300);
+    await viewSettled(page);
 
     // Cut each feedback wire from Details and name the loop.
     for (const [name, w] of Object.entries(FEEDBACK)) {
@@ -235,6 +254,7 @@ describe('canvas: a three-loop cascade built through the UI', () => {
   it('a part dropped on a wire goes into it as one undo step (a probe taps it; the cut stays)', async () => {
     const before = await getDiagram(page);
     const h = (await history(page)).past;
+    await viewSettled(page);
     // A speed-sensor lag into the speed feedback wire, dropped on its lane away from the cut marker.
     const at = await pointOnWire(page, FEEDBACK.speed, 0.2);
     const pane = page.locator('.react-flow__pane');
@@ -270,6 +290,7 @@ describe('canvas: a three-loop cascade built through the UI', () => {
 
   it('an unwired block dragged onto a wire goes into it; the wire lights up before the drop', async () => {
     await page.getByRole('button', { name: 'Add Gain', exact: true }).click();
+    await viewSettled(page);
     const before = await getDiagram(page);
     const g = before.blocks.at(-1)!.id;
     const h = (await history(page)).past;
@@ -371,15 +392,16 @@ describe('canvas: a three-loop cascade built through the UI', () => {
     expect(digits(v1), `slider value ${v1}`).toBeLessThanOrEqual(4);
     expect(v1).toBe(roundSignificant(v1, 4));
     expect((await history(page)).past).toBe(h0 + 1);
-    // A run of arrow-key nudges: one undo step; a pause starts the next one.
+    // A run of arrow-key nudges (the key held down: auto-repeat) is one undo step however slowly
+    // a loaded machine delivers it; a tap after a pause is the next step.
     await slider.focus();
-    for (let i = 0; i < 6; i++) await page.keyboard.press('ArrowRight');
+    for (let i = 0; i < 6; i++) await page.keyboard.down('ArrowRight'); // after the first, repeat = true
+    await page.keyboard.up('ArrowRight');
     const v2 = await param();
     expect(v2).toBeGreaterThan(v1);
     expect(digits(v2)).toBeLessThanOrEqual(4);
     expect((await history(page)).past).toBe(h0 + 2);
-    await page.waitForTimeout(1300);
-    await page.keyboard.press('ArrowLeft');
+    await page.waitForTimeout(1700); // longer than the run window (COALESCE_MS)
     await page.keyboard.press('ArrowLeft');
     expect((await history(page)).past).toBe(h0 + 3);
     await page.keyboard.press('Control+z');

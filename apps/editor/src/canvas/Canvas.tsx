@@ -199,8 +199,8 @@ export function Canvas() {
   /** The wire under a screen point that a block may go into (none attached to `except`). */
   const wireUnder = useCallback(
     (clientX: number, clientY: number, except?: string) => {
-      const p = flow.screenToFlowPosition({ x: clientX, y: clientY });
       if (!Number.isFinite(clientX) || !Number.isFinite(clientY)) return null;
+      const p = flow.screenToFlowPosition({ x: clientX, y: clientY });
       const reach = DROP_REACH_PX / flow.getZoom();
       const wires = useDiagramStore.getState().diagram.wires;
       const attached = except ? new Set(wires.filter((w) => w.from.block === except || w.to.block === except).map((w) => w.id)) : null;

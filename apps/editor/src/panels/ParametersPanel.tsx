@@ -5,7 +5,7 @@
  * Renaming rewrites every use in block fields token by token; "Sweep" makes the parameter the
  * one the Locus view varies.
  */
-import { useEffect, useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { formatEngineering, roundSignificant } from '@loopwright/lti';
 import { beginGesture, coalesced, endCoalescing, endGesture, useDiagramStore } from '../store/diagram-store.ts';
 import type { Diagram, NamedParameter } from '../store/graph-bridge.ts';
@@ -74,6 +74,8 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
     </button>
   );
   const unit = p.unit ?? '';
+  // True while an arrow key is held down (auto-repeat): its nudges are one run whatever their pace.
+  const held = useRef(false);
   return (
     <li className={`param-row${active ? ' is-swept' : ''}`} aria-label={`parameter ${p.name}`}>
       <div className="param-line param-head">
@@ -127,8 +129,13 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
           aria-valuetext={`${p.name} = ${formatEngineering(p.value, { style: 'si', unit: unit || undefined })}`}
           title={`${p.name} = ${formatEngineering(p.value, { style: 'si', unit: unit || undefined })}`}
           value={sliderPos(p, lo, hi)}
-          onPointerDown={beginGesture}
+          onPointerDown={() => {
+            held.current = false;
+            beginGesture();
+          }}
           onPointerUp={endGesture}
+          onKeyDown={(e) => (held.current = e.repeat)}
+          onKeyUp={() => (held.current = false)}
           onBlur={() => {
             endGesture();
             endCoalescing();
@@ -136,7 +143,7 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
           // Keyboard nudges arrive here one by one: a run of them is one undo step.
           onChange={(e) => {
             const v = sliderValue(p, lo, hi, Number(e.target.value));
-            coalesced(`parameter-value:${p.name}`, () => st.setParameterValue(p.name, v));
+            coalesced(`parameter-value:${p.name}`, () => st.setParameterValue(p.name, v), { held: held.current });
           }}
         />
         <EngineeringInput className="range" optional label={`Slider maximum of ${p.name}`} unit={unit || undefined} value={p.max} onCommit={(v) => st.updateParameter(p.name, { max: v })} />

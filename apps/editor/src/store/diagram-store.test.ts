@@ -171,7 +171,7 @@ describe('runs of nudges', () => {
     st().addParameter({ name: 'K', value: 1 });
     const n = past();
     let t = 1000;
-    for (let v = 2; v <= 12; v++) coalesced('K', () => st().setParameterValue('K', v), (t += COALESCE_MS / 2));
+    for (let v = 2; v <= 12; v++) coalesced('K', () => st().setParameterValue('K', v), { now: (t += COALESCE_MS / 2) });
     expect(st().diagram.parameters[0].value).toBe(12);
     expect(past()).toBe(n + 1);
     undo();
@@ -184,13 +184,13 @@ describe('runs of nudges', () => {
     st().addParameter({ name: 'K', value: 1 });
     st().addParameter({ name: 'T', value: 1 });
     const n = past();
-    coalesced('K', () => st().setParameterValue('K', 2), 0);
-    coalesced('K', () => st().setParameterValue('K', 3), COALESCE_MS + 1); // too late
+    coalesced('K', () => st().setParameterValue('K', 2), { now: 0 });
+    coalesced('K', () => st().setParameterValue('K', 3), { now: COALESCE_MS + 1 }); // too late
     expect(past()).toBe(n + 2);
-    coalesced('T', () => st().setParameterValue('T', 2), COALESCE_MS + 2); // another key
+    coalesced('T', () => st().setParameterValue('T', 2), { now: COALESCE_MS + 2 }); // another key
     expect(past()).toBe(n + 3);
     st().setTitle('edited'); // another edit
-    coalesced('T', () => st().setParameterValue('T', 3), COALESCE_MS + 3);
+    coalesced('T', () => st().setParameterValue('T', 3), { now: COALESCE_MS + 3 });
     expect(past()).toBe(n + 5);
     undo();
     expect(st().diagram.parameters[1].value).toBe(2);
@@ -199,16 +199,28 @@ describe('runs of nudges', () => {
   it('a run that comes back to where it began leaves no undo step', () => {
     st().addParameter({ name: 'K', value: 1 });
     const n = past();
-    coalesced('K', () => st().setParameterValue('K', 2), 0);
-    coalesced('K', () => st().setParameterValue('K', 1), 10);
+    coalesced('K', () => st().setParameterValue('K', 2), { now: 0 });
+    coalesced('K', () => st().setParameterValue('K', 1), { now: 10 });
     expect(past()).toBe(n);
+  });
+
+  it('a held key continues its run however long the events take; a tap after a pause does not', () => {
+    st().addParameter({ name: 'K', value: 1 });
+    const n = past();
+    coalesced('K', () => st().setParameterValue('K', 2), { now: 0 });
+    for (let v = 3; v < 8; v++) coalesced('K', () => st().setParameterValue('K', v), { now: v * 10 * COALESCE_MS, held: true });
+    expect(past()).toBe(n + 1);
+    coalesced('K', () => st().setParameterValue('K', 9), { now: 100 * COALESCE_MS });
+    expect(past()).toBe(n + 2);
+    undo();
+    expect(st().diagram.parameters[0].value).toBe(7);
   });
 
   it('a call that changes nothing does not start a run', () => {
     st().addParameter({ name: 'K', value: 1 });
     const n = past();
-    coalesced('K', () => st().setParameterValue('K', 1), 0); // the same value again
-    coalesced('K', () => st().setParameterValue('K', 2), 10);
+    coalesced('K', () => st().setParameterValue('K', 1), { now: 0 }); // the same value again
+    coalesced('K', () => st().setParameterValue('K', 2), { now: 10 });
     expect(past()).toBe(n + 1);
     undo();
     expect(st().diagram.parameters[0].value).toBe(1);
@@ -218,9 +230,9 @@ describe('runs of nudges', () => {
     st().addParameter({ name: 'K', value: 1 });
     const n = past();
     beginGesture();
-    for (let v = 2; v < 6; v++) coalesced('K', () => st().setParameterValue('K', v), v);
+    for (let v = 2; v < 6; v++) coalesced('K', () => st().setParameterValue('K', v), { now: v });
     endGesture();
-    coalesced('K', () => st().setParameterValue('K', 9), 7);
+    coalesced('K', () => st().setParameterValue('K', 9), { now: 7 });
     expect(past()).toBe(n + 2);
   });
 });

@@ -371,13 +371,16 @@ export function endGesture(): void {
 /**
  * Runs of small edits as ONE undo step: arrow-key nudges of a slider, a block or a sweep value.
  * An edit made through `coalesced(key, …)` joins the previous one when it has the same key,
- * follows it within COALESCE_MS, and nothing else changed the document in between (another
- * edit, undo, redo or a load breaks the run). The history keeps the document from before the
- * run's first edit; a run that ends where it began leaves no entry at all.
+ * nothing else changed the document in between (another edit, undo, redo or a load breaks the
+ * run), and it follows within COALESCE_MS — or comes from a key held down (`held`: the
+ * keyboard's auto-repeat), which continues a run however slowly the machine delivers it. The
+ * history keeps the document from before the run's first edit; a run that ends where it began
+ * leaves no entry at all.
  */
-export const COALESCE_MS = 1000;
+export const COALESCE_MS = 1500;
 let run: { key: string; at: number; diagram: Diagram } | null = null;
-export function coalesced(key: string, fn: () => void, now: number = Date.now()): void {
+export function coalesced(key: string, fn: () => void, opts: { now?: number; held?: boolean } = {}): void {
+  const now = opts.now ?? Date.now();
   const before = useDiagramStore.getState().diagram;
   if (gestureStart) {
     // Inside a pointer gesture the gesture already makes one step.
@@ -385,7 +388,7 @@ export function coalesced(key: string, fn: () => void, now: number = Date.now())
     return;
   }
   const t = useDiagramStore.temporal;
-  const joining = run !== null && run.key === key && now - run.at < COALESCE_MS && run.diagram === before;
+  const joining = run !== null && run.key === key && (opts.held === true || now - run.at < COALESCE_MS) && run.diagram === before;
   if (joining) {
     t.getState().pause();
     try {
