@@ -63,6 +63,7 @@ async function toScreen(page: Page, p: Point): Promise<{ x: number; y: number }>
 
 /** Waits until the canvas stops moving (a fit after Tidy or a load runs a frame or two later). */
 async function viewSettled(page: Page) {
+  await page.waitForSelector('.canvas-box:not([data-fit-pending])', { timeout: 20_000 });
   const transform = () => page.evaluate(() => (document.querySelector('.react-flow__viewport') as HTMLElement).style.transform);
   let last = '';
   await expect

@@ -179,22 +179,22 @@ export function Canvas() {
 
   // Fit the whole drawing when asked (start, new, open, demo, Tidy, the Fit button), once the
   // blocks are measured and the wires drawn (their lanes extend the drawing).
+  // `fitted` is the last request served (-1: the fit at start is still to come); the canvas
+  // says `data-fit-pending` meanwhile, so a test (or anything else) can wait for the view to settle.
   const box = useRef<HTMLDivElement>(null);
   const initialized = useNodesInitialized();
-  const pendingFit = useRef(true);
+  const [fitted, setFitted] = useState(-1);
+  const fitPending = fitted !== fitRequest;
   useEffect(() => {
-    pendingFit.current = true;
-  }, [fitRequest]);
-  useEffect(() => {
-    if (!pendingFit.current || (!initialized && nodes.length > 0)) return;
+    if (!fitPending || (!initialized && nodes.length > 0)) return;
     let frame = requestAnimationFrame(() => {
       frame = requestAnimationFrame(() => {
-        pendingFit.current = false;
         fitAll(flow, box.current);
+        setFitted(fitRequest);
       });
     });
     return () => cancelAnimationFrame(frame);
-  }, [fitRequest, initialized, edges, flow, nodes.length]);
+  }, [fitPending, fitRequest, initialized, edges, flow, nodes.length]);
 
   /** The wire under a screen point that a block may go into (none attached to `except`). */
   const wireUnder = useCallback(
@@ -331,7 +331,7 @@ export function Canvas() {
   );
 
   return (
-    <div ref={box} className="canvas-box">
+    <div ref={box} className="canvas-box" data-fit-pending={fitPending || undefined}>
     <ReactFlow<BlockFlowNode, WireFlowEdge>
       nodes={nodes}
       edges={edges}

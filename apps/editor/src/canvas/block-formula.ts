@@ -2,6 +2,7 @@
  * What a block card shows: its formula as an expression text (rendered by Formula) built from
  * the block's own parameters, or a short caption for the nonlinear and signal blocks.
  */
+import { formatEngineering } from '@loopwright/lti';
 import type { Block } from '../store/graph-bridge.ts';
 
 /** A parameter value as a factor in a formula text: numbers compact, expressions bracketed. */
@@ -14,11 +15,9 @@ export function term(v: unknown): string | null {
   return `(${t})`;
 }
 
+/** A number on a card: 4 significant digits in engineering notation, as the Parameters panel shows it ("50e-6"). */
 export function compact(v: number): string {
-  if (v === 0) return '0';
-  const a = Math.abs(v);
-  if (a >= 1e-3 && a < 1e5) return String(Number(v.toPrecision(4)));
-  return v.toExponential(2).replace('e+', 'e');
+  return formatEngineering(v);
 }
 
 const isZero = (t: string | null) => t === null || (Number.isFinite(Number(t)) && Number(t) === 0);

@@ -23,5 +23,9 @@ describe('parseForDisplay', () => {
     const pid = cardContent({ id: 'p', kind: 'pid', position: { x: 0, y: 0 }, params: { form: 'ideal', kp: 'Kp', ti: 1.5, td: 0, n: 10, umin: '', umax: '' } });
     expect(pid.formula).toBe('Kp*(1 + 1/(1.5*s))');
     expect(parseForDisplay(pid.formula!)).not.toBeNull();
+    // Small and large numbers in engineering notation, still readable by the display parser.
+    const tiny = cardContent({ id: 'g', kind: 'first-order-lag', position: { x: 0, y: 0 }, params: { k: 2.5e-5, tau: 120000 } });
+    expect(tiny.formula).toBe('25e-6/(120e3*s + 1)');
+    expect(parseForDisplay(tiny.formula!)).not.toBeNull();
   });
 });
