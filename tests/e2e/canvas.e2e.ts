@@ -15,8 +15,7 @@ import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph'
 import { roundSignificant } from '@loopwright/lti';
 import { openEditor, screenshot, type EditorSession } from './harness.ts';
 import { getDiagram, getSelection, history, selectBlock, setField, wire } from './ui.ts';
-import { pathPoints, type Point } from '../../apps/editor/src/canvas/wire-geometry.ts';
-import { LANE_GAP } from '../../apps/editor/src/canvas/lanes.ts';
+import { LANE_GAP, pathPoints, type Point } from '@loopwright/editor/testing';
 
 interface Rect {
   left: number;
@@ -25,7 +24,8 @@ interface Rect {
   bottom: number;
 }
 const intersects = (a: Rect, b: Rect) => a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
-const inside = (a: Rect, outer: Rect, slack = 1) => a.left >= outer.left - slack && a.right <= outer.right + slack && a.top >= outer.top - slack && a.bottom <= outer.bottom + slack;
+const inside = (a: Rect, outer: Rect, slack = 1) =>
+  a.left >= outer.left - slack && a.right <= outer.right + slack && a.top >= outer.top - slack && a.bottom <= outer.bottom + slack;
 
 /** The drawn path of a wire, in flow units (the `d` WireEdge draws). */
 async function wirePath(page: Page, id: string): Promise<Point[]> {
@@ -40,7 +40,8 @@ function lane(pts: Point[]): { y: number; x0: number; x1: number } {
   for (let i = 0; i + 1 < pts.length; i++) {
     const a = pts[i];
     const b = pts[i + 1];
-    if (Math.abs(a.y - b.y) < 1e-6 && Math.abs(b.x - a.x) > best.x1 - best.x0) best = { y: a.y, x0: Math.min(a.x, b.x), x1: Math.max(a.x, b.x) };
+    if (Math.abs(a.y - b.y) < 1e-6 && Math.abs(b.x - a.x) > best.x1 - best.x0)
+      best = { y: a.y, x0: Math.min(a.x, b.x), x1: Math.max(a.x, b.x) };
   }
   return best;
 }
@@ -53,12 +54,15 @@ async function pointOnWire(page: Page, id: string, f: number): Promise<{ x: numb
 
 /** Flow coordinates → page coordinates, through the viewport transform React Flow applies. */
 async function toScreen(page: Page, p: Point): Promise<{ x: number; y: number }> {
-  return page.evaluate(([x, y]) => {
-    const vp = document.querySelector('.react-flow__viewport') as HTMLElement;
-    const m = new DOMMatrix(getComputedStyle(vp).transform);
-    const r = (document.querySelector('.react-flow') as HTMLElement).getBoundingClientRect();
-    return { x: r.left + m.a * x + m.e, y: r.top + m.d * y + m.f };
-  }, [p.x, p.y]);
+  return page.evaluate(
+    ([x, y]) => {
+      const vp = document.querySelector('.react-flow__viewport') as HTMLElement;
+      const m = new DOMMatrix(getComputedStyle(vp).transform);
+      const r = (document.querySelector('.react-flow') as HTMLElement).getBoundingClientRect();
+      return { x: r.left + m.a * x + m.e, y: r.top + m.d * y + m.f };
+    },
+    [p.x, p.y],
+  );
 }
 
 /** Waits until the canvas stops moving (a fit after Tidy or a load runs a frame or two later). */
@@ -67,20 +71,25 @@ async function viewSettled(page: Page) {
   const transform = () => page.evaluate(() => (document.querySelector('.react-flow__viewport') as HTMLElement).style.transform);
   let last = '';
   await expect
-    .poll(async () => {
-      const now = await transform();
-      const same = now === last;
-      last = now;
-      return same;
-    }, { interval: 250 })
+    .poll(
+      async () => {
+        const now = await transform();
+        const same = now === last;
+        last = now;
+        return same;
+      },
+      { interval: 250 },
+    )
     .toBe(true);
 }
 
 const rectOf = (page: Page, selector: string) =>
-  page.locator(selector).evaluateAll((els) => els.map((e) => {
-    const r = e.getBoundingClientRect();
-    return { left: r.left, top: r.top, right: r.right, bottom: r.bottom };
-  }));
+  page.locator(selector).evaluateAll((els) =>
+    els.map((e) => {
+      const r = e.getBoundingClientRect();
+      return { left: r.left, top: r.top, right: r.right, bottom: r.bottom };
+    }),
+  );
 
 /** Everything drawn on the canvas (cards, junctions, wires, cut markers) lies inside the canvas. */
 async function expectAllInView(page: Page, what: string) {
@@ -143,7 +152,20 @@ describe('canvas: a three-loop cascade built through the UI', () => {
   it('builds it with Parts, the mouse and Tidy; nested feedback wires get separate lanes and their cut markers stay apart', async () => {
     await page.getByRole('button', { name: 'New diagram' }).click();
     await viewSettled(page);
-    const parts = ['Source', 'Summing junction', 'Gain', 'Summing junction', 'PID controller', 'Summing junction', 'PID controller', 'First-order lag', 'Gain', 'First-order lag', 'Integrator', 'Probe'];
+    const parts = [
+      'Source',
+      'Summing junction',
+      'Gain',
+      'Summing junction',
+      'PID controller',
+      'Summing junction',
+      'PID controller',
+      'First-order lag',
+      'Gain',
+      'First-order lag',
+      'Integrator',
+      'Probe',
+    ];
     for (const p of parts) await page.getByRole('button', { name: `Add ${p}`, exact: true }).click();
     await page.getByRole('button', { name: 'Fit to view' }).click();
     await page.waitForTimeout(300);
@@ -170,7 +192,13 @@ describe('canvas: a three-loop cascade built through the UI', () => {
     await setField(page, 'Label', 'speed controller (PI) with a deliberately long label');
 
     await page.getByRole('button', { name: 'Tidy layout' }).click();
-    await expect.poll(async () => (await getDiagram(page)).blocks.find((b) => b.id === 'probe1')!.position.x > (await getDiagram(page)).blocks.find((b) => b.id === 'src1')!.position.x).toBe(true);
+    await expect
+      .poll(
+        async () =>
+          (await getDiagram(page)).blocks.find((b) => b.id === 'probe1')!.position.x >
+          (await getDiagram(page)).blocks.find((b) => b.id === 'src1')!.position.x,
+      )
+      .toBe(true);
     await page.waitForTimeout(300);
     await viewSettled(page);
 
@@ -183,7 +211,11 @@ describe('canvas: a three-loop cascade built through the UI', () => {
       await setField(page, 'Cut label', `${name} loop`);
     }
     d = await getDiagram(page);
-    expect(d.cuts.map((c) => `${c.wire}:${c.label}`)).toEqual([`${FEEDBACK.current}:current loop`, `${FEEDBACK.speed}:speed loop`, `${FEEDBACK.position}:position loop`]);
+    expect(d.cuts.map((c) => `${c.wire}:${c.label}`)).toEqual([
+      `${FEEDBACK.current}:current loop`,
+      `${FEEDBACK.speed}:speed loop`,
+      `${FEEDBACK.position}:position loop`,
+    ]);
     await page.locator('.react-flow__pane').click({ position: { x: 5, y: 5 } });
     await page.waitForTimeout(300);
 
@@ -221,12 +253,17 @@ describe('canvas: a three-loop cascade built through the UI', () => {
     for (const [name, l] of Object.entries(lanes)) {
       const a = await toScreen(page, { x: l.x0, y: l.y });
       const b = await toScreen(page, { x: l.x1, y: l.y });
-      for (const c of cards) expect(intersects({ left: a.x, right: b.x, top: a.y - 0.5, bottom: a.y + 0.5 }, c), `${when}: ${name} lane through a card`).toBe(false);
+      for (const c of cards)
+        expect(intersects({ left: a.x, right: b.x, top: a.y - 0.5, bottom: a.y + 0.5 }, c), `${when}: ${name} lane through a card`).toBe(
+          false,
+        );
     }
     // The cut markers do not touch.
     const markers = await rectOf(page, '.lw-cut');
     expect(markers).toHaveLength(3);
-    for (let i = 0; i < markers.length; i++) for (let j = i + 1; j < markers.length; j++) expect(intersects(markers[i], markers[j]), `${when}: cut markers ${i} and ${j} overlap`).toBe(false);
+    for (let i = 0; i < markers.length; i++)
+      for (let j = i + 1; j < markers.length; j++)
+        expect(intersects(markers[i], markers[j]), `${when}: cut markers ${i} and ${j} overlap`).toBe(false);
   }
 
   it('a relabelled block keeps its size: the long label is cut short, in full on hover', async () => {
@@ -260,15 +297,18 @@ describe('canvas: a three-loop cascade built through the UI', () => {
     const at = await pointOnWire(page, FEEDBACK.speed, 0.2);
     const pane = page.locator('.react-flow__pane');
     const box = (await pane.boundingBox())!;
-    await page.getByRole('button', { name: 'Add First-order lag', exact: true }).dragTo(pane, { targetPosition: { x: at.x - box.x, y: at.y - box.y } });
+    await page
+      .getByRole('button', { name: 'Add First-order lag', exact: true })
+      .dragTo(pane, { targetPosition: { x: at.x - box.x, y: at.y - box.y } });
     await expect.poll(async () => (await getDiagram(page)).blocks.length).toBe(before.blocks.length + 1);
     let d = await getDiagram(page);
     expect((await history(page)).past).toBe(h + 1);
     const lag = d.blocks.at(-1)!.id;
-    expect(d.wires.filter((w) => w.from.block === lag || w.to.block === lag).map((w) => `${w.id}:${w.from.block}.${w.from.port}->${w.to.block}.${w.to.port}`)).toEqual([
-      `${FEEDBACK.speed}:lag2.out->${lag}.in`,
-      `w15:${lag}.out->sum2.in2`,
-    ]);
+    expect(
+      d.wires
+        .filter((w) => w.from.block === lag || w.to.block === lag)
+        .map((w) => `${w.id}:${w.from.block}.${w.from.port}->${w.to.block}.${w.to.port}`),
+    ).toEqual([`${FEEDBACK.speed}:lag2.out->${lag}.in`, `w15:${lag}.out->sum2.in2`]);
     expect(d.cuts.find((c) => c.label === 'speed loop')!.wire).toBe(FEEDBACK.speed);
     await page.waitForTimeout(300);
     await screenshot(page, 'canvas-dropped-on-wire');
@@ -307,7 +347,10 @@ describe('canvas: a three-loop cascade built through the UI', () => {
     await page.mouse.up();
     await expect.poll(async () => (await getDiagram(page)).wires.length).toBe(before.wires.length + 1);
     const d = await getDiagram(page);
-    expect(d.wires.filter((w) => w.from.block === g || w.to.block === g).map((w) => `${w.from.block}->${w.to.block}`)).toEqual([`gain2->${g}`, `${g}->lag2`]);
+    expect(d.wires.filter((w) => w.from.block === g || w.to.block === g).map((w) => `${w.from.block}->${w.to.block}`)).toEqual([
+      `gain2->${g}`,
+      `${g}->lag2`,
+    ]);
     expect((await history(page)).past).toBe(h + 1);
     expect(await page.locator('.is-drop-target').count()).toBe(0);
     await page.keyboard.press('Control+z');
@@ -416,7 +459,18 @@ describe('canvas: a three-loop cascade built through the UI', () => {
   it('the built cascade is a valid document', async () => {
     const d = await getDiagram(page);
     expect(d.blocks.map((b) => b.kind)).toEqual([
-      'source', 'summing-junction', 'gain', 'summing-junction', 'pid', 'summing-junction', 'pid', 'first-order-lag', 'gain', 'first-order-lag', 'integrator', 'probe',
+      'source',
+      'summing-junction',
+      'gain',
+      'summing-junction',
+      'pid',
+      'summing-junction',
+      'pid',
+      'first-order-lag',
+      'gain',
+      'first-order-lag',
+      'integrator',
+      'probe',
     ]);
     expect(d.cuts).toHaveLength(3);
     expect(JSON.parse(serializeDiagram(d))).toBeTruthy();
@@ -426,10 +480,17 @@ describe('canvas: a three-loop cascade built through the UI', () => {
 describe('autosave that cannot be loaded', () => {
   const downloads = mkdtempSync(join(tmpdir(), 'loopwright-kept-dl-'));
   afterAll(() => rmSync(downloads, { recursive: true, force: true }));
-  const newer = () => serializeDiagram({ ...demo('heating-cascade'), title: 'my work from a newer version' }).replace(/"version": *\d+/, '"version": 99');
+  const newer = () =>
+    serializeDiagram({ ...demo('heating-cascade'), title: 'my work from a newer version' }).replace(/"version": *\d+/, '"version": 99');
   const damaged = () => serializeDiagram({ ...demo('heating-cascade'), title: 'my damaged work' }).slice(0, 900);
   const storage = (p: Page) =>
-    p.evaluate(() => Object.fromEntries(Object.keys(localStorage).filter((k) => k.startsWith('loopwright.autosave')).map((k) => [k, localStorage.getItem(k)])));
+    p.evaluate(() =>
+      Object.fromEntries(
+        Object.keys(localStorage)
+          .filter((k) => k.startsWith('loopwright.autosave'))
+          .map((k) => [k, localStorage.getItem(k)]),
+      ),
+    );
 
   for (const [what, text] of [
     ['written by a newer version', newer],
@@ -463,7 +524,10 @@ describe('autosave that cannot be loaded', () => {
         expect(st[kept]).toBe(original);
         expect(JSON.parse(st['loopwright.autosave']!).title).toBe('demo, edited');
         // Download: the kept text byte for byte.
-        const [download] = await Promise.all([p.waitForEvent('download'), notice.getByRole('button', { name: 'Download the unreadable autosave' }).click()]);
+        const [download] = await Promise.all([
+          p.waitForEvent('download'),
+          notice.getByRole('button', { name: 'Download the unreadable autosave' }).click(),
+        ]);
         const path = join(downloads, download.suggestedFilename());
         await download.saveAs(path);
         expect(download.suggestedFilename()).toMatch(/^unreadable-autosave-.*\.loop\.json$/);

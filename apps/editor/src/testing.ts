@@ -3,3 +3,6 @@
 export { computeReply } from './worker/compute.ts';
 export { channelStudies, type AnalysisInputs } from './analysis/driver.ts';
 export type { Channel } from './worker/protocol.ts';
+// Canvas geometry the browser tests read wires with: the drawn path's corner points and the lane spacing.
+export { pathPoints, type Point } from './canvas/wire-geometry.ts';
+export { LANE_GAP } from './canvas/lanes.ts';

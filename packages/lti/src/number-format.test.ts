@@ -21,7 +21,11 @@ describe('roundSignificant', () => {
     expect(roundSignificant(-2.5, 1)).toBe(-3);
     expect(roundSignificant(9.9996, 4)).toBe(10);
     fc.assert(
-      fc.property(fc.double({ min: -1e300, max: 1e300, noNaN: true }), fc.integer({ min: 1, max: 15 }), (v, n) => roundSignificant(v, n) === Number(mathFormat(v, { precision: n }))),
+      fc.property(
+        fc.double({ min: -1e300, max: 1e300, noNaN: true }),
+        fc.integer({ min: 1, max: 15 }),
+        (v, n) => roundSignificant(v, n) === Number(mathFormat(v, { precision: n })),
+      ),
     );
   });
 
@@ -86,15 +90,19 @@ describe('formatEngineering', () => {
   it('mantissa and exponent agree with mathjs engineering notation for any double', () => {
     // Reference: mathjs format(v, { notation: 'engineering', precision }) (npm).
     fc.assert(
-      fc.property(fc.double({ min: -1e40, max: 1e40, noNaN: true }).filter((v) => v !== 0), fc.integer({ min: 1, max: 10 }), (v, n) => {
-        const text = formatEngineering(v, { digits: n });
-        const ref = mathjsEngineering(v, n);
-        // The same number; in exponent form also the same mantissa and exponent (the plain range drops the exponent).
-        const same = Number(text) === Number(`${ref.mantissa}e${ref.exp}`);
-        if (!text.includes('e')) return same && Math.abs(v) >= 1e-3 && Math.abs(v) < 1e4;
-        const [m, e] = text.split('e');
-        return same && Number(m) === ref.mantissa && Number(e) === ref.exp;
-      }),
+      fc.property(
+        fc.double({ min: -1e40, max: 1e40, noNaN: true }).filter((v) => v !== 0),
+        fc.integer({ min: 1, max: 10 }),
+        (v, n) => {
+          const text = formatEngineering(v, { digits: n });
+          const ref = mathjsEngineering(v, n);
+          // The same number; in exponent form also the same mantissa and exponent (the plain range drops the exponent).
+          const same = Number(text) === Number(`${ref.mantissa}e${ref.exp}`);
+          if (!text.includes('e')) return same && Math.abs(v) >= 1e-3 && Math.abs(v) < 1e4;
+          const [m, e] = text.split('e');
+          return same && Number(m) === ref.mantissa && Number(e) === ref.exp;
+        },
+      ),
     );
   });
 

@@ -146,15 +146,21 @@ export function parseEngineering(text: string, opts: { unit?: string; field?: st
     const prefix = SI_PREFIXES.find((x) => x.symbol !== '' && x.symbol === symbol);
     if (!prefix) {
       at += spaces;
-      throw new InputError(`${field}: "${rest}" in "${text}" is not an SI prefix (f p n µ m k M G T P)${unit ? ` or the unit ${unit}` : ''}`, {
-        field,
-        position: at,
-        length: rest.length,
-      });
+      throw new InputError(
+        `${field}: "${rest}" in "${text}" is not an SI prefix (f p n µ m k M G T P)${unit ? ` or the unit ${unit}` : ''}`,
+        {
+          field,
+          position: at,
+          length: rest.length,
+        },
+      );
     }
     // Scale through the decimal string so "50µ" is exactly 5e-5 (50 * 1e-6 is 4.9999999999999996e-5).
-    value = Number(`${m[0]}e${prefix.exponent}`.replace(/[eE]([+-]?\d+)e(-?\d+)$/, (_all, a: string, b: string) => `e${Number(a) + Number(b)}`));
+    value = Number(
+      `${m[0]}e${prefix.exponent}`.replace(/[eE]([+-]?\d+)e(-?\d+)$/, (_all, a: string, b: string) => `e${Number(a) + Number(b)}`),
+    );
   }
-  if (!Number.isFinite(value)) throw new InputError(`${field}: "${text}" is out of the range of numbers`, { field, position: lead, length: m[0].length });
+  if (!Number.isFinite(value))
+    throw new InputError(`${field}: "${text}" is out of the range of numbers`, { field, position: lead, length: m[0].length });
   return value;
 }

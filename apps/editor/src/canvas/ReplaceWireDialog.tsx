@@ -29,8 +29,8 @@ export function ReplaceWireDialog() {
         <>
           <h2>Input already connected</h2>
           <p>
-            Input <b className="mono">{pending.to.port}</b> of <b>{name(diagram, pending.to.block)}</b> takes one wire and already
-            has one, from <b>{name(diagram, existing.from.block)}</b> <span className="mono">.{existing.from.port}</span> (wire{' '}
+            Input <b className="mono">{pending.to.port}</b> of <b>{name(diagram, pending.to.block)}</b> takes one wire and already has one,
+            from <b>{name(diagram, existing.from.block)}</b> <span className="mono">.{existing.from.port}</span> (wire{' '}
             <span className="mono">{existing.id}</span>).
           </p>
           <p>

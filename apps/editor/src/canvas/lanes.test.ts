@@ -42,7 +42,8 @@ describe('assignLanes', () => {
     // No lane within CLEAR of a block it passes.
     for (const [id, y] of lanes) {
       const r = runs.find((x) => x.id === id)!;
-      for (const b of blocks) if (b.x < r.x1 && r.x0 < b.x + b.width) expect(y <= b.y - CLEAR + 1 || y >= b.y + b.height + CLEAR - 1).toBe(true);
+      for (const b of blocks)
+        if (b.x < r.x1 && r.x0 < b.x + b.width) expect(y <= b.y - CLEAR + 1 || y >= b.y + b.height + CLEAR - 1).toBe(true);
     }
   });
 

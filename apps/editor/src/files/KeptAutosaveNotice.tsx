@@ -23,13 +23,13 @@ export function KeptAutosaveNotice() {
   return (
     <div className="notice warning kept-notice" role="alertdialog" aria-label="Unreadable autosave kept aside" data-kept-key={item.key}>
       <div className="notice-title">The diagram saved in this browser could not be opened.</div>
-      <p className="small">
-        Reason: {item.reason}
-      </p>
+      <p className="small">Reason: {item.reason}</p>
       <p className="small">
         It is kept aside unchanged ({sizeText(item.size)}
         {item.keptAt !== null && `, kept ${new Date(item.keptAt).toLocaleString()}`}) and nothing will overwrite it.
-        {paused && item.key === AUTOSAVE_KEY ? ' Autosave is paused until you download or discard it.' : ' The demo is open meanwhile; your edits are saved as usual.'}
+        {paused && item.key === AUTOSAVE_KEY
+          ? ' Autosave is paused until you download or discard it.'
+          : ' The demo is open meanwhile; your edits are saved as usual.'}
         {more > 0 && ` ${more} more kept text${more > 1 ? 's' : ''} after this one.`}
       </p>
       <div className="kept-buttons">
@@ -67,7 +67,12 @@ export function KeptAutosaveNotice() {
             Discard…
           </button>
         )}
-        <button type="button" aria-label="Decide later" title="Hide this notice until the next start; the text stays kept" onClick={() => setHidden((h) => [...h, item.key])}>
+        <button
+          type="button"
+          aria-label="Decide later"
+          title="Hide this notice until the next start; the text stays kept"
+          onClick={() => setHidden((h) => [...h, item.key])}
+        >
           Later
         </button>
       </div>

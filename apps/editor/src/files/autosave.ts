@@ -55,7 +55,12 @@ function scanKept(s: StorageLike, paused: boolean, pausedReason: string): KeptAu
     if (!k || !k.startsWith(KEPT_PREFIX) || k.endsWith(REASON_SUFFIX)) continue;
     const text = s.getItem(k) ?? '';
     const t = Number(k.slice(KEPT_PREFIX.length));
-    out.push({ key: k, reason: s.getItem(k + REASON_SUFFIX) ?? 'it could not be read', keptAt: Number.isFinite(t) ? t : null, size: text.length });
+    out.push({
+      key: k,
+      reason: s.getItem(k + REASON_SUFFIX) ?? 'it could not be read',
+      keptAt: Number.isFinite(t) ? t : null,
+      size: text.length,
+    });
   }
   out.sort((a, b) => (a.keptAt ?? 0) - (b.keptAt ?? 0));
   if (paused) out.push({ key: AUTOSAVE_KEY, reason: pausedReason, keptAt: null, size: s.getItem(AUTOSAVE_KEY)?.length ?? 0 });
