@@ -6,3 +6,4 @@ export type { Channel } from './worker/protocol.ts';
 // Canvas geometry the browser tests read wires with: the drawn path's corner points and the lane spacing.
 export { pathPoints, type Point } from './canvas/wire-geometry.ts';
 export { LANE_GAP } from './canvas/lanes.ts';
+export { feedbackLanes, type Box } from './canvas/lanes.ts';
