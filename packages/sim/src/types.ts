@@ -25,6 +25,11 @@ export interface SimulateOptions {
   metricsFor?: string[];
   /** Passed to lti responseMetrics (settling band, reference, …). */
   metricsOptions?: MetricsOptions;
+  /**
+   * Which engine moves the state: 'exact' (piecewise-affine stepping by matrix exponentials),
+   * 'odex' (extrapolation integrator), or 'auto' (default: exact whenever it applies, see the README).
+   */
+  engine?: 'auto' | 'exact' | 'odex';
   /** Called with the fraction of simulated time done (0..1), at most about every 1 %. */
   onProgress?: (fraction: number) => void;
   /** Polled during the run; returning true ends it with status 'cancelled' and the partial traces. */
@@ -52,12 +57,15 @@ export interface ActuatorFigures {
 }
 
 export interface SimStats {
+  /** Steps of the engine (exact: exact steps; odex: integrator steps, rejected ones included). */
   steps: number;
   accepted: number;
   rejected: number;
   evaluations: number;
   segments: number;
   wallMs: number;
+  /** Exact engine only: distinct mode combinations met, matrix exponentials computed, quiescence jumps taken. */
+  exact?: { modes: number; exponentials: number; jumps: number };
 }
 
 export interface SimResult {
@@ -71,8 +79,15 @@ export interface SimResult {
   message: string;
   /** Simulated time reached (= until when status is 'ok'). */
   timeReached: number;
-  /** Response metrics per probe (lti responseMetrics), computed from the traces. */
+  /**
+   * Response metrics per probe (lti responseMetrics), computed from the traces: peaks from the
+   * samples and the exactly located turning points (never interpolated across an event or a
+   * breakpoint); figures relative to the final value are null, with a reason, when the run did
+   * not complete or the final value hardly differs from the initial one.
+   */
   metrics: Record<string, ResponseMetrics | null>;
+  /** The engine that moved the state. */
+  engine: 'exact' | 'odex';
   /** Per limiting block id. */
   actuators: Record<string, ActuatorFigures>;
   stats: SimStats;

@@ -37,21 +37,28 @@ export function sourceValue(s: SourceParams, t: number, piece: number): number {
   }
 }
 
-/** Times in (0, until) where the waveform or its slope jumps. */
-export function sourceBreakpoints(s: SourceParams, until: number, cap = 100000): number[] {
-  const out: number[] = [];
-  if (s.shape !== SHAPE_PULSE) {
-    if (s.start > 0 && s.start < until) out.push(s.start);
-    return out;
-  }
-  for (let k = 0; out.length < cap; k++) {
+/**
+ * The first time after `after` (by more than `tol`) where the waveform or its slope jumps, or
+ * Infinity. Edges are generated one at a time from their formula (start + k·period, no
+ * accumulated sums), so a pulse train of any length costs nothing in advance and has no cap.
+ */
+export function nextSourceEdge(s: SourceParams, after: number, tol: number): number {
+  const past = (e: number) => e > after + tol;
+  // a pulse at least as wide as its period is a step
+  if (s.shape !== SHAPE_PULSE || s.width >= s.period) return s.start > 0 && past(s.start) ? s.start : Infinity;
+  if (past(s.start)) return s.start > 0 ? s.start : firstAfterStart(s, after, tol);
+  return firstAfterStart(s, after, tol);
+}
+
+function firstAfterStart(s: SourceParams, after: number, tol: number): number {
+  const k0 = Math.max(0, Math.floor((after - s.start) / s.period) - 1);
+  for (let k = k0; k < k0 + 4; k++) {
     const rise = s.start + k * s.period;
-    if (rise >= until) break;
-    if (rise > 0) out.push(rise);
+    if (rise > 0 && rise > after + tol) return rise;
     const fall = rise + s.width;
-    if (s.width < s.period && fall < until) out.push(fall);
+    if (fall > 0 && fall > after + tol) return fall;
   }
-  return out;
+  return Infinity;
 }
 
 export function shapeCode(shape: string): number {

@@ -1,0 +1,85 @@
+import { type SignalHistory, pieceAt } from '../history.ts';
+
+/**
+ * The recorded past of one dead time's input signal in the exact engine: one quintic Hermite
+ * piece per step, matching the exact value, slope and curvature at both ends of the step (all
+ * three are linear functionals of the exact state). Inside a piece the error is at most
+ * |y⁽⁶⁾|·h⁶/46080 (the two-point Hermite remainder y⁽⁶⁾(ξ)/6!·s³(h − s)³), i.e. order 6;
+ * a signal that is a polynomial of degree ≤ 5 over the step is kept exactly.
+ * Stored as monomial coefficients in s = (τ − a)/(b − a) for a five-multiply Horner evaluation.
+ */
+const NC = 6;
+
+export class HermiteHistory implements SignalHistory {
+  private starts: number[] = [];
+  private ends: number[] = [];
+  private coef = new Float64Array(NC * 256);
+  private count = 0;
+  private cursor = 0;
+  maxAbs = 0;
+  /** Changes smaller than this count as still (quiescence). */
+  quietTol = 0;
+  /** Value the signal has stayed near, and the end of the last piece that moved away from it. */
+  private ref = 0;
+  private movedAt = 0;
+
+  /** Appends [a, b] from the value, slope and second derivative at each end (right limits at a, left limits at b). */
+  push(a: number, b: number, y0: number, d0: number, e0: number, y1: number, d1: number, e1: number): void {
+    const h = b - a;
+    if (!(h > 0)) return;
+    if ((this.count + 1) * NC > this.coef.length) {
+      const bigger = new Float64Array(this.coef.length * 2);
+      bigger.set(this.coef);
+      this.coef = bigger;
+    }
+    const D0 = d0 * h;
+    const E0 = e0 * h * h;
+    const D1 = d1 * h;
+    const E1 = e1 * h * h;
+    const o = this.count * NC;
+    const c = this.coef;
+    c[o] = y0;
+    c[o + 1] = D0;
+    c[o + 2] = 0.5 * E0;
+    c[o + 3] = -10 * y0 - 6 * D0 - 1.5 * E0 + 10 * y1 - 4 * D1 + 0.5 * E1;
+    c[o + 4] = 15 * y0 + 8 * D0 + 1.5 * E0 - 15 * y1 + 7 * D1 - E1;
+    c[o + 5] = -6 * y0 - 3 * D0 - 0.5 * E0 + 6 * y1 - 3 * D1 + 0.5 * E1;
+    this.starts.push(a);
+    this.ends.push(b);
+    this.count++;
+    const m = Math.max(Math.abs(y0), Math.abs(y1));
+    if (m > this.maxAbs) this.maxAbs = m;
+    const tol = this.quietTol;
+    // the slope and curvature terms bound how far the piece strays between its ends
+    if (Math.abs(y0 - this.ref) > tol || Math.abs(y1 - this.ref) > tol || Math.abs(D0) + Math.abs(E0) > tol || Math.abs(D1) + Math.abs(E1) > tol) {
+      this.ref = y1;
+      this.movedAt = b;
+    }
+  }
+
+  /** Appends a constant piece (a quiescence jump). */
+  pushConstant(a: number, b: number, v: number): void {
+    this.push(a, b, v, 0, 0, v, 0, 0);
+  }
+
+  steadyOver(since: number): boolean {
+    return this.count > 0 && this.movedAt <= since;
+  }
+
+  value(tau: number, bias: number): number {
+    const n = this.count;
+    if (n === 0) return 0;
+    const k = pieceAt(this.starts, this.ends, n, this.cursor, tau, bias);
+    if (k === -1) return 0;
+    // past the end: never read by the exact engine (steps are at most the dead time); hold the last value
+    const kk = k === -2 ? n - 1 : k;
+    this.cursor = kk;
+    const a = this.starts[kk];
+    let s = (tau - a) / (this.ends[kk] - a);
+    if (s < 0) s = 0;
+    else if (s > 1) s = 1;
+    const o = kk * NC;
+    const c = this.coef;
+    return c[o] + s * (c[o + 1] + s * (c[o + 2] + s * (c[o + 3] + s * (c[o + 4] + s * c[o + 5]))));
+  }
+}

@@ -1,0 +1,87 @@
+import type { CompiledBlock } from '../compile.ts';
+import { defineOp, type SimNode } from './node.ts';
+import type { BuildContext } from './registry-types.ts';
+
+/**
+ * Dead time: y(t) = u(t − T), read from the recorded history of u (history.ts); before t = 0
+ * the system is at rest. A dead time of 0 passes its input through (and so is feedthrough).
+ *
+ * In the exact engine the delayed input over a step [t, t + h] (h ≤ T, so it is all recorded)
+ * is one polynomial of degree 5: the interpolant of the history at the six Chebyshev–Lobatto
+ * points of the window [t − T, t − T + h]. It enters the exact solution as a chain exosystem
+ * (value, slope, …, fifth derivative, whose derivative is 0), so the step integrates it exactly.
+ * A signal that is a polynomial of degree ≤ 5 over the window is reproduced exactly; otherwise
+ * the error is of order h⁶ (interpolation at Chebyshev–Lobatto points). Windows never straddle
+ * a recorded jump or kink: those are breakpoints carried forward through the dead time.
+ */
+export const WINDOW_TERMS = 6;
+
+/** Lobatto nodes on [0, 1] and the map from values at them to Taylor coefficients k!·a_k of the interpolant at 0. */
+const NODES = Float64Array.from({ length: WINDOW_TERMS }, (_, i) => (1 - Math.cos((Math.PI * i) / (WINDOW_TERMS - 1))) / 2);
+NODES[0] = 0;
+NODES[WINDOW_TERMS - 1] = 1;
+const TAYLOR = taylorMap(NODES);
+
+function taylorMap(c: Float64Array): Float64Array {
+  const n = c.length;
+  // invert the Vandermonde matrix V[i][k] = c_i^k by Gauss–Jordan (n = 6: exact enough, done once)
+  const a = new Float64Array(n * 2 * n);
+  for (let i = 0; i < n; i++) {
+    for (let k = 0; k < n; k++) a[i * 2 * n + k] = c[i] ** k;
+    a[i * 2 * n + n + i] = 1;
+  }
+  for (let col = 0; col < n; col++) {
+    let piv = col;
+    for (let r = col + 1; r < n; r++) if (Math.abs(a[r * 2 * n + col]) > Math.abs(a[piv * 2 * n + col])) piv = r;
+    for (let k = 0; k < 2 * n; k++) [a[col * 2 * n + k], a[piv * 2 * n + k]] = [a[piv * 2 * n + k], a[col * 2 * n + k]];
+    const d = a[col * 2 * n + col];
+    for (let k = 0; k < 2 * n; k++) a[col * 2 * n + k] /= d;
+    for (let r = 0; r < n; r++) {
+      if (r === col) continue;
+      const f = a[r * 2 * n + col];
+      if (f !== 0) for (let k = 0; k < 2 * n; k++) a[r * 2 * n + k] -= f * a[col * 2 * n + k];
+    }
+  }
+  // row k of V⁻¹ gives a_k; the k-th derivative at 0 is k!·a_k
+  const out = new Float64Array(n * n);
+  let fact = 1;
+  for (let k = 0; k < n; k++) {
+    if (k > 0) fact *= k;
+    for (let i = 0; i < n; i++) out[k * n + i] = fact * a[k * 2 * n + n + i];
+  }
+  return out;
+}
+
+const window = new Float64Array(WINDOW_TERMS);
+
+export const delayOp = defineOp({
+  name: 'dead-time',
+  output: (nd, t, _x, sig, piece) => (nd.delay === 0 ? sig[nd.in0] : nd.hist!.value(t - nd.delay, piece - nd.delay)),
+  exoSize: (nd) => (nd.delay > 0 ? WINDOW_TERMS : 0),
+  exoGenerator: (_nd, M, N, at) => {
+    for (let k = 0; k + 1 < WINDOW_TERMS; k++) M[(at + k) * N + at + k + 1] = 1;
+  },
+  exoState: (nd, t, h, piece, z, at) => {
+    const hist = nd.hist!;
+    const a = t - nd.delay;
+    const bias = piece - nd.delay;
+    for (let i = 0; i < WINDOW_TERMS; i++) window[i] = hist.value(a + NODES[i] * h, bias);
+    let scale = 1;
+    for (let k = 0; k < WINDOW_TERMS; k++) {
+      let acc = 0;
+      for (let i = 0; i < WINDOW_TERMS; i++) acc += TAYLOR[k * WINDOW_TERMS + i] * window[i];
+      z[at + k] = acc / scale;
+      scale *= h;
+    }
+  },
+  steady: (nd, t) => nd.delay === 0 || nd.hist!.steadyOver(t - nd.delay),
+});
+
+/** The dead-time node of block cb (its input: the block's input); returns it so a linear part can follow. */
+export function buildDelay(cb: CompiledBlock, delay: number, ctx: BuildContext): SimNode {
+  const nd = ctx.add(delayOp, cb);
+  nd.delay = delay;
+  nd.feedthrough = delay === 0;
+  ctx.wire(nd, cb.inputs);
+  return nd;
+}
