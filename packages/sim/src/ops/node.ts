@@ -106,6 +106,12 @@ export interface Op {
   eventKind(nd: SimNode, mode: number): string;
   /** Reports actuator figures (time at a limit, peak effort, limit hits). */
   readonly actuator: boolean;
+  /**
+   * Within each mode the output and state derivatives are affine in the states and inputs (true
+   * for every operation of the catalogue): the exact engine applies. An operation that is not
+   * (a smooth nonlinearity) sets false, and such diagrams run on odex.
+   */
+  readonly affine: boolean;
   /** Exact engine: size of the exosystem block that generates this node's output (0: none). */
   exoSize(nd: SimNode): number;
   /**
@@ -144,6 +150,7 @@ export function defineOp(parts: OpParts): Op {
     sync: parts.sync ?? none,
     eventKind: parts.eventKind ?? (() => 'mode'),
     actuator: parts.actuator ?? false,
+    affine: parts.affine ?? true,
     exoSize: parts.exoSize ?? noExo,
     exoGenerator: parts.exoGenerator ?? none,
     exoState: parts.exoState ?? none,

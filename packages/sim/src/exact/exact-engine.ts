@@ -1,0 +1,478 @@
+import { fmt } from '../options.ts';
+import { GUARD_TOL } from '../odex/odex-engine.ts';
+import type { RunState, SegmentEngine, SegmentOutcome } from '../run-state.ts';
+import { HermiteHistory } from './hermite-history.ts';
+import { matvec } from './ladder.ts';
+import { type Layout, ModeSystem, type Watch, layoutOf, matvecRect, rowDot } from './mode-system.ts';
+import { TurningPoints } from './turning-points.ts';
+
+/** The quiescence test allows a drift of this fraction of the tolerance (atol + rtol·size) over the jump. */
+const QUIET = 1e-2;
+
+/**
+ * The exact engine. Within one mode every operation of the catalogue is affine, so between
+ * events the state z = [x | 1 | exosystems] moves by ż = M·z exactly: z(t + h) = e^(M·h)·z(t).
+ * Steps lie on a lattice h0 = dt/m (m the smallest count with h0 ≤ every dead time), so the
+ * output grid is on it and one cached Φ = e^(M·h0) per mode serves almost every step; odd steps
+ * (after an event, up to a breakpoint), event location and turning points use the mode's ladder
+ * of exponentials (ladder.ts). Sources are exact exosystems; a dead time's output over a step is
+ * the degree-5 interpolant of its recorded history (ops/delay.ts), its input is recorded as
+ * quintic Hermite pieces from exact values and derivatives (hermite-history.ts).
+ *
+ * Guards are rows times z: a crossing is seen at the step end, or — for a guard whose slopes
+ * could carry it to zero within the step — at the mid-step point or in a dip of the cubic
+ * through the exact values and slopes; it is located by safeguarded Newton iteration on the
+ * exact solution. Quiescence: when every state and dead-time history is at rest (drift over the
+ * rest of the segment below 1 % of the tolerance) and the sources are constant until the next
+ * breakpoint, the run jumps to that breakpoint.
+ */
+export class ExactEngine implements SegmentEngine {
+  readonly name = 'exact' as const;
+  private readonly lay: Layout;
+  private readonly watch: Watch;
+  private readonly systems = new Map<string, ModeSystem>();
+  readonly h0: number;
+  /** Lattice steps per output step. */
+  private readonly m: number;
+  private readonly hist: HermiteHistory[];
+  /** Values, slopes and second derivatives of each dead time's input at the current step start. */
+  private readonly hStart: Float64Array;
+  private readonly z0: Float64Array;
+  private readonly z1: Float64Array;
+  private readonly zt: Float64Array;
+  private readonly zm: Float64Array;
+  private readonly x1: Float64Array;
+  private readonly out: Float64Array;
+  private readonly gridOut: Float64Array;
+  private readonly gPrev: Float64Array;
+  private readonly pPrev: Float64Array;
+  private readonly scale: Float64Array;
+  private readonly xMax: Float64Array;
+  /** Signal values at their node indices (what the recorder and the actuator figures read). */
+  private readonly sigOut: Float64Array;
+  private readonly recRows: number[];
+  private readonly trackRows: number[];
+  private readonly turning: TurningPoints;
+  /** Row offsets in `out`: dead-time inputs, watched signals, actuators. */
+  private readonly oD: number;
+  private readonly oS: number;
+  private readonly oA: number;
+  private steps = 0;
+  private jumps = 0;
+  private calm = false;
+  private hitGuard = -1;
+  private hitTime = NaN;
+  private dipValue = 0;
+
+  constructor(
+    private readonly rs: RunState,
+    metricCols: number[],
+  ) {
+    const { net, s } = rs;
+    net.fdStep = 1e-6 * Math.min(1, s.until);
+    this.lay = layoutOf(net);
+    const N = this.lay.N;
+    const ng = net.guards.length;
+    let hmax = s.dt;
+    const tMin = rs.built.delays[0] ?? Infinity;
+    if (tMin < hmax) hmax = tMin;
+    if (ng > 0) hmax = Math.min(hmax, s.until / 50);
+    this.m = Math.max(1, Math.ceil(s.dt / hmax - 1e-9));
+    this.h0 = s.dt / this.m;
+    this.hist = net.delayNodes.map((nd) => {
+      const h = new HermiteHistory();
+      nd.hist = h;
+      return h;
+    });
+    this.hStart = new Float64Array(3 * this.hist.length);
+    const turningRows = metricCols.map((c) => rs.rec.sigIdx[c]);
+    this.trackRows = rs.modes.trackers.map((tr) => tr.node.self);
+    this.recRows = [...new Set(rs.rec.sigIdx)];
+    this.watch = { step: [...turningRows, ...this.trackRows], grid: this.recRows };
+    this.oD = 2 * ng;
+    this.oS = 2 * ng + 3 * this.hist.length;
+    this.oA = this.oS + turningRows.length;
+    this.z0 = new Float64Array(N);
+    this.z1 = new Float64Array(N);
+    this.zt = new Float64Array(N);
+    this.zm = new Float64Array(N);
+    this.x1 = new Float64Array(this.lay.n);
+    this.out = new Float64Array(this.oA + this.trackRows.length);
+    this.gridOut = new Float64Array(this.recRows.length);
+    this.gPrev = new Float64Array(ng);
+    this.pPrev = new Float64Array(ng);
+    this.scale = new Float64Array(ng);
+    this.xMax = new Float64Array(net.nStates);
+    this.sigOut = new Float64Array(net.nodes.length);
+    this.turning = new TurningPoints(turningRows, N);
+  }
+
+  /** The number of exact steps a run needs without quiescence (for the engine choice). */
+  static plannedSteps(until: number, dt: number, tMin: number): number {
+    const m = Math.max(1, Math.ceil(dt / Math.min(dt, tMin) - 1e-9));
+    return (until / dt) * m;
+  }
+
+  stats() {
+    return {
+      steps: this.steps,
+      accepted: this.steps,
+      rejected: 0,
+      exact: { modes: this.systems.size, exponentials: this.systems.size, jumps: this.jumps },
+    };
+  }
+
+  extrema(col: number): { time: number; value: number }[] {
+    return this.turning.located(this.rs.rec.sigIdx[col], this.lay.N);
+  }
+
+  segmentEnd(_t: number, tEnd: number): number {
+    return tEnd;
+  }
+
+  private system(): ModeSystem {
+    const key = this.rs.modes.key();
+    let sys = this.systems.get(key);
+    if (!sys) {
+      sys = new ModeSystem(this.rs.net, this.lay, this.h0, this.watch);
+      this.systems.set(key, sys);
+    }
+    return sys;
+  }
+
+  /** Fills the exosystem blocks of z for a step [t, t + h]. */
+  private fillExo(z: Float64Array, t: number, h: number): void {
+    const net = this.rs.net;
+    const ex = net.exoNodes;
+    for (let j = 0; j < ex.length; j++) ex[j].op.exoState(ex[j], t, h, net.piece, z, this.lay.at[j]);
+  }
+
+  /** Time of lattice point k (a grid time k/m·dt exactly when it is one). */
+  private lattice(k: number): number {
+    return k % this.m === 0 ? (k / this.m) * this.rs.s.dt : k * this.h0;
+  }
+
+  integrate(t: number, tEnd: number, g0: Float64Array): SegmentOutcome {
+    const { net, s, budget, rec, x } = this.rs;
+    const lay = this.lay;
+    const N = lay.N;
+    const n = lay.n;
+    const ng = net.guards.length;
+    const out = this.out;
+    // the loop evaluated the guards at t: their scales are the round-off allowance in this segment
+    this.scale.set(net.guardScale);
+    this.gPrev.set(g0);
+    const sys = this.system();
+    const z0 = this.z0;
+    z0.fill(0);
+    z0.set(x);
+    z0[lay.one] = 1;
+    const endTol = 1e-12 * Math.max(1, Math.abs(tEnd));
+    let tc = t;
+    let first = true;
+    this.turning.segmentStart();
+    while (tc < tEnd - endTol) {
+      let k = Math.floor((tc / this.h0) * (1 + 1e-12)) + 1;
+      let tn = this.lattice(k);
+      if (tn - tc < 1e-9 * this.h0) tn = this.lattice(++k); // tc is a lattice point up to round-off
+      if (tn > tEnd - endTol) tn = tEnd;
+      const h = tn - tc;
+      const regular = Math.abs(h - this.h0) <= 1e-10 * this.h0;
+
+      if (this.calm && this.quiet(sys, tc, tEnd)) {
+        this.jump(sys, tc, tEnd);
+        tc = tEnd;
+        if (budget.check(tc)) return { end: tc, restart: false, guard: -1 };
+        break;
+      }
+
+      this.fillExo(z0, tc, h);
+      if (first) {
+        // values at the segment start: guard slopes, dead-time inputs (right limits), samples
+        matvecRect(sys.R, sys.rows, N, z0, out);
+        for (let i = 0; i < ng; i++) this.pPrev[i] = out[ng + i];
+        for (let i = 0; i < this.hStart.length; i++) this.hStart[i] = out[this.oD + i];
+        this.turning.sample(out, this.oS, sys, tc, 0, z0, false);
+        first = false;
+      }
+      let xe = this.x1;
+      if (regular) {
+        matvecRect(sys.PhiX, n, N, z0, xe);
+        matvecRect(sys.RPhi, sys.rows, N, z0, out);
+      } else {
+        sys.ladder.apply(h, z0, this.z1);
+        matvecRect(sys.R, sys.rows, N, this.z1, out);
+        xe = this.z1;
+      }
+      this.steps++;
+      budget.steps = this.steps;
+      for (let i = 0; i < n; i++) {
+        if (!Number.isFinite(xe[i])) {
+          budget.reached = tc;
+          budget.stop('diverged', `the run diverged at t = ${fmt(tc)} s: a state of block ${this.rs.blockId(net.stateOwner[i])} is no longer finite`);
+          return { end: tc, restart: false, guard: -1 };
+        }
+      }
+
+      if (ng > 0) {
+        this.crossing(sys, tc, h, regular);
+        if (this.hitGuard >= 0) {
+          const te = this.hitTime;
+          const ze = this.zt;
+          sys.ladder.apply(te - tc, z0, ze);
+          matvecRect(sys.R, sys.rows, N, ze, out);
+          this.pushHistories(tc, te);
+          this.afterStep(sys, te, te - tc, true);
+          for (let i = 0; i < n; i++) x[i] = ze[i];
+          budget.reached = te;
+          return { end: te, restart: true, guard: this.hitGuard };
+        }
+      }
+
+      this.pushHistories(tc, tn);
+      if (tn < tEnd - endTol && k % this.m === 0 && rec.isNew(tn)) {
+        if (regular) matvecRect(sys.RgPhi, this.recRows.length, N, z0, this.gridOut);
+        else matvecRect(sys.Rg, this.recRows.length, N, this.z1, this.gridOut);
+        for (let j = 0; j < this.recRows.length; j++) this.sigOut[this.recRows[j]] = this.gridOut[j];
+        rec.record(tn, this.sigOut);
+      }
+      this.afterStep(sys, tn, h, tn >= tEnd - endTol);
+      let calm = true;
+      for (let i = 0; i < n; i++) {
+        const v = xe[i];
+        const a = Math.abs(v);
+        if (a > s.bound) {
+          budget.reached = tn;
+          budget.stop('diverged', `the run diverged at t = ${fmt(tn)} s: a state of block ${this.rs.blockId(net.stateOwner[i])} reached ${fmt(v)}, beyond the bound ±${fmt(s.bound)}`);
+          return { end: tn, restart: false, guard: -1 };
+        }
+        if (a > this.xMax[i]) this.xMax[i] = a;
+        if (Math.abs(v - z0[i]) > QUIET * (s.atol + s.rtol * this.xMax[i])) calm = false;
+        z0[i] = v;
+      }
+      this.calm = calm;
+      tc = tn;
+      budget.reached = tn;
+      if (budget.stepsSpent(tn)) return { end: tn, restart: false, guard: -1 };
+      if ((this.steps & 7) === 0 && budget.check(tn)) return { end: tn, restart: false, guard: -1 };
+    }
+    for (let i = 0; i < n; i++) x[i] = z0[i];
+    // the mode at the next restart may differ: judge calm afresh there
+    this.calm = false;
+    return { end: tEnd, restart: false, guard: -1 };
+  }
+
+  /** Actuator peaks and turning-point samples from `out` at the end of a step of length h that started from z0. */
+  private afterStep(sys: ModeSystem, tEnd: number, h: number, last: boolean): void {
+    const tr = this.trackRows;
+    if (tr.length > 0) {
+      for (let j = 0; j < tr.length; j++) this.sigOut[tr[j]] = this.out[this.oA + j];
+      this.rs.modes.updatePeaks(this.sigOut);
+    }
+    this.turning.sample(this.out, this.oS, sys, tEnd, h, this.z0, last);
+  }
+
+  /** Appends [a, b] to every dead time's history: the start values kept from the last step, the end values from `out`. */
+  private pushHistories(a: number, b: number): void {
+    const s = this.rs.s;
+    const out = this.out;
+    const hs = this.hStart;
+    for (let d = 0; d < this.hist.length; d++) {
+      const o = this.oD + 3 * d;
+      const h = this.hist[d];
+      h.quietTol = QUIET * (s.atol + s.rtol * h.maxAbs);
+      h.push(a, b, hs[3 * d], hs[3 * d + 1], hs[3 * d + 2], out[o], out[o + 1], out[o + 2]);
+      hs[3 * d] = out[o];
+      hs[3 * d + 1] = out[o + 1];
+      hs[3 * d + 2] = out[o + 2];
+    }
+  }
+
+  /**
+   * The earliest guard crossing in the step from z0 (at tc; values gPrev, slopes pPrev) to its
+   * end (values and slopes in `out`): at the end; or, for a guard near enough to zero that its
+   * slopes could carry it there within the step, at the mid-step point of a regular step or
+   * inside a dip of the cubic through the exact values and slopes. Located on the exact
+   * solution; sets hitGuard/hitTime.
+   */
+  private crossing(sys: ModeSystem, tc: number, h: number, regular: boolean): void {
+    const N = this.lay.N;
+    const ng = this.gPrev.length;
+    const out = this.out;
+    const dwell = tc < this.rs.modes.dwellUntil;
+    let best = Infinity;
+    let which = -1;
+    let haveMid = false;
+    for (let i = 0; i < ng; i++) {
+      if (!sys.active[i]) continue;
+      const tol = GUARD_TOL * this.scale[i];
+      const ga = this.gPrev[i];
+      const pa = this.pPrev[i];
+      const g1 = out[i];
+      const p1 = out[ng + i];
+      this.gPrev[i] = dwell && g1 < 0 ? 0 : g1;
+      this.pPrev[i] = p1;
+      if (dwell || ga < -tol) continue;
+      let bracket = -1;
+      let gb = 0;
+      if (g1 < -tol) {
+        bracket = h;
+        gb = g1;
+      } else {
+        const lo = Math.min(ga, g1);
+        if ((Math.abs(pa) + Math.abs(p1)) * h <= lo && cubicMin(h, ga, pa, g1, p1) >= 0.5 * lo) continue; // far from zero
+        if (regular) {
+          // the mid-step point, then dips of the cubic in each half
+          if (!haveMid) {
+            matvec(sys.Half, this.z0, this.zm, N);
+            haveMid = true;
+          }
+          const gm = rowDot(sys.G, i, N, this.zm);
+          if (gm < -tol) {
+            bracket = 0.5 * h;
+            gb = gm;
+          } else {
+            const pm = rowDot(sys.Gp, i, N, this.zm);
+            bracket = this.dip(sys, i, 0, ga, pa, 0.5 * h, gm, pm, tol);
+            if (bracket < 0) bracket = this.dip(sys, i, 0.5 * h, gm, pm, h, g1, p1, tol);
+            if (bracket >= 0) gb = this.dipValue;
+          }
+        } else {
+          bracket = this.dip(sys, i, 0, ga, pa, h, g1, p1, tol);
+          if (bracket >= 0) gb = this.dipValue;
+        }
+      }
+      if (bracket >= 0) {
+        const shift = ga >= 0 ? 0 : tol;
+        const r = this.root(sys, i, tc, shift, ga + shift, bracket, gb + shift);
+        if (r < best) {
+          best = r;
+          which = i;
+        }
+      }
+    }
+    this.hitGuard = which;
+    this.hitTime = best;
+  }
+
+  /** g_i on the exact solution at s after the step start. */
+  private guardAt(sys: ModeSystem, i: number, s: number): number {
+    sys.ladder.apply(s, this.z0, this.zt);
+    return rowDot(sys.G, i, this.lay.N, this.zt);
+  }
+
+  /**
+   * A dip below zero between a and b (offsets from the step start) where the guard is above −tol
+   * at both ends: the cubic through the values and slopes has an interior minimum below a quarter
+   * of the smaller end value; the guard is then evaluated exactly there. Returns the offset of a
+   * point below −tol (its value in dipValue), or −1.
+   */
+  private dip(sys: ModeSystem, i: number, a: number, ga: number, pa: number, b: number, gb: number, pb: number, tol: number): number {
+    if (!(pa < 0 && pb > 0)) return -1;
+    const sig = cubicArgMin(b - a, ga, pa, gb, pb);
+    if (!(sig > 0 && sig < 1)) return -1;
+    if (cubicAt(b - a, ga, pa, gb, pb, sig) > 0.25 * Math.min(ga, gb)) return -1;
+    const s = a + sig * (b - a);
+    this.dipValue = this.guardAt(sys, i, s);
+    return this.dipValue < -tol ? s : -1;
+  }
+
+  /**
+   * The root of g_i + shift in (0, b] after the step start tc, from values fa ≥ 0 at 0 and fb < 0
+   * at b: Newton steps with the exact slope, kept inside the bracket (bisection otherwise), each
+   * nudged by the tolerance towards the far side once it is that close so that the root ends up
+   * bracketed. Returns the bracket's right end (where the new mode is valid), to 1e-13 relative.
+   */
+  private root(sys: ModeSystem, i: number, tc: number, shift: number, fa: number, b: number, fb: number): number {
+    const N = this.lay.N;
+    const zt = this.zt;
+    let a = 0;
+    let s = fb !== fa ? (fa * b) / (fa - fb) : 0.5 * b;
+    const tEps = 1e-13 * Math.max(1, Math.abs(tc + b));
+    for (let it = 0; it < 100 && b - a > tEps; it++) {
+      if (!(s > a && s < b)) s = 0.5 * (a + b);
+      sys.ladder.apply(s, this.z0, zt);
+      const g = rowDot(sys.G, i, N, zt) + shift;
+      if (g < 0) b = s;
+      else a = s;
+      if (b - a <= tEps) break;
+      const p = rowDot(sys.Gp, i, N, zt);
+      let next = p !== 0 ? s - g / p : NaN;
+      if (Math.abs(next - s) < tEps) next += g < 0 ? -tEps : tEps;
+      s = next > a && next < b ? next : 0.5 * (a + b);
+    }
+    return tc + b;
+  }
+
+  /**
+   * At rest: every source constant until the segment end, every dead time's history still for a
+   * whole dead time, and every state's drift |ẋ|·(tEnd − t) within 1 % of its tolerance.
+   */
+  private quiet(sys: ModeSystem, tc: number, tEnd: number): boolean {
+    const { net, s } = this.rs;
+    const H = tEnd - tc;
+    if (H < 2 * this.h0) return false;
+    const ex = net.exoNodes;
+    for (let j = 0; j < ex.length; j++) if (!ex[j].op.steady(ex[j], tc, net.piece)) return false;
+    const z0 = this.z0;
+    this.fillExo(z0, tc, this.h0);
+    const N = this.lay.N;
+    for (let i = 0; i < this.lay.n; i++) {
+      const dx = rowDot(sys.M, i, N, z0);
+      if (Math.abs(dx) * H > QUIET * (s.atol + s.rtol * this.xMax[i])) return false;
+    }
+    return true;
+  }
+
+  /** Holds every signal from tc to tEnd: grid points recorded, histories extended with constants. */
+  private jump(sys: ModeSystem, tc: number, tEnd: number): void {
+    const { rec, s } = this.rs;
+    const N = this.lay.N;
+    const z0 = this.z0;
+    matvecRect(sys.Rg, this.recRows.length, N, z0, this.gridOut);
+    for (let j = 0; j < this.recRows.length; j++) this.sigOut[this.recRows[j]] = this.gridOut[j];
+    const endTol = 1e-12 * Math.max(1, Math.abs(tEnd));
+    for (let g = Math.floor(tc / s.dt) + 1; g * s.dt < tEnd - endTol; g++) if (rec.isNew(g * s.dt)) rec.record(g * s.dt, this.sigOut);
+    matvecRect(sys.R, sys.rows, N, z0, this.out);
+    for (let d = 0; d < this.hist.length; d++) {
+      const v = this.out[this.oD + 3 * d];
+      this.hist[d].pushConstant(tc, tEnd, v);
+      this.hStart[3 * d] = v;
+      this.hStart[3 * d + 1] = 0;
+      this.hStart[3 * d + 2] = 0;
+    }
+    for (let i = 0; i < this.lay.n; i++) this.rs.x[i] = z0[i];
+    this.jumps++;
+    this.rs.budget.reached = tEnd;
+  }
+}
+
+/** The cubic on σ ∈ [0, 1] with values ga, gb and slopes pa, pb (per unit time) at the ends of a step of length h: c0 + c1σ + c2σ² + c3σ³. */
+function cubicAt(h: number, ga: number, pa: number, gb: number, pb: number, sig: number): number {
+  const c1 = h * pa;
+  const c2 = -3 * ga - 2 * h * pa + 3 * gb - h * pb;
+  const c3 = 2 * ga + h * pa - 2 * gb + h * pb;
+  return ga + sig * (c1 + sig * (c2 + sig * c3));
+}
+
+/** Where that cubic has its interior minimum (NaN if none). */
+function cubicArgMin(h: number, ga: number, pa: number, gb: number, pb: number): number {
+  const c1 = h * pa;
+  const c2 = -3 * ga - 2 * h * pa + 3 * gb - h * pb;
+  const c3 = 2 * ga + h * pa - 2 * gb + h * pb;
+  // c'(σ) = c1 + 2c2σ + 3c3σ² = 0 with c'' = 2c2 + 6c3σ > 0
+  if (Math.abs(c3) < 1e-300) return c2 > 0 ? -c1 / (2 * c2) : NaN;
+  const disc = c2 * c2 - 3 * c3 * c1;
+  if (disc < 0) return NaN;
+  const r = Math.sqrt(disc);
+  const s1 = (-c2 + r) / (3 * c3);
+  const s2 = (-c2 - r) / (3 * c3);
+  return 2 * c2 + 6 * c3 * s1 > 0 ? s1 : s2;
+}
+
+/** The smallest value of that cubic on [0, 1]. */
+function cubicMin(h: number, ga: number, pa: number, gb: number, pb: number): number {
+  const sig = cubicArgMin(h, ga, pa, gb, pb);
+  const ends = Math.min(ga, gb);
+  return sig > 0 && sig < 1 ? Math.min(ends, cubicAt(h, ga, pa, gb, pb, sig)) : ends;
+}

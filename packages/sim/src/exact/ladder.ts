@@ -1,0 +1,143 @@
+/**
+ * Matrix exponentials of one mode's generator M (N × N, row-major) for the exact engine.
+ *
+ * A ladder of exponentials e^(M·h0/2^k), k = 0 … K, is built from the bottom by scaling and
+ * squaring in the "minus identity" form E_k = e^(M·h0/2^k) − I (Higham, Functions of Matrices,
+ * SIAM 2008, §10.3 (from memory), keeps the small E accurate where I + E would round it away):
+ * E_K is the Taylor series (8 terms) of X = M·h0/2^K with ‖X‖₁ ≤ 1/64, and E_(k−1) = 2·E_k + E_k².
+ * Φ = I + E_0 = e^(M·h0) moves the state over a regular step; any other step length s is
+ * h0·(q + Σ b_k 2^(−k)) + r: q regular steps, the rungs whose bit is set, and a remainder
+ * r < h0/2^K by its Taylor series — so events, odd steps and turning points are all on the
+ * exact solution for the cost of a few matrix–vector products.
+ */
+export class Ladder {
+  readonly N: number;
+  readonly h0: number;
+  readonly K: number;
+  /** E_k = e^(M·h0/2^k) − I, k = 0 … K. */
+  readonly E: Float64Array[];
+  private readonly M: Float64Array;
+  private readonly tmp: Float64Array;
+  private readonly acc: Float64Array;
+  private readonly term: Float64Array;
+
+  constructor(M: Float64Array, N: number, h0: number) {
+    this.N = N;
+    this.h0 = h0;
+    this.M = M;
+    const norm = norm1(M, N) * h0;
+    // at least one rung below h0: e^(M·h0/2) is used for the mid-step guard check
+    const K = norm > 0 ? Math.max(1, Math.ceil(Math.log2(norm * 64))) : 1;
+    this.K = K;
+    const X = new Float64Array(N * N);
+    const f = h0 / 2 ** K;
+    for (let i = 0; i < N * N; i++) X[i] = M[i] * f;
+    // E = X·(I + X/2·(I + X/3·(… (I + X/8)))), Horner form of Σ X^m/m! (‖X‖ ≤ 1/64: the
+    // first term left out, X⁹/9!, is below 2e-22)
+    let E = new Float64Array(N * N);
+    for (let i = 0; i < N * N; i++) E[i] = X[i] / 8;
+    const T = new Float64Array(N * N);
+    for (let m = 7; m >= 1; m--) {
+      for (let i = 0; i < N; i++) E[i * N + i] += 1; // I + …
+      matmul(X, E, T, N);
+      for (let i = 0; i < N * N; i++) E[i] = T[i] / m;
+    }
+    const E_: Float64Array[] = new Array(K + 1);
+    E_[K] = E;
+    for (let k = K; k >= 1; k--) {
+      const S = new Float64Array(N * N);
+      matmul(E, E, S, N);
+      for (let i = 0; i < N * N; i++) S[i] += 2 * E[i];
+      E_[k - 1] = S;
+      E = S;
+    }
+    this.E = E_;
+    this.tmp = new Float64Array(N);
+    this.acc = new Float64Array(N);
+    this.term = new Float64Array(N);
+  }
+
+  /** out = e^(M·s)·z for any s ≥ 0 (out may be z). */
+  apply(s: number, z: ArrayLike<number>, out: Float64Array): void {
+    const N = this.N;
+    const acc = this.acc;
+    for (let i = 0; i < N; i++) acc[i] = z[i];
+    let r = s / this.h0;
+    let q = Math.floor(r);
+    if (r - q > 1 - 1e-13) q += 1; // round-off just below a whole number of steps
+    r = Math.max(0, r - q);
+    for (; q > 0; q--) this.rung(0, acc);
+    let bit = 0.5;
+    for (let k = 1; k <= this.K && r > 0; k++, bit *= 0.5) {
+      if (r >= bit) {
+        this.rung(k, acc);
+        r -= bit;
+      }
+    }
+    if (r > 0) this.taylor(r * this.h0, acc);
+    for (let i = 0; i < N; i++) out[i] = acc[i];
+  }
+
+  /** z ← (I + E_k)·z. */
+  private rung(k: number, z: Float64Array): void {
+    const N = this.N;
+    const E = this.E[k];
+    const t = this.tmp;
+    matvec(E, z, t, N);
+    for (let i = 0; i < N; i++) z[i] += t[i];
+  }
+
+  /** z ← e^(M·r)·z by its Taylor series (‖M·r‖ ≤ 1/64: a handful of terms). */
+  private taylor(r: number, z: Float64Array): void {
+    const N = this.N;
+    const term = this.term;
+    term.set(z);
+    const t = this.tmp;
+    for (let m = 1; m <= 20; m++) {
+      matvec(this.M, term, t, N);
+      let big = 0;
+      let size = 0;
+      for (let i = 0; i < N; i++) {
+        term[i] = (t[i] * r) / m;
+        z[i] += term[i];
+        big = Math.max(big, Math.abs(term[i]));
+        size = Math.max(size, Math.abs(z[i]));
+      }
+      if (big <= 1e-17 * size) break;
+    }
+  }
+}
+
+export function norm1(A: Float64Array, N: number): number {
+  let best = 0;
+  for (let j = 0; j < N; j++) {
+    let s = 0;
+    for (let i = 0; i < N; i++) s += Math.abs(A[i * N + j]);
+    if (s > best) best = s;
+  }
+  return best;
+}
+
+/** C = A·B (N × N, row-major; C distinct from A and B). */
+export function matmul(A: Float64Array, B: Float64Array, C: Float64Array, N: number): void {
+  C.fill(0);
+  for (let i = 0; i < N; i++) {
+    const ri = i * N;
+    for (let k = 0; k < N; k++) {
+      const a = A[ri + k];
+      if (a === 0) continue;
+      const rk = k * N;
+      for (let j = 0; j < N; j++) C[ri + j] += a * B[rk + j];
+    }
+  }
+}
+
+/** y = A·x (A is N × N; y distinct from x). */
+export function matvec(A: Float64Array, x: ArrayLike<number>, y: Float64Array, N: number): void {
+  for (let i = 0; i < N; i++) {
+    let s = 0;
+    const ri = i * N;
+    for (let j = 0; j < N; j++) s += A[ri + j] * x[j];
+    y[i] = s;
+  }
+}
