@@ -8,7 +8,8 @@ const at = (res: { time: number[]; traces: Record<string, number[]> }, key: stri
   return res.traces[key][i];
 };
 
-describe('dead time', () => {
+for (const engine of ['exact', 'odex'] as const) {
+describe(`dead time (${engine} engine)`, () => {
   // R41: 2e^(−1.5s)/(5s + 1), unit step: y = 0 for t ≤ θ, y = K(1 − e^(−(t−θ)/τ)) after;
   // standard first-order-plus-dead-time response (derived here)
   const K = 2;
@@ -25,7 +26,7 @@ describe('dead time', () => {
       ],
       ['r -> g', 'g -> y'],
     );
-    const res = simulate(compileModel(d), { until: 30, rtol: 1e-9, atol: 1e-12, outputStep: 0.1 });
+    const res = simulate(compileModel(d), { until: 30, rtol: 1e-9, atol: 1e-12, outputStep: 0.1, engine });
     expect(res.status).toBe('ok');
     // R41 table values, abs 1e-5
     expect(Math.abs(at(res, 'y', 1.0) - 0)).toBeLessThanOrEqual(1e-5);
@@ -50,7 +51,7 @@ describe('dead time', () => {
       ],
       ['r -> dt', 'dt -> g', 'g -> y'],
     );
-    const res = simulate(compileModel(d), { until: 12, rtol: 1e-9, atol: 1e-12, outputStep: 0.05 });
+    const res = simulate(compileModel(d), { until: 12, rtol: 1e-9, atol: 1e-12, outputStep: 0.05, engine });
     res.time.forEach((t, i) => expect(Math.abs(res.traces.y[i] - fopdt(t - 0.7))).toBeLessThan(1e-8));
   });
 
@@ -65,10 +66,10 @@ describe('dead time', () => {
         ],
         ['r -> dt', 'dt -> g', 'g -> y'],
       );
-    const zero = simulate(compileModel(mk(0)), { until: 5, rtol: 1e-9, atol: 1e-12, outputStep: 0.1 });
+    const zero = simulate(compileModel(mk(0)), { until: 5, rtol: 1e-9, atol: 1e-12, outputStep: 0.1, engine });
     // first-order step response K(1 − e^(−t/τ)) (standard closed form)
     zero.time.forEach((t, i) => expect(Math.abs(zero.traces.y[i] - K * (1 - Math.exp(-t / tau)))).toBeLessThan(1e-8));
-    const long = simulate(compileModel(mk(50)), { until: 5, rtol: 1e-9, atol: 1e-12, outputStep: 0.1 });
+    const long = simulate(compileModel(mk(50)), { until: 5, rtol: 1e-9, atol: 1e-12, outputStep: 0.1, engine });
     expect(long.status).toBe('ok');
     expect(long.traces.y.every((v) => v === 0)).toBe(true);
   });
@@ -86,7 +87,7 @@ describe('dead time', () => {
       ],
       ['r -> e.in1', 'p -> e.in2', 'e -> k', 'k -> dt', 'dt -> p', 'p -> y'],
     );
-    const res = simulate(compileModel(d), { until: 6, rtol: 1e-9, atol: 1e-12, outputStep: 0.25 });
+    const res = simulate(compileModel(d), { until: 6, rtol: 1e-9, atol: 1e-12, outputStep: 0.25, engine });
     expect(res.status).toBe('ok');
     expect(Math.abs(at(res, 'y', 1) - 0)).toBeLessThanOrEqual(1e-5);
     expect(Math.abs(at(res, 'y', 2) - 0.5)).toBeLessThanOrEqual(1e-5);
@@ -102,3 +103,4 @@ describe('dead time', () => {
     });
   });
 });
+}

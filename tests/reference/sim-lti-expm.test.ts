@@ -46,7 +46,8 @@ function maxError(sim: number[], exact: number[]): number {
   return e;
 }
 
-describe('LTI diagrams match the matrix-exponential solution (rtol 1e-9)', () => {
+for (const engine of ['exact', 'odex'] as const)
+describe(`LTI diagrams match the matrix-exponential solution (rtol 1e-9, ${engine} engine)`, () => {
   it('PI controller around a second-order plant with a lag in the feedback path', () => {
     // r → (+ −) → PI kp(1 + 1/(ti s)) → k wn²/(s² + 2ζ wn s + wn²) → y, feedback through 1/(0.2 s + 1)
     const kp = 1.2;
@@ -69,8 +70,9 @@ describe('LTI diagrams match the matrix-exponential solution (rtol 1e-9)', () =>
     const H = rational([1], [1, 0.2]);
     // Y/R = C·P/(1 + C·P·H)
     const T = rdiv(rmul(C, P), radd(rconst(1), rmul(rmul(C, P), H)));
-    const res = simulate(compileModel(d), { until: 15, rtol: 1e-9, atol: 1e-12, outputStep: 0.05 });
+    const res = simulate(compileModel(d), { until: 15, rtol: 1e-9, atol: 1e-12, outputStep: 0.05, engine });
     expect(res.status).toBe('ok');
+    expect(res.engine).toBe(engine);
     const exact = exactStep(T, res.time);
     const final = exact[exact.length - 1];
     expect(Math.abs(final - 1)).toBeLessThan(0.01); // integral action: settles at the reference
@@ -97,14 +99,15 @@ describe('LTI diagrams match the matrix-exponential solution (rtol 1e-9)', () =>
     const inner = unityFeedback(rmul(rconst(5), rational([1], [1, 1])));
     const G1 = rational([1], [0, 1]);
     const T = unityFeedback(rmul(rmul(C1, inner), G1));
-    const res = simulate(compileModel(d), { until: 8, rtol: 1e-9, atol: 1e-12, outputStep: 0.02 });
+    const res = simulate(compileModel(d), { until: 8, rtol: 1e-9, atol: 1e-12, outputStep: 0.02, engine });
     expect(res.status).toBe('ok');
+    expect(res.engine).toBe(engine);
     const exact = exactStep(T, res.time).map((v) => 2 * v);
     const final = exact[exact.length - 1];
     expect(maxError(res.traces.y, exact)).toBeLessThan(1e-6 * Math.abs(final));
     // and with another value of the named parameter, from the same compiled model
     const model = compileModel(d);
-    const res2 = simulate(model, { until: 8, rtol: 1e-9, atol: 1e-12, outputStep: 0.02, overrides: { Kg: 3 } });
+    const res2 = simulate(model, { until: 8, rtol: 1e-9, atol: 1e-12, outputStep: 0.02, overrides: { Kg: 3 }, engine });
     const T2 = unityFeedback(rmul(rmul(C1, inner), rmul(rconst(3), G1)));
     const exact2 = exactStep(T2, res2.time).map((v) => 2 * v);
     expect(maxError(res2.traces.y, exact2)).toBeLessThan(1e-6 * Math.abs(exact2[exact2.length - 1]));
@@ -127,8 +130,9 @@ describe('LTI diagrams match the matrix-exponential solution (rtol 1e-9)', () =>
     );
     const Cs = radd(radd(rconst(kp), rational([ki], [0, 1])), rational([0, kd], [1, kd / kp / n]));
     const T = unityFeedback(rmul(Cs, rational([1], poly.mul([1, 1], [1, 0.3]))));
-    const res = simulate(compileModel(d), { until: 10.5, rtol: 1e-9, atol: 1e-12, outputStep: 0.05 });
+    const res = simulate(compileModel(d), { until: 10.5, rtol: 1e-9, atol: 1e-12, outputStep: 0.05, engine });
     expect(res.status).toBe('ok');
+    expect(res.engine).toBe(engine);
     // the step starts at 0.5 s: shift the exact response by ten grid points
     const exact = exactStep(T, res.time.slice(0, res.time.length - 10));
     const sim = res.traces.y.slice(10);
@@ -157,8 +161,9 @@ describe('LTI diagrams match the matrix-exponential solution (rtol 1e-9)', () =>
     // the response to sin(ωt) is the step response of T(s)·ω·s/(s² + ω²) (Laplace: sin ↔ ω/(s² + ω²) = (1/s)·ω·s/(s² + ω²))
     const w = 1.5;
     const TS = rmul(T, rational([0, w], [w * w, 0, 1]));
-    const res = simulate(compileModel(d), { until: 10, rtol: 1e-9, atol: 1e-12, outputStep: 0.05 });
+    const res = simulate(compileModel(d), { until: 10, rtol: 1e-9, atol: 1e-12, outputStep: 0.05, engine });
     expect(res.status).toBe('ok');
+    expect(res.engine).toBe(engine);
     const exact = exactStep(TS, res.time);
     const amp = Math.max(...exact.map(Math.abs));
     expect(maxError(res.traces.y, exact)).toBeLessThan(1e-6 * amp);

@@ -19,7 +19,8 @@ const peakOf = (res: SimResult, key: string) => {
   return { peak, tp };
 };
 
-describe('integrator driven through a saturation ±1 (R42, derived here)', () => {
+for (const engine of ['exact', 'odex'] as const) {
+describe(`integrator driven through a saturation ±1 (R42, derived here; ${engine} engine)`, () => {
   it('(i) constant input 5: y = t, slope = the limit', () => {
     const d = buildDiagram(
       [
@@ -30,7 +31,7 @@ describe('integrator driven through a saturation ±1 (R42, derived here)', () =>
       ],
       ['r -> s', 's -> i', 'i -> y'],
     );
-    const res = simulate(compileModel(d), { until: 4, rtol: 1e-9, atol: 1e-12, outputStep: 0.1, wires: ['w2'] });
+    const res = simulate(compileModel(d), { until: 4, rtol: 1e-9, atol: 1e-12, outputStep: 0.1, wires: ['w2'], engine });
     expect(Math.abs(at(res, 'y', 3) - 3)).toBeLessThanOrEqual(1e-5);
     for (let i = 1; i < res.time.length; i++) {
       const slope = (res.traces.y[i] - res.traces.y[i - 1]) / (res.time[i] - res.time[i - 1]);
@@ -51,7 +52,7 @@ describe('integrator driven through a saturation ±1 (R42, derived here)', () =>
       ],
       ['r -> s', 's -> i', 'i -> y'],
     );
-    const res = simulate(compileModel(d), { until: Math.PI, rtol: 1e-10, atol: 1e-12, outputStep: 0.01 });
+    const res = simulate(compileModel(d), { until: Math.PI, rtol: 1e-10, atol: 1e-12, outputStep: 0.01, engine });
     const enter = res.events.find((e) => e.kind === 'limit-upper')!;
     const leave = res.events.find((e) => e.kind === 'limit-leave')!;
     // 2 sin t = 1 at t = π/6 and 5π/6 (exact)
@@ -67,7 +68,7 @@ describe('integrator driven through a saturation ±1 (R42, derived here)', () =>
   });
 });
 
-describe('PI loop around an integrating plant with a saturated actuator (R43)', () => {
+describe(`PI loop around an integrating plant with a saturated actuator (R43; ${engine} engine)`, () => {
   // Plant 1/s; PI Kc(1 + 1/(Ti s)), Kc = 2, Ti = 2; actuator limit ±0.5; r = 1. Derived here
   // (piecewise analytic); integrator windup: Åström & Hägglund, Advanced PID Control, ch. 3 (from memory).
   const t1 = Math.sqrt(6);
@@ -95,7 +96,7 @@ describe('PI loop around an integrating plant with a saturated actuator (R43)', 
         ? ['r -> e.in1', 'p -> e.in2', 'e -> c', 'c -> s', 's -> p', 'p -> y']
         : ['r -> e.in1', 'p -> e.in2', 'e -> c', 'c -> p', 'p -> y', 'c -> u'],
     );
-  const opts = { until: 12, rtol: 1e-10, atol: 1e-12, outputStep: 1e-4 };
+  const opts = { until: 12, rtol: 1e-10, atol: 1e-12, outputStep: 1e-4, engine };
   const pi = { form: 'ideal', kp: 2, ti: 2, td: 0 };
 
   it('anti-windup off, limits in the PID block: t1 = √6, peak 1.36355 at 3.1394 s, no re-saturation', () => {
@@ -150,3 +151,4 @@ describe('PI loop around an integrating plant with a saturated actuator (R43)', 
     expect(cond.events.some((e) => e.kind === 'integration-hold')).toBe(true);
   });
 });
+}

@@ -2,7 +2,8 @@ import { compileModel, simulate } from '@loopwright/sim';
 import { describe, expect, it } from 'vitest';
 import { buildDiagram } from '@loopwright/sim/testing';
 
-describe('second-order step response (R20, R17)', () => {
+for (const engine of ['exact', 'odex'] as const) {
+describe(`second-order step response (R20, R17; ${engine} engine)`, () => {
   // 4/(s² + 2s + 4): ζ = 0.5, ωn = 2; y(t) = 1 − e^(−t)(cos √3t + sin √3t/√3) — derived here from the
   // standard underdamped closed form, Ogata, Sec. 5-3 (from memory) [R20]
   const closed = (t: number) => 1 - Math.exp(-t) * (Math.cos(Math.sqrt(3) * t) + Math.sin(Math.sqrt(3) * t) / Math.sqrt(3));
@@ -21,6 +22,7 @@ describe('second-order step response (R20, R17)', () => {
       rtol: 1e-9,
       atol: 1e-12,
       outputStep,
+      engine,
       ...(finalValue !== undefined ? { metricsOptions: { finalValue } } : {}),
     });
   };
@@ -52,3 +54,4 @@ describe('second-order step response (R20, R17)', () => {
     expect(Math.abs(m.settlingTime! - 4.0382)).toBeLessThanOrEqual(1e-4); // exact ±2 % settling time [R20]
   });
 });
+}

@@ -11,7 +11,34 @@ export interface MetricsOptions {
   initialValue?: number;
   /** Rise-time levels as fractions of the change (default [0.1, 0.9]; [0, 1] gives 0–100 %). */
   riseLevels?: [number, number];
+  /**
+   * Times where the signal or its slope may jump (events, source edges). The peak is refined by
+   * the parabola through three samples only when none of these lies strictly between the outer
+   * two, so a refinement never spans a discontinuity.
+   */
+  breaks?: readonly number[];
+  /**
+   * Exact points of the signal between the samples (a simulator's located turning points). When
+   * given (even empty) the peak is the extreme over the samples and these points, and no
+   * parabola is used.
+   */
+  extrema?: readonly { time: number; value: number }[];
+  /**
+   * The trace ends before the response was complete (a run stopped on divergence, a budget or a
+   * cancel): the cause. Figures measured against the final value are then refused, unless
+   * `finalValue` is given; settling is always refused.
+   */
+  incomplete?: string;
 }
+
+/** A figure that can be refused, with the reason in `ResponseMetrics.refused`. */
+export type RefusableFigure = 'riseTime' | 'overshootPct' | 'peakTime' | 'peak' | 'settlingTime' | 'steadyStateError' | 'undershootPct';
+
+/**
+ * Below this fraction of the largest excursion from the initial value, the change y∞ − y(0)
+ * counts as zero: figures relative to it would divide by round-off (common practice, no source).
+ */
+export const NEAR_ZERO_CHANGE = 1e-3;
 
 /**
  * Response figures of a sampled trace (null where a figure does not exist for this trace).
@@ -23,7 +50,11 @@ export interface ResponseMetrics {
   riseTime: number | null;
   /** 100·(peak − y∞)/(y∞ − y(0)), 0 when the response never passes y∞. */
   overshootPct: number | null;
-  /** Time and value of the extreme in the direction of the change (parabolic interpolation between samples). */
+  /**
+   * Time and value of the extreme in the direction of the change (of the largest excursion from
+   * y(0) when the change is near zero): from the samples and `extrema`, or refined by a parabola
+   * through three samples where no break lies between them.
+   */
   peakTime: number | null;
   peak: number | null;
   /** Last time |y − y∞| > band·|y∞ − y(0)|, interpolated; t(0) if never outside; null if still outside at the end. */
@@ -37,6 +68,8 @@ export interface ResponseMetrics {
   /** ∫|e| dt and ∫e² dt by the trapezoid rule (IAE splits at sign changes), e = (reference ?? y∞) − y. */
   iae: number;
   ise: number;
+  /** Why a figure is null when it is refused rather than absent (a near-zero change, an incomplete run). */
+  refused: Partial<Record<RefusableFigure, string>>;
 }
 
 /** Linear interpolation of the time at which the segment (t0,y0)–(t1,y1) reaches `level`. */
@@ -67,13 +100,84 @@ export function responseMetrics(t: readonly number[], y: readonly number[], opts
   const yInf = opts.finalValue ?? y[n - 1];
   if (opts.initialValue !== undefined) assertFinite([opts.initialValue], 'initial value');
   const y0 = opts.initialValue ?? y[0];
-  const change = yInf - y0;
-  const dir = Math.sign(change);
+  const extra = opts.extrema ?? [];
+  for (const p of extra) assertFinite([p.time, p.value], 'extreme point');
   const target = opts.reference ?? yInf;
   const { iae, ise } = errorIntegrals(t, y, target);
-  const steadyStateError = opts.reference === undefined ? null : opts.reference - yInf;
+  const refused: Partial<Record<RefusableFigure, string>> = {};
+  const refuse = (why: string, figures: RefusableFigure[]) => {
+    for (const f of figures) refused[f] ??= why;
+  };
+
+  // the largest excursion from y(0), over samples and exact points
+  let excursion = 0;
+  for (let i = 0; i < n; i++) excursion = Math.max(excursion, Math.abs(y[i] - y0));
+  for (const p of extra) excursion = Math.max(excursion, Math.abs(p.value - y0));
+  let change = yInf - y0;
+  const relative: RefusableFigure[] = ['riseTime', 'overshootPct', 'settlingTime', 'steadyStateError', 'undershootPct'];
+  if (excursion === 0) refuse('the trace never leaves its initial value', [...relative, 'peak', 'peakTime']);
+  else if (Math.abs(change) <= NEAR_ZERO_CHANGE * excursion) {
+    refuse(
+      `the final value is within ${NEAR_ZERO_CHANGE * 100} % of the largest excursion of the initial value ` +
+        `(change ${fmtSmall(change)} against ${fmtSmall(excursion)}): figures relative to the change would divide by almost zero`,
+      relative,
+    );
+    change = 0;
+  }
+  if (opts.incomplete !== undefined) {
+    if (opts.finalValue === undefined) refuse(`the run stopped early (${opts.incomplete}): there is no final value to measure against`, relative);
+    refuse(`the run stopped early (${opts.incomplete}): whether the response stays settled is unknown`, ['settlingTime']);
+  }
+  const dir = Math.sign(change);
+  const steadyStateError = opts.reference === undefined || refused.steadyStateError ? null : opts.reference - yInf;
+
+  // Peak: the extreme in the direction of the change (of the excursion when there is no change)
+  const score = (v: number) => (dir !== 0 ? dir * (v - y0) : Math.abs(v - y0));
+  let ip = 0;
+  for (let i = 1; i < n; i++) if (score(y[i]) > score(y[ip])) ip = i;
+  let peakTime: number | null = t[ip];
+  let peak: number | null = y[ip];
+  for (const p of extra) {
+    if (score(p.value) > score(peak)) {
+      peak = p.value;
+      peakTime = p.time;
+    }
+  }
+  if (opts.extrema === undefined && ip > 0 && ip < n - 1 && !breakBetween(opts.breaks, t[ip - 1], t[ip + 1])) {
+    const [ta, tb, tc] = [t[ip - 1], t[ip], t[ip + 1]];
+    const [ya, yb, yc] = [y[ip - 1], y[ip], y[ip + 1]];
+    // Vertex of the interpolating parabola (divided differences, works on uneven steps).
+    const d1 = (yb - ya) / (tb - ta);
+    const d2 = (yc - yb) / (tc - tb);
+    const a2 = (d2 - d1) / (tc - ta);
+    const side = dir !== 0 ? dir : Math.sign(yb - y0);
+    if (a2 * side < 0) {
+      // p(t) = ya + d1 (t − ta) + a2 (t − ta)(t − tb); p'(t) = 0 at the vertex.
+      const vertex = (ta + tb) / 2 - d1 / (2 * a2);
+      if (vertex > ta && vertex < tc) {
+        peakTime = vertex;
+        peak = ya + d1 * (vertex - ta) + a2 * (vertex - ta) * (vertex - tb);
+      }
+    }
+  }
+  if (refused.peak) {
+    peak = null;
+    peakTime = null;
+  }
   if (dir === 0) {
-    return { riseTime: null, overshootPct: null, peakTime: null, peak: null, settlingTime: null, steadyState: yInf, steadyStateError, undershootPct: null, iae, ise };
+    return {
+      riseTime: null,
+      overshootPct: null,
+      peakTime,
+      peak,
+      settlingTime: null,
+      steadyState: yInf,
+      steadyStateError,
+      undershootPct: null,
+      iae,
+      ise,
+      refused,
+    };
   }
   // Progress towards y∞ as a fraction of the change: u = (y − y0)/change (0 at start, 1 at y∞).
   const u = (i: number) => (y[i] - y0) / change;
@@ -84,30 +188,8 @@ export function responseMetrics(t: readonly number[], y: readonly number[], opts
   };
   const tLo = firstReach(lo);
   const tHi = firstReach(hi);
-  const riseTime = tLo !== null && tHi !== null ? tHi - tLo : null;
-
-  // Peak: the largest progress; refined by the parabola through the neighbouring samples.
-  let ip = 0;
-  for (let i = 1; i < n; i++) if (u(i) > u(ip)) ip = i;
-  let peakTime = t[ip];
-  let peak = y[ip];
-  if (ip > 0 && ip < n - 1) {
-    const [ta, tb, tc] = [t[ip - 1], t[ip], t[ip + 1]];
-    const [ya, yb, yc] = [y[ip - 1], y[ip], y[ip + 1]];
-    // Vertex of the interpolating parabola (divided differences, works on uneven steps).
-    const d1 = (yb - ya) / (tb - ta);
-    const d2 = (yc - yb) / (tc - tb);
-    const a2 = (d2 - d1) / (tc - ta);
-    if (a2 * dir < 0) {
-      // p(t) = ya + d1 (t − ta) + a2 (t − ta)(t − tb); p'(t) = 0 at the vertex.
-      const vertex = (ta + tb) / 2 - d1 / (2 * a2);
-      if (vertex > ta && vertex < tc) {
-        peakTime = vertex;
-        peak = ya + d1 * (vertex - ta) + a2 * (vertex - ta) * (vertex - tb);
-      }
-    }
-  }
-  const overshootPct = Math.max(0, (100 * (peak - yInf)) / change);
+  const riseTime = tLo !== null && tHi !== null && !refused.riseTime ? tHi - tLo : null;
+  const overshootPct = refused.overshootPct ? null : Math.max(0, (100 * (peak! - yInf)) / change);
 
   // Settling: the last sample outside the band, then the crossing into it.
   const b = band * Math.abs(change);
@@ -119,7 +201,8 @@ export function responseMetrics(t: readonly number[], y: readonly number[], opts
     }
   }
   let settlingTime: number | null;
-  if (last < 0) settlingTime = t[0];
+  if (refused.settlingTime) settlingTime = null;
+  else if (last < 0) settlingTime = t[0];
   else if (last === n - 1) settlingTime = null;
   else {
     const level = y[last] > yInf ? yInf + b : yInf - b;
@@ -132,10 +215,17 @@ export function responseMetrics(t: readonly number[], y: readonly number[], opts
     if (tLo !== null && t[i] > tLo) break;
     deepest = Math.min(deepest, u(i));
   }
-  const undershootPct = Math.max(0, -100 * deepest);
+  const undershootPct = refused.undershootPct ? null : Math.max(0, -100 * deepest);
 
-  return { riseTime, overshootPct, peakTime, peak, settlingTime, steadyState: yInf, steadyStateError, undershootPct, iae, ise };
+  return { riseTime, overshootPct, peakTime, peak, settlingTime, steadyState: yInf, steadyStateError, undershootPct, iae, ise, refused };
 }
+
+/** True when a break lies strictly between a and b. */
+function breakBetween(breaks: readonly number[] | undefined, a: number, b: number): boolean {
+  return breaks !== undefined && breaks.some((x) => x > a && x < b);
+}
+
+const fmtSmall = (v: number) => (v === 0 ? '0' : Math.abs(v) >= 1e-3 && Math.abs(v) < 1e6 ? String(+v.toPrecision(3)) : v.toExponential(2));
 
 /** ∫|e| and ∫e² by trapezoids; a segment whose error changes sign is split at its zero (exact for |e| of a linear segment). */
 function errorIntegrals(t: readonly number[], y: readonly number[], target: number): { iae: number; ise: number } {

@@ -122,11 +122,13 @@ export class ModeControl implements ModeSink {
     return k;
   }
 
-  actuators(reached: number): Record<string, ActuatorFigures> {
+  /** The figures of every actuator; `located` adds peaks found between samples (the exact engine's turning points). */
+  actuators(reached: number, located?: (node: number) => number): Record<string, ActuatorFigures> {
     const out: Record<string, ActuatorFigures> = {};
     for (const tr of this.trackers) {
       const total = tr.total + (tr.node.mode !== 0 ? reached - tr.since : 0);
-      out[this.blockId(tr.node.block)] = { timeInSaturation: total, peakEffort: tr.peak, limitHits: tr.hits };
+      const peak = Math.max(tr.peak, located ? located(tr.node.self) : 0);
+      out[this.blockId(tr.node.block)] = { timeInSaturation: total, peakEffort: peak, limitHits: tr.hits };
     }
     return out;
   }

@@ -56,6 +56,8 @@ export interface SegmentEngine {
   integrate(t: number, tEnd: number, g0: Float64Array): SegmentOutcome;
   /** Counters for the result's stats. */
   stats(): { steps: number; accepted: number; rejected: number; exact?: { modes: number; exponentials: number; jumps: number } };
-  /** Exactly located turning points of recorded column `col` (time, value), for the peak figures. */
-  extrema?(col: number): { time: number; value: number }[];
+  /** Exactly located turning points of recorded column `col` (time, value) beyond its samples: maxima (dir 1), minima (−1) or both (0). */
+  extrema?(col: number, dir: number): { time: number; value: number }[];
+  /** Largest |value| of signal `node` at its located turning points (actuator peak effort). */
+  locatedPeak?(node: number): number;
 }

@@ -15,7 +15,8 @@ const slopes = (t: number[], y: number[], gap = 1e-4) => {
   return out;
 };
 
-describe('rate limit', () => {
+for (const engine of ['exact', 'odex'] as const) {
+describe(`rate limit (${engine} engine)`, () => {
   it('output slope never exceeds the rising and falling limits (property over inputs and limits)', () => {
     fc.assert(
       fc.property(
@@ -32,7 +33,7 @@ describe('rate limit', () => {
             ],
             ['r -> rl', 'rl -> y'],
           );
-          const res = simulate(compileModel(d), { until: 8, outputStep: 0.01, rtol: 1e-10, atol: 1e-12 });
+          const res = simulate(compileModel(d), { until: 8, outputStep: 0.01, rtol: 1e-10, atol: 1e-12, engine });
           expect(res.status).toBe('ok');
           // definition of a rate limiter: |dy/dt| bounded by the limits (common practice, no source)
           for (const s of slopes(res.time, res.traces.y)) {
@@ -54,7 +55,7 @@ describe('rate limit', () => {
       ],
       ['r -> rl', 'rl -> y'],
     );
-    const res = simulate(compileModel(d), { until: 5, outputStep: 0.05 });
+    const res = simulate(compileModel(d), { until: 5, outputStep: 0.05, engine });
     res.time.forEach((t, i) => expect(Math.abs(res.traces.y[i] - Math.min(0.4 * t, 1))).toBeLessThan(1e-9));
     const leave = res.events.find((e) => e.kind === 'rate-leave')!;
     expect(Math.abs(leave.time - 2.5)).toBeLessThan(1e-9);
@@ -70,12 +71,12 @@ describe('rate limit', () => {
       ],
       ['r -> rl', 'rl -> y'],
     );
-    const res = simulate(compileModel(d), { until: 2, outputStep: 0.5, linear: true });
+    const res = simulate(compileModel(d), { until: 2, outputStep: 0.5, linear: true, engine });
     expect(res.traces.y).toEqual([1, 1, 1, 1, 1]);
   });
 });
 
-describe('dead zone', () => {
+describe(`dead zone (${engine} engine)`, () => {
   it('output is zero inside the band and input − edge outside; band edges are exact events', () => {
     const lower = -0.5;
     const upper = 0.8;
@@ -88,7 +89,7 @@ describe('dead zone', () => {
       ],
       ['r -> dz', 'dz -> y', 'r -> u'],
     );
-    const res = simulate(compileModel(d), { until: 7, outputStep: 0.01 });
+    const res = simulate(compileModel(d), { until: 7, outputStep: 0.01, engine });
     res.time.forEach((t, i) => {
       const u = 2 * Math.sin(t);
       const want = u > upper ? u - upper : u < lower ? u - lower : 0;
@@ -101,6 +102,7 @@ describe('dead zone', () => {
     expect(res.actuators.dz).toBeUndefined();
   });
 });
+}
 
 describe('structure and input errors', () => {
   it('an algebraic loop is an error naming its blocks', () => {
@@ -246,11 +248,28 @@ describe('budgets, divergence, stiffness, cancellation, progress', () => {
     expect(res.time.length).toBeGreaterThan(1);
   });
 
-  it('the wall-time budget ends the run', () => {
-    const res = simulate(compileModel(oscillator), { until: 2000, maxWallMs: 5, rtol: 1e-10, atol: 1e-12 });
+  it('the wall-time budget ends the run (odex: a lightly damped oscillator at tight tolerance)', () => {
+    const res = simulate(compileModel(oscillator), { until: 2000, maxWallMs: 5, rtol: 1e-10, atol: 1e-12, engine: 'odex' });
+    expect(res.engine).toBe('odex');
     expect(res.status).toBe('budget');
     expect(res.message).toMatch(/wall-time budget of 5 ms ran out at t = /);
     expect(res.timeReached).toBeLessThan(2000);
+  });
+
+  it('the wall-time budget ends the run (exact: a fast pulse train, one segment per edge)', () => {
+    const d = buildDiagram(
+      [
+        ['r', 'source', { shape: 'pulse', amplitude: 1, width: 5e-4, period: 1e-3 }],
+        ['g', 'first-order-lag', { k: 1, tau: 0.01 }],
+        ['y', 'probe'],
+      ],
+      ['r -> g', 'g -> y'],
+    );
+    const res = simulate(compileModel(d), { until: 1e5, maxWallMs: 5, maxSteps: 1e9 });
+    expect(res.engine).toBe('exact');
+    expect(res.status).toBe('budget');
+    expect(res.message).toMatch(/wall-time budget of 5 ms ran out at t = /);
+    expect(res.timeReached).toBeLessThan(1e5);
   });
 
   it('cancellation is polled; progress is reported in increasing fractions ending at 1', () => {

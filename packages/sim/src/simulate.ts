@@ -50,14 +50,16 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
   const metrics: Record<string, ResponseMetrics | null> = {};
   for (const id of metricsFor) {
     const col = keys.indexOf(id);
+    const locate = engine.extrema?.bind(engine);
     metrics[id] = probeMetrics(rec.time, traces[id], {
       user: opts.metricsOptions,
       breaks: rec.breaks,
-      extrema: engine.extrema?.(col) ?? [],
+      ...(locate ? { extrema: (dir: number) => locate(col, dir) } : {}),
       status: budget.status,
       message: budget.message,
     });
   }
+  const actuators = rs.modes.actuators(budget.reached, engine.locatedPeak?.bind(engine));
   const st = engine.stats();
   return {
     time: rec.time,
@@ -67,7 +69,7 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     message: budget.message,
     timeReached: budget.reached,
     metrics,
-    actuators: rs.modes.actuators(budget.reached),
+    actuators,
     engine: engine.name,
     stats: {
       steps: st.steps,

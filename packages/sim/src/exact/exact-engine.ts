@@ -12,8 +12,9 @@ const QUIET = 1e-2;
 /**
  * The exact engine. Within one mode every operation of the catalogue is affine, so between
  * events the state z = [x | 1 | exosystems] moves by ż = M·z exactly: z(t + h) = e^(M·h)·z(t).
- * Steps lie on a lattice h0 = dt/m (m the smallest count with h0 ≤ every dead time), so the
- * output grid is on it and one cached Φ = e^(M·h0) per mode serves almost every step; odd steps
+ * Steps lie on a lattice h0 = dt·q/p no longer than any dead time (q a power of two: every output
+ * time is a lattice point plus a rung of the ladder), so one cached Φ = e^(M·h0) per mode serves
+ * almost every step and the output grid costs a row product per point; odd steps
  * (after an event, up to a breakpoint), event location and turning points use the mode's ladder
  * of exponentials (ladder.ts). Sources are exact exosystems; a dead time's output over a step is
  * the degree-5 interpolant of its recorded history (ops/delay.ts), its input is recorded as
@@ -32,8 +33,9 @@ export class ExactEngine implements SegmentEngine {
   private readonly watch: Watch;
   private readonly systems = new Map<string, ModeSystem>();
   readonly h0: number;
-  /** Lattice steps per output step. */
-  private readonly m: number;
+  /** The lattice: h0 = dt·q/p with q a power of two, so every output time is a lattice point plus j·h0/q (a rung of the ladder). */
+  private readonly p: number;
+  private readonly q: number;
   private readonly hist: HermiteHistory[];
   /** Values, slopes and second derivatives of each dead time's input at the current step start. */
   private readonly hStart: Float64Array;
@@ -53,10 +55,10 @@ export class ExactEngine implements SegmentEngine {
   private readonly recRows: number[];
   private readonly trackRows: number[];
   private readonly turning: TurningPoints;
-  /** Row offsets in `out`: dead-time inputs, watched signals, actuators. */
+  /** Row offsets in `out`: dead-time inputs, watched signals; each actuator's place among the watched signals. */
   private readonly oD: number;
   private readonly oS: number;
-  private readonly oA: number;
+  private readonly trackAt: number[];
   private steps = 0;
   private jumps = 0;
   private calm = false;
@@ -77,27 +79,32 @@ export class ExactEngine implements SegmentEngine {
     const tMin = rs.built.delays[0] ?? Infinity;
     if (tMin < hmax) hmax = tMin;
     if (ng > 0) hmax = Math.min(hmax, s.until / 50);
-    this.m = Math.max(1, Math.ceil(s.dt / hmax - 1e-9));
-    this.h0 = s.dt / this.m;
+    const lat = latticeFor(s.dt, hmax);
+    this.p = lat.p;
+    this.q = lat.q;
+    this.h0 = lat.h0;
     this.hist = net.delayNodes.map((nd) => {
       const h = new HermiteHistory();
       nd.hist = h;
       return h;
     });
     this.hStart = new Float64Array(3 * this.hist.length);
-    const turningRows = metricCols.map((c) => rs.rec.sigIdx[c]);
+    // every step end reads the probes whose figures are asked for and the actuators' outputs;
+    // their turning points are located (peak figures, peak effort)
     this.trackRows = rs.modes.trackers.map((tr) => tr.node.self);
+    const turningRows = [...new Set([...metricCols.map((c) => rs.rec.sigIdx[c]), ...this.trackRows])];
+    this.trackAt = this.trackRows.map((r) => turningRows.indexOf(r));
     this.recRows = [...new Set(rs.rec.sigIdx)];
-    this.watch = { step: [...turningRows, ...this.trackRows], grid: this.recRows };
+    this.watch = { step: turningRows, grid: this.recRows };
     this.oD = 2 * ng;
     this.oS = 2 * ng + 3 * this.hist.length;
-    this.oA = this.oS + turningRows.length;
+
     this.z0 = new Float64Array(N);
     this.z1 = new Float64Array(N);
     this.zt = new Float64Array(N);
     this.zm = new Float64Array(N);
     this.x1 = new Float64Array(this.lay.n);
-    this.out = new Float64Array(this.oA + this.trackRows.length);
+    this.out = new Float64Array(this.oS + turningRows.length);
     this.gridOut = new Float64Array(this.recRows.length);
     this.gPrev = new Float64Array(ng);
     this.pPrev = new Float64Array(ng);
@@ -109,8 +116,7 @@ export class ExactEngine implements SegmentEngine {
 
   /** The number of exact steps a run needs without quiescence (for the engine choice). */
   static plannedSteps(until: number, dt: number, tMin: number): number {
-    const m = Math.max(1, Math.ceil(dt / Math.min(dt, tMin) - 1e-9));
-    return (until / dt) * m;
+    return until / latticeFor(dt, Math.min(dt, tMin)).h0;
   }
 
   stats() {
@@ -122,8 +128,15 @@ export class ExactEngine implements SegmentEngine {
     };
   }
 
-  extrema(col: number): { time: number; value: number }[] {
-    return this.turning.located(this.rs.rec.sigIdx[col], this.lay.N);
+  extrema(col: number, dir: number): { time: number; value: number }[] {
+    return this.turning.located(this.rs.rec.sigIdx[col], this.lay.N, dir);
+  }
+
+  /** Largest |output| of an actuator node at its located turning points (0 when none lies beyond the samples). */
+  locatedPeak(node: number): number {
+    let peak = 0;
+    for (const p of this.turning.located(node, this.lay.N, 0)) peak = Math.max(peak, Math.abs(p.value));
+    return peak;
   }
 
   segmentEnd(_t: number, tEnd: number): number {
@@ -134,7 +147,7 @@ export class ExactEngine implements SegmentEngine {
     const key = this.rs.modes.key();
     let sys = this.systems.get(key);
     if (!sys) {
-      sys = new ModeSystem(this.rs.net, this.lay, this.h0, this.watch);
+      sys = new ModeSystem(this.rs.net, this.lay, this.h0, this.watch, Math.round(Math.log2(this.q)));
       this.systems.set(key, sys);
     }
     return sys;
@@ -147,13 +160,43 @@ export class ExactEngine implements SegmentEngine {
     for (let j = 0; j < ex.length; j++) ex[j].op.exoState(ex[j], t, h, net.piece, z, this.lay.at[j]);
   }
 
-  /** Time of lattice point k (a grid time k/m·dt exactly when it is one). */
+  /** Time of lattice point k (a grid time g·dt exactly when it is one). */
   private lattice(k: number): number {
-    return k % this.m === 0 ? (k / this.m) * this.rs.s.dt : k * this.h0;
+    const kq = k * this.q;
+    return kq % this.p === 0 ? (kq / this.p) * this.rs.s.dt : k * this.h0;
+  }
+
+  /**
+   * Records the output grid in (tc, tn] — but not at the segment end, which the loop records —
+   * from the step's start state z0 (a regular step from lattice point k − 1: the grid rows times
+   * Φ, or times the rung product for an offset j·h0/q) or its end state z1 (an odd step).
+   */
+  private recordGrid(sys: ModeSystem, tc: number, tn: number, k: number, regular: boolean, tEnd: number): void {
+    const { rec, s } = this.rs;
+    const N = this.lay.N;
+    const dt = s.dt;
+    const tol = 1e-12 * Math.max(1, Math.abs(tn));
+    const stop = Math.min(tn + tol, tEnd - 1e-12 * Math.max(1, Math.abs(tEnd)));
+    const rows = this.recRows.length;
+    for (let g = Math.floor(tc / dt) + 1; g * dt < stop; g++) {
+      const tg = g * dt;
+      if (!rec.isNew(tg)) continue;
+      if (regular) {
+        const j = g * this.p - (k - 1) * this.q;
+        if (j >= this.q) matvecRect(sys.RgPhi, rows, N, this.z0, this.gridOut);
+        else matvecRect(sys.gridRowsAt(j, this.q), rows, N, this.z0, this.gridOut);
+      } else if (Math.abs(tg - tn) <= tol) matvecRect(sys.Rg, rows, N, this.z1, this.gridOut);
+      else {
+        sys.ladder.apply(tg - tc, this.z0, this.zt);
+        matvecRect(sys.Rg, rows, N, this.zt, this.gridOut);
+      }
+      for (let r = 0; r < rows; r++) this.sigOut[this.recRows[r]] = this.gridOut[r];
+      rec.record(tg, this.sigOut);
+    }
   }
 
   integrate(t: number, tEnd: number, g0: Float64Array): SegmentOutcome {
-    const { net, s, budget, rec, x } = this.rs;
+    const { net, s, budget, x } = this.rs;
     const lay = this.lay;
     const N = lay.N;
     const n = lay.n;
@@ -172,6 +215,7 @@ export class ExactEngine implements SegmentEngine {
     let first = true;
     this.turning.segmentStart();
     while (tc < tEnd - endTol) {
+      if (budget.stepsSpent(tc)) return { end: tc, restart: false, guard: -1 };
       let k = Math.floor((tc / this.h0) * (1 + 1e-12)) + 1;
       let tn = this.lattice(k);
       if (tn - tc < 1e-9 * this.h0) tn = this.lattice(++k); // tc is a lattice point up to round-off
@@ -192,9 +236,10 @@ export class ExactEngine implements SegmentEngine {
         matvecRect(sys.R, sys.rows, N, z0, out);
         for (let i = 0; i < ng; i++) this.pPrev[i] = out[ng + i];
         for (let i = 0; i < this.hStart.length; i++) this.hStart[i] = out[this.oD + i];
-        this.turning.sample(out, this.oS, sys, tc, 0, z0, false);
+        this.turning.sample(out, this.oS, tc, 0, false);
         first = false;
       }
+      this.turning.stepStart(sys, z0, tc, h);
       let xe = this.x1;
       if (regular) {
         matvecRect(sys.PhiX, n, N, z0, xe);
@@ -222,7 +267,7 @@ export class ExactEngine implements SegmentEngine {
           sys.ladder.apply(te - tc, z0, ze);
           matvecRect(sys.R, sys.rows, N, ze, out);
           this.pushHistories(tc, te);
-          this.afterStep(sys, te, te - tc, true);
+          this.afterStep(te, te - tc, true);
           for (let i = 0; i < n; i++) x[i] = ze[i];
           budget.reached = te;
           return { end: te, restart: true, guard: this.hitGuard };
@@ -230,13 +275,8 @@ export class ExactEngine implements SegmentEngine {
       }
 
       this.pushHistories(tc, tn);
-      if (tn < tEnd - endTol && k % this.m === 0 && rec.isNew(tn)) {
-        if (regular) matvecRect(sys.RgPhi, this.recRows.length, N, z0, this.gridOut);
-        else matvecRect(sys.Rg, this.recRows.length, N, this.z1, this.gridOut);
-        for (let j = 0; j < this.recRows.length; j++) this.sigOut[this.recRows[j]] = this.gridOut[j];
-        rec.record(tn, this.sigOut);
-      }
-      this.afterStep(sys, tn, h, tn >= tEnd - endTol);
+      this.recordGrid(sys, tc, tn, k, regular, tEnd);
+      this.afterStep(tn, h, tn >= tEnd - endTol);
       let calm = true;
       for (let i = 0; i < n; i++) {
         const v = xe[i];
@@ -253,7 +293,6 @@ export class ExactEngine implements SegmentEngine {
       this.calm = calm;
       tc = tn;
       budget.reached = tn;
-      if (budget.stepsSpent(tn)) return { end: tn, restart: false, guard: -1 };
       if ((this.steps & 7) === 0 && budget.check(tn)) return { end: tn, restart: false, guard: -1 };
     }
     for (let i = 0; i < n; i++) x[i] = z0[i];
@@ -263,13 +302,13 @@ export class ExactEngine implements SegmentEngine {
   }
 
   /** Actuator peaks and turning-point samples from `out` at the end of a step of length h that started from z0. */
-  private afterStep(sys: ModeSystem, tEnd: number, h: number, last: boolean): void {
+  private afterStep(tEnd: number, h: number, last: boolean): void {
     const tr = this.trackRows;
     if (tr.length > 0) {
-      for (let j = 0; j < tr.length; j++) this.sigOut[tr[j]] = this.out[this.oA + j];
+      for (let j = 0; j < tr.length; j++) this.sigOut[tr[j]] = this.out[this.oS + this.trackAt[j]];
       this.rs.modes.updatePeaks(this.sigOut);
     }
-    this.turning.sample(this.out, this.oS, sys, tEnd, h, this.z0, last);
+    this.turning.sample(this.out, this.oS, tEnd, h, last);
   }
 
   /** Appends [a, b] to every dead time's history: the start values kept from the last step, the end values from `out`. */
@@ -445,6 +484,21 @@ export class ExactEngine implements SegmentEngine {
     this.jumps++;
     this.rs.budget.reached = tEnd;
   }
+}
+
+/**
+ * The step lattice for output step dt and longest allowed step hmax: h0 = dt·q/p ≤ hmax, as long
+ * as possible with q ∈ {1, 2, 4, 8, 16} — output times then fall on a lattice point plus a dyadic
+ * fraction j/q of a step, whose exponential is a product of ladder rungs.
+ */
+export function latticeFor(dt: number, hmax: number): { p: number; q: number; h0: number } {
+  let best = { p: 1, q: 1, h0: 0 };
+  for (let q = 1; q <= 16; q *= 2) {
+    const p = Math.max(1, Math.ceil((q * dt) / hmax - 1e-9));
+    const h0 = (dt * q) / p;
+    if (h0 > best.h0 * (1 + 1e-12)) best = { p, q, h0 };
+  }
+  return best;
 }
 
 /** The cubic on σ ∈ [0, 1] with values ga, gb and slopes pa, pb (per unit time) at the ends of a step of length h: c0 + c1σ + c2σ² + c3σ³. */

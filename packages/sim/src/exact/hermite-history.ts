@@ -69,6 +69,20 @@ export class HermiteHistory implements SignalHistory {
   value(tau: number, bias: number): number {
     const n = this.count;
     if (n === 0) return 0;
+    // fast path: strictly inside the last piece used or the one after it (reads move forward)
+    let p = this.cursor;
+    for (let q = 0; q < 2 && p < n; q++, p++) {
+      const a = this.starts[p];
+      const b = this.ends[p];
+      const eps = 1e-11 * Math.max(1, Math.abs(tau));
+      if (tau > a + eps && tau < b - eps) {
+        this.cursor = p;
+        const s = (tau - a) / (b - a);
+        const o = p * NC;
+        const co = this.coef;
+        return co[o] + s * (co[o + 1] + s * (co[o + 2] + s * (co[o + 3] + s * (co[o + 4] + s * co[o + 5]))));
+      }
+    }
     const k = pieceAt(this.starts, this.ends, n, this.cursor, tau, bias);
     if (k === -1) return 0;
     // past the end: never read by the exact engine (steps are at most the dead time); hold the last value

@@ -21,13 +21,13 @@ export class Ladder {
   private readonly acc: Float64Array;
   private readonly term: Float64Array;
 
-  constructor(M: Float64Array, N: number, h0: number) {
+  constructor(M: Float64Array, N: number, h0: number, minRungs = 1) {
     this.N = N;
     this.h0 = h0;
     this.M = M;
     const norm = norm1(M, N) * h0;
-    // at least one rung below h0: e^(M·h0/2) is used for the mid-step guard check
-    const K = norm > 0 ? Math.max(1, Math.ceil(Math.log2(norm * 64))) : 1;
+    // at least one rung below h0 (e^(M·h0/2) is the mid-step guard check), and as many as the output lattice needs
+    const K = Math.max(1, minRungs, norm > 0 ? Math.ceil(Math.log2(norm * 64)) : 0);
     this.K = K;
     const X = new Float64Array(N * N);
     const f = h0 / 2 ** K;

@@ -69,8 +69,10 @@ export class ModeSystem {
   /** The `watch.grid` signals, and the same times Φ. */
   readonly Rg: Float64Array;
   readonly RgPhi: Float64Array;
+  private readonly RgOff: Float64Array[] = [];
+  private readonly gridCount: number;
 
-  constructor(net: Network, lay: Layout, h0: number, watch: Watch) {
+  constructor(net: Network, lay: Layout, h0: number, watch: Watch, minRungs = 1) {
     const { N, n, one } = lay;
     const nodes = net.nodes.length;
     const ng = net.guards.length;
@@ -148,7 +150,7 @@ export class ModeSystem {
     } finally {
       net.exo = null;
     }
-    this.ladder = new Ladder(this.M, N, h0);
+    this.ladder = new Ladder(this.M, N, h0, minRungs);
     this.Phi = Float64Array.from(this.ladder.E[0]);
     for (let i = 0; i < N; i++) this.Phi[i * N + i] += 1;
     this.Half = Float64Array.from(this.ladder.E[1]);
@@ -174,6 +176,26 @@ export class ModeSystem {
     watch.grid.forEach((r, j) => this.Rg.set(this.S.subarray(r * N, r * N + N), j * N));
     this.RgPhi = new Float64Array(watch.grid.length * N);
     mulRect(this.Rg, watch.grid.length, this.Phi, N, this.RgPhi);
+    this.gridCount = watch.grid.length;
+  }
+
+  /** The grid rows times e^(M·h0·j/q) (0 < j < q, q a power of two): the rungs whose bits are set, made once per offset. */
+  gridRowsAt(j: number, q: number): Float64Array {
+    let X = this.RgOff[j];
+    if (X) return X;
+    const N = this.N;
+    const rows = this.gridCount;
+    X = Float64Array.from(this.Rg);
+    const T = new Float64Array(rows * N);
+    // j/q = Σ bits 2^(i − J) with q = 2^J: bit i is rung J − i
+    const J = Math.round(Math.log2(q));
+    for (let i = 0; i < J; i++) {
+      if (((j >> i) & 1) === 0) continue;
+      mulRect(X, rows, this.ladder.E[J - i], N, T);
+      for (let r = 0; r < rows * N; r++) X[r] += T[r];
+    }
+    this.RgOff[j] = X;
+    return X;
   }
 }
 
