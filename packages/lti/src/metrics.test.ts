@@ -72,8 +72,8 @@ describe('responseMetrics', () => {
     expect(guarded.peakTime).toBeCloseTo(1, 12);
     expect(guarded.overshootPct!).toBeCloseTo(20, 10);
     // a break elsewhere does not stop a smooth peak's refinement: y = sin t peaks at π/2 (exact)
-    const s = grid(3, 0.1).map(Math.sin);
-    const smooth = responseMetrics(grid(3, 0.1), s, { finalValue: 0.5, initialValue: 0, breaks: [2.5] });
+    const wave = grid(3, 0.1).map(Math.sin);
+    const smooth = responseMetrics(grid(3, 0.1), wave, { finalValue: 0.5, initialValue: 0, breaks: [2.5] });
     expect(Math.abs(smooth.peakTime! - Math.PI / 2)).toBeLessThan(1e-3);
   });
 
