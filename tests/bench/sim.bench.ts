@@ -1,10 +1,31 @@
-// Simulation speed: the positioning-axis demo, the compiled model's overhead against the same
-// equations written by hand on the same solver, and cost growth with states and simulated time.
-import { positioningAxis, type BlockKind, type ParamValue } from '@loopwright/graph';
-import { compileModel, simulate } from '@loopwright/sim';
-import { Solver } from 'odex';
+// Simulation speed: the exact engine against odex on the positioning-axis demo (its 10 s run and
+// the editor's run), the compiled model's overhead against the same equations written by hand on
+// the same solver, and cost growth with states and simulated time.
+import { closedLoopPoles, positioningAxis, type BlockKind, type Diagram, type ParamValue } from '@loopwright/graph';
+import { compileModel, simulate, type SimResult, type SimulateOptions } from '@loopwright/sim';
 import { buildDiagram } from '@loopwright/sim/testing';
-import { bench, fitExponent, ratio, record, report, section } from './harness.ts';
+import { Solver } from 'odex';
+import { type BenchResult, bench, fitExponent, ratio, record, report, section } from './harness.ts';
+
+/**
+ * The editor's run length when a diagram sets none (the editor's automatic end): six time
+ * constants of the slowest closed-loop pole after the last source start, rounded up to 1, 2 or
+ * 5 × 10ⁿ s.
+ */
+function editorEnd(d: Diagram): number {
+  const slowest = Math.min(...closedLoopPoles(d, {}).filter((p) => p.re < -1e-9).map((p) => -p.re));
+  const start = Math.max(0, ...d.blocks.map((b) => (b.kind === 'source' && typeof b.params.start === 'number' ? b.params.start : 0)));
+  const end = start + Math.min(Math.max(6 / slowest, 1), 2000);
+  const e = 10 ** Math.floor(Math.log10(end));
+  return [1, 2, 5, 10].find((f) => end / e <= f)! * e;
+}
+
+/** The wires the editor records besides the probes: the first wire out of each limiting block. */
+function actuatorWires(d: Diagram): string[] {
+  const limits = (b: Diagram['blocks'][number]) =>
+    b.kind === 'saturation' || b.kind === 'rate-limit' || (b.kind === 'pid' && (b.params.umin !== '' || b.params.umax !== ''));
+  return d.blocks.filter(limits).flatMap((b) => d.wires.filter((w) => w.from.block === b.id).slice(0, 1).map((w) => w.id));
+}
 
 function chain(n: number) {
   const blocks: [string, BlockKind, Record<string, ParamValue>?][] = [['r', 'source', { shape: 'step', amplitude: 1 }]];
@@ -73,43 +94,130 @@ function handWritten(until: number, outputStep: number, rtol: number, atol: numb
   return out;
 }
 
-export async function run(): Promise<void> {
-  section('sim: positioning-axis demo, 10 s simulated (saturation, dead time), rtol 1e-6');
-  const axis = compileModel(positioningAxis);
-  const probe = simulate(axis, { until: 10, rtol: 1e-6 });
-  record('positioning-axis-10-s.steps', probe.stats.accepted, 'count');
-  record('positioning-axis-10-s.evaluations', probe.stats.evaluations, 'count');
-  record('positioning-axis-10-s.events', probe.events.length, 'count');
-  console.log(`  (${probe.status}; ${probe.stats.accepted} steps, ${probe.stats.evaluations} evaluations, ${probe.events.length} events)`);
-  report(bench('positioning axis 10 s', () => simulate(axis, { until: 10, rtol: 1e-6 }), { minRuns: 5, minMs: 500, warmup: 2 }), 30);
-  report(bench('positioning axis 0.3 s (the demo\'s own run)', () => simulate(axis, { until: 0.3, rtol: 1e-6 }), { minRuns: 10 }));
+/**
+ * Two workloads timed in alternation (a, b, a, b, …), so that load on a shared machine falls on
+ * both alike; medians of each.
+ */
+function benchPair(nameA: string, a: () => unknown, nameB: string, b: () => unknown, rounds: number, warmup = 2): [BenchResult, BenchResult] {
+  for (let i = 0; i < warmup; i++) {
+    a();
+    b();
+  }
+  const ta: number[] = [];
+  const tb: number[] = [];
+  for (let i = 0; i < rounds; i++) {
+    let t0 = performance.now();
+    a();
+    ta.push(performance.now() - t0);
+    t0 = performance.now();
+    b();
+    tb.push(performance.now() - t0);
+  }
+  const summary = (name: string, ts: number[]): BenchResult => {
+    ts.sort((x, y) => x - y);
+    const q = (f: number) => ts[Math.min(ts.length - 1, Math.floor(f * ts.length))];
+    return { name, runs: ts.length, median: q(0.5), p95: q(0.95), min: ts[0] };
+  };
+  return [summary(nameA, ta), summary(nameB, tb)];
+}
 
-  section('sim: compiled model vs the same equations hand-written on the same solver');
+/** Largest difference of two runs' traces at their common output times, relative to each trace's range. */
+function maxRelDiff(a: SimResult, b: SimResult): number {
+  const at = new Map(b.time.map((t, i) => [t, i]));
+  let worst = 0;
+  for (const key of Object.keys(a.traces)) {
+    const ya = a.traces[key];
+    const yb = b.traces[key];
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const v of yb) {
+      lo = Math.min(lo, v);
+      hi = Math.max(hi, v);
+    }
+    const range = hi - lo || 1;
+    a.time.forEach((t, i) => {
+      const j = at.get(t);
+      if (j !== undefined) worst = Math.max(worst, Math.abs(ya[i] - yb[j]) / range);
+    });
+  }
+  return worst;
+}
+
+export async function run(): Promise<void> {
+  const axis = compileModel(positioningAxis);
+
+  section('sim: exact engine against odex — positioning-axis demo, 10 s simulated (saturation, dead time), rtol 1e-6');
+  const axisOpts: SimulateOptions = { until: 10, rtol: 1e-6 };
+  const ex = simulate(axis, { ...axisOpts, engine: 'exact' });
+  const od = simulate(axis, { ...axisOpts, engine: 'odex' });
+  const diff = record('axis10s.maxRelDiff', maxRelDiff(ex, od), 'fraction of range');
+  record('axis10s.exactSteps', ex.stats.steps, 'count');
+  record('axis10s.odexSteps', od.stats.accepted, 'count');
+  console.log(
+    `  (exact: ${ex.status}, ${ex.stats.steps} steps, ${ex.stats.exact?.modes} modes, ${ex.stats.exact?.jumps} quiescence jumps; ` +
+      `odex: ${od.status}, ${od.stats.accepted} steps, ${od.stats.evaluations} evaluations; ${ex.events.length} events)`,
+  );
+  console.log(`  largest trace difference, relative to each trace's range: ${diff.toExponential(2)}  (target ≤ 1e-6: ${diff <= 1e-6 ? 'met' : 'MISSED'})`);
+  const [bex, bod] = benchPair('exact engine, axis 10 s', () => simulate(axis, { ...axisOpts, engine: 'exact' }), 'odex, axis 10 s', () => simulate(axis, { ...axisOpts, engine: 'odex' }), 9);
+  record('axis10s.ms', bex.median, 'ms');
+  record('axis10s.odexMs', bod.median, 'ms');
+  report(bex);
+  report(bod);
+  record('axis10s.speedup', ratio('odex / exact', bod, bex, { atLeast: 8 }, 'axis10s.odex-over-exact'), 'ratio');
+
+  // The editor's run (apps/editor/src/worker/compute.ts computeResponse): rtol 1e-4, atol 1e-7,
+  // outputStep until/500, the actuators' wires recorded, the as-drawn run and its linear overlay.
+  const editorPair = (until: number, engine: 'exact' | 'odex') => {
+    const wires = actuatorWires(positioningAxis);
+    const common: SimulateOptions = { until, wires, maxWallMs: 5000, outputStep: until / 500, rtol: 1e-4, atol: 1e-7, engine };
+    return () => {
+      simulate(axis, common);
+      simulate(axis, { ...common, linear: true });
+    };
+  };
+  const autoEnd = editorEnd(positioningAxis);
+  section(`sim: the editor's run of the demo (automatic end ${autoEnd} s; rtol 1e-4, atol 1e-7, outputStep until/500; as drawn + linear overlay)`);
+  const [eex, eod] = benchPair('exact engine, editor run', editorPair(autoEnd, 'exact'), 'odex, editor run', editorPair(autoEnd, 'odex'), 15);
+  record('editorRun.ms', eex.median, 'ms');
+  record('editorRun.odexMs', eod.median, 'ms');
+  report(eex);
+  report(eod);
+  record('editorRun.speedup', ratio('odex / exact', eod, eex, { atLeast: 4 }, 'editorRun.odex-over-exact'), 'ratio');
+  const viewEnd = positioningAxis.simulation?.end ?? autoEnd;
+  section(`sim: the same at the demo's own view length (${viewEnd} s)`);
+  const [vex, vod] = benchPair('exact engine, view-length run', editorPair(viewEnd, 'exact'), 'odex, view-length run', editorPair(viewEnd, 'odex'), 15);
+  record('editorRunView.ms', vex.median, 'ms');
+  record('editorRunView.odexMs', vod.median, 'ms');
+  report(vex);
+  report(vod);
+  record('editorRunView.speedup', ratio('odex / exact', vod, vex, undefined, 'editorRunView.odex-over-exact'), 'ratio');
+
+  section('sim: compiled model on odex vs the same equations hand-written on the same solver');
   const model = compileModel(loop);
-  const opts = { until: 20, outputStep: 0.02, rtol: 1e-8, atol: 1e-10 };
+  const opts: SimulateOptions = { until: 20, outputStep: 0.02, rtol: 1e-8, atol: 1e-10, engine: 'odex' };
   const a = simulate(model, opts);
-  const b = handWritten(opts.until, opts.outputStep, opts.rtol, opts.atol);
-  let diff = 0;
-  for (let i = 0; i < b.length; i++) diff = Math.max(diff, Math.abs(a.traces.y[i] - b[i]));
-  record('compiled-vs-hand-written.points', a.time.length, 'count');
-  record('compiled-vs-hand-written.hand-points', b.length, 'count');
-  record('compiled-vs-hand-written.max-difference', diff, 'value');
-  console.log(`  (same grid: ${a.time.length} vs ${b.length} points, max difference ${diff.toExponential(2)})`);
-  const compiled = bench('compiled PI loop, 20 s', () => simulate(model, opts), { minRuns: 20 });
-  const hand = bench('hand-written RHS, same loop', () => handWritten(opts.until, opts.outputStep, opts.rtol, opts.atol), { minRuns: 20 });
+  const b = handWritten(20, 0.02, 1e-8, 1e-10);
+  let hd = 0;
+  for (let i = 0; i < b.length; i++) hd = Math.max(hd, Math.abs(a.traces.y[i] - b[i]));
+  console.log(`  (same grid: ${a.time.length} vs ${b.length} points, max difference ${hd.toExponential(2)})`);
+  const compiled = bench('compiled PI loop on odex, 20 s', () => simulate(model, opts), { minRuns: 20 });
+  const hand = bench('hand-written RHS, same loop', () => handWritten(20, 0.02, 1e-8, 1e-10), { minRuns: 20 });
   report(compiled);
   report(hand);
   ratio('compiled / hand-written', compiled, hand, { atMost: 2 });
+  const exactLoop = bench('the same loop on the exact engine', () => simulate(model, { ...opts, engine: 'exact' }), { minRuns: 20 });
+  report(exactLoop);
 
-  section('sim: cost growth with states (chains of first-order lags, 10 s)');
+  section('sim: cost growth with states (chains of first-order lags, 10 s; auto engine: exact up to 119 states)');
   const ns = [10, 50, 200];
   const perN = ns.map((n) => {
     const m = compileModel(chain(n));
-    const r = bench(`chain of ${n} lags`, () => simulate(m, { until: 10 }), { minRuns: 5, minMs: 300, warmup: 1 });
+    const engine = simulate(m, { until: 10 }).engine;
+    const r = bench(`chain of ${n} lags (${engine})`, () => simulate(m, { until: 10 }), { minRuns: 5, minMs: 300, warmup: 1 });
     report(r);
     return r.median;
   });
-  console.log(`  fitted exponent (cost ∝ states^k): k = ${record('chain-growth.exponent', fitExponent(ns, perN), 'exponent').toFixed(2)}`);
+  console.log(`  fitted exponent (cost ∝ states^k): k = ${fitExponent(ns, perN).toFixed(2)}`);
 
   section('sim: cost growth with simulated time (PI loop, sinusoidal reference, fixed output step)');
   const ts = [10, 40, 160];
@@ -118,5 +226,5 @@ export async function run(): Promise<void> {
     report(r);
     return r.median;
   });
-  console.log(`  fitted exponent (cost ∝ time^k): k = ${record('time-growth.exponent', fitExponent(ts, perT), 'exponent').toFixed(2)}`);
+  console.log(`  fitted exponent (cost ∝ time^k): k = ${fitExponent(ts, perT).toFixed(2)}`);
 }
