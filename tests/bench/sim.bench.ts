@@ -175,22 +175,19 @@ export async function run(): Promise<void> {
       simulate(axis, { ...common, linear: true });
     };
   };
+  const compare = (key: string, title: string, until: number, atLeast?: number) => {
+    section(title);
+    const [ex, od] = benchPair(`exact engine, ${until} s run`, editorPair(until, 'exact'), `odex, ${until} s run`, editorPair(until, 'odex'), 15);
+    record(`${key}.ms`, ex.median, 'ms');
+    record(`${key}.odexMs`, od.median, 'ms');
+    report(ex, undefined, `${key}.exact`);
+    report(od, undefined, `${key}.odex`);
+    record(`${key}.speedup`, ratio('odex / exact', od, ex, atLeast === undefined ? undefined : { atLeast }, `${key}.odex-over-exact`), 'ratio');
+  };
   const autoEnd = editorEnd(positioningAxis);
-  section(`sim: the editor's run of the demo (automatic end ${autoEnd} s; rtol 1e-4, atol 1e-7, outputStep until/500; as drawn + linear overlay)`);
-  const [eex, eod] = benchPair('exact engine, editor run', editorPair(autoEnd, 'exact'), 'odex, editor run', editorPair(autoEnd, 'odex'), 15);
-  record('editorRun.ms', eex.median, 'ms');
-  record('editorRun.odexMs', eod.median, 'ms');
-  report(eex);
-  report(eod);
-  record('editorRun.speedup', ratio('odex / exact', eod, eex, { atLeast: 4 }, 'editorRun.odex-over-exact'), 'ratio');
+  compare('editorRun', `sim: the editor's run of the demo (automatic end ${autoEnd} s; rtol 1e-4, atol 1e-7, outputStep until/500; as drawn + linear overlay)`, autoEnd, 4);
   const viewEnd = positioningAxis.simulation?.end ?? autoEnd;
-  section(`sim: the same at the demo's own view length (${viewEnd} s)`);
-  const [vex, vod] = benchPair('exact engine, view-length run', editorPair(viewEnd, 'exact'), 'odex, view-length run', editorPair(viewEnd, 'odex'), 15);
-  record('editorRunView.ms', vex.median, 'ms');
-  record('editorRunView.odexMs', vod.median, 'ms');
-  report(vex);
-  report(vod);
-  record('editorRunView.speedup', ratio('odex / exact', vod, vex, undefined, 'editorRunView.odex-over-exact'), 'ratio');
+  compare('editorRunView', `sim: the same at the demo's own view length (${viewEnd} s)`, viewEnd);
 
   section('sim: compiled model on odex vs the same equations hand-written on the same solver');
   const model = compileModel(loop);

@@ -126,16 +126,18 @@ describe('relative figures are refused with a reason', () => {
 });
 
 describe('no silent cap on source edges', () => {
+  // a 1 kHz pulse train (amplitude 1, width 0.5 ms) into an integrator
+  const d = buildDiagram(
+    [
+      ['r', 'source', { shape: 'pulse', amplitude: 1, width: 5e-4, period: 1e-3 }],
+      ['i', 'integrator', { k: 1 }],
+      ['y', 'probe'],
+    ],
+    ['r -> i', 'i -> y'],
+  );
+
   it('a 1 kHz pulse train runs for 100 s to the end, every pulse counted', () => {
     // ∫ of a pulse train of amplitude 1, width 0.5 ms, period 1 ms over 100 s: 100·0.5 = 50 (exact)
-    const d = buildDiagram(
-      [
-        ['r', 'source', { shape: 'pulse', amplitude: 1, width: 5e-4, period: 1e-3 }],
-        ['i', 'integrator', { k: 1 }],
-        ['y', 'probe'],
-      ],
-      ['r -> i', 'i -> y'],
-    );
     const model = compileModel(d);
     // default budgets: the end, or a stop that says so — never "ok" short of the end
     const dflt = simulate(model, { until: 100 });
@@ -153,14 +155,6 @@ describe('no silent cap on source edges', () => {
   });
 
   it('a run that cannot finish within its budget says so (status not ok, the time reached in the message)', () => {
-    const d = buildDiagram(
-      [
-        ['r', 'source', { shape: 'pulse', amplitude: 1, width: 5e-4, period: 1e-3 }],
-        ['i', 'integrator', { k: 1 }],
-        ['y', 'probe'],
-      ],
-      ['r -> i', 'i -> y'],
-    );
     for (const engine of engines) {
       const res = simulate(compileModel(d), { until: 100, outputStep: 0.5, maxSteps: 20000, engine });
       expect(res.status).toBe('budget');

@@ -2,6 +2,9 @@ import type { Network } from './network.ts';
 import type { ModeSink, SimNode } from './ops/node.ts';
 import type { ActuatorFigures, SimEvent } from './types.ts';
 
+/** Guards below −GUARD_TOL·(1 + |signal|) fire; nearer zero is round-off of a signal on its boundary. */
+export const GUARD_TOL = 1e-11;
+
 interface Tracker {
   node: SimNode;
   since: number;

@@ -1,9 +1,9 @@
 import { fmt } from '../options.ts';
-import { GUARD_TOL } from '../odex/odex-engine.ts';
+import { GUARD_TOL } from '../modes.ts';
 import type { RunState, SegmentEngine, SegmentOutcome } from '../run-state.ts';
 import { HermiteHistory } from './hermite-history.ts';
-import { matvec } from './ladder.ts';
-import { type Layout, ModeSystem, type Watch, layoutOf, matvecRect, rowDot } from './mode-system.ts';
+import { matvecRect, rowDot } from './dense.ts';
+import { type Layout, ModeSystem, type Watch, layoutOf } from './mode-system.ts';
 import { TurningPoints } from './turning-points.ts';
 
 /** The quiescence test allows a drift of this fraction of the tolerance (atol + rtol·size) over the jump. */
@@ -363,7 +363,7 @@ export class ExactEngine implements SegmentEngine {
         if (regular) {
           // the mid-step point, then dips of the cubic in each half
           if (!haveMid) {
-            matvec(sys.Half, this.z0, this.zm, N);
+            matvecRect(sys.Half, N, N, this.z0, this.zm);
             haveMid = true;
           }
           const gm = rowDot(sys.G, i, N, this.zm);

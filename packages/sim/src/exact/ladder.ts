@@ -1,3 +1,5 @@
+import { matvecRect, mulRect, norm1 } from './dense.ts';
+
 /**
  * Matrix exponentials of one mode's generator M (N × N, row-major) for the exact engine.
  *
@@ -39,14 +41,14 @@ export class Ladder {
     const T = new Float64Array(N * N);
     for (let m = 7; m >= 1; m--) {
       for (let i = 0; i < N; i++) E[i * N + i] += 1; // I + …
-      matmul(X, E, T, N);
+      mulRect(X, N, E, N, T);
       for (let i = 0; i < N * N; i++) E[i] = T[i] / m;
     }
     const E_: Float64Array[] = new Array(K + 1);
     E_[K] = E;
     for (let k = K; k >= 1; k--) {
       const S = new Float64Array(N * N);
-      matmul(E, E, S, N);
+      mulRect(E, N, E, N, S);
       for (let i = 0; i < N * N; i++) S[i] += 2 * E[i];
       E_[k - 1] = S;
       E = S;
@@ -83,7 +85,7 @@ export class Ladder {
     const N = this.N;
     const E = this.E[k];
     const t = this.tmp;
-    matvec(E, z, t, N);
+    matvecRect(E, N, N, z, t);
     for (let i = 0; i < N; i++) z[i] += t[i];
   }
 
@@ -94,7 +96,7 @@ export class Ladder {
     term.set(z);
     const t = this.tmp;
     for (let m = 1; m <= 20; m++) {
-      matvec(this.M, term, t, N);
+      matvecRect(this.M, N, N, term, t);
       let big = 0;
       let size = 0;
       for (let i = 0; i < N; i++) {
@@ -105,39 +107,5 @@ export class Ladder {
       }
       if (big <= 1e-17 * size) break;
     }
-  }
-}
-
-export function norm1(A: Float64Array, N: number): number {
-  let best = 0;
-  for (let j = 0; j < N; j++) {
-    let s = 0;
-    for (let i = 0; i < N; i++) s += Math.abs(A[i * N + j]);
-    if (s > best) best = s;
-  }
-  return best;
-}
-
-/** C = A·B (N × N, row-major; C distinct from A and B). */
-export function matmul(A: Float64Array, B: Float64Array, C: Float64Array, N: number): void {
-  C.fill(0);
-  for (let i = 0; i < N; i++) {
-    const ri = i * N;
-    for (let k = 0; k < N; k++) {
-      const a = A[ri + k];
-      if (a === 0) continue;
-      const rk = k * N;
-      for (let j = 0; j < N; j++) C[ri + j] += a * B[rk + j];
-    }
-  }
-}
-
-/** y = A·x (A is N × N; y distinct from x). */
-export function matvec(A: Float64Array, x: ArrayLike<number>, y: Float64Array, N: number): void {
-  for (let i = 0; i < N; i++) {
-    let s = 0;
-    const ri = i * N;
-    for (let j = 0; j < N; j++) s += A[ri + j] * x[j];
-    y[i] = s;
   }
 }

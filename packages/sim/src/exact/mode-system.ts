@@ -1,4 +1,5 @@
 import type { Network } from '../network.ts';
+import { mulRect } from './dense.ts';
 import { Ladder } from './ladder.ts';
 
 /**
@@ -207,26 +208,4 @@ export function matvecRect(A: Float64Array, rows: number, N: number, x: Float64A
     for (let j = 0; j < N; j++) s += A[o + j] * x[j];
     y[i] = s;
   }
-}
-
-/** C (rows × N) = A (rows × N) · B (N × N). */
-function mulRect(A: Float64Array, rows: number, B: Float64Array, N: number, C: Float64Array): void {
-  C.fill(0);
-  for (let i = 0; i < rows; i++) {
-    const ri = i * N;
-    for (let k = 0; k < N; k++) {
-      const a = A[ri + k];
-      if (a === 0) continue;
-      const rk = k * N;
-      for (let j = 0; j < N; j++) C[ri + j] += a * B[rk + j];
-    }
-  }
-}
-
-/** Row r of a row-major matrix with N columns, times z. */
-export function rowDot(A: Float64Array, r: number, N: number, z: Float64Array): number {
-  let s = 0;
-  const o = r * N;
-  for (let j = 0; j < N; j++) s += A[o + j] * z[j];
-  return s;
 }

@@ -1,5 +1,5 @@
+import { rowDot } from './dense.ts';
 import type { ModeSystem } from './mode-system.ts';
-import { rowDot } from './mode-system.ts';
 
 interface Step {
   sys: ModeSystem;

@@ -1,11 +1,10 @@
 import { Outcome, Solver } from 'odex';
 import { statesBehind } from '../build.ts';
+import { GUARD_TOL } from '../modes.ts';
 import { fmt } from '../options.ts';
 import type { RunState, SegmentEngine, SegmentOutcome } from '../run-state.ts';
 import { DEGREE, LobattoHistory, NODES } from './lobatto-history.ts';
 
-/** Guards below −GUARD_TOL·(1 + |signal|) fire; nearer zero is round-off of a signal on its boundary. */
-export const GUARD_TOL = 1e-11;
 
 type Dense = (c: number, x: number) => number;
 

@@ -1,7 +1,7 @@
 import { limitFire, limitGuards, limitMode } from './limits.ts';
 import { defineOp } from './node.ts';
 import type { Builder } from './registry-types.ts';
-import { passThrough } from './linear.ts';
+import { nonlinearNode } from './linear.ts';
 
 /** Dead zone: y = 0 inside [lower, upper], u − edge outside (modes below / band / above). */
 export const deadZoneOp = defineOp({
@@ -22,13 +22,10 @@ export const deadZoneOp = defineOp({
 });
 
 export const buildDeadZone: Builder = (cb, p, ctx) => {
-  ctx.checkLinearForm();
   // the linear overlay uses the catalogue's linear form: gain 1
-  if (ctx.linear) return passThrough(cb, ctx);
-  const nd = ctx.add(deadZoneOp, cb);
-  nd.feedthrough = true;
+  const nd = nonlinearNode(deadZoneOp, cb, ctx);
+  if (!nd) return;
   nd.lo = Number(p.lower);
   nd.hi = Number(p.upper);
   nd.ng = 2;
-  ctx.wire(nd, cb.inputs);
 };

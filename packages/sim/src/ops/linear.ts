@@ -2,7 +2,7 @@ import { linearFormWithScope } from '@loopwright/graph';
 import { InputError, realize } from '@loopwright/lti';
 import type { CompiledBlock } from '../compile.ts';
 import { buildDelay } from './delay.ts';
-import { defineOp } from './node.ts';
+import { defineOp, type Op, type SimNode } from './node.ts';
 import type { BuildContext, Builder } from './registry-types.ts';
 
 /**
@@ -29,6 +29,23 @@ export const linearOp = defineOp({
     dx[so + n - 1] = acc;
   },
 });
+
+/**
+ * The node of a static nonlinearity with one input (saturation, dead zone, rate limit): its
+ * parameters checked through the catalogue (naming the block), passed straight through in a
+ * linear run (null), else a feedthrough node of `op` wired to the block's input.
+ */
+export function nonlinearNode(op: Op, cb: CompiledBlock, ctx: BuildContext): SimNode | null {
+  ctx.checkLinearForm();
+  if (ctx.linear) {
+    passThrough(cb, ctx);
+    return null;
+  }
+  const nd = ctx.add(op, cb);
+  nd.feedthrough = true;
+  ctx.wire(nd, cb.inputs);
+  return nd;
+}
 
 /** A node passing its input straight through (the linear overlay of saturation, rate limit, dead zone). */
 export function passThrough(cb: CompiledBlock, ctx: BuildContext): void {

@@ -1,4 +1,4 @@
-import { passThrough } from './linear.ts';
+import { nonlinearNode } from './linear.ts';
 import { defineOp } from './node.ts';
 import type { Builder } from './registry-types.ts';
 
@@ -72,13 +72,10 @@ export const rateLimitOp = defineOp({
 });
 
 export const buildRateLimit: Builder = (cb, p, ctx) => {
-  ctx.checkLinearForm();
-  if (ctx.linear) return passThrough(cb, ctx);
-  const nd = ctx.add(rateLimitOp, cb);
-  nd.feedthrough = true;
+  const nd = nonlinearNode(rateLimitOp, cb, ctx);
+  if (!nd) return;
   nd.rising = Number(p.rising);
   nd.falling = Number(p.falling);
   ctx.states(nd, 1);
   nd.ng = 2;
-  ctx.wire(nd, cb.inputs);
 };

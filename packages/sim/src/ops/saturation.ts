@@ -1,7 +1,7 @@
 import { limitEvent, limitFire, limitGuards, limitMode } from './limits.ts';
 import { defineOp, type SimNode } from './node.ts';
 import type { Builder } from './registry-types.ts';
-import { passThrough } from './linear.ts';
+import { nonlinearNode } from './linear.ts';
 
 /** Saturation: y = u inside [lower, upper], the limit outside (modes below / linear / above). */
 export const saturationOp = defineOp({
@@ -21,12 +21,9 @@ function setMode(nd: SimNode, m: number): boolean {
 }
 
 export const buildSaturation: Builder = (cb, p, ctx) => {
-  ctx.checkLinearForm(); // checks the limits, naming the block
-  if (ctx.linear) return passThrough(cb, ctx);
-  const nd = ctx.add(saturationOp, cb);
-  nd.feedthrough = true;
+  const nd = nonlinearNode(saturationOp, cb, ctx);
+  if (!nd) return;
   nd.lo = Number(p.lower);
   nd.hi = Number(p.upper);
   if (Number.isFinite(nd.lo) || Number.isFinite(nd.hi)) nd.ng = 2;
-  ctx.wire(nd, cb.inputs);
 };
