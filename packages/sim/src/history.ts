@@ -8,6 +8,8 @@
 export interface SignalHistory {
   /** The signal at time tau; `bias` is a time inside the segment being integrated minus the delay (picks the side of a jump at a piece boundary). */
   value(tau: number, bias: number): number;
+  /** The signal at increasing times into out[at …] (the same as `value` at each). */
+  sample(times: ArrayLike<number>, bias: number, out: Float64Array, at: number): void;
   /** Largest |value| recorded (the signal's range, for relative tolerances). */
   readonly maxAbs: number;
   /** The signal has stayed within the quiescence tolerance of its latest value since time `since` or earlier. */

@@ -66,6 +66,31 @@ export class HermiteHistory implements SignalHistory {
     return this.count > 0 && this.movedAt <= since;
   }
 
+  /** Values at increasing times, walking the pieces forward from the cursor (the dead-time window of a step). */
+  sample(times: ArrayLike<number>, bias: number, out: Float64Array, at: number): void {
+    const n = this.count;
+    const starts = this.starts;
+    const ends = this.ends;
+    const co = this.coef;
+    let p = this.cursor < n ? this.cursor : n - 1;
+    for (let i = 0; i < times.length; i++) {
+      const tau = times[i];
+      const eps = 1e-11 * Math.max(1, Math.abs(tau));
+      while (p + 1 < n && tau >= ends[p] - eps) p++;
+      if (n === 0 || !(tau > starts[p] + eps && tau < ends[p] - eps)) {
+        // a boundary, before the record or past it: the general lookup decides the side
+        out[at + i] = this.value(tau, bias);
+        p = this.cursor;
+        continue;
+      }
+      const a = starts[p];
+      const s = (tau - a) / (ends[p] - a);
+      const o = p * NC;
+      out[at + i] = co[o] + s * (co[o + 1] + s * (co[o + 2] + s * (co[o + 3] + s * (co[o + 4] + s * co[o + 5]))));
+    }
+    if (n > 0) this.cursor = p;
+  }
+
   value(tau: number, bias: number): number {
     const n = this.count;
     if (n === 0) return 0;

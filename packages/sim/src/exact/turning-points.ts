@@ -1,4 +1,4 @@
-import { rowDot } from './dense.ts';
+import { matvecRect, rowDot } from './dense.ts';
 import type { ModeSystem } from './mode-system.ts';
 
 interface Step {
@@ -174,7 +174,9 @@ function turningPoint(
     for (let j = 0; j < N; j++) s2[j] += a * sys.M[k * N + j];
   }
   const pa = dir * dot(s1, z);
-  sys.ladder.apply(h, z, w.zb);
+  // the step's end: Φ·z for a regular step, the ladder otherwise
+  if (Math.abs(h - sys.ladder.h0) <= 1e-10 * sys.ladder.h0) matvecRect(sys.Phi, N, N, z, w.zb);
+  else sys.ladder.apply(h, z, w.zb);
   const pb = dir * dot(s1, w.zb);
   if (!(pa > 0 && pb < 0)) return null;
   const ca = dir * dot(s2, z);
@@ -196,19 +198,20 @@ function turningPoint(
     if (Math.abs(next - sig) < 1e-15) break;
     sig = next;
   }
-  // Newton on the exact slope, kept inside the step
+  // Newton on the exact slope, kept inside the step; the point reported is the last one evaluated
+  // (its slope is zero to round-off, so its value is the extreme's)
   let s = sig * h;
+  let ts = s;
   const tEps = 1e-13 * Math.max(1, Math.abs(st.t0 + h));
-  for (let it = 0; it < 8; it++) {
+  for (let it = 0; it < 6; it++) {
     sys.ladder.apply(s, z, w.zt);
+    ts = s;
     const p = dir * dot(s1, w.zt);
     const c = dir * dot(s2, w.zt);
     if (!(c < 0)) break;
     const next = Math.min(h, Math.max(0, s - p / c));
-    const done = Math.abs(next - s) <= tEps;
+    if (Math.abs(next - s) <= tEps) break;
     s = next;
-    if (done) break;
   }
-  sys.ladder.apply(s, z, w.zt);
-  return { time: st.t0 + s, value: rowDot(sys.S, row, N, w.zt) };
+  return { time: st.t0 + ts, value: rowDot(sys.S, row, N, w.zt) };
 }

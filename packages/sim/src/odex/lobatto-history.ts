@@ -52,6 +52,10 @@ export class LobattoHistory implements SignalHistory {
     this.maxAbs = 0;
   }
 
+  sample(times: ArrayLike<number>, bias: number, out: Float64Array, at: number): void {
+    for (let i = 0; i < times.length; i++) out[at + i] = this.value(times[i], bias);
+  }
+
   /** The odex engine never jumps over time: no quiescence test. */
   steadyOver(): boolean {
     return false;

@@ -6,13 +6,15 @@ import type { BuildContext } from './registry-types.ts';
  * Dead time: y(t) = u(t − T), read from the recorded history of u (history.ts); before t = 0
  * the system is at rest. A dead time of 0 passes its input through (and so is feedthrough).
  *
- * In the exact engine the delayed input over a step [t, t + h] (h ≤ T, so it is all recorded)
- * is one polynomial of degree 5: the interpolant of the history at the six Chebyshev–Lobatto
- * points of the window [t − T, t − T + h]. It enters the exact solution as a chain exosystem
- * (value, slope, …, fifth derivative, whose derivative is 0), so the step integrates it exactly.
- * A signal that is a polynomial of degree ≤ 5 over the window is reproduced exactly; otherwise
- * the error is of order h⁶ (interpolation at Chebyshev–Lobatto points). Windows never straddle
- * a recorded jump or kink: those are breakpoints carried forward through the dead time.
+ * In the exact engine a step [t, t + h] is never longer than the shortest dead time, so the
+ * delayed input over it is already recorded: it is one polynomial of degree 5, the interpolant of
+ * the history at the six Chebyshev–Lobatto points of the window [t − T, t − T + h]. It enters the
+ * exact solution as a chain exosystem holding that polynomial's value and first five derivatives
+ * (the fifth's derivative is 0), so the step integrates it exactly; the dead time's output is the
+ * first entry. A signal that is a polynomial of degree ≤ 5 over the window is reproduced exactly;
+ * otherwise the error is of order h⁶ (interpolation at Chebyshev–Lobatto points). Windows never
+ * straddle a recorded jump or kink: those are breakpoints carried forward through the dead time
+ * (up to four times), and a window is the step's own.
  */
 export const WINDOW_TERMS = 6;
 
@@ -52,7 +54,8 @@ function taylorMap(c: Float64Array): Float64Array {
   return out;
 }
 
-const window = new Float64Array(WINDOW_TERMS);
+const times = new Float64Array(WINDOW_TERMS);
+const values = new Float64Array(WINDOW_TERMS);
 
 export const delayOp = defineOp({
   name: 'dead-time',
@@ -62,14 +65,13 @@ export const delayOp = defineOp({
     for (let k = 0; k + 1 < WINDOW_TERMS; k++) M[(at + k) * N + at + k + 1] = 1;
   },
   exoState: (nd, t, h, piece, z, at) => {
-    const hist = nd.hist!;
     const a = t - nd.delay;
-    const bias = piece - nd.delay;
-    for (let i = 0; i < WINDOW_TERMS; i++) window[i] = hist.value(a + NODES[i] * h, bias);
+    for (let i = 0; i < WINDOW_TERMS; i++) times[i] = a + NODES[i] * h;
+    nd.hist!.sample(times, piece - nd.delay, values, 0);
     let scale = 1;
     for (let k = 0; k < WINDOW_TERMS; k++) {
       let acc = 0;
-      for (let i = 0; i < WINDOW_TERMS; i++) acc += TAYLOR[k * WINDOW_TERMS + i] * window[i];
+      for (let i = 0; i < WINDOW_TERMS; i++) acc += TAYLOR[k * WINDOW_TERMS + i] * values[i];
       z[at + k] = acc / scale;
       scale *= h;
     }
