@@ -1,9 +1,7 @@
 import { compileModel, simulate } from '@loopwright/sim';
 import { expm, matrix, type Matrix } from 'mathjs';
 import { describe, expect, it } from 'vitest';
-import { HermiteHistory } from '../../packages/sim/src/exact/hermite-history.ts';
-import { Ladder } from '../../packages/sim/src/exact/ladder.ts';
-import { buildDiagram } from '../../packages/sim/src/test-support/build-diagram.ts';
+import { HermiteHistory, Ladder, buildDiagram } from '@loopwright/sim/testing';
 
 /** A small deterministic generator (Park–Miller), so the random matrices are the same every run. */
 function lcg(seed: number) {
