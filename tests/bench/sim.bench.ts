@@ -13,7 +13,11 @@ import { type BenchResult, bench, fitExponent, ratio, record, report, section } 
  * 5 × 10ⁿ s.
  */
 function editorEnd(d: Diagram): number {
-  const slowest = Math.min(...closedLoopPoles(d, {}).filter((p) => p.re < -1e-9).map((p) => -p.re));
+  const slowest = Math.min(
+    ...closedLoopPoles(d, {})
+      .filter((p) => p.re < -1e-9)
+      .map((p) => -p.re),
+  );
   const start = Math.max(0, ...d.blocks.map((b) => (b.kind === 'source' && typeof b.params.start === 'number' ? b.params.start : 0)));
   const end = start + Math.min(Math.max(6 / slowest, 1), 2000);
   const e = 10 ** Math.floor(Math.log10(end));
@@ -24,7 +28,12 @@ function editorEnd(d: Diagram): number {
 function actuatorWires(d: Diagram): string[] {
   const limits = (b: Diagram['blocks'][number]) =>
     b.kind === 'saturation' || b.kind === 'rate-limit' || (b.kind === 'pid' && (b.params.umin !== '' || b.params.umax !== ''));
-  return d.blocks.filter(limits).flatMap((b) => d.wires.filter((w) => w.from.block === b.id).slice(0, 1).map((w) => w.id));
+  return d.blocks.filter(limits).flatMap((b) =>
+    d.wires
+      .filter((w) => w.from.block === b.id)
+      .slice(0, 1)
+      .map((w) => w.id),
+  );
 }
 
 function chain(n: number) {
@@ -98,7 +107,14 @@ function handWritten(until: number, outputStep: number, rtol: number, atol: numb
  * Two workloads timed in alternation (a, b, a, b, …), so that load on a shared machine falls on
  * both alike; medians of each.
  */
-function benchPair(nameA: string, a: () => unknown, nameB: string, b: () => unknown, rounds: number, warmup = 2): [BenchResult, BenchResult] {
+function benchPair(
+  nameA: string,
+  a: () => unknown,
+  nameB: string,
+  b: () => unknown,
+  rounds: number,
+  warmup = 2,
+): [BenchResult, BenchResult] {
   for (let i = 0; i < warmup; i++) {
     a();
     b();
@@ -157,8 +173,16 @@ export async function run(): Promise<void> {
     `  (exact: ${ex.status}, ${ex.stats.steps} steps, ${ex.stats.exact?.modes} modes, ${ex.stats.exact?.jumps} quiescence jumps; ` +
       `odex: ${od.status}, ${od.stats.accepted} steps, ${od.stats.evaluations} evaluations; ${ex.events.length} events)`,
   );
-  console.log(`  largest trace difference, relative to each trace's range: ${diff.toExponential(2)}  (target ≤ 1e-6: ${diff <= 1e-6 ? 'met' : 'MISSED'})`);
-  const [bex, bod] = benchPair('exact engine, axis 10 s', () => simulate(axis, { ...axisOpts, engine: 'exact' }), 'odex, axis 10 s', () => simulate(axis, { ...axisOpts, engine: 'odex' }), 9);
+  console.log(
+    `  largest trace difference, relative to each trace's range: ${diff.toExponential(2)}  (target ≤ 1e-6: ${diff <= 1e-6 ? 'met' : 'MISSED'})`,
+  );
+  const [bex, bod] = benchPair(
+    'exact engine, axis 10 s',
+    () => simulate(axis, { ...axisOpts, engine: 'exact' }),
+    'odex, axis 10 s',
+    () => simulate(axis, { ...axisOpts, engine: 'odex' }),
+    9,
+  );
   record('axis10s.ms', bex.median, 'ms');
   record('axis10s.odexMs', bod.median, 'ms');
   report(bex);
@@ -177,15 +201,30 @@ export async function run(): Promise<void> {
   };
   const compare = (key: string, title: string, until: number, atLeast?: number) => {
     section(title);
-    const [ex, od] = benchPair(`exact engine, ${until} s run`, editorPair(until, 'exact'), `odex, ${until} s run`, editorPair(until, 'odex'), 15);
+    const [ex, od] = benchPair(
+      `exact engine, ${until} s run`,
+      editorPair(until, 'exact'),
+      `odex, ${until} s run`,
+      editorPair(until, 'odex'),
+      15,
+    );
     record(`${key}.ms`, ex.median, 'ms');
     record(`${key}.odexMs`, od.median, 'ms');
     report(ex, undefined, `${key}.exact`);
     report(od, undefined, `${key}.odex`);
-    record(`${key}.speedup`, ratio('odex / exact', od, ex, atLeast === undefined ? undefined : { atLeast }, `${key}.odex-over-exact`), 'ratio');
+    record(
+      `${key}.speedup`,
+      ratio('odex / exact', od, ex, atLeast === undefined ? undefined : { atLeast }, `${key}.odex-over-exact`),
+      'ratio',
+    );
   };
   const autoEnd = editorEnd(positioningAxis);
-  compare('editorRun', `sim: the editor's run of the demo (automatic end ${autoEnd} s; rtol 1e-4, atol 1e-7, outputStep until/500; as drawn + linear overlay)`, autoEnd, 4);
+  compare(
+    'editorRun',
+    `sim: the editor's run of the demo (automatic end ${autoEnd} s; rtol 1e-4, atol 1e-7, outputStep until/500; as drawn + linear overlay)`,
+    autoEnd,
+    4,
+  );
   const viewEnd = positioningAxis.simulation?.end ?? autoEnd;
   compare('editorRunView', `sim: the same at the demo's own view length (${viewEnd} s)`, viewEnd);
 

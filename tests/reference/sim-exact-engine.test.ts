@@ -17,7 +17,12 @@ describe('matrix exponential ladder against mathjs expm', () => {
   // built bottom-up in the e^X − I form and applies any step length as rungs plus a series
   const cases: { name: string; N: number; h0: number; make: (r: () => number, N: number) => number[][] }[] = [
     { name: 'random 4×4', N: 4, h0: 0.3, make: (r, N) => Array.from({ length: N }, () => Array.from({ length: N }, () => 4 * r() - 2)) },
-    { name: 'random 9×9, large norm', N: 9, h0: 0.05, make: (r, N) => Array.from({ length: N }, () => Array.from({ length: N }, () => 200 * r() - 100)) },
+    {
+      name: 'random 9×9, large norm',
+      N: 9,
+      h0: 0.05,
+      make: (r, N) => Array.from({ length: N }, () => Array.from({ length: N }, () => 200 * r() - 100)),
+    },
     {
       name: 'stiff 3×3 (eigenvalues −1, −1e4, and a lightly damped pair)',
       N: 3,
@@ -55,7 +60,8 @@ describe('Hermite history (quintic pieces from values, slopes and curvatures)', 
     const d = (t: number) => -2 + 1.5 * t ** 2 - 1.2 * t ** 3 + 0.35 * t ** 4;
     const e = (t: number) => 3 * t - 3.6 * t ** 2 + 1.4 * t ** 3;
     const h = new HermiteHistory();
-    for (let k = 0; k < 5; k++) h.push(k * 0.7, (k + 1) * 0.7, p(k * 0.7), d(k * 0.7), e(k * 0.7), p((k + 1) * 0.7), d((k + 1) * 0.7), e((k + 1) * 0.7));
+    for (let k = 0; k < 5; k++)
+      h.push(k * 0.7, (k + 1) * 0.7, p(k * 0.7), d(k * 0.7), e(k * 0.7), p((k + 1) * 0.7), d((k + 1) * 0.7), e((k + 1) * 0.7));
     for (let t = 0.01; t < 3.5; t += 0.0371) expect(Math.abs(h.value(t, t) - p(t))).toBeLessThan(1e-12);
   });
 
@@ -64,7 +70,8 @@ describe('Hermite history (quintic pieces from values, slopes and curvatures)', 
     // Numerical Analysis, §3.4 (from memory)); max of s³(h − s)³ is (h/2)⁶
     const worst = (step: number) => {
       const hist = new HermiteHistory();
-      for (let a = 0; a < 2; a += step) hist.push(a, a + step, Math.exp(-a), -Math.exp(-a), Math.exp(-a), Math.exp(-a - step), -Math.exp(-a - step), Math.exp(-a - step));
+      for (let a = 0; a < 2; a += step)
+        hist.push(a, a + step, Math.exp(-a), -Math.exp(-a), Math.exp(-a), Math.exp(-a - step), -Math.exp(-a - step), Math.exp(-a - step));
       let w = 0;
       for (let t = 0.0013; t < 2; t += 0.0017) w = Math.max(w, Math.abs(hist.value(t, t) - Math.exp(-t)));
       return w;

@@ -112,7 +112,7 @@ function topologicalOrder(nodes: SimNode[], model: CompiledModel): Int32Array {
     // keep only nodes on a cycle: drop, repeatedly, stuck nodes that feed no stuck node
     const inLoop = new Uint8Array(n);
     for (let k = 0; k < n; k++) if (indeg[k] > 0) inLoop[k] = 1;
-    for (let changed = true; changed; ) {
+    for (let changed = true; changed;) {
       changed = false;
       for (let k = 0; k < n; k++) {
         if (inLoop[k] && !users[k].some((u) => inLoop[u])) {

@@ -25,8 +25,10 @@ export function chooseEngine(rs: RunState, metricCols: number[]): SegmentEngine 
   let why = '';
   if (notAffine) why = `block ${rs.blockId(notAffine.block)} is not piecewise affine`;
   else if (size > EXACT_MAX_SIZE) why = `the diagram has ${size - 1} states and inputs, above ${EXACT_MAX_SIZE - 1}`;
-  else if (steps > s.maxSteps) why = `steps no longer than the shortest dead time would need about ${Math.ceil(steps)} steps, above the budget of ${s.maxSteps}`;
+  else if (steps > s.maxSteps)
+    why = `steps no longer than the shortest dead time would need about ${Math.ceil(steps)} steps, above the budget of ${s.maxSteps}`;
   if (why === '') return new ExactEngine(rs, metricCols);
-  if (s.engine === 'exact') throw new InputError(`simulation option engine: the exact engine does not apply here: ${why}`, { field: 'engine' });
+  if (s.engine === 'exact')
+    throw new InputError(`simulation option engine: the exact engine does not apply here: ${why}`, { field: 'engine' });
   return new OdexEngine(rs);
 }

@@ -55,7 +55,16 @@ describe('the exact engine and odex agree on every shipped demo', () => {
     const wires = ['w-supply-setpoint'];
     const exact = simulate(model, { until: 14400, wires, engine: 'exact' });
     // odex at a tight tolerance, sampled every 0.05 s (288 000 points): its largest sample
-    const fine = simulate(model, { until: 14400, wires, engine: 'odex', rtol: 1e-10, atol: 1e-12, outputStep: 0.05, maxSteps: 5e6, maxWallMs: 120000 });
+    const fine = simulate(model, {
+      until: 14400,
+      wires,
+      engine: 'odex',
+      rtol: 1e-10,
+      atol: 1e-12,
+      outputStep: 0.05,
+      maxSteps: 5e6,
+      maxWallMs: 120000,
+    });
     const peak = fine.traces['wire:w-supply-setpoint'].reduce((m, v) => Math.max(m, Math.abs(v)), 0);
     const located = exact.actuators['room-controller'].peakEffort;
     expect(Math.abs(located - peak) / peak).toBeLessThan(1e-8);

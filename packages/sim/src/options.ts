@@ -32,7 +32,8 @@ export function resolveOptions(opts: SimulateOptions): Settings {
   if (opts.until === undefined) throw new InputError('simulation option until: the end time is required', { field: 'until' });
   const until = positive(opts.until, NaN, 'until', 1e9);
   const dt = positive(opts.outputStep, until / 1000, 'outputStep');
-  if (until / dt > MAX_GRID) throw new InputError(`simulation option outputStep: ${dt} s gives more than ${MAX_GRID} output points`, { field: 'outputStep' });
+  if (until / dt > MAX_GRID)
+    throw new InputError(`simulation option outputStep: ${dt} s gives more than ${MAX_GRID} output points`, { field: 'outputStep' });
   const engine = opts.engine ?? 'auto';
   if (engine !== 'auto' && engine !== 'exact' && engine !== 'odex') {
     throw new InputError(`simulation option engine: "${String(engine)}" is not one of auto, exact, odex`, { field: 'engine' });

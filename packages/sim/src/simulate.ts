@@ -36,12 +36,16 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
   }
   const metricsFor = opts.metricsFor ?? model.probes.map((p) => model.blocks[p].id);
   for (const id of metricsFor) {
-    if (!keys.includes(id) || id.startsWith('wire:')) throw new InputError(`simulation option metricsFor: "${id}" is not a probe`, { field: 'metricsFor' });
+    if (!keys.includes(id) || id.startsWith('wire:'))
+      throw new InputError(`simulation option metricsFor: "${id}" is not a probe`, { field: 'metricsFor' });
   }
 
   const rec = new Recorder(keys, Int32Array.from(sigIdx), s.dt);
   const rs = new RunState(model, built, s, budget, rec);
-  const engine = chooseEngine(rs, metricsFor.map((id) => keys.indexOf(id)));
+  const engine = chooseEngine(
+    rs,
+    metricsFor.map((id) => keys.indexOf(id)),
+  );
   runSegments(rs, engine);
   budget.finish();
 

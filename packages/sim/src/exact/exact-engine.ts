@@ -254,7 +254,10 @@ export class ExactEngine implements SegmentEngine {
       for (let i = 0; i < n; i++) {
         if (!Number.isFinite(xe[i])) {
           budget.reached = tc;
-          budget.stop('diverged', `the run diverged at t = ${fmt(tc)} s: a state of block ${this.rs.blockId(net.stateOwner[i])} is no longer finite`);
+          budget.stop(
+            'diverged',
+            `the run diverged at t = ${fmt(tc)} s: a state of block ${this.rs.blockId(net.stateOwner[i])} is no longer finite`,
+          );
           return { end: tc, restart: false, guard: -1 };
         }
       }
@@ -283,7 +286,10 @@ export class ExactEngine implements SegmentEngine {
         const a = Math.abs(v);
         if (a > s.bound) {
           budget.reached = tn;
-          budget.stop('diverged', `the run diverged at t = ${fmt(tn)} s: a state of block ${this.rs.blockId(net.stateOwner[i])} reached ${fmt(v)}, beyond the bound ±${fmt(s.bound)}`);
+          budget.stop(
+            'diverged',
+            `the run diverged at t = ${fmt(tn)} s: a state of block ${this.rs.blockId(net.stateOwner[i])} reached ${fmt(v)}, beyond the bound ±${fmt(s.bound)}`,
+          );
           return { end: tn, restart: false, guard: -1 };
         }
         if (a > this.xMax[i]) this.xMax[i] = a;
@@ -352,7 +358,7 @@ export class ExactEngine implements SegmentEngine {
       this.gPrev[i] = dwell && g1 < 0 ? 0 : g1;
       this.pPrev[i] = p1;
       if (dwell || ga < -tol) continue;
-      let bracket = -1;
+      let bracket: number;
       let gb = 0;
       if (g1 < -tol) {
         bracket = h;

@@ -51,7 +51,12 @@ export class HermiteHistory implements SignalHistory {
     if (m > this.maxAbs) this.maxAbs = m;
     const tol = this.quietTol;
     // the slope and curvature terms bound how far the piece strays between its ends
-    if (Math.abs(y0 - this.ref) > tol || Math.abs(y1 - this.ref) > tol || Math.abs(D0) + Math.abs(E0) > tol || Math.abs(D1) + Math.abs(E1) > tol) {
+    if (
+      Math.abs(y0 - this.ref) > tol ||
+      Math.abs(y1 - this.ref) > tol ||
+      Math.abs(D0) + Math.abs(E0) > tol ||
+      Math.abs(D1) + Math.abs(E1) > tol
+    ) {
       this.ref = y1;
       this.movedAt = b;
     }

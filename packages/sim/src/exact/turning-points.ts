@@ -43,7 +43,16 @@ export class TurningPoints {
     private readonly N: number,
   ) {
     const step = (): Step => ({ sys: null as unknown as ModeSystem, z: new Float64Array(N), t0: 0, h: 0 });
-    const blank = (): Best => ({ value: NaN, time: NaN, L: step(), R: step(), hasL: false, hasR: false, pending: false, pendingHasL: false });
+    const blank = (): Best => ({
+      value: NaN,
+      time: NaN,
+      L: step(),
+      R: step(),
+      hasL: false,
+      hasR: false,
+      pending: false,
+      pendingHasL: false,
+    });
     this.max = rows.map(blank);
     this.min = rows.map(blank);
     this.cur = step();

@@ -5,7 +5,6 @@ import { fmt } from '../options.ts';
 import type { RunState, SegmentEngine, SegmentOutcome } from '../run-state.ts';
 import { DEGREE, LobattoHistory, NODES } from './lobatto-history.ts';
 
-
 type Dense = (c: number, x: number) => number;
 
 /**
@@ -217,7 +216,10 @@ export class OdexEngine implements SegmentEngine {
       if (!Number.isFinite(y[i])) {
         this.reached = xold;
         budget.reached = xold;
-        budget.stop('diverged', `the run diverged at t = ${fmt(xold)} s: a state of block ${this.rs.blockId(net.stateOwner[i])} is no longer finite`);
+        budget.stop(
+          'diverged',
+          `the run diverged at t = ${fmt(xold)} s: a state of block ${this.rs.blockId(net.stateOwner[i])} is no longer finite`,
+        );
         return false;
       }
     }
@@ -334,7 +336,10 @@ export class OdexEngine implements SegmentEngine {
       const hAvg = this.hSum / 64;
       const need = (s.until - xnew) / hAvg;
       // step size collapsed far below what the segment allows, and the budget would not reach the end (or the collapse is extreme)
-      if ((need > s.maxSteps - this.steps - this.accepted && hAvg < 1e-3 * this.hCap) || (this.accepted >= 1024 && hAvg < 1e-5 * this.hCap)) {
+      if (
+        (need > s.maxSteps - this.steps - this.accepted && hAvg < 1e-3 * this.hCap) ||
+        (this.accepted >= 1024 && hAvg < 1e-5 * this.hCap)
+      ) {
         budget.stop(
           'stiff',
           `the step size collapsed to about ${fmt(hAvg)} s at t = ${fmt(xnew)} s (about ${fmt(need)} more steps needed, ` +

@@ -35,7 +35,8 @@ export const rateLimitOp = defineOp({
     const r = x[nd.so];
     const eps = 1e-9 * (1 + Math.abs(u));
     let m: number;
-    if (Math.abs(u - r) > eps) m = u > r ? 1 : -1; // behind the input: slew towards it
+    if (Math.abs(u - r) > eps)
+      m = u > r ? 1 : -1; // behind the input: slew towards it
     else if (modes.inDwell && nd.mode !== 0) m = nd.mode;
     else {
       // on the input: follow it unless its slope is beyond a limit; a slope within a hair of the
