@@ -72,10 +72,18 @@ export class Network {
     const order = this.order;
     const piece = this.piece;
     const exo = this.exo;
+    if (exo === null) {
+      for (let i = 0; i < order.length; i++) {
+        const k = order[i];
+        const nd = nodes[k];
+        sig[k] = nd.op.output(nd, t, x, sig, piece);
+      }
+      return;
+    }
     for (let i = 0; i < order.length; i++) {
       const k = order[i];
       const nd = nodes[k];
-      sig[k] = exo !== null && nd.exo >= 0 ? exo[nd.exo] : nd.op.output(nd, t, x, sig, piece);
+      sig[k] = nd.exo >= 0 ? exo[nd.exo] : nd.op.output(nd, t, x, sig, piece);
     }
   }
 
