@@ -1,6 +1,7 @@
 import { demoDiagrams } from '@loopwright/graph';
 import { describe, expect, it } from 'vitest';
 import { compileModel, simulate, type SimResult } from './index.ts';
+import { buildDiagram } from './test-support/build-diagram.ts';
 
 /**
  * Every shipped demo on both engines: the exact engine (matrix exponentials, exact event
@@ -80,5 +81,44 @@ describe('the exact engine and odex agree on every shipped demo', () => {
     expect(exact.stats.exact!.jumps).toBeGreaterThanOrEqual(1);
     const odex = simulate(model, { until: 10, engine: 'odex', rtol: 1e-9, atol: 1e-12, maxWallMs: 60000, maxSteps: 2e6 });
     agree(exact, odex, 10, 1e-6);
+  });
+});
+
+describe('which engine runs', () => {
+  it('auto takes the exact engine; a dead time far shorter than the run, or a very large diagram, falls back to odex', () => {
+    const lagWithDelay = (delay: number) =>
+      buildDiagram(
+        [
+          ['r', 'source', { shape: 'step', amplitude: 1 }],
+          ['d', 'dead-time', { delay }],
+          ['g', 'first-order-lag', { k: 1, tau: 1 }],
+          ['y', 'probe'],
+        ],
+        ['r -> d', 'd -> g', 'g -> y'],
+      );
+    expect(simulate(compileModel(lagWithDelay(0.1)), { until: 10 }).engine).toBe('exact');
+    // steps no longer than 1 µs over 10 s would need 10⁷ steps: odex steps past the dead time instead
+    const tiny = compileModel(lagWithDelay(1e-6));
+    const res = simulate(tiny, { until: 10, rtol: 1e-9, atol: 1e-12 });
+    expect(res.engine).toBe('odex');
+    expect(res.status).toBe('ok');
+    // first-order lag behind the dead time: 1 − e^(−(t − θ)) (standard closed form)
+    expect(Math.abs(res.traces.y[res.traces.y.length - 1] - (1 - Math.exp(-(10 - 1e-6))))).toBeLessThan(1e-6);
+    expect(() => simulate(tiny, { until: 10, engine: 'exact' })).toThrowError(
+      /exact engine does not apply here: steps no longer than the shortest dead time/,
+    );
+
+    const blocks: Parameters<typeof buildDiagram>[0] = [['r', 'source', { shape: 'step', amplitude: 1 }]];
+    const wires: string[] = [];
+    for (let i = 0; i < 130; i++) {
+      blocks.push([`l${i}`, 'first-order-lag', { k: 1, tau: 0.1 }]);
+      wires.push(`${i === 0 ? 'r' : `l${i - 1}`} -> l${i}`);
+    }
+    blocks.push(['y', 'probe']);
+    wires.push('l129 -> y');
+    const big = compileModel(buildDiagram(blocks, wires));
+    expect(simulate(big, { until: 1, outputStep: 0.1 }).engine).toBe('odex');
+    expect(() => simulate(big, { until: 1, engine: 'exact' })).toThrowError(/131 states and inputs, above 119/);
+    expect(() => simulate(big, { until: 1, engine: 'fast' as 'exact' })).toThrowError(/engine: "fast" is not one of auto, exact, odex/);
   });
 });
