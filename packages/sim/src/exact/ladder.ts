@@ -29,7 +29,9 @@ export class Ladder {
     this.M = M;
     const norm = norm1(M, N) * h0;
     // at least one rung below h0 (e^(M·h0/2) is the mid-step guard check), and as many as the output lattice needs
-    const K = Math.max(1, minRungs, norm > 0 ? Math.ceil(Math.log2(norm * 64)) : 0);
+    // (a matrix that is not finite gets no extra rungs: its steps come out not finite and the run
+    // ends as diverged, naming the time)
+    const K = Math.max(1, minRungs, norm > 0 && Number.isFinite(norm) ? Math.ceil(Math.log2(norm * 64)) : 0);
     this.K = K;
     const X = new Float64Array(N * N);
     const f = h0 / 2 ** K;
