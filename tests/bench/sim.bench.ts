@@ -1,40 +1,12 @@
 // Simulation speed: the exact engine against odex on the positioning-axis demo (its 10 s run and
 // the editor's run), the compiled model's overhead against the same equations written by hand on
 // the same solver, and cost growth with states and simulated time.
-import { closedLoopPoles, positioningAxis, type BlockKind, type Diagram, type ParamValue } from '@loopwright/graph';
+import { positioningAxis, type BlockKind, type ParamValue } from '@loopwright/graph';
 import { compileModel, simulate, type SimResult, type SimulateOptions } from '@loopwright/sim';
 import { buildDiagram } from '@loopwright/sim/testing';
+import { actuatorsOf, automaticEnd, runSettings } from '@loopwright/study';
 import { Solver } from 'odex';
 import { type BenchResult, bench, fitExponent, ratio, record, report, section } from './harness.ts';
-
-/**
- * The editor's run length when a diagram sets none (the editor's automatic end): six time
- * constants of the slowest closed-loop pole after the last source start, rounded up to 1, 2 or
- * 5 × 10ⁿ s.
- */
-function editorEnd(d: Diagram): number {
-  const slowest = Math.min(
-    ...closedLoopPoles(d, {})
-      .filter((p) => p.re < -1e-9)
-      .map((p) => -p.re),
-  );
-  const start = Math.max(0, ...d.blocks.map((b) => (b.kind === 'source' && typeof b.params.start === 'number' ? b.params.start : 0)));
-  const end = start + Math.min(Math.max(6 / slowest, 1), 2000);
-  const e = 10 ** Math.floor(Math.log10(end));
-  return [1, 2, 5, 10].find((f) => end / e <= f)! * e;
-}
-
-/** The wires the editor records besides the probes: the first wire out of each limiting block. */
-function actuatorWires(d: Diagram): string[] {
-  const limits = (b: Diagram['blocks'][number]) =>
-    b.kind === 'saturation' || b.kind === 'rate-limit' || (b.kind === 'pid' && (b.params.umin !== '' || b.params.umax !== ''));
-  return d.blocks.filter(limits).flatMap((b) =>
-    d.wires
-      .filter((w) => w.from.block === b.id)
-      .slice(0, 1)
-      .map((w) => w.id),
-  );
-}
 
 function chain(n: number) {
   const blocks: [string, BlockKind, Record<string, ParamValue>?][] = [['r', 'source', { shape: 'step', amplitude: 1 }]];
@@ -189,25 +161,20 @@ export async function run(): Promise<void> {
   report(bod);
   record('axis10s.speedup', ratio('odex / exact', bod, bex, { atLeast: 8 }, 'axis10s.odex-over-exact'), 'ratio');
 
-  // The editor's run (apps/editor/src/worker/compute.ts computeResponse): rtol 1e-4, atol 1e-7,
-  // outputStep until/500, the actuators' wires recorded, the as-drawn run and its linear overlay.
-  const editorPair = (until: number, engine: 'exact' | 'odex') => {
-    const wires = actuatorWires(positioningAxis);
-    const common: SimulateOptions = { until, wires, maxWallMs: 5000, outputStep: until / 500, rtol: 1e-4, atol: 1e-7, engine };
+  // The editor's run of the demo: the as-drawn run and its linear overlay, the actuators' wires
+  // recorded (as study's responseStudy does), on each engine.
+  const wires = actuatorsOf(positioningAxis).map((a) => a.key.slice(5));
+  type Settings = { until: number; rtol: number; atol: number; outputStep: number };
+  const editorPair = (set: Settings, engine: 'exact' | 'odex') => {
+    const common: SimulateOptions = { ...set, wires, maxWallMs: 5000, engine };
     return () => {
       simulate(axis, common);
       simulate(axis, { ...common, linear: true });
     };
   };
-  const compare = (key: string, title: string, until: number, atLeast?: number) => {
+  const compare = (key: string, title: string, set: Settings, atLeast?: number) => {
     section(title);
-    const [ex, od] = benchPair(
-      `exact engine, ${until} s run`,
-      editorPair(until, 'exact'),
-      `odex, ${until} s run`,
-      editorPair(until, 'odex'),
-      15,
-    );
+    const [ex, od] = benchPair('exact engine', editorPair(set, 'exact'), 'odex', editorPair(set, 'odex'), 15);
     record(`${key}.ms`, ex.median, 'ms');
     record(`${key}.odexMs`, od.median, 'ms');
     report(ex, undefined, `${key}.exact`);
@@ -218,15 +185,27 @@ export async function run(): Promise<void> {
       'ratio',
     );
   };
-  const autoEnd = editorEnd(positioningAxis);
+  // the settings this figure was defined with: the automatic end, rtol 1e-4, atol 1e-7, until/500
+  const autoEnd = automaticEnd(positioningAxis);
+  const brief = { rtol: 1e-4, atol: 1e-7 };
   compare(
     'editorRun',
-    `sim: the editor's run of the demo (automatic end ${autoEnd} s; rtol 1e-4, atol 1e-7, outputStep until/500; as drawn + linear overlay)`,
-    autoEnd,
+    `sim: the editor's run of the demo (automatic end ${autoEnd} s, rtol 1e-4, atol 1e-7, output step until/500; as drawn + linear overlay)`,
+    { until: autoEnd, ...brief, outputStep: autoEnd / 500 },
     4,
   );
-  const viewEnd = positioningAxis.simulation?.end ?? autoEnd;
-  compare('editorRunView', `sim: the same at the demo's own view length (${viewEnd} s)`, viewEnd);
+  // what the editor runs today: the diagram's own simulation settings through study (end 0.3 s, defaults otherwise)
+  const now = runSettings(positioningAxis);
+  compare(
+    'editorRunNow',
+    `sim: the editor's run as study sets it today (end ${now.until} s from the diagram, rtol ${now.rtol}, atol ${now.atol}, output step ${now.outputStep} s)`,
+    { until: now.until, rtol: now.rtol, atol: now.atol, outputStep: now.outputStep },
+  );
+  compare('editorRunShort', `sim: the diagram's ${now.until} s at the tolerances above (rtol 1e-4, atol 1e-7, output step until/500)`, {
+    until: now.until,
+    ...brief,
+    outputStep: now.until / 500,
+  });
 
   section('sim: compiled model on odex vs the same equations hand-written on the same solver');
   const model = compileModel(loop);

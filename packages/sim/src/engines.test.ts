@@ -39,7 +39,7 @@ function agree(exact: SimResult, odex: SimResult, until: number, tol: number): v
 
 describe('the exact engine and odex agree on every shipped demo', () => {
   for (const demo of demoDiagrams) {
-    const until = demo.diagram.view.simulationEnd ?? 10;
+    const until = demo.diagram.simulation?.end ?? 10;
     for (const linear of [false, true]) {
       it(`${demo.id}${linear ? ' (linear overlay)' : ''}: traces within 1e-6 of their range, same events at the same times`, () => {
         const model = compileModel(demo.diagram);
