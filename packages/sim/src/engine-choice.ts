@@ -21,7 +21,7 @@ export function chooseEngine(rs: RunState, metricCols: number[]): SegmentEngine 
   if (s.engine === 'odex') return new OdexEngine(rs);
   const notAffine = net.nodes.find((nd) => !nd.op.affine);
   const size = layoutOf(net).N;
-  const steps = ExactEngine.plannedSteps(s.until, s.dt, rs.built.delays[0] ?? Infinity);
+  const steps = ExactEngine.plannedSteps(s.until, s.dt, rs.built.delays[0] ?? Infinity, net.guards.length > 0);
   let why = '';
   if (notAffine) why = `block ${rs.blockId(notAffine.block)} is not piecewise affine`;
   else if (size > EXACT_MAX_SIZE) why = `the diagram has ${size - 1} states and inputs, above ${EXACT_MAX_SIZE - 1}`;

@@ -75,11 +75,7 @@ export class ExactEngine implements SegmentEngine {
     this.lay = layoutOf(net);
     const N = this.lay.N;
     const ng = net.guards.length;
-    let hmax = s.dt;
-    const tMin = rs.built.delays[0] ?? Infinity;
-    if (tMin < hmax) hmax = tMin;
-    if (ng > 0) hmax = Math.min(hmax, s.until / 50);
-    const lat = latticeFor(s.dt, hmax);
+    const lat = latticeFor(s.dt, ExactEngine.longestStep(s.until, s.dt, rs.built.delays[0] ?? Infinity, ng > 0));
     this.p = lat.p;
     this.q = lat.q;
     this.h0 = lat.h0;
@@ -115,8 +111,19 @@ export class ExactEngine implements SegmentEngine {
   }
 
   /** The number of exact steps a run needs without quiescence (for the engine choice). */
-  static plannedSteps(until: number, dt: number, tMin: number): number {
-    return until / latticeFor(dt, Math.min(dt, tMin)).h0;
+  static plannedSteps(until: number, dt: number, tMin: number, guards: boolean): number {
+    return until / latticeFor(dt, ExactEngine.longestStep(until, dt, tMin, guards)).h0;
+  }
+
+  /**
+   * The longest step. With dead times: no longer than the shortest of them (its window must be
+   * recorded) nor than the output step (the windows' interpolation error, of order h⁶, then
+   * shrinks with the output step the user asks for). Without: up to four output steps (the
+   * solution is exact; turning points are sampled at step ends). With guards, also at most 1/50
+   * of the run (event detection looks at the ends and the middle of a step).
+   */
+  static longestStep(until: number, dt: number, tMin: number, guards: boolean): number {
+    return Math.min(tMin < Infinity ? Math.min(dt, tMin) : 4 * dt, guards ? until / 50 : Infinity);
   }
 
   stats() {
