@@ -215,8 +215,13 @@ export async function run(): Promise<void> {
   let hd = 0;
   for (let i = 0; i < b.length; i++) hd = Math.max(hd, Math.abs(a.traces.y[i] - b[i]));
   console.log(`  (same grid: ${a.time.length} vs ${b.length} points, max difference ${hd.toExponential(2)})`);
-  const compiled = bench('compiled PI loop on odex, 20 s', () => simulate(model, opts), { minRuns: 20 });
-  const hand = bench('hand-written RHS, same loop', () => handWritten(20, 0.02, 1e-8, 1e-10), { minRuns: 20 });
+  const [compiled, hand] = benchPair(
+    'compiled PI loop on odex, 20 s',
+    () => simulate(model, opts),
+    'hand-written RHS, same loop',
+    () => handWritten(20, 0.02, 1e-8, 1e-10),
+    40,
+  );
   report(compiled);
   report(hand);
   ratio('compiled / hand-written', compiled, hand, { atMost: 2 });
