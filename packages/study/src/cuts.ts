@@ -2,8 +2,9 @@
  * Cuts: which loop the Frequency view opens, and the frequency data of L there (Bode,
  * Nyquist, |S| and |T|) with its margins and the number of open-loop right-half-plane poles.
  */
-import { DEFAULT_PADE_ORDER, compiledOf, feedbackWires, loopAtCutDetailed, type DelayHandling, type Diagram } from '@loopwright/graph';
-import { InputError, defaultFrequencyGrid, frequencyResponse, loopMargins, marginFigures, type LoopMargins, type TransferFunction } from '@loopwright/lti';
+import { DEFAULT_PADE_ORDER, compiledOf, feedbackWires, type DelayHandling, type Diagram } from '@loopwright/graph';
+import { InputError, defaultFrequencyGrid, frequencyResponse, marginFigures, type LoopMargins, type TransferFunction } from '@loopwright/lti';
+import { liveReader } from './affine-loop.ts';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { rhpPoleCount, transferData } from './transfer-data.ts';
@@ -47,6 +48,8 @@ export interface CutRequest {
   padeOrder?: number;
   /** Fall back to the default cut when the asked one is gone (the editor). */
   fallback?: boolean;
+  /** false: recompute in full at the live value (the check of the precomputed path). */
+  affine?: boolean;
 }
 
 /** Frequency data of L at a cut (every other loop closed), margins marked; null when the diagram has no loop. */
@@ -55,8 +58,9 @@ export function cutStudy(d: Diagram, req: CutRequest): FrequencyData | null {
   assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
   const cut = chooseCut(diagram, req.cut, overrides, req.fallback === true);
   if (!cut) return null;
-  const r = loopAtCutDetailed(diagram, cut.wire, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER });
-  return frequencyOfLoop(cut, r.tf, loopMargins(r.tf), r.delayHandling);
+  const live = liveReader(diagram, overrides, req.affine === false ? null : req.live, req.padeOrder ?? DEFAULT_PADE_ORDER);
+  const r = live.reader.read(compiledOf(diagram, overrides), cut.wire, 'closed');
+  return { ...frequencyOfLoop(cut, r.reduction.tf, r.margins, r.reduction.delayHandling), sweepPath: live.path() };
 }
 
 /** Bode, Nyquist, |S| and |T| of a loop L at a cut, on a grid that covers its crossovers, with its margins. */

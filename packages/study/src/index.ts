@@ -25,6 +25,7 @@ export { locusStudy, type LocusRequest } from './locus.ts';
 export { polesStudy, stableFrom, type PolesRequest } from './poles.ts';
 export { chooseCut, cutStudy, frequencyOfLoop, type ChosenCut, type CutRequest } from './cuts.ts';
 export { loopsStudy, type LoopsRequest } from './loops.ts';
+export { liveReader, type LiveReader } from './affine-loop.ts';
 export { parseSignalRef, closedLoopStudy, type ClosedLoopRequest } from './closed-loop.ts';
 export {
   responseStudy,

@@ -7,6 +7,7 @@
  */
 import { DEFAULT_PADE_ORDER, analyseLoops, type CutAnalysis, type Diagram } from '@loopwright/graph';
 import { marginFigures, type Complex } from '@loopwright/lti';
+import { liveReader } from './affine-loop.ts';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { frequencyOfLoop } from './cuts.ts';
@@ -20,6 +21,8 @@ export interface LoopsRequest {
   padeOrder?: number;
   /** Also give every row's Bode, Nyquist, |S| and |T| data (every other loop closed), e.g. for a report. */
   frequency?: boolean;
+  /** false: recompute in full at the live value (the check of the precomputed path). */
+  affine?: boolean;
 }
 
 const plain = (c: Complex) => ({ re: c.re, im: c.im });
@@ -27,7 +30,9 @@ const plain = (c: Complex) => ({ re: c.re, im: c.im });
 export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
   assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
-  const rep = analyseLoops(diagram, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER });
+  const order = req.padeOrder ?? DEFAULT_PADE_ORDER;
+  const live = liveReader(diagram, overrides, req.affine === false ? null : req.live, order);
+  const rep = analyseLoops(diagram, overrides, { padeOrder: order }, live.reader);
   // Opened loops are named by their cut ids (one name per loop across table, canvas and report).
   const cutOfWire = new Map(rep.cuts.map((c) => [c.wire, c.cut]));
   const names = (wires: readonly string[]) => wires.map((w) => cutOfWire.get(w) ?? w);
@@ -79,5 +84,6 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
     closedLoopPoles: rep.closedLoopPoles.map(plain),
     stable: rep.stable,
     notes: [...rep.notes],
+    sweepPath: live.path(),
   };
 }

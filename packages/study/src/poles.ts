@@ -18,6 +18,8 @@ export interface PolesRequest {
   /** A value held for a sweep target (the live slider value). */
   live?: LiveValue | null;
   padeOrder?: number;
+  /** false: recompute in full at the live value (the check of the precomputed path). */
+  affine?: boolean;
 }
 
 /** A pole agrees across Padé orders when it moves by less than this fraction of its size. */
@@ -37,7 +39,7 @@ export function polesStudy(d: Diagram, req: PolesRequest = {}): PolesData {
   // Validated at the document's values: a live slider value cannot change the structure.
   assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
   const order = req.padeOrder ?? DEFAULT_PADE_ORDER;
-  const swept = req.live ? engineParameterName(req.live.target) : undefined;
+  const swept = req.live && req.affine !== false ? engineParameterName(req.live.target) : undefined;
   const main = characteristicAt(diagram, overrides, order, swept);
   const poles = polyRoots(main.poly);
   let origin: PoleOrigin[] = poles.map(() => 'exact');
@@ -49,5 +51,5 @@ export function polesStudy(d: Diagram, req: PolesRequest = {}): PolesData {
       return near <= AGREE * Math.max(cabs(p), 1e-9 * scale) ? 'approximated' : 'approximant';
     });
   }
-  return { poles: poles.map(plain), origin, delayHandling: main.handling, stable: stableFrom(poles) };
+  return { poles: poles.map(plain), origin, delayHandling: main.handling, stable: stableFrom(poles), sweepPath: main.affine ? 'affine' : 'full' };
 }

@@ -49,6 +49,13 @@ export interface LiveValue {
   value: number;
 }
 
+/**
+ * How a result at a live value was computed: 'affine' from pieces precomputed once per edit (the
+ * value enters the linear model once, so every loop is (A + k·B)/(C + k·D) in it); 'full' by
+ * recomputing the diagram (no live value, or one that enters more than once or not affinely).
+ */
+export type SweepPath = 'affine' | 'full';
+
 export interface LocusBranch {
   re: number[];
   im: number[];
@@ -110,6 +117,8 @@ export interface PolesData {
   origin: PoleOrigin[];
   delayHandling: DelayHandling;
   stable: boolean;
+  /** How the poles at the live value were found (see SweepPath). */
+  sweepPath?: SweepPath;
 }
 
 // ------------------------------------------------------------------------------ cuts and loops
@@ -140,6 +149,8 @@ export interface FrequencyData {
   openLoopRhpPoles: number;
   loop: TransferData;
   delayHandling: DelayHandling;
+  /** How L at the live value was found (see SweepPath). */
+  sweepPath?: SweepPath;
 }
 
 /** One reading of a loop: L at the cut with a given set of other loops opened. */
@@ -203,6 +214,8 @@ export interface LoopsData {
   /** Whole-diagram stability from the closed-loop poles. */
   stable: boolean;
   notes: string[];
+  /** How the table at the live value was found (see SweepPath). */
+  sweepPath?: SweepPath;
 }
 
 // ------------------------------------------------------------------------------ closed loop

@@ -4,7 +4,7 @@ import type { ParameterOverrides } from '../resolve.ts';
 import { type Branch, type CompiledGraph } from './linear-graph.ts';
 import { flowGraph, simpleCycles } from './mason.ts';
 import { loopAtCutDetailed } from './cuts.ts';
-import { type DelayHandling, type ReduceOptions, closedLoopPoles, compiledOf } from './reduce.ts';
+import { type DelayHandling, type ReduceOptions, type Reduction, closedLoopPoles, compiledOf } from './reduce.ts';
 
 /**
  * The usual cascade rule: the inner loop should be 3–10 times faster than the loop around it
@@ -155,7 +155,29 @@ export function withoutWires(c: CompiledGraph, wires: readonly string[]): Compil
 
 const ratioOf = (a: number | null, b: number | null) => (a !== null && b !== null && b > 0 ? a / b : null);
 
-export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: ReduceOptions = {}): LoopsReport {
+/**
+ * How analyseLoops reads one loop and the whole diagram's poles. `config` names the graph's
+ * configuration ('closed': every other loop closed; 'alone:<wires>': those opened;
+ * 'ideal:<inner>|<wires>': the inner loop ideal, those opened), so that a caller sweeping one
+ * value can precompute what does not change and keep readings the value cannot reach.
+ */
+export interface LoopReader {
+  read(graph: CompiledGraph, wire: string, config: string): { reduction: Reduction; margins: LoopMargins };
+  poles(graph: CompiledGraph): Complex[];
+}
+
+/** The reading from scratch: a reduction of the graph and the margins of its L. */
+export function plainLoopReader(opts: ReduceOptions = {}): LoopReader {
+  return {
+    read: (g, wire) => {
+      const reduction = loopAtCutDetailed(g, wire, undefined, opts);
+      return { reduction, margins: loopMargins(reduction.tf) };
+    },
+    poles: (g) => closedLoopPoles(g, undefined, opts),
+  };
+}
+
+export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: ReduceOptions = {}, reader: LoopReader = plainLoopReader(opts)): LoopsReport {
   const c = compiledOf(d, overrides);
   const notes: string[] = [];
   const onLoop = loopBlocksByWire(c);
@@ -186,12 +208,12 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
     }
   }
   function analyseCut(k: (typeof valid)[number]): CutAnalysis {
-    const r = loopAtCutDetailed(c, k.wire, undefined, opts);
-    const margins = loopMargins(r.tf);
+    const { reduction: r, margins } = reader.read(c, k.wire, 'closed');
     const mine = blocksOf(k.wire);
     const opened = valid.filter((o) => enclosesWire(o.wire, k.wire)).map((o) => o.wire);
-    const aloneLoop = opened.length ? loopAtCutDetailed(withoutWires(c, opened), k.wire, undefined, opts).tf : r.tf;
-    const aloneMargins = opened.length ? loopMargins(aloneLoop) : margins;
+    const alone = opened.length ? reader.read(withoutWires(c, opened), k.wire, `alone:${opened.join(',')}`) : null;
+    const aloneLoop = alone ? alone.reduction.tf : r.tf;
+    const aloneMargins = alone ? alone.margins : margins;
     return {
       ...k,
       alone: { loop: aloneLoop, margins: aloneMargins, crossover: aloneMargins.gainCrossover, bandwidth: aloneMargins.bandwidth, opened },
@@ -235,14 +257,14 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
     try {
       // Both readings with the loops around the outer one opened (as tuned inner-first).
       const ideal = withIdealInnerLoop(withoutWires(c, outer.alone.opened), inner.wire);
-      const idealLoop = loopAtCutDetailed(ideal, outer.wire, undefined, opts).tf;
-      outerVsIdeal.push({ outer: outer.cut, inner: inner.cut, real: outer.alone.margins, ideal: loopMargins(idealLoop), idealLoop });
+      const read = reader.read(ideal, outer.wire, `ideal:${inner.wire}|${outer.alone.opened.join(',')}`);
+      outerVsIdeal.push({ outer: outer.cut, inner: inner.cut, real: outer.alone.margins, ideal: read.margins, idealLoop: read.reduction.tf });
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
       notes.push(`outer loop ${outer.cut} against an ideal inner loop ${inner.cut}: ${err.message}`);
     }
   }
-  const poles = closedLoopPoles(c, undefined, opts);
+  const poles = reader.poles(c);
   const scale = Math.max(1, ...poles.map((p) => Math.hypot(p.re, p.im)));
   return { cuts, separations, outerVsIdeal, closedLoopPoles: poles, stable: poles.every((p) => p.re < -1e-9 * scale), notes };
 }

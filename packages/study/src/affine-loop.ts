@@ -1,0 +1,188 @@
+/**
+ * Live sweeps of a value that enters the linear model once (a gain, a controller's Kp): by
+ * multilinearity of the interconnection determinant, the loop L read at any cut, with any set
+ * of loops opened, is (A + k·B)/(C + k·D) in that value k, with polynomials A..D that do not
+ * depend on k. They are found once per diagram edit (three reductions; the third checks the
+ * affinity) and a slider step then costs a normalisation and the margins of L(k) — and nothing
+ * for readings the value cannot reach (B = D = 0), whose reduction and margins are kept.
+ * A value that enters more than once, in a dead time, or not affinely is swept by full
+ * recomputation; every result says which path it took (`SweepPath`).
+ */
+import {
+  compiledOf,
+  loopAtCutDetailed,
+  plainLoopReader,
+  reductionOf,
+  type CompiledGraph,
+  type DelayHandling,
+  type Diagram,
+  type LoopReader,
+  type Reduction,
+} from '@loopwright/graph';
+import { InputError, loopMargins, poly, polyRoots, type Complex, type LoopMargins } from '@loopwright/lti';
+import { Lru, cached } from './cache.ts';
+import { registerCache } from './caches.ts';
+import { engineText } from './fingerprint.ts';
+import { characteristicAt, without } from './split.ts';
+import { engineParameterName } from './sweep-target.ts';
+import type { LiveValue, SweepPath } from './types.ts';
+
+/** Where the value enters the compiled model: one node's numerator or denominator, p0 + k·p1. */
+interface Site {
+  node: number;
+  side: 'num' | 'den';
+  p0: number[];
+  p1: number[];
+  /** Sample values: the pieces of every reading are fitted at the first two and checked at the third. */
+  ks: [number, number, number];
+}
+
+/** One reading's pieces: L(k) = (a + k·b)/(c + k·d)·e^(−s·delay), or a reading k cannot reach. */
+type Pieces =
+  | { kind: 'affine'; a: number[]; b: number[]; c: number[]; d: number[]; delay: number; handling: DelayHandling }
+  | { kind: 'constant'; reading: Reading }
+  | { kind: 'full' };
+
+interface Reading {
+  reduction: Reduction;
+  margins: LoopMargins;
+}
+
+/** Relative size of an affinity residual accepted as round-off (graph's affineSplit uses the same). */
+const AFFINE_TOL = 1e-9;
+
+const sites = registerCache(new Lru<Site | null>(24));
+const pieces = registerCache(new Lru<Pieces>(96));
+
+const same = (x: readonly number[], y: readonly number[]) => x.length === y.length && x.every((v, i) => v === y[i]);
+const at = (p0: readonly number[], p1: readonly number[], k: number) => poly.trim(poly.add(p0, poly.scale(p1, k)));
+
+/** p0 and p1 from samples at ks[0], ks[1], checked at ks[2] coefficient by coefficient; null when not affine. */
+function affineFit(samples: readonly (readonly number[])[], ks: readonly number[]): { p0: number[]; p1: number[] } | null {
+  const [s1, s2, s3] = samples;
+  const p1 = poly.scale(poly.sub(s2, s1), 1 / (ks[1] - ks[0]));
+  const p0 = poly.sub(s1, poly.scale(p1, ks[0]));
+  const len = Math.max(s1.length, s2.length, s3.length);
+  const size = (i: number) => Math.max(Math.abs(s1[i] ?? 0), Math.abs(s2[i] ?? 0), Math.abs(s3[i] ?? 0));
+  for (let i = 0; i < len; i++) {
+    if (Math.abs((s3[i] ?? 0) - ((p0[i] ?? 0) + ks[2] * (p1[i] ?? 0))) > AFFINE_TOL * size(i)) return null;
+  }
+  // A coefficient that does not change with k beyond round-off belongs to p0 alone.
+  const kScale = Math.max(...ks.map(Math.abs));
+  const clean = (p: number[], ref: (i: number) => number) => poly.trim(p.map((c, i) => (Math.abs(c) <= 1e-13 * ref(i) ? 0 : c)));
+  return { p0: clean(p0, size), p1: clean(p1, (i) => size(i) / kScale) };
+}
+
+/** The one place `name` enters the compiled model (compared at three values), or null. */
+function siteOf(d: Diagram, name: string, rest: Record<string, number>, value: number): Site | null {
+  const base = value !== 0 && Number.isFinite(value) ? value : 1;
+  const ks: [number, number, number] = [base, base * 1.7, base * 0.45];
+  let graphs: CompiledGraph[];
+  try {
+    graphs = ks.map((k) => compiledOf(d, { ...rest, [name]: k }));
+  } catch (err) {
+    if (err instanceof InputError) return null; // a field refuses a sample value: sweep in full
+    throw err;
+  }
+  const [g1, g2, g3] = graphs;
+  if (g1.ids.length !== g2.ids.length || !g1.delay.every((t, i) => t === g2.delay[i])) return null;
+  const found: { node: number; side: 'num' | 'den' }[] = [];
+  for (let v = 0; v < g1.ids.length; v++) {
+    if (!same(g1.num[v], g2.num[v])) found.push({ node: v, side: 'num' });
+    if (!same(g1.den[v], g2.den[v])) found.push({ node: v, side: 'den' });
+  }
+  if (found.length !== 1) return null;
+  const { node, side } = found[0];
+  const fit = affineFit([g1[side][node], g2[side][node], g3[side][node]], ks);
+  return fit ? { node, side, ...fit, ks } : null;
+}
+
+/** The graph with the site's polynomial at value k. */
+function withSite(g: CompiledGraph, s: Site, k: number): CompiledGraph {
+  const arr = g[s.side].slice();
+  arr[s.node] = at(s.p0, s.p1, k);
+  return { ...g, [s.side]: arr };
+}
+
+/** Does the graph carry the site's polynomial at k (a configuration may have replaced that node)? */
+function carries(g: CompiledGraph, s: Site, k: number): boolean {
+  const p = g[s.side][s.node];
+  const q = at(s.p0, s.p1, k);
+  const scale = Math.max(1e-300, ...q.map(Math.abs));
+  return p.length === q.length && p.every((c, i) => Math.abs(c - q[i]) <= 1e-12 * scale);
+}
+
+function fullReading(g: CompiledGraph, wire: string, padeOrder: number): Reading {
+  return plainLoopReader({ padeOrder }).read(g, wire, '');
+}
+
+function piecesOf(g: CompiledGraph, wire: string, s: Site, value: number, padeOrder: number): Pieces {
+  if (!carries(g, s, value)) return { kind: 'constant', reading: fullReading(g, wire, padeOrder) };
+  const rs = s.ks.map((k) => loopAtCutDetailed(withSite(g, s, k), wire, undefined, { padeOrder }));
+  const [r1, r2, r3] = rs;
+  if (r2.delay !== r1.delay || r3.delay !== r1.delay || r1.delayHandling.mode !== r2.delayHandling.mode) return { kind: 'full' };
+  const num = affineFit(
+    rs.map((r) => r.rawNumerator),
+    s.ks,
+  );
+  const den = affineFit(
+    rs.map((r) => r.rawDenominator),
+    s.ks,
+  );
+  if (!num || !den) return { kind: 'full' };
+  if (poly.isZero(num.p1) && poly.isZero(den.p1)) return { kind: 'constant', reading: fullReading(g, wire, padeOrder) };
+  return { kind: 'affine', a: num.p0, b: num.p1, c: den.p0, d: den.p1, delay: r1.delay, handling: r1.delayHandling };
+}
+
+/** L(k) from its pieces, normalised and cancelled as graph's reduction does. */
+function evaluate(p: Extract<Pieces, { kind: 'affine' }>, k: number, wire: string): Reading {
+  const num = at(p.a, p.b, k);
+  if (poly.isZero(num))
+    throw new InputError(`wire ${wire}: no feedback loop passes through this wire (the loop transfer there is zero)`, { field: 'wire' });
+  const reduction = reductionOf({ num, den: at(p.c, p.d, k), delay: p.delay, handling: p.handling });
+  return { reduction, margins: loopMargins(reduction.tf) };
+}
+
+/** A loop reader for one live value, and which path each reading took. */
+export interface LiveReader {
+  reader: LoopReader;
+  /** 'affine' while every reading (and the poles) came from precomputed pieces. */
+  path(): SweepPath;
+}
+
+/**
+ * The reader for a diagram at the live value: readings from precomputed pieces where the value
+ * enters once and affinely, full recomputation otherwise (no live value: always full).
+ */
+export function liveReader(
+  d: Diagram,
+  overrides: Record<string, number>,
+  live: LiveValue | null | undefined,
+  padeOrder: number,
+): LiveReader {
+  const plain = plainLoopReader({ padeOrder });
+  if (!live) return { reader: plain, path: () => 'full' };
+  const name = engineParameterName(live.target);
+  const rest = without(overrides, name);
+  const value = overrides[name];
+  const key = `${engineText(d)}|${name}|${JSON.stringify(rest)}|${padeOrder}`;
+  // The site is found at the document's value, so it stays the same while the slider moves.
+  const docValue = d.parameters.find((p) => p.name === name)?.value ?? value;
+  const site = cached(sites, key, () => siteOf(d, name, rest, docValue));
+  if (!site) return { reader: plain, path: () => 'full' };
+  let full = 0;
+  const reader: LoopReader = {
+    read: (g, wire, config) => {
+      const p = cached(pieces, `${key}|${config}|${wire}`, () => piecesOf(g, wire, site, value, padeOrder));
+      if (p.kind === 'constant') return p.reading;
+      if (p.kind === 'affine') return evaluate(p, value, wire);
+      full++;
+      return plain.read(g, wire, config);
+    },
+    poles: (g): Complex[] => {
+      const ch = characteristicAt(d, overrides, padeOrder, name);
+      return ch.poly.length > 1 ? polyRoots(ch.poly) : plain.poles(g);
+    },
+  };
+  return { reader, path: () => (full === 0 ? 'affine' : 'full') };
+}
