@@ -78,6 +78,8 @@ function agreeAt(d: Diagram, target: SweepTarget, value: number, atCrossing = fa
     expectSameMargins(r.margins, full.rows[i].margins, atCrossing);
     if (r.alone) expectSameMargins(r.alone.margins, full.rows[i].alone!.margins, atCrossing);
     expect(r.openLoopRhpPoles).toBe(full.rows[i].openLoopRhpPoles);
+    expectSamePoles(r.hiddenModes, full.rows[i].hiddenModes, 1e-5);
+    expect(r.loop.den.length).toBe(full.rows[i].loop.den.length);
   });
   fast.outerVsIdeal.forEach((o, i) => expectSameMargins(o.idealMargins, full.outerVsIdeal[i].idealMargins, atCrossing));
   expect(fast.separations.map((s) => s.flag)).toEqual(full.separations.map((s) => s.flag));

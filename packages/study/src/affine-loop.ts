@@ -10,6 +10,7 @@
  */
 import {
   compiledOf,
+  divideExactly,
   loopAtCutDetailed,
   plainLoopReader,
   reductionOf,
@@ -39,7 +40,7 @@ interface Site {
 
 /** One reading's pieces: L(k) = (a + k·b)/(c + k·d)·e^(−s·delay), or a reading k cannot reach. */
 type Pieces =
-  | { kind: 'affine'; a: number[]; b: number[]; c: number[]; d: number[]; delay: number; handling: DelayHandling }
+  | { kind: 'affine'; a: number[]; b: number[]; c: number[]; d: number[]; delay: number; handling: DelayHandling; hidden: Complex[] }
   | { kind: 'constant'; reading: Reading }
   | { kind: 'full' };
 
@@ -131,7 +132,28 @@ function piecesOf(g: CompiledGraph, wire: string, s: Site, value: number, padeOr
   );
   if (!num || !den) return { kind: 'full' };
   if (poly.isZero(num.p1) && poly.isZero(den.p1)) return { kind: 'constant', reading: fullReading(g, wire, padeOrder) };
-  return { kind: 'affine', a: num.p0, b: num.p1, c: den.p0, d: den.p1, delay: r1.delay, handling: r1.delayHandling };
+  const pieces = { a: num.p0, b: num.p1, c: den.p0, d: den.p1 };
+  // Modes the loop cannot see (block factors common to both sides) are the same at every k when
+  // they divide all four pieces: divided out once here, so that a step need not look for them.
+  const common = commonFactor(r1.hiddenModes, pieces);
+  return { kind: 'affine', ...(common ? common : pieces), delay: r1.delay, handling: r1.delayHandling, hidden: common ? r1.hiddenModes : [] };
+}
+
+/** The pieces divided by the polynomial of `modes`, when it divides every one of them exactly. */
+function commonFactor(modes: readonly Complex[], p: Record<'a' | 'b' | 'c' | 'd', number[]>): Record<'a' | 'b' | 'c' | 'd', number[]> | null {
+  if (modes.length === 0) return null;
+  const f = poly.fromRoots(modes);
+  const out = {} as Record<'a' | 'b' | 'c' | 'd', number[]>;
+  for (const key of ['a', 'b', 'c', 'd'] as const) {
+    if (poly.isZero(p[key])) {
+      out[key] = [];
+      continue;
+    }
+    const q = divideExactly(p[key], f);
+    if (!q) return null;
+    out[key] = q;
+  }
+  return out;
 }
 
 /** L(k) from its pieces, normalised and cancelled as graph's reduction does. */
@@ -140,6 +162,7 @@ function evaluate(p: Extract<Pieces, { kind: 'affine' }>, k: number, wire: strin
   if (poly.isZero(num))
     throw new InputError(`wire ${wire}: no feedback loop passes through this wire (the loop transfer there is zero)`, { field: 'wire' });
   const reduction = reductionOf({ num, den: at(p.c, p.d, k), delay: p.delay, handling: p.handling });
+  if (p.hidden.length) reduction.hiddenModes = [...p.hidden, ...reduction.hiddenModes];
   return { reduction, margins: loopMargins(reduction.tf) };
 }
 
