@@ -27,7 +27,7 @@ const line = (name: string, xs: number[], target: number, on: 'median' | 'p95') 
   console.log(`  ${name.padEnd(58)} median ${q(xs, 0.5).toFixed(1).padStart(8)} ms  p95 ${q(xs, 0.95).toFixed(1).padStart(8)} ms  n=${xs.length}  (target ${on} ≤ ${target} ms: ${verdict})`);
 };
 
-async function drawnAfterLoad(page: Page): Promise<number> {
+export async function drawnAfterLoad(page: Page): Promise<number> {
   await page.waitForFunction(
     () => {
       // Every view on screen drawn: the Locus with the closed-loop poles, and the open tab.
@@ -42,7 +42,7 @@ async function drawnAfterLoad(page: Page): Promise<number> {
 }
 
 /** Moves the slider by input events (as a drag does) and waits for each generation to be drawn. */
-async function sliderLatencies(page: Page, moves: number): Promise<number[]> {
+export async function sliderLatencies(page: Page, moves: number): Promise<number[]> {
   return page.evaluate(async (n) => {
     const hook = (window as unknown as { __loopwright: { analysis: { state(): { generation: number; renderedGeneration: number; complete: boolean }; latencies(): number[] } } }).__loopwright.analysis;
     const slider = document.querySelector<HTMLInputElement>('[data-testid="sweep-slider"]')!;

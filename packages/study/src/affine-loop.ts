@@ -21,6 +21,7 @@ import {
   type Reduction,
 } from '@loopwright/graph';
 import { InputError, loopMargins, poly, polyRoots, type Complex, type LoopMargins } from '@loopwright/lti';
+import { affineMargins, pieceGrid, type PieceGrid } from './affine-margins.ts';
 import { Lru, cached } from './cache.ts';
 import { registerCache } from './caches.ts';
 import { engineText } from './fingerprint.ts';
@@ -40,7 +41,17 @@ interface Site {
 
 /** One reading's pieces: L(k) = (a + k·b)/(c + k·d)·e^(−s·delay), or a reading k cannot reach. */
 type Pieces =
-  | { kind: 'affine'; a: number[]; b: number[]; c: number[]; d: number[]; delay: number; handling: DelayHandling; hidden: Complex[] }
+  | {
+      kind: 'affine';
+      a: number[];
+      b: number[];
+      c: number[];
+      d: number[];
+      delay: number;
+      handling: DelayHandling;
+      hidden: Complex[];
+      grid: PieceGrid;
+    }
   | { kind: 'constant'; reading: Reading }
   | { kind: 'full' };
 
@@ -136,11 +147,15 @@ function piecesOf(g: CompiledGraph, wire: string, s: Site, value: number, padeOr
   // Modes the loop cannot see (block factors common to both sides) are the same at every k when
   // they divide all four pieces: divided out once here, so that a step need not look for them.
   const common = commonFactor(r1.hiddenModes, pieces);
-  return { kind: 'affine', ...(common ? common : pieces), delay: r1.delay, handling: r1.delayHandling, hidden: common ? r1.hiddenModes : [] };
+  const kept = { ...(common ?? pieces), delay: r1.delay };
+  return { kind: 'affine', ...kept, handling: r1.delayHandling, hidden: common ? r1.hiddenModes : [], grid: pieceGrid(kept, s.ks) };
 }
 
 /** The pieces divided by the polynomial of `modes`, when it divides every one of them exactly. */
-function commonFactor(modes: readonly Complex[], p: Record<'a' | 'b' | 'c' | 'd', number[]>): Record<'a' | 'b' | 'c' | 'd', number[]> | null {
+function commonFactor(
+  modes: readonly Complex[],
+  p: Record<'a' | 'b' | 'c' | 'd', number[]>,
+): Record<'a' | 'b' | 'c' | 'd', number[]> | null {
   if (modes.length === 0) return null;
   const f = poly.fromRoots(modes);
   const out = {} as Record<'a' | 'b' | 'c' | 'd', number[]>;
@@ -163,12 +178,14 @@ function evaluate(p: Extract<Pieces, { kind: 'affine' }>, k: number, wire: strin
     throw new InputError(`wire ${wire}: no feedback loop passes through this wire (the loop transfer there is zero)`, { field: 'wire' });
   const reduction = reductionOf({ num, den: at(p.c, p.d, k), delay: p.delay, handling: p.handling });
   if (p.hidden.length) reduction.hiddenModes = [...p.hidden, ...reduction.hiddenModes];
-  return { reduction, margins: loopMargins(reduction.tf) };
+  return { reduction, margins: affineMargins(p, p.grid, k, reduction) ?? loopMargins(reduction.tf) };
 }
 
 /** A loop reader for one live value, and which path each reading took. */
 export interface LiveReader {
   reader: LoopReader;
+  /** The reading at a cut with every other loop closed; the graph is compiled only when needed. */
+  readClosed(wire: string, graph: () => CompiledGraph): Reading;
   /** 'affine' while every reading (and the poles) came from precomputed pieces. */
   path(): SweepPath;
 }
@@ -184,7 +201,12 @@ export function liveReader(
   padeOrder: number,
 ): LiveReader {
   const plain = plainLoopReader({ padeOrder });
-  if (!live) return { reader: plain, path: () => 'full' };
+  const plainOnly = (): LiveReader => ({
+    reader: plain,
+    readClosed: (wire, graph) => plain.read(graph(), wire, 'closed'),
+    path: () => 'full',
+  });
+  if (!live) return plainOnly();
   const name = engineParameterName(live.target);
   const rest = without(overrides, name);
   const value = overrides[name];
@@ -192,20 +214,21 @@ export function liveReader(
   // The site is found at the document's value, so it stays the same while the slider moves.
   const docValue = d.parameters.find((p) => p.name === name)?.value ?? value;
   const site = cached(sites, key, () => siteOf(d, name, rest, docValue));
-  if (!site) return { reader: plain, path: () => 'full' };
+  if (!site) return plainOnly();
   let full = 0;
+  const readLazy = (graph: () => CompiledGraph, wire: string, config: string): Reading => {
+    const p = cached(pieces, `${key}|${config}|${wire}`, () => piecesOf(graph(), wire, site, value, padeOrder));
+    if (p.kind === 'constant') return p.reading;
+    if (p.kind === 'affine') return evaluate(p, value, wire);
+    full++;
+    return plain.read(graph(), wire, config);
+  };
   const reader: LoopReader = {
-    read: (g, wire, config) => {
-      const p = cached(pieces, `${key}|${config}|${wire}`, () => piecesOf(g, wire, site, value, padeOrder));
-      if (p.kind === 'constant') return p.reading;
-      if (p.kind === 'affine') return evaluate(p, value, wire);
-      full++;
-      return plain.read(g, wire, config);
-    },
+    read: (g, wire, config) => readLazy(() => g, wire, config),
     poles: (g): Complex[] => {
       const ch = characteristicAt(d, overrides, padeOrder, name);
       return ch.poly.length > 1 ? polyRoots(ch.poly) : plain.poles(g);
     },
   };
-  return { reader, path: () => (full === 0 ? 'affine' : 'full') };
+  return { reader, readClosed: (wire, graph) => readLazy(graph, wire, 'closed'), path: () => (full === 0 ? 'affine' : 'full') };
 }

@@ -50,7 +50,12 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
     hiddenModes: c.hiddenModes.map(plain),
     frequency: req.frequency ? frequencyOfLoop({ id: c.cut, wire: c.wire, label: c.label }, c.loop, c.margins, c.delayHandling) : null,
     alone: c.alone.opened.length
-      ? { loop: transferData(c.alone.loop), margins: marginFigures(c.alone.margins), openLoopRhpPoles: rhpPoleCount(c.alone.loop), opened: names(c.alone.opened) }
+      ? {
+          loop: transferData(c.alone.loop),
+          margins: marginFigures(c.alone.margins),
+          openLoopRhpPoles: rhpPoleCount(c.alone.loop),
+          opened: names(c.alone.opened),
+        }
       : null,
   }));
   const byCut = new Map<string, CutAnalysis>(rep.cuts.map((c) => [c.cut, c]));

@@ -51,5 +51,11 @@ export function polesStudy(d: Diagram, req: PolesRequest = {}): PolesData {
       return near <= AGREE * Math.max(cabs(p), 1e-9 * scale) ? 'approximated' : 'approximant';
     });
   }
-  return { poles: poles.map(plain), origin, delayHandling: main.handling, stable: stableFrom(poles), sweepPath: main.affine ? 'affine' : 'full' };
+  return {
+    poles: poles.map(plain),
+    origin,
+    delayHandling: main.handling,
+    stable: stableFrom(poles),
+    sweepPath: main.affine ? 'affine' : 'full',
+  };
 }

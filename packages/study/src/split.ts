@@ -35,7 +35,12 @@ export function splitOf(d: Diagram, name: string, overrides: Record<string, numb
 }
 
 /** The characteristic polynomial with `overrides` in force; through the split when `swept` names an affine parameter. */
-export function characteristicAt(d: Diagram, overrides: Record<string, number>, padeOrder: number, swept?: string): { poly: number[]; handling: DelayHandling; affine: boolean } {
+export function characteristicAt(
+  d: Diagram,
+  overrides: Record<string, number>,
+  padeOrder: number,
+  swept?: string,
+): { poly: number[]; handling: DelayHandling; affine: boolean } {
   if (swept !== undefined && overrides[swept] !== undefined) {
     const s = splitOf(d, swept, overrides, padeOrder);
     if (s) return { poly: poly.add(s.d0, poly.scale(s.n0, overrides[swept])), handling: s.handling, affine: true };

@@ -1,0 +1,122 @@
+/**
+ * A slider step in the editor, in two figures:
+ *  - `editor.sliderEngine.p95ms`: engine time per slider step on the positioning-axis demo —
+ *    the studies the driver sends for the views on screen (`channelStudies`), through the
+ *    worker's own entry (`computeReply`), summed over the channels a step changes; target ≤ 5 ms.
+ *    Per view as `editor.sliderEngine.<view>.p95ms`; the headline is the view the editor opens
+ *    with (Locus, whose Response strip runs the simulation). The same steps recomputed in full
+ *    (`affine: false`) give `editor.sliderEngine.<view>.fullP95ms` and the ratio.
+ *  - `editor.slider.p95ms`: slider → all views drawn in headless Chromium while a second process
+ *    keeps one core busy (`editor.slider.quietP95ms`: the same without it); target ≤ 50 ms.
+ */
+import { spawn } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { demoDiagrams } from '@loopwright/graph';
+import { clearCaches, resolveSweep, type StudyRequest } from '@loopwright/study';
+import { channelStudies, computeReply, type Channel } from '@loopwright/editor/testing';
+import { CHROMIUM, openEditor, setup, teardown } from '../e2e/harness.ts';
+import { drawnAfterLoad, sliderLatencies } from './editor-browser.bench.ts';
+import { record, section } from './harness.ts';
+
+const q = (xs: number[], f: number) => {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.floor(f * s.length))];
+};
+
+type View = 'locus' | 'response' | 'frequency' | 'loops';
+const VIEWS: View[] = ['locus', 'response', 'frequency', 'loops'];
+
+/** The channels a slider step changes with `view` on screen (the driver's `needed`, less the findings, which do not follow the slider). */
+const channelsFor = (view: View): Channel[] => [
+  'analysis',
+  ...(view === 'loops' ? (['loops'] as Channel[]) : []),
+  ...(view === 'response' || view === 'locus' ? (['response'] as Channel[]) : []),
+];
+
+const forceFull = (r: StudyRequest): StudyRequest =>
+  r.kind === 'poles' || r.kind === 'cut' || r.kind === 'loops' ? { ...r, affine: false } : r;
+
+/** Engine ms of each step (sum over channels), stepping the slider through its range as a drag does. */
+function engineSteps(view: View, steps: number, full: boolean): number[] {
+  const d = demoDiagrams.find((x) => x.id === 'positioning-axis')!.diagram;
+  const out: number[] = [];
+  for (let i = -3; i < steps; i++) {
+    // Positions 0.3–0.7 of the slider, each step a new value (a log range: the editor's mapping).
+    const sweep = resolveSweep(d, { key: null, liveValue: null });
+    const { min, max } = sweep.range!;
+    const value = min * (max / min) ** (0.3 + (((i + 3) * 37) % 400) / 1000);
+    const inputs = {
+      diagram: d,
+      sweep: resolveSweep(d, { key: null, liveValue: value }),
+      live: { target: sweep.choice!.target, value },
+      cutId: null,
+    };
+    const studies = channelStudies(inputs, { frequency: view === 'frequency', opposite: false });
+    let ms = 0;
+    for (const ch of channelsFor(view)) {
+      const reqs = full ? studies[ch].map(forceFull) : studies[ch];
+      const t0 = performance.now();
+      const reply = computeReply({ channel: ch, id: i + 10, diagram: d, studies: reqs });
+      ms += performance.now() - t0;
+      if (!reply.ok) throw new Error(reply.error);
+      for (const p of reply.results) if (!p.ok) throw new Error(p.error);
+    }
+    if (i >= 0) out.push(ms);
+  }
+  return out;
+}
+
+async function browserSlider(busy: boolean): Promise<number[] | null> {
+  if (!existsSync(CHROMIUM)) return null;
+  await setup();
+  // A second process that keeps one core busy for the whole measurement.
+  const hog = busy ? spawn(process.execPath, ['-e', 'for(;;){}'], { stdio: 'ignore' }) : null;
+  try {
+    const s = await openEditor({ width: 1440, height: 900 });
+    try {
+      await drawnAfterLoad(s.page);
+      await sliderLatencies(s.page, 5); // warm-up
+      return await sliderLatencies(s.page, 40);
+    } finally {
+      await s.close();
+    }
+  } finally {
+    hog?.kill();
+    await teardown();
+  }
+}
+
+export async function run(): Promise<void> {
+  section('editor: a slider step (positioning-axis demo)');
+  clearCaches();
+  for (const view of VIEWS) {
+    const fast = engineSteps(view, 40, false);
+    const full = engineSteps(view, 20, true);
+    const p95 = record(`sliderEngine.${view}.p95ms`, q(fast, 0.95), 'ms');
+    const fullP95 = record(`sliderEngine.${view}.fullP95ms`, q(full, 0.95), 'ms');
+    record(`sliderEngine.${view}.medianMs`, q(fast, 0.5), 'ms');
+    const ratio = record(`sliderEngine.${view}.fullRatio`, q(full, 0.5) / q(fast, 0.5), 'ratio');
+    if (view === 'locus') record('sliderEngine.p95ms', p95, 'ms');
+    const verdict = p95 <= 5 ? 'met' : 'MISSED';
+    console.log(
+      `  engine per step, ${view.padEnd(9)} view: median ${q(fast, 0.5).toFixed(2).padStart(7)} ms  p95 ${p95.toFixed(2).padStart(7)} ms  (target ≤ 5 ms: ${verdict});` +
+        `  full recomputation p95 ${fullP95.toFixed(2)} ms, median ratio ${ratio.toFixed(1)}×`,
+    );
+  }
+  if (!existsSync(CHROMIUM)) {
+    console.log(`  slider → all views drawn: skipped, no browser at ${CHROMIUM} (sudo apt-get install -y chromium)`);
+    return;
+  }
+  const quiet = await browserSlider(false);
+  const busy = await browserSlider(true);
+  if (!quiet || !busy) return;
+  record('slider.quietP95ms', q(quiet, 0.95), 'ms');
+  const p95 = record('slider.p95ms', q(busy, 0.95), 'ms');
+  record('slider.medianMs', q(busy, 0.5), 'ms');
+  console.log(
+    `  slider → all views drawn (Locus view), one core kept busy: median ${q(busy, 0.5).toFixed(1)} ms  p95 ${p95.toFixed(1)} ms  (target ≤ 50 ms: ${p95 <= 50 ? 'met' : 'MISSED'})`,
+  );
+  console.log(
+    `  the same on a quiet machine:                                median ${q(quiet, 0.5).toFixed(1)} ms  p95 ${q(quiet, 0.95).toFixed(1)} ms`,
+  );
+}
