@@ -114,8 +114,8 @@ describe('a live sweep through precomputed pieces agrees with full recomputation
   it('a three-loop cascade: the outer gain, the middle PID gain, negative values, and the value at a jω crossing', () => {
     clearCaches();
     const d = threeLoopAxis();
-    for (const v of [5, 40, 150, -3, -40]) agreeAt(d, { kind: 'parameter', name: 'Kpos' }, v);
-    for (const v of [0.05, 0.2, 0.9]) agreeAt(d, { kind: 'parameter', name: 'Kv' }, v);
+    for (const v of [5, 41, 150, -3, -40]) agreeAt(d, { kind: 'parameter', name: 'Kpos' }, v);
+    for (const v of [0.05, 0.25, 0.9]) agreeAt(d, { kind: 'parameter', name: 'Kv' }, v);
     // At the gain where the locus crosses the jω axis the loop is marginally stable.
     const target: SweepTarget = { kind: 'parameter', name: 'Kpos' };
     const crossing = locusStudy(d, { target }).crossings.find((c) => c.omega > 0 && c.gain > 0);
@@ -128,6 +128,15 @@ describe('a live sweep through precomputed pieces agrees with full recomputation
     const base = threeLoopAxis();
     const d: Diagram = { ...base, blocks: base.blocks.map((b) => (b.id === 'Cpos' ? { ...b, params: { ...b.params, k: 40 } } : b)) };
     for (const v of [20, 80, -10]) agreeAt(d, { kind: 'block', block: 'Cpos', field: 'k' }, v);
+  });
+
+  it("the document's own value is computed in full (the figures the command line prints), a held value next to it is not", () => {
+    clearCaches();
+    const d = threeLoopAxis(40);
+    const target: SweepTarget = { kind: 'parameter', name: 'Kpos' };
+    expect(loopsStudy(d, { live: { target, value: 40 } }).sweepPath).toBe('full');
+    expect(cutStudy(d, { cut: null, live: { target, value: 40 } })!.sweepPath).toBe('full');
+    expect(loopsStudy(d, { live: { target, value: 40.5 } }).sweepPath).toBe('affine');
   });
 
   it('a time constant is not affine: the results say they were recomputed in full, and agree with the request that asks for it', () => {
@@ -150,7 +159,7 @@ describe('a live sweep through precomputed pieces agrees with full recomputation
 describe('the precomputed path against closed forms', () => {
   // L = k/(s(s+1)(s+2)): GM = 6/k at ω = √2 (Routh–Hurwitz, Ogata Example 6-1, from memory) [R03];
   // k = 2: GM 3, PM 32.61°; k = 4: GM 1.5, PM 11.42° [R62, derived from R03 and R21].
-  const d = unityLoop(1, '1/(s*(s + 1)*(s + 2))', { min: 0.1, max: 20 });
+  const d = unityLoop(10, '1/(s*(s + 1)*(s + 2))', { min: 0.1, max: 20 });
   const target: SweepTarget = { kind: 'parameter', name: 'K' };
 
   it('gain margin 6/k at ω = √2 for every k, PM at k = 2 and 4 [R03, R62]', () => {

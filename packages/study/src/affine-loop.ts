@@ -211,8 +211,12 @@ export function liveReader(
   const rest = without(overrides, name);
   const value = overrides[name];
   const key = `${engineText(d)}|${name}|${JSON.stringify(rest)}|${padeOrder}`;
-  // The site is found at the document's value, so it stays the same while the slider moves.
+  // The document's own value is computed in full: the figures the command line prints for the
+  // diagram, to the last digit. Held values in between (a slider drag) take the precomputed path,
+  // which agrees to the refinement's precision (crossovers to round-off, peaks to ~1e-8).
   const docValue = d.parameters.find((p) => p.name === name)?.value ?? value;
+  if (value === docValue) return plainOnly();
+  // The site is found at the document's value, so it stays the same while the slider moves.
   const site = cached(sites, key, () => siteOf(d, name, rest, docValue));
   if (!site) return plainOnly();
   let full = 0;

@@ -48,7 +48,9 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
     openLoopRhpPoles: rhpPoleCount(c.loop),
     delayHandling: c.delayHandling,
     hiddenModes: c.hiddenModes.map(plain),
-    frequency: req.frequency ? frequencyOfLoop({ id: c.cut, wire: c.wire, label: c.label }, c.loop, c.margins, c.delayHandling) : null,
+    frequency: req.frequency
+      ? { ...frequencyOfLoop({ id: c.cut, wire: c.wire, label: c.label }, c.loop, c.margins, c.delayHandling), sweepPath: live.path() }
+      : null,
     alone: c.alone.opened.length
       ? {
           loop: transferData(c.alone.loop),
