@@ -64,7 +64,8 @@ interface Reading {
 const AFFINE_TOL = 1e-9;
 
 const sites = registerCache(new Lru<Site | null>(24));
-const pieces = registerCache(new Lru<Pieces>(96));
+// Each affine entry holds its grid (nine arrays of a few thousand doubles): some 150 kB.
+const pieces = registerCache(new Lru<Pieces>(48));
 
 const same = (x: readonly number[], y: readonly number[]) => x.length === y.length && x.every((v, i) => v === y[i]);
 const at = (p0: readonly number[], p1: readonly number[], k: number) => poly.trim(poly.add(p0, poly.scale(p1, k)));
