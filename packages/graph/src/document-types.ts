@@ -5,6 +5,10 @@
  * that loading then saving an unchanged document gives the same bytes.
  */
 
+import type { BlockKind } from './catalogue/index.ts';
+
+export type { BlockKind };
+
 export const DIAGRAM_FORMAT = 'loopwright.diagram';
 export const DIAGRAM_VERSION = 2;
 
@@ -21,22 +25,6 @@ export interface NamedParameter {
   scale?: 'linear' | 'log';
   description?: string;
 }
-
-export type BlockKind =
-  | 'transfer-function'
-  | 'gain'
-  | 'pid'
-  | 'lead-lag'
-  | 'integrator'
-  | 'first-order-lag'
-  | 'second-order'
-  | 'dead-time'
-  | 'summing-junction'
-  | 'saturation'
-  | 'rate-limit'
-  | 'dead-zone'
-  | 'source'
-  | 'probe';
 
 export interface Block {
   id: string;

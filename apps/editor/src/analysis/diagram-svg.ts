@@ -3,7 +3,7 @@
  * blocks as rounded cards with their label and main parameters, summing junctions as circles
  * with their signs, wires as arrows, cuts marked on their wires.
  */
-import type { Block, Diagram } from '@loopwright/graph';
+import { blockSpec, type Block, type Diagram } from '@loopwright/graph';
 
 const W = 132;
 const H = 54;
@@ -11,36 +11,10 @@ const R = 18;
 
 const esc = (s: string): string => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 
+/** The block's card text from the catalogue: its formula, or its caption (limits, shape). */
 function summary(b: Block): string {
-  const p = b.params;
-  const v = (k: string) => (p[k] === undefined || p[k] === '' ? '' : String(p[k]));
-  switch (b.kind) {
-    case 'transfer-function':
-      return v('expression');
-    case 'gain':
-      return `k = ${v('k')}`;
-    case 'pid':
-      return p.form === 'parallel' ? `kp ${v('kp')} ki ${v('ki')} kd ${v('kd')}` : `kp ${v('kp')} ti ${v('ti')} td ${v('td')}`;
-    case 'lead-lag':
-      return `${v('k')}(${v('tLead')}s+1)/(${v('tLag')}s+1)`;
-    case 'integrator':
-      return `${v('k')}/s`;
-    case 'first-order-lag':
-      return `${v('k')}/(${v('tau')}s+1)`;
-    case 'second-order':
-      return `wn ${v('wn')} ζ ${v('zeta')}`;
-    case 'dead-time':
-      return `e^(−${v('delay')}s)`;
-    case 'saturation':
-    case 'dead-zone':
-      return `[${v('lower')}, ${v('upper')}]`;
-    case 'rate-limit':
-      return `+${v('rising')} / −${v('falling')} per s`;
-    case 'source':
-      return `${v('shape')} ${v('amplitude')}`;
-    default:
-      return '';
-  }
+  const c = blockSpec(b.kind).card(b.params);
+  return c.formula ?? c.caption ?? '';
 }
 
 const isRound = (b: Block) => b.kind === 'summing-junction';
