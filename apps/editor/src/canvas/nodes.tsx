@@ -32,7 +32,7 @@ export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<B
   const { block, inputs, outputs, fault, swept, sweptHere } = data;
   const spec = blockSpec(block.kind);
   const content = spec.card(block.params);
-  const cls = ['lw-card', `lw-kind-${block.kind}`, selected ? 'is-selected' : '', fault ? `fault-${fault}` : '', sweptHere ? 'is-swept' : '']
+  const cls = ['lw-card', `lw-kind-${block.kind}`, `lw-category-${spec.category}`, selected ? 'is-selected' : '', fault ? `fault-${fault}` : '', sweptHere ? 'is-swept' : '']
     .filter(Boolean)
     .join(' ');
   return (
