@@ -14,6 +14,7 @@ const CONTRACT: Record<BlockKind, string[]> = {
   integrator: ['k'],
   'first-order-lag': ['k', 'tau'],
   'second-order': ['k', 'wn', 'zeta'],
+  notch: ['frequency', 'frequencyUnit', 'depth', 'damping'],
   'dead-time': ['delay'],
   'summing-junction': ['signs'],
   saturation: ['lower', 'upper'],

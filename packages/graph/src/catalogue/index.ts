@@ -5,6 +5,7 @@ import { firstOrderLagSpec } from './first-order-lag.ts';
 import { gainSpec } from './gain.ts';
 import { integratorSpec } from './integrator.ts';
 import { leadLagSpec } from './lead-lag.ts';
+import { notchSpec } from './notch.ts';
 import { pidSpec } from './pid.ts';
 import { probeSpec } from './probe.ts';
 import { rateLimitSpec } from './rate-limit.ts';
@@ -16,10 +17,11 @@ import { transferFunctionSpec } from './transfer-function.ts';
 import type { BlockSpec, StoredParams } from './types.ts';
 
 export type { BlockSpec, CardContent, IconStroke, LinearForm, ParamSpec, ResolvedParams, StoredParams } from './types.ts';
-export { defineBlock } from './types.ts';
+export { defineBlock, unitOf } from './types.ts';
 export { sumSigns, MAX_SUM_INPUTS } from './summing-junction.ts';
 export { defaultTrackingTime, PID_FORMS, ANTI_WINDUP_MODES } from './pid.ts';
 export { SOURCE_SHAPES } from './source.ts';
+export { NOTCH_UNITS, notchFigures, type NotchFigures } from './notch.ts';
 
 /** Every block kind, in the order the Parts panel lists them. */
 export const catalogue = [
@@ -31,6 +33,7 @@ export const catalogue = [
   integratorSpec,
   firstOrderLagSpec,
   secondOrderSpec,
+  notchSpec,
   transferFunctionSpec,
   deadTimeSpec,
   saturationSpec,

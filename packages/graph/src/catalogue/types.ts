@@ -21,6 +21,8 @@ export interface ParamSpec {
   max?: number;
   exclusiveMin?: boolean;
   blank?: number;
+  /** A number whose unit another field (a choice) gives, e.g. a frequency in Hz or rad/s; it replaces `unit`. */
+  unitFrom?: string;
   /** For `text` fields: a pattern the text must match, and how to say it in a message. */
   pattern?: RegExp;
   patternHint?: string;
@@ -105,4 +107,13 @@ export interface BlockSpec<K extends string = string> {
 /** Declares a block kind; its `kind` stays a literal type, so `BlockKind` is derived from the catalogue. */
 export function defineBlock<const K extends string>(spec: BlockSpec<K>): BlockSpec<K> {
   return spec;
+}
+
+/** The unit a number field is shown in for these stored or resolved fields (its `unitFrom` choice, else `unit`). */
+export function unitOf(spec: ParamSpec, params: Readonly<Record<string, unknown>>, all?: readonly ParamSpec[]): string | undefined {
+  if (!spec.unitFrom) return spec.unit;
+  const v = params[spec.unitFrom];
+  if (typeof v === 'string' && v !== '') return v;
+  const d = all?.find((p) => p.name === spec.unitFrom)?.default;
+  return typeof d === 'string' ? d : spec.unit;
 }

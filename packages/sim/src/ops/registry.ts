@@ -23,6 +23,7 @@ const builders: Readonly<Record<BlockKind, Builder | null>> = {
   integrator: buildLinear,
   'first-order-lag': buildLinear,
   'second-order': buildLinear,
+  notch: buildLinear,
   'transfer-function': buildLinear,
   'dead-time': buildLinear,
   saturation: buildSaturation,
