@@ -4,6 +4,7 @@ import type { Block, Diagram } from '../document-types.ts';
 import { emptyDiagram } from '../document.ts';
 import { linearForm } from '../resolve.ts';
 import { closedLoop } from '../analysis/reduce.ts';
+import { diagramOf } from '../analysis/test-diagrams.ts';
 import { assembleStateSpace, evaluateStateSpace } from '../analysis/state-space.ts';
 import { blockSpec, visibleParams } from './index.ts';
 
@@ -159,37 +160,24 @@ describe('notch filter: fields, card and reduction', () => {
     expect(blockSpec('notch').card(b.params).caption).toBe('fRes Hz, -20 dB, ζp 0.25');
     const card = blockSpec('notch').card({ frequency: 10, frequencyUnit: 'rad/s', depth: -20, damping: 0.5 });
     // 2ζz·ωn = 2·0.05·10 = 1, 2ζp·ωn = 10, ωn² = 100; width 2·10·√(0.25 − 0.005) = 9.899
-    expect(card).toEqual({ formula: '(s^2 + 1*s + 100)/(s^2 + 10*s + 100)', caption: '10 rad/s, -20 dB, −3 dB width 9.899 rad/s' });
+    expect(card).toEqual({ formula: '(s^2 + 1*s + 100)/(s^2 + 10*s + 100)', caption: '10 rad/s, -20 dB, -3 dB width 9.899 rad/s' });
     expect(visibleParams('notch', {}).map((p) => p.name)).toEqual(['frequency', 'frequencyUnit', 'depth', 'damping']);
   });
 
   it('in a speed loop: both reduction methods give C·N·G/(1 + C·N·G) with a lightly damped resonance', () => {
     // Speed loop (common practice, no source): r → e → PI → notch → resonant mechanics → ω, unity feedback.
     const G = (s: Complex) => div(cx(2000 * 9e4), mul(s, add(add(mul(s, s), mul(cx(12), s)), cx(9e4))));
-    const d: Diagram = {
-      ...D0,
-      blocks: [
-        { id: 'r', kind: 'source', position: { x: 0, y: 0 }, params: {} },
-        { id: 'e', kind: 'summing-junction', position: { x: 100, y: 0 }, params: { signs: '+-' } },
-        { id: 'c', kind: 'pid', position: { x: 200, y: 0 }, params: { form: 'ideal', kp: 0.05, ti: 0.05, td: 0 } },
-        {
-          id: 'n1',
-          kind: 'notch',
-          position: { x: 300, y: 0 },
-          params: { frequency: 300, frequencyUnit: 'rad/s', depth: -30, damping: 0.4 },
-        },
-        { id: 'g', kind: 'transfer-function', position: { x: 400, y: 0 }, params: { expression: '2000*9e4/(s*(s^2 + 12*s + 9e4))' } },
-        { id: 'y', kind: 'probe', position: { x: 500, y: 0 }, params: {} },
+    const d = diagramOf(
+      [
+        ['r', 'source'],
+        ['e', 'summing-junction', { signs: '+-' }],
+        ['c', 'pid', { form: 'ideal', kp: 0.05, ti: 0.05, td: 0 }],
+        ['n1', 'notch', { frequency: 300, frequencyUnit: 'rad/s', depth: -30, damping: 0.4 }],
+        ['g', 'transfer-function', { expression: '2000*9e4/(s*(s^2 + 12*s + 9e4))' }],
+        ['y', 'probe'],
       ],
-      wires: [
-        { id: 'w1', from: { block: 'r', port: 'out' }, to: { block: 'e', port: 'in1' } },
-        { id: 'w2', from: { block: 'e', port: 'out' }, to: { block: 'c', port: 'in' } },
-        { id: 'w3', from: { block: 'c', port: 'out' }, to: { block: 'n1', port: 'in' } },
-        { id: 'w4', from: { block: 'n1', port: 'out' }, to: { block: 'g', port: 'in' } },
-        { id: 'w5', from: { block: 'g', port: 'out' }, to: { block: 'y', port: 'in' } },
-        { id: 'w6', from: { block: 'g', port: 'out' }, to: { block: 'e', port: 'in2' } },
-      ],
-    };
+      ['r->e.in1', 'e->c', 'c->n1', 'n1->g', 'g->y', 'g->e.in2'],
+    );
     const zz = 0.4 * 10 ** (-30 / 20);
     const a = closedLoop(d, { block: 'r' }, { block: 'g' });
     const sys = assembleStateSpace(d, { block: 'r' }, { block: 'g' });

@@ -42,7 +42,7 @@ function notchCard(p: StoredParams): CardContent {
     const width = unit === 'Hz' ? n.width3dB / (2 * Math.PI) : n.width3dB;
     return {
       formula: `(s^2 + ${e(2 * n.zetaZ * n.wn)}*s + ${w2})/(s^2 + ${e(2 * n.zetaP * n.wn)}*s + ${w2})`,
-      caption: `${e(f)} ${unit}, ${e(depth)} dB` + (width > 0 ? `, −3 dB width ${e(width)} ${unit}` : ''),
+      caption: `${e(f)} ${unit}, ${e(depth)} dB` + (width > 0 ? `, -3 dB width ${e(width)} ${unit}` : ''),
     };
   }
   // A field is an expression over named parameters: the form, with the fields as typed below.
@@ -58,7 +58,8 @@ export const notchSpec = defineBlock({
   description:
     '(s² + 2·ζz·ωn·s + ωn²)/(s² + 2·ζp·ωn·s + ωn²): passes the signal with gain 1 away from the notch frequency ωn and ' +
     'attenuates it to the depth at ωn (ζz = ζp·10^(depth/20)); the pole damping ζp sets the width (the −3 dB band is ' +
-    'about 2·ζp·ωn wide for a deep notch). Typically placed in a speed loop against a mechanical resonance.',
+    'about 2·ζp·ωn wide for a deep notch). Typically placed after a speed controller against a mechanical resonance: ' +
+    'measure the resonance on the machine and check the loop with it shifted, since one that leaves the notch is not attenuated.',
   category: 'linear',
   idPrefix: 'notch',
   params: [
