@@ -57,5 +57,5 @@ export {
   type ControllerPatch,
 } from './controller-block.ts';
 export { configureLoop, readLoop, seenProcess, ultimateOfLoop, READING_MODES, type LoopReadingMode, type LoopConfiguration, type SeenProcess, type DiagramUltimate } from './loop-reading.ts';
-export { loopStepResponses, rationalText, responseHorizon, type LoopForm } from './loop-responses.ts';
+export { loopStepResponses, rationalText, transferText, responseHorizon, type LoopForm } from './loop-responses.ts';
 export { fitRecord, withFittedBlock, withFittedModel, REPLACEABLE_BY_FIT } from './fitted-block.ts';

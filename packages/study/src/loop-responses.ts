@@ -39,7 +39,10 @@ function polyText(p: readonly number[]): string {
 }
 
 /** The rational part of a transfer function as expression text the transfer-function block reads. */
-export const rationalText = (tf: TransferFunction): string => `(${polyText(tf.rational.num)})/(${polyText(tf.rational.den)})`;
+export const rationalText = (tf: Pick<TransferFunction, 'rational'>): string => `(${polyText(tf.rational.num)})/(${polyText(tf.rational.den)})`;
+
+/** A transfer function (dead time included) as expression text the parser reads back exactly (coefficients ascending). */
+export const transferText = (tf: TransferFunction): string => `${rationalText(tf)}${tf.delay > 0 ? `*exp(-${exact(tf.delay)}*s)` : ''}`;
 
 /**
  * A round run length from the loops' dynamics: long enough for the slowest closed-loop mode and
