@@ -27,13 +27,22 @@ export function cascadeStudy(d: Diagram, req: CascadeRequest): CascadeData {
   const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
   const table = tableCuts(d, overrides);
   // Depth: how many loops enclose a loop (the cuts an inner-first reading opens).
-  const depth = new Map(table.map((c) => [c.id, part(() => configureLoop(d, c.id, 'inner-first', overrides))] as const).map(([id, p]) => [id, p.ok ? p.value.opened.length : -1]));
+  const depth = new Map(
+    table
+      .map((c) => [c.id, part(() => configureLoop(d, c.id, 'inner-first', overrides))] as const)
+      .map(([id, p]) => [id, p.ok ? p.value.opened.length : -1]),
+  );
   let order: string[];
   if (req.cuts) {
-    for (const id of req.cuts) if (!table.some((c) => c.id === id)) throw new InputError(`cut ${id} is not in the diagram (cuts: ${table.map((c) => c.id).join(', ') || 'none'})`, { field: 'cuts' });
+    for (const id of req.cuts)
+      if (!table.some((c) => c.id === id))
+        throw new InputError(`cut ${id} is not in the diagram (cuts: ${table.map((c) => c.id).join(', ') || 'none'})`, { field: 'cuts' });
     order = [...req.cuts];
   } else {
-    order = table.map((c) => c.id).filter((id) => depth.get(id)! >= 0).sort((a, b) => depth.get(b)! - depth.get(a)!);
+    order = table
+      .map((c) => c.id)
+      .filter((id) => depth.get(id)! >= 0)
+      .sort((a, b) => depth.get(b)! - depth.get(a)!);
   }
   if (order.length === 0) throw new InputError('the diagram has no feedback loop to tune', { field: 'cut' });
   const label = (id: string) => table.find((c) => c.id === id)?.label ?? id;
@@ -50,7 +59,10 @@ export function cascadeStudy(d: Diagram, req: CascadeRequest): CascadeData {
   const after = analyseLoops({ ...working, cuts: table }, overrides, { padeOrder });
   const notes = [...after.notes];
   for (const s of after.separations) {
-    if (s.flag) notes.push(`loop ${s.inner} inside ${s.outer}: ${s.ratio === null ? 'separation not computable' : `only ${s.ratio.toFixed(2)}× faster`}; below ${MIN_SEPARATION} the loops interact: slow the outer loop down (e.g. a larger τc or λ) or speed the inner one up`);
+    if (s.flag)
+      notes.push(
+        `loop ${s.inner} inside ${s.outer}: ${s.ratio === null ? 'separation not computable' : `only ${s.ratio.toFixed(2)}× faster`}; below ${MIN_SEPARATION} the loops interact: slow the outer loop down (e.g. a larger τc or λ) or speed the inner one up`,
+      );
   }
   return {
     rule: req.rule,

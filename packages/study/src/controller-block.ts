@@ -77,7 +77,10 @@ export function controllerOfCut(d: Diagram, wireId: string, cutName: string): Bl
 export function pidBlock(d: Diagram, id: string): Block {
   const b = d.blocks.find((x) => x.id === id);
   if (!b) throw new InputError(`block ${id}: the diagram has no such block`, { field: 'block' });
-  if (b.kind !== 'pid') throw new InputError(`block ${id}: a ${b.kind} block is no PID controller; the tuner sets a PID block's kp, ti and td`, { field: 'block' });
+  if (b.kind !== 'pid')
+    throw new InputError(`block ${id}: a ${b.kind} block is no PID controller; the tuner sets a PID block's kp, ti and td`, {
+      field: 'block',
+    });
   return b;
 }
 
@@ -169,7 +172,8 @@ export function controllerPatch(d: Diagram, blockId: string, s: ControllerSettin
       }
       return;
     }
-    if (param && uses(name) > 1) patch.notes.push(`field ${field} held "${name}", which other fields use too: the number is written into the field instead`);
+    if (param && uses(name) > 1)
+      patch.notes.push(`field ${field} held "${name}", which other fields use too: the number is written into the field instead`);
     patch.params[field] = value === null ? '' : value;
   };
   write('kp', s.kp);

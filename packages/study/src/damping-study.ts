@@ -31,7 +31,10 @@ export function dampingStudy(d: Diagram, req: DampingRequest): DampingData {
   assertAnalysable(ed, overrides);
   const split = splitOf(ed, name, overrides, req.padeOrder ?? DEFAULT_PADE_ORDER);
   if (!split) {
-    throw new InputError(`${name} does not enter the characteristic polynomial as one affine gain, so its locus is not exact: no damping target can be read from it`, { field: 'sweep' });
+    throw new InputError(
+      `${name} does not enter the characteristic polynomial as one affine gain, so its locus is not exact: no damping target can be read from it`,
+      { field: 'sweep' },
+    );
   }
   const current = documentValue(d, req.target);
   const sign = current < 0 ? -1 : 1;

@@ -11,7 +11,12 @@ import { runStudy } from './study.ts';
 import type { FitData } from './types.ts';
 
 const csv = supplyValveBumpCsv();
-const fitted: FitData = runStudy(emptyDiagram(), { kind: 'fit', csv, fileName: 'supply-valve-bump.csv', fittedAt: '2026-04-13T10:00:00.000Z' });
+const fitted: FitData = runStudy(emptyDiagram(), {
+  kind: 'fit',
+  csv,
+  fileName: 'supply-valve-bump.csv',
+  fittedAt: '2026-04-13T10:00:00.000Z',
+});
 const model = (kind: 'fopdt' | 'sopdt' | 'ipdt') => {
   const p = fitted.fits.find((f) => f.model === kind)!.result;
   if (!p.ok) throw new Error(p.error);
@@ -30,7 +35,11 @@ describe('test-log study', () => {
       rows: supplyValveBump.samples,
       chosen: { time: 'time_s', input: 'valve_pct', output: 'supply_temp_C' },
     });
-    expect(runStudy(emptyDiagram(), { kind: 'test-log', csv, output: 2, input: 'SUPPLY_TEMP_C' }).chosen).toEqual({ time: 'time_s', input: 'supply_temp_C', output: 'valve_pct' });
+    expect(runStudy(emptyDiagram(), { kind: 'test-log', csv, output: 2, input: 'SUPPLY_TEMP_C' }).chosen).toEqual({
+      time: 'time_s',
+      input: 'supply_temp_C',
+      output: 'valve_pct',
+    });
   });
 });
 
@@ -59,14 +68,25 @@ describe('fit study on the demo bump test (a second-order plant with dead time o
   });
   it('the provenance names the file, its SHA-256, the columns and rows, and the date asked for', () => {
     const p = model('sopdt').provenance;
-    expect(p.source).toEqual({ fileName: 'supply-valve-bump.csv', sha256: sha256(csv), columns: { time: 'time_s', input: 'valve_pct', output: 'supply_temp_C' }, samples: 1801, firstRow: 2, lastRow: 1802 });
+    expect(p.source).toEqual({
+      fileName: 'supply-valve-bump.csv',
+      sha256: sha256(csv),
+      columns: { time: 'time_s', input: 'valve_pct', output: 'supply_temp_C' },
+      samples: 1801,
+      firstRow: 2,
+      lastRow: 1802,
+    });
     expect(p.fittedAt).toBe('2026-04-13T10:00:00.000Z');
     expect(p.quality.nrmse).toBe(model('sopdt').nrmse);
   });
   it('bad data is refused naming the row and column', () => {
     const broken = csv.replace('\n5,50.0,', '\n5,50.0x,');
-    expect(() => runStudy(emptyDiagram(), { kind: 'fit', csv: broken, models: ['fopdt'] })).toThrow("row 7, column 'valve_pct': '50.0x' is not a number");
-    expect(() => runStudy(emptyDiagram(), { kind: 'fit', csv, models: ['fourth' as 'fopdt'] })).toThrow(/model: 'fourth' is not one of fopdt, sopdt, ipdt/);
+    expect(() => runStudy(emptyDiagram(), { kind: 'fit', csv: broken, models: ['fopdt'] })).toThrow(
+      "row 7, column 'valve_pct': '50.0x' is not a number",
+    );
+    expect(() => runStudy(emptyDiagram(), { kind: 'fit', csv, models: ['fourth' as 'fopdt'] })).toThrow(
+      /model: 'fourth' is not one of fopdt, sopdt, ipdt/,
+    );
   });
 });
 

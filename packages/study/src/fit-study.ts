@@ -72,9 +72,11 @@ export function testLogStudy(req: TestLogRequest): TestLogData {
 
 export function fitStudy(req: FitRequest): FitData {
   const models = req.models ?? [...PROCESS_MODEL_KINDS];
-  if (!Array.isArray(models) || models.length === 0) throw new InputError('models: give at least one of fopdt, sopdt, ipdt', { field: 'models' });
+  if (!Array.isArray(models) || models.length === 0)
+    throw new InputError('models: give at least one of fopdt, sopdt, ipdt', { field: 'models' });
   for (const m of models) {
-    if (!PROCESS_MODEL_KINDS.includes(m)) throw new InputError(`model: '${String(m)}' is not one of ${PROCESS_MODEL_KINDS.join(', ')}`, { field: 'model' });
+    if (!PROCESS_MODEL_KINDS.includes(m))
+      throw new InputError(`model: '${String(m)}' is not one of ${PROCESS_MODEL_KINDS.join(', ')}`, { field: 'model' });
   }
   const date = req.fittedAt === undefined ? new Date() : new Date(req.fittedAt);
   if (Number.isNaN(date.getTime())) throw new InputError(`fittedAt: '${req.fittedAt}' is not a date`, { field: 'fittedAt' });
@@ -90,7 +92,11 @@ export function fitStudy(req: FitRequest): FitData {
   const fits = models.map((model) => ({
     model,
     result: part(() => {
-      const fit = fitProcessModel(log, { model, ...(req.between ? { between: req.between } : {}), ...(req.confidence !== undefined ? { confidence: req.confidence } : {}) });
+      const fit = fitProcessModel(log, {
+        model,
+        ...(req.between ? { between: req.between } : {}),
+        ...(req.confidence !== undefined ? { confidence: req.confidence } : {}),
+      });
       return { ...fit, summary: fitSummary(fit), provenance: fitProvenance(log, fit, date) };
     }),
   }));

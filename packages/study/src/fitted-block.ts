@@ -8,7 +8,15 @@ import { InputError } from '@loopwright/lti';
 import type { BlockKind, Diagram, FitRecord } from '@loopwright/graph';
 
 /** Single-input linear blocks a fitted model may replace (the ports stay "in" and "out", so the wires stay). */
-export const REPLACEABLE_BY_FIT: readonly BlockKind[] = ['transfer-function', 'first-order-lag', 'second-order', 'lead-lag', 'integrator', 'dead-time', 'gain'];
+export const REPLACEABLE_BY_FIT: readonly BlockKind[] = [
+  'transfer-function',
+  'first-order-lag',
+  'second-order',
+  'lead-lag',
+  'integrator',
+  'dead-time',
+  'gain',
+];
 
 /** The fit record a block keeps for a fit's provenance. */
 export function fitRecord(block: string, p: FitProvenance): FitRecord {
@@ -38,14 +46,30 @@ function freshId(prefix: string, taken: readonly string[]): string {
 const labelOf = (p: FitProvenance) => `fitted ${p.model.kind.toUpperCase()}${p.source.fileName ? ` (${p.source.fileName})` : ''}`;
 
 /** A new transfer-function block holding the fitted model (below the diagram unless a position is given). */
-export function withFittedBlock(d: Diagram, p: FitProvenance, opts: { position?: { x: number; y: number }; label?: string } = {}): { diagram: Diagram; block: string } {
-  const id = freshId('tf', d.blocks.map((b) => b.id));
+export function withFittedBlock(
+  d: Diagram,
+  p: FitProvenance,
+  opts: { position?: { x: number; y: number }; label?: string } = {},
+): { diagram: Diagram; block: string } {
+  const id = freshId(
+    'tf',
+    d.blocks.map((b) => b.id),
+  );
   const xs = d.blocks.map((b) => b.position.x);
   const ys = d.blocks.map((b) => b.position.y);
   const position = opts.position ?? (d.blocks.length ? { x: Math.min(...xs), y: Math.max(...ys) + 150 } : { x: 0, y: 0 });
   const diagram: Diagram = {
     ...d,
-    blocks: [...d.blocks, { id, kind: 'transfer-function', label: opts.label ?? labelOf(p), position: { x: Math.round(position.x), y: Math.round(position.y) }, params: { expression: p.expression } }],
+    blocks: [
+      ...d.blocks,
+      {
+        id,
+        kind: 'transfer-function',
+        label: opts.label ?? labelOf(p),
+        position: { x: Math.round(position.x), y: Math.round(position.y) },
+        params: { expression: p.expression },
+      },
+    ],
     fits: withRecord(d, fitRecord(id, p)),
   };
   return { diagram, block: id };
@@ -60,11 +84,17 @@ export function withFittedModel(d: Diagram, blockId: string, p: FitProvenance): 
   const b = d.blocks.find((x) => x.id === blockId);
   if (!b) throw new InputError(`block ${blockId}: the diagram has no such block`, { field: 'block' });
   if (!REPLACEABLE_BY_FIT.includes(b.kind)) {
-    throw new InputError(`block ${blockId}: a fitted model replaces a single-input linear block (${REPLACEABLE_BY_FIT.join(', ')}), not a ${b.kind} block; make a new block instead`, {
-      field: 'block',
-    });
+    throw new InputError(
+      `block ${blockId}: a fitted model replaces a single-input linear block (${REPLACEABLE_BY_FIT.join(', ')}), not a ${b.kind} block; make a new block instead`,
+      {
+        field: 'block',
+      },
+    );
   }
-  const notes = b.kind === 'transfer-function' ? [] : [`block ${blockId} (${b.kind}) became a transfer-function block holding the fitted model; its wires stay`];
+  const notes =
+    b.kind === 'transfer-function'
+      ? []
+      : [`block ${blockId} (${b.kind}) became a transfer-function block holding the fitted model; its wires stay`];
   const diagram: Diagram = {
     ...d,
     blocks: d.blocks.map((x) => (x.id === blockId ? { ...x, kind: 'transfer-function', params: { expression: p.expression } } : x)),

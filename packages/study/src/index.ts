@@ -59,3 +59,6 @@ export {
 export { configureLoop, readLoop, seenProcess, ultimateOfLoop, READING_MODES, type LoopReadingMode, type LoopConfiguration, type SeenProcess, type DiagramUltimate } from './loop-reading.ts';
 export { loopStepResponses, rationalText, transferText, responseHorizon, type LoopForm } from './loop-responses.ts';
 export { fitRecord, withFittedBlock, withFittedModel, REPLACEABLE_BY_FIT } from './fitted-block.ts';
+// What the apps show beside fits and tunings, and the choices they offer, from the packages that own them.
+export { FIT_CAUTION, PROCESS_MODEL_KINDS, demoTestLogs, type ProcessModel, type ProcessModelKind } from '@loopwright/fit';
+export { TUNE_CAUTION, TUNE_RULES, type ControllerSetting, type TuneRule } from '@loopwright/tune';

@@ -10,8 +10,30 @@
  * controller read with its outer loop closed also sits in that outer loop — P = L/C by exact
  * division with today's C, and it changes with C: the result says so.
  */
-import { DEFAULT_PADE_ORDER, compiledOf, feedbackWires, loopAtCutDetailed, resolveParams, blockSpec, sweepLocus, type Block, type DelayHandling, type Diagram } from '@loopwright/graph';
-import { type Complex, InputError, type TransferFunction, cancelCommon, cabs, csub, cx, rdiv, tevalComplex, transfer } from '@loopwright/lti';
+import {
+  DEFAULT_PADE_ORDER,
+  compiledOf,
+  feedbackWires,
+  loopAtCutDetailed,
+  resolveParams,
+  blockSpec,
+  sweepLocus,
+  type Block,
+  type DelayHandling,
+  type Diagram,
+} from '@loopwright/graph';
+import {
+  type Complex,
+  InputError,
+  type TransferFunction,
+  cancelCommon,
+  cabs,
+  csub,
+  cx,
+  rdiv,
+  tevalComplex,
+  transfer,
+} from '@loopwright/lti';
 import { type UltimatePoint, ultimatePoint } from '@loopwright/tune';
 import { type ChosenCut, chooseCut } from './cuts.ts';
 import { loopBlocks, withBlockParams } from './controller-block.ts';
@@ -38,8 +60,14 @@ export function tableCuts(d: Diagram, overrides: Record<string, number>): { id: 
  * when B's loop passes through the junction where A's wire enters (A's error is formed inside
  * B's forward path) and A's loop does not pass through B's.
  */
-export function configureLoop(d: Diagram, requested: string | null, mode: LoopReadingMode, overrides: Record<string, number>): LoopConfiguration {
-  if (!READING_MODES.includes(mode)) throw new InputError(`reading: '${String(mode)}' is not one of ${READING_MODES.join(', ')}`, { field: 'reading' });
+export function configureLoop(
+  d: Diagram,
+  requested: string | null,
+  mode: LoopReadingMode,
+  overrides: Record<string, number>,
+): LoopConfiguration {
+  if (!READING_MODES.includes(mode))
+    throw new InputError(`reading: '${String(mode)}' is not one of ${READING_MODES.join(', ')}`, { field: 'reading' });
   const cut = chooseCut(d, requested, overrides);
   if (!cut) throw new InputError('the diagram has no feedback loop to tune', { field: 'cut' });
   const mine = loopBlocks(d, cut.wire);
@@ -61,7 +89,12 @@ export function configured(d: Diagram, c: LoopConfiguration): Diagram {
 }
 
 /** L at the cut in this configuration (1 + L = 0), with how dead times were treated. */
-export function readLoop(d: Diagram, c: LoopConfiguration, overrides: Record<string, number>, padeOrder = DEFAULT_PADE_ORDER): { L: TransferFunction; delayHandling: DelayHandling } {
+export function readLoop(
+  d: Diagram,
+  c: LoopConfiguration,
+  overrides: Record<string, number>,
+  padeOrder = DEFAULT_PADE_ORDER,
+): { L: TransferFunction; delayHandling: DelayHandling } {
   const r = loopAtCutDetailed(configured(d, c), c.cut.wire, overrides, { padeOrder });
   return { L: r.tf, delayHandling: r.delayHandling };
 }
@@ -95,7 +128,14 @@ export interface SeenProcess {
 }
 
 /** What the controller sees in this configuration (see the file comment). `L` is today's loop when it exists (null: zero loop gain today). */
-export function seenProcess(d: Diagram, b: Block, c: LoopConfiguration, overrides: Record<string, number>, padeOrder: number, L: TransferFunction | null): SeenProcess {
+export function seenProcess(
+  d: Diagram,
+  b: Block,
+  c: LoopConfiguration,
+  overrides: Record<string, number>,
+  padeOrder: number,
+  L: TransferFunction | null,
+): SeenProcess {
   const one = readLoop(pOnly(d, b, 1), c, overrides, padeOrder);
   const two = readLoop(pOnly(d, b, 2), c, overrides, padeOrder).L;
   const linear = probeFrequencies(one.L).every((w) => {
@@ -104,7 +144,10 @@ export function seenProcess(d: Diagram, b: Block, c: LoopConfiguration, override
   });
   if (linear) return { P: one.L, exact: true, delayHandling: one.delayHandling };
   if (!L) {
-    throw new InputError(`controller ${b.id}: its loop gain is zero today and it also sits in a loop that stays closed, so what it sees cannot be read; read the loop inner-first`, { field: 'block' });
+    throw new InputError(
+      `controller ${b.id}: its loop gain is zero today and it also sits in a loop that stays closed, so what it sees cannot be read; read the loop inner-first`,
+      { field: 'block' },
+    );
   }
   const C = controllerTransferOf(d, b, overrides);
   const q = cancelCommon(rdiv(L.rational, C.rational), 1e-7).result;
@@ -125,7 +168,14 @@ export interface DiagramUltimate extends UltimatePoint {
   delayHandling: DelayHandling | null;
 }
 
-export function ultimateOfLoop(d: Diagram, b: Block, c: LoopConfiguration, seen: SeenProcess, overrides: Record<string, number>, padeOrder: number): DiagramUltimate | null {
+export function ultimateOfLoop(
+  d: Diagram,
+  b: Block,
+  c: LoopConfiguration,
+  seen: SeenProcess,
+  overrides: Record<string, number>,
+  padeOrder: number,
+): DiagramUltimate | null {
   if (seen.exact) {
     const u = ultimatePoint(seen.P);
     return u ? { ku: u.ku, pu: u.pu, omega: u.omega, from: 'frequency response', delayHandling: seen.delayHandling } : null;
@@ -135,5 +185,7 @@ export function ultimateOfLoop(d: Diagram, b: Block, c: LoopConfiguration, seen:
   const sw = sweepLocus(withBlockParams(dk, b.id, { kp: name }), name, overrides, { padeOrder });
   if (sw.mode !== 'exact') return null;
   const best = sw.locus.crossings.filter((x) => x.omega > 0 && x.gain > 0).sort((a, e) => a.gain - e.gain)[0];
-  return best ? { ku: best.gain, pu: (2 * Math.PI) / best.omega, omega: best.omega, from: 'root locus', delayHandling: sw.delayHandling } : null;
+  return best
+    ? { ku: best.gain, pu: (2 * Math.PI) / best.omega, omega: best.omega, from: 'root locus', delayHandling: sw.delayHandling }
+    : null;
 }

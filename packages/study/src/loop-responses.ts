@@ -39,7 +39,8 @@ function polyText(p: readonly number[]): string {
 }
 
 /** The rational part of a transfer function as expression text the transfer-function block reads. */
-export const rationalText = (tf: Pick<TransferFunction, 'rational'>): string => `(${polyText(tf.rational.num)})/(${polyText(tf.rational.den)})`;
+export const rationalText = (tf: Pick<TransferFunction, 'rational'>): string =>
+  `(${polyText(tf.rational.num)})/(${polyText(tf.rational.den)})`;
 
 /** A transfer function (dead time included) as expression text the parser reads back exactly (coefficients ascending). */
 export const transferText = (tf: TransferFunction): string => `${rationalText(tf)}${tf.delay > 0 ? `*exp(-${exact(tf.delay)}*s)` : ''}`;
@@ -81,7 +82,11 @@ function loopBlocks(prefix: string, form: LoopForm, load: boolean): { blocks: Bl
     { id: id('y'), kind: 'probe', position: at(6), params: {} },
   ];
   const out = delayed ? 'dt' : 'p';
-  const w = (n: string, from: string, to: string, port = 'in'): Wire => ({ id: id(n), from: { block: id(from), port: 'out' }, to: { block: id(to), port } });
+  const w = (n: string, from: string, to: string, port = 'in'): Wire => ({
+    id: id(n),
+    from: { block: id(from), port: 'out' },
+    to: { block: id(to), port },
+  });
   const wires = [
     load ? w('d', 'src', 'u', 'in2') : w('r', 'src', 'e', 'in1'),
     w('ec', 'e', 'c'),
@@ -133,11 +138,20 @@ export function loopStepResponses(before: LoopForm | null, after: LoopForm): Ste
       const r = rationalForms(f);
       const cap = (ys: number[]) => ys.map((y) => (Number.isFinite(y) && Math.abs(y) < RUNAWAY ? y : null));
       const stable = loopMargins(f.L).closedLoopStable;
-      return { sp: cap(exactStepResponse(r.setpoint, time)), ld: cap(exactStepResponse(r.load, time)), status: stable ? null : 'the closed loop is unstable: the response grows without bound' };
+      return {
+        sp: cap(exactStepResponse(r.setpoint, time)),
+        ld: cap(exactStepResponse(r.load, time)),
+        status: stable ? null : 'the closed loop is unstable: the response grows without bound',
+      };
     };
     const a = run(after);
     const b = before ? run(before) : null;
-    return { time, setpoint: { before: b?.sp ?? null, after: a.sp }, load: { before: b?.ld ?? null, after: a.ld }, status: { before: b?.status ?? null, after: a.status } };
+    return {
+      time,
+      setpoint: { before: b?.sp ?? null, after: a.sp },
+      load: { before: b?.ld ?? null, after: a.ld },
+      status: { before: b?.status ?? null, after: a.status },
+    };
   }
   const forms = (f: LoopForm) => [
     { prefix: 'sp', form: f, load: false },

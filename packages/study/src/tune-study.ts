@@ -16,7 +16,16 @@
  *   diagram); for a model, the margins of C·P.
  */
 import { DEFAULT_PADE_ORDER, type Diagram } from '@loopwright/graph';
-import { type TransferFunction, InputError, exactStepResponse, loopMargins, marginFigures, parseTransferFunction, polyRoots, tmul } from '@loopwright/lti';
+import {
+  type TransferFunction,
+  InputError,
+  exactStepResponse,
+  loopMargins,
+  marginFigures,
+  parseTransferFunction,
+  polyRoots,
+  tmul,
+} from '@loopwright/lti';
 import { type ProcessModel, type ProcessModelKind, fitProcessModel, testLogFromArrays } from '@loopwright/fit';
 import {
   type ControllerKind,
@@ -75,18 +84,23 @@ const positiveOrUndefined = (x: number | undefined, field: string) => {
 };
 
 function checkRequest(req: TuneRequest): void {
-  if (!TUNE_RULES.includes(req.rule)) throw new InputError(`rule: '${String(req.rule)}' is not one of ${TUNE_RULES.join(', ')}`, { field: 'rule' });
+  if (!TUNE_RULES.includes(req.rule))
+    throw new InputError(`rule: '${String(req.rule)}' is not one of ${TUNE_RULES.join(', ')}`, { field: 'rule' });
   positiveOrUndefined(req.tauC, 'tauC');
   positiveOrUndefined(req.lambda, 'lambda');
   positiveOrUndefined(req.derivativeFilter, 'derivativeFilter');
-  if (req.msMax !== undefined && !(req.msMax > 1 && Number.isFinite(req.msMax))) throw new InputError(`msMax must be a finite number above 1, got ${req.msMax}`, { field: 'msMax' });
+  if (req.msMax !== undefined && !(req.msMax > 1 && Number.isFinite(req.msMax)))
+    throw new InputError(`msMax must be a finite number above 1, got ${req.msMax}`, { field: 'msMax' });
 }
 
 /**
  * A low-order model of what the controller sees, for the model-based rules: P itself when it is
  * FOPDT/SOPDT/IPDT-shaped, else the half rule, else a least-squares fit to P's exact step response.
  */
-export function modelOfProcess(P: TransferFunction, controller: ControllerKind): { model: ProcessModel; from: 'model' | 'half rule' | 'step fit'; note: string | null } {
+export function modelOfProcess(
+  P: TransferFunction,
+  controller: ControllerKind,
+): { model: ProcessModel; from: 'model' | 'half rule' | 'step fit'; note: string | null } {
   try {
     const r = processModelOf(P, controller);
     return { model: r.model, from: r.reduction ? 'half rule' : 'model', note: null };
@@ -98,12 +112,16 @@ export function modelOfProcess(P: TransferFunction, controller: ControllerKind):
     const scale = Math.max(1e-12, ...poles.map((p) => Math.hypot(p.re, p.im)));
     const unstable = poles.find((p) => p.re > 1e-9 * scale);
     if (unstable) {
-      throw new InputError(`what the controller sees has an unstable pole at ${unstable.re.toPrecision(4)}${unstable.im ? ` ± ${Math.abs(unstable.im).toPrecision(4)}j` : ''}: the rules need a stable or integrating process`, {
-        field: 'process',
-      });
+      throw new InputError(
+        `what the controller sees has an unstable pole at ${unstable.re.toPrecision(4)}${unstable.im ? ` ± ${Math.abs(unstable.im).toPrecision(4)}j` : ''}: the rules need a stable or integrating process`,
+        {
+          field: 'process',
+        },
+      );
     }
     const integrators = poles.filter((p) => Math.hypot(p.re, p.im) <= 1e-9 * scale).length;
-    if (integrators > 1) throw new InputError(`what the controller sees has ${integrators} integrators; the rules handle at most one`, { field: 'process' });
+    if (integrators > 1)
+      throw new InputError(`what the controller sees has ${integrators} integrators; the rules handle at most one`, { field: 'process' });
     const kind: ProcessModelKind = integrators === 1 ? 'ipdt' : controller === 'pid' ? 'sopdt' : 'fopdt';
     const slow = Math.min(...poles.filter((p) => Math.hypot(p.re, p.im) > 1e-9 * scale).map((p) => -p.re));
     const end = P.delay + (Number.isFinite(slow) && slow > 0 ? (integrators ? 10 : 8) / slow : 10);
@@ -118,14 +136,27 @@ export function modelOfProcess(P: TransferFunction, controller: ControllerKind):
 }
 
 /** The rule on what the controller sees (P), with Ku/Pu given for zn-ultimate. */
-function suggest(req: TuneRequest, P: TransferFunction, n: number, ultimate: { ku: number; pu: number } | null): { s: TuneSuggestion; model: ProcessModel | null; from: TuneData['modelFrom']; note: string | null } {
+function suggest(
+  req: TuneRequest,
+  P: TransferFunction,
+  n: number,
+  ultimate: { ku: number; pu: number } | null,
+): { s: TuneSuggestion; model: ProcessModel | null; from: TuneData['modelFrom']; note: string | null } {
   const common = { controller: req.controller, tauC: req.tauC, lambda: req.lambda, derivativeFilter: n, plant: P };
   if (req.rule === 'zn-ultimate') {
-    if (!ultimate) throw new InputError('the loop has no phase crossover, so no ultimate gain: the zn-ultimate rule does not apply', { field: 'rule' });
+    if (!ultimate)
+      throw new InputError('the loop has no phase crossover, so no ultimate gain: the zn-ultimate rule does not apply', { field: 'rule' });
     return { s: zieglerNicholsUltimateRule(ultimate, common), model: null, from: null, note: null };
   }
   if (req.rule === 'ms') {
-    const s = suggestTuning({ rule: 'ms', ...common, msMax: req.msMax, pmMinDeg: req.pmMinDeg, gmMin: req.gmMin, tiOverTdMin: req.tiOverTdMin });
+    const s = suggestTuning({
+      rule: 'ms',
+      ...common,
+      msMax: req.msMax,
+      pmMinDeg: req.pmMinDeg,
+      gmMin: req.gmMin,
+      tiOverTdMin: req.tiOverTdMin,
+    });
     return { s, model: null, from: null, note: null };
   }
   const m = modelOfProcess(P, req.controller ?? 'pi');
@@ -133,7 +164,13 @@ function suggest(req: TuneRequest, P: TransferFunction, n: number, ultimate: { k
 }
 
 function summary(req: TuneRequest, s: TuneSuggestion): Pick<TuneData, 'rule' | 'controller' | 'derivativeFilter' | 'settings' | 'caution'> {
-  return { rule: req.rule, controller: { ...s.controller }, derivativeFilter: s.derivativeFilter, settings: { ...s.settings }, caution: TUNE_CAUTION };
+  return {
+    rule: req.rule,
+    controller: { ...s.controller },
+    derivativeFilter: s.derivativeFilter,
+    settings: { ...s.settings },
+    caution: TUNE_CAUTION,
+  };
 }
 
 export function tuneStudy(d: Diagram, req: TuneRequest): TuneData {
@@ -203,7 +240,11 @@ function cutTune(d: Diagram, req: TuneRequest): TuneData {
   } catch (e) {
     // Read with its outer loops closed, an inner controller may see an unstable process (the
     // outer loop, opened at this cut, runs away): the rules need the loop read inner-first.
-    if (e instanceof InputError && !seen.exact) throw new InputError(`${e.message} (controller ${block.id} also sits in a loop that stays closed in this reading: read the loop inner-first)`, e.details);
+    if (e instanceof InputError && !seen.exact)
+      throw new InputError(
+        `${e.message} (controller ${block.id} also sits in a loop that stays closed in this reading: read the loop inner-first)`,
+        e.details,
+      );
     throw e;
   }
   const { s, model, from, note } = suggested;
@@ -211,13 +252,19 @@ function cutTune(d: Diagram, req: TuneRequest): TuneData {
   const tuned = applyControllerPatch(d, apply);
   const after = readLoop(tuned, conf, overrides, padeOrder).L;
   const notes: string[] = [];
-  if (conf.opened.length) notes.push(`read inner-first: the loop${conf.opened.length > 1 ? 's' : ''} around it (${conf.opened.map((o) => o.cut).join(', ')}) opened`);
+  if (conf.opened.length)
+    notes.push(
+      `read inner-first: the loop${conf.opened.length > 1 ? 's' : ''} around it (${conf.opened.map((o) => o.cut).join(', ')}) opened`,
+    );
   if (!seen.exact) {
-    notes.push(`controller ${block.id} also sits in a loop that stays closed in this reading: what it sees was divided out with today's setting and changes with it; the prediction is read on the diagram with the new setting (tune inner-first for a process of its own)`);
+    notes.push(
+      `controller ${block.id} also sits in a loop that stays closed in this reading: what it sees was divided out with today's setting and changes with it; the prediction is read on the diagram with the new setting (tune inner-first for a process of its own)`,
+    );
   }
   if (seen.delayHandling.mode === 'pade') notes.push(seen.delayHandling.note);
   if (note) notes.push(note);
-  if (u && u.from === 'root locus' && u.delayHandling?.mode === 'pade') notes.push(`Ku and Pu from the root locus with ${u.delayHandling.note}`);
+  if (u && u.from === 'root locus' && u.delayHandling?.mode === 'pade')
+    notes.push(`Ku and Pu from the root locus with ${u.delayHandling.note}`);
   // The rule's own verdict was read on P; the one that counts is the diagram's, below.
   notes.push(...s.notes.filter((x) => !x.includes('UNSTABLE')), ...apply.notes);
   const predicted = marginFigures(loopMargins(after));

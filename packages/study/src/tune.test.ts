@@ -45,7 +45,9 @@ describe('the controller of a cut', () => {
     expect(inner.has('room') || inner.has('room-controller')).toBe(false);
   });
   it('a loop without a PID block is refused, naming the cut (the axis position loop has a gain as its controller)', () => {
-    expect(() => runStudy(positioningAxis, { kind: 'tune', rule: 'simc', cut: 'cut-position' })).toThrow(/cut cut-position: the loop through wire w-position-feedback has no PID controller block/);
+    expect(() => runStudy(positioningAxis, { kind: 'tune', rule: 'simc', cut: 'cut-position' })).toThrow(
+      /cut cut-position: the loop through wire w-position-feedback has no PID controller block/,
+    );
   });
 });
 
@@ -81,7 +83,9 @@ describe('loop readings', () => {
     expect(r.ultimate!.from).toBe('root locus');
     expect(r.notes.join(' ')).toContain('also sits in a loop that stays closed');
     // The rules that need a model refuse the unstable process and point at the inner-first reading.
-    expect(() => runStudy(heatingCascade, { kind: 'tune', rule: 'simc', cut: 'cut-supply', reading: 'closed' })).toThrow(/read the loop inner-first/);
+    expect(() => runStudy(heatingCascade, { kind: 'tune', rule: 'simc', cut: 'cut-supply', reading: 'closed' })).toThrow(
+      /read the loop inner-first/,
+    );
   });
 });
 
@@ -124,7 +128,13 @@ describe('published rules through a cut', () => {
     expect(crossing.omega).toBeCloseTo(r.ultimate!.omega, 6);
   });
   it('Ziegler–Nichols ultimate-gain PID on 1/(s(s+1)(s+5)): Kcr = 30, Pcr = 2.8099; Kp = 18, Ti = 1.4050, Td = 0.35124 (Ogata, Example 8-1) [R35]', () => {
-    const r = runStudy(pidLoop('1/(s*(s + 1)*(s + 5))'), { kind: 'tune', rule: 'zn-ultimate', controller: 'pid', cut: 'c1', responses: false });
+    const r = runStudy(pidLoop('1/(s*(s + 1)*(s + 5))'), {
+      kind: 'tune',
+      rule: 'zn-ultimate',
+      controller: 'pid',
+      cut: 'c1',
+      responses: false,
+    });
     expect(r.ultimate!.ku).toBeCloseTo(30, 6);
     expect(Math.abs(r.ultimate!.pu - 2.8099)).toBeLessThanOrEqual(1e-4);
     expect(r.controller.kp).toBeCloseTo(18, 6);
@@ -150,7 +160,8 @@ describe('predictions and the document edit', () => {
       const tuned = applyControllerPatch(heatingCascade, r.apply!);
       const row = loopsStudy(tuned).rows.find((x) => x.cutId === cut)!;
       const table = row.alone ? row.alone.margins : row.margins;
-      for (const k of ['gainMargin', 'phaseMarginDeg', 'delayMargin', 'peakSensitivity'] as const) expect(r.predicted[k], `${cut} ${k}`).toBeCloseTo(table[k]!, 9);
+      for (const k of ['gainMargin', 'phaseMarginDeg', 'delayMargin', 'peakSensitivity'] as const)
+        expect(r.predicted[k], `${cut} ${k}`).toBeCloseTo(table[k]!, 9);
     }
   });
   it('the edit keeps parameter names (their values change, ranges widen) and leaves limits alone', () => {
@@ -175,7 +186,12 @@ describe('predictions and the document edit', () => {
     expect(patch.params).toEqual({ form: 'ideal', kp: 2, ti: 4, td: 0.5 });
     expect(patch.notes[0]).toContain('parallel form');
     const tuned = applyControllerPatch(d, patch);
-    expect(currentSetting(tuned, tuned.blocks.find((b) => b.id === 'c')!)).toEqual({ setting: { kind: 'pid', kp: 2, ti: 4, td: 0.5 }, n: 8 });
+    expect(
+      currentSetting(
+        tuned,
+        tuned.blocks.find((b) => b.id === 'c')!,
+      ),
+    ).toEqual({ setting: { kind: 'pid', kp: 2, ti: 4, td: 0.5 }, n: 8 });
   });
 });
 
@@ -243,11 +259,17 @@ describe('cascade workflow', () => {
     const tuned = r.apply.reduce(applyControllerPatch, heatingCascade);
     const table = loopsStudy(tuned);
     expect(r.separations).toEqual(table.separations);
-    for (const f of r.final) expect(f.margins.phaseMarginDeg).toBeCloseTo(table.rows.find((x) => x.cutId === f.cut)!.margins.phaseMarginDeg!, 9);
+    for (const f of r.final)
+      expect(f.margins.phaseMarginDeg).toBeCloseTo(table.rows.find((x) => x.cutId === f.cut)!.margins.phaseMarginDeg!, 9);
     // The room step was read with the tuned supply loop in place.
     const room = r.steps[1].result;
     if (!room.ok) throw new Error(room.error);
-    const again = runStudy(applyControllerPatch(heatingCascade, r.apply[0]), { kind: 'tune', rule: 'simc', cut: 'cut-room', responses: false });
+    const again = runStudy(applyControllerPatch(heatingCascade, r.apply[0]), {
+      kind: 'tune',
+      rule: 'simc',
+      cut: 'cut-room',
+      responses: false,
+    });
     expect(room.value.controller.kp).toBeCloseTo(again.controller.kp, 9);
     // A separation below 3 is flagged in the notes.
     for (const s of r.separations) if (s.flag) expect(r.notes.some((n) => n.includes(s.inner))).toBe(true);
@@ -263,7 +285,9 @@ describe('cascade workflow', () => {
     const first = r.steps[0].result;
     expect(first.ok ? '' : first.error).toContain('no dead time');
     const last = r.steps[2].result;
-    expect(last.ok ? '' : last.error).toContain('cut cut-position: the loop through wire w-position-feedback has no PID controller block (between its junction and the next one: position-controller, to-motor-speed)');
+    expect(last.ok ? '' : last.error).toContain(
+      'cut cut-position: the loop through wire w-position-feedback has no PID controller block (between its junction and the next one: position-controller, to-motor-speed)',
+    );
     expect(r.apply.map((p) => p.block)).toEqual(['speed-controller']);
   });
 });

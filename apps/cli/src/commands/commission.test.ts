@@ -48,7 +48,11 @@ describe('loopwright fit', () => {
     expect(j.intervals.gain[0]).toBeLessThan(j.gain);
     expect(j.intervals.gain[1]).toBeGreaterThan(j.gain);
     expect(j.nrmse).toBeGreaterThan(0);
-    expect(j.testLog).toMatchObject({ fileName: 'bump.csv', samples: 1801, columns: { time: 'time_s', input: 'valve_pct', output: 'supply_temp_C' } });
+    expect(j.testLog).toMatchObject({
+      fileName: 'bump.csv',
+      samples: 1801,
+      columns: { time: 'time_s', input: 'valve_pct', output: 'supply_temp_C' },
+    });
     expect(j.caution).toMatch(/only as good as the test/);
     // The expression is the fitted model (6 significant digits): same static gain and dead time.
     const tf = parseTransferFunction(j.expression);
@@ -170,12 +174,19 @@ describe('loopwright tune', () => {
   });
   it('refuses what it cannot do, naming the flag or the block (exit 2)', async () => {
     expect((await run(['tune', '--model', '1/(s+1)'])).err).toContain('give the rule as --rule');
-    expect((await run(['tune', '--model', '1/(s+1)', '--rule', 'fast'])).err).toContain('--rule: "fast" is not one of simc, lambda, amigo, zn-step, zn-ultimate, ms');
-    expect((await run(['tune', '--model', '1/(s+1)', '--rule', 'simc', '--cut', 'x'])).err).toContain('--cut and --cascade read a loop of the diagram');
+    expect((await run(['tune', '--model', '1/(s+1)', '--rule', 'fast'])).err).toContain(
+      '--rule: "fast" is not one of simc, lambda, amigo, zn-step, zn-ultimate, ms',
+    );
+    expect((await run(['tune', '--model', '1/(s+1)', '--rule', 'simc', '--cut', 'x'])).err).toContain(
+      '--cut and --cascade read a loop of the diagram',
+    );
     expect((await run(['tune', '--rule', 'simc'])).err).toContain('give --model');
     const noPid = await run(['tune', 'heating.loop.json', '--rule', 'simc', '--block', 'boiler', '--json']);
     expect(noPid.code).toBe(2);
-    expect(noPid.json().error).toMatchObject({ message: expect.stringContaining('block boiler: a first-order-lag block is no PID controller'), at: 'block' });
+    expect(noPid.json().error).toMatchObject({
+      message: expect.stringContaining('block boiler: a first-order-lag block is no PID controller'),
+      at: 'block',
+    });
     const noCut = await run(['tune', 'heating.loop.json', '--rule', 'simc', '--cut', 'cut-x']);
     expect(noCut.err).toContain('cut cut-x is not in the diagram (cuts: cut-room, cut-supply)');
   });

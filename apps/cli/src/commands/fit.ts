@@ -38,7 +38,10 @@ const SEPARATORS: Record<string, ',' | ';' | '\t'> = { ',': ',', ';': ';', tab: 
 
 function fitJson(f: FittedModel) {
   const p = f.provenance.source;
-  return { ...f.summary, testLog: { fileName: p.fileName, sha256: p.sha256, columns: p.columns, samples: p.samples, firstRow: p.firstRow, lastRow: p.lastRow } };
+  return {
+    ...f.summary,
+    testLog: { fileName: p.fileName, sha256: p.sha256, columns: p.columns, samples: p.samples, firstRow: p.firstRow, lastRow: p.lastRow },
+  };
 }
 
 const interval = (i: [number, number] | null) => (i ? `[${fmtNumber(i[0], 4)}, ${fmtNumber(i[1], 4)}]` : '(not determined)');
@@ -49,7 +52,9 @@ function fitText(f: FittedModel): string {
   lines.push(`  gain          ${fmtNumber(m.gain, 5)}  ${interval(f.intervals.gain)}`);
   m.timeConstants.forEach((t, i) => lines.push(`  lag ${i + 1}         ${fmtNumber(t, 5)} s  ${interval(f.intervals.timeConstants[i])}`));
   lines.push(`  dead time     ${fmtNumber(m.deadTime, 5)} s  ${interval(f.intervals.deadTime)}`);
-  lines.push(`  NRMSE         ${fmtNumber(100 * f.nrmse, 3)} % of the output's range (${f.samples} samples, intervals at ${100 * f.confidence} %)`);
+  lines.push(
+    `  NRMSE         ${fmtNumber(100 * f.nrmse, 3)} % of the output's range (${f.samples} samples, intervals at ${100 * f.confidence} %)`,
+  );
   for (const w of f.warnings) lines.push(`  warning: ${w}`);
   return lines.join('\n');
 }
@@ -64,15 +69,19 @@ export const fitCommand: Command = {
     const file = a.positional[0];
     const model = one(a, 'model') ?? 'fopdt';
     const kinds = model === 'all' ? (['fopdt', 'sopdt', 'ipdt'] as const) : [model];
-    for (const k of kinds) if (!['fopdt', 'sopdt', 'ipdt'].includes(k)) throw new UsageError(`--model: "${k}" is not one of fopdt, sopdt, ipdt, all`, '--model');
+    for (const k of kinds)
+      if (!['fopdt', 'sopdt', 'ipdt'].includes(k)) throw new UsageError(`--model: "${k}" is not one of fopdt, sopdt, ipdt, all`, '--model');
     const sep = one(a, 'separator');
     if (sep !== undefined && !(sep in SEPARATORS)) throw new UsageError(`--separator: "${sep}" is not one of "," ";" tab`, '--separator');
     const decimal = one(a, 'decimal');
-    if (decimal !== undefined && decimal !== '.' && decimal !== ',') throw new UsageError(`--decimal: "${decimal}" is not "." or ","`, '--decimal');
+    if (decimal !== undefined && decimal !== '.' && decimal !== ',')
+      throw new UsageError(`--decimal: "${decimal}" is not "." or ","`, '--decimal');
     const unit = one(a, 'time-unit');
-    if (unit !== undefined && !['s', 'ms', 'min', 'h'].includes(unit)) throw new UsageError(`--time-unit: "${unit}" is not one of s, ms, min, h`, '--time-unit');
+    if (unit !== undefined && !['s', 'ms', 'min', 'h'].includes(unit))
+      throw new UsageError(`--time-unit: "${unit}" is not one of s, ms, min, h`, '--time-unit');
     const between = one(a, 'between');
-    if (between !== undefined && between !== 'linear' && between !== 'hold') throw new UsageError(`--between: "${between}" is not linear or hold`, '--between');
+    if (between !== undefined && between !== 'linear' && between !== 'hold')
+      throw new UsageError(`--between: "${between}" is not linear or hold`, '--between');
     const col = (name: string) => {
       const v = one(a, name);
       return v === undefined ? {} : { [name]: /^\d+$/.test(v) ? Number(v) : v };
@@ -103,7 +112,10 @@ export const fitCommand: Command = {
       return 0;
     }
     const log = r.log;
-    const out = [`${log.fileName}: ${log.samples} samples (rows ${log.firstRow}–${log.lastRow}), time '${log.columns.time}', input '${log.columns.input}', output '${log.columns.output}'`, ''];
+    const out = [
+      `${log.fileName}: ${log.samples} samples (rows ${log.firstRow}–${log.lastRow}), time '${log.columns.time}', input '${log.columns.input}', output '${log.columns.output}'`,
+      '',
+    ];
     out.push(fits.map(fitText).join('\n\n'), '', r.caution);
     io.stdout(out.join('\n') + '\n');
     return 0;

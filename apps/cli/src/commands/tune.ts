@@ -1,6 +1,13 @@
 import { emptyDiagram, serializeDiagram } from '@loopwright/graph';
-import { applyControllerPatch, runStudy, transferText, type CascadeData, type MarginsData, type TuneData } from '@loopwright/study';
-import { TUNE_RULES } from '@loopwright/tune';
+import {
+  TUNE_RULES,
+  applyControllerPatch,
+  runStudy,
+  transferText,
+  type CascadeData,
+  type MarginsData,
+  type TuneData,
+} from '@loopwright/study';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, WriteError, type Command } from '../io.ts';
 import { checkSets, fmtNumber, fmtTransfer, jsonForm, readDiagram } from './diagram-input.ts';
@@ -95,11 +102,20 @@ const setting = (s: TuneData['controller'], n: number) =>
 
 function tuneText(r: TuneData): string {
   const out: string[] = [];
-  if (r.cut) out.push(`loop: cut ${r.cut.id}${r.cut.label !== r.cut.id ? ` (${r.cut.label})` : ''} on wire ${r.cut.wire}, read ${r.reading}${r.opened.length ? ` (opened ${r.opened.join(', ')})` : ''}`);
+  if (r.cut)
+    out.push(
+      `loop: cut ${r.cut.id}${r.cut.label !== r.cut.id ? ` (${r.cut.label})` : ''} on wire ${r.cut.wire}, read ${r.reading}${r.opened.length ? ` (opened ${r.opened.join(', ')})` : ''}`,
+    );
   if (r.block) out.push(`controller: block ${r.block.id}; today ${setting(r.block.current, r.block.derivativeFilter)}`);
-  out.push(`process seen by the controller: P(s) = ${fmtTransfer(r.process.num, r.process.den, r.process.delay)}${r.processExact ? '' : '  (divided by today’s controller)'}`);
-  if (r.model) out.push(`model used (${r.modelFrom}): ${r.model.kind.toUpperCase()} gain ${fmtNumber(r.model.gain, 5)}, lags ${r.model.timeConstants.map((t) => `${fmtNumber(t, 5)} s`).join(', ') || 'none'}, dead time ${fmtNumber(r.model.deadTime, 5)} s`);
-  if (r.ultimate) out.push(`ultimate gain Ku = ${fmtNumber(r.ultimate.ku, 6)}, period Pu = ${fmtNumber(r.ultimate.pu, 6)} s (${r.ultimate.from})`);
+  out.push(
+    `process seen by the controller: P(s) = ${fmtTransfer(r.process.num, r.process.den, r.process.delay)}${r.processExact ? '' : '  (divided by today’s controller)'}`,
+  );
+  if (r.model)
+    out.push(
+      `model used (${r.modelFrom}): ${r.model.kind.toUpperCase()} gain ${fmtNumber(r.model.gain, 5)}, lags ${r.model.timeConstants.map((t) => `${fmtNumber(t, 5)} s`).join(', ') || 'none'}, dead time ${fmtNumber(r.model.deadTime, 5)} s`,
+    );
+  if (r.ultimate)
+    out.push(`ultimate gain Ku = ${fmtNumber(r.ultimate.ku, 6)}, period Pu = ${fmtNumber(r.ultimate.pu, 6)} s (${r.ultimate.from})`);
   out.push('', `${r.rule}: ${setting(r.controller, r.derivativeFilter)}`, '');
   if (r.current) out.push(row('today', r.current));
   out.push(row('suggested', r.predicted));
@@ -121,7 +137,8 @@ function cascadeText(c: CascadeData): string {
   }
   out.push('', 'with every suggestion applied, every other loop closed:');
   for (const x of c.final) out.push(row(x.cut, x.margins));
-  for (const s of c.separations) out.push(`  separation ${s.inner} in ${s.outer}: ${s.ratio === null ? '—' : `${fmtNumber(s.ratio, 3)}×`}${s.flag ? ' [LOW]' : ''}`);
+  for (const s of c.separations)
+    out.push(`  separation ${s.inner} in ${s.outer}: ${s.ratio === null ? '—' : `${fmtNumber(s.ratio, 3)}×`}${s.flag ? ' [LOW]' : ''}`);
   if (c.notes.length) out.push('', ...c.notes.map((n) => `note: ${n}`));
   out.push('', c.caution);
   return out.join('\n') + '\n';
@@ -134,21 +151,45 @@ export const tuneCommand: Command = {
   async run(argv, io) {
     const a = parseArgs(
       argv,
-      ['model', 'cut', 'rule', 'tau-c', 'lambda', 'ms-max', 'pm-min', 'gm-min', 'controller', 'n', 'reading', 'block', 'set', 'param', 'write', 'pade-order'],
+      [
+        'model',
+        'cut',
+        'rule',
+        'tau-c',
+        'lambda',
+        'ms-max',
+        'pm-min',
+        'gm-min',
+        'controller',
+        'n',
+        'reading',
+        'block',
+        'set',
+        'param',
+        'write',
+        'pade-order',
+      ],
       ['json', 'cascade'],
     );
     const rule = one(a, 'rule');
     if (rule === undefined) throw new UsageError(`tune: give the rule as --rule ${TUNE_RULES.join('|')}`, '--rule');
-    if (!(TUNE_RULES as readonly string[]).includes(rule)) throw new UsageError(`--rule: "${rule}" is not one of ${TUNE_RULES.join(', ')}`, '--rule');
+    if (!(TUNE_RULES as readonly string[]).includes(rule))
+      throw new UsageError(`--rule: "${rule}" is not one of ${TUNE_RULES.join(', ')}`, '--rule');
     const controller = one(a, 'controller');
-    if (controller !== undefined && !['p', 'pi', 'pid'].includes(controller)) throw new UsageError(`--controller: "${controller}" is not one of p, pi, pid`, '--controller');
+    if (controller !== undefined && !['p', 'pi', 'pid'].includes(controller))
+      throw new UsageError(`--controller: "${controller}" is not one of p, pi, pid`, '--controller');
     const reading = one(a, 'reading');
-    if (reading !== undefined && reading !== 'inner-first' && reading !== 'closed') throw new UsageError(`--reading: "${reading}" is not inner-first or closed`, '--reading');
+    if (reading !== undefined && reading !== 'inner-first' && reading !== 'closed')
+      throw new UsageError(`--reading: "${reading}" is not inner-first or closed`, '--reading');
     const model = one(a, 'model');
     const file = a.positional[0];
     if (a.positional.length > 1) throw new UsageError(`tune: unexpected argument "${a.positional[1]}"`);
     if (model === undefined && file === undefined) throw new UsageError('tune: give --model "<expression>" or a diagram FILE (see --help)');
-    if (model !== undefined && (has(a, 'cut') || has(a, 'cascade'))) throw new UsageError('tune: --cut and --cascade read a loop of the diagram; --model tunes the expression instead', has(a, 'cut') ? '--cut' : '--cascade');
+    if (model !== undefined && (has(a, 'cut') || has(a, 'cascade')))
+      throw new UsageError(
+        'tune: --cut and --cascade read a loop of the diagram; --model tunes the expression instead',
+        has(a, 'cut') ? '--cut' : '--cascade',
+      );
     const write = all(a, 'write');
     if (write.length > 1) throw new UsageError('flag --write given more than once', '--write');
     if (has(a, 'cascade') && has(a, 'cut')) throw new UsageError('tune: --cascade tunes every loop; leave out --cut', '--cut');
@@ -174,19 +215,31 @@ export const tuneCommand: Command = {
     if (has(a, 'cascade')) {
       const c = runStudy(d, { kind: 'cascade', ...common, overrides: sets, responses: false });
       if (write.length) await writeTuned(io, write[0], c.apply.reduce(applyControllerPatch, d));
-      io.stdout(has(a, 'json') ? toJson(jsonForm({ ...c, steps: c.steps.map((s) => ({ ...s, result: s.result.ok ? { ok: true, value: tuneJson(s.result.value) } : s.result })) })) : cascadeText(c));
+      io.stdout(
+        has(a, 'json')
+          ? toJson(
+              jsonForm({
+                ...c,
+                steps: c.steps.map((s) => ({ ...s, result: s.result.ok ? { ok: true, value: tuneJson(s.result.value) } : s.result })),
+              }),
+            )
+          : cascadeText(c),
+      );
       return 0;
     }
     const r = runStudy(d, {
       kind: 'tune',
       ...common,
-      ...(model !== undefined ? { model, params: parseAssignments(all(a, 'param'), 'param') } : { cut: one(a, 'cut') ?? null, overrides: sets }),
+      ...(model !== undefined
+        ? { model, params: parseAssignments(all(a, 'param'), 'param') }
+        : { cut: one(a, 'cut') ?? null, overrides: sets }),
       ...(reading !== undefined ? { reading: reading as 'inner-first' | 'closed' } : {}),
       ...(block !== undefined ? { block } : {}),
       responses: false,
     });
     if (write.length) {
-      if (!r.apply) throw new UsageError('tune --write: there is no controller block to write (with --model, name it with --block)', '--write');
+      if (!r.apply)
+        throw new UsageError('tune --write: there is no controller block to write (with --model, name it with --block)', '--write');
       await writeTuned(io, write[0], applyControllerPatch(d, r.apply));
     }
     io.stdout(has(a, 'json') ? toJson(jsonForm(tuneJson(r))) : tuneText(r));

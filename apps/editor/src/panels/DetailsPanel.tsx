@@ -5,6 +5,7 @@
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { blockSpec, type Block, type Diagram, type ParamSpec } from '../store/graph-bridge.ts';
 import { ParamField } from './ParamField.tsx';
+import { FitRecordNote } from '../commission/FitRecordNote.tsx';
 
 /** Fields that matter for the block as configured (PID shows its chosen form's gains). */
 function visibleParams(b: Block): ParamSpec[] {
@@ -50,6 +51,7 @@ function BlockDetails({ diagram, block }: { diagram: Diagram; block: Block }) {
         <strong>{spec.title}</strong> <span className="muted mono">{block.id}</span>
       </div>
       <p className="muted small desc" title={spec.description}>{spec.description}</p>
+      <FitRecordNote diagram={diagram} block={block} />
       <div className="field">
         <label htmlFor="block-label">Label</label>
         <input

@@ -1,7 +1,11 @@
 import type { Block, Diagram, Wire } from '../document-types.ts';
 
 const at = (col: number, row: number): Block['position'] => ({ x: col * 180, y: row * 120 });
-const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id, from: { block: from, port: 'out' }, to: { block: to, port } });
+const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({
+  id,
+  from: { block: from, port: 'out' },
+  to: { block: to, port },
+});
 
 /**
  * The supply-temperature loop of a heating plant, ready to be commissioned: a PI controller on
@@ -23,11 +27,25 @@ export const supplyLoop: Diagram = {
     'valve at 900 s. A fitted model is only as good as its test: commission new settings in small steps with limits and ' +
     'interlocks in place, and follow local codes and licensed practice.',
   parameters: [
-    { name: 'Kp', value: 1, unit: '%/K', min: 0.1, max: 10, scale: 'log', description: 'Supply controller gain: % valve per K of supply error' },
+    {
+      name: 'Kp',
+      value: 1,
+      unit: '%/K',
+      min: 0.1,
+      max: 10,
+      scale: 'log',
+      description: 'Supply controller gain: % valve per K of supply error',
+    },
     { name: 'Ti', value: 150, unit: 's', min: 10, max: 600, scale: 'log', description: 'Supply controller integral time' },
   ],
   blocks: [
-    { id: 'setpoint', kind: 'source', label: 'supply setpoint (K)', position: at(0, 0), params: { shape: 'step', amplitude: 2, start: 60, offset: 0 } },
+    {
+      id: 'setpoint',
+      kind: 'source',
+      label: 'supply setpoint (K)',
+      position: at(0, 0),
+      params: { shape: 'step', amplitude: 2, start: 60, offset: 0 },
+    },
     { id: 'supply-error', kind: 'summing-junction', label: 'supply error', position: at(1, 0), params: { signs: '+-' } },
     {
       id: 'supply-controller',
@@ -45,7 +63,13 @@ export const supplyLoop: Diagram = {
       params: { expression: '0.6*exp(-15*s)/(120*s + 1)' },
     },
     { id: 'supply-temperature', kind: 'probe', label: 'supply temperature (K)', position: at(5, 0), params: {} },
-    { id: 'load', kind: 'source', label: 'return cooling (% valve)', position: at(3, -1), params: { shape: 'step', amplitude: -3, start: 900, offset: 0 } },
+    {
+      id: 'load',
+      kind: 'source',
+      label: 'return cooling (% valve)',
+      position: at(3, -1),
+      params: { shape: 'step', amplitude: -3, start: 900, offset: 0 },
+    },
     { id: 'valve', kind: 'probe', label: 'valve (%, deviation)', position: at(3, 1), params: {} },
   ],
   wires: [
