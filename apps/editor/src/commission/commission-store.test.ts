@@ -51,7 +51,8 @@ describe('commissioning in the editor', () => {
     chooseModel('sopdt');
     const id = makeBlockFromFit()!;
     expect(past()).toBe(1);
-    expect(doc().blocks.find((b) => b.id === id)!.params.expression).toBe(
+    const sopdt = cs().fit!.fits[1].result;
+    expect(doc().blocks.find((b) => b.id === id)!.params.expression).toBe(sopdt.ok ? sopdt.value.expression : null);
       cs().fit!.fits[1].result.ok && cs().fit!.fits[1].result.value.expression,
     );
     expect(doc().fits!.map((f) => f.block)).toEqual([id]);
