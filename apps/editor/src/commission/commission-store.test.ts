@@ -53,8 +53,6 @@ describe('commissioning in the editor', () => {
     expect(past()).toBe(1);
     const sopdt = cs().fit!.fits[1].result;
     expect(doc().blocks.find((b) => b.id === id)!.params.expression).toBe(sopdt.ok ? sopdt.value.expression : null);
-      cs().fit!.fits[1].result.ok && cs().fit!.fits[1].result.value.expression,
-    );
     expect(doc().fits!.map((f) => f.block)).toEqual([id]);
     expect(useDiagramStore.getState().selection.blocks).toEqual([id]);
     undo();
