@@ -1,8 +1,10 @@
 /**
  * The gain for a target damping on the exact locus of a sweep: the swept value at which the
  * dominant closed-loop poles of the whole diagram reach damping ζ (@loopwright/tune
- * gainForDamping on the characteristic polynomial D0 + k·N0 the locus is drawn from). The
- * direction follows the document's value: a negative value is searched on the k < 0 locus.
+ * gainForDamping on the characteristic polynomial D0 + k·N0 the locus is drawn from) — strictly
+ * dominant (no pole to their right), else the slowest oscillating pair (only real poles to its
+ * right, named in a note). The direction follows the document's value: a negative value is
+ * searched on the k < 0 locus.
  */
 import { DEFAULT_PADE_ORDER, type Diagram } from '@loopwright/graph';
 import { InputError, poly } from '@loopwright/lti';
@@ -40,10 +42,28 @@ export function dampingStudy(d: Diagram, req: DampingRequest): DampingData {
   const sign = current < 0 ? -1 : 1;
   const r = gainForDamping(sign > 0 ? split.n0 : poly.scale(split.n0, -1), split.d0, zeta);
   const notes: string[] = [];
-  if (r.gain === null) {
+  // Strictly dominant: no closed-loop pole to the right. Failing that, the slowest oscillating
+  // pair: no complex pole to its right, only real ones (a PI's slow pole beside its zero, a
+  // slow lag), which the note names — what an engineer reads as "the dominant pair".
+  const oscillatory = (c: (typeof r.crossings)[number]) => {
+    const tol = 1e-6 * Math.max(1, Math.hypot(c.pole.re, c.pole.im));
+    return !c.poles.some((p) => Math.abs(p.im) > tol && p.re > c.pole.re + tol);
+  };
+  let crossing = r.crossing;
+  if (!crossing) {
+    crossing = r.crossings.find(oscillatory) ?? null;
+    if (crossing) {
+      const tol = 1e-6 * Math.max(1, Math.hypot(crossing.pole.re, crossing.pole.im));
+      const slower = crossing.poles.filter((p) => Math.abs(p.im) <= tol && p.re > crossing!.pole.re + tol).map((p) => p.re);
+      notes.push(
+        `the pair at damping ${zeta} is the slowest oscillating one; real pole${slower.length > 1 ? 's' : ''} at ${slower.map((x) => x.toPrecision(3)).join(', ')} lie${slower.length > 1 ? '' : 's'} to its right (slower, not oscillating): check them in the response`,
+      );
+    }
+  }
+  if (!crossing) {
     notes.push(
       r.crossings.length
-        ? `the ζ = ${zeta} line is crossed, but never by the dominant poles (another pole lies to their right there)`
+        ? `the ζ = ${zeta} line is crossed, but never by the slowest oscillating pair (another complex pole lies to its right there)`
         : `no branch of the locus crosses the ζ = ${zeta} line for ${sign > 0 ? 'positive' : 'negative'} values`,
     );
   }
@@ -52,11 +72,12 @@ export function dampingStudy(d: Diagram, req: DampingRequest): DampingData {
     zeta,
     target: targetKey(req.target),
     parameter: name,
-    value: r.gain === null ? null : sign * r.gain,
+    value: crossing ? sign * crossing.gain : null,
+    dominance: crossing ? (crossing === r.crossing ? 'strict' : 'oscillatory') : null,
     current,
-    pole: r.crossing ? plain(r.crossing.pole) : null,
-    naturalFrequency: r.crossing ? r.crossing.naturalFrequency : null,
-    poles: r.crossing ? r.crossing.poles.map(plain) : [],
+    pole: crossing ? plain(crossing.pole) : null,
+    naturalFrequency: crossing ? crossing.naturalFrequency : null,
+    poles: crossing ? crossing.poles.map(plain) : [],
     crossings: r.crossings.map((c) => ({ value: sign * c.gain, pole: plain(c.pole), dominant: c.dominant })),
     delayHandling: split.handling,
     notes,

@@ -4,8 +4,8 @@
  * tuned diagram, the document edit, step responses, the cascade workflow and the damping target.
  */
 import { describe, expect, it } from 'vitest';
-import { heatingCascade, positioningAxis, type Diagram } from '@loopwright/graph';
-import { cx, loopMargins, parseTransferFunction, tevalComplex, cdiv, cabs, csub } from '@loopwright/lti';
+import { characteristicPolynomial, heatingCascade, positioningAxis, supplyLoop, type Diagram } from '@loopwright/graph';
+import { cx, loopMargins, parseTransferFunction, polyRoots, tevalComplex, cdiv, cabs, csub } from '@loopwright/lti';
 import { controllerTransfer } from '@loopwright/tune';
 import { applyControllerPatch, controllerOfCut, controllerPatch, currentSetting, loopBlocks } from './controller-block.ts';
 import { configureLoop, readLoop, seenProcess } from './loop-reading.ts';
@@ -293,6 +293,18 @@ describe('cascade workflow', () => {
 });
 
 describe('gain for a target damping on the sweep', () => {
+  it('with a PI the slow real pole beside its zero stays to the right: the slowest oscillating pair is taken, and the note says so (supply loop demo)', () => {
+    const r = runStudy(supplyLoop, { kind: 'damping', target: { kind: 'parameter', name: 'Kp' }, zeta: 0.7 });
+    expect(r.dominance).toBe('oscillatory');
+    expect(-r.pole!.re / Math.hypot(r.pole!.re, r.pole!.im)).toBeCloseTo(0.7, 8);
+    expect(r.notes[0]).toMatch(/slowest oscillating one; real pole at .* lies to its right/);
+    // The same pole among the closed-loop poles of the diagram at that value (graph's own polynomial, same Padé order).
+    const poles = polyRoots(characteristicPolynomial(supplyLoop, { Kp: r.value! }, { padeOrder: 3 }).poly);
+    expect(Math.min(...poles.map((p) => Math.hypot(p.re - r.pole!.re, p.im - r.pole!.im)))).toBeLessThan(
+      1e-6 * Math.hypot(r.pole!.re, r.pole!.im),
+    );
+  });
+
   it('K/(s(s+2)): s² + 2s + K has ζ = 1/√K, so ζ = 0.7 needs K = 1/0.49 (Ogata Sec. 6-2, damping lines, from memory)', () => {
     const d = build(
       [

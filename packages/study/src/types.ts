@@ -417,6 +417,8 @@ export interface DampingData {
   parameter: string;
   /** The swept value that puts the dominant poles at damping ζ (null: no dominant crossing). */
   value: number | null;
+  /** 'strict': no closed-loop pole to their right; 'oscillatory': only real poles to their right (see notes). */
+  dominance: 'strict' | 'oscillatory' | null;
   /** The document's value now. */
   current: number;
   pole: Cx | null;

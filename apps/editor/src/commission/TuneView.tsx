@@ -5,7 +5,7 @@
  * damping target sets the swept value for a chosen ζ. The commissioning caution stands beside
  * every suggestion.
  */
-import { useEffect, useMemo, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { TUNE_CAUTION, TUNE_RULES, engineText, type MarginsData, type TuneData } from '@loopwright/study';
 import './commission.css';
 import { useDiagramStore } from '../store/diagram-store.ts';
@@ -125,10 +125,18 @@ function SummaryTable({ t }: { t: TuneData }) {
 function CascadePanel() {
   const c = useCommissionStore((s) => s.cascade);
   const error = useCommissionStore((s) => s.cascadeError);
+  const box = useRef<HTMLDivElement>(null);
+  // A result below the fold is brought into view when it arrives.
+  useEffect(() => {
+    // Only the view's own scroll box moves (scrollIntoView would scroll the page layout too).
+    const el = box.current;
+    const view = el?.closest('.lw-view-body');
+    if (el && view) view.scrollTop = el.offsetTop - (view as HTMLElement).offsetTop;
+  }, [c]);
   if (error) return <div className="lw-error">Cascade: {error}</div>;
   if (!c) return null;
   return (
-    <div className="lw-cascade" data-testid="cascade-result">
+    <div className="lw-cascade" data-testid="cascade-result" ref={box}>
       <div className="lw-view-tools">
         <strong>Cascade, innermost first ({RULE_LABEL[c.rule]})</strong>
         <span className="lw-spacer" />
@@ -229,6 +237,7 @@ function DampingPanel() {
               Set {fmt(damping.value)}
             </button>
           )}
+          {damping.value !== null && damping.notes.length > 0 && <span className="lw-muted lw-small">{damping.notes.join('; ')}</span>}
         </>
       )}
       {error && <span className="lw-bad">{error}</span>}

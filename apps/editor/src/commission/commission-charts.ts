@@ -56,14 +56,15 @@ export function fitOption(fit: FitData, chosen: string, pal: Palette): ChartOpti
   const t0 = log.time[0] ?? 0;
   const t = log.time.map((x) => x - t0);
   const end = t[t.length - 1] ?? 1;
-  const names = [`measured ${log.columns.output}`, `input ${log.columns.input}`];
+  // Short legend names (the axes carry the column names).
+  const names = ['measured', 'input'];
   const series: unknown[] = [
     line(names[0], tracePairs(t, log.output), pal.muted, 'solid', 1),
     line(names[1], tracePairs(t, log.input), pal.series[4], 'solid', 1.2, 1),
   ];
   for (const f of fit.fits) {
     if (!f.result.ok) continue;
-    const name = `${f.model.toUpperCase()} fit`;
+    const name = f.model.toUpperCase();
     names.push(name);
     const mine = f.model === chosen;
     series.push(
@@ -94,7 +95,14 @@ export function residualOption(fit: FitData, f: FittedModel, pal: Palette): Char
       animation: false,
       itemStyle: { color: pal.series[MODEL_COLOR[f.model.kind]] },
       data,
-      markLine: { silent: true, symbol: 'none', animation: false, lineStyle: { color: pal.axis, width: 1 }, data: [{ yAxis: 0 }] },
+      markLine: {
+        silent: true,
+        symbol: 'none',
+        animation: false,
+        label: { show: false },
+        lineStyle: { color: pal.axis, width: 1 },
+        data: [{ yAxis: 0 }],
+      },
     },
   ]);
 }

@@ -198,12 +198,10 @@ export function updateBlockFromFit(blockId: string): boolean {
   try {
     const { diagram, notes } = withFittedModel(useDiagramStore.getState().diagram, blockId, f.provenance);
     commitDocument(diagram);
-    useUiStore
-      .getState()
-      .notify({
-        kind: 'info',
-        title: `Block ${blockId} holds the ${f.model.kind.toUpperCase()} fit${notes.length ? ` (${notes.join('; ')})` : ''}`,
-      });
+    useUiStore.getState().notify({
+      kind: 'info',
+      title: `Block ${blockId} holds the ${f.model.kind.toUpperCase()} fit${notes.length ? ` (${notes.join('; ')})` : ''}`,
+    });
     return true;
   } catch (e) {
     useUiStore.getState().notify({ kind: 'error', title: message(e) });
