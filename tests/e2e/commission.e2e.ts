@@ -212,6 +212,7 @@ describe('commissioning: from a test log to a tuned loop', () => {
     expect(c.fit!.log.samples).toBe(1801);
     await page.getByTestId('test-log-input').setInputFiles(LOG);
     c = await until(page, 'the opened log', (x) => x.log?.fileName === 'supply-valve-bump.csv' && fitted(x));
+    expect(c.fit!.log.samples).toBe(1801);
     // A bad column choice says what is wrong and keeps the picker.
     await page.getByLabel('output column').selectOption('time_s');
     c = await until(page, 'the column error', (x) => x.fitError !== null);
