@@ -14,6 +14,7 @@ import {
   type DampingData,
   type FitData,
   type Part,
+  type StudyRequest,
   type StudyResult,
   type SweepTarget,
   type TestLogData,
@@ -139,18 +140,23 @@ export function setBetween(between: 'linear' | 'hold'): Promise<void> {
 
 export const chooseModel = (chosen: ModelKind) => set({ chosen });
 
+/** The study requests of a fit: the log's columns, and the three models fitted. */
+export function fitStudyRequests(log: { text: string; fileName: string }, choice: Record<Role, string | null>, between: 'linear' | 'hold'): StudyRequest[] {
+  const cols = Object.fromEntries(Object.entries(choice).filter(([, v]) => v !== null)) as Partial<Record<Role, string>>;
+  const common = { csv: log.text, fileName: log.fileName, ...cols };
+  return [
+    { kind: 'test-log', ...common },
+    { kind: 'fit', ...common, between },
+  ];
+}
+
 /** Reads the log's columns and fits the three models (newest request wins). */
 export async function refit(): Promise<void> {
   const { log, choice, between } = get();
   if (!log) return;
-  const cols = Object.fromEntries(Object.entries(choice).filter(([, v]) => v !== null)) as Partial<Record<Role, string>>;
-  const common = { csv: log.text, fileName: log.fileName, ...cols };
   set({ fitting: true });
   try {
-    const parts = await runTask('fit', emptyDiagram(), [
-      { kind: 'test-log', ...common },
-      { kind: 'fit', ...common, between },
-    ]);
+    const parts = await runTask('fit', emptyDiagram(), fitStudyRequests(log, choice, between));
     if (!parts) return;
     let columns: TestLogData | null = null;
     try {
@@ -223,12 +229,15 @@ const ruleOptions = (o: TuneOptions) => ({
 });
 const tuneRequest = (o: TuneOptions) => ({ ...ruleOptions(o), reading: o.reading, cut: o.cut });
 
+/** The study request of a tuning with these options (what the Tune view asks the engine). */
+export const tuneStudyRequest = (o: TuneOptions): StudyRequest => ({ kind: 'tune', ...tuneRequest(o) });
+
 /** The suggestion for the current options and document (newest request wins). */
 export async function runTune(): Promise<void> {
   const o = get().options;
   set({ tuning: true });
   try {
-    const parts = await runTask('tune', useDiagramStore.getState().diagram, [{ kind: 'tune', ...tuneRequest(o) }]);
+    const parts = await runTask('tune', useDiagramStore.getState().diagram, [tuneStudyRequest(o)]);
     if (!parts) return;
     set({ tune: valueOf<TuneData>(parts[0]), tuneError: null, tuning: false });
   } catch (e) {
