@@ -11,29 +11,18 @@ import {
   fitSummary,
   parseTestLogCsv,
   testLogColumns,
-  type ColumnRef,
-  type CsvSeparator,
   type InputInterpolation,
+  type TestLogCsvOptions,
   type ProcessModelKind,
 } from '@loopwright/fit';
 import { InputError } from '@loopwright/lti';
 import { part } from './part.ts';
 import type { FitData, TestLogData } from './types.ts';
 
-/** How to read a CSV test log (see @loopwright/fit parseTestLogCsv). */
-export interface TestLogRequest {
+/** A CSV test log's text and how to read it (@loopwright/fit parseTestLogCsv's options). */
+export interface TestLogRequest extends TestLogCsvOptions {
   /** The file's text. */
   csv: string;
-  fileName?: string;
-  /** SHA-256 of the file's bytes when the caller hashed them (default: of the text's UTF-8). */
-  sha256?: string;
-  time?: ColumnRef;
-  input?: ColumnRef;
-  output?: ColumnRef;
-  separator?: CsvSeparator | 'auto';
-  decimal?: '.' | ',' | 'auto';
-  header?: boolean | 'auto';
-  timeUnit?: 's' | 'ms' | 'min' | 'h';
 }
 
 export interface FitRequest extends TestLogRequest {
@@ -46,15 +35,9 @@ export interface FitRequest extends TestLogRequest {
   fittedAt?: string;
 }
 
-const csvOptions = (r: TestLogRequest) => ({
-  ...(r.separator !== undefined ? { separator: r.separator } : {}),
-  ...(r.decimal !== undefined ? { decimal: r.decimal } : {}),
-  ...(r.header !== undefined ? { header: r.header } : {}),
-});
-
 export function testLogStudy(req: TestLogRequest): TestLogData {
-  const t = testLogColumns(req.csv, csvOptions(req));
-  const name = (ref: ColumnRef | undefined, fallback: number) => {
+  const t = testLogColumns(req.csv, req);
+  const name = (ref: TestLogCsvOptions['time'], fallback: number) => {
     if (ref === undefined) return t.names[fallback - 1] ?? `column ${fallback}`;
     if (typeof ref === 'number') return t.names[ref - 1] ?? `column ${ref}`;
     return t.names.find((n) => n === ref) ?? t.names.find((n) => n.toLowerCase() === ref.toLowerCase()) ?? ref;
@@ -80,22 +63,15 @@ export function fitStudy(req: FitRequest): FitData {
   }
   const date = req.fittedAt === undefined ? new Date() : new Date(req.fittedAt);
   if (Number.isNaN(date.getTime())) throw new InputError(`fittedAt: '${req.fittedAt}' is not a date`, { field: 'fittedAt' });
-  const log = parseTestLogCsv(req.csv, {
-    ...csvOptions(req),
-    ...(req.time !== undefined ? { time: req.time } : {}),
-    ...(req.input !== undefined ? { input: req.input } : {}),
-    ...(req.output !== undefined ? { output: req.output } : {}),
-    ...(req.timeUnit !== undefined ? { timeUnit: req.timeUnit } : {}),
-    ...(req.fileName !== undefined ? { fileName: req.fileName } : {}),
-    ...(req.sha256 !== undefined ? { sha256: req.sha256 } : {}),
-  });
+  const { csv, models: _models, between, confidence, fittedAt: _date, ...options } = req;
+  const log = parseTestLogCsv(csv, options);
   const fits = models.map((model) => ({
     model,
     result: part(() => {
       const fit = fitProcessModel(log, {
         model,
-        ...(req.between ? { between: req.between } : {}),
-        ...(req.confidence !== undefined ? { confidence: req.confidence } : {}),
+        ...(between ? { between } : {}),
+        ...(confidence !== undefined ? { confidence } : {}),
       });
       return { ...fit, summary: fitSummary(fit), provenance: fitProvenance(log, fit, date) };
     }),

@@ -330,17 +330,8 @@ export interface TestLogData {
 export type FittedModel = ProcessFit & { summary: ReturnType<typeof fitSummary>; provenance: FitProvenance };
 
 export interface FitData {
-  log: {
-    fileName: string | null;
-    sha256: string | null;
-    columns: { time: string; input: string; output: string };
-    samples: number;
-    firstRow: number | null;
-    lastRow: number | null;
-    time: number[];
-    input: number[];
-    output: number[];
-  };
+  /** Where the log came from (as a fit's provenance names it) and its series. */
+  log: FitProvenance['source'] & { time: number[]; input: number[]; output: number[] };
   /** One part per model asked for, in the order asked (a model that does not fit fails on its own). */
   fits: { model: ProcessModelKind; result: Part<FittedModel> }[];
   /** The caution shown beside every fit. */

@@ -7,6 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { heatingCascade, serializeDiagram } from '@loopwright/graph';
 import { supplyValveBumpCsv } from '@loopwright/fit';
 import { parseTransferFunction } from '@loopwright/lti';
+import { build } from '@loopwright/study/testing';
 import { main } from '../main.ts';
 import type { CliIo } from '../io.ts';
 
@@ -130,28 +131,18 @@ describe('loopwright tune', () => {
     expect(tuned.parameters.find((p: { name: string }) => p.name === 'Kp_sup').value).toBe(t.json().controller.kp);
   });
   it('zn-ultimate reads Ku and Pu from the diagram: 1/(s(s+2)(s+4)) behind a PID block has Ku = 48 at ω = 2√2 (Routh) [R34]', async () => {
-    const d = {
-      ...heatingCascade,
-      parameters: [],
-      blocks: [
-        { id: 'r', kind: 'source', position: { x: 0, y: 0 }, params: {} },
-        { id: 'e', kind: 'summing-junction', position: { x: 100, y: 0 }, params: { signs: '+-' } },
-        { id: 'c', kind: 'pid', position: { x: 200, y: 0 }, params: { kp: 1, ti: 5 } },
-        { id: 'g', kind: 'transfer-function', position: { x: 300, y: 0 }, params: { expression: '1/(s*(s+2)*(s+4))' } },
-        { id: 'y', kind: 'probe', position: { x: 400, y: 0 }, params: {} },
+    const d = build(
+      [
+        ['r', 'source'],
+        ['e', 'summing-junction', { signs: '+-' }],
+        ['c', 'pid', { kp: 1, ti: 5 }],
+        ['g', 'transfer-function', { expression: '1/(s*(s+2)*(s+4))' }],
+        ['y', 'probe'],
       ],
-      wires: [
-        { id: 'w1', from: { block: 'r', port: 'out' }, to: { block: 'e', port: 'in1' } },
-        { id: 'w2', from: { block: 'e', port: 'out' }, to: { block: 'c', port: 'in' } },
-        { id: 'w3', from: { block: 'c', port: 'out' }, to: { block: 'g', port: 'in' } },
-        { id: 'w4', from: { block: 'g', port: 'out' }, to: { block: 'y', port: 'in' } },
-        { id: 'fb', from: { block: 'g', port: 'out' }, to: { block: 'e', port: 'in2' } },
-      ],
-      cuts: [{ id: 'loop', wire: 'fb' }],
-      sweeps: [],
-      simulation: {},
-      view: {},
-    };
+      ['r->e.in1', 'e->c', 'c->g', 'g->y', 'fb:g->e.in2'],
+      [],
+      { cuts: [{ id: 'loop', wire: 'fb' }] },
+    );
     const f = fakeIo({}, JSON.stringify(d));
     const r = await run(['tune', '-', '--rule', 'zn-ultimate', '--controller', 'pid', '--json'], f);
     expect(r.err).toBe('');
