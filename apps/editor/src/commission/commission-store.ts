@@ -141,7 +141,11 @@ export function setBetween(between: 'linear' | 'hold'): Promise<void> {
 export const chooseModel = (chosen: ModelKind) => set({ chosen });
 
 /** The study requests of a fit: the log's columns, and the three models fitted. */
-export function fitStudyRequests(log: { text: string; fileName: string }, choice: Record<Role, string | null>, between: 'linear' | 'hold'): StudyRequest[] {
+export function fitStudyRequests(
+  log: { text: string; fileName: string },
+  choice: Record<Role, string | null>,
+  between: 'linear' | 'hold',
+): StudyRequest[] {
   const cols = Object.fromEntries(Object.entries(choice).filter(([, v]) => v !== null)) as Partial<Record<Role, string>>;
   const common = { csv: log.text, fileName: log.fileName, ...cols };
   return [
