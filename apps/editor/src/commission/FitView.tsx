@@ -34,7 +34,7 @@ function ParamCell({ value, i, unit = '' }: { value: number | undefined; i: [num
     <td data-value={String(value)} title={`95 % interval ${interval(i ?? null)}`}>
       {fmt(value)}
       {unit}
-      <span className="lw-pinned-val"> {interval(i ?? null)}</span>
+      <span className="lw-pinned-val lw-interval">{interval(i ?? null)}</span>
     </td>
   );
 }
@@ -47,11 +47,11 @@ function ModelsTable() {
       <thead>
         <tr>
           <th>model</th>
+          <th title="RMS residual over the output's range">NRMSE</th>
           <th>gain K</th>
           <th>lag τ1 [s]</th>
           <th>lag τ2 [s]</th>
-          <th>dead time θ [s]</th>
-          <th title="RMS residual over the output's range">NRMSE</th>
+          <th title="Each value with its approximate 95 % interval below it">dead time θ [s]</th>
           <th>notes</th>
         </tr>
       </thead>
@@ -82,13 +82,13 @@ function ModelsTable() {
                   {model.toUpperCase()}
                 </label>
               </td>
+              <td data-field="nrmse" data-value={String(f.nrmse)}>
+                {fmt(100 * f.nrmse, 3)} %
+              </td>
               <ParamCell value={f.model.gain} i={f.intervals.gain} />
               <ParamCell value={f.model.timeConstants[0]} i={f.intervals.timeConstants[0]} />
               <ParamCell value={f.model.timeConstants[1]} i={f.intervals.timeConstants[1]} />
               <ParamCell value={f.model.deadTime} i={f.intervals.deadTime} />
-              <td data-field="nrmse" data-value={String(f.nrmse)}>
-                {fmt(100 * f.nrmse, 3)} %
-              </td>
               <td className="lw-small">{f.warnings.length ? f.warnings.join('; ') : <span className="lw-muted">—</span>}</td>
             </tr>
           );

@@ -135,6 +135,8 @@ function CascadePanel() {
   }, [c]);
   if (error) return <div className="lw-error">Cascade: {error}</div>;
   if (!c) return null;
+  // Separation rows name loops by cut id; the steps carry each cut's label.
+  const loopName = (cut: string) => c.steps.find((s) => s.cut === cut)?.label ?? cut;
   return (
     <div className="lw-cascade" data-testid="cascade-result" ref={box}>
       <div className="lw-view-tools">
@@ -184,7 +186,7 @@ function CascadePanel() {
       </table>
       {c.separations.map((s) => (
         <p key={`${s.inner}-${s.outer}`} className={s.flag ? 'lw-note lw-bad' : 'lw-note'}>
-          separation {s.inner} in {s.outer}: {s.ratio === null ? '—' : `${fmt(s.ratio, 3)}×`}{' '}
+          separation of {loopName(s.inner)} inside {loopName(s.outer)}: {s.ratio === null ? '—' : `${fmt(s.ratio, 3)}×`}{' '}
           {s.flag ? '(below 3: the loops interact)' : ''}
         </p>
       ))}

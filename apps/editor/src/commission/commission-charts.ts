@@ -36,12 +36,14 @@ const line = (name: string, data: (number | null)[][], color: string, type: 'sol
 });
 
 function frame(pal: Palette, names: string[], xMax: number, yAxis: unknown, series: unknown[], rightGap = 16): ChartOption {
+  // A legend of more than three names wraps onto a second row (a paged legend would hide the fits).
+  const rows = names.length > 3 ? 2 : 1;
   return {
     animation: false,
     backgroundColor: pal.background,
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
-    legend: { type: 'scroll', top: 0, left: 60, right: 10, data: names, textStyle: { color: pal.muted } },
-    grid: { left: 64, right: rightGap, top: 28, bottom: 38 },
+    legend: { type: 'plain', top: 0, left: 60, right: 10, itemWidth: 18, itemGap: 8, data: names, textStyle: { color: pal.muted } },
+    grid: { left: 64, right: rightGap, top: 10 + 20 * rows, bottom: 38 },
     xAxis: { ...axis(pal, 't [s]', { nameGap: 24, scale: false, min: 0, max: xMax }) },
     yAxis,
     series,
