@@ -1,15 +1,40 @@
 /**
  * One engine: the command line's --json path and the editor worker's compute entry give the
- * same numbers for the same diagram — both demos and three scenarios of our own (a three-loop
+ * same numbers for the same diagram — the demos and three scenarios of our own (a three-loop
  * cascade with dead times, a loop with a feedforward, a reverse-acting loop swept over negative
- * gains). The worker side sends exactly the study requests the editor's driver builds; the
+ * gains); and `loopwright fit` / `loopwright tune` against the requests of the editor's Test
+ * log and Tune views. The worker side sends exactly the study requests the editor's driver builds; the
  * study caches are cleared between the two sides so that each computes afresh.
  */
 import { describe, expect, it } from 'vitest';
-import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph';
-import { clearCaches, engineParameterName, resolveSweep, type LocusData, type LoopsData, type Part, type ResponseResult, type StudyResult, type CheckData, type ClosedLoopData } from '@loopwright/study';
+import { demoDiagrams, emptyDiagram, serializeDiagram, type Diagram } from '@loopwright/graph';
+import { supplyValveBumpCsv } from '@loopwright/fit';
+import {
+  clearCaches,
+  engineParameterName,
+  resolveSweep,
+  runStudies,
+  type FitData,
+  type StudyRequest,
+  type TuneData,
+  type LocusData,
+  type LoopsData,
+  type Part,
+  type ResponseResult,
+  type StudyResult,
+  type CheckData,
+  type ClosedLoopData,
+} from '@loopwright/study';
 import { main, type CliIo } from '@loopwright/cli/testing';
-import { computeReply, channelStudies, type AnalysisInputs, type Channel } from '@loopwright/editor/testing';
+import {
+  computeReply,
+  channelStudies,
+  fitStudyRequests,
+  tuneStudyRequest,
+  type AnalysisInputs,
+  type Channel,
+  type TuneOptions,
+} from '@loopwright/editor/testing';
 import { coolingReverseActing, furnaceCascade, tankFeedforward } from '@loopwright/study/testing';
 
 async function cli(argv: string[], file: string): Promise<Record<string, any>> {
@@ -116,7 +141,10 @@ describe('the command line and the editor worker agree', () => {
           }
         });
         same(c.separations, w.separations);
-        same(c.outerVsIdeal.map((o: Record<string, unknown>) => [o.outer, o.inner, o.real, o.ideal]), w.outerVsIdeal.map((o) => [o.outer, o.inner, o.realMargins, o.idealMargins]));
+        same(
+          c.outerVsIdeal.map((o: Record<string, unknown>) => [o.outer, o.inner, o.real, o.ideal]),
+          w.outerVsIdeal.map((o) => [o.outer, o.inner, o.realMargins, o.idealMargins]),
+        );
         same(c.closedLoopPoles, pairs(w.closedLoopPoles));
         expect(c.stable).toBe(w.stable);
       });
@@ -130,14 +158,20 @@ describe('the command line and the editor worker agree', () => {
         expect(c.negative).toBe(L.direction === 'negative');
         same(c.poles, pairs(L.poles));
         same(c.zeros, L.mode === 'exact' ? pairs(L.zeros) : c.zeros);
-        same(c.breakaway, L.breakaways.map((b) => ({ s: [b.s.re, b.s.im], gain: b.gain })));
+        same(
+          c.breakaway,
+          L.breakaways.map((b) => ({ s: [b.s.re, b.s.im], gain: b.gain })),
+        );
         same(c.crossings, L.crossings);
         if (L.mode === 'exact') {
           same(c.fixedPoles, pairs(L.fixedPoles));
           same(c.numeratorAscending, L.n0);
           same(c.denominatorAscending, L.d0);
         }
-        same(c.branches, L.branches.map((b) => b.re.map((re, i) => [re, b.im[i], b.k[i]])));
+        same(
+          c.branches,
+          L.branches.map((b) => b.re.map((re, i) => [re, b.im[i], b.k[i]])),
+        );
       });
 
       it(`closed loop from ${source} to ${probe}: the same transfer function and poles`, async () => {
@@ -145,7 +179,12 @@ describe('the command line and the editor worker agree', () => {
         const c = await cli(['reduce', 'd.loop.json', '--from', source, '--to', probe, '--json'], file);
         clearCaches();
         const live = sweep.live;
-        const reply = computeReply({ channel: 'analysis', id: 1, diagram: d, studies: [{ kind: 'closed-loop', from: { block: source }, to: { block: probe }, live }] });
+        const reply = computeReply({
+          channel: 'analysis',
+          id: 1,
+          diagram: d,
+          studies: [{ kind: 'closed-loop', from: { block: source }, to: { block: probe }, live }],
+        });
         expect(reply.ok).toBe(true);
         const part = reply.ok ? reply.results[0] : null;
         const w = (part?.ok ? part.value.value : null) as ClosedLoopData;
@@ -167,6 +206,73 @@ describe('the command line and the editor worker agree', () => {
         same(c.metrics, w.run.probeFigures);
         same(c.actuators, w.run.actuatorFigures);
       });
+    });
+  }
+});
+
+/** The editor's task worker runs the studies its views ask for (runStudies, in place here). */
+function editorTask(d: Diagram, studies: StudyRequest[]): StudyResult['value'][] {
+  return runStudies(d, studies).map((r) => {
+    if (!r.ok) throw new Error(r.error);
+    return r.value.value;
+  });
+}
+
+describe('fits and tunings: the command line and the editor agree', () => {
+  const csv = supplyValveBumpCsv();
+
+  it('the demo test log: every model, its intervals and NRMSE', async () => {
+    clearCaches();
+    const c = await cli(['fit', 'supply-valve-bump.csv', '--model', 'all', '--json'], csv);
+    const [, fit] = editorTask(
+      emptyDiagram(),
+      fitStudyRequests({ text: csv, fileName: 'supply-valve-bump.csv' }, { time: null, input: null, output: null }, 'linear'),
+    ) as [unknown, FitData];
+    expect(c.fits.map((f: { model: string }) => f.model)).toEqual(fit.fits.map((f) => f.model));
+    fit.fits.forEach((f, i) => {
+      if (!f.result.ok) throw new Error(f.result.error);
+      const j = c.fits[i];
+      same(
+        [j.gain, j.timeConstants, j.deadTime, j.nrmse, j.intervals, j.expression],
+        [
+          f.result.value.model.gain,
+          f.result.value.model.timeConstants,
+          f.result.value.model.deadTime,
+          f.result.value.nrmse,
+          f.result.value.intervals,
+          f.result.value.expression,
+        ],
+      );
+      expect(j.testLog.sha256).toBe(f.result.value.provenance.source.sha256);
+    });
+  });
+
+  const cases: [string, Diagram, string, TuneOptions['rule'], TuneOptions['controller']][] = [
+    ['heating cascade', demoDiagrams.find((x) => x.id === 'heating-cascade')!.diagram, 'cut-supply', 'simc', 'pi'],
+    ['heating cascade', demoDiagrams.find((x) => x.id === 'heating-cascade')!.diagram, 'cut-room', 'ms', 'pi'],
+    ['supply loop', demoDiagrams.find((x) => x.id === 'supply-loop')!.diagram, 'cut-supply', 'amigo', 'pid'],
+    ['three-loop cascade with dead times', furnaceCascade(), 'cut-zone', 'zn-ultimate', 'pi'],
+    ['three-loop cascade with dead times', furnaceCascade(), 'cut-flow', 'lambda', 'pi'],
+  ];
+  for (const [name, d, cut, rule, controller] of cases) {
+    it(`${name}, ${cut}, ${rule} ${controller}: the same setting, model and predicted margins`, async () => {
+      clearCaches();
+      const c = await cli(['tune', 'd.loop.json', '--cut', cut, '--rule', rule, '--controller', controller, '--json'], serializeDiagram(d));
+      clearCaches();
+      const [t] = editorTask(d, [
+        tuneStudyRequest({ rule, controller, cut, reading: 'inner-first', tauC: null, lambda: null, msMax: null }),
+      ]) as [TuneData];
+      same(c.controller, { kind: t.controller.kind, kp: t.controller.kp, ti: t.controller.ti, td: t.controller.td });
+      same(c.model, t.model);
+      same(c.predicted, {
+        ms: t.predicted.peakSensitivity,
+        gainMargin: t.predicted.gainMargin,
+        phaseMarginDeg: t.predicted.phaseMarginDeg,
+        delayMargin: t.predicted.delayMargin,
+        gainCrossover: t.predicted.gainCrossover,
+        closedLoopStable: t.predicted.closedLoopStable,
+      });
+      expect(c.block.id).toBe(t.block!.id);
     });
   }
 });

@@ -7,3 +7,5 @@ export type { Channel } from './worker/protocol.ts';
 export { pathPoints, type Point } from './canvas/wire-geometry.ts';
 export { LANE_GAP } from './canvas/lanes.ts';
 export { feedbackLanes, type Box } from './canvas/lanes.ts';
+// The study requests of the Test log and Tune views (the agreement test sends them as the CLI does).
+export { fitStudyRequests, tuneStudyRequest, type TuneOptions } from './commission/commission-store.ts';

@@ -43,3 +43,22 @@ export { loopOfExpression, expressionMargins, expressionLocus, type ExpressionLo
 export { resultsComplete, type PartProgress } from './complete.ts';
 export { clearCaches } from './caches.ts';
 export { transferData, rhpPoleCount } from './transfer-data.ts';
+export { testLogStudy, fitStudy, type TestLogRequest, type FitRequest } from './fit-study.ts';
+export { tuneStudy, modelOfProcess, type TuneRequest } from './tune-study.ts';
+export { cascadeStudy, type CascadeRequest } from './cascade-study.ts';
+export { dampingStudy, type DampingRequest } from './damping-study.ts';
+export {
+  loopBlocks,
+  controllerOfCut,
+  currentSetting,
+  controllerPatch,
+  applyControllerPatch,
+  settingParams,
+  type ControllerPatch,
+} from './controller-block.ts';
+export { configureLoop, readLoop, seenProcess, ultimateOfLoop, READING_MODES, type LoopReadingMode, type LoopConfiguration, type SeenProcess, type DiagramUltimate } from './loop-reading.ts';
+export { loopStepResponses, rationalText, transferText, responseHorizon, type LoopForm } from './loop-responses.ts';
+export { fitRecord, withFittedBlock, withFittedModel, REPLACEABLE_BY_FIT } from './fitted-block.ts';
+// What the apps show beside fits and tunings, and the choices they offer, from the packages that own them.
+export { FIT_CAUTION, PROCESS_MODEL_KINDS, demoTestLogs, type ProcessModel, type ProcessModelKind } from '@loopwright/fit';
+export { TUNE_CAUTION, TUNE_RULES, type ControllerSetting, type TuneRule } from '@loopwright/tune';

@@ -14,6 +14,11 @@ import { polesStudy, type PolesRequest } from './poles.ts';
 import { responseStudy, type RunContext, type RunRequest } from './run.ts';
 import type { CheckData, ClosedLoopData, FrequencyData, LocusData, LoopsData, Part, PolesData, ResponseResult } from './types.ts';
 import { checkStudy } from './validate.ts';
+import { fitStudy, testLogStudy, type FitRequest, type TestLogRequest } from './fit-study.ts';
+import { tuneStudy, type TuneRequest } from './tune-study.ts';
+import { cascadeStudy, type CascadeRequest } from './cascade-study.ts';
+import { dampingStudy, type DampingRequest } from './damping-study.ts';
+import type { CascadeData, DampingData, FitData, TestLogData, TuneData } from './types.ts';
 
 export interface StudyKinds {
   /** Every finding of the diagram (what `loopwright check` lists). */
@@ -30,6 +35,16 @@ export interface StudyKinds {
   'closed-loop': { request: ClosedLoopRequest; result: ClosedLoopData };
   /** A time simulation. */
   run: { request: RunRequest; result: ResponseResult };
+  /** The columns of a CSV test log (no diagram needed). */
+  'test-log': { request: TestLogRequest; result: TestLogData };
+  /** Process models fitted to a CSV test log (no diagram needed). */
+  fit: { request: FitRequest; result: FitData };
+  /** A suggested controller setting for a loop (by its cut) or a model expression. */
+  tune: { request: TuneRequest; result: TuneData };
+  /** Every loop tuned inner-first, innermost first. */
+  cascade: { request: CascadeRequest; result: CascadeData };
+  /** The swept value that gives the dominant poles a target damping. */
+  damping: { request: DampingRequest; result: DampingData };
 }
 
 export type StudyKind = keyof StudyKinds;
@@ -53,6 +68,11 @@ const HANDLERS: Handlers = {
   loops: (d, r) => loopsStudy(d, r),
   'closed-loop': (d, r) => closedLoopStudy(d, r),
   run: (d, r, ctx) => responseStudy(d, r, ctx),
+  'test-log': (_d, r) => testLogStudy(r),
+  fit: (_d, r) => fitStudy(r),
+  tune: (d, r) => tuneStudy(d, r),
+  cascade: (d, r) => cascadeStudy(d, r),
+  damping: (d, r) => dampingStudy(d, r),
 };
 
 /** Runs one study; throws what it throws (InputError for bad input, naming what is wrong). */

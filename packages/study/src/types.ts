@@ -5,6 +5,9 @@
  */
 import type { DelayHandling, Finding, Separation, SignalRef } from '@loopwright/graph';
 import type { MarginFigures } from '@loopwright/lti';
+import type { FitProvenance, ProcessFit, ProcessModel, ProcessModelKind, fitSummary } from '@loopwright/fit';
+import type { ControllerSetting, TuneRule } from '@loopwright/tune';
+import type { ControllerPatch } from './controller-block.ts';
 
 export type { DelayHandling, Finding, SignalRef };
 
@@ -306,4 +309,114 @@ export interface ResponseResult {
 export interface CheckData {
   findings: Finding[];
   counts: { error: number; warning: number; info: number };
+}
+
+// ------------------------------------------------------------------------------ test logs and fits
+
+/** The columns of a test log before any is chosen, and the ones a fit would use. */
+export interface TestLogData {
+  fileName: string | null;
+  /** Every column: the header's names, else "column N". */
+  columns: string[];
+  header: boolean;
+  separator: ',' | ';' | '\t';
+  decimal: '.' | ',';
+  rows: number;
+  /** The columns chosen (by the request, else 1, 2, 3), by name. */
+  chosen: { time: string; input: string; output: string };
+}
+
+/** One model fitted to the log: @loopwright/fit's ProcessFit, its CLI summary and its provenance (what a block's fit record holds). */
+export type FittedModel = ProcessFit & { summary: ReturnType<typeof fitSummary>; provenance: FitProvenance };
+
+export interface FitData {
+  /** Where the log came from (as a fit's provenance names it) and its series. */
+  log: FitProvenance['source'] & { time: number[]; input: number[]; output: number[] };
+  /** One part per model asked for, in the order asked (a model that does not fit fails on its own). */
+  fits: { model: ProcessModelKind; result: Part<FittedModel> }[];
+  /** The caution shown beside every fit. */
+  caution: string;
+}
+
+// ------------------------------------------------------------------------------ tunings
+
+/** Set-point and load-disturbance step responses of a loop before (null: no loop today) and after a tuning; null where a run stopped early. */
+export interface StepResponses {
+  time: number[];
+  setpoint: { before: (number | null)[] | null; after: (number | null)[] };
+  load: { before: (number | null)[] | null; after: (number | null)[] };
+  /** Why a run stopped early (null: it ran to the end). */
+  status: { before: string | null; after: string | null };
+}
+
+/** A suggested setting as the CLI and views show it: @loopwright/tune's suggestion reduced to plain figures. */
+export interface TuneData {
+  rule: TuneRule;
+  /** What was tuned: a cut of the diagram, or a model expression. */
+  source: 'cut' | 'model';
+  cut: { id: string; wire: string; label: string } | null;
+  reading: 'closed' | 'inner-first';
+  /** Cut ids opened for the reading (inner-first: the loops around it). */
+  opened: string[];
+  /** The controller block set by the suggestion and what it holds today (null: a model with no block named). */
+  block: { id: string; label: string; current: ControllerSetting; derivativeFilter: number } | null;
+  /** What the controller sees, P = L/C (or the model given). */
+  process: TransferData;
+  /** true when P does not depend on the controller (see loop-reading.ts); false: divided by today's controller. */
+  processExact: boolean;
+  delayHandling: DelayHandling | null;
+  /** The low-order model a rule used (null for the ms and zn-ultimate rules). */
+  model: ProcessModel | null;
+  /** How that model came from P: 'model' (P has that form), 'half rule', 'step fit' (least squares on P's exact step response), or null. */
+  modelFrom: 'model' | 'half rule' | 'step fit' | null;
+  /** Ku and Pu (zn-ultimate): from the diagram's own crossing. */
+  ultimate: { ku: number; pu: number; omega: number; from: 'frequency response' | 'root locus' | 'model' } | null;
+  controller: ControllerSetting;
+  derivativeFilter: number;
+  settings: Record<string, number>;
+  /** Margins of the loop with the suggestion in place (at the cut, read as asked; or C·P of the model). */
+  predicted: MarginsData;
+  /** The same figures for the loop as it is today (null: no loop today, or a model). */
+  current: MarginsData | null;
+  /** L with the suggestion in place (what `loopwright margins --loop` reads back). */
+  loop: TransferData;
+  /** The edit that applies the suggestion (null: no block). */
+  apply: ControllerPatch | null;
+  responses: StepResponses | null;
+  notes: string[];
+  caution: string;
+}
+
+/** Inner-first tuning of every loop of a cascade: one step per loop, innermost first. */
+export interface CascadeData {
+  rule: TuneRule;
+  steps: { cut: string; label: string; depth: number; result: Part<TuneData> }[];
+  /** Separation ratios with every suggestion applied (flagged below 3). */
+  separations: SeparationRow[];
+  /** Each loop's margins with every suggestion applied, every other loop closed. */
+  final: { cut: string; label: string; margins: MarginsData }[];
+  /** Every step's edit, in order (apply them in this order). */
+  apply: ControllerPatch[];
+  notes: string[];
+  caution: string;
+}
+
+/** The gain for a target damping on the exact locus of the current sweep. */
+export interface DampingData {
+  zeta: number;
+  target: string;
+  parameter: string;
+  /** The swept value that puts the dominant poles at damping ζ (null: no dominant crossing). */
+  value: number | null;
+  /** 'strict': no closed-loop pole to their right; 'oscillatory': only real poles to their right (see notes). */
+  dominance: 'strict' | 'oscillatory' | null;
+  /** The document's value now. */
+  current: number;
+  pole: Cx | null;
+  naturalFrequency: number | null;
+  poles: Cx[];
+  /** Every crossing of the ζ line, ascending |value|. */
+  crossings: { value: number; pole: Cx; dominant: boolean }[];
+  delayHandling: DelayHandling;
+  notes: string[];
 }

@@ -5,6 +5,8 @@ import { checkCommand } from './check.ts';
 import { reduceCommand } from './reduce.ts';
 import { loopsCommand } from './loops.ts';
 import { simulateCommand } from './simulate.ts';
+import { fitCommand } from './fit.ts';
+import { tuneCommand } from './tune.ts';
 
 /** Every command, in the order `loopwright --help` lists them. */
 export const commands: Command[] = [
@@ -14,4 +16,6 @@ export const commands: Command[] = [
   reduceCommand,
   loopsCommand,
   simulateCommand,
+  fitCommand,
+  tuneCommand,
 ];

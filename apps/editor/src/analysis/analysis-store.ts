@@ -9,7 +9,7 @@ import { create } from 'zustand';
 import type { SweepRange } from './sweep.ts';
 import type { AnalysisSnapshot } from './snapshot.ts';
 
-export type AnalysisViewId = 'locus' | 'response' | 'frequency' | 'loops' | 'compare';
+export type AnalysisViewId = 'locus' | 'response' | 'frequency' | 'loops' | 'compare' | 'fit' | 'tune';
 
 export interface AnalysisUiState {
   view: AnalysisViewId;

@@ -5,6 +5,7 @@
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { blockSpec, visibleParams, type Block, type Diagram } from '../store/graph-bridge.ts';
 import { ParamField } from './ParamField.tsx';
+import { FitRecordNote } from '../commission/FitRecordNote.tsx';
 
 function outputsOf(d: Diagram, except: string): { value: string; label: string }[] {
   const out: { value: string; label: string }[] = [];
@@ -31,6 +32,7 @@ function BlockDetails({ diagram, block }: { diagram: Diagram; block: Block }) {
         <strong>{spec.title}</strong> <span className="muted mono">{block.id}</span>
       </div>
       <p className="muted small desc" title={spec.description}>{spec.description}</p>
+      <FitRecordNote diagram={diagram} block={block} />
       <div className="field">
         <label htmlFor="block-label">Label</label>
         <input

@@ -222,6 +222,7 @@ export const useDiagramStore = create<DiagramState>()(
           if (d.view.activeCut && !d.cuts.some((c) => c.id === d.view.activeCut)) d.view.activeCut = d.cuts[0]?.id;
           if (d.view.activeProbe && !d.blocks.some((b) => b.id === d.view.activeProbe)) delete d.view.activeProbe;
           if (d.simulation?.probes) d.simulation.probes = d.simulation.probes.filter((id) => !gone.has(id));
+          if (d.fits) d.fits = d.fits.filter((f) => !gone.has(f.block));
           set({ diagram: d, selection: { blocks: [], wires: [] } });
         },
         removeWires: (ids) =>

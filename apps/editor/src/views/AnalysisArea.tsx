@@ -20,12 +20,17 @@ import { FrequencyView } from './FrequencyView.tsx';
 import { LoopsView } from './LoopsView.tsx';
 import { CompareView, pinCurrent } from './CompareView.tsx';
 import { palette } from './palette.ts';
+import { FitView } from '../commission/FitView.tsx';
+import { TuneView } from '../commission/TuneView.tsx';
+import { installCommissionHook } from '../commission/test-hook.ts';
 
 const TABS: { id: Exclude<AnalysisViewId, 'locus'>; label: string }[] = [
   { id: 'response', label: 'Response' },
   { id: 'frequency', label: 'Frequency' },
   { id: 'loops', label: 'Loops' },
   { id: 'compare', label: 'Compare' },
+  { id: 'fit', label: 'Test log' },
+  { id: 'tune', label: 'Tune' },
 ];
 
 /** Dark when the page shows the dark theme (the <html data-theme> the theme switch sets). */
@@ -72,6 +77,7 @@ export function AnalysisArea() {
 
   useEffect(() => startAnalysisDriver(), []);
   useEffect(() => installAnalysisHook(), []);
+  useEffect(() => installCommissionHook(), []);
 
   // After the charts of a complete generation have been given their options (child effects run
   // first), wait one frame for the paint and record the generation as drawn.
@@ -143,6 +149,8 @@ export function AnalysisArea() {
             {tab === 'frequency' && <FrequencyView pal={pal} />}
             {tab === 'loops' && <LoopsView pal={pal} />}
             {tab === 'compare' && <CompareView pal={pal} />}
+            {tab === 'fit' && <FitView pal={pal} />}
+            {tab === 'tune' && <TuneView pal={pal} />}
           </div>
         </div>
       </div>

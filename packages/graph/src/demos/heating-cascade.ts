@@ -14,7 +14,7 @@ const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id,
  */
 export const heatingCascade: Diagram = {
   format: 'loopwright.diagram',
-  version: 2,
+  version: 3,
   title: 'Building heating cascade',
   description:
     'Supply-temperature loop (PI on a 0–100 % mixing valve) inside a room-temperature loop (PI). Temperatures are ' +

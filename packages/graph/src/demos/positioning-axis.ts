@@ -15,7 +15,7 @@ const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id,
  */
 export const positioningAxis: Diagram = {
   format: 'loopwright.diagram',
-  version: 2,
+  version: 3,
   title: 'Belt-driven positioning axis',
   description:
     'Cascade of current, speed and position loops on a belt-driven axis (invented but plausible numbers: ' +
