@@ -160,7 +160,7 @@ describe('L at a cut', () => {
     expect(() => chooseCut(d, 'gone')).toThrow(/cut gone is not in the diagram/);
     expect(chooseCut(d, 'gone', {}, true)?.id).toBe('c1');
     d.cuts = [];
-    expect(chooseCut(d, null)).toEqual({ id: 'auto:fb', wire: 'fb', label: 'fb', auto: true });
+    expect(chooseCut(d, null)).toEqual({ id: 'auto:fb', wire: 'fb', label: 'loop at fb (proposed)', auto: true });
   });
 });
 

@@ -11,6 +11,7 @@ import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { bodeOf, transferData } from './transfer-data.ts';
 import type { ClosedLoopData, LiveValue } from './types.ts';
 import { assertAnalysable } from './validate.ts';
+import { comparisonOrder, originsOf } from './poles.ts';
 
 /**
  * A point named in text: "block:ID", "wire:ID", or a bare ID that names exactly one block or
@@ -56,7 +57,12 @@ function stepTimes(poles: readonly Complex[], delay: number): number[] {
 export function closedLoopStudy(d: Diagram, req: ClosedLoopRequest): ClosedLoopData {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
   assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
-  const r = closedLoop(diagram, req.from, req.to, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER });
+  const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
+  const r = closedLoop(diagram, req.from, req.to, overrides, { padeOrder });
+  // With a dead time inside a loop the poles (and zeros) are those of a Padé approximant: each
+  // is marked by whether it stays put at a Padé order two higher.
+  const pade = r.delayHandling.mode === 'pade';
+  const higher = pade ? closedLoop(diagram, req.from, req.to, overrides, { padeOrder: comparisonOrder(padeOrder) }) : null;
   let step: ClosedLoopData['step'] = null;
   if (req.step) {
     const time = stepTimes(r.poles, r.delay);
@@ -71,6 +77,8 @@ export function closedLoopStudy(d: Diagram, req: ClosedLoopRequest): ClosedLoopD
     transfer: transferData(r.tf),
     poles: r.poles.map(plain),
     zeros: r.zeros.map(plain),
+    poleOrigin: originsOf(r.poles, pade, () => higher!.poles),
+    zeroOrigin: originsOf(r.zeros, pade, () => higher!.zeros),
     gain: r.gain,
     staticGain: r.staticGain,
     delayHandling: r.delayHandling,

@@ -9,6 +9,7 @@ import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { rhpPoleCount, transferData } from './transfer-data.ts';
 import type { FrequencyData, LiveValue } from './types.ts';
 import { assertAnalysable } from './validate.ts';
+import { cutName, loopName } from './names.ts';
 
 export interface ChosenCut {
   id: string;
@@ -26,17 +27,17 @@ export interface ChosenCut {
 export function chooseCut(d: Diagram, requested: string | null, overrides: Record<string, number> = {}, fallback = false): ChosenCut | null {
   if (requested?.startsWith('auto:')) {
     const wire = requested.slice(5);
-    if (d.wires.some((w) => w.id === wire)) return { id: requested, wire, label: wire, auto: true };
+    if (d.wires.some((w) => w.id === wire)) return { id: requested, wire, label: loopName(d, requested), auto: true };
     if (!fallback) throw new InputError(`cut ${requested}: the diagram has no wire "${wire}"`, { field: 'cut' });
   } else if (requested !== null) {
     const c = d.cuts.find((x) => x.id === requested);
-    if (c) return { id: c.id, wire: c.wire, label: c.label ?? c.wire, auto: false };
+    if (c) return { id: c.id, wire: c.wire, label: cutName(c), auto: false };
     if (!fallback) throw new InputError(`cut ${requested} is not in the diagram (cuts: ${d.cuts.map((x) => x.id).join(', ') || 'none'})`, { field: 'cut' });
   }
   const c = d.cuts.find((x) => x.id === d.view.activeCut) ?? d.cuts[0];
-  if (c) return { id: c.id, wire: c.wire, label: c.label ?? c.wire, auto: false };
+  if (c) return { id: c.id, wire: c.wire, label: cutName(c), auto: false };
   const wire = feedbackWires(compiledOf(d, overrides))[0];
-  return wire ? { id: `auto:${wire}`, wire, label: wire, auto: true } : null;
+  return wire ? { id: `auto:${wire}`, wire, label: loopName(d, `auto:${wire}`), auto: true } : null;
 }
 
 export interface CutRequest {

@@ -50,6 +50,8 @@ export interface RunContext {
   isCancelled?: () => boolean;
   /** performance.now() (ms) by which the study must end; a run stops there with status 'budget'. */
   deadline?: number;
+  /** Called with the fraction done (0..1) as the work goes on, at most about every 1 %. */
+  onProgress?: (fraction: number) => void;
 }
 
 const clock = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
@@ -140,6 +142,26 @@ export function actuatorsOf(d: Diagram, overrides: Record<string, number> = {}):
     }
     if (spec.onlyWithLimits && lower === null && upper === null) continue;
     out.push({ key: `wire:${wire.id}`, block: b.id, label: `${b.label ?? b.id} output`, lower, upper });
+  }
+  return out;
+}
+
+/** A probe's unit as its field holds it (null: none given). */
+const probeUnit = (u: unknown): string | null => (typeof u === 'string' && u.trim() !== '' ? u.trim() : null);
+
+/**
+ * The panels a response is drawn in (small multiples on one time axis): probes of one unit
+ * share a panel and its axis, in the order of their first probe; a probe without a unit has a
+ * panel of its own. `shown`: the probe ids shown, in order.
+ */
+export function responsePanels(probes: readonly { id: string; label: string; unit: string | null }[], shown: readonly string[]): { unit: string | null; probes: string[] }[] {
+  const out: { unit: string | null; probes: string[] }[] = [];
+  for (const id of shown) {
+    const p = probes.find((x) => x.id === id);
+    if (!p) continue;
+    const same = p.unit === null ? undefined : out.find((g) => g.unit === p.unit);
+    if (same) same.probes.push(id);
+    else out.push({ unit: p.unit, probes: [id] });
   }
   return out;
 }
@@ -244,13 +266,16 @@ export function responseStudy(d: Diagram, req: RunRequest = {}, ctx: RunContext 
     isCancelled: ctx.isCancelled,
   };
   const linearOnly = req.model === 'linear';
-  const run = traceOf(simulate(model, { ...common, linear: linearOnly }));
-  const linear = !linearOnly && req.linearOverlay ? traceOf(simulate(model, { ...common, linear: true })) : null;
+  const overlay = !linearOnly && req.linearOverlay === true;
+  // Progress: the run as drawn, then the linear overlay, each its share of the whole.
+  const share = (from: number, size: number) => (ctx.onProgress ? { onProgress: (f: number) => ctx.onProgress!(from + size * f) } : {});
+  const run = traceOf(simulate(model, { ...common, linear: linearOnly, ...share(0, overlay ? 0.5 : 1) }));
+  const linear = overlay ? traceOf(simulate(model, { ...common, linear: true, ...share(0.5, 0.5) })) : null;
   return {
     run,
     model: linearOnly ? 'linear' : 'as-drawn',
     linear,
-    probes: diagram.blocks.filter((b) => b.kind === 'probe').map((b) => ({ id: b.id, label: b.label ?? b.id })),
+    probes: diagram.blocks.filter((b) => b.kind === 'probe').map((b) => ({ id: b.id, label: b.label ?? b.id, unit: probeUnit(b.params.unit) })),
     shownProbes: shown,
     actuators,
     metrics: metricsRows(diagram, run, actuators),
