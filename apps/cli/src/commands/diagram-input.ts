@@ -57,6 +57,27 @@ export function fmtRoots(roots: readonly Complex[]): string {
   return out.join(', ');
 }
 
+/** Words for a root found through a Padé approximant (see study PoleOrigin); nothing for an exact one. */
+const ORIGIN_MARK: Record<string, string> = { exact: '', approximated: ' [via Padé]', approximant: ' [Padé artefact]' };
+
+/** Roots as fmtRoots prints them, each marked by how it was found (origin[i] belongs to roots[i]). */
+export function fmtRootsMarked(roots: readonly Complex[], origin: readonly string[]): string {
+  if (roots.length === 0) return 'none';
+  const out: string[] = [];
+  roots.forEach((z, i) => {
+    if (z.im < 0 && roots.some((w) => w.im > 0 && Math.abs(w.re - z.re) <= 1e-12 * Math.max(1, Math.abs(z.re)) && Math.abs(w.im + z.im) <= 1e-12 * Math.max(1, Math.abs(z.im)))) return;
+    out.push(`${z.im === 0 ? num(z.re) : `${num(z.re)} ± ${num(Math.abs(z.im))}j`}${ORIGIN_MARK[origin[i]] ?? ''}`);
+  });
+  return out.join(', ');
+}
+
+/** A note on Padé marks when any root carries one. */
+export function padeLegend(origin: readonly string[]): string | null {
+  return origin.some((o) => o !== 'exact')
+    ? '[via Padé]: approximates a true root (stays put at a Padé order two higher); [Padé artefact]: belongs to the approximation of a dead time, not to the plant'
+    : null;
+}
+
 /** A rational function with dead time, highest power first, as the parser reads it back. */
 export function fmtTransfer(numAsc: readonly number[], denAsc: readonly number[], delay: number): string {
   const n = poly.format(numAsc);

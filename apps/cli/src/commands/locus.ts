@@ -2,7 +2,7 @@ import type { Complex, RootLocus } from '@loopwright/lti';
 import { expressionLocus, type PadeNote } from '@loopwright/study';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type CliIo, type Command } from '../io.ts';
-import { checkSets, fmtNumber, fmtRoots, fmtTransfer, readDiagram } from './diagram-input.ts';
+import { checkSets, fmtNumber, fmtRoots, fmtRootsMarked, fmtTransfer, padeLegend, readDiagram } from './diagram-input.ts';
 import { locusFromDiagram } from './locus-diagram.ts';
 import { loopFromArgs, withCaret } from './loop-input.ts';
 
@@ -67,6 +67,8 @@ type LocusSummary = {
   departures: { at: number[]; angleDeg: number }[];
   arrivals?: { at: number[]; angleDeg: number }[];
   branches: number[][][];
+  poleOrigin?: string[];
+  zeroOrigin?: string[];
 };
 
 const cplx = (p: number[]) => (p[1] === 0 ? fmtNumber(p[0]) : `${fmtNumber(p[0])} ${p[1] < 0 ? '-' : '+'} ${fmtNumber(Math.abs(p[1]))}j`);
@@ -74,8 +76,10 @@ const asRoots = (ps: number[][]): Complex[] => ps.map((p) => ({ re: p[0], im: p[
 
 function humanSummary(j: LocusSummary, head: string[]): string {
   const lines = [...head];
-  lines.push(`open-loop poles    ${fmtRoots(asRoots(j.poles))}`);
-  lines.push(`open-loop zeros    ${fmtRoots(asRoots(j.zeros))}`);
+  lines.push(`open-loop poles    ${j.poleOrigin ? fmtRootsMarked(asRoots(j.poles), j.poleOrigin) : fmtRoots(asRoots(j.poles))}`);
+  lines.push(`open-loop zeros    ${j.zeroOrigin ? fmtRootsMarked(asRoots(j.zeros), j.zeroOrigin) : fmtRoots(asRoots(j.zeros))}`);
+  const legend = padeLegend([...(j.poleOrigin ?? []), ...(j.zeroOrigin ?? [])]);
+  if (legend) lines.push(`                   ${legend}`);
   lines.push(
     `asymptotes         ${j.asymptotes.centroid === null ? 'none (every branch ends at a finite zero)' : `centroid ${fmtNumber(j.asymptotes.centroid)}, angles ${j.asymptotes.anglesDeg.map((a) => `${fmtNumber(a, 5)}°`).join(', ')}`}`,
   );
@@ -103,7 +107,7 @@ async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo): Promise<
   }
   const head = [`locus of every closed-loop pole as ${j.parameter} varies (${j.mode === 'exact' ? 'exact geometry' : 'sampled'}; now ${fmtNumber(j.value)})${j.negative ? ', negative direction' : ''}`];
   if (j.mode === 'sampled') head.push(`reason: ${j.reason}`, `range ${fmtNumber(j.range[0])} … ${fmtNumber(j.range[1])}`);
-  if (j.mode === 'exact' && j.fixedPoles.length) head.push(`fixed poles        ${fmtRoots(j.fixedPoles.map((p) => ({ re: p[0], im: p[1] })))} (closed-loop poles the sweep does not move)`);
+  if (j.mode === 'exact' && j.fixedPoles.length) head.push(`fixed poles        ${fmtRootsMarked(asRoots(j.fixedPoles), j.fixedOrigin)} (closed-loop poles the sweep does not move)`);
   io.stdout(humanSummary(j, head));
   return 0;
 }
