@@ -5,7 +5,7 @@
  * on request its Bode data and exact step response.
  */
 import { DEFAULT_PADE_ORDER, closedLoop, describeRef, type Diagram, type SignalRef } from '@loopwright/graph';
-import { InputError, exactStepResponse, type Complex } from '@loopwright/lti';
+import { InputError, exactStepResponse, rational, type Complex, type Rational } from '@loopwright/lti';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { bodeOf, transferData } from './transfer-data.ts';
@@ -54,6 +54,24 @@ function stepTimes(poles: readonly Complex[], delay: number): number[] {
   return Array.from({ length: 401 }, (_, i) => (end * i) / 400);
 }
 
+/**
+ * The exact step response with time scaled by ω0 (the geometric mean of the pole magnitudes):
+ * T(s) = T'(s/ω0) has coefficients near one, so its companion realisation stays well
+ * conditioned when the poles spread over decades (a fast current loop beside a slow position
+ * loop gives coefficients up to 1e24 otherwise, and a response that explodes); y(t) = y'(ω0·t).
+ */
+export function scaledStepResponse(r: Rational, time: readonly number[], delay: number): number[] {
+  const n = r.den.length - 1;
+  const lead = r.den[n];
+  const low = r.den.findIndex((c) => c !== 0);
+  const w0 = n > 0 && low < n && lead !== 0 ? Math.abs(r.den[low] / lead) ** (1 / (n - low)) : 1;
+  if (!(w0 > 0) || !Number.isFinite(w0) || Math.abs(Math.log10(w0)) < 0.5) return exactStepResponse(r, time, delay);
+  const scale = (c: readonly number[]) => c.map((v, k) => v * w0 ** k);
+  const shifted = time.map((t) => Math.max(0, t - delay) * w0);
+  const y = exactStepResponse(rational(scale(r.num), scale(r.den)), shifted);
+  return time.map((t, i) => (t < delay ? 0 : y[i]));
+}
+
 export function closedLoopStudy(d: Diagram, req: ClosedLoopRequest): ClosedLoopData {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
   assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
@@ -66,7 +84,7 @@ export function closedLoopStudy(d: Diagram, req: ClosedLoopRequest): ClosedLoopD
   let step: ClosedLoopData['step'] = null;
   if (req.step) {
     const time = stepTimes(r.poles, r.delay);
-    const value = exactStepResponse(r.tf.rational, time, r.delay);
+    const value = scaledStepResponse(r.tf.rational, time, r.delay);
     if (value.every(Number.isFinite)) step = { time, value };
   }
   return {

@@ -22,7 +22,7 @@ export {
 export { positionToValue, valueToPosition, widenedRange, editedRange } from './slider.ts';
 export { checkStudy, findingsOf, findingText, assertAnalysable, RefusedDiagram } from './validate.ts';
 export { locusStudy, type LocusRequest } from './locus.ts';
-export { polesStudy, stableFrom, padeOrigins, type PolesRequest } from './poles.ts';
+export { polesStudy, stableFrom, padeOrigins, originAt, type PolesRequest } from './poles.ts';
 export { chooseCut, cutStudy, frequencyOfLoop, type ChosenCut, type CutRequest } from './cuts.ts';
 export { loopsStudy, type LoopsRequest } from './loops.ts';
 export { parseSignalRef, closedLoopStudy, type ClosedLoopRequest } from './closed-loop.ts';

@@ -9,7 +9,7 @@ import { DEFAULT_PADE_ORDER, type Diagram } from '@loopwright/graph';
 import { MAX_PADE_ORDER, cabs, polyRoots, type Complex } from '@loopwright/lti';
 import { characteristicAt, without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
-import type { LiveValue, PoleOrigin, PolesData } from './types.ts';
+import type { Cx, LiveValue, PoleOrigin, PolesData } from './types.ts';
 import { assertAnalysable } from './validate.ts';
 
 export interface PolesRequest {
@@ -63,4 +63,18 @@ export function padeOrigins(roots: readonly Complex[], higher: readonly Complex[
 /** Origins of roots that involve no approximation unless `pade` (then compared with `higher()`, computed only then). */
 export function originsOf(roots: readonly Complex[], pade: boolean, higher: () => readonly Complex[]): PoleOrigin[] {
   return pade ? padeOrigins(roots, higher()) : roots.map((): PoleOrigin => 'exact');
+}
+
+/** The origin of the root nearest `at` (a departure angle's pole, an arrival angle's zero). */
+export function originAt(at: Cx, roots: readonly Cx[], origin: readonly PoleOrigin[]): PoleOrigin {
+  let best = -1;
+  let dist = Infinity;
+  roots.forEach((r, i) => {
+    const d = Math.hypot(r.re - at.re, r.im - at.im);
+    if (d < dist) {
+      dist = d;
+      best = i;
+    }
+  });
+  return best < 0 ? 'exact' : (origin[best] ?? 'exact');
 }

@@ -1,7 +1,7 @@
 /**
  * Unit tests of the editor's analysis layer that run without a browser: locus-plane geometry,
- * the worker's compute entry (it runs study requests and nothing else), the CSV and report
- * exports, the comparison table. The analyses themselves are tested in packages/study.
+ * the worker's compute entry (it runs study requests and nothing else), the CSV export, the
+ * comparison table. The analyses and the report are tested in packages/study. The analyses themselves are tested in packages/study.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
@@ -12,7 +12,6 @@ import { computeReply } from '../worker/compute.ts';
 import { channelStudies, type AnalysisInputs } from './driver.ts';
 import { resolveSweep } from './sweep.ts';
 import { responseCsv } from './export.ts';
-import { designReportHtml, SAFETY_CAUTION } from './report.ts';
 import { differences, dominantPole } from './compare.ts';
 import { takeSnapshot } from './snapshot.ts';
 import type { AnalysisResult } from './results-store.ts';
@@ -138,21 +137,12 @@ describe('exports', () => {
     expect(last[0]).toBe(response.run.time.at(-1));
     expect(last[1]).toBe(response.run.traces.y.at(-1));
   });
-  it('the report is one self-contained HTML file with the caution, the parameters, the loops and the charts', () => {
-    const html = designReportHtml({ diagram: d, sweepLabel: 'K', sweepValue: 4, analysis, loops, response, generatedAt: new Date(0) });
-    expect(html).toContain(SAFETY_CAUTION.slice(0, 40));
-    expect(html).toMatch(/functional-safety standards/);
-    expect(html).toContain('<td>K</td>');
-    expect(html).toMatch(/<h2>Loops<\/h2>/);
-    expect((html.match(/<svg/g) ?? []).length).toBeGreaterThanOrEqual(5);
-    expect(html).not.toMatch(/<script|(src|href)="https?:/); // self-contained (SVG namespaces are names, not fetches)
-  });
   it('the comparison lists what changed between a pinned and a current result', () => {
     const a2 = analysisAt(8);
     const l2 = { ok: true as const, value: runStudy(unityLoop(8), { kind: 'loops' }) as LoopsData };
-    const pinned = takeSnapshot('pinned', { K: 4 }, analysis, loops, null);
-    const now = takeSnapshot('now', { K: 8 }, a2, l2, null);
-    const rows = differences(pinned, now);
+    const pinned = takeSnapshot('pinned', { diagram: d, live: null }, { K: 4 }, analysis, loops, null);
+    const now = takeSnapshot('now', { diagram: unityLoop(8), live: null }, { K: 8 }, a2, l2, null);
+    const rows = differences(pinned, now, null);
     expect(rows.find((r) => r.item === 'K')).toMatchObject({ pinned: 4, current: 8 });
     const pm = rows.find((r) => r.quantity === 'phase margin [°]')!;
     expect(pm.current!).toBeLessThan(pm.pinned!); // more gain, less phase margin on 1/(s(s+2))

@@ -1,9 +1,12 @@
 /**
  * Differences between a pinned snapshot and the current results: tuned values, each loop's
- * margins, each probe's response metrics, and the dominant closed-loop pole.
+ * margins, each probe's response metrics, and the dominant closed-loop pole. Response figures
+ * are compared only between runs of one length and tolerances: the pinned design re-run under
+ * the current settings (never the run made when it was pinned, which may be of another length).
  */
 import type { AnalysisSnapshot } from './snapshot.ts';
-import type { Cx } from '@loopwright/study';
+import type { Cx, ResponseResult } from '@loopwright/study';
+import type { PinnedRun } from './results-store.ts';
 
 export interface DiffRow {
   group: 'value' | 'loop' | 'response' | 'poles';
@@ -40,7 +43,17 @@ const METRICS: [string, string][] = [
 
 const numOrNull = (v: unknown): number | null => (typeof v === 'number' ? v : null);
 
-export function differences(pinned: AnalysisSnapshot, now: AnalysisSnapshot): DiffRow[] {
+/**
+ * Why two runs cannot be compared (null when they can): a different end time or tolerances.
+ */
+export function runsDiffer(a: ResponseResult, b: ResponseResult): string | null {
+  if (a.settings.until !== b.settings.until) return `the runs end at ${a.settings.until} s and ${b.settings.until} s`;
+  if (a.settings.rtol !== b.settings.rtol || a.settings.atol !== b.settings.atol) return 'the runs use different tolerances';
+  return null;
+}
+
+/** `pinnedRun`: the pinned design re-run under the current settings (null: no response rows). */
+export function differences(pinned: AnalysisSnapshot, now: AnalysisSnapshot, pinnedRun: ResponseResult | null): DiffRow[] {
   const rows: DiffRow[] = [];
   const names = new Set([...Object.keys(pinned.values), ...Object.keys(now.values)]);
   for (const n of names) rows.push({ group: 'value', item: n, quantity: 'value', pinned: pinned.values[n] ?? null, current: now.values[n] ?? null });
@@ -59,10 +72,12 @@ export function differences(pinned: AnalysisSnapshot, now: AnalysisSnapshot): Di
       });
     }
   }
-  const probes = new Set([...(pinned.response?.metrics ?? []), ...(now.response?.metrics ?? [])].map((m) => m.probe));
+  const current = now.response;
+  const comparable = pinnedRun && current && runsDiffer(pinnedRun, current) === null ? pinnedRun : null;
+  const probes = new Set([...(comparable?.metrics ?? []), ...(comparable ? (current?.metrics ?? []) : [])].map((m) => m.probe));
   for (const p of probes) {
-    const a = pinned.response?.metrics.find((m) => m.probe === p);
-    const b = now.response?.metrics.find((m) => m.probe === p);
+    const a = comparable?.metrics.find((m) => m.probe === p);
+    const b = current?.metrics.find((m) => m.probe === p);
     for (const [f, q] of METRICS) {
       const pa = a ? numOrNull((a as unknown as Record<string, unknown>)[f]) : null;
       const pb = b ? numOrNull((b as unknown as Record<string, unknown>)[f]) : null;
@@ -77,4 +92,9 @@ export function differences(pinned: AnalysisSnapshot, now: AnalysisSnapshot): Di
     rows.push({ group: 'poles', item: 'dominant pole', quantity: '|Im s|', pinned: da ? Math.abs(da.im) : null, current: db ? Math.abs(db.im) : null });
   }
   return rows;
+}
+
+/** The pinned design's re-run when it can be compared with the current run (same length and tolerances), else null. */
+export function comparableRun(p: PinnedRun | null, current: ResponseResult | null): ResponseResult | null {
+  return p?.ok && current && runsDiffer(p.value, current) === null ? p.value : null;
 }

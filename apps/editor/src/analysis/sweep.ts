@@ -19,12 +19,5 @@ export {
   type SweepTarget,
 } from '@loopwright/study';
 
-/** Number formatting for readouts: 4 significant digits, exponent form outside 1e-3..1e5. */
-export function fmt(v: number | null | undefined, digits = 4): string {
-  if (v === null || v === undefined || Number.isNaN(v)) return '—';
-  if (v === Infinity) return '∞';
-  if (v === -Infinity) return '−∞';
-  const a = Math.abs(v);
-  if (a !== 0 && (a < 1e-3 || a >= 1e5)) return v.toExponential(digits - 1);
-  return String(Number(v.toPrecision(digits)));
-}
+/** Number formatting for readouts: 4 significant digits, exponent form outside 1e-3..1e5 (the study's, shared with the report). */
+export { formatNumber as fmt } from '@loopwright/study';

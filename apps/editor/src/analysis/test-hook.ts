@@ -47,8 +47,11 @@ export function installAnalysisHook(): void {
         loops: rs.loops?.ok ? rs.loops.value : null,
         computeMs: rs.computeMs,
         response: rs.response,
+        closedLoop: rs.closedLoop,
+        pinnedRun: rs.pinnedRun,
+        busy: rs.busy,
         errors: rs.errors,
-        pinned: ui.pinned ? { label: ui.pinned.label, values: ui.pinned.values } : null,
+        pinned: ui.pinned ? { label: ui.pinned.label, values: ui.pinned.values, until: ui.pinned.response?.settings.until ?? null } : null,
       });
     },
     chartOption: (name) => {

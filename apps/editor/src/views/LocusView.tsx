@@ -7,7 +7,8 @@ import { useEffect, useMemo, useState } from 'react';
 import { gainAtPoint, roundSignificant } from '@loopwright/lti';
 import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
-import { activePoints, dampingOf, keyPoints, nearestOnBranches, planeWindow, pointsNear, zoomAt, zoomWindow, type LocusHit, type PlaneZoom } from '../analysis/locus-geometry.ts';
+import { dampingOf, nearestOnBranches, planeWindow, zoomAt, zoomWindow, type LocusHit, type PlaneZoom } from '../analysis/locus-geometry.ts';
+import { ORIGIN_TEXT, formatComplex, locusFocus, originAt, type Cx, type PoleOrigin } from '@loopwright/study';
 import { fmt } from '../analysis/sweep.ts';
 import { locusBox, locusLivePatch, locusOption } from './locus-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
@@ -29,6 +30,63 @@ export function gainForHit(locus: LocusData, hit: LocusHit): number {
 
 /** One empty pole list, so that memo dependencies stay equal while no poles are in. */
 const NO_POLES: never[] = [];
+const NO_ORIGIN: PoleOrigin[] = [];
+
+/**
+ * The locus geometry and the closed-loop poles, listed under the chart: asymptotes,
+ * breakaways, axis crossings, departure and arrival angles (those at a Padé approximant's
+ * poles and zeros said so), and every closed-loop pole with ζ, ωn and how it was found.
+ */
+function LocusList({ locus, label, poles, origin }: { locus: LocusData | null; label: string; poles: Cx[]; origin: readonly PoleOrigin[] }) {
+  const pade = (o: PoleOrigin) => (o === 'approximant' ? ' (Padé artefact)' : '');
+  const rows: [string, string][] = [];
+  if (locus?.asymptotes) rows.push(['asymptotes', `centroid ${fmt(locus.asymptotes.centroid)}, angles ${locus.asymptotes.anglesDeg.map((a) => `${fmt(a)}°`).join(', ')}`]);
+  for (const b of locus?.breakaways ?? []) rows.push(['breakaway / break-in', `s = ${formatComplex(b.s.re, b.s.im)} at ${label} = ${fmt(b.gain)}`]);
+  for (const c of locus?.crossings ?? []) rows.push(['imaginary-axis crossing', `ω = ${fmt(c.omega)} rad/s at ${label} = ${fmt(c.gain)}`]);
+  for (const d of locus?.departures ?? []) rows.push(['departure angle', `${fmt(d.angleDeg)}° from ${formatComplex(d.at.re, d.at.im)}${pade(originAt(d.at, locus!.poles, locus!.poleOrigin))}`]);
+  for (const a of locus?.arrivals ?? []) rows.push(['arrival angle', `${fmt(a.angleDeg)}° at ${formatComplex(a.at.re, a.at.im)}${pade(originAt(a.at, locus!.zeros, locus!.zeroOrigin))}`]);
+  const shown = poles.map((p, i) => ({ p, o: origin[i] ?? 'exact' })).filter(({ p }) => p.im >= 0);
+  return (
+    <details className="lw-locus-list" data-testid="locus-list">
+      <summary>
+        Geometry and closed-loop poles ({rows.length} items, {shown.length} poles{shown.some((x) => x.o === 'approximant') ? ', some of a Padé approximant' : ''})
+      </summary>
+      <table className="lw-table lw-compact" data-testid="locus-geometry">
+        <tbody>
+          {rows.map(([k, v], i) => (
+            <tr key={i} data-kind={k}>
+              <td>{k}</td>
+              <td>{v}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <table className="lw-table lw-compact" data-testid="locus-poles">
+        <thead>
+          <tr>
+            <th>closed-loop pole</th>
+            <th>ζ</th>
+            <th>ωn [rad/s]</th>
+            <th>how it was found</th>
+          </tr>
+        </thead>
+        <tbody>
+          {shown.map(({ p, o }, i) => {
+            const z = dampingOf(p);
+            return (
+              <tr key={i} data-origin={o} className={o === 'approximant' ? 'lw-artefact' : undefined}>
+                <td>{p.im > 0 ? `${fmt(p.re)} ± j${fmt(p.im)}` : fmt(p.re)}</td>
+                <td>{fmt(z.zeta, 3)}</td>
+                <td>{fmt(z.omegaN)}</td>
+                <td>{ORIGIN_TEXT[o]}</td>
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+    </details>
+  );
+}
 
 export function LocusView({ pal }: { pal: Palette }) {
   const analysis = useResultsStore((s) => s.analysis);
@@ -38,29 +96,37 @@ export function LocusView({ pal }: { pal: Palette }) {
   const damping = useAnalysisStore((s) => s.showDampingGuides);
   const freq = useAnalysisStore((s) => s.showFrequencyGuides);
   const setOptions = useAnalysisStore((s) => s.setOptions);
-  const { choice, range } = useSweepChoice();
+  const { choices, choice, range } = useSweepChoice();
   const [size, setSize] = useState({ width: 480, height: 300 });
   const [hover, setHover] = useState<LocusHit | null>(null);
   const [zoom, setZoom] = useState<PlaneZoom | null>(null);
 
-  const locus = analysis?.locus?.ok ? analysis.locus.value : null;
-  const current = analysis?.poles.ok ? analysis.poles.value.poles : NO_POLES;
+  const held = analysis?.locus?.ok ? analysis.locus.value : null;
+  // Right after the sweep is switched the locus held is still the old quantity's: it is not
+  // drawn (nor hovered, nor clicked) under the new one's name until its own locus arrives.
+  const stale = held !== null && choice !== null && held.target !== choice.key;
+  const locus = stale ? null : held;
+  const polesData = analysis?.poles.ok ? analysis.poles.value : null;
+  const current = polesData?.poles ?? NO_POLES;
+  const origin = polesData?.origin ?? NO_ORIGIN;
+  // The name of the quantity the locus held belongs to (its own, not the sweep bar's).
+  const locusLabel = locus ? (choices.find((c) => c.key === locus.target)?.label ?? locus.parameter) : (choice?.label ?? '—');
   const box = locusBox(size.width, size.height);
   // The window frames the part of the locus the slider range moves (and the poles, zeros and
   // special points near it), not the moving poles themselves, so it stays put while sliding.
   const fitted = useMemo(() => {
     const all = [...(locus?.branches ?? []), ...(locus?.oppositeBranches ?? [])];
-    const lo = range ? range.min : -Infinity;
-    const hi = range ? range.max : Infinity;
-    const active = locus ? activePoints(locus.rangeBranches ?? all, lo, hi) : [];
-    const key = active.length > 0 ? [...active, ...pointsNear(keyPoints(locus, []), active)] : keyPoints(locus, current);
-    return planeWindow(box, key, active.length > 0 ? [] : all);
+    const focus = locusFocus(locus, current, range);
+    return planeWindow(box, focus.points, focus.framesBranches ? all : []);
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [locus, locus ? null : current, box.width, box.height, range?.min, range?.max]);
   const win = useMemo(() => zoomWindow(fitted, zoom), [fitted, zoom]);
   // A different locus (another diagram or sweep) starts fitted again.
   const locusIdentity = locus ? `${locus.parameter}|${JSON.stringify(locus.poles)}|${JSON.stringify(locus.zeros)}` : '';
-  useEffect(() => setZoom(null), [locusIdentity]);
+  useEffect(() => {
+    setZoom(null);
+    setHover(null);
+  }, [locusIdentity]);
   const option = useMemo(
     () =>
       locusOption({
@@ -71,12 +137,12 @@ export function LocusView({ pal }: { pal: Palette }) {
         pal,
         dampingGuides: damping,
         frequencyGuides: freq,
-        parameterLabel: choice?.label ?? '—',
+        parameterLabel: locusLabel,
         hover: null,
       }),
-    [locus, pinned, win, pal, damping, freq, choice?.label],
+    [locus, pinned, win, pal, damping, freq, locusLabel],
   );
-  const patch = useMemo(() => locusLivePatch(current, hover ? { s: hover.s } : null), [current, hover]);
+  const patch = useMemo(() => locusLivePatch(current, hover ? { s: hover.s } : null, origin), [current, hover, origin]);
 
   const hitAt = (x: number, y: number): LocusHit | null => {
     if (!locus) return null;
@@ -90,6 +156,8 @@ export function LocusView({ pal }: { pal: Palette }) {
 
   const message = !choice
     ? 'Nothing to sweep yet.'
+    : stale
+      ? `Computing the locus of ${choice.label}…`
     : analysis?.locus && !analysis.locus.ok
       ? `Locus: ${analysis.locus.error}`
       : analysis && !analysis.poles.ok
@@ -103,7 +171,7 @@ export function LocusView({ pal }: { pal: Palette }) {
     return (
       <div className="lw-readout" data-testid="locus-readout">
         <div>
-          {choice?.label ?? 'k'} = <b>{fmt(k)}</b>
+          {locusLabel} = <b>{fmt(k)}</b>
           {hover.negative ? ` (${locus.direction === 'negative' ? 'positive' : 'negative'} locus)` : ''}
         </div>
         <div>s = {fmtS(hover.s.re, hover.s.im)}</div>
@@ -116,14 +184,22 @@ export function LocusView({ pal }: { pal: Palette }) {
   })() : null;
 
   return (
+    <div className="lw-locus-col">
     <ChartFrame
       name="locus"
-      title={`Locus — ${choice?.label ?? 'no sweep'}`}
+      title={`Locus — ${locus ? locusLabel : (choice?.label ?? 'no sweep')}`}
       background={pal.background}
       option={option}
       patch={patch}
       onSize={setSize}
-      extra={locus ? <span className="lw-tag" title={locus.mode === 'exact' ? 'characteristic equation affine in the swept value: exact root locus' : 'sampled parameter locus'}>{locus.mode}</span> : undefined}
+      extra={
+        locus ? (
+          <span className="lw-tag" data-testid="locus-mode" title={`${locus.mode === 'exact' ? 'characteristic equation affine in the swept value: exact root-locus geometry' : `sampled parameter locus: ${locus.reason ?? ''}`}${locus.delayHandling.mode === 'pade' ? ` — ${locus.delayHandling.note}; poles marked hollow belong to the approximation` : ''}`}>
+            {locus.mode}
+            {locus.delayHandling.mode === 'pade' ? ' · Padé' : ''}
+          </span>
+        ) : undefined
+      }
       overlay={
         <>
           {hoverInfo}
@@ -162,5 +238,7 @@ export function LocusView({ pal }: { pal: Palette }) {
         commitSweepValue(choice, roundSignificant(k, 4)); // the gain picked on a branch, to 4 significant digits
       }}
     />
+    <LocusList locus={locus} label={locusLabel} poles={current} origin={origin} />
+    </div>
   );
 }

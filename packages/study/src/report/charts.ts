@@ -7,6 +7,7 @@
 import type { ClosedLoopData, Cx, FrequencyData, LocusData, OuterIdealData, PoleOrigin, PolesData, ResponseResult } from '../types.ts';
 import { responsePanels } from '../run.ts';
 import { locusFocus } from '../locus-frame.ts';
+import { originAt } from '../poles.ts';
 import { fmt } from './format.ts';
 import { linearRange, plotBox, plotSvg, type PlotArrow, type PlotPanel, type PlotSeries } from './svg-plot.ts';
 
@@ -54,20 +55,6 @@ export function planeWindow(points: readonly Cx[], box: { width: number; height:
 function ray(x0: number, angleDeg: number, reach: number): { x: number[]; y: number[] } {
   const a = (angleDeg * Math.PI) / 180;
   return { x: [x0, x0 + reach * Math.cos(a)], y: [0, reach * Math.sin(a)] };
-}
-
-/** The origin of the root nearest `at` (a departure angle's pole, an arrival angle's zero). */
-export function originAt(at: Cx, roots: readonly Cx[], origin: readonly PoleOrigin[]): PoleOrigin {
-  let best = -1;
-  let dist = Infinity;
-  roots.forEach((r, i) => {
-    const d = Math.hypot(r.re - at.re, r.im - at.im);
-    if (d < dist) {
-      dist = d;
-      best = i;
-    }
-  });
-  return best < 0 ? 'exact' : (origin[best] ?? 'exact');
 }
 
 const approximant = (origin: readonly PoleOrigin[] | undefined, i: number) => origin?.[i] === 'approximant';

@@ -9,7 +9,8 @@
 import type { Diagram } from '@loopwright/graph';
 import type { CheckData, Cx, LocusData, LoopRow, LoopsData, MarginsData, Part, PoleOrigin, PolesData, ResponseResult } from '../types.ts';
 import { findingText } from '../validate.ts';
-import { bodeChart, locusChart, originAt, nyquistChart, outerIdealChart, responseChart, sensitivityChart } from './charts.ts';
+import { originAt } from '../poles.ts';
+import { bodeChart, locusChart, nyquistChart, outerIdealChart, responseChart, sensitivityChart } from './charts.ts';
 import { diagramSvg } from './diagram-svg.ts';
 import { dampingOf, fmt, fmtS } from './format.ts';
 import { esc } from './svg-plot.ts';
