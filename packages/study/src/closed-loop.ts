@@ -27,11 +27,14 @@ export function parseSignalRef(d: Diagram, text: string, what: string): SignalRe
   }
   const isBlock = d.blocks.some((b) => b.id === text);
   const isWire = d.wires.some((w) => w.id === text);
-  if (isBlock && isWire) throw new InputError(`${what} ${text}: both a block and a wire have this id; write block:${text} or wire:${text}`, { field: what });
+  if (isBlock && isWire)
+    throw new InputError(`${what} ${text}: both a block and a wire have this id; write block:${text} or wire:${text}`, { field: what });
   if (isBlock) return { block: text };
   if (isWire) return { wire: text };
   const hint = d.blocks.filter((b) => b.kind === 'source' || b.kind === 'probe').map((b) => b.id);
-  throw new InputError(`${what} ${text}: no block or wire with this id${hint.length ? ` (sources and probes: ${hint.join(', ')})` : ''}`, { field: what });
+  throw new InputError(`${what} ${text}: no block or wire with this id${hint.length ? ` (sources and probes: ${hint.join(', ')})` : ''}`, {
+    field: what,
+  });
 }
 
 export interface ClosedLoopRequest {

@@ -63,7 +63,11 @@ export function pointsNear(points: readonly Cx[], focus: readonly Cx[], factor =
  * nothing moves (or there is no range), every key point with the current poles. `framesBranches`
  * says whether the whole branches should be framed too (nothing moves).
  */
-export function locusFocus(locus: LocusData | null, current: readonly Cx[], range: SweepRange | null): { points: Cx[]; framesBranches: boolean } {
+export function locusFocus(
+  locus: LocusData | null,
+  current: readonly Cx[],
+  range: SweepRange | null,
+): { points: Cx[]; framesBranches: boolean } {
   const all = [...(locus?.branches ?? []), ...(locus?.oppositeBranches ?? [])];
   const active = locus ? activePoints(locus.rangeBranches ?? all, range ? range.min : -Infinity, range ? range.max : Infinity) : [];
   if (active.length > 0) return { points: [...active, ...pointsNear(keyPoints(locus, []), active)], framesBranches: false };

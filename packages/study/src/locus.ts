@@ -36,7 +36,8 @@ export interface LocusRequest {
 
 const loci = registerCache(new Lru<LocusData>(12));
 const plain = (c: Complex) => ({ re: c.re, im: c.im });
-const branchesOf = (br: LocusPoint[][]): LocusBranch[] => br.map((b) => ({ re: b.map((p) => p.s.re), im: b.map((p) => p.s.im), k: b.map((p) => p.k) }));
+const branchesOf = (br: LocusPoint[][]): LocusBranch[] =>
+  br.map((b) => ({ re: b.map((p) => p.s.re), im: b.map((p) => p.s.im), k: b.map((p) => p.k) }));
 const angles = (xs: { at: Complex; angleDeg: number; multiplicity: number }[]): LocusAngleData[] =>
   xs.map((a) => ({ at: plain(a.at), angleDeg: a.angleDeg, multiplicity: a.multiplicity }));
 
@@ -47,16 +48,28 @@ export function locusStudy(d: Diagram, req: LocusRequest): LocusData {
   const value = req.value ?? documentValue(d, req.target);
   const range = req.range ?? targetRange(d, req.target);
   if (!(range.max > range.min)) throw new InputError(`sweep range: max ${range.max} must be above min ${range.min}`, { field: 'range' });
-  const direction = req.direction === 'positive' || req.direction === 'negative' ? req.direction : value < 0 || (value === 0 && range.max <= 0) ? 'negative' : 'positive';
+  const direction =
+    req.direction === 'positive' || req.direction === 'negative'
+      ? req.direction
+      : value < 0 || (value === 0 && range.max <= 0)
+        ? 'negative'
+        : 'positive';
   const overrides = without(req.overrides ?? {}, name);
   assertAnalysable(ed, overrides);
   const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
   const key = JSON.stringify([engineText(ed), name, overrides, range, direction, req.opposite === true, padeOrder, req.samples ?? null]);
-  return cached(loci, key, () => compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples));
+  return cached(loci, key, () =>
+    compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples),
+  );
 }
 
 /** Roots of D0 and N0 (common factors apart, as graph's sweepLocus removes them) at another Padé order. */
-function higherOrderRoots(d: Diagram, name: string, overrides: Record<string, number>, padeOrder: number): { poles: Complex[]; zeros: Complex[]; fixed: Complex[] } | null {
+function higherOrderRoots(
+  d: Diagram,
+  name: string,
+  overrides: Record<string, number>,
+  padeOrder: number,
+): { poles: Complex[]; zeros: Complex[]; fixed: Complex[] } | null {
   const s = splitOf(d, name, overrides, padeOrder);
   if (!s) return null;
   const c = cancelCommon(rational(s.n0, s.d0), 1e-7);
@@ -75,7 +88,10 @@ function compute(
   samples: number | undefined,
 ): LocusData {
   // The sweep range travels in the diagram (graph's sampled locus reads it from there).
-  const ranged: Diagram = { ...ed, sweeps: [{ id: '~study-range', parameter: name, ...range }, ...ed.sweeps.filter((s) => s.parameter !== name)] };
+  const ranged: Diagram = {
+    ...ed,
+    sweeps: [{ id: '~study-range', parameter: name, ...range }, ...ed.sweeps.filter((s) => s.parameter !== name)],
+  };
   const sw = sweepLocus(ranged, name, overrides, { negative: direction === 'negative', padeOrder, ...(samples ? { samples } : {}) });
   if (sw.mode === 'sampled') {
     const first = sw.branches.filter((b) => b[0].k === sw.values[0]).map((b) => plain(b[0].s));
@@ -90,7 +106,9 @@ function compute(
       poles: first,
       zeros: [],
       fixedPoles: [],
-      poleOrigin: originsOf(first, sw.delayHandling.mode === 'pade', () => polyRoots(characteristicAt(ed, { ...overrides, [name]: sw.values[0] }, comparisonOrder(padeOrder)).poly)),
+      poleOrigin: originsOf(first, sw.delayHandling.mode === 'pade', () =>
+        polyRoots(characteristicAt(ed, { ...overrides, [name]: sw.values[0] }, comparisonOrder(padeOrder)).poly),
+      ),
       zeroOrigin: [],
       fixedOrigin: [],
       asymptotes: null,
@@ -113,7 +131,8 @@ function compute(
   const higher = pade ? higherOrderRoots(ed, name, overrides, comparisonOrder(padeOrder)) : null;
   // The slider's part again, densely: for hit-testing, framing and the current-pole track.
   // A range through zero is traced on both sides of it.
-  const part = (negative: boolean, lo: number, hi: number) => (hi > lo ? branchesOf(rootLocus(L.num, L.den, { negative, kMin: lo, kMax: hi, samples: 240 }).branches) : []);
+  const part = (negative: boolean, lo: number, hi: number) =>
+    hi > lo ? branchesOf(rootLocus(L.num, L.den, { negative, kMin: lo, kMax: hi, samples: 240 }).branches) : [];
   const rangeBranches =
     range.min >= 0
       ? part(false, range.min, range.max)

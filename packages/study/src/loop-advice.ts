@@ -48,10 +48,15 @@ export function loopAdvice(margins: MarginsData, rhp: number, alone: LoopReading
       act,
     );
   } else {
-    parts.push(`${unstable}${act}`, `With ${opened} closed (${reading(margins)}, Ms ${n3(margins.peakSensitivity)}) it shows the margin left at this point in operation.`);
+    parts.push(
+      `${unstable}${act}`,
+      `With ${opened} closed (${reading(margins)}, Ms ${n3(margins.peakSensitivity)}) it shows the margin left at this point in operation.`,
+    );
   }
   if (alone.openLoopRhpPoles > 0) {
-    parts.push(`Even inner-first L has ${poles(alone.openLoopRhpPoles)} (an unstable plant or controller): there too, read stability from the closed-loop poles and Ms, not from the sign of the phase margin.`);
+    parts.push(
+      `Even inner-first L has ${poles(alone.openLoopRhpPoles)} (an unstable plant or controller): there too, read stability from the closed-loop poles and Ms, not from the sign of the phase margin.`,
+    );
   }
   return { actOn: 'inner-first', text: parts.join(' ') };
 }

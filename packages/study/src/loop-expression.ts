@@ -3,7 +3,18 @@
  * `loopwright locus --loop`): margins with the dead time exact, and the root locus of
  * 1 + k·L(s) = 0 with a dead time replaced by a Padé approximant (the only place poles need it).
  */
-import { InputError, loopMargins, padeDelay, parseTransferFunction, poly, polyRoots, rootLocus, type LoopMargins, type RootLocus, type TransferFunction } from '@loopwright/lti';
+import {
+  InputError,
+  loopMargins,
+  padeDelay,
+  parseTransferFunction,
+  poly,
+  polyRoots,
+  rootLocus,
+  type LoopMargins,
+  type RootLocus,
+  type TransferFunction,
+} from '@loopwright/lti';
 import { comparisonOrder, originsOf } from './poles.ts';
 import type { PoleOrigin } from './types.ts';
 
@@ -19,7 +30,10 @@ export function loopOfExpression(e: ExpressionLoop): TransferFunction {
   return parseTransferFunction(e.text, e.params ?? {});
 }
 
-export function expressionMargins(e: ExpressionLoop, opts: { padeOrder?: number } = {}): { loop: TransferFunction; margins: LoopMargins; poleOrigin: PoleOrigin[] } {
+export function expressionMargins(
+  e: ExpressionLoop,
+  opts: { padeOrder?: number } = {},
+): { loop: TransferFunction; margins: LoopMargins; poleOrigin: PoleOrigin[] } {
   const loop = loopOfExpression(e);
   const margins = loopMargins(loop, opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {});
   // With a dead time the closed-loop poles are those of 1 + L with a Padé approximant: each is

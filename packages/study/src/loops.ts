@@ -41,7 +41,12 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
     const margins = marginFigures(c.margins);
     const openLoopRhpPoles = rhpPoleCount(c.loop);
     const alone: LoopReading | null = c.alone.opened.length
-      ? { loop: transferData(c.alone.loop), margins: marginFigures(c.alone.margins), openLoopRhpPoles: rhpPoleCount(c.alone.loop), opened: ids(c.alone.opened) }
+      ? {
+          loop: transferData(c.alone.loop),
+          margins: marginFigures(c.alone.margins),
+          openLoopRhpPoles: rhpPoleCount(c.alone.loop),
+          opened: ids(c.alone.opened),
+        }
       : null;
     return {
       cutId: c.cut,
@@ -55,9 +60,16 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
       openLoopRhpPoles,
       delayHandling: c.delayHandling,
       hiddenModes: c.hiddenModes.map(plain),
-      frequency: req.frequency ? frequencyOfLoop({ id: c.cut, wire: c.wire, label: names[c.cut] }, c.loop, c.margins, c.delayHandling) : null,
+      frequency: req.frequency
+        ? frequencyOfLoop({ id: c.cut, wire: c.wire, label: names[c.cut] }, c.loop, c.margins, c.delayHandling)
+        : null,
       alone,
-      advice: loopAdvice(margins, openLoopRhpPoles, alone, (alone?.opened ?? []).map((id) => names[id] ?? id)),
+      advice: loopAdvice(
+        margins,
+        openLoopRhpPoles,
+        alone,
+        (alone?.opened ?? []).map((id) => names[id] ?? id),
+      ),
     };
   });
   const byCut = new Map<string, CutAnalysis>(rep.cuts.map((c) => [c.cut, c]));

@@ -40,7 +40,10 @@ export function polesStudy(d: Diagram, req: PolesRequest = {}): PolesData {
   const swept = req.live ? engineParameterName(req.live.target) : undefined;
   const main = characteristicAt(diagram, overrides, order, swept);
   const poles = polyRoots(main.poly);
-  const origin = main.handling.mode === 'pade' ? padeOrigins(poles, polyRoots(characteristicAt(diagram, overrides, comparisonOrder(order), swept).poly)) : poles.map((): PoleOrigin => 'exact');
+  const origin =
+    main.handling.mode === 'pade'
+      ? padeOrigins(poles, polyRoots(characteristicAt(diagram, overrides, comparisonOrder(order), swept).poly))
+      : poles.map((): PoleOrigin => 'exact');
   return { poles: poles.map(plain), origin, delayHandling: main.handling, stable: stableFrom(poles) };
 }
 

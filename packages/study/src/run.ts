@@ -96,7 +96,8 @@ export function runSettings(d: Diagram, req: RunRequest = {}, overrides: Record<
     until = automaticEnd(d, overrides);
     untilFrom = 'automatic';
   }
-  if (!(until > 0) || !Number.isFinite(until)) throw new InputError(`simulation end time: ${until} must be a finite number of seconds above 0`, { field: 'until' });
+  if (!(until > 0) || !Number.isFinite(until))
+    throw new InputError(`simulation end time: ${until} must be a finite number of seconds above 0`, { field: 'until' });
   return {
     until,
     untilFrom,
@@ -116,7 +117,11 @@ export function shownProbes(d: Diagram, asked?: string[] | 'all'): string[] {
   const all = d.blocks.filter((b) => b.kind === 'probe').map((b) => b.id);
   if (asked === 'all') return all;
   if (asked) {
-    for (const id of asked) if (!all.includes(id)) throw new InputError(`probe "${id}" is not a probe block of the diagram (probes: ${all.join(', ') || 'none'})`, { field: 'probes' });
+    for (const id of asked)
+      if (!all.includes(id))
+        throw new InputError(`probe "${id}" is not a probe block of the diagram (probes: ${all.join(', ') || 'none'})`, {
+          field: 'probes',
+        });
     return all.filter((id) => asked.includes(id));
   }
   const want = d.simulation?.probes;
@@ -154,7 +159,10 @@ const probeUnit = (u: unknown): string | null => (typeof u === 'string' && u.tri
  * share a panel and its axis, in the order of their first probe; a probe without a unit has a
  * panel of its own. `shown`: the probe ids shown, in order.
  */
-export function responsePanels(probes: readonly { id: string; label: string; unit: string | null }[], shown: readonly string[]): { unit: string | null; probes: string[] }[] {
+export function responsePanels(
+  probes: readonly { id: string; label: string; unit: string | null }[],
+  shown: readonly string[],
+): { unit: string | null; probes: string[] }[] {
   const out: { unit: string | null; probes: string[] }[] = [];
   for (const id of shown) {
     const p = probes.find((x) => x.id === id);
@@ -189,7 +197,8 @@ function traceOf(r: SimResult): RunTrace {
       : null;
   }
   const actuatorFigures: RunTrace['actuatorFigures'] = {};
-  for (const [id, a] of Object.entries(r.actuators)) actuatorFigures[id] = { timeInSaturation: a.timeInSaturation, peakEffort: a.peakEffort, limitHits: a.limitHits };
+  for (const [id, a] of Object.entries(r.actuators))
+    actuatorFigures[id] = { timeInSaturation: a.timeInSaturation, peakEffort: a.peakEffort, limitHits: a.limitHits };
   return {
     time: r.time,
     traces: r.traces,
@@ -261,7 +270,13 @@ export function responseStudy(d: Diagram, req: RunRequest = {}, ctx: RunContext 
     atol: settings.atol,
     outputStep: settings.outputStep,
     // The run's own budget, shortened to what the caller's deadline leaves (half each when an overlay follows).
-    maxWallMs: Math.max(1, Math.min(req.maxWallMs ?? DEFAULT_RUN_MS, ctx.deadline !== undefined ? (ctx.deadline - clock()) / (req.linearOverlay ? 2 : 1) : Infinity)),
+    maxWallMs: Math.max(
+      1,
+      Math.min(
+        req.maxWallMs ?? DEFAULT_RUN_MS,
+        ctx.deadline !== undefined ? (ctx.deadline - clock()) / (req.linearOverlay ? 2 : 1) : Infinity,
+      ),
+    ),
     ...(settings.maxSteps !== null ? { maxSteps: settings.maxSteps } : {}),
     isCancelled: ctx.isCancelled,
   };
@@ -275,7 +290,9 @@ export function responseStudy(d: Diagram, req: RunRequest = {}, ctx: RunContext 
     run,
     model: linearOnly ? 'linear' : 'as-drawn',
     linear,
-    probes: diagram.blocks.filter((b) => b.kind === 'probe').map((b) => ({ id: b.id, label: b.label ?? b.id, unit: probeUnit(b.params.unit) })),
+    probes: diagram.blocks
+      .filter((b) => b.kind === 'probe')
+      .map((b) => ({ id: b.id, label: b.label ?? b.id, unit: probeUnit(b.params.unit) })),
     shownProbes: shown,
     actuators,
     metrics: metricsRows(diagram, run, actuators),

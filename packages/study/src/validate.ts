@@ -21,7 +21,9 @@ const checks = registerCache(new Lru<Finding[]>(16));
  * simulator's verdict on algebraic loops (see simulationVerdict). Cached per diagram and overrides.
  */
 export function findingsOf(d: Diagram, overrides: Record<string, number> = {}): Finding[] {
-  return cached(checks, `${fingerprintText(d)}|${JSON.stringify(overrides)}`, () => simulationVerdict(d, overrides, checkDiagram(d, overrides)));
+  return cached(checks, `${fingerprintText(d)}|${JSON.stringify(overrides)}`, () =>
+    simulationVerdict(d, overrides, checkDiagram(d, overrides)),
+  );
 }
 
 /**
@@ -43,7 +45,10 @@ function simulationVerdict(d: Diagram, overrides: Record<string, number>, findin
   if (refusal === null) return findings;
   return findings.map((f) =>
     loops.includes(f)
-      ? { ...f, message: `${f.message.replace(/; the signals are found by solving it$/, '')}. The linear analyses solve it, but the time simulation cannot run it: ${refusal}` }
+      ? {
+          ...f,
+          message: `${f.message.replace(/; the signals are found by solving it$/, '')}. The linear analyses solve it, but the time simulation cannot run it: ${refusal}`,
+        }
       : f,
   );
 }
@@ -68,7 +73,9 @@ export class RefusedDiagram extends InputError {
     readonly errors: number,
   ) {
     const more = errors > 1 ? ` (and ${errors - 1} more error${errors > 2 ? 's' : ''} in the findings)` : '';
-    const at = finding.field ?? (finding.blocks?.length ? `blocks.${finding.blocks[0]}` : finding.wires?.length ? `wires.${finding.wires[0]}` : undefined);
+    const at =
+      finding.field ??
+      (finding.blocks?.length ? `blocks.${finding.blocks[0]}` : finding.wires?.length ? `wires.${finding.wires[0]}` : undefined);
     super(`${findingText(finding)}${more}`, at ? { field: at } : {});
   }
 }

@@ -13,7 +13,10 @@ export async function readDiagramText(io: CliIo, path: string): Promise<string> 
     return await io.readFile(path);
   } catch (err) {
     const code = (err as { code?: string }).code;
-    throw new UsageError(`cannot read ${path}${code === 'ENOENT' ? ': no such file' : `: ${err instanceof Error ? err.message : String(err)}`}`, path);
+    throw new UsageError(
+      `cannot read ${path}${code === 'ENOENT' ? ': no such file' : `: ${err instanceof Error ? err.message : String(err)}`}`,
+      path,
+    );
   }
 }
 
@@ -51,7 +54,16 @@ export function fmtRoots(roots: readonly Complex[]): string {
   if (roots.length === 0) return 'none';
   const out: string[] = [];
   for (const z of roots) {
-    if (z.im < 0 && roots.some((w) => w.im > 0 && Math.abs(w.re - z.re) <= 1e-12 * Math.max(1, Math.abs(z.re)) && Math.abs(w.im + z.im) <= 1e-12 * Math.max(1, Math.abs(z.im)))) continue;
+    if (
+      z.im < 0 &&
+      roots.some(
+        (w) =>
+          w.im > 0 &&
+          Math.abs(w.re - z.re) <= 1e-12 * Math.max(1, Math.abs(z.re)) &&
+          Math.abs(w.im + z.im) <= 1e-12 * Math.max(1, Math.abs(z.im)),
+      )
+    )
+      continue;
     out.push(z.im === 0 ? num(z.re) : `${num(z.re)} ± ${num(Math.abs(z.im))}j`);
   }
   return out.join(', ');
@@ -65,7 +77,16 @@ export function fmtRootsMarked(roots: readonly Complex[], origin: readonly strin
   if (roots.length === 0) return 'none';
   const out: string[] = [];
   roots.forEach((z, i) => {
-    if (z.im < 0 && roots.some((w) => w.im > 0 && Math.abs(w.re - z.re) <= 1e-12 * Math.max(1, Math.abs(z.re)) && Math.abs(w.im + z.im) <= 1e-12 * Math.max(1, Math.abs(z.im)))) return;
+    if (
+      z.im < 0 &&
+      roots.some(
+        (w) =>
+          w.im > 0 &&
+          Math.abs(w.re - z.re) <= 1e-12 * Math.max(1, Math.abs(z.re)) &&
+          Math.abs(w.im + z.im) <= 1e-12 * Math.max(1, Math.abs(z.im)),
+      )
+    )
+      return;
     out.push(`${z.im === 0 ? num(z.re) : `${num(z.re)} ± ${num(Math.abs(z.im))}j`}${ORIGIN_MARK[origin[i]] ?? ''}`);
   });
   return out.join(', ');
@@ -91,7 +112,10 @@ export function checkSets(d: Diagram, sets: Record<string, number>): void {
   const known = new Set(d.parameters.map((p) => p.name));
   for (const name of Object.keys(sets)) {
     if (!known.has(name)) {
-      throw new UsageError(`--set ${name}: the diagram has no named parameter "${name}" (known: ${[...known].join(', ') || 'none'})`, '--set');
+      throw new UsageError(
+        `--set ${name}: the diagram has no named parameter "${name}" (known: ${[...known].join(', ') || 'none'})`,
+        '--set',
+      );
     }
   }
 }

@@ -95,24 +95,37 @@ export const loopsCommand: Command = {
     const out: string[] = [];
     // One name per loop (the cut's label, else its id), as the editor and the report show it.
     const name = (id: string) => rep.names[id] ?? id;
-    out.push(`closed loop: ${rep.stable ? 'stable' : 'NOT stable'}; poles ${fmtRootsMarked(rep.closedLoopPoles, rep.closedLoopPoleOrigin)}`);
+    out.push(
+      `closed loop: ${rep.stable ? 'stable' : 'NOT stable'}; poles ${fmtRootsMarked(rep.closedLoopPoles, rep.closedLoopPoleOrigin)}`,
+    );
     const legend = padeLegend(rep.closedLoopPoleOrigin);
     if (legend) out.push(`  ${legend}`);
     for (const n of rep.notes) out.push(`note: ${n}`);
     for (const c of rep.rows) {
       out.push('', `${c.label}: cut ${c.cutId} on wire ${c.wire}${c.auto ? ' [proposed]' : ''}`);
       out.push(`  L(s) = ${text(c.loop)}`);
-      out.push(`  every other loop closed: ${row(c.margins, c.openLoopRhpPoles)}${c.advice.actOn === 'all-closed' ? '   <- act on this' : ''}`);
-      if (c.alone) out.push(`  tuned inner-first (opened ${c.alone.opened.map(name).join(', ')}): ${row(c.alone.margins, c.alone.openLoopRhpPoles)}   <- act on this`);
+      out.push(
+        `  every other loop closed: ${row(c.margins, c.openLoopRhpPoles)}${c.advice.actOn === 'all-closed' ? '   <- act on this' : ''}`,
+      );
+      if (c.alone)
+        out.push(
+          `  tuned inner-first (opened ${c.alone.opened.map(name).join(', ')}): ${row(c.alone.margins, c.alone.openLoopRhpPoles)}   <- act on this`,
+        );
       out.push(`  ${c.advice.text}`);
       if (c.delayHandling.mode === 'pade') out.push(`  ${c.delayHandling.note}`);
     }
     if (rep.separations.length) {
       out.push('', 'separation (inner/outer, loops as tuned inner-first):');
-      for (const s of rep.separations) out.push(`  ${name(s.inner)} in ${name(s.outer)}: ${s.ratio === null ? '—' : `${fmtNumber(s.ratio, 3)}×`} ${s.flag ? '[LOW] ' : ''}${s.note}`);
+      for (const s of rep.separations)
+        out.push(
+          `  ${name(s.inner)} in ${name(s.outer)}: ${s.ratio === null ? '—' : `${fmtNumber(s.ratio, 3)}×`} ${s.flag ? '[LOW] ' : ''}${s.note}`,
+        );
     }
     for (const o of rep.outerVsIdeal) {
-      out.push('', `outer loop ${name(o.outer)} with inner loop ${name(o.inner)}${o.opened.length ? ` (opened ${o.opened.map(name).join(', ')})` : ''}:`);
+      out.push(
+        '',
+        `outer loop ${name(o.outer)} with inner loop ${name(o.inner)}${o.opened.length ? ` (opened ${o.opened.map(name).join(', ')})` : ''}:`,
+      );
       out.push(`  real inner loop : ${row(o.realMargins)}`);
       out.push(`  ideal inner loop: ${row(o.idealMargins)}`);
     }

@@ -51,7 +51,11 @@ export const marginsCommand: Command = {
     if (a.positional.length) throw new UsageError(`margins: unexpected argument "${a.positional[0]}" (the loop goes in --loop "...")`);
     const padeOrder = numberFlag(a, 'pade-order');
     const loop = loopFromArgs(a, 'margins');
-    const { loop: tf, margins: m, poleOrigin } = withCaret(loop, () => expressionMargins(loop, padeOrder !== undefined ? { padeOrder } : {}));
+    const {
+      loop: tf,
+      margins: m,
+      poleOrigin,
+    } = withCaret(loop, () => expressionMargins(loop, padeOrder !== undefined ? { padeOrder } : {}));
     if (has(a, 'json')) {
       io.stdout(toJson(marginsJson(m, poleOrigin)));
       return 0;
@@ -62,7 +66,9 @@ export const marginsCommand: Command = {
       `gain margin        ${m.gainMargin === null ? 'infinite (no phase crossover with |L| < 1)' : `${fmtNumber(m.gainMargin)} (${fmtNumber(m.gainMarginDb!, 4)} dB) at ${fmtNumber(m.phaseCrossover!)} rad/s`}`,
     ];
     if (m.lowerGainMargin !== null) {
-      lines.push(`lower gain margin  ${fmtNumber(m.lowerGainMargin)} (${fmtNumber(m.lowerGainMarginDb!, 4)} dB) at ${fmtNumber(m.lowerPhaseCrossover!)} rad/s`);
+      lines.push(
+        `lower gain margin  ${fmtNumber(m.lowerGainMargin)} (${fmtNumber(m.lowerGainMarginDb!, 4)} dB) at ${fmtNumber(m.lowerPhaseCrossover!)} rad/s`,
+      );
     }
     lines.push(
       `phase margin       ${m.phaseMarginDeg === null ? 'none (|L| never crosses 1)' : `${fmtNumber(m.phaseMarginDeg, 5)}° at ${fmtNumber(m.gainCrossover!)} rad/s`}`,
@@ -75,9 +81,13 @@ export const marginsCommand: Command = {
       ...(padeLegend(poleOrigin) ? [`                   ${padeLegend(poleOrigin)}`] : []),
       '',
       `gain crossovers (${m.gainCrossoverDetails.length}):`,
-      ...m.gainCrossoverDetails.map((c) => `  ω = ${fmtNumber(c.omega)} rad/s   PM = ${fmtNumber(c.phaseMarginDeg, 5)}°   delay margin ${fmtNumber(c.delayMargin)} s`),
+      ...m.gainCrossoverDetails.map(
+        (c) => `  ω = ${fmtNumber(c.omega)} rad/s   PM = ${fmtNumber(c.phaseMarginDeg, 5)}°   delay margin ${fmtNumber(c.delayMargin)} s`,
+      ),
       `phase crossovers (${m.phaseCrossoverDetails.length}):`,
-      ...m.phaseCrossoverDetails.slice(0, 12).map((c) => `  ω = ${fmtNumber(c.omega)} rad/s   gain factor to -1: ${fmtNumber(c.gainFactor)}`),
+      ...m.phaseCrossoverDetails
+        .slice(0, 12)
+        .map((c) => `  ω = ${fmtNumber(c.omega)} rad/s   gain factor to -1: ${fmtNumber(c.gainFactor)}`),
     );
     if (m.phaseCrossoverDetails.length > 12) lines.push(`  … ${m.phaseCrossoverDetails.length - 12} more (--json lists all)`);
     if (!m.closedLoopStable) lines.push('', 'The closed loop is not stable: the margins above do not describe a working loop.');

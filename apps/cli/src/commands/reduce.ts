@@ -3,7 +3,17 @@ import { poly } from '@loopwright/lti';
 import { runStudy } from '@loopwright/study';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
-import { checkSets, fmtNumber, fmtRoots, fmtRootsMarked, fmtTransfer, jsonForm, padeLegend, readDiagram, signalRef } from './diagram-input.ts';
+import {
+  checkSets,
+  fmtNumber,
+  fmtRoots,
+  fmtRootsMarked,
+  fmtTransfer,
+  jsonForm,
+  padeLegend,
+  readDiagram,
+  signalRef,
+} from './diagram-input.ts';
 
 const help = `loopwright reduce FILE --from A --to B [--set NAME=VALUE ...] [--pade-order N] [--bode] [--step] [--json]
 
@@ -39,7 +49,15 @@ export const reduceCommand: Command = {
     checkSets(d, sets);
     const from = signalRef(d, fromText, 'from');
     const to = signalRef(d, toText, 'to');
-    const r = runStudy(d, { kind: 'closed-loop', from, to, overrides: sets, bode: has(a, 'bode'), step: has(a, 'step'), ...(padeOrder !== undefined ? { padeOrder } : {}) });
+    const r = runStudy(d, {
+      kind: 'closed-loop',
+      from,
+      to,
+      overrides: sets,
+      bode: has(a, 'bode'),
+      step: has(a, 'step'),
+      ...(padeOrder !== undefined ? { padeOrder } : {}),
+    });
     const { num: numA, den: denA, delay } = r.transfer;
     const text = fmtTransfer(numA, denA, delay);
     if (has(a, 'json')) {

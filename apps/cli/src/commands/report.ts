@@ -1,4 +1,4 @@
-import { parseTargetKey, runStudy } from '@loopwright/study';
+import { checkTarget, parseTargetKey, runStudy, targetKey } from '@loopwright/study';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, WriteError, type Command } from '../io.ts';
 import { checkSets, readDiagram } from './diagram-input.ts';
@@ -35,7 +35,8 @@ export const reportCommand: Command = {
     if (a.positional.length !== 1) throw new UsageError('report: give exactly one diagram FILE (see --help)');
     const out = one(a, 'out');
     if (!out) throw new UsageError('report: --out PATH is needed (where to write the HTML; "-" for standard output)', '--out');
-    if (out === '-' && has(a, 'json')) throw new UsageError('report: --out - writes the HTML to standard output; it cannot carry --json too', '--json');
+    if (out === '-' && has(a, 'json'))
+      throw new UsageError('report: --out - writes the HTML to standard output; it cannot carry --json too', '--json');
     const sets = parseAssignments(all(a, 'set'), 'set');
     const padeOrder = numberFlag(a, 'pade-order');
     const sweep = one(a, 'sweep');
@@ -45,7 +46,8 @@ export const reportCommand: Command = {
     if (sweep !== undefined) {
       const target = parseTargetKey(sweep);
       if (!target) throw new UsageError(`--sweep ${sweep}: expected a parameter name or block:ID.k`, '--sweep');
-      key = target.kind === 'parameter' ? `param:${target.name}` : `block:${target.block}.k`;
+      checkTarget(d, target);
+      key = targetKey(target);
     }
     const r = runStudy(d, {
       kind: 'report',
@@ -65,7 +67,10 @@ export const reportCommand: Command = {
     }
     for (const p of r.problems) io.stderr(`loopwright report: not in the report: ${p}\n`);
     if (has(a, 'json')) io.stdout(toJson({ out, title: r.title, fingerprint: r.fingerprint, bytes: r.html.length, problems: r.problems }));
-    else if (out !== '-') io.stdout(`report of "${r.title}" written to ${out} (${Math.round(r.html.length / 1024)} kB${r.problems.length ? `; ${r.problems.length} part(s) could not be computed, see the report` : ''})\n`);
+    else if (out !== '-')
+      io.stdout(
+        `report of "${r.title}" written to ${out} (${Math.round(r.html.length / 1024)} kB${r.problems.length ? `; ${r.problems.length} part(s) could not be computed, see the report` : ''})\n`,
+      );
     return 0;
   },
 };

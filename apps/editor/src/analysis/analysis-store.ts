@@ -35,7 +35,11 @@ export interface AnalysisUiState {
   setSweepKey(key: string | null): void;
   setLiveValue(v: number | null): void;
   setRange(key: string, r: SweepRange): void;
-  setOptions(patch: Partial<Pick<AnalysisUiState, 'negativeLocus' | 'showDampingGuides' | 'showFrequencyGuides' | 'cutId' | 'closedLoopFrom' | 'closedLoopTo'>>): void;
+  setOptions(
+    patch: Partial<
+      Pick<AnalysisUiState, 'negativeLocus' | 'showDampingGuides' | 'showFrequencyGuides' | 'cutId' | 'closedLoopFrom' | 'closedLoopTo'>
+    >,
+  ): void;
   pin(s: AnalysisSnapshot | null): void;
   setNeedAll(delta: number): void;
 }

@@ -7,12 +7,22 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { demoDiagrams } from '@loopwright/graph';
 import { runStudy, type FrequencyData, type LoopsData, type PolesData, type ResponseResult } from '@loopwright/study';
-import { dampingOf, nearestOnBranches, planeWindow, toPixel, fromPixel, niceStep, activePoints, zoomWindow, zoomAt } from './locus-geometry.ts';
+import {
+  dampingOf,
+  nearestOnBranches,
+  planeWindow,
+  toPixel,
+  fromPixel,
+  niceStep,
+  activePoints,
+  zoomWindow,
+  zoomAt,
+} from './locus-geometry.ts';
 import { computeReply } from '../worker/compute.ts';
-import { channelStudies, type AnalysisInputs } from './driver.ts';
+import { channelStudies, closedLoopPoints, pinnedRunStudy, refOf, type AnalysisInputs } from './driver.ts';
 import { resolveSweep } from './sweep.ts';
 import { responseCsv } from './export.ts';
-import { differences, dominantPole } from './compare.ts';
+import { comparableRun, differences, dominantPole, runsDiffer } from './compare.ts';
 import { takeSnapshot } from './snapshot.ts';
 import type { AnalysisResult } from './results-store.ts';
 // Test-only builders of the study package (not its public API).
@@ -37,20 +47,26 @@ describe('locus plane geometry', () => {
   const box = { left: 50, top: 20, width: 400, height: 300 };
   it('the window has equal units per pixel on both axes and holds the key points', () => {
     fc.assert(
-      fc.property(fc.array(fc.record({ re: fc.double({ min: -50, max: 5, noNaN: true }), im: fc.double({ min: -30, max: 30, noNaN: true }) }), { minLength: 1, maxLength: 8 }), (pts) => {
-        const w = planeWindow(box, pts, []);
-        expect((w.xMax - w.xMin) / box.width).toBeCloseTo((w.yMax - w.yMin) / box.height, 9);
-        for (const p of pts) {
-          expect(p.re).toBeGreaterThanOrEqual(w.xMin);
-          expect(p.re).toBeLessThanOrEqual(w.xMax);
-          expect(Math.abs(p.im)).toBeLessThanOrEqual(w.yMax);
-        }
-        const q = pts[0];
-        const [x, y] = toPixel(w, box, q);
-        const back = fromPixel(w, box, x, y);
-        expect(back.re).toBeCloseTo(q.re, 9);
-        expect(back.im).toBeCloseTo(q.im, 9);
-      }),
+      fc.property(
+        fc.array(fc.record({ re: fc.double({ min: -50, max: 5, noNaN: true }), im: fc.double({ min: -30, max: 30, noNaN: true }) }), {
+          minLength: 1,
+          maxLength: 8,
+        }),
+        (pts) => {
+          const w = planeWindow(box, pts, []);
+          expect((w.xMax - w.xMin) / box.width).toBeCloseTo((w.yMax - w.yMin) / box.height, 9);
+          for (const p of pts) {
+            expect(p.re).toBeGreaterThanOrEqual(w.xMin);
+            expect(p.re).toBeLessThanOrEqual(w.xMax);
+            expect(Math.abs(p.im)).toBeLessThanOrEqual(w.yMax);
+          }
+          const q = pts[0];
+          const [x, y] = toPixel(w, box, q);
+          const back = fromPixel(w, box, x, y);
+          expect(back.re).toBeCloseTo(q.re, 9);
+          expect(back.im).toBeCloseTo(q.im, 9);
+        },
+      ),
       { numRuns: 100 },
     );
   });
@@ -65,7 +81,14 @@ describe('locus plane geometry', () => {
   });
   it('the hit on a branch is the pointer projected onto the nearest segment', () => {
     const branches = [{ re: [-4, -2, 0], im: [0, 0, 0], k: [0, 1, 2] }];
-    const w = planeWindow(box, [{ re: -4, im: 0 }, { re: 0, im: 0 }], []);
+    const w = planeWindow(
+      box,
+      [
+        { re: -4, im: 0 },
+        { re: 0, im: 0 },
+      ],
+      [],
+    );
     const [x, y] = toPixel(w, box, { re: -3, im: 0 });
     const hit = nearestOnBranches(branches, w, box, x, y - 4, 10)!;
     expect(hit.s.re).toBeCloseTo(-3, 9);
@@ -112,7 +135,7 @@ describe('the worker compute entry', () => {
     for (const demo of demoDiagrams) {
       const d = demo.diagram;
       const sweep = resolveSweep(d, { key: null, liveValue: null });
-      const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null };
+      const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null, closedLoop: null };
       const studies = channelStudies(inp, { frequency: true, opposite: true });
       for (const [channel, reqs] of Object.entries(studies)) {
         if (channel === 'response') continue; // simulated in the agreement test
@@ -147,5 +170,47 @@ describe('exports', () => {
     const pm = rows.find((r) => r.quantity === 'phase margin [°]')!;
     expect(pm.current!).toBeLessThan(pm.pinned!); // more gain, less phase margin on 1/(s(s+2))
     expect(dominantPole(now.poles)!.re).toBeCloseTo(-1, 8); // s² + 2s + 8: −1 ± j√7
+  });
+});
+
+describe('Compare re-runs the pinned design under the current settings', () => {
+  const d = unityLoop(4);
+  const at = (end: number) => runStudy({ ...d, simulation: { end } }, { kind: 'run' }) as ResponseResult;
+  it("the pinned design is re-run with the current run's end time and tolerances (whatever decided them), with its own diagram and held value", () => {
+    const pinnedDiagram = unityLoop(2);
+    const snap = takeSnapshot('p', { diagram: pinnedDiagram, live: { target: K, value: 2 } }, { K: 2 }, null, null, at(0.15));
+    const current = at(0.4);
+    const r = pinnedRunStudy(snap, current);
+    expect(r.diagram).toBe(pinnedDiagram);
+    expect(r.study).toMatchObject({
+      kind: 'run',
+      live: { target: K, value: 2 },
+      until: 0.4,
+      rtol: current.settings.rtol,
+      atol: current.settings.atol,
+    });
+    const rerun = runStudy(r.diagram, r.study) as ResponseResult;
+    expect(runsDiffer(rerun, current)).toBeNull();
+    expect(comparableRun({ ok: true, value: rerun }, current)).toBe(rerun);
+  });
+  it('runs of different lengths are never compared: the response rows are left out and the reason given', () => {
+    const a = at(0.15);
+    const b = at(0.4);
+    expect(runsDiffer(a, b)).toBe('the runs end at 0.15 s and 0.4 s');
+    expect(comparableRun({ ok: true, value: a }, b)).toBeNull();
+    const snap = takeSnapshot('p', { diagram: d, live: null }, { K: 4 }, null, null, a);
+    const now = takeSnapshot('n', { diagram: d, live: null }, { K: 4 }, null, null, b);
+    expect(differences(snap, now, a).filter((r) => r.group === 'response')).toEqual([]);
+    expect(differences(snap, now, at(0.4)).filter((r) => r.group === 'response').length).toBeGreaterThan(0);
+  });
+});
+
+describe("the Closed loop view's points", () => {
+  it('the ones picked while they exist, else the first source and the first probe', () => {
+    const d = unityLoop(4);
+    expect(closedLoopPoints(d, null, null)).toEqual({ from: { block: 'r' }, to: { block: 'y' } });
+    expect(closedLoopPoints(d, 'wire:w2', 'block:g')).toEqual({ from: { wire: 'w2' }, to: { block: 'g' } });
+    expect(closedLoopPoints(d, 'wire:gone', 'block:nope')).toEqual({ from: { block: 'r' }, to: { block: 'y' } });
+    expect(refOf(d, 'nonsense')).toBeNull();
   });
 });

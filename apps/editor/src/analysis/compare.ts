@@ -56,7 +56,8 @@ export function runsDiffer(a: ResponseResult, b: ResponseResult): string | null 
 export function differences(pinned: AnalysisSnapshot, now: AnalysisSnapshot, pinnedRun: ResponseResult | null): DiffRow[] {
   const rows: DiffRow[] = [];
   const names = new Set([...Object.keys(pinned.values), ...Object.keys(now.values)]);
-  for (const n of names) rows.push({ group: 'value', item: n, quantity: 'value', pinned: pinned.values[n] ?? null, current: now.values[n] ?? null });
+  for (const n of names)
+    rows.push({ group: 'value', item: n, quantity: 'value', pinned: pinned.values[n] ?? null, current: now.values[n] ?? null });
   const cuts = new Set([...(pinned.loops?.rows ?? []), ...(now.loops?.rows ?? [])].map((r) => r.cutId));
   for (const c of cuts) {
     const a = pinned.loops?.rows.find((r) => r.cutId === c);
@@ -89,7 +90,13 @@ export function differences(pinned: AnalysisSnapshot, now: AnalysisSnapshot, pin
   const db = dominantPole(now.poles);
   if (da || db) {
     rows.push({ group: 'poles', item: 'dominant pole', quantity: 'Re s', pinned: da?.re ?? null, current: db?.re ?? null });
-    rows.push({ group: 'poles', item: 'dominant pole', quantity: '|Im s|', pinned: da ? Math.abs(da.im) : null, current: db ? Math.abs(db.im) : null });
+    rows.push({
+      group: 'poles',
+      item: 'dominant pole',
+      quantity: '|Im s|',
+      pinned: da ? Math.abs(da.im) : null,
+      current: db ? Math.abs(db.im) : null,
+    });
   }
   return rows;
 }

@@ -69,11 +69,15 @@ export function currentInputs(): AnalysisInputs {
 }
 
 /** The study requests of each channel for the views that need them. */
-export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; opposite: boolean; closedLoop?: boolean }): Record<Exclude<ViewChannel, 'pinned'>, StudyRequest[]> {
+export function channelStudies(
+  inp: AnalysisInputs,
+  opts: { frequency: boolean; opposite: boolean; closedLoop?: boolean },
+): Record<Exclude<ViewChannel, 'pinned'>, StudyRequest[]> {
   const { live } = inp;
   const { choice, range, value } = inp.sweep;
   const analysis: StudyRequest[] = [];
-  if (choice && range && Number.isFinite(value)) analysis.push({ kind: 'locus', target: choice.target, value, range, opposite: opts.opposite });
+  if (choice && range && Number.isFinite(value))
+    analysis.push({ kind: 'locus', target: choice.target, value, range, opposite: opts.opposite });
   analysis.push({ kind: 'poles', live });
   if (opts.frequency) analysis.push({ kind: 'cut', cut: inp.cutId, live, fallback: true });
   return {
@@ -82,7 +86,10 @@ export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; 
     loops: [{ kind: 'loops', live }],
     // A live preview: 5 s of wall time at most (a run that needs more says so).
     response: [{ kind: 'run', live, linearOverlay: true, maxWallMs: 5000 }],
-    'closed-loop': opts.closedLoop && inp.closedLoop ? [{ kind: 'closed-loop', from: inp.closedLoop.from, to: inp.closedLoop.to, live, bode: true, step: true }] : [],
+    'closed-loop':
+      opts.closedLoop && inp.closedLoop
+        ? [{ kind: 'closed-loop', from: inp.closedLoop.from, to: inp.closedLoop.to, live, bode: true, step: true }]
+        : [],
   };
 }
 
@@ -93,13 +100,21 @@ export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; 
 export function pinnedRunStudy(pinned: AnalysisSnapshot, current: ResponseResult): { diagram: Diagram; study: StudyRequest } {
   return {
     diagram: pinned.diagram,
-    study: { kind: 'run', live: pinned.live, until: current.settings.until, rtol: current.settings.rtol, atol: current.settings.atol, maxWallMs: 5000 },
+    study: {
+      kind: 'run',
+      live: pinned.live,
+      until: current.settings.until,
+      rtol: current.settings.rtol,
+      atol: current.settings.atol,
+      maxWallMs: 5000,
+    },
   };
 }
 
 /** Identity of a locus: its defining polynomials (exact) or its sampled points' ends. */
 function locusSignature(l: LocusData): string {
-  const ends = (bs: LocusData['branches'] | null) => (bs ?? []).map((b) => [b.re.length, b.re[0], b.im[0], b.re[b.re.length - 1], b.im[b.im.length - 1]]);
+  const ends = (bs: LocusData['branches'] | null) =>
+    (bs ?? []).map((b) => [b.re.length, b.re[0], b.im[0], b.re[b.re.length - 1], b.im[b.im.length - 1]]);
   return JSON.stringify([l.mode, l.target, l.direction, l.n0, l.d0, ends(l.branches), ends(l.rangeBranches), ends(l.oppositeBranches)]);
 }
 
@@ -109,7 +124,8 @@ function analysisOf(studies: StudyRequest[], results: Part<StudyResult>[], elaps
     const i = studies.findIndex((s) => s.kind === kind);
     return i < 0 ? null : results[i];
   };
-  const unwrap = <T>(p: Part<StudyResult> | null): Part<T> | null => (p === null ? null : p.ok ? { ok: true, value: p.value.value as T } : p);
+  const unwrap = <T>(p: Part<StudyResult> | null): Part<T> | null =>
+    p === null ? null : p.ok ? { ok: true, value: p.value.value as T } : p;
   const locus = unwrap<LocusData>(byKind('locus'));
   const poles = unwrap<PolesData>(byKind('poles'))!;
   const cut = unwrap<FrequencyData | null>(byKind('cut'));
@@ -121,7 +137,10 @@ function analysisOf(studies: StudyRequest[], results: Part<StudyResult>[], elaps
 let client: EngineClient | null = null;
 
 function makeWorker(): WorkerLike {
-  return new Worker(new URL('../worker/engine.worker.ts', import.meta.url), { type: 'module', name: 'loopwright-engine' }) as unknown as WorkerLike;
+  return new Worker(new URL('../worker/engine.worker.ts', import.meta.url), {
+    type: 'module',
+    name: 'loopwright-engine',
+  }) as unknown as WorkerLike;
 }
 
 /** The shared engine client (one worker per channel, created on first use). */
@@ -175,14 +194,19 @@ export function startAnalysisDriver(): () => void {
   const engine = engineClient();
   const sentKey = Object.fromEntries(CHANNELS.map((c) => [c, ''])) as Record<ViewChannel, string>;
   const genOf = Object.fromEntries(CHANNELS.map((c) => [c, new Map<number, number>()])) as Record<ViewChannel, Map<number, number>>;
-  const studiesOf = Object.fromEntries(CHANNELS.map((c) => [c, new Map<number, StudyRequest[]>()])) as Record<ViewChannel, Map<number, StudyRequest[]>>;
+  const studiesOf = Object.fromEntries(CHANNELS.map((c) => [c, new Map<number, StudyRequest[]>()])) as Record<
+    ViewChannel,
+    Map<number, StudyRequest[]>
+  >;
 
   const offProgress = engine.onProgress((p) => {
     const s = useResultsStore.getState();
     const busy = s.busy[p.channel];
     if (!busy) return;
     const { part, parts, fraction, kind } = p.progress;
-    useResultsStore.setState({ busy: { ...s.busy, [p.channel]: { ...busy, kind, fraction: (part + (fraction ?? 0)) / Math.max(1, parts) } } });
+    useResultsStore.setState({
+      busy: { ...s.busy, [p.channel]: { ...busy, kind, fraction: (part + (fraction ?? 0)) / Math.max(1, parts) } },
+    });
   });
 
   const off = engine.onReply((reply: EngineReply) => {
@@ -247,13 +271,24 @@ export function startAnalysisDriver(): () => void {
       // The pinned design, re-run once the current run's settings are known.
       pinned: ui.pinned !== null && rs0.response !== null,
     };
-    const studies = channelStudies(inp, { frequency: all || ui.view === 'frequency', opposite: ui.negativeLocus, closedLoop: needed['closed-loop'] });
+    const studies = channelStudies(inp, {
+      frequency: all || ui.view === 'frequency',
+      opposite: ui.negativeLocus,
+      closedLoop: needed['closed-loop'],
+    });
     // What each channel's results depend on: findings on everything; a run on the simulation
     // settings but not on which probes are shown; the analyses on neither.
     const d = inp.diagram;
     const run = { ...(d.simulation ?? {}), probes: undefined };
     const pinned = ui.pinned && rs0.response ? pinnedRunStudy(ui.pinned, rs0.response) : null;
-    const diagrams: Record<ViewChannel, Diagram> = { check: d, analysis: d, loops: d, response: d, 'closed-loop': d, pinned: pinned?.diagram ?? d };
+    const diagrams: Record<ViewChannel, Diagram> = {
+      check: d,
+      analysis: d,
+      loops: d,
+      response: d,
+      'closed-loop': d,
+      pinned: pinned?.diagram ?? d,
+    };
     const requests: Record<ViewChannel, StudyRequest[]> = { ...studies, pinned: pinned ? [pinned.study] : [] };
     const base: Record<ViewChannel, string> = {
       check: fingerprintText(d),
@@ -359,6 +394,12 @@ export async function withAllResults<T>(fn: () => T, timeoutMs = 20_000): Promis
   }
 }
 
+/** The report request for what the views show: the sweep in force, its held value and range. */
+export function reportRequest(inp: AnalysisInputs, generatedAt: string): StudyRequest {
+  const { choice, range } = inp.sweep;
+  return { kind: 'report', sweep: choice?.key ?? null, live: inp.live, range: range ?? null, generatedAt };
+}
+
 /**
  * The design report of the current inputs (sweep, live value, range), computed in the worker
  * by the study's report — the same code `loopwright report` runs. Rejects with the reason when
@@ -367,8 +408,7 @@ export async function withAllResults<T>(fn: () => T, timeoutMs = 20_000): Promis
 export function requestReport(): Promise<ReportData> {
   const engine = engineClient();
   const inp = currentInputs();
-  const { choice, range } = inp.sweep;
-  const study: StudyRequest = { kind: 'report', sweep: choice?.key ?? null, live: inp.live, range: range ?? null, generatedAt: new Date().toISOString() };
+  const study = reportRequest(inp, new Date().toISOString());
   return new Promise<ReportData>((resolve, reject) => {
     const id = engine.send({ channel: 'report', diagram: inp.diagram, studies: [study] });
     markBusy('report', true);

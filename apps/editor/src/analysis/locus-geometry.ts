@@ -137,7 +137,6 @@ export function nearestOnBranches(
   return best;
 }
 
-
 /** Distance from s to the nearest of the poles, relative to |s| (or absolute near the origin). */
 export function relativeDistanceToNearest(s: Cx, poles: readonly Cx[]): number {
   let best = Infinity;
@@ -162,7 +161,15 @@ export function zoomWindow(win: PlaneWindow, z: PlaneZoom | null): PlaneWindow {
 }
 
 /** Zooms by `factor` keeping the plane point under the pointer fixed. */
-export function zoomAt(fitted: PlaneWindow, current: PlaneWindow, box: PlotBox, x: number, y: number, factor: number, z: PlaneZoom | null): PlaneZoom {
+export function zoomAt(
+  fitted: PlaneWindow,
+  current: PlaneWindow,
+  box: PlotBox,
+  x: number,
+  y: number,
+  factor: number,
+  z: PlaneZoom | null,
+): PlaneZoom {
   const at = fromPixel(current, box, x, y);
   const scale = Math.min(20, Math.max(1e-4, (z?.scale ?? 1) * factor));
   const cur = { re: (current.xMin + current.xMax) / 2, im: (current.yMin + current.yMax) / 2 };

@@ -36,7 +36,13 @@ export function installAnalysisHook(): void {
         complete: resultsComplete(rs) && rs.renderedGeneration === rs.generation,
         view: ui.view,
         sweep: inp.sweep.choice
-          ? { key: inp.sweep.choice.key, label: inp.sweep.choice.label, value: inp.sweep.value, live: ui.liveValue, parameter: engineParameterName(inp.sweep.choice.target) }
+          ? {
+              key: inp.sweep.choice.key,
+              label: inp.sweep.choice.label,
+              value: inp.sweep.value,
+              live: ui.liveValue,
+              parameter: engineParameterName(inp.sweep.choice.target),
+            }
           : null,
         poles: a?.poles.ok ? a.poles.value.poles : null,
         polesDetail: a?.poles.ok ? a.poles.value : null,

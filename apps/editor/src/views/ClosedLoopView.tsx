@@ -94,7 +94,11 @@ export function ClosedLoopView({ pal }: { pal: Palette }) {
     <>
       <label className="lw-field">
         <span>from</span>
-        <select aria-label="Closed loop from" value={points ? refText(points.from) : ''} onChange={(e) => setOptions({ closedLoopFrom: e.target.value })}>
+        <select
+          aria-label="Closed loop from"
+          value={points ? refText(points.from) : ''}
+          onChange={(e) => setOptions({ closedLoopFrom: e.target.value })}
+        >
           {fromOptions.map((o) => (
             <option key={o.value} value={o.value}>
               {o.label}
@@ -104,7 +108,11 @@ export function ClosedLoopView({ pal }: { pal: Palette }) {
       </label>
       <label className="lw-field">
         <span>to</span>
-        <select aria-label="Closed loop to" value={points ? refText(points.to) : ''} onChange={(e) => setOptions({ closedLoopTo: e.target.value })}>
+        <select
+          aria-label="Closed loop to"
+          value={points ? refText(points.to) : ''}
+          onChange={(e) => setOptions({ closedLoopTo: e.target.value })}
+        >
           {toOptions.map((o) => (
             <option key={o.value} value={o.value}>
               {o.label}
@@ -120,17 +128,36 @@ export function ClosedLoopView({ pal }: { pal: Palette }) {
     <div className="lw-view lw-closed-loop">
       <div className="lw-view-tools">
         {picker}
-        {current && <span className="lw-tag" title={current.delayHandling.note}>{current.delayHandling.mode === 'pade' ? `dead time as Padé (${current.delayHandling.order ?? ''},${current.delayHandling.order ?? ''})` : current.delayHandling.mode === 'exact' ? 'dead time exact' : 'no dead time'}</span>}
+        {current && (
+          <span className="lw-tag" title={current.delayHandling.note}>
+            {current.delayHandling.mode === 'pade'
+              ? `dead time as Padé (${current.delayHandling.order ?? ''},${current.delayHandling.order ?? ''})`
+              : current.delayHandling.mode === 'exact'
+                ? 'dead time exact'
+                : 'no dead time'}
+          </span>
+        )}
       </div>
       {!current && <div className={why ? 'lw-error' : 'lw-empty'}>{why ? `Closed loop: ${why}` : 'Computing…'}</div>}
       {current && (
         <>
           <div className="lw-tf" data-testid="closed-loop-tf">
-            T(s) from {describeRef(current.from)} to {describeRef(current.to)} = {transferText(current.transfer.num, current.transfer.den, current.transfer.delay)}
+            T(s) from {describeRef(current.from)} to {describeRef(current.to)} ={' '}
+            {transferText(current.transfer.num, current.transfer.den, current.transfer.delay)}
           </div>
           <div className="lw-note">
-            static gain T(0) = <b data-testid="closed-loop-static-gain" data-value={String(current.staticGain)}>{fmt(current.staticGain)}</b> · leading gain {fmt(current.gain)} · {current.delayHandling.note}
-            {current.hiddenModes.length > 0 && <> · cancelled (hidden) modes: {current.hiddenModes.map((p) => (p.im ? `${fmt(p.re)} ± j${fmt(Math.abs(p.im))}` : fmt(p.re))).join(', ')}</>}
+            static gain T(0) ={' '}
+            <b data-testid="closed-loop-static-gain" data-value={String(current.staticGain)}>
+              {fmt(current.staticGain)}
+            </b>{' '}
+            · leading gain {fmt(current.gain)} · {current.delayHandling.note}
+            {current.hiddenModes.length > 0 && (
+              <>
+                {' '}
+                · cancelled (hidden) modes:{' '}
+                {current.hiddenModes.map((p) => (p.im ? `${fmt(p.re)} ± j${fmt(Math.abs(p.im))}` : fmt(p.re))).join(', ')}
+              </>
+            )}
           </div>
           <div className="lw-grid-2 lw-short">
             {step && <ChartFrame name="closed-loop-step" title="Step response" background={pal.background} option={step} />}

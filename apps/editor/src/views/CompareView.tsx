@@ -23,7 +23,14 @@ import type { Palette } from './palette.ts';
 export function currentSnapshot(label: string): AnalysisSnapshot {
   const inp = currentInputs();
   const rs = useResultsStore.getState();
-  return takeSnapshot(label, { diagram: inp.diagram, live: inp.live }, tunedValues(inp.diagram, inp.live), rs.analysis, rs.loops, rs.response);
+  return takeSnapshot(
+    label,
+    { diagram: inp.diagram, live: inp.live },
+    tunedValues(inp.diagram, inp.live),
+    rs.analysis,
+    rs.loops,
+    rs.response,
+  );
 }
 
 export function pinCurrent(): Promise<void> {
@@ -46,7 +53,9 @@ export function CompareView({ pal }: { pal: Palette }) {
   const rows = useMemo(() => {
     if (!pinned) return [];
     const all = differences(pinned, now, comparableRun(pinnedRun, response));
-    const changed = (r: (typeof all)[number]) => r.pinned !== r.current && !(r.pinned !== null && r.current !== null && Math.abs(r.current - r.pinned) <= 1e-12 * Math.max(1, Math.abs(r.pinned)));
+    const changed = (r: (typeof all)[number]) =>
+      r.pinned !== r.current &&
+      !(r.pinned !== null && r.current !== null && Math.abs(r.current - r.pinned) <= 1e-12 * Math.max(1, Math.abs(r.pinned)));
     return [...all.filter(changed), ...all.filter((r) => !changed(r))];
   }, [pinned, now, pinnedRun, response]);
   const resp = useMemo(() => {
@@ -56,7 +65,10 @@ export function CompareView({ pal }: { pal: Palette }) {
   }, [response, pinnedRun, pal]);
   const runNote = pinned ? pinnedRunNote(pinnedRun, response) : null;
   const f = analysis?.frequency?.ok ? analysis.frequency.value : null;
-  const bode = useMemo(() => (f ? bodeOption(f, pinned?.frequency && pinned.frequency.cutId === f.cutId ? pinned.frequency : null, pal) : null), [f, pinned, pal]);
+  const bode = useMemo(
+    () => (f ? bodeOption(f, pinned?.frequency && pinned.frequency.cutId === f.cutId ? pinned.frequency : null, pal) : null),
+    [f, pinned, pal],
+  );
 
   return (
     <div className="lw-view lw-compare">
@@ -67,7 +79,11 @@ export function CompareView({ pal }: { pal: Palette }) {
         <button type="button" disabled={!pinned} onClick={() => useAnalysisStore.getState().pin(null)}>
           Unpin
         </button>
-        <span className="lw-muted">{pinned ? `${pinned.label} — change parameters to compare; pinned traces are dotted in every view` : 'Pin the current results, then change parameters to compare.'}</span>
+        <span className="lw-muted">
+          {pinned
+            ? `${pinned.label} — change parameters to compare; pinned traces are dotted in every view`
+            : 'Pin the current results, then change parameters to compare.'}
+        </span>
       </div>
       {pinned && (
         <>
@@ -96,7 +112,9 @@ export function CompareView({ pal }: { pal: Palette }) {
                     <td>{r.quantity}</td>
                     <td>{fmt(r.pinned)}</td>
                     <td>{fmt(r.current)}</td>
-                    <td>{d === null ? (r.pinned === r.current ? '' : 'n/a') : changed ? `${d > 0 ? '+' : '−'}${fmt(Math.abs(d))}` : '='}</td>
+                    <td>
+                      {d === null ? (r.pinned === r.current ? '' : 'n/a') : changed ? `${d > 0 ? '+' : '−'}${fmt(Math.abs(d))}` : '='}
+                    </td>
                   </tr>
                 );
               })}
@@ -116,8 +134,12 @@ export function CompareView({ pal }: { pal: Palette }) {
 function pinnedRunNote(p: PinnedRun | null, current: ResponseResult | null): { ok: boolean; text: string } | null {
   if (!current) return null;
   if (!p) return { ok: true, text: 'Re-running the pinned design under the current simulation settings…' };
-  if (!p.ok) return { ok: false, text: `Response not compared: the pinned design cannot be re-run under the current settings (${p.error}).` };
+  if (!p.ok)
+    return { ok: false, text: `Response not compared: the pinned design cannot be re-run under the current settings (${p.error}).` };
   const why = runsDiffer(p.value, current);
   if (why) return { ok: false, text: `Response not compared: ${why}.` };
-  return { ok: true, text: `Response: the pinned design re-run under the current settings (${fmt(current.settings.until)} s, rtol ${fmt(current.settings.rtol, 2)}), so both runs have one length.` };
+  return {
+    ok: true,
+    text: `Response: the pinned design re-run under the current settings (${fmt(current.settings.until)} s, rtol ${fmt(current.settings.rtol, 2)}), so both runs have one length.`,
+  };
 }

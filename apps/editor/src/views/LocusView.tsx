@@ -7,7 +7,15 @@ import { useEffect, useMemo, useState } from 'react';
 import { gainAtPoint, roundSignificant } from '@loopwright/lti';
 import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
-import { dampingOf, nearestOnBranches, planeWindow, zoomAt, zoomWindow, type LocusHit, type PlaneZoom } from '../analysis/locus-geometry.ts';
+import {
+  dampingOf,
+  nearestOnBranches,
+  planeWindow,
+  zoomAt,
+  zoomWindow,
+  type LocusHit,
+  type PlaneZoom,
+} from '../analysis/locus-geometry.ts';
 import { ORIGIN_TEXT, formatComplex, locusFocus, originAt, type Cx, type PoleOrigin } from '@loopwright/study';
 import { fmt } from '../analysis/sweep.ts';
 import { locusBox, locusLivePatch, locusOption } from './locus-option.ts';
@@ -16,8 +24,7 @@ import { commitSweepValue, useSweepChoice, widenRangeFor } from './SweepBar.tsx'
 import type { Palette } from './palette.ts';
 import type { LocusData } from '@loopwright/study';
 
-export const fmtS = (re: number, im: number): string =>
-  `${fmt(re)} ${im < 0 ? '−' : '+'} j${fmt(Math.abs(im))}`;
+export const fmtS = (re: number, im: number): string => `${fmt(re)} ${im < 0 ? '−' : '+'} j${fmt(Math.abs(im))}`;
 
 /** The gain that puts a pole at a hit: exact −D0/N0 on an exact locus, interpolated on a sampled one. */
 export function gainForHit(locus: LocusData, hit: LocusHit): number {
@@ -37,19 +44,43 @@ const NO_ORIGIN: PoleOrigin[] = [];
  * breakaways, axis crossings, departure and arrival angles (those at a Padé approximant's
  * poles and zeros said so), and every closed-loop pole with ζ, ωn and how it was found.
  */
-function LocusList({ locus, label, poles, origin }: { locus: LocusData | null; label: string; poles: Cx[]; origin: readonly PoleOrigin[] }) {
+function LocusList({
+  locus,
+  label,
+  poles,
+  origin,
+}: {
+  locus: LocusData | null;
+  label: string;
+  poles: Cx[];
+  origin: readonly PoleOrigin[];
+}) {
   const pade = (o: PoleOrigin) => (o === 'approximant' ? ' (Padé artefact)' : '');
   const rows: [string, string][] = [];
-  if (locus?.asymptotes) rows.push(['asymptotes', `centroid ${fmt(locus.asymptotes.centroid)}, angles ${locus.asymptotes.anglesDeg.map((a) => `${fmt(a)}°`).join(', ')}`]);
-  for (const b of locus?.breakaways ?? []) rows.push(['breakaway / break-in', `s = ${formatComplex(b.s.re, b.s.im)} at ${label} = ${fmt(b.gain)}`]);
+  if (locus?.asymptotes)
+    rows.push([
+      'asymptotes',
+      `centroid ${fmt(locus.asymptotes.centroid)}, angles ${locus.asymptotes.anglesDeg.map((a) => `${fmt(a)}°`).join(', ')}`,
+    ]);
+  for (const b of locus?.breakaways ?? [])
+    rows.push(['breakaway / break-in', `s = ${formatComplex(b.s.re, b.s.im)} at ${label} = ${fmt(b.gain)}`]);
   for (const c of locus?.crossings ?? []) rows.push(['imaginary-axis crossing', `ω = ${fmt(c.omega)} rad/s at ${label} = ${fmt(c.gain)}`]);
-  for (const d of locus?.departures ?? []) rows.push(['departure angle', `${fmt(d.angleDeg)}° from ${formatComplex(d.at.re, d.at.im)}${pade(originAt(d.at, locus!.poles, locus!.poleOrigin))}`]);
-  for (const a of locus?.arrivals ?? []) rows.push(['arrival angle', `${fmt(a.angleDeg)}° at ${formatComplex(a.at.re, a.at.im)}${pade(originAt(a.at, locus!.zeros, locus!.zeroOrigin))}`]);
+  for (const d of locus?.departures ?? [])
+    rows.push([
+      'departure angle',
+      `${fmt(d.angleDeg)}° from ${formatComplex(d.at.re, d.at.im)}${pade(originAt(d.at, locus!.poles, locus!.poleOrigin))}`,
+    ]);
+  for (const a of locus?.arrivals ?? [])
+    rows.push([
+      'arrival angle',
+      `${fmt(a.angleDeg)}° at ${formatComplex(a.at.re, a.at.im)}${pade(originAt(a.at, locus!.zeros, locus!.zeroOrigin))}`,
+    ]);
   const shown = poles.map((p, i) => ({ p, o: origin[i] ?? 'exact' })).filter(({ p }) => p.im >= 0);
   return (
     <details className="lw-locus-list" data-testid="locus-list">
       <summary>
-        Geometry and closed-loop poles ({rows.length} items, {shown.length} poles{shown.some((x) => x.o === 'approximant') ? ', some of a Padé approximant' : ''})
+        Geometry and closed-loop poles ({rows.length} items, {shown.length} poles
+        {shown.some((x) => x.o === 'approximant') ? ', some of a Padé approximant' : ''})
       </summary>
       <table className="lw-table lw-compact" data-testid="locus-geometry">
         <tbody>
@@ -158,87 +189,102 @@ export function LocusView({ pal }: { pal: Palette }) {
     ? 'Nothing to sweep yet.'
     : stale
       ? `Computing the locus of ${choice.label}…`
-    : analysis?.locus && !analysis.locus.ok
-      ? `Locus: ${analysis.locus.error}`
-      : analysis && !analysis.poles.ok
-        ? `Closed-loop poles: ${(analysis.poles as { error: string }).error}`
-        : error
-          ? error
-          : null;
-  const hoverInfo = hover && locus ? (() => {
-    const k = gainForHit(locus, hover);
-    const { zeta, omegaN } = dampingOf(hover.s);
-    return (
-      <div className="lw-readout" data-testid="locus-readout">
-        <div>
-          {locusLabel} = <b>{fmt(k)}</b>
-          {hover.negative ? ` (${locus.direction === 'negative' ? 'positive' : 'negative'} locus)` : ''}
-        </div>
-        <div>s = {fmtS(hover.s.re, hover.s.im)}</div>
-        <div>
-          ζ = {fmt(zeta, 3)} · ωn = {fmt(omegaN, 3)} rad/s
-        </div>
-        <div className="lw-muted">click to put a pole here</div>
-      </div>
-    );
-  })() : null;
+      : analysis?.locus && !analysis.locus.ok
+        ? `Locus: ${analysis.locus.error}`
+        : analysis && !analysis.poles.ok
+          ? `Closed-loop poles: ${(analysis.poles as { error: string }).error}`
+          : error
+            ? error
+            : null;
+  const hoverInfo =
+    hover && locus
+      ? (() => {
+          const k = gainForHit(locus, hover);
+          const { zeta, omegaN } = dampingOf(hover.s);
+          return (
+            <div className="lw-readout" data-testid="locus-readout">
+              <div>
+                {locusLabel} = <b>{fmt(k)}</b>
+                {hover.negative ? ` (${locus.direction === 'negative' ? 'positive' : 'negative'} locus)` : ''}
+              </div>
+              <div>s = {fmtS(hover.s.re, hover.s.im)}</div>
+              <div>
+                ζ = {fmt(zeta, 3)} · ωn = {fmt(omegaN, 3)} rad/s
+              </div>
+              <div className="lw-muted">click to put a pole here</div>
+            </div>
+          );
+        })()
+      : null;
 
   return (
     <div className="lw-locus-col">
-    <ChartFrame
-      name="locus"
-      title={`Locus — ${locus ? locusLabel : (choice?.label ?? 'no sweep')}`}
-      background={pal.background}
-      option={option}
-      patch={patch}
-      onSize={setSize}
-      extra={
-        locus ? (
-          <span className="lw-tag" data-testid="locus-mode" title={`${locus.mode === 'exact' ? 'characteristic equation affine in the swept value: exact root-locus geometry' : `sampled parameter locus: ${locus.reason ?? ''}`}${locus.delayHandling.mode === 'pade' ? ` — ${locus.delayHandling.note}; poles marked hollow belong to the approximation` : ''}`}>
-            {locus.mode}
-            {locus.delayHandling.mode === 'pade' ? ' · Padé' : ''}
-          </span>
-        ) : undefined
-      }
-      overlay={
-        <>
-          {hoverInfo}
-          {message && <div className="lw-chart-message">{message}</div>}
-          <div className="lw-chart-toggles">
-          <label className="lw-check" title="Show the locus for values of the other sign (dashed)">
-            <input type="checkbox" checked={negative} onChange={(e) => setOptions({ negativeLocus: e.target.checked })} /> {locus?.direction === 'negative' ? 'k > 0' : 'k < 0'}
-          </label>
-          <label className="lw-check" title="Constant damping-ratio rays">
-            <input type="checkbox" checked={damping} onChange={(e) => setOptions({ showDampingGuides: e.target.checked })} /> ζ
-          </label>
-          <label className="lw-check" title="Constant natural-frequency arcs">
-            <input type="checkbox" checked={freq} onChange={(e) => setOptions({ showFrequencyGuides: e.target.checked })} /> ωn
-          </label>
-          <button type="button" className="lw-mini" aria-label="Fit locus window" disabled={!zoom} onClick={() => setZoom(null)} title="Fit the window to the swept part of the locus (mouse wheel zooms)">
-            Fit
-          </button>
-          </div>
-        </>
-      }
-      onPointerMove={(_c, x, y) => {
-        const h = hitAt(x, y);
-        setHover((old) => (h === null && old === null ? old : h));
-      }}
-      onPointerLeave={() => setHover(null)}
-      onWheel={(_c, x, y, delta) => {
-        setZoom(zoomAt(fitted, win, box, x, y, delta > 0 ? 1 / 1.25 : 1.25, zoom));
-        return true;
-      }}
-      onPointerClick={(_c, x, y) => {
-        const h = hitAt(x, y);
-        if (!h || !locus || !choice || !range) return;
-        const k = gainForHit(locus, h);
-        if (!Number.isFinite(k)) return;
-        widenRangeFor(choice, range, k);
-        commitSweepValue(choice, roundSignificant(k, 4)); // the gain picked on a branch, to 4 significant digits
-      }}
-    />
-    <LocusList locus={locus} label={locusLabel} poles={current} origin={origin} />
+      <ChartFrame
+        name="locus"
+        title={`Locus — ${locus ? locusLabel : (choice?.label ?? 'no sweep')}`}
+        background={pal.background}
+        option={option}
+        patch={patch}
+        onSize={setSize}
+        extra={
+          locus ? (
+            <span
+              className="lw-tag"
+              data-testid="locus-mode"
+              title={`${locus.mode === 'exact' ? 'characteristic equation affine in the swept value: exact root-locus geometry' : `sampled parameter locus: ${locus.reason ?? ''}`}${locus.delayHandling.mode === 'pade' ? ` — ${locus.delayHandling.note}; poles marked hollow belong to the approximation` : ''}`}
+            >
+              {locus.mode}
+              {locus.delayHandling.mode === 'pade' ? ' · Padé' : ''}
+            </span>
+          ) : undefined
+        }
+        overlay={
+          <>
+            {hoverInfo}
+            {message && <div className="lw-chart-message">{message}</div>}
+            <div className="lw-chart-toggles">
+              <label className="lw-check" title="Show the locus for values of the other sign (dashed)">
+                <input type="checkbox" checked={negative} onChange={(e) => setOptions({ negativeLocus: e.target.checked })} />{' '}
+                {locus?.direction === 'negative' ? 'k > 0' : 'k < 0'}
+              </label>
+              <label className="lw-check" title="Constant damping-ratio rays">
+                <input type="checkbox" checked={damping} onChange={(e) => setOptions({ showDampingGuides: e.target.checked })} /> ζ
+              </label>
+              <label className="lw-check" title="Constant natural-frequency arcs">
+                <input type="checkbox" checked={freq} onChange={(e) => setOptions({ showFrequencyGuides: e.target.checked })} /> ωn
+              </label>
+              <button
+                type="button"
+                className="lw-mini"
+                aria-label="Fit locus window"
+                disabled={!zoom}
+                onClick={() => setZoom(null)}
+                title="Fit the window to the swept part of the locus (mouse wheel zooms)"
+              >
+                Fit
+              </button>
+            </div>
+          </>
+        }
+        onPointerMove={(_c, x, y) => {
+          const h = hitAt(x, y);
+          setHover((old) => (h === null && old === null ? old : h));
+        }}
+        onPointerLeave={() => setHover(null)}
+        onWheel={(_c, x, y, delta) => {
+          setZoom(zoomAt(fitted, win, box, x, y, delta > 0 ? 1 / 1.25 : 1.25, zoom));
+          return true;
+        }}
+        onPointerClick={(_c, x, y) => {
+          const h = hitAt(x, y);
+          if (!h || !locus || !choice || !range) return;
+          const k = gainForHit(locus, h);
+          if (!Number.isFinite(k)) return;
+          widenRangeFor(choice, range, k);
+          commitSweepValue(choice, roundSignificant(k, 4)); // the gain picked on a branch, to 4 significant digits
+        }}
+      />
+      <LocusList locus={locus} label={locusLabel} poles={current} origin={origin} />
     </div>
   );
 }

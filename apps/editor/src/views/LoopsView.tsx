@@ -39,11 +39,24 @@ function ReadingCells({ margins, rhp, pinned }: { margins: MarginsData; rhp: num
   return (
     <>
       {LOOP_COLUMNS.slice(0, FIRST_COLUMNS).map(cell)}
-      <td data-field="openLoopRhpPoles" data-value={String(rhp)} className={rhp > 0 ? 'lw-warnval' : undefined} title={rhp > 0 ? `L has ${rhp} open-loop pole(s) in the right half-plane: a stable closed loop encircles −1 that many times counter-clockwise` : 'L has no open-loop pole in the right half-plane'}>
+      <td
+        data-field="openLoopRhpPoles"
+        data-value={String(rhp)}
+        className={rhp > 0 ? 'lw-warnval' : undefined}
+        title={
+          rhp > 0
+            ? `L has ${rhp} open-loop pole(s) in the right half-plane: a stable closed loop encircles −1 that many times counter-clockwise`
+            : 'L has no open-loop pole in the right half-plane'
+        }
+      >
         {rhp}
       </td>
       {LOOP_COLUMNS.slice(FIRST_COLUMNS).map(cell)}
-      <td data-field="closedLoopStable" data-value={String(margins.closedLoopStable)} className={margins.closedLoopStable ? 'lw-ok' : 'lw-bad'}>
+      <td
+        data-field="closedLoopStable"
+        data-value={String(margins.closedLoopStable)}
+        className={margins.closedLoopStable ? 'lw-ok' : 'lw-bad'}
+      >
         {margins.closedLoopStable ? 'stable' : 'UNSTABLE'}
       </td>
     </>
@@ -69,7 +82,9 @@ export function LoopsTable({ loops, pinned }: { loops: LoopsData; pinned: LoopsD
                 {c.label}
               </th>
             ))}
-            <th title="open-loop poles of L in the right half-plane (Nyquist: that many counter-clockwise encirclements of −1 for a stable closed loop)">RHP poles of L</th>
+            <th title="open-loop poles of L in the right half-plane (Nyquist: that many counter-clockwise encirclements of −1 for a stable closed loop)">
+              RHP poles of L
+            </th>
             {LOOP_COLUMNS.slice(FIRST_COLUMNS).map((c) => (
               <th key={c.field} title={c.title}>
                 {c.label}
@@ -82,7 +97,13 @@ export function LoopsTable({ loops, pinned }: { loops: LoopsData; pinned: LoopsD
           {loops.rows.map((r) => {
             const p = pinned?.rows.find((x) => x.cutId === r.cutId);
             const inner = r.alone;
-            const act = (on: boolean) => (on ? <span className="lw-act" title="the reading to act on (see below why)"> ◀ act on this</span> : null);
+            const act = (on: boolean) =>
+              on ? (
+                <span className="lw-act" title="the reading to act on (see below why)">
+                  {' '}
+                  ◀ act on this
+                </span>
+              ) : null;
             return [
               <tr key={r.cutId} data-cut={r.cutId} data-wire={r.wire} data-act={r.advice.actOn === 'all-closed' ? 'true' : 'false'}>
                 <td className="lw-nowrap" title={`cut ${r.cutId} on wire ${r.wire}; loop through ${r.blocks.join(', ')}`}>
@@ -97,7 +118,10 @@ export function LoopsTable({ loops, pinned }: { loops: LoopsData; pinned: LoopsD
               inner && (
                 <tr key={`${r.cutId}:alone`} data-cut-alone={r.cutId} data-act={r.advice.actOn === 'inner-first' ? 'true' : 'false'}>
                   <td className="lw-nowrap lw-muted">↳ {r.label}</td>
-                  <td className="lw-nowrap" title={`inner-first: ${inner.opened.map(name).join(', ')} opened (how a cascade is tuned and commissioned)`}>
+                  <td
+                    className="lw-nowrap"
+                    title={`inner-first: ${inner.opened.map(name).join(', ')} opened (how a cascade is tuned and commissioned)`}
+                  >
                     inner-first{act(r.advice.actOn === 'inner-first')}
                   </td>
                   <ReadingCells margins={inner.margins} rhp={inner.openLoopRhpPoles} pinned={p?.alone?.margins} />
@@ -158,11 +182,20 @@ function idealOption(o: OuterIdealData, label: (c: string) => string, pal: Palet
     itemStyle: { color },
     data,
   });
-  const axisBase = { axisLine: { onZero: false, lineStyle: { color: pal.axis } }, axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 3) }, splitLine: { lineStyle: { color: pal.grid } } };
+  const axisBase = {
+    axisLine: { onZero: false, lineStyle: { color: pal.axis } },
+    axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 3) },
+    splitLine: { lineStyle: { color: pal.grid } },
+  };
   return {
     animation: false,
     backgroundColor: pal.background,
-    title: { text: `Outer loop ${label(o.outer)}: real vs ideal inner loop ${label(o.inner)}`, left: 8, top: 4, textStyle: { color: pal.text, fontSize: 12, fontWeight: 'normal' } },
+    title: {
+      text: `Outer loop ${label(o.outer)}: real vs ideal inner loop ${label(o.inner)}`,
+      left: 8,
+      top: 4,
+      textStyle: { color: pal.text, fontSize: 12, fontWeight: 'normal' },
+    },
     legend: { top: 22, right: 10, textStyle: { color: pal.muted } },
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
     grid: [
@@ -171,7 +204,17 @@ function idealOption(o: OuterIdealData, label: (c: string) => string, pal: Palet
     ],
     xAxis: [
       { type: 'log', gridIndex: 0, min: o.omega[0], max: o.omega[o.omega.length - 1], ...axisBase },
-      { type: 'log', gridIndex: 1, min: o.omega[0], max: o.omega[o.omega.length - 1], name: 'ω [rad/s]', nameLocation: 'middle', nameGap: 22, nameTextStyle: { color: pal.muted }, ...axisBase },
+      {
+        type: 'log',
+        gridIndex: 1,
+        min: o.omega[0],
+        max: o.omega[o.omega.length - 1],
+        name: 'ω [rad/s]',
+        nameLocation: 'middle',
+        nameGap: 22,
+        nameTextStyle: { color: pal.muted },
+        ...axisBase,
+      },
     ],
     yAxis: [
       { type: 'value', gridIndex: 0, scale: true, name: '|L| dB', nameTextStyle: { color: pal.muted }, ...axisBase },
@@ -194,7 +237,8 @@ function OuterIdealPair({ o, loops, pal, index }: { o: OuterIdealData; loops: Lo
   return (
     <div className="lw-pair" data-testid="outer-ideal" data-outer={o.outer} data-inner={o.inner}>
       <div className="lw-note">
-        {name(o.outer)} with the real against an ideal {name(o.inner)} — both rows and both curves with {opened ? `${opened} opened` : 'every other loop as drawn'}.
+        {name(o.outer)} with the real against an ideal {name(o.inner)} — both rows and both curves with{' '}
+        {opened ? `${opened} opened` : 'every other loop as drawn'}.
       </div>
       <table className="lw-table lw-compact" data-testid="outer-ideal-table">
         <thead>
@@ -224,7 +268,12 @@ function OuterIdealPair({ o, loops, pal, index }: { o: OuterIdealData; loops: Lo
         </tbody>
       </table>
       <div className="lw-grid-1 lw-short">
-        <ChartFrame name={index === 0 ? 'outer-ideal' : `outer-ideal-${index + 1}`} title={`${name(o.outer)}: real vs ideal ${name(o.inner)}`} background={pal.background} option={option} />
+        <ChartFrame
+          name={index === 0 ? 'outer-ideal' : `outer-ideal-${index + 1}`}
+          title={`${name(o.outer)}: real vs ideal ${name(o.inner)}`}
+          background={pal.background}
+          option={option}
+        />
       </div>
     </div>
   );
@@ -238,7 +287,9 @@ export function LoopsView({ pal }: { pal: Palette }) {
   return (
     <div className="lw-view lw-loops">
       <div className="lw-view-tools">
-        <span className={loops.stable ? 'lw-ok' : 'lw-bad'}>{loops.stable ? 'whole diagram stable (closed-loop poles)' : 'whole diagram UNSTABLE (closed-loop poles)'}</span>
+        <span className={loops.stable ? 'lw-ok' : 'lw-bad'}>
+          {loops.stable ? 'whole diagram stable (closed-loop poles)' : 'whole diagram UNSTABLE (closed-loop poles)'}
+        </span>
         {pinned?.loops && <span className="lw-muted">(pinned values in brackets)</span>}
       </div>
       {loops.notes.map((n) => (

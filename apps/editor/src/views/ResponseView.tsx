@@ -84,8 +84,18 @@ export function ResponseView({ pal }: { pal: Palette }) {
               <span className="lw-muted" title="solid: with nonlinearities · dashed: the linear model · dotted: pinned">
                 solid: nonlinear · dashed: linear{pinned ? ' · dotted: pinned (re-run under these settings)' : ''}
               </span>
-              {r.run.status !== 'ok' && <span className="lw-bad">simulation {r.run.status}: {r.run.message}</span>}
-              <button type="button" className="lw-mini" data-export="traces:csv" title="Every trace as CSV" onClick={() => exportResponseCsv(r)}>
+              {r.run.status !== 'ok' && (
+                <span className="lw-bad">
+                  simulation {r.run.status}: {r.run.message}
+                </span>
+              )}
+              <button
+                type="button"
+                className="lw-mini"
+                data-export="traces:csv"
+                title="Every trace as CSV"
+                onClick={() => exportResponseCsv(r)}
+              >
                 CSV
               </button>
             </>

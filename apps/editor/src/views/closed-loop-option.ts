@@ -42,7 +42,18 @@ export function closedLoopStepOption(c: ClosedLoopData, pal: Palette): ChartOpti
         `${c.toLabel} for a unit step at ${c.fromLabel}`,
         time.map((t, i) => [t, value[i]]),
         pal.series[0],
-        final === null ? {} : { markLine: { silent: true, symbol: 'none', animation: false, lineStyle: { color: pal.limit, type: 'dashed' }, label: { formatter: `T(0) = ${fmt(final, 3)}`, color: pal.limit, fontSize: 10 }, data: [{ yAxis: final }] } },
+        final === null
+          ? {}
+          : {
+              markLine: {
+                silent: true,
+                symbol: 'none',
+                animation: false,
+                lineStyle: { color: pal.limit, type: 'dashed' },
+                label: { formatter: `T(0) = ${fmt(final, 3)}`, color: pal.limit, fontSize: 10 },
+                data: [{ yAxis: final }],
+              },
+            },
       ),
     ],
   };
@@ -52,7 +63,16 @@ export function closedLoopBodeOption(c: ClosedLoopData, pal: Palette): ChartOpti
   if (!c.bode) return null;
   const { omega, magDb, phaseDeg } = c.bode;
   const log = (gridIndex: number, named: boolean) =>
-    axis(pal, { type: 'log', gridIndex, min: omega[0], max: omega[omega.length - 1], name: named ? 'ω [rad/s]' : '', nameLocation: 'middle', nameGap: 24, axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 2) } });
+    axis(pal, {
+      type: 'log',
+      gridIndex,
+      min: omega[0],
+      max: omega[omega.length - 1],
+      name: named ? 'ω [rad/s]' : '',
+      nameLocation: 'middle',
+      nameGap: 24,
+      axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 2) },
+    });
   return {
     animation: false,
     backgroundColor: pal.background,
@@ -68,8 +88,18 @@ export function closedLoopBodeOption(c: ClosedLoopData, pal: Palette): ChartOpti
       axis(pal, { type: 'value', gridIndex: 1, scale: true, name: '∠T [°]', nameLocation: 'middle', nameGap: 42 }),
     ],
     series: [
-      line('|T| dB', omega.map((w, i) => [w, magDb[i]]), pal.series[0], { xAxisIndex: 0, yAxisIndex: 0 }),
-      line('∠T °', omega.map((w, i) => [w, phaseDeg[i]]), pal.series[1], { xAxisIndex: 1, yAxisIndex: 1 }),
+      line(
+        '|T| dB',
+        omega.map((w, i) => [w, magDb[i]]),
+        pal.series[0],
+        { xAxisIndex: 0, yAxisIndex: 0 },
+      ),
+      line(
+        '∠T °',
+        omega.map((w, i) => [w, phaseDeg[i]]),
+        pal.series[1],
+        { xAxisIndex: 1, yAxisIndex: 1 },
+      ),
     ],
   };
 }

@@ -130,7 +130,13 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
     if (locus.asymptotes && locus.asymptotes.anglesDeg.length > 0) {
       const c = locus.asymptotes.centroid;
       for (const ang of locus.asymptotes.anglesDeg) {
-        series.push({ ...lineBase, name: 'asymptote', z: 2, lineStyle: { color: pal.axis, width: 1, type: 'dashed' }, data: ray(win, c, 0, ang) });
+        series.push({
+          ...lineBase,
+          name: 'asymptote',
+          z: 2,
+          lineStyle: { color: pal.axis, width: 1, type: 'dashed' },
+          data: ray(win, c, 0, ang),
+        });
       }
       series.push({
         type: 'scatter',
@@ -140,7 +146,13 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
         symbol: 'triangle',
         symbolSize: 9,
         itemStyle: { color: pal.axis },
-        label: { show: c >= win.xMin && c <= win.xMax, position: 'bottom', color: pal.muted, fontSize: 10, formatter: `centroid ${fmt(c, 3)}` },
+        label: {
+          show: c >= win.xMin && c <= win.xMax,
+          position: 'bottom',
+          color: pal.muted,
+          fontSize: 10,
+          formatter: `centroid ${fmt(c, 3)}`,
+        },
         data: [[c, 0]],
       });
     }
@@ -185,7 +197,13 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
         symbol: 'rect',
         symbolSize: 7,
         itemStyle: { color: pal.muted },
-        label: { show: true, position: 'top', color: pal.text, fontSize: 10, formatter: (p: { value: number[] }) => `k=${fmt(p.value[2], 3)}` },
+        label: {
+          show: true,
+          position: 'top',
+          color: pal.text,
+          fontSize: 10,
+          formatter: (p: { value: number[] }) => `k=${fmt(p.value[2], 3)}`,
+        },
         data: breakaways.map((b) => ({ value: [b.s.re, b.s.im, b.gain], label: { show: roomFor(b.s.re, b.s.im) } })),
       });
     }
@@ -226,7 +244,11 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
       const [from, to] = into ? [tip, at] : [at, tip];
       return [
         { coord: [from.re, from.im], symbol: 'none' },
-        { coord: [to.re, to.im], symbol: 'arrow', label: { show: true, formatter: label, color: pal.text, fontSize: 10, position: into ? 'start' : 'end' } },
+        {
+          coord: [to.re, to.im],
+          symbol: 'arrow',
+          label: { show: true, formatter: label, color: pal.text, fontSize: 10, position: into ? 'start' : 'end' },
+        },
       ];
     };
     const shown = (at: Cx) => at.im > 0 && at.re >= win.xMin && at.re <= win.xMax && at.im <= win.yMax;
@@ -244,7 +266,10 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
           animation: false,
           symbolSize: 9,
           lineStyle: { color: pal.text, width: 1.5, type: 'solid' },
-          data: [...deps.map((d) => arrow(d.at, d.angleDeg, false, `θd ${fmt(d.angleDeg, 4)}°`)), ...arrs.map((d) => arrow(d.at, d.angleDeg, true, `θa ${fmt(d.angleDeg, 4)}°`))],
+          data: [
+            ...deps.map((d) => arrow(d.at, d.angleDeg, false, `θd ${fmt(d.angleDeg, 4)}°`)),
+            ...arrs.map((d) => arrow(d.at, d.angleDeg, true, `θa ${fmt(d.angleDeg, 4)}°`)),
+          ],
         },
       });
     }
@@ -299,7 +324,8 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
   // not a round number in an equal-aspect window); grid lines drawn as mark lines to match.
   const ticks = (min: number, max: number) => {
     const out: number[] = [];
-    for (let v = Math.ceil(min / win.step) * win.step; v <= max + 1e-9 * win.step; v += win.step) out.push(Math.abs(v) < 1e-12 * win.step ? 0 : v);
+    for (let v = Math.ceil(min / win.step) * win.step; v <= max + 1e-9 * win.step; v += win.step)
+      out.push(Math.abs(v) < 1e-12 * win.step ? 0 : v);
     return out;
   };
   const xt = ticks(win.xMin, win.xMax);
@@ -335,8 +361,26 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
     series: [
       ...series,
       // The imaginary axis, drawn over the grid.
-      { ...lineBase, name: 'imaginary axis', z: 2, lineStyle: { color: pal.axis, width: 1 }, data: [[0, win.yMin], [0, win.yMax]] },
-      { ...lineBase, name: 'real axis', z: 2, lineStyle: { color: pal.axis, width: 1 }, data: [[win.xMin, 0], [win.xMax, 0]] },
+      {
+        ...lineBase,
+        name: 'imaginary axis',
+        z: 2,
+        lineStyle: { color: pal.axis, width: 1 },
+        data: [
+          [0, win.yMin],
+          [0, win.yMax],
+        ],
+      },
+      {
+        ...lineBase,
+        name: 'real axis',
+        z: 2,
+        lineStyle: { color: pal.axis, width: 1 },
+        data: [
+          [win.xMin, 0],
+          [win.xMax, 0],
+        ],
+      },
       { ...lineBase, name: 'grid', z: 0, lineStyle: { width: 0 }, data: [], markLine: gridLines },
     ],
   };

@@ -23,7 +23,10 @@ export function tracePairs(t: readonly number[], y: readonly number[] | undefine
 
 /** A probe keeps its colour whichever probes are shown. */
 export function probeColor(r: ResponseResult, id: string, pal: Palette): string {
-  const i = Math.max(0, r.probes.findIndex((p) => p.id === id));
+  const i = Math.max(
+    0,
+    r.probes.findIndex((p) => p.id === id),
+  );
   return pal.series[i % pal.series.length];
 }
 
@@ -35,7 +38,16 @@ const axisStyle = (pal: Palette) => ({
 });
 
 function timeAxis(pal: Palette, until: number, gridIndex = 0, named = true) {
-  return { type: 'value', gridIndex, name: named ? 't [s]' : '', nameLocation: 'middle', nameGap: 24, min: 0, max: until, ...axisStyle(pal) };
+  return {
+    type: 'value',
+    gridIndex,
+    name: named ? 't [s]' : '',
+    nameLocation: 'middle',
+    nameGap: 24,
+    min: 0,
+    max: until,
+    ...axisStyle(pal),
+  };
 }
 
 function valueAxis(pal: Palette, name: string, gridIndex = 0) {
@@ -81,8 +93,10 @@ export function responseOption(r: ResponseResult, probes: string[], pinned: Resp
       names.push(label);
       const at = { xAxisIndex: i, yAxisIndex: i };
       series.push({ ...line(label, tracePairs(r.run.time, r.run.traces[id]), color, 'solid'), ...at });
-      if (r.linear) series.push({ ...line(`${label} (linear)`, tracePairs(r.linear.time, r.linear.traces[id]), color, 'dashed', 1.5), ...at });
-      if (pinned?.run.traces[id]) series.push({ ...line(`${label} (pinned)`, tracePairs(pinned.run.time, pinned.run.traces[id]), pal.pinned, 'dotted', 1.5), ...at });
+      if (r.linear)
+        series.push({ ...line(`${label} (linear)`, tracePairs(r.linear.time, r.linear.traces[id]), color, 'dashed', 1.5), ...at });
+      if (pinned?.run.traces[id])
+        series.push({ ...line(`${label} (pinned)`, tracePairs(pinned.run.time, pinned.run.traces[id]), pal.pinned, 'dotted', 1.5), ...at });
     }
   });
   const grids = Array.from({ length: n }, (_, i) => ({ left: 64, right: 16, top: LEGEND_PX + i * slot, height: slot - AXIS_PX }));
@@ -124,10 +138,17 @@ export function actuatorOption(r: ResponseResult, pinned: ResponseResult | null,
       .map((v) => ({ yAxis: v, label: { formatter: `limit ${fmt(v, 3)}`, color: pal.limit, fontSize: 10, position: 'insideEndTop' } }));
     series.push({
       ...line(a.label, tracePairs(r.run.time, r.run.traces[a.key]), color, 'solid'),
-      markLine: { silent: true, symbol: 'none', animation: false, lineStyle: { color: pal.limit, type: 'dashed', width: 1.5 }, data: limits },
+      markLine: {
+        silent: true,
+        symbol: 'none',
+        animation: false,
+        lineStyle: { color: pal.limit, type: 'dashed', width: 1.5 },
+        data: limits,
+      },
     });
     if (r.linear) series.push(line(`${a.label} (linear)`, tracePairs(r.linear.time, r.linear.traces[a.key]), color, 'dashed', 1.5));
-    if (pinned?.run.traces[a.key]) series.push(line(`${a.label} (pinned)`, tracePairs(pinned.run.time, pinned.run.traces[a.key]), pal.pinned, 'dotted', 1.5));
+    if (pinned?.run.traces[a.key])
+      series.push(line(`${a.label} (pinned)`, tracePairs(pinned.run.time, pinned.run.traces[a.key]), pal.pinned, 'dotted', 1.5));
   });
   return timeChart(pal, r.until, 'actuator', names, series);
 }

@@ -119,7 +119,18 @@ export class EngineClient {
   private state(channel: Channel): ChannelState {
     let ch = this.channels.get(channel);
     if (!ch) {
-      ch = { worker: null, newest: null, seq: 0, pending: 0, pendingRequest: null, busySince: 0, busyId: 0, watchdog: null, restarts: 0, dropped: 0 };
+      ch = {
+        worker: null,
+        newest: null,
+        seq: 0,
+        pending: 0,
+        pendingRequest: null,
+        busySince: 0,
+        busyId: 0,
+        watchdog: null,
+        restarts: 0,
+        dropped: 0,
+      };
       this.channels.set(channel, ch);
     }
     return ch;

@@ -31,7 +31,10 @@ function drain(): void {
   // Where shared memory is allowed, a simulation sees a newer request at once and stops.
   const isCancelled = newest ? () => Atomics.load(newest!, 0) > req.id : undefined;
   // Progress of this request, at most every PROGRESS_MS (the client shows it and offers Cancel).
-  const onProgress = throttled((progress: EngineProgress['progress']) => scope.postMessage({ channel, id: req.id, progress } satisfies EngineProgress), PROGRESS_MS);
+  const onProgress = throttled(
+    (progress: EngineProgress['progress']) => scope.postMessage({ channel, id: req.id, progress } satisfies EngineProgress),
+    PROGRESS_MS,
+  );
   const reply: EngineReply = computeReply(req, { isCancelled, onProgress });
   scope.postMessage(reply);
   if (held.size > 0) schedule();

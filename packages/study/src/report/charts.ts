@@ -23,7 +23,10 @@ const xs = (ps: readonly Cx[]) => ps.map((p) => p.re);
 const ys = (ps: readonly Cx[]) => ps.map((p) => p.im);
 
 /** A window on the s-plane holding the points, padded, with equal scales on both axes for a plotting box. */
-export function planeWindow(points: readonly Cx[], box: { width: number; height: number }): { xMin: number; xMax: number; yMin: number; yMax: number } {
+export function planeWindow(
+  points: readonly Cx[],
+  box: { width: number; height: number },
+): { xMin: number; xMax: number; yMin: number; yMax: number } {
   const fin = points.filter((p) => Number.isFinite(p.re) && Number.isFinite(p.im));
   let x0 = Math.min(0, ...fin.map((p) => p.re));
   let x1 = Math.max(0, ...fin.map((p) => p.re));
@@ -67,25 +70,43 @@ const approximant = (origin: readonly PoleOrigin[] | undefined, i: number) => or
 export function locusChart(locus: LocusData | null, poles: PolesData | null, label: string, id: string): { svg: string; outside: number } {
   const height = 540;
   const current = poles?.poles ?? [];
-  const focus = locusFocus(locus, current.filter((_, i) => !approximant(poles?.origin, i)), locus?.range ?? null);
+  const focus = locusFocus(
+    locus,
+    current.filter((_, i) => !approximant(poles?.origin, i)),
+    locus?.range ?? null,
+  );
   const key: Cx[] = focus.points;
   const series: PlotSeries[] = [];
   const arrows: PlotArrow[] = [];
   if (locus) {
-    (locus.rangeBranches ?? []).forEach((b, i) => series.push({ name: i === 0 ? 'slider range' : '', x: b.re, y: b.im, color: SWEEP, line: { width: 8 } }));
-    locus.branches.forEach((b, i) => series.push({ name: i === 0 ? 'branches' : '', x: b.re, y: b.im, color: SERIES[i % SERIES.length], line: { width: 1.8 } }));
+    (locus.rangeBranches ?? []).forEach((b, i) =>
+      series.push({ name: i === 0 ? 'slider range' : '', x: b.re, y: b.im, color: SWEEP, line: { width: 8 } }),
+    );
+    locus.branches.forEach((b, i) =>
+      series.push({ name: i === 0 ? 'branches' : '', x: b.re, y: b.im, color: SERIES[i % SERIES.length], line: { width: 1.8 } }),
+    );
     const extent = Math.max(1, ...key.map((p) => Math.hypot(p.re, p.im)));
     const reach = 10 * extent;
     if (locus.asymptotes) {
       locus.asymptotes.anglesDeg.forEach((a, i) => {
         const r = ray(locus.asymptotes!.centroid, a, reach);
-        series.push({ name: i === 0 ? `asymptotes (centroid ${fmt(locus.asymptotes!.centroid, 3)})` : '', x: r.x, y: r.y, color: MUTED, line: { dash: 'dashed', width: 1 } });
+        series.push({
+          name: i === 0 ? `asymptotes (centroid ${fmt(locus.asymptotes!.centroid, 3)})` : '',
+          x: r.x,
+          y: r.y,
+          color: MUTED,
+          line: { dash: 'dashed', width: 1 },
+        });
       });
     }
     const poleList = [...locus.poles, ...locus.fixedPoles];
     series.push({ name: 'open-loop poles', x: xs(poleList), y: ys(poleList), color: INK, line: null, marker: 'cross' });
-    if (locus.zeros.length) series.push({ name: 'zeros', x: xs(locus.zeros), y: ys(locus.zeros), color: INK, line: null, marker: 'circle' });
-    const specials = [...locus.breakaways.map((b) => ({ s: b.s, k: b.gain })), ...locus.crossings.map((c) => ({ s: { re: 0, im: c.omega }, k: c.gain }))];
+    if (locus.zeros.length)
+      series.push({ name: 'zeros', x: xs(locus.zeros), y: ys(locus.zeros), color: INK, line: null, marker: 'circle' });
+    const specials = [
+      ...locus.breakaways.map((b) => ({ s: b.s, k: b.gain })),
+      ...locus.crossings.map((c) => ({ s: { re: 0, im: c.omega }, k: c.gain })),
+    ];
     if (specials.length) {
       series.push({
         name: 'breakaways and axis crossings (gain)',
@@ -99,13 +120,35 @@ export function locusChart(locus: LocusData | null, poles: PolesData | null, lab
       });
     }
     // Departure and arrival angles at the complex poles and zeros of the plant (not at a Padé approximant's).
-    for (const d of locus.departures) if (d.at.im > 0 && originAt(d.at, locus.poles, locus.poleOrigin) !== 'approximant') arrows.push({ x: d.at.re, y: d.at.im, angleDeg: d.angleDeg, lengthPx: 34, color: '#2e8b57', label: `θd ${fmt(d.angleDeg, 4)}°` });
-    for (const a of locus.arrivals) if (a.at.im > 0 && originAt(a.at, locus.zeros, locus.zeroOrigin) !== 'approximant') arrows.push({ x: a.at.re, y: a.at.im, angleDeg: a.angleDeg, lengthPx: 34, color: '#8a4fbf', label: `θa ${fmt(a.angleDeg, 4)}°`, into: true });
+    for (const d of locus.departures)
+      if (d.at.im > 0 && originAt(d.at, locus.poles, locus.poleOrigin) !== 'approximant')
+        arrows.push({ x: d.at.re, y: d.at.im, angleDeg: d.angleDeg, lengthPx: 34, color: '#2e8b57', label: `θd ${fmt(d.angleDeg, 4)}°` });
+    for (const a of locus.arrivals)
+      if (a.at.im > 0 && originAt(a.at, locus.zeros, locus.zeroOrigin) !== 'approximant')
+        arrows.push({
+          x: a.at.re,
+          y: a.at.im,
+          angleDeg: a.angleDeg,
+          lengthPx: 34,
+          color: '#8a4fbf',
+          label: `θa ${fmt(a.angleDeg, 4)}°`,
+          into: true,
+        });
   }
   const real = current.filter((_, i) => !approximant(poles?.origin, i));
   const pade = current.filter((_, i) => approximant(poles?.origin, i));
-  if (real.length) series.push({ name: 'closed-loop poles now', x: xs(real), y: ys(real), color: POLE, line: null, marker: 'diamond', markerSize: 10 });
-  if (pade.length) series.push({ name: 'poles of the Padé approximant', x: xs(pade), y: ys(pade), color: POLE, line: null, marker: 'diamond-open', markerSize: 10 });
+  if (real.length)
+    series.push({ name: 'closed-loop poles now', x: xs(real), y: ys(real), color: POLE, line: null, marker: 'diamond', markerSize: 10 });
+  if (pade.length)
+    series.push({
+      name: 'poles of the Padé approximant',
+      x: xs(pade),
+      y: ys(pade),
+      color: POLE,
+      line: null,
+      marker: 'diamond-open',
+      markerSize: 10,
+    });
   const title = `Locus — ${label}`;
   const win = planeWindow(key, plotBox(WIDTH, height, series, true));
   const inside = (p: Cx) => p.re >= win.xMin && p.re <= win.xMax && p.im >= win.yMin && p.im <= win.yMax;
@@ -139,7 +182,8 @@ export function bodeChart(f: FrequencyData, id: string): string {
   const phaseRules = [];
   const lo = Math.min(...f.phaseDeg);
   const hi = Math.max(...f.phaseDeg);
-  for (let k = -1980; k <= 1980; k += 360) if (k >= lo - 30 && k <= hi + 30) phaseRules.push({ at: k, color: MUTED, dash: 'solid' as const });
+  for (let k = -1980; k <= 1980; k += 360)
+    if (k >= lo - 30 && k <= hi + 30) phaseRules.push({ at: k, color: MUTED, dash: 'solid' as const });
   const phase: PlotPanel = {
     x: w,
     y: { scale: 'linear', ...linearRange(f.phaseDeg), label: '∠L [°]' },
@@ -155,8 +199,12 @@ export function bodeChart(f: FrequencyData, id: string): string {
 export function nyquistChart(f: FrequencyData, id: string): string {
   const height = 440;
   const box = plotBox(WIDTH, height);
-  const near: Cx[] = [{ re: -2, im: -1.5 }, { re: 1, im: 1.5 }];
-  for (let i = 0; i < f.re.length; i++) if (Math.hypot(f.re[i] + 0.5, f.im[i]) < 4) near.push({ re: f.re[i], im: f.im[i] }, { re: f.re[i], im: -f.im[i] });
+  const near: Cx[] = [
+    { re: -2, im: -1.5 },
+    { re: 1, im: 1.5 },
+  ];
+  for (let i = 0; i < f.re.length; i++)
+    if (Math.hypot(f.re[i] + 0.5, f.im[i]) < 4) near.push({ re: f.re[i], im: f.im[i] }, { re: f.re[i], im: -f.im[i] });
   const win = planeWindow(near, box);
   const circle = Array.from({ length: 97 }, (_, i) => (2 * Math.PI * i) / 96);
   return plotSvg(
@@ -187,7 +235,14 @@ export function sensitivityChart(f: FrequencyData, id: string): string {
     [
       {
         x: { scale: 'log', min: f.omega[0], max: f.omega[f.omega.length - 1], label: 'ω [rad/s]' },
-        y: { scale: 'linear', ...linearRange([...f.sensDb, ...f.compDb].filter((v) => v > -120), { include: [0] }), label: '[dB]' },
+        y: {
+          scale: 'linear',
+          ...linearRange(
+            [...f.sensDb, ...f.compDb].filter((v) => v > -120),
+            { include: [0] },
+          ),
+          label: '[dB]',
+        },
         series: [
           { name: '|S|', x: f.omega, y: f.sensDb, color: SERIES[2] },
           { name: '|T|', x: f.omega, y: f.compDb, color: SERIES[3] },
@@ -196,7 +251,9 @@ export function sensitivityChart(f: FrequencyData, id: string): string {
         title: `|S| and |T| — ${f.label}`,
         hRules: [
           { at: 0, color: MUTED, dash: 'solid' },
-          ...(m.peakSensitivity !== null ? [{ at: 20 * Math.log10(m.peakSensitivity), color: LIMIT, label: `Ms ${fmt(m.peakSensitivity, 3)}` }] : []),
+          ...(m.peakSensitivity !== null
+            ? [{ at: 20 * Math.log10(m.peakSensitivity), color: LIMIT, label: `Ms ${fmt(m.peakSensitivity, 3)}` }]
+            : []),
         ],
       },
     ],
@@ -239,7 +296,13 @@ export function outerIdealChart(o: OuterIdealData, names: Record<string, string>
 /** The response as small multiples: one panel per unit (a probe without a unit alone), then the actuators with their limits. */
 export function responseChart(r: ResponseResult, shown: readonly string[], id: string): string {
   const t = { scale: 'linear' as const, min: 0, max: r.until, label: 't [s]' };
-  const colour = (pid: string) => SERIES[Math.max(0, r.probes.findIndex((p) => p.id === pid)) % SERIES.length];
+  const colour = (pid: string) =>
+    SERIES[
+      Math.max(
+        0,
+        r.probes.findIndex((p) => p.id === pid),
+      ) % SERIES.length
+    ];
   const panels: PlotPanel[] = responsePanels(r.probes, shown).map((g) => {
     const series: PlotSeries[] = [];
     const values: number[] = [];
@@ -261,7 +324,14 @@ export function responseChart(r: ResponseResult, shown: readonly string[], id: s
     const limits = [a.lower, a.upper].filter((v): v is number => v !== null);
     const series: PlotSeries[] = [{ name: a.label, x: r.run.time, y, color: SERIES[(i + 4) % SERIES.length] }];
     const ly = r.linear?.traces[a.key];
-    if (ly) series.push({ name: `${a.label} (linear)`, x: r.linear!.time, y: ly, color: SERIES[(i + 4) % SERIES.length], line: { dash: 'dashed', width: 1.3 } });
+    if (ly)
+      series.push({
+        name: `${a.label} (linear)`,
+        x: r.linear!.time,
+        y: ly,
+        color: SERIES[(i + 4) % SERIES.length],
+        line: { dash: 'dashed', width: 1.3 },
+      });
     panels.push({
       x: t,
       y: { scale: 'linear', ...linearRange([...y, ...(ly ?? [])].filter(Number.isFinite), { include: limits }), label: 'actuator' },
@@ -286,8 +356,18 @@ export function closedLoopChart(c: ClosedLoopData, id: string): string {
   }
   if (c.bode) {
     const w = { scale: 'log' as const, min: c.bode.omega[0], max: c.bode.omega[c.bode.omega.length - 1], label: 'ω [rad/s]' };
-    panels.push({ x: w, y: { scale: 'linear', ...linearRange(c.bode.magDb), label: '|T| [dB]' }, series: [{ name: '|T|', x: c.bode.omega, y: c.bode.magDb, color: SERIES[0] }], height: 200 });
-    panels.push({ x: w, y: { scale: 'linear', ...linearRange(c.bode.phaseDeg), label: '∠T [°]' }, series: [{ name: '∠T', x: c.bode.omega, y: c.bode.phaseDeg, color: SERIES[1] }], height: 190 });
+    panels.push({
+      x: w,
+      y: { scale: 'linear', ...linearRange(c.bode.magDb), label: '|T| [dB]' },
+      series: [{ name: '|T|', x: c.bode.omega, y: c.bode.magDb, color: SERIES[0] }],
+      height: 200,
+    });
+    panels.push({
+      x: w,
+      y: { scale: 'linear', ...linearRange(c.bode.phaseDeg), label: '∠T [°]' },
+      series: [{ name: '∠T', x: c.bode.omega, y: c.bode.phaseDeg, color: SERIES[1] }],
+      height: 190,
+    });
   }
   return plotSvg(panels, { width: WIDTH, id });
 }

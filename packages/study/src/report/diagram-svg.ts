@@ -60,7 +60,10 @@ function inPoint(b: Block, port: string): [number, number] {
   return [b.position.x, b.position.y + H / 2];
 }
 
-export function diagramSvg(d: Diagram, colours = { text: '#1d2329', muted: '#5d6670', card: '#ffffff', border: '#8a949e', wire: '#3d4756', cut: '#d1495b' }): string {
+export function diagramSvg(
+  d: Diagram,
+  colours = { text: '#1d2329', muted: '#5d6670', card: '#ffffff', border: '#8a949e', wire: '#3d4756', cut: '#d1495b' },
+): string {
   const byId = new Map(d.blocks.map((b) => [b.id, b]));
   let x0 = Infinity;
   let y0 = Infinity;
@@ -92,7 +95,9 @@ export function diagramSvg(d: Diagram, colours = { text: '#1d2329', muted: '#5d6
     if (bx < ax + 20) {
       const lo = bx - 16;
       const hi = ax + 16;
-      const under = d.blocks.filter((k) => k.position.x + W >= lo && k.position.x <= hi).map((k) => k.position.y + (isRound(k) ? 2 * R : H));
+      const under = d.blocks
+        .filter((k) => k.position.x + W >= lo && k.position.x <= hi)
+        .map((k) => k.position.y + (isRound(k) ? 2 * R : H));
       back.push({ id: w.id, lo, hi, floor: Math.max(ay, by, ...under) });
     }
   }
@@ -139,17 +144,25 @@ export function diagramSvg(d: Diagram, colours = { text: '#1d2329', muted: '#5d6
       const cy = b.position.y + R;
       const signs = String(b.params.signs ?? '+-');
       parts.push(`<circle cx="${cx}" cy="${cy}" r="${R}" fill="${colours.card}" stroke="${colours.border}" stroke-width="1.5"/>`);
-      parts.push(`<text x="${cx - R - 2}" y="${cy - 5}" font-size="11" text-anchor="end" fill="${colours.text}">${esc(signs[0] ?? '+')}</text>`);
+      parts.push(
+        `<text x="${cx - R - 2}" y="${cy - 5}" font-size="11" text-anchor="end" fill="${colours.text}">${esc(signs[0] ?? '+')}</text>`,
+      );
       if (signs[1]) parts.push(`<text x="${cx + 5}" y="${cy + R + 11}" font-size="11" fill="${colours.text}">${esc(signs[1])}</text>`);
       if (signs[2]) parts.push(`<text x="${cx + 5}" y="${cy - R - 3}" font-size="11" fill="${colours.text}">${esc(signs[2])}</text>`);
       parts.push(`<text x="${cx}" y="${cy - R - 6}" font-size="9" text-anchor="middle" fill="${colours.muted}">${label}</text>`);
       continue;
     }
     const { x, y } = b.position;
-    parts.push(`<rect x="${x}" y="${y}" width="${W}" height="${H}" rx="9" fill="${colours.card}" stroke="${colours.border}" stroke-width="1.5"/>`);
-    parts.push(`<text x="${x + W / 2}" y="${y + 21}" font-size="12" font-weight="600" text-anchor="middle" fill="${colours.text}">${label}</text>`);
+    parts.push(
+      `<rect x="${x}" y="${y}" width="${W}" height="${H}" rx="9" fill="${colours.card}" stroke="${colours.border}" stroke-width="1.5"/>`,
+    );
+    parts.push(
+      `<text x="${x + W / 2}" y="${y + 21}" font-size="12" font-weight="600" text-anchor="middle" fill="${colours.text}">${label}</text>`,
+    );
     const s = summary(b);
-    parts.push(`<text x="${x + W / 2}" y="${y + 39}" font-size="10" text-anchor="middle" fill="${colours.muted}">${esc(s.length > 24 ? `${s.slice(0, 23)}…` : s)}</text>`);
+    parts.push(
+      `<text x="${x + W / 2}" y="${y + 39}" font-size="10" text-anchor="middle" fill="${colours.muted}">${esc(s.length > 24 ? `${s.slice(0, 23)}…` : s)}</text>`,
+    );
   }
   return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="${vb}" width="${x1 - x0 + 2 * pad}" height="${y1 - y0 + 2 * pad}" font-family="system-ui, sans-serif">${parts.join('')}</svg>`;
 }

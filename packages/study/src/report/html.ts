@@ -47,7 +47,8 @@ function table(head: string[], rows: string[][], cls = ''): string {
 const e = (v: number | null | undefined, digits = 4) => esc(fmt(v, digits));
 const gm = (m: MarginsData) => (m.gainMarginDb === null ? '∞' : e(m.gainMarginDb));
 const dm = (m: MarginsData) => (m.delayMargin === null ? '∞' : e(m.delayMargin));
-const failed = (p: Part<unknown> | null, what: string) => `<p class="bad">${esc(what)} not computed: ${esc(p && !p.ok ? p.error : 'nothing to compute')}</p>`;
+const failed = (p: Part<unknown> | null, what: string) =>
+  `<p class="bad">${esc(what)} not computed: ${esc(p && !p.ok ? p.error : 'nothing to compute')}</p>`;
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
 /** One row of the loops table: a reading of a loop. */
@@ -70,14 +71,26 @@ function readingRow(name: string, reading: string, opened: string, rhp: number, 
 function loopRows(L: LoopsData, r: LoopRow): string[][] {
   const name = r.label + (r.auto ? ' (proposed)' : '');
   const around = (r.alone?.opened ?? []).map((id) => L.names[id] ?? id).join(', ');
-  const rows = [readingRow(name, r.alone ? 'every other loop closed' : 'every other loop closed (the one reading)', '', r.openLoopRhpPoles, r.margins, r.advice.actOn === 'all-closed')];
-  if (r.alone) rows.push(readingRow(name, 'inner-first', around, r.alone.openLoopRhpPoles, r.alone.margins, r.advice.actOn === 'inner-first'));
+  const rows = [
+    readingRow(
+      name,
+      r.alone ? 'every other loop closed' : 'every other loop closed (the one reading)',
+      '',
+      r.openLoopRhpPoles,
+      r.margins,
+      r.advice.actOn === 'all-closed',
+    ),
+  ];
+  if (r.alone)
+    rows.push(readingRow(name, 'inner-first', around, r.alone.openLoopRhpPoles, r.alone.margins, r.advice.actOn === 'inner-first'));
   return rows;
 }
 
 /** The reading a tuning engineer acts on, as figures. */
 function actedOn(r: LoopRow): { m: MarginsData; how: string } {
-  return r.advice.actOn === 'inner-first' && r.alone ? { m: r.alone.margins, how: 'inner-first' } : { m: r.margins, how: 'every other loop closed' };
+  return r.advice.actOn === 'inner-first' && r.alone
+    ? { m: r.alone.margins, how: 'inner-first' }
+    : { m: r.margins, how: 'every other loop closed' };
 }
 
 function summary(inp: ReportInput): string {
@@ -91,7 +104,9 @@ function summary(inp: ReportInput): string {
     lines.push(
       `Whole diagram: <b class="${P.stable ? 'ok' : 'bad'}">${P.stable ? 'stable' : 'UNSTABLE'}</b>, judged from its ${plural(P.poles.length, 'closed-loop pole')}` +
         (slow && z ? `; the slowest at s = ${esc(fmtS(slow.re, slow.im))} (ζ ${e(z.zeta, 3)}, ωn ${e(z.omegaN, 3)} rad/s)` : '') +
-        (P.origin.some((o) => o === 'approximant') ? `; ${P.origin.filter((o) => o === 'approximant').length} more belong to the Padé approximant of a dead time` : '') +
+        (P.origin.some((o) => o === 'approximant')
+          ? `; ${P.origin.filter((o) => o === 'approximant').length} more belong to the Padé approximant of a dead time`
+          : '') +
         '.',
     );
   }
@@ -102,19 +117,26 @@ function summary(inp: ReportInput): string {
         `<b>${esc(r.label)}</b> (${esc(a.how)}): PM ${e(a.m.phaseMarginDeg, 3)}°, GM ${a.m.gainMarginDb === null ? '∞' : `${e(a.m.gainMarginDb, 3)} dB`}, crossover ${e(a.m.gainCrossover, 3)} rad/s, Ms ${e(a.m.peakSensitivity, 3)}. ${esc(r.advice.text)}`,
       );
     }
-    for (const s of L.separations.filter((x) => x.flag)) lines.push(`<span class="warn">⚠ ${esc(L.names[s.inner] ?? s.inner)} inside ${esc(L.names[s.outer] ?? s.outer)}: ${esc(s.note)}</span>`);
+    for (const s of L.separations.filter((x) => x.flag))
+      lines.push(
+        `<span class="warn">⚠ ${esc(L.names[s.inner] ?? s.inner)} inside ${esc(L.names[s.outer] ?? s.outer)}: ${esc(s.note)}</span>`,
+      );
   }
   if (inp.response.ok) {
     const r = inp.response.value;
     for (const m of r.metrics) {
       if (m.timeInSaturation !== null) {
-        if (m.timeInSaturation > 0) lines.push(`${esc(m.label)}: at a limit for ${e(m.timeInSaturation, 3)} s (peak effort ${e(m.peakEffort, 3)}).`);
+        if (m.timeInSaturation > 0)
+          lines.push(`${esc(m.label)}: at a limit for ${e(m.timeInSaturation, 3)} s (peak effort ${e(m.peakEffort, 3)}).`);
         continue;
       }
       if (!r.shownProbes.includes(m.probe)) continue;
-      lines.push(`${esc(m.label)}: overshoot ${e(m.overshootPct, 3)} %, settling (±2 %) ${e(m.settlingTime, 3)} s, steady-state error ${e(m.steadyStateError, 3)}.`);
+      lines.push(
+        `${esc(m.label)}: overshoot ${e(m.overshootPct, 3)} %, settling (±2 %) ${e(m.settlingTime, 3)} s, steady-state error ${e(m.steadyStateError, 3)}.`,
+      );
     }
-    if (r.run.status !== 'ok') lines.push(`<span class="bad">The simulation stopped early (${esc(r.run.status)}): ${esc(r.run.message)}</span>`);
+    if (r.run.status !== 'ok')
+      lines.push(`<span class="bad">The simulation stopped early (${esc(r.run.status)}): ${esc(r.run.message)}</span>`);
   }
   if (inp.check.ok && inp.check.value.counts.error + inp.check.value.counts.warning > 0) {
     const c = inp.check.value.counts;
@@ -150,24 +172,50 @@ function locusSection(inp: ReportInput): string {
       ? `exact root-locus geometry of the whole diagram${locus.delayHandling.mode === 'pade' ? ` (${locus.delayHandling.note})` : ''}`
       : `sampled parameter locus (${locus.reason ?? ''})`
     : '';
-  parts.push(`<p>Swept: <b>${esc(inp.sweep.label)}</b> = ${e(inp.sweep.value, 6)}${tag ? ` — ${esc(tag)}` : ''}; every other value fixed.</p>`);
+  parts.push(
+    `<p>Swept: <b>${esc(inp.sweep.label)}</b> = ${e(inp.sweep.value, 6)}${tag ? ` — ${esc(tag)}` : ''}; every other value fixed.</p>`,
+  );
   if (locus || P) {
     const c = locusChart(locus, P, inp.sweep.label, 'locus');
-    parts.push(`<figure>${c.svg}${c.outside ? `<figcaption class="note">${plural(c.outside, 'pole or zero', 'poles and zeros')} lie outside this window (listed in the tables).</figcaption>` : ''}</figure>`);
+    parts.push(
+      `<figure>${c.svg}${c.outside ? `<figcaption class="note">${plural(c.outside, 'pole or zero', 'poles and zeros')} lie outside this window (listed in the tables).</figcaption>` : ''}</figure>`,
+    );
   }
   if (locus && locus.mode === 'exact') {
     const geo: string[][] = [];
-    if (locus.asymptotes) geo.push(['asymptotes', esc(`centroid ${fmt(locus.asymptotes.centroid)}, angles ${locus.asymptotes.anglesDeg.map((a) => `${fmt(a)}°`).join(', ')}`)]);
-    for (const b of locus.breakaways) geo.push(['breakaway / break-in', esc(`s = ${fmtS(b.s.re, b.s.im)} at ${inp.sweep.label} = ${fmt(b.gain)}`)]);
-    for (const x of locus.crossings) geo.push(['imaginary-axis crossing', esc(`ω = ${fmt(x.omega)} rad/s at ${inp.sweep.label} = ${fmt(x.gain)}`)]);
+    if (locus.asymptotes)
+      geo.push([
+        'asymptotes',
+        esc(`centroid ${fmt(locus.asymptotes.centroid)}, angles ${locus.asymptotes.anglesDeg.map((a) => `${fmt(a)}°`).join(', ')}`),
+      ]);
+    for (const b of locus.breakaways)
+      geo.push(['breakaway / break-in', esc(`s = ${fmtS(b.s.re, b.s.im)} at ${inp.sweep.label} = ${fmt(b.gain)}`)]);
+    for (const x of locus.crossings)
+      geo.push(['imaginary-axis crossing', esc(`ω = ${fmt(x.omega)} rad/s at ${inp.sweep.label} = ${fmt(x.gain)}`)]);
     const padeMark = (o: PoleOrigin) => (o === 'approximant' ? ' (of the Padé approximant)' : '');
     for (const d of locus.departures) {
-      geo.push(['departure angle', esc(`${fmt(d.angleDeg)}° from the pole ${fmtS(d.at.re, d.at.im)}${d.multiplicity > 1 ? ` (×${d.multiplicity})` : ''}${padeMark(originAt(d.at, locus.poles, locus.poleOrigin))}`)]);
+      geo.push([
+        'departure angle',
+        esc(
+          `${fmt(d.angleDeg)}° from the pole ${fmtS(d.at.re, d.at.im)}${d.multiplicity > 1 ? ` (×${d.multiplicity})` : ''}${padeMark(originAt(d.at, locus.poles, locus.poleOrigin))}`,
+        ),
+      ]);
     }
     for (const a of locus.arrivals) {
-      geo.push(['arrival angle', esc(`${fmt(a.angleDeg)}° at the zero ${fmtS(a.at.re, a.at.im)}${a.multiplicity > 1 ? ` (×${a.multiplicity})` : ''}${padeMark(originAt(a.at, locus.zeros, locus.zeroOrigin))}`)]);
+      geo.push([
+        'arrival angle',
+        esc(
+          `${fmt(a.angleDeg)}° at the zero ${fmtS(a.at.re, a.at.im)}${a.multiplicity > 1 ? ` (×${a.multiplicity})` : ''}${padeMark(originAt(a.at, locus.zeros, locus.zeroOrigin))}`,
+        ),
+      ]);
     }
-    const marked = (ps: Cx[], origin: PoleOrigin[]) => ps.map((p, i) => `${fmtS(p.re, p.im)}${origin[i] === 'approximant' ? ' (Padé artefact)' : origin[i] === 'approximated' ? ' (via Padé)' : ''}`).join(', ') || 'none';
+    const marked = (ps: Cx[], origin: PoleOrigin[]) =>
+      ps
+        .map(
+          (p, i) =>
+            `${fmtS(p.re, p.im)}${origin[i] === 'approximant' ? ' (Padé artefact)' : origin[i] === 'approximated' ? ' (via Padé)' : ''}`,
+        )
+        .join(', ') || 'none';
     geo.push(['open-loop poles', esc(marked(locus.poles, locus.poleOrigin))], ['zeros', esc(marked(locus.zeros, locus.zeroOrigin))]);
     if (locus.fixedPoles.length) geo.push(['fixed poles (the sweep does not move them)', esc(marked(locus.fixedPoles, locus.fixedOrigin))]);
     parts.push(table(['geometry', 'value'], geo));
@@ -186,18 +234,38 @@ function loopsSection(inp: ReportInput): string {
   );
   parts.push(
     table(
-      ['loop', 'reading', 'loops opened', 'open-loop RHP poles of L', 'crossover [rad/s]', 'PM [°]', 'GM [dB]', 'DM [s]', 'Ms', 'bandwidth [rad/s]', 'closed loop'],
+      [
+        'loop',
+        'reading',
+        'loops opened',
+        'open-loop RHP poles of L',
+        'crossover [rad/s]',
+        'PM [°]',
+        'GM [dB]',
+        'DM [s]',
+        'Ms',
+        'bandwidth [rad/s]',
+        'closed loop',
+      ],
       L.rows.flatMap((r) => loopRows(L, r)),
       'loops',
     ),
   );
-  parts.push(`<h3>Which reading to act on</h3><ul>${L.rows.map((r) => `<li><b>${esc(r.label)}</b>: ${esc(r.advice.text)}</li>`).join('')}</ul>`);
+  parts.push(
+    `<h3>Which reading to act on</h3><ul>${L.rows.map((r) => `<li><b>${esc(r.label)}</b>: ${esc(r.advice.text)}</li>`).join('')}</ul>`,
+  );
   if (L.separations.length) {
     parts.push('<h3>Separation of nested loops</h3>');
     parts.push(
       table(
         ['inner loop', 'outer loop', 'ratio', 'basis', 'note'],
-        L.separations.map((s) => [esc(L.names[s.inner] ?? s.inner), esc(L.names[s.outer] ?? s.outer), s.ratio === null ? '—' : `${e(s.ratio, 3)}×`, esc(s.basis), `${s.flag ? '⚠ ' : ''}${esc(s.note)}`]),
+        L.separations.map((s) => [
+          esc(L.names[s.inner] ?? s.inner),
+          esc(L.names[s.outer] ?? s.outer),
+          s.ratio === null ? '—' : `${e(s.ratio, 3)}×`,
+          esc(s.basis),
+          `${s.flag ? '⚠ ' : ''}${esc(s.note)}`,
+        ]),
       ),
     );
   }
@@ -206,9 +274,16 @@ function loopsSection(inp: ReportInput): string {
     const inner = L.names[o.inner] ?? o.inner;
     const opened = o.opened.map((id) => L.names[id] ?? id).join(', ');
     parts.push(`<h3>${esc(outer)} with the real against an ideal ${esc(inner)}</h3>`);
-    parts.push(`<p>Both curves and both rows in one configuration: ${opened ? `${esc(opened)} opened` : 'every other loop as in the diagram'}, the inner loops of ${esc(outer)} closed.</p>`);
+    parts.push(
+      `<p>Both curves and both rows in one configuration: ${opened ? `${esc(opened)} opened` : 'every other loop as in the diagram'}, the inner loops of ${esc(outer)} closed.</p>`,
+    );
     const row = (name: string, m: MarginsData) => [esc(name), e(m.gainCrossover), e(m.phaseMarginDeg), gm(m), e(m.peakSensitivity)];
-    parts.push(table([`${outer}`, 'crossover [rad/s]', 'PM [°]', 'GM [dB]', 'Ms'], [row(`with the real ${inner}`, o.realMargins), row(`with an ideal ${inner}`, o.idealMargins)]));
+    parts.push(
+      table(
+        [`${outer}`, 'crossover [rad/s]', 'PM [°]', 'GM [dB]', 'Ms'],
+        [row(`with the real ${inner}`, o.realMargins), row(`with an ideal ${inner}`, o.idealMargins)],
+      ),
+    );
     parts.push(`<figure>${outerIdealChart(o, L.names, `ideal-${i}`)}</figure>`);
   });
   return parts.join('');
@@ -230,7 +305,11 @@ function responseSection(inp: ReportInput): string {
   const parts = ['<h2>Response</h2>'];
   if (!inp.response.ok) return parts.concat(failed(inp.response, 'The simulation')).join('');
   const r = inp.response.value;
-  const from = { request: 'asked for', diagram: "from the diagram's simulation settings", automatic: 'chosen to see the slowest mode settle' }[r.settings.untilFrom];
+  const from = {
+    request: 'asked for',
+    diagram: "from the diagram's simulation settings",
+    automatic: 'chosen to see the slowest mode settle',
+  }[r.settings.untilFrom];
   parts.push(
     `<p>Simulated to ${e(r.until)} s (${esc(from)}), rtol ${e(r.settings.rtol, 2)}, atol ${e(r.settings.atol, 2)}: ${r.run.status === 'ok' ? esc(r.run.message) : `<b class="bad">stopped early (${esc(r.run.status)})</b>: ${esc(r.run.message)}`}.</p>`,
   );
@@ -238,8 +317,30 @@ function responseSection(inp: ReportInput): string {
   parts.push(`<figure>${responseChart(r, shown, 'response')}</figure>`);
   parts.push(
     table(
-      ['signal', 'rise time 10–90 % [s]', 'overshoot [%]', 'peak time [s]', 'settling ±2 % [s]', 'steady state', 'steady-state error', 'IAE', 'time at limit [s]', 'peak effort'],
-      r.metrics.map((m) => [esc(m.label), e(m.riseTime), e(m.overshootPct), e(m.peakTime), e(m.settlingTime), e(m.steadyState), e(m.steadyStateError), e(m.iae), e(m.timeInSaturation), e(m.peakEffort)]),
+      [
+        'signal',
+        'rise time 10–90 % [s]',
+        'overshoot [%]',
+        'peak time [s]',
+        'settling ±2 % [s]',
+        'steady state',
+        'steady-state error',
+        'IAE',
+        'time at limit [s]',
+        'peak effort',
+      ],
+      r.metrics.map((m) => [
+        esc(m.label),
+        e(m.riseTime),
+        e(m.overshootPct),
+        e(m.peakTime),
+        e(m.settlingTime),
+        e(m.steadyState),
+        e(m.steadyStateError),
+        e(m.iae),
+        e(m.timeInSaturation),
+        e(m.peakEffort),
+      ]),
     ),
   );
   return parts.join('');
@@ -252,18 +353,33 @@ export function designReportHtml(inp: ReportInput): string {
   if (d.description) sections.push(`<p>${esc(d.description)}</p>`);
   if (inp.check.ok) {
     const F = inp.check.value.findings;
-    if (F.length) sections.push(`<h2>Findings</h2><ul>${F.map((f) => `<li class="${f.severity === 'error' ? 'bad' : f.severity === 'warning' ? 'warn' : ''}">${esc(f.severity)}: ${esc(findingText(f))}</li>`).join('')}</ul>`);
+    if (F.length)
+      sections.push(
+        `<h2>Findings</h2><ul>${F.map((f) => `<li class="${f.severity === 'error' ? 'bad' : f.severity === 'warning' ? 'warn' : ''}">${esc(f.severity)}: ${esc(findingText(f))}</li>`).join('')}</ul>`,
+      );
   }
   sections.push('<h2>Parameters</h2>');
   sections.push(
     d.parameters.length
-      ? table(['name', 'value', 'unit', 'description'], d.parameters.map((p) => [esc(p.name), e(p.value, 6), esc(p.unit ?? ''), esc(p.description ?? '')]))
+      ? table(
+          ['name', 'value', 'unit', 'description'],
+          d.parameters.map((p) => [esc(p.name), e(p.value, 6), esc(p.unit ?? ''), esc(p.description ?? '')]),
+        )
       : '<p>No named parameters.</p>',
   );
   sections.push(
     table(
       ['block', 'label', 'kind', 'parameters'],
-      d.blocks.map((b) => [esc(b.id), esc(b.label ?? ''), esc(b.kind), esc(Object.entries(b.params).map(([k, v]) => `${k}=${String(v)}`).join(', '))]),
+      d.blocks.map((b) => [
+        esc(b.id),
+        esc(b.label ?? ''),
+        esc(b.kind),
+        esc(
+          Object.entries(b.params)
+            .map(([k, v]) => `${k}=${String(v)}`)
+            .join(', '),
+        ),
+      ]),
     ),
   );
   sections.push(loopsSection(inp));

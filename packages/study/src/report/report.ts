@@ -56,14 +56,23 @@ export function reportStudy(d: Diagram, req: ReportRequest = {}, ctx: RunContext
   stage(0);
   const check = part(() => checkStudy(d, overrides));
   stage(1);
-  const locus = sw.choice && range && Number.isFinite(sw.value) ? part(() => locusStudy(d, { target: sw.choice!.target, value: live?.value ?? sw.value, range, overrides, ...pade })) : null;
+  const locus =
+    sw.choice && range && Number.isFinite(sw.value)
+      ? part(() => locusStudy(d, { target: sw.choice!.target, value: live?.value ?? sw.value, range, overrides, ...pade }))
+      : null;
   stage(2);
   const poles = part(() => polesStudy(d, { overrides, live, ...pade }));
   stage(3);
   const loops = part(() => loopsStudy(d, { overrides, live, frequency: true, ...pade }));
   stage(4);
   const runCtx: RunContext = { ...ctx, onProgress: (f) => ctx.onProgress?.(STAGES[4] + f * (STAGES[5] - STAGES[4])) };
-  const response = part(() => responseStudy(d, { overrides, live, linearOverlay: true, ...(req.maxWallMs !== undefined ? { maxWallMs: req.maxWallMs } : {}) }, runCtx));
+  const response = part(() =>
+    responseStudy(
+      d,
+      { overrides, live, linearOverlay: true, ...(req.maxWallMs !== undefined ? { maxWallMs: req.maxWallMs } : {}) },
+      runCtx,
+    ),
+  );
   stage(5);
   const fingerprint = diagramFingerprint(d);
   const html = designReportHtml({

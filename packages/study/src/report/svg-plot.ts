@@ -104,8 +104,16 @@ function panelTop(series: readonly PlotSeries[], width: number, title: boolean):
 }
 
 /** The size of a panel's plotting box (its series and title decide the legend's room). */
-export function plotBox(width: number, height: number, series: readonly PlotSeries[] = [], title = false): { width: number; height: number } {
-  return { width: Math.max(1, width - PLOT_MARGIN.left - PLOT_MARGIN.right), height: Math.max(1, height - panelTop(series, width, title) - PLOT_MARGIN.bottom) };
+export function plotBox(
+  width: number,
+  height: number,
+  series: readonly PlotSeries[] = [],
+  title = false,
+): { width: number; height: number } {
+  return {
+    width: Math.max(1, width - PLOT_MARGIN.left - PLOT_MARGIN.right),
+    height: Math.max(1, height - panelTop(series, width, title) - PLOT_MARGIN.bottom),
+  };
 }
 
 /** Round-number tick positions: 1-2-5 steps on a linear axis; decades (and 2, 5 when few) on a log one. */
@@ -170,7 +178,11 @@ interface Frame {
 }
 
 function frameOf(p: PlotPanel, width: number, top: number): Frame {
-  const box = { left: PLOT_MARGIN.left, top: top + panelTop(p.series, width, Boolean(p.title)), ...plotBox(width, p.height, p.series, Boolean(p.title)) };
+  const box = {
+    left: PLOT_MARGIN.left,
+    top: top + panelTop(p.series, width, Boolean(p.title)),
+    ...plotBox(width, p.height, p.series, Boolean(p.title)),
+  };
   const map = (a: PlotAxis, lo: number, span: number, flip: boolean) => {
     const log = a.scale === 'log';
     const f = (v: number) => (log ? Math.log10(v) : v);
@@ -261,7 +273,9 @@ function legendSvg(series: PlotSeries[], left: number, top: number, width: numbe
     const x = left + at[i][0];
     const y = top + at[i][1];
     if (s.line !== null) {
-      parts.push(`<line x1="${r1(x)}" y1="${r1(y)}" x2="${r1(x + 24)}" y2="${r1(y)}" stroke="${s.color}" stroke-width="${Math.min(s.line?.width ?? 2, 5)}" stroke-dasharray="${DASHES[s.line?.dash ?? 'solid']}"/>`);
+      parts.push(
+        `<line x1="${r1(x)}" y1="${r1(y)}" x2="${r1(x + 24)}" y2="${r1(y)}" stroke="${s.color}" stroke-width="${Math.min(s.line?.width ?? 2, 5)}" stroke-dasharray="${DASHES[s.line?.dash ?? 'solid']}"/>`,
+      );
     }
     if (s.marker) parts.push(markerPath(s.marker, x + 12, y, 8, s.color));
     parts.push(`<text x="${r1(x + 30)}" y="${r1(y + 4)}" font-size="11" fill="${MUTED}">${esc(s.name)}</text>`);
@@ -274,7 +288,9 @@ function panelSvg(p: PlotPanel, width: number, top: number, id: string): string 
   const { box } = f;
   const parts: string[] = [];
   const clip = `${id}-clip`;
-  parts.push(`<clipPath id="${clip}"><rect x="${box.left}" y="${box.top}" width="${r1(box.width)}" height="${r1(box.height)}"/></clipPath>`);
+  parts.push(
+    `<clipPath id="${clip}"><rect x="${box.left}" y="${box.top}" width="${r1(box.width)}" height="${r1(box.height)}"/></clipPath>`,
+  );
   if (p.title) parts.push(`<text x="${box.left}" y="${top + 14}" font-size="12" font-weight="600" fill="${TEXT}">${esc(p.title)}</text>`);
   parts.push(legendSvg(p.series, box.left, top + (p.title ? 30 : 12), box.width));
   // Grid and tick labels.
@@ -283,7 +299,9 @@ function panelSvg(p: PlotPanel, width: number, top: number, id: string): string 
   for (const v of xt) {
     const X = f.px(v);
     parts.push(`<line x1="${r1(X)}" y1="${box.top}" x2="${r1(X)}" y2="${r1(box.top + box.height)}" stroke="${GRID}"/>`);
-    parts.push(`<text x="${r1(X)}" y="${r1(box.top + box.height + 14)}" font-size="10" text-anchor="middle" fill="${MUTED}">${esc(tickText(v))}</text>`);
+    parts.push(
+      `<text x="${r1(X)}" y="${r1(box.top + box.height + 14)}" font-size="10" text-anchor="middle" fill="${MUTED}">${esc(tickText(v))}</text>`,
+    );
   }
   for (const v of yt) {
     const Y = f.py(v);
@@ -291,19 +309,25 @@ function panelSvg(p: PlotPanel, width: number, top: number, id: string): string 
     parts.push(`<text x="${box.left - 6}" y="${r1(Y + 3.5)}" font-size="10" text-anchor="end" fill="${MUTED}">${esc(tickText(v))}</text>`);
   }
   parts.push(`<rect x="${box.left}" y="${box.top}" width="${r1(box.width)}" height="${r1(box.height)}" fill="none" stroke="${AXIS}"/>`);
-  parts.push(`<text x="${r1(box.left + box.width / 2)}" y="${r1(box.top + box.height + 32)}" font-size="11" text-anchor="middle" fill="${MUTED}">${esc(p.x.label)}</text>`);
+  parts.push(
+    `<text x="${r1(box.left + box.width / 2)}" y="${r1(box.top + box.height + 32)}" font-size="11" text-anchor="middle" fill="${MUTED}">${esc(p.x.label)}</text>`,
+  );
   parts.push(
     `<text transform="translate(${r1(box.left - 52)},${r1(box.top + box.height / 2)}) rotate(-90)" font-size="11" text-anchor="middle" fill="${MUTED}">${esc(p.y.label)}</text>`,
   );
   const body: string[] = [];
   const rule = (x1: number, y1: number, x2: number, y2: number, r: PlotRule, lx: number, ly: number, anchor: string) => {
-    body.push(`<line x1="${r1(x1)}" y1="${r1(y1)}" x2="${r1(x2)}" y2="${r1(y2)}" stroke="${r.color}" stroke-width="1.2" stroke-dasharray="${DASHES[r.dash ?? 'dashed']}"/>`);
-    if (r.label) body.push(`<text x="${r1(lx)}" y="${r1(ly)}" font-size="10" text-anchor="${anchor}" fill="${r.color}">${esc(r.label)}</text>`);
+    body.push(
+      `<line x1="${r1(x1)}" y1="${r1(y1)}" x2="${r1(x2)}" y2="${r1(y2)}" stroke="${r.color}" stroke-width="1.2" stroke-dasharray="${DASHES[r.dash ?? 'dashed']}"/>`,
+    );
+    if (r.label)
+      body.push(`<text x="${r1(lx)}" y="${r1(ly)}" font-size="10" text-anchor="${anchor}" fill="${r.color}">${esc(r.label)}</text>`);
   };
   for (const r of p.hRules ?? []) {
     const Y = f.py(r.at);
     // The label above the line, or below it when the line runs along the top edge.
-    if (Number.isFinite(Y)) rule(box.left, Y, box.left + box.width, Y, r, box.left + box.width - 4, Y - box.top < 14 ? Y + 12 : Y - 4, 'end');
+    if (Number.isFinite(Y))
+      rule(box.left, Y, box.left + box.width, Y, r, box.left + box.width - 4, Y - box.top < 14 ? Y + 12 : Y - 4, 'end');
   }
   for (const r of p.vRules ?? []) {
     const X = f.px(r.at);
@@ -323,7 +347,15 @@ function panelSvg(p: PlotPanel, width: number, top: number, id: string): string 
       for (let i = 0; i < n; i++) {
         const X = f.px(s.x[i]);
         const Y = f.py(s.y[i]);
-        if (!Number.isFinite(X) || !Number.isFinite(Y) || X < box.left - 1 || X > box.left + box.width + 1 || Y < box.top - 1 || Y > box.top + box.height + 1) continue;
+        if (
+          !Number.isFinite(X) ||
+          !Number.isFinite(Y) ||
+          X < box.left - 1 ||
+          X > box.left + box.width + 1 ||
+          Y < box.top - 1 ||
+          Y > box.top + box.height + 1
+        )
+          continue;
         if (s.marker) body.push(markerPath(s.marker, X, Y, s.markerSize ?? 9, s.color));
         const t = s.labels?.[i];
         if (t) body.push(`<text x="${r1(X + 6)}" y="${r1(Y - 6)}" font-size="10" fill="${TEXT}">${esc(t)}</text>`);
@@ -352,7 +384,8 @@ function panelSvg(p: PlotPanel, width: number, top: number, id: string): string 
     body.push(
       `<path d="M${r1(X)},${r1(Y)}L${r1(X2)},${r1(Y2)}M${r1(tipX)},${r1(tipY)}l${r1(hx - hy * 0.5)},${r1(hy + hx * 0.5)}M${r1(tipX)},${r1(tipY)}l${r1(hx + hy * 0.5)},${r1(hy - hx * 0.5)}" stroke="${a.color}" stroke-width="1.8" fill="none"/>`,
     );
-    if (a.label) body.push(`<text x="${r1(X2 + dx * 4 + 3)}" y="${r1(Y2 + dy * 4 + 3)}" font-size="10" fill="${a.color}">${esc(a.label)}</text>`);
+    if (a.label)
+      body.push(`<text x="${r1(X2 + dx * 4 + 3)}" y="${r1(Y2 + dy * 4 + 3)}" font-size="10" fill="${a.color}">${esc(a.label)}</text>`);
   }
   parts.push(`<g clip-path="url(#${clip})">${body.join('')}</g>`);
   return parts.join('');
@@ -363,7 +396,8 @@ export function plotSvg(panels: readonly PlotPanel[], opts: { width: number; id:
   const head = opts.title ? 22 : 0;
   let top = head;
   const parts: string[] = [];
-  if (opts.title) parts.push(`<text x="${PLOT_MARGIN.left}" y="15" font-size="13" font-weight="600" fill="${TEXT}">${esc(opts.title)}</text>`);
+  if (opts.title)
+    parts.push(`<text x="${PLOT_MARGIN.left}" y="15" font-size="13" font-weight="600" fill="${TEXT}">${esc(opts.title)}</text>`);
   panels.forEach((p, i) => {
     parts.push(panelSvg(p, opts.width, top, `${opts.id}-${i}`));
     top += p.height;
