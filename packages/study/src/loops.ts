@@ -79,7 +79,7 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
     if (!outer) continue;
     // The real curve is the outer loop as read for its margins here: inner-first (outer.alone).
     // Two decades past the highest crossover of either reading is enough: beyond, a dead time
-    // only winds the phase round (the same rule as the Frequency view's grid).
+    // only winds the phase round (the Frequency view's rule too).
     const wc = [...o.real.gainCrossovers, ...o.ideal.gainCrossovers].filter((w) => w > 0 && Number.isFinite(w));
     const full = sharedGrid([o.idealLoop, outer.alone.loop]);
     const clipped = wc.length ? full.filter((w) => w <= 100 * Math.max(...wc)) : full;

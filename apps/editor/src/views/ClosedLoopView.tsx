@@ -3,7 +3,7 @@
  * and where it is measured (a probe, a block's output, a wire); see the closed-loop transfer
  * function between them with every loop closed — exact as a rational function, a dead time
  * factored out where it can be — its poles and zeros (those found through a Padé approximant
- * said so), its static gain, and its step response and Bode plot.
+ * said so), its static gain, and its step response and Bode diagram.
  */
 import { useMemo } from 'react';
 import { describeRef, type Diagram, type SignalRef } from '@loopwright/graph';
@@ -141,7 +141,7 @@ export function ClosedLoopView({ pal }: { pal: Palette }) {
       {!current && <div className={why ? 'lw-error' : 'lw-empty'}>{why ? `Closed loop: ${why}` : 'Computing…'}</div>}
       {current && (
         <>
-          <div className="lw-tf" data-testid="closed-loop-tf">
+          <div data-testid="closed-loop-tf" className="lw-transfer">
             T(s) from {describeRef(current.from)} to {describeRef(current.to)} ={' '}
             {transferText(current.transfer.num, current.transfer.den, current.transfer.delay)}
           </div>
