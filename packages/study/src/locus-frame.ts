@@ -4,7 +4,7 @@
  * not fast inner-loop modes or Padé poles that barely move, which would shrink the
  * interesting part to a dot.
  */
-import type { Cx, LocusBranch, LocusData, SweepRange } from './types.ts';
+import type { Cx, LocusBranch, LocusData, PoleOrigin, SweepRange } from './types.ts';
 
 /** The points a reader must see: poles, zeros, centroid, special points, current poles. */
 export function keyPoints(locus: LocusData | null, current: readonly Cx[]): Cx[] {
@@ -60,16 +60,36 @@ export function pointsNear(points: readonly Cx[], focus: readonly Cx[], factor =
 
 /**
  * The points to frame: the moving part of the slider range and the key points near it; when
- * nothing moves (or there is no range), every key point with the current poles. `framesBranches`
+ * nothing moves (or there is no range), every key point with the current poles. `origin`
+ * marks the current poles (Padé marks): branches carrying an approximant's pole are left out. `framesBranches`
  * says whether the whole branches should be framed too (nothing moves).
  */
 export function locusFocus(
   locus: LocusData | null,
   current: readonly Cx[],
   range: SweepRange | null,
+  origin: readonly PoleOrigin[] = [],
 ): { points: Cx[]; framesBranches: boolean } {
   const all = [...(locus?.branches ?? []), ...(locus?.oppositeBranches ?? [])];
-  const active = locus ? activePoints(locus.rangeBranches ?? all, range ? range.min : -Infinity, range ? range.max : Infinity) : [];
+  // A branch carrying a pole of the Padé approximant now (the current pole nearest the branch)
+  // is no part of the plant's picture: however far it moves, it is not framed.
+  const artefact = (b: LocusBranch) => {
+    if (!origin.some((o) => o === 'approximant')) return false;
+    let best = -1;
+    let dist = Infinity;
+    current.forEach((q, j) => {
+      for (let i = 0; i < b.re.length; i++) {
+        const d = Math.hypot(b.re[i] - q.re, b.im[i] - q.im);
+        if (d < dist) {
+          dist = d;
+          best = j;
+        }
+      }
+    });
+    return best >= 0 && origin[best] === 'approximant';
+  };
+  const branches = (locus?.rangeBranches ?? all).filter((b) => !artefact(b));
+  const active = locus ? activePoints(branches, range ? range.min : -Infinity, range ? range.max : Infinity) : [];
   if (active.length > 0) return { points: [...active, ...pointsNear(keyPoints(locus, []), active)], framesBranches: false };
   return { points: keyPoints(locus, current), framesBranches: true };
 }

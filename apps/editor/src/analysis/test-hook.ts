@@ -14,6 +14,8 @@ export interface AnalysisHook {
   /** ECharts getOption() of a chart on screen (functions dropped). */
   chartOption(name: string): unknown;
   chartNames(): string[];
+  /** The drawn extent [min, max] of each y-axis of a chart (what its panels show). */
+  yExtents(name: string): [number, number][] | null;
   /** Page coordinates (CSS px) of the s-plane point (re, im) on the locus chart. */
   locusPagePoint(re: number, im: number): { x: number; y: number } | null;
   latencies(): number[];
@@ -65,6 +67,16 @@ export function installAnalysisHook(): void {
       return c ? json(c.getOption()) : null;
     },
     chartNames,
+    yExtents(name) {
+      const c = chartInstance(name) as unknown as { getModel(): { getComponent(t: string, i: number): { axis?: { scale: { getExtent(): [number, number] } } } | undefined } } | undefined;
+      if (!c) return null;
+      const out: [number, number][] = [];
+      for (let i = 0; ; i++) {
+        const axis = c.getModel().getComponent('yAxis', i)?.axis;
+        if (!axis) return out;
+        out.push(axis.scale.getExtent());
+      }
+    },
     locusPagePoint(re, im) {
       const c = chartInstance('locus');
       if (!c) return null;

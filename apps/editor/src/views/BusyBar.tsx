@@ -23,6 +23,22 @@ const WHAT: Record<Channel, string> = {
   report: 'design report',
 };
 
+/**
+ * True while a channel has been computing for longer than SHOW_AFTER_MS: the view then dims
+ * what it still shows (the results of the inputs before), so they never pass for current.
+ */
+export function useStale(channel: Channel): boolean {
+  const since = useResultsStore((s) => s.busy[channel]?.since ?? null);
+  const [stale, setStale] = useState(false);
+  useEffect(() => {
+    setStale(false);
+    if (since === null) return;
+    const t = setTimeout(() => setStale(true), Math.max(0, since + SHOW_AFTER_MS - performance.now()));
+    return () => clearTimeout(t);
+  }, [since]);
+  return stale;
+}
+
 export function BusyBar() {
   const busy = useResultsStore((s) => s.busy);
   const errors = useResultsStore((s) => s.errors);

@@ -17,6 +17,7 @@ import { fmt } from '../analysis/sweep.ts';
 import { closedLoopBodeOption, closedLoopStepOption } from './closed-loop-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
+import { useStale } from './BusyBar.tsx';
 
 const refText = (r: SignalRef): string => ('block' in r ? `block:${r.block}` : `wire:${r.wire}`);
 
@@ -77,6 +78,7 @@ function RootsTable({ title, roots, origin, testId }: { title: string; roots: Cx
 export function ClosedLoopView({ pal }: { pal: Palette }) {
   const result = useResultsStore((s) => s.closedLoop);
   const error = useResultsStore((s) => s.errors['closed-loop']);
+  const stale = useStale('closed-loop');
   const diagram = useDiagramStore((s) => s.diagram);
   const from = useAnalysisStore((s) => s.closedLoopFrom);
   const to = useAnalysisStore((s) => s.closedLoopTo);
@@ -125,7 +127,7 @@ export function ClosedLoopView({ pal }: { pal: Palette }) {
   if (!points) return <div className="lw-empty">Add a source and a probe (or pick any two wires) to see the closed loop between them.</div>;
   const why = result && !result.ok ? result.error : error;
   return (
-    <div className="lw-view lw-closed-loop">
+    <div className={`lw-view lw-closed-loop${stale ? ' lw-stale' : ''}`} data-stale={stale}>
       <div className="lw-view-tools">
         {picker}
         {current && (

@@ -147,7 +147,7 @@ export function LocusView({ pal }: { pal: Palette }) {
   // special points near it), not the moving poles themselves, so it stays put while sliding.
   const fitted = useMemo(() => {
     const all = [...(locus?.branches ?? []), ...(locus?.oppositeBranches ?? [])];
-    const focus = locusFocus(locus, current, range);
+    const focus = locusFocus(locus, current, range, origin);
     return planeWindow(box, focus.points, focus.framesBranches ? all : []);
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [locus, locus ? null : current, box.width, box.height, range?.min, range?.max]);

@@ -12,6 +12,7 @@ import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { fmt } from '../analysis/sweep.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
+import { useStale } from './BusyBar.tsx';
 import type { LoopsData, MarginsData, OuterIdealData } from '@loopwright/study';
 import { LOOP_COLUMNS } from './loop-columns.ts';
 import type { ChartOption } from './echarts-setup.ts';
@@ -283,9 +284,10 @@ export function LoopsView({ pal }: { pal: Palette }) {
   const result = useResultsStore((s) => s.loops);
   const pinned = useAnalysisStore((s) => s.pinned);
   const loops = result?.ok ? result.value : null;
+  const stale = useStale('loops');
   if (!loops) return <div className="lw-empty">{result && !result.ok ? `Loops: ${result.error}` : 'Computing…'}</div>;
   return (
-    <div className="lw-view lw-loops">
+    <div className={`lw-view lw-loops${stale ? ' lw-stale' : ''}`} data-stale={stale}>
       <div className="lw-view-tools">
         <span className={loops.stable ? 'lw-ok' : 'lw-bad'}>
           {loops.stable ? 'whole diagram stable (closed-loop poles)' : 'whole diagram UNSTABLE (closed-loop poles)'}

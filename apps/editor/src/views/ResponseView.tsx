@@ -14,6 +14,7 @@ import { download, responseCsv, slug } from '../analysis/export.ts';
 import { actuatorOption, probeColor, responseHeight, responseOption } from './response-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
+import { useStale } from './BusyBar.tsx';
 
 export function exportResponseCsv(r: ResponseResult): void {
   download(`${slug(useDiagramStore.getState().diagram.title)}-traces.csv`, responseCsv(r), 'text/csv');
@@ -22,6 +23,7 @@ export function exportResponseCsv(r: ResponseResult): void {
 export function ResponseView({ pal }: { pal: Palette }) {
   const r = useResultsStore((s) => s.response);
   const error = useResultsStore((s) => s.errors.response);
+  const stale = useStale('response');
   const pinnedRun = useResultsStore((s) => s.pinnedRun);
   const pinned = comparableRun(pinnedRun, r);
   // The run's end time and the probes shown are simulation settings of the document (saved, undoable).
@@ -41,7 +43,7 @@ export function ResponseView({ pal }: { pal: Palette }) {
     setSimulation({ probes: r.probes.map((p) => p.id).filter((p) => cur.has(p)) });
   };
   return (
-    <div className="lw-view lw-response">
+    <div className={`lw-view lw-response${stale ? ' lw-stale' : ''}`} data-stale={stale}>
       <div className="lw-view-tools">
         <span className="lw-muted">Probes</span>
         {r.probes.map((p) => (

@@ -70,11 +70,7 @@ const approximant = (origin: readonly PoleOrigin[] | undefined, i: number) => or
 export function locusChart(locus: LocusData | null, poles: PolesData | null, label: string, id: string): { svg: string; outside: number } {
   const height = 540;
   const current = poles?.poles ?? [];
-  const focus = locusFocus(
-    locus,
-    current.filter((_, i) => !approximant(poles?.origin, i)),
-    locus?.range ?? null,
-  );
+  const focus = locusFocus(locus, current, locus?.range ?? null, poles?.origin ?? []);
   const key: Cx[] = focus.points;
   const series: PlotSeries[] = [];
   const arrows: PlotArrow[] = [];
