@@ -50,43 +50,19 @@ const num = (x: number, digits = 6) => {
 export const fmtNumber = num;
 
 /** Roots for people: conjugate pairs once as "a ± bj". */
-export function fmtRoots(roots: readonly Complex[]): string {
-  if (roots.length === 0) return 'none';
-  const out: string[] = [];
-  for (const z of roots) {
-    if (
-      z.im < 0 &&
-      roots.some(
-        (w) =>
-          w.im > 0 &&
-          Math.abs(w.re - z.re) <= 1e-12 * Math.max(1, Math.abs(z.re)) &&
-          Math.abs(w.im + z.im) <= 1e-12 * Math.max(1, Math.abs(z.im)),
-      )
-    )
-      continue;
-    out.push(z.im === 0 ? num(z.re) : `${num(z.re)} ± ${num(Math.abs(z.im))}j`);
-  }
-  return out.join(', ');
-}
+export const fmtRoots = (roots: readonly Complex[]): string => fmtRootsMarked(roots, []);
 
 /** Words for a root found through a Padé approximant (see study PoleOrigin); nothing for an exact one. */
 const ORIGIN_MARK: Record<string, string> = { exact: '', approximated: ' [via Padé]', approximant: ' [Padé artefact]' };
 
-/** Roots as fmtRoots prints them, each marked by how it was found (origin[i] belongs to roots[i]). */
+/** Roots as fmtRoots prints them, each marked by how it was found (origin[i] belongs to roots[i]; none: unmarked). */
 export function fmtRootsMarked(roots: readonly Complex[], origin: readonly string[]): string {
   if (roots.length === 0) return 'none';
   const out: string[] = [];
   roots.forEach((z, i) => {
-    if (
-      z.im < 0 &&
-      roots.some(
-        (w) =>
-          w.im > 0 &&
-          Math.abs(w.re - z.re) <= 1e-12 * Math.max(1, Math.abs(z.re)) &&
-          Math.abs(w.im + z.im) <= 1e-12 * Math.max(1, Math.abs(z.im)),
-      )
-    )
-      return;
+    // The lower member of a conjugate pair is said with the upper one.
+    const tol = (v: number) => 1e-12 * Math.max(1, Math.abs(v));
+    if (z.im < 0 && roots.some((w) => w.im > 0 && Math.abs(w.re - z.re) <= tol(z.re) && Math.abs(w.im + z.im) <= tol(z.im))) return;
     out.push(`${z.im === 0 ? num(z.re) : `${num(z.re)} ± ${num(Math.abs(z.im))}j`}${ORIGIN_MARK[origin[i]] ?? ''}`);
   });
   return out.join(', ');

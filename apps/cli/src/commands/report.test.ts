@@ -7,26 +7,9 @@ import { describe, expect, it } from 'vitest';
 import { positioningAxis, serializeDiagram } from '@loopwright/graph';
 import { runStudy } from '@loopwright/study';
 import { main } from '../main.ts';
-import type { CliIo } from '../io.ts';
+import { fakeIo as makeIo } from '../fake-io.ts';
 
-function fakeIo(files: Record<string, string>, unwritable: string[] = []) {
-  let out = '';
-  let err = '';
-  const written: Record<string, string> = {};
-  const io: CliIo = {
-    stdout: (s) => void (out += s),
-    stderr: (s) => void (err += s),
-    readFile: async (p) => {
-      if (!(p in files)) throw Object.assign(new Error(`ENOENT: ${p}`), { code: 'ENOENT' });
-      return files[p];
-    },
-    writeFile: async (p, text) => {
-      if (unwritable.includes(p)) throw Object.assign(new Error(`EACCES: ${p}`), { code: 'EACCES' });
-      written[p] = text;
-    },
-  };
-  return { io, out: () => out, err: () => err, written };
-}
+const fakeIo = (files: Record<string, string>, unwritable: string[] = []) => makeIo(files, { failWrites: unwritable });
 
 const files = { 'axis.loop.json': serializeDiagram(positioningAxis) };
 

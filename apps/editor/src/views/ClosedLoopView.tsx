@@ -8,7 +8,6 @@
 import { useMemo } from 'react';
 import { describeRef, type Diagram, type SignalRef } from '@loopwright/graph';
 import { poly } from '@loopwright/lti';
-import { ORIGIN_TEXT, dampingOf, type Cx, type PoleOrigin } from '@loopwright/study';
 import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { closedLoopPoints } from '../analysis/driver.ts';
@@ -16,6 +15,7 @@ import { useDiagramStore } from '../store/diagram-store.ts';
 import { fmt } from '../analysis/sweep.ts';
 import { closedLoopBodeOption, closedLoopStepOption } from './closed-loop-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
+import { RootsTable } from './RootsTable.tsx';
 import type { Palette } from './palette.ts';
 import { useStale } from './BusyBar.tsx';
 
@@ -39,39 +39,25 @@ function transferText(num: number[], den: number[], delay: number): string {
   return delay > 0 ? `${body} · e^(−${fmt(delay)}·s)` : body;
 }
 
-function RootsTable({ title, roots, origin, testId }: { title: string; roots: Cx[]; origin: PoleOrigin[]; testId: string }) {
-  const shown = roots.map((p, i) => ({ p, o: origin[i] ?? 'exact' })).filter(({ p }) => p.im >= 0);
+/** A labelled choice of a point of the diagram. */
+function PointSelect(props: {
+  label: string;
+  aria: string;
+  value: string;
+  options: { value: string; label: string }[];
+  onChange(v: string): void;
+}) {
   return (
-    <table className="lw-table lw-compact" data-testid={testId}>
-      <thead>
-        <tr>
-          <th>{title}</th>
-          <th>ζ</th>
-          <th>ωn [rad/s]</th>
-          <th>how it was found</th>
-        </tr>
-      </thead>
-      <tbody>
-        {shown.length === 0 && (
-          <tr>
-            <td colSpan={4} className="lw-muted">
-              none
-            </td>
-          </tr>
-        )}
-        {shown.map(({ p, o }, i) => {
-          const z = dampingOf(p);
-          return (
-            <tr key={i} data-origin={o} className={o === 'approximant' ? 'lw-artefact' : undefined}>
-              <td>{p.im > 0 ? `${fmt(p.re)} ± j${fmt(p.im)}` : fmt(p.re)}</td>
-              <td>{fmt(z.zeta, 3)}</td>
-              <td>{fmt(z.omegaN)}</td>
-              <td>{ORIGIN_TEXT[o]}</td>
-            </tr>
-          );
-        })}
-      </tbody>
-    </table>
+    <label className="lw-field">
+      <span>{props.label}</span>
+      <select aria-label={props.aria} value={props.value} onChange={(e) => props.onChange(e.target.value)}>
+        {props.options.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
+      </select>
+    </label>
   );
 }
 
@@ -94,34 +80,20 @@ export function ClosedLoopView({ pal }: { pal: Palette }) {
 
   const picker = (
     <>
-      <label className="lw-field">
-        <span>from</span>
-        <select
-          aria-label="Closed loop from"
-          value={points ? refText(points.from) : ''}
-          onChange={(e) => setOptions({ closedLoopFrom: e.target.value })}
-        >
-          {fromOptions.map((o) => (
-            <option key={o.value} value={o.value}>
-              {o.label}
-            </option>
-          ))}
-        </select>
-      </label>
-      <label className="lw-field">
-        <span>to</span>
-        <select
-          aria-label="Closed loop to"
-          value={points ? refText(points.to) : ''}
-          onChange={(e) => setOptions({ closedLoopTo: e.target.value })}
-        >
-          {toOptions.map((o) => (
-            <option key={o.value} value={o.value}>
-              {o.label}
-            </option>
-          ))}
-        </select>
-      </label>
+      <PointSelect
+        label="from"
+        aria="Closed loop from"
+        value={points ? refText(points.from) : ''}
+        options={fromOptions}
+        onChange={(v) => setOptions({ closedLoopFrom: v })}
+      />
+      <PointSelect
+        label="to"
+        aria="Closed loop to"
+        value={points ? refText(points.to) : ''}
+        options={toOptions}
+        onChange={(v) => setOptions({ closedLoopTo: v })}
+      />
     </>
   );
   if (!points) return <div className="lw-empty">Add a source and a probe (or pick any two wires) to see the closed loop between them.</div>;

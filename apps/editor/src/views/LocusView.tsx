@@ -16,10 +16,11 @@ import {
   type LocusHit,
   type PlaneZoom,
 } from '../analysis/locus-geometry.ts';
-import { ORIGIN_TEXT, formatComplex, locusFocus, originAt, type Cx, type PoleOrigin } from '@loopwright/study';
+import { formatComplex, locusFocus, originAt, type Cx, type PoleOrigin } from '@loopwright/study';
 import { fmt } from '../analysis/sweep.ts';
 import { locusBox, locusLivePatch, locusOption } from './locus-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
+import { RootsTable } from './RootsTable.tsx';
 import { commitSweepValue, useSweepChoice, widenRangeFor } from './SweepBar.tsx';
 import type { Palette } from './palette.ts';
 import type { LocusData } from '@loopwright/study';
@@ -75,12 +76,13 @@ function LocusList({
       'arrival angle',
       `${fmt(a.angleDeg)}° at ${formatComplex(a.at.re, a.at.im)}${pade(originAt(a.at, locus!.zeros, locus!.zeroOrigin))}`,
     ]);
-  const shown = poles.map((p, i) => ({ p, o: origin[i] ?? 'exact' })).filter(({ p }) => p.im >= 0);
+  const shown = poles.filter((p) => p.im >= 0).length;
+  const artefacts = poles.some((p, i) => p.im >= 0 && origin[i] === 'approximant');
   return (
     <details className="lw-locus-list" data-testid="locus-list">
       <summary>
-        Geometry and closed-loop poles ({rows.length} items, {shown.length} poles
-        {shown.some((x) => x.o === 'approximant') ? ', some of a Padé approximant' : ''})
+        Geometry and closed-loop poles ({rows.length} items, {shown} poles
+        {artefacts ? ', some of a Padé approximant' : ''})
       </summary>
       <table className="lw-table lw-compact" data-testid="locus-geometry">
         <tbody>
@@ -92,29 +94,7 @@ function LocusList({
           ))}
         </tbody>
       </table>
-      <table className="lw-table lw-compact" data-testid="locus-poles">
-        <thead>
-          <tr>
-            <th>closed-loop pole</th>
-            <th>ζ</th>
-            <th>ωn [rad/s]</th>
-            <th>how it was found</th>
-          </tr>
-        </thead>
-        <tbody>
-          {shown.map(({ p, o }, i) => {
-            const z = dampingOf(p);
-            return (
-              <tr key={i} data-origin={o} className={o === 'approximant' ? 'lw-artefact' : undefined}>
-                <td>{p.im > 0 ? `${fmt(p.re)} ± j${fmt(p.im)}` : fmt(p.re)}</td>
-                <td>{fmt(z.zeta, 3)}</td>
-                <td>{fmt(z.omegaN)}</td>
-                <td>{ORIGIN_TEXT[o]}</td>
-              </tr>
-            );
-          })}
-        </tbody>
-      </table>
+      <RootsTable title="closed-loop pole" roots={poles} origin={origin} testId="locus-poles" />
     </details>
   );
 }

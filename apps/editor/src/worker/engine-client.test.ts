@@ -26,16 +26,22 @@ class FakeWorker implements WorkerLike {
 
 const diagram = {} as never;
 
+/** A client whose workers are fakes (kept in order of creation) and the replies it delivers. */
+function fakeClient(staleMs?: number) {
+  const workers: FakeWorker[] = [];
+  const c = new EngineClient(() => {
+    const w = new FakeWorker();
+    workers.push(w);
+    return w;
+  }, staleMs);
+  const got: EngineReply[] = [];
+  c.onReply((r) => got.push(r));
+  return { c, workers, got };
+}
+
 describe('engine client', () => {
   it('drops replies to superseded requests and delivers the newest', () => {
-    const workers: FakeWorker[] = [];
-    const c = new EngineClient(() => {
-      const w = new FakeWorker();
-      workers.push(w);
-      return w;
-    });
-    const got: EngineReply[] = [];
-    c.onReply((r) => got.push(r));
+    const { c, workers, got } = fakeClient();
     const a = c.send({ channel: 'analysis', diagram, studies: [] });
     const b = c.send({ channel: 'analysis', diagram, studies: [] });
     expect(workers).toHaveLength(1);
@@ -47,14 +53,7 @@ describe('engine client', () => {
     c.dispose();
   });
   it('channels are independent: a long simulation does not hold up the analysis', () => {
-    const workers: FakeWorker[] = [];
-    const c = new EngineClient(() => {
-      const w = new FakeWorker();
-      workers.push(w);
-      return w;
-    });
-    const got: EngineReply[] = [];
-    c.onReply((r) => got.push(r));
+    const { c, workers, got } = fakeClient();
     c.send({ channel: 'response', diagram, studies: [] });
     const a = c.send({ channel: 'analysis', diagram, studies: [] });
     expect(workers).toHaveLength(2);
@@ -65,14 +64,7 @@ describe('engine client', () => {
   it('a stale simulation is cancelled: the worker is ended and the newest request resent to a fresh one', () => {
     vi.useFakeTimers();
     try {
-      const workers: FakeWorker[] = [];
-      const c = new EngineClient(() => {
-        const w = new FakeWorker();
-        workers.push(w);
-        return w;
-      }, 400);
-      const got: EngineReply[] = [];
-      c.onReply((r) => got.push(r));
+      const { c, workers, got } = fakeClient(400);
       c.send({ channel: 'response', diagram, studies: [{ kind: 'run', overrides: { k: 1 } }] });
       vi.advanceTimersByTime(100);
       const newest = c.send({ channel: 'response', diagram, studies: [{ kind: 'run', overrides: { k: 2 } }] });
@@ -89,14 +81,7 @@ describe('engine client', () => {
     }
   });
   it('Cancel ends the worker at once, answers the newest request as cancelled, and the next request gets a fresh worker', () => {
-    const workers: FakeWorker[] = [];
-    const c = new EngineClient(() => {
-      const w = new FakeWorker();
-      workers.push(w);
-      return w;
-    });
-    const got: EngineReply[] = [];
-    c.onReply((r) => got.push(r));
+    const { c, workers, got } = fakeClient();
     const id = c.send({ channel: 'loops', diagram, studies: [] });
     expect(c.cancel('loops')).toBe(true);
     expect(workers[0].terminated).toBe(true);
@@ -111,12 +96,7 @@ describe('engine client', () => {
     c.dispose();
   });
   it('progress reaches its listeners for the newest request only', () => {
-    const workers: FakeWorker[] = [];
-    const c = new EngineClient(() => {
-      const w = new FakeWorker();
-      workers.push(w);
-      return w;
-    });
+    const { c, workers } = fakeClient();
     const seen: EngineProgress[] = [];
     c.onProgress((p) => seen.push(p));
     const old = c.send({ channel: 'report', diagram, studies: [] });
