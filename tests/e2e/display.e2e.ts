@@ -84,10 +84,22 @@ interface State {
     rows: Row[];
     names: Record<string, string>;
     stable: boolean;
-    outerVsIdeal: { outer: string; inner: string; opened: string[]; realMargins: Margins; idealMargins: Margins; omega: number[]; realMagDb: number[]; idealMagDb: number[] }[];
+    outerVsIdeal: {
+      outer: string;
+      inner: string;
+      opened: string[];
+      realMargins: Margins;
+      idealMargins: Margins;
+      omega: number[];
+      realMagDb: number[];
+      idealMagDb: number[];
+    }[];
   } | null;
   response: Run | null;
-  closedLoop: { ok: boolean; value?: { transfer: { num: number[]; den: number[]; delay: number }; staticGain: number; poles: Cx[]; poleOrigin: string[] } } | null;
+  closedLoop: {
+    ok: boolean;
+    value?: { transfer: { num: number[]; den: number[]; delay: number }; staticGain: number; poles: Cx[]; poleOrigin: string[] };
+  } | null;
   pinnedRun: { ok: boolean; value?: Run; error?: string } | null;
   pinned: { label: string } | null;
   errors: Record<string, string | null>;
@@ -97,8 +109,18 @@ interface State {
 
 const state = (page: Page) => analysisState<State>(page);
 const settled = (page: Page) => analysisSettled<State>(page, 60_000);
-type Hook = { __loopwright: { analysis: { chartOption(n: string): unknown; chartNames(): string[]; yExtents(n: string): [number, number][] | null; locusPagePoint(re: number, im: number): { x: number; y: number } } } };
-const chartOption = <T>(page: Page, name: string) => page.evaluate((n) => (window as unknown as Hook).__loopwright.analysis.chartOption(n), name) as Promise<T>;
+type Hook = {
+  __loopwright: {
+    analysis: {
+      chartOption(n: string): unknown;
+      chartNames(): string[];
+      yExtents(n: string): [number, number][] | null;
+      locusPagePoint(re: number, im: number): { x: number; y: number };
+    };
+  };
+};
+const chartOption = <T>(page: Page, name: string) =>
+  page.evaluate((n) => (window as unknown as Hook).__loopwright.analysis.chartOption(n), name) as Promise<T>;
 const chartNames = (page: Page) => page.evaluate(() => (window as unknown as Hook).__loopwright.analysis.chartNames());
 
 /** The loop names of our cascade and the wires they open (feedback wires of the build below). */
@@ -107,7 +129,10 @@ const LOOPS = { 'current loop': 'w13', 'speed loop': 'w14', 'position loop': 'w1
 /** The slider-range branch (upper half-plane) that moves most relative to its size: the one the window frames. */
 function dominantRangeBranch(st: State) {
   return st
-    .locus!.rangeBranches!.map((b) => ({ b, span: Math.hypot(b.re[b.re.length - 1] - b.re[0], b.im[b.im.length - 1] - b.im[0]) / Math.max(1, Math.hypot(b.re[0], b.im[0])) }))
+    .locus!.rangeBranches!.map((b) => ({
+      b,
+      span: Math.hypot(b.re[b.re.length - 1] - b.re[0], b.im[b.im.length - 1] - b.im[0]) / Math.max(1, Math.hypot(b.re[0], b.im[0])),
+    }))
     .filter((x) => Math.max(...x.b.im) > 0)
     .sort((p, q) => q.span - p.span)[0].b;
 }
@@ -138,8 +163,25 @@ describe('display: a three-loop cascade built through the UI only', () => {
   it('builds the cascade: parts, mouse wiring, a PWM dead time dropped into its wire, Details, Parameters, cuts, probe units', async () => {
     await page.getByRole('button', { name: 'New diagram' }).click();
     await viewSettled(page);
+    await setField(page, 'Diagram title', 'Three-loop positioning drive');
     // Parts in signal order: position P, speed PI, current PI, bridge, winding, torque constant, mechanics, pulley.
-    const parts = ['Source', 'Summing junction', 'Gain', 'Summing junction', 'PID controller', 'Summing junction', 'PID controller', 'Saturation', 'First-order lag', 'Gain', 'First-order lag', 'Integrator', 'Probe', 'Probe', 'Probe'];
+    const parts = [
+      'Source',
+      'Summing junction',
+      'Gain',
+      'Summing junction',
+      'PID controller',
+      'Summing junction',
+      'PID controller',
+      'Saturation',
+      'First-order lag',
+      'Gain',
+      'First-order lag',
+      'Integrator',
+      'Probe',
+      'Probe',
+      'Probe',
+    ];
     for (const p of parts) await page.getByRole('button', { name: `Add ${p}`, exact: true }).click();
     await page.getByRole('button', { name: 'Fit to view' }).click();
     await viewSettled(page);
@@ -152,7 +194,11 @@ describe('display: a three-loop cascade built through the UI only', () => {
     await wire(page, 'lag2-out', 'probe2-in'); // speed probe (w16)
     await wire(page, 'lag1-out', 'probe3-in'); // current probe (w17)
     let d = await getDiagram(page);
-    expect(d.wires.slice(12, 15).map((w) => `${w.id}:${w.from.block}->${w.to.block}.${w.to.port}`)).toEqual(['w13:lag1->sum3.in2', 'w14:lag2->sum2.in2', 'w15:int1->sum1.in2']);
+    expect(d.wires.slice(12, 15).map((w) => `${w.id}:${w.from.block}->${w.to.block}.${w.to.port}`)).toEqual([
+      'w13:lag1->sum3.in2',
+      'w14:lag2->sum2.in2',
+      'w15:int1->sum1.in2',
+    ]);
     await page.getByRole('button', { name: 'Tidy layout' }).click();
     await page.waitForTimeout(300);
     await viewSettled(page);
@@ -163,11 +209,15 @@ describe('display: a three-loop cascade built through the UI only', () => {
     const pane = page.locator('.react-flow__pane');
     const box = (await pane.boundingBox())!;
     const h0 = (await history(page)).past;
-    await page.getByRole('button', { name: 'Add Dead time', exact: true }).dragTo(pane, { targetPosition: { x: at.x - box.x, y: at.y - box.y } });
+    await page
+      .getByRole('button', { name: 'Add Dead time', exact: true })
+      .dragTo(pane, { targetPosition: { x: at.x - box.x, y: at.y - box.y } });
     await expect.poll(async () => (await getDiagram(page)).blocks.length).toBe(parts.length + 1);
     d = await getDiagram(page);
     expect((await history(page)).past, 'dropping into a wire is one undo step').toBe(h0 + 1);
-    expect(d.wires.filter((w) => w.from.block === 'delay1' || w.to.block === 'delay1').map((w) => `${w.from.block}->${w.to.block}`)).toEqual(['pid2->delay1', 'delay1->sat1']);
+    expect(
+      d.wires.filter((w) => w.from.block === 'delay1' || w.to.block === 'delay1').map((w) => `${w.from.block}->${w.to.block}`),
+    ).toEqual(['pid2->delay1', 'delay1->sat1']);
     await page.getByRole('button', { name: 'Tidy layout' }).click();
     await page.waitForTimeout(300);
     await viewSettled(page);
@@ -190,19 +240,99 @@ describe('display: a three-loop cascade built through the UI only', () => {
     }
     // Block data: a drive of our own (winding 0.8 Ω / 1.6 mH, kt 0.05 N·m/A, J 2e-5 kg·m², b 1e-4 N·m·s/rad, 24 V bridge, 6 A limit).
     const fields: [string, [string, string][]][] = [
-      ['src1', [['Amplitude', '4'], ['Start time', '0.01'], ['Label', 'position setpoint']]],
-      ['gain1', [['Gain k', 'Kp_pos'], ['Label', 'position controller']]],
-      ['pid1', [['Proportional gain kp', 'Kp_spd'], ['Integral time ti', '0.02'], ['Output lower limit', '-I_max'], ['Output upper limit', 'I_max'], ['Label', 'speed controller']]],
-      ['pid2', [['Proportional gain kp', 'Kp_cur'], ['Integral time ti', '0.0015'], ['Label', 'current controller']]],
-      ['delay1', [['Dead time', 'T_pwm'], ['Label', 'PWM delay']]],
-      ['sat1', [['Lower limit', '-24'], ['Upper limit', '24'], ['Label', 'bridge']]],
-      ['lag1', [['Static gain k', '1.25'], ['Time constant tau', '0.002'], ['Label', 'winding']]],
-      ['gain2', [['Gain k', '0.05'], ['Label', 'torque constant']]],
-      ['lag2', [['Static gain k', '10000'], ['Time constant tau', '0.2'], ['Label', 'mechanics']]],
+      [
+        'src1',
+        [
+          ['Amplitude', '4'],
+          ['Start time', '0.01'],
+          ['Label', 'position setpoint'],
+        ],
+      ],
+      [
+        'gain1',
+        [
+          ['Gain k', 'Kp_pos'],
+          ['Label', 'position controller'],
+        ],
+      ],
+      [
+        'pid1',
+        [
+          ['Proportional gain kp', 'Kp_spd'],
+          ['Integral time ti', '0.02'],
+          ['Output lower limit', '-I_max'],
+          ['Output upper limit', 'I_max'],
+          ['Label', 'speed controller'],
+        ],
+      ],
+      [
+        'pid2',
+        [
+          ['Proportional gain kp', 'Kp_cur'],
+          ['Integral time ti', '0.0015'],
+          ['Label', 'current controller'],
+        ],
+      ],
+      [
+        'delay1',
+        [
+          ['Dead time', 'T_pwm'],
+          ['Label', 'PWM delay'],
+        ],
+      ],
+      [
+        'sat1',
+        [
+          ['Lower limit', '-24'],
+          ['Upper limit', '24'],
+          ['Label', 'bridge'],
+        ],
+      ],
+      [
+        'lag1',
+        [
+          ['Static gain k', '1.25'],
+          ['Time constant tau', '0.002'],
+          ['Label', 'winding'],
+        ],
+      ],
+      [
+        'gain2',
+        [
+          ['Gain k', '0.05'],
+          ['Label', 'torque constant'],
+        ],
+      ],
+      [
+        'lag2',
+        [
+          ['Static gain k', '10000'],
+          ['Time constant tau', '0.2'],
+          ['Label', 'mechanics'],
+        ],
+      ],
       ['int1', [['Label', 'pulley']]],
-      ['probe1', [['Unit', 'rad'], ['Label', 'position']]],
-      ['probe2', [['Unit', 'rad/s'], ['Label', 'speed']]],
-      ['probe3', [['Unit', 'A'], ['Label', 'current']]],
+      [
+        'probe1',
+        [
+          ['Unit', 'rad'],
+          ['Label', 'position'],
+        ],
+      ],
+      [
+        'probe2',
+        [
+          ['Unit', 'rad/s'],
+          ['Label', 'speed'],
+        ],
+      ],
+      [
+        'probe3',
+        [
+          ['Unit', 'A'],
+          ['Label', 'current'],
+        ],
+      ],
     ];
     for (const [id, list] of fields) {
       await selectBlock(page, id);
@@ -227,6 +357,7 @@ describe('display: a three-loop cascade built through the UI only', () => {
     expect(built.blocks.find((b) => b.id === 'pid1')!.params).toMatchObject({ kp: 'Kp_spd', ti: 0.02, umin: '-I_max', umax: 'I_max' });
     expect(built.blocks.find((b) => b.id === 'delay1')!.params).toMatchObject({ delay: 'T_pwm' });
     expect(built.simulation?.end).toBe(0.3);
+    expect(built.title).toBe('Three-loop positioning drive');
     await expect.poll(() => page.getByLabel('No findings').count(), { timeout: 30_000 }).toBe(1);
     await settled(page);
     await page.getByRole('button', { name: 'Fit to view' }).click();
@@ -374,7 +505,10 @@ describe('display: a three-loop cascade built through the UI only', () => {
     // Hover the locus, then switch the sweep without moving: no readout of the old quantity stays.
     const b = dominantRangeBranch(before);
     const j = Math.floor(b.re.length / 2);
-    const at = await page.evaluate(([re, im]) => (window as unknown as Hook).__loopwright.analysis.locusPagePoint(re, im), [b.re[j], b.im[j]]);
+    const at = await page.evaluate(
+      ([re, im]) => (window as unknown as Hook).__loopwright.analysis.locusPagePoint(re, im),
+      [b.re[j], b.im[j]],
+    );
     await page.mouse.move(at.x, at.y);
     await expect.poll(() => page.getByTestId('locus-readout').textContent()).toMatch(/^Kp_pos/);
     await page.getByLabel('Swept quantity').selectOption('param:Kp_cur');
@@ -388,7 +522,10 @@ describe('display: a three-loop cascade built through the UI only', () => {
     const br = dominantRangeBranch(st);
     const k = Math.floor(br.re.length / 2);
     await page.mouse.move(5, 5);
-    const p2 = await page.evaluate(([re, im]) => (window as unknown as Hook).__loopwright.analysis.locusPagePoint(re, im), [br.re[k], br.im[k]]);
+    const p2 = await page.evaluate(
+      ([re, im]) => (window as unknown as Hook).__loopwright.analysis.locusPagePoint(re, im),
+      [br.re[k], br.im[k]],
+    );
     await page.mouse.move(p2.x, p2.y);
     await expect.poll(() => page.getByTestId('locus-readout').textContent()).toMatch(/^Kp_cur \[V\/A\] = /);
     const shown = Number((await page.getByTestId('locus-readout').locator('b').first().textContent())!.replace('−', '-'));
@@ -398,11 +535,17 @@ describe('display: a three-loop cascade built through the UI only', () => {
     const plantArrivals = st.locus!.arrivals.filter((a) => a.at.im > 0 && Math.hypot(a.at.re, a.at.im) < 1e4);
     expect(plantArrivals.length).toBeGreaterThan(0);
     const opt = await chartOption<{ series: { name: string; markLine?: { data: unknown[] } }[] }>(page, 'locus');
-    expect(opt.series.find((x) => x.name === 'departure and arrival angles')!.markLine!.data.length).toBeGreaterThanOrEqual(plantArrivals.length);
+    expect(opt.series.find((x) => x.name === 'departure and arrival angles')!.markLine!.data.length).toBeGreaterThanOrEqual(
+      plantArrivals.length,
+    );
     await page.mouse.move(5, 5);
     await page.getByTestId('locus-list').locator('summary').click();
     const listed = await page.getByTestId('locus-geometry').locator('tr[data-kind="arrival angle"]').allTextContents();
-    for (const a of plantArrivals) expect(listed.some((t) => t.includes(`${Number(a.angleDeg.toPrecision(4))}°`)), `arrival ${a.angleDeg}`).toBe(true);
+    for (const a of plantArrivals)
+      expect(
+        listed.some((t) => t.includes(`${Number(a.angleDeg.toPrecision(4))}°`)),
+        `arrival ${a.angleDeg}`,
+      ).toBe(true);
     await page.waitForTimeout(200);
     await screenshot(page, 'display-locus-angles');
     await page.getByTestId('locus-list').locator('summary').click();
@@ -422,7 +565,9 @@ describe('display: a three-loop cascade built through the UI only', () => {
     expect(c.staticGain).toBeCloseTo(1, 9);
     expect(Number(await page.getByTestId('closed-loop-static-gain').getAttribute('data-value'))).toBeCloseTo(1, 9);
     expect(await page.getByTestId('closed-loop-poles').locator('tr[data-origin="approximant"]').count()).toBeGreaterThan(0);
-    await expect.poll(async () => (await chartNames(page)).filter((n) => n.startsWith('closed-loop-')).sort()).toEqual(['closed-loop-bode', 'closed-loop-step']);
+    await expect
+      .poll(async () => (await chartNames(page)).filter((n) => n.startsWith('closed-loop-')).sort())
+      .toEqual(['closed-loop-bode', 'closed-loop-step']);
     const file = join(downloads, 'cascade.loop.json');
     writeFileSync(file, serializeDiagram(await getDiagram(page)));
     const r = cli(['reduce', file, '--from', 'src1', '--to', 'probe1', '--json']);
@@ -436,7 +581,9 @@ describe('display: a three-loop cascade built through the UI only', () => {
     // Any two wires: the speed error into the winding current.
     await page.getByLabel('Closed loop from').selectOption('wire:w4');
     await page.getByLabel('Closed loop to').selectOption('wire:w9');
-    await expect.poll(() => page.getByTestId('closed-loop-tf').textContent(), { timeout: 30_000 }).toMatch(/^T\(s\) from wire w4 to wire w9 = /);
+    await expect
+      .poll(() => page.getByTestId('closed-loop-tf').textContent(), { timeout: 30_000 })
+      .toMatch(/^T\(s\) from wire w4 to wire w9 = /);
   });
 
   it('one name per loop on the canvas, in the Loops table and in the report — which is the report `loopwright report` writes', async () => {
@@ -454,7 +601,8 @@ describe('display: a three-loop cascade built through the UI only', () => {
     await dl.saveAs(out);
     const html = readFileSync(out, 'utf8');
     for (const n of names) expect(html).toContain(`<b>${n}</b>`);
-    for (const id of (await getDiagram(page)).cuts.map((c) => c.id)) expect(html, `cut id ${id} shown as a loop name`).not.toMatch(new RegExp(`<b>${id}</b>|<td>${id}</td>`));
+    for (const id of (await getDiagram(page)).cuts.map((c) => c.id))
+      expect(html, `cut id ${id} shown as a loop name`).not.toMatch(new RegExp(`<b>${id}</b>|<td>${id}</td>`));
     expect((html.match(/◀ act on this/g) ?? []).length).toBe(3);
     expect(html).toContain('open-loop RHP poles of L');
     expect(html).toContain('Padé artefact, not a plant pole');
@@ -466,7 +614,10 @@ describe('display: a three-loop cascade built through the UI only', () => {
     writeFileSync(join(ARTIFACTS, 'cascade.loop.json'), serializeDiagram(await getDiagram(page)));
     const r = cli(['report', file, '--out', join(ARTIFACTS, 'cascade-report-cli.html'), '--date', date]);
     expect(r.status, r.stderr).toBe(0);
-    expect(readFileSync(join(ARTIFACTS, 'cascade-report-cli.html'), 'utf8') === html, 'the CLI report (test-artifacts/cascade-report-cli.html) equals the editor\'s').toBe(true);
+    expect(
+      readFileSync(join(ARTIFACTS, 'cascade-report-cli.html'), 'utf8') === html,
+      "the CLI report (test-artifacts/cascade-report-cli.html) equals the editor's",
+    ).toBe(true);
     // Read it as a reader would: open it and look.
     const view = await s.context.newPage();
     await view.setViewportSize({ width: 1040, height: 1400 });
@@ -480,12 +631,15 @@ describe('display: a three-loop cascade built through the UI only', () => {
 
   it('wiring on the cascade (issue 11 item 6): nested feedback lanes apart, cut markers apart, an occupied input asks; Parameters read right (item 7)', async () => {
     await viewSettled(page);
-    const lanes = Object.fromEntries(await Promise.all(Object.entries(LOOPS).map(async ([n, w]) => [n, lane(await wirePath(page, w))] as const)));
+    const lanes = Object.fromEntries(
+      await Promise.all(Object.entries(LOOPS).map(async ([n, w]) => [n, lane(await wirePath(page, w))] as const)),
+    );
     expect(lanes['current loop'].y).toBeLessThan(lanes['speed loop'].y);
     expect(lanes['speed loop'].y).toBeLessThan(lanes['position loop'].y);
     const markers = await rectOf(page, '.lw-cut');
     expect(markers).toHaveLength(3);
-    for (let i = 0; i < markers.length; i++) for (let j = i + 1; j < markers.length; j++) expect(intersects(markers[i], markers[j])).toBe(false);
+    for (let i = 0; i < markers.length; i++)
+      for (let j = i + 1; j < markers.length; j++) expect(intersects(markers[i], markers[j])).toBe(false);
     const before = await getDiagram(page);
     await wire(page, 'src1-out', 'sum2-in1');
     const dialog = page.getByRole('dialog', { name: 'Replace wire?' });
@@ -544,7 +698,11 @@ describe('display: long computations show progress and can be cancelled', () => 
     await s?.close();
   });
 
-  /** A 1 kHz pulse train into a lag for 20 s: 40 000 edges to step through (seconds of work). */
+  /**
+   * A 1 kHz pulse train into four lags behind a short dead time for 18 s: 36 000 edges, about
+   * 180 000 simulator steps (under its 200 000-step budget), several seconds of work. Without
+   * the dead time the exact engine needs well under a second, too little to show a bar.
+   */
   const slow: Diagram = JSON.parse(
     JSON.stringify({
       format: 'loopwright.diagram',
@@ -556,25 +714,34 @@ describe('display: long computations show progress and can be cancelled', () => 
         { id: 'r', kind: 'source', position: { x: 0, y: 0 }, params: { shape: 'pulse', amplitude: 1, width: 0.0005, period: 0.001 } },
         { id: 'e', kind: 'summing-junction', position: { x: 180, y: 0 }, params: { signs: '+-' } },
         { id: 'k', kind: 'gain', position: { x: 360, y: 0 }, params: { k: 'K' } },
-        { id: 'g', kind: 'first-order-lag', position: { x: 540, y: 0 }, params: { k: 1, tau: 0.01 } },
+        { id: 'dt', kind: 'dead-time', position: { x: 450, y: 0 }, params: { delay: 0.0002 } },
+        {
+          id: 'g',
+          kind: 'transfer-function',
+          position: { x: 540, y: 0 },
+          params: { expression: '1/((0.01*s + 1)*(0.004*s + 1)*(0.003*s + 1)*(0.002*s + 1))' },
+        },
         { id: 'y', kind: 'probe', position: { x: 720, y: 0 }, params: {} },
       ],
       wires: [
         { id: 'w1', from: { block: 'r', port: 'out' }, to: { block: 'e', port: 'in1' } },
         { id: 'w2', from: { block: 'e', port: 'out' }, to: { block: 'k', port: 'in' } },
-        { id: 'w3', from: { block: 'k', port: 'out' }, to: { block: 'g', port: 'in' } },
+        { id: 'w3', from: { block: 'k', port: 'out' }, to: { block: 'dt', port: 'in' } },
+        { id: 'w6', from: { block: 'dt', port: 'out' }, to: { block: 'g', port: 'in' } },
         { id: 'w4', from: { block: 'g', port: 'out' }, to: { block: 'y', port: 'in' } },
         { id: 'w5', from: { block: 'g', port: 'out' }, to: { block: 'e', port: 'in2' } },
       ],
       cuts: [{ id: 'c1', wire: 'w5', label: 'loop' }],
       sweeps: [],
-      simulation: { end: 20 },
+      simulation: { end: 18 },
       view: {},
     }),
   );
 
   it('a long run shows what it computes, for how long and how far; Cancel stops it and says so; Compute again starts it anew', async () => {
     await page.getByRole('tab', { name: 'Response' }).click();
+    // The demo's run first, so that the view has a previous run to dim while the slow one computes.
+    await page.locator('.lw-response').waitFor({ timeout: 60_000 });
     await loadDiagram(page, slow);
     const bar = page.locator('[data-busy="response"]');
     await expect.poll(() => bar.count(), { timeout: 20_000 }).toBe(1);

@@ -7,6 +7,7 @@
  * figures, and the safety caution. Built from study results only.
  */
 import type { Diagram } from '@loopwright/graph';
+import { formatEngineering } from '@loopwright/lti';
 import type { CheckData, Cx, LocusData, LoopRow, LoopsData, MarginsData, Part, PoleOrigin, PolesData, ResponseResult } from '../types.ts';
 import { findingText } from '../validate.ts';
 import { originAt } from '../poles.ts';
@@ -363,7 +364,13 @@ export function designReportHtml(inp: ReportInput): string {
     d.parameters.length
       ? table(
           ['name', 'value', 'unit', 'description'],
-          d.parameters.map((p) => [esc(p.name), e(p.value, 6), esc(p.unit ?? ''), esc(p.description ?? '')]),
+          // As the Parameters panel shows them (engineering notation, e.g. 50e-6), to 6 digits.
+          d.parameters.map((p) => [
+            esc(p.name),
+            esc(formatEngineering(p.value, { digits: 6 })),
+            esc(p.unit ?? ''),
+            esc(p.description ?? ''),
+          ]),
         )
       : '<p>No named parameters.</p>',
   );

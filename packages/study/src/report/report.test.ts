@@ -60,6 +60,12 @@ describe('the design report', () => {
     expect((section.match(/approximates a true root \(Padé\)/g) ?? []).length).toBe(approximated);
   });
 
+  it('gives parameter values as the Parameters panel shows them: 5e-5 reads 50e-6, never 5.00000e-5 or 0.000', () => {
+    const small = reportStudy(unityLoop(5e-5, '1/(s*(s + 2))', { min: 1e-5, max: 1e-3 }), { generatedAt: 'x' }).html;
+    const section = small.slice(small.indexOf('<h2>Parameters</h2>'), small.indexOf('<h2>Loops</h2>'));
+    expect(section).toContain('<td>K</td><td>50e-6</td>');
+  });
+
   it('a part that cannot be computed is said so; the rest is still reported', () => {
     const bad = unityLoop(2);
     bad.wires.push({ id: 'twice', from: { block: 'r', port: 'out' }, to: { block: 'k', port: 'in' } });
