@@ -132,7 +132,10 @@ describe('analysis views', () => {
       const opt = (await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { chartOption(n: string): unknown } } }).__loopwright.analysis.chartOption('locus'))) as {
         series: { name: string; data: number[][] }[];
       };
-      return opt.series.find((x) => x.name === 'closed-loop poles')!.data.map(([re, im]) => ({ re, im }));
+      // Poles that belong to a Padé approximant are drawn apart (hollow), in a series of their own.
+      return opt.series
+        .filter((x) => x.name === 'closed-loop poles' || x.name === 'poles of a Padé approximant')
+        .flatMap((x) => x.data.map(([re, im]) => ({ re, im })));
     };
     const p0 = await chartPoles();
     expect(sortPoles(p0)).toEqual(sortPoles(s0.poles!));
