@@ -470,6 +470,18 @@ describe('display: a three-loop cascade built through the UI only', () => {
     const row = page.getByTestId('compare-table').locator('tr', { hasText: 'settling time [s]' }).filter({ hasText: 'position' });
     const cells = await row.locator('td').allTextContents();
     expect(Number(cells[2].replace('−', '-'))).toBeCloseTo(pinnedSettling!, 3);
+    // Each loop by the reading to act on: the current loop inner-first (PM ≈ +79°, not −68°).
+    const inner = st.loops!.rows.find((r) => r.label === 'current loop')!.alone!.margins.phaseMarginDeg!;
+    expect(inner).toBeGreaterThan(0);
+    const pmRow = page
+      .getByTestId('compare-table')
+      .locator('tr', { hasText: 'phase margin [°]' })
+      .filter({ hasText: 'current loop (inner-first)' });
+    const pm = await pmRow.locator('td').allTextContents();
+    expect(Number(pm[2].replace('−', '-'))).toBeCloseTo(inner, 1);
+    // Tuned values as the Parameters panel writes them.
+    const tpwm = await page.getByTestId('compare-table').locator('tr', { hasText: 'T_pwm' }).locator('td').allTextContents();
+    expect(tpwm.slice(2, 4)).toEqual(['50e-6', '50e-6']);
     await page.waitForTimeout(200);
     await screenshot(page, 'display-compare');
     await page.getByRole('button', { name: 'Unpin' }).click();

@@ -26,7 +26,7 @@ import { comparableRun, differences, dominantPole, runsDiffer } from './compare.
 import { takeSnapshot } from './snapshot.ts';
 import type { AnalysisResult } from './results-store.ts';
 // Test-only builders of the study package (not its public API).
-import { unityLoop } from '@loopwright/study/testing';
+import { furnaceCascade, unityLoop } from '@loopwright/study/testing';
 
 const K = { kind: 'parameter', name: 'K' } as const;
 
@@ -170,6 +170,23 @@ describe('exports', () => {
     const pm = rows.find((r) => r.quantity === 'phase margin [°]')!;
     expect(pm.current!).toBeLessThan(pm.pinned!); // more gain, less phase margin on 1/(s(s+2))
     expect(dominantPole(now.poles)!.re).toBeCloseTo(-1, 8); // s² + 2s + 8: −1 ± j√7
+  });
+});
+
+describe('Compare lists each loop by the reading to act on', () => {
+  it('an enclosed loop by its inner-first margins (named so), the outermost with every other loop closed', () => {
+    const d = furnaceCascade();
+    const loops = runStudy(d, { kind: 'loops' }) as LoopsData;
+    const snap = takeSnapshot('p', { diagram: d, live: null }, {}, null, { ok: true, value: loops }, null);
+    const rows = differences(snap, snap, null).filter((r) => r.group === 'loop' && r.quantity === 'phase margin [°]');
+    expect(rows).toHaveLength(loops.rows.length);
+    const enclosed = loops.rows.filter((r) => r.alone !== null);
+    expect(enclosed.length).toBeGreaterThan(0);
+    for (const r of loops.rows) {
+      const inner = r.advice.actOn === 'inner-first';
+      const row = rows.find((x) => x.item === (inner ? `${r.label} (inner-first)` : r.label))!;
+      expect(row.pinned).toBe(inner ? r.alone!.margins.phaseMarginDeg : r.margins.phaseMarginDeg);
+    }
   });
 });
 

@@ -1,11 +1,11 @@
 /**
  * Differences between a pinned snapshot and the current results: tuned values, each loop's
- * margins, each probe's response metrics, and the dominant closed-loop pole. Response figures
+ * margins (in the reading to act on), each probe's response metrics, and the dominant closed-loop pole. Response figures
  * are compared only between runs of one length and tolerances: the pinned design re-run under
  * the current settings (never the run made when it was pinned, which may be of another length).
  */
 import type { AnalysisSnapshot } from './snapshot.ts';
-import type { Cx, ResponseResult } from '@loopwright/study';
+import type { Cx, LoopRow, ResponseResult } from '@loopwright/study';
 import type { PinnedRun } from './results-store.ts';
 
 export interface DiffRow {
@@ -62,14 +62,21 @@ export function differences(pinned: AnalysisSnapshot, now: AnalysisSnapshot, pin
   for (const c of cuts) {
     const a = pinned.loops?.rows.find((r) => r.cutId === c);
     const b = now.loops?.rows.find((r) => r.cutId === c);
-    const label = b?.label ?? a?.label ?? c;
+    // Each loop by the reading to act on (the engine's advice, now's when both exist), taken
+    // alike from both designs: an enclosed loop inner-first, so a negative PM read with the
+    // outer loops closed is not listed as the design's margin.
+    const innerFirst = (b ?? a)!.advice.actOn === 'inner-first';
+    const reading = (r: LoopRow | undefined) => (!r ? null : innerFirst ? (r.alone?.margins ?? null) : r.margins);
+    const ma = reading(a);
+    const mb = reading(b);
+    const label = `${b?.label ?? a?.label ?? c}${innerFirst ? ' (inner-first)' : ''}`;
     for (const [f, q] of MARGINS) {
       rows.push({
         group: 'loop',
         item: label,
         quantity: q,
-        pinned: a ? numOrNull((a.margins as unknown as Record<string, unknown>)[f]) : null,
-        current: b ? numOrNull((b.margins as unknown as Record<string, unknown>)[f]) : null,
+        pinned: ma ? numOrNull((ma as unknown as Record<string, unknown>)[f]) : null,
+        current: mb ? numOrNull((mb as unknown as Record<string, unknown>)[f]) : null,
       });
     }
   }

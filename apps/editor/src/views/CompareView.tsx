@@ -10,9 +10,10 @@ import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { currentInputs, withAllResults } from '../analysis/driver.ts';
 import { takeSnapshot, tunedValues, type AnalysisSnapshot } from '../analysis/snapshot.ts';
-import { comparableRun, differences, runsDiffer } from '../analysis/compare.ts';
+import { comparableRun, differences, runsDiffer, type DiffRow } from '../analysis/compare.ts';
 import type { PinnedRun } from '../analysis/results-store.ts';
 import type { ResponseResult } from '@loopwright/study';
+import { formatEngineering } from '@loopwright/lti';
 import { fmt } from '../analysis/sweep.ts';
 import { responseOption } from './response-option.ts';
 import { bodeOption } from './frequency-option.ts';
@@ -110,8 +111,8 @@ export function CompareView({ pal }: { pal: Palette }) {
                   <tr key={i} className={changed ? 'lw-changed' : ''}>
                     <td>{r.item}</td>
                     <td>{r.quantity}</td>
-                    <td>{fmt(r.pinned)}</td>
-                    <td>{fmt(r.current)}</td>
+                    <td>{show(r, r.pinned)}</td>
+                    <td>{show(r, r.current)}</td>
                     <td>
                       {d === null ? (r.pinned === r.current ? '' : 'n/a') : changed ? `${d > 0 ? '+' : '−'}${fmt(Math.abs(d))}` : '='}
                     </td>
@@ -131,6 +132,11 @@ export function CompareView({ pal }: { pal: Palette }) {
 }
 
 /** What Compare says about the response comparison. */
+/** Tuned values as the Parameters panel writes them (50e-6), the rest as the readouts do. */
+function show(r: DiffRow, v: number | null): string {
+  return r.group === 'value' && v !== null ? formatEngineering(v) : fmt(v);
+}
+
 function pinnedRunNote(p: PinnedRun | null, current: ResponseResult | null): { ok: boolean; text: string } | null {
   if (!current) return null;
   if (!p) return { ok: true, text: 'Re-running the pinned design under the current simulation settings…' };
