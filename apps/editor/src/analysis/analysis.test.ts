@@ -20,7 +20,7 @@ import {
 } from './locus-geometry.ts';
 import { computeReply } from '../worker/compute.ts';
 import { channelStudies, closedLoopPoints, pinnedRunStudy, refOf, type AnalysisInputs } from './driver.ts';
-import { resolveSweep } from './sweep.ts';
+import { fmtLogTick, resolveSweep } from './sweep.ts';
 import { responseCsv } from './export.ts';
 import { comparableRun, differences, dominantPole, runsDiffer } from './compare.ts';
 import { takeSnapshot } from './snapshot.ts';
@@ -170,6 +170,15 @@ describe('exports', () => {
     const pm = rows.find((r) => r.quantity === 'phase margin [°]')!;
     expect(pm.current!).toBeLessThan(pm.pinned!); // more gain, less phase margin on 1/(s(s+2))
     expect(dominantPole(now.poles)!.re).toBeCloseTo(-1, 8); // s² + 2s + 8: −1 ± j√7
+  });
+});
+
+describe('log frequency axis ticks', () => {
+  it('decades beyond 1000 or below 0.01 are written 1e5, 1e-3; the everyday range and non-decades as the readouts write them', () => {
+    expect([1e4, 1e5, 1e7, 1e-3, 1e-5].map(fmtLogTick)).toEqual(['1e4', '1e5', '1e7', '1e-3', '1e-5']);
+    expect([0.01, 0.1, 1, 10, 100, 1000].map(fmtLogTick)).toEqual(['0.01', '0.1', '1', '10', '100', '1000']);
+    expect(fmtLogTick(2.5e5)).toBe('2.5e5');
+    expect(fmtLogTick(2510)).toBe('2500');
   });
 });
 

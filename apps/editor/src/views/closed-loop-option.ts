@@ -3,7 +3,7 @@
  * time included) and its Bode magnitude and phase.
  */
 import type { ClosedLoopData } from '@loopwright/study';
-import { fmt } from '../analysis/sweep.ts';
+import { fmt, fmtLogTick } from '../analysis/sweep.ts';
 import type { Palette } from './palette.ts';
 import type { ChartOption } from './echarts-setup.ts';
 
@@ -71,7 +71,7 @@ export function closedLoopBodeOption(c: ClosedLoopData, pal: Palette): ChartOpti
       name: named ? 'ω [rad/s]' : '',
       nameLocation: 'middle',
       nameGap: 24,
-      axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 2) },
+      axisLabel: { color: pal.muted, formatter: fmtLogTick },
     });
   return {
     animation: false,
