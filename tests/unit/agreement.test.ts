@@ -2,7 +2,7 @@
  * One engine: the command line's --json path and the editor worker's compute entry give the
  * same numbers for the same diagram — the demos and three scenarios of our own (a three-loop
  * cascade with dead times, a loop with a feedforward, a reverse-acting loop swept over negative
- * gains); and `loopwright fit` / `loopwright tune` against the requests of the editor's Test
+ * gains), the design report included; and `loopwright fit` / `loopwright tune` against the requests of the editor's Test
  * log and Tune views. The worker side sends exactly the study requests the editor's driver builds; the
  * study caches are cleared between the two sides so that each computes afresh.
  */
@@ -24,11 +24,13 @@ import {
   type StudyResult,
   type CheckData,
   type ClosedLoopData,
+  type ReportData,
 } from '@loopwright/study';
 import { main, type CliIo } from '@loopwright/cli/testing';
 import {
   computeReply,
   channelStudies,
+  reportRequest,
   fitStudyRequests,
   tuneStudyRequest,
   type AnalysisInputs,
@@ -54,7 +56,7 @@ async function cli(argv: string[], file: string): Promise<Record<string, any>> {
 /** The worker's answer to the requests the driver sends for the diagram as loaded (no UI choices made). */
 function worker(d: Diagram, channel: Channel): StudyResult['value'][] {
   const sweep = resolveSweep(d, { key: null, liveValue: null });
-  const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null };
+  const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null, closedLoop: null };
   const studies = channelStudies(inp, { frequency: true, opposite: false })[channel];
   const reply = computeReply({ channel, id: 1, diagram: d, studies });
   if (!reply.ok) throw new Error(reply.error);
@@ -146,6 +148,9 @@ describe('the command line and the editor worker agree', () => {
           w.outerVsIdeal.map((o) => [o.outer, o.inner, o.realMargins, o.idealMargins]),
         );
         same(c.closedLoopPoles, pairs(w.closedLoopPoles));
+        expect(c.closedLoopPoleOrigin).toEqual(w.closedLoopPoleOrigin);
+        expect(c.names).toEqual(w.names);
+        expect(c.cuts.map((x: { label: string; advice: unknown }) => [x.label, x.advice])).toEqual(w.rows.map((r) => [r.label, r.advice]));
         expect(c.stable).toBe(w.stable);
       });
 
@@ -174,17 +179,19 @@ describe('the command line and the editor worker agree', () => {
         );
       });
 
-      it(`closed loop from ${source} to ${probe}: the same transfer function and poles`, async () => {
+      it(`closed loop from ${source} to ${probe}: the same transfer function, poles and Padé marks, step and Bode (the Closed loop view's request)`, async () => {
         clearCaches();
-        const c = await cli(['reduce', 'd.loop.json', '--from', source, '--to', probe, '--json'], file);
+        const c = await cli(['reduce', 'd.loop.json', '--from', source, '--to', probe, '--bode', '--step', '--json'], file);
         clearCaches();
-        const live = sweep.live;
-        const reply = computeReply({
-          channel: 'analysis',
-          id: 1,
+        const inp: AnalysisInputs = {
           diagram: d,
-          studies: [{ kind: 'closed-loop', from: { block: source }, to: { block: probe }, live }],
-        });
+          sweep,
+          live: sweep.live,
+          cutId: null,
+          closedLoop: { from: { block: source }, to: { block: probe } },
+        };
+        const studies = channelStudies(inp, { frequency: false, opposite: false, closedLoop: true })['closed-loop'];
+        const reply = computeReply({ channel: 'closed-loop', id: 1, diagram: d, studies });
         expect(reply.ok).toBe(true);
         const part = reply.ok ? reply.results[0] : null;
         const w = (part?.ok ? part.value.value : null) as ClosedLoopData;
@@ -192,6 +199,22 @@ describe('the command line and the editor worker agree', () => {
         same(c.denominatorAscending, w.transfer.den);
         same(c.delay, w.transfer.delay);
         same(c.poles, pairs(w.poles));
+        expect(c.poleOrigin).toEqual(w.poleOrigin);
+        same(c.step, w.step);
+        same(c.bode, w.bode);
+      });
+
+      it("report: the command line writes the bytes the editor's Report button gets from its worker", async () => {
+        clearCaches();
+        let html = '';
+        const io: CliIo = { stdout: (t) => void (html += t), stderr: () => {}, readFile: async () => file, writeFile: async () => {} };
+        expect(await main(['report', 'd.loop.json', '--out', '-', '--date', 'agreement'], io)).toBe(0);
+        clearCaches();
+        const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null, closedLoop: null };
+        const reply = computeReply({ channel: 'report', id: 1, diagram: d, studies: [reportRequest(inp, 'agreement')] });
+        const part = reply.ok ? reply.results[0] : null;
+        expect(part?.ok).toBe(true);
+        expect(html).toBe(part?.ok ? (part.value.value as ReportData).html : '');
       });
 
       it('simulation: the same settings, traces and figures', async () => {

@@ -3,12 +3,21 @@
  * Nyquist, |S| and |T|) with its margins and the number of open-loop right-half-plane poles.
  */
 import { DEFAULT_PADE_ORDER, compiledOf, feedbackWires, loopAtCutDetailed, type DelayHandling, type Diagram } from '@loopwright/graph';
-import { InputError, defaultFrequencyGrid, frequencyResponse, loopMargins, marginFigures, type LoopMargins, type TransferFunction } from '@loopwright/lti';
+import {
+  InputError,
+  defaultFrequencyGrid,
+  frequencyResponse,
+  loopMargins,
+  marginFigures,
+  type LoopMargins,
+  type TransferFunction,
+} from '@loopwright/lti';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { rhpPoleCount, transferData } from './transfer-data.ts';
 import type { FrequencyData, LiveValue } from './types.ts';
 import { assertAnalysable } from './validate.ts';
+import { cutName, loopName } from './names.ts';
 
 export interface ChosenCut {
   id: string;
@@ -23,20 +32,28 @@ export interface ChosenCut {
  * no loop at all. An unknown cut is an InputError unless `fallback` (the editor, whose chosen
  * cut may just have been deleted) asks for the default instead.
  */
-export function chooseCut(d: Diagram, requested: string | null, overrides: Record<string, number> = {}, fallback = false): ChosenCut | null {
+export function chooseCut(
+  d: Diagram,
+  requested: string | null,
+  overrides: Record<string, number> = {},
+  fallback = false,
+): ChosenCut | null {
   if (requested?.startsWith('auto:')) {
     const wire = requested.slice(5);
-    if (d.wires.some((w) => w.id === wire)) return { id: requested, wire, label: wire, auto: true };
+    if (d.wires.some((w) => w.id === wire)) return { id: requested, wire, label: loopName(d, requested), auto: true };
     if (!fallback) throw new InputError(`cut ${requested}: the diagram has no wire "${wire}"`, { field: 'cut' });
   } else if (requested !== null) {
     const c = d.cuts.find((x) => x.id === requested);
-    if (c) return { id: c.id, wire: c.wire, label: c.label ?? c.wire, auto: false };
-    if (!fallback) throw new InputError(`cut ${requested} is not in the diagram (cuts: ${d.cuts.map((x) => x.id).join(', ') || 'none'})`, { field: 'cut' });
+    if (c) return { id: c.id, wire: c.wire, label: cutName(c), auto: false };
+    if (!fallback)
+      throw new InputError(`cut ${requested} is not in the diagram (cuts: ${d.cuts.map((x) => x.id).join(', ') || 'none'})`, {
+        field: 'cut',
+      });
   }
   const c = d.cuts.find((x) => x.id === d.view.activeCut) ?? d.cuts[0];
-  if (c) return { id: c.id, wire: c.wire, label: c.label ?? c.wire, auto: false };
+  if (c) return { id: c.id, wire: c.wire, label: cutName(c), auto: false };
   const wire = feedbackWires(compiledOf(d, overrides))[0];
-  return wire ? { id: `auto:${wire}`, wire, label: wire, auto: true } : null;
+  return wire ? { id: `auto:${wire}`, wire, label: loopName(d, `auto:${wire}`), auto: true } : null;
 }
 
 export interface CutRequest {
@@ -60,7 +77,12 @@ export function cutStudy(d: Diagram, req: CutRequest): FrequencyData | null {
 }
 
 /** Bode, Nyquist, |S| and |T| of a loop L at a cut, on a grid that covers its crossovers, with its margins. */
-export function frequencyOfLoop(cut: Pick<ChosenCut, 'id' | 'wire' | 'label'>, L: TransferFunction, margins: LoopMargins, delayHandling: DelayHandling): FrequencyData {
+export function frequencyOfLoop(
+  cut: Pick<ChosenCut, 'id' | 'wire' | 'label'>,
+  L: TransferFunction,
+  margins: LoopMargins,
+  delayHandling: DelayHandling,
+): FrequencyData {
   // Two decades above the highest gain crossover (and past the phase crossover the gain margin
   // is read at) are enough: beyond, a dead time only winds the phase round and round.
   let omega = defaultFrequencyGrid(L, 60);

@@ -8,6 +8,9 @@ import type { MarginFigures } from '@loopwright/lti';
 import type { FitProvenance, ProcessFit, ProcessModel, ProcessModelKind, fitSummary } from '@loopwright/fit';
 import type { ControllerSetting, TuneRule } from '@loopwright/tune';
 import type { ControllerPatch } from './controller-block.ts';
+import type { LoopAdvice } from './loop-advice.ts';
+
+export type { LoopAdvice };
 
 export type { DelayHandling, Finding, SignalRef };
 
@@ -83,6 +86,10 @@ export interface LocusData {
   zeros: Cx[];
   /** Closed-loop poles that do not move with the swept value (common roots of N0 and D0). */
   fixedPoles: Cx[];
+  /** How each of poles, zeros and fixedPoles was found (with a dead time inside a loop: Padé marks). */
+  poleOrigin: PoleOrigin[];
+  zeroOrigin: PoleOrigin[];
+  fixedOrigin: PoleOrigin[];
   asymptotes: { centroid: number; anglesDeg: number[] } | null;
   realAxisSegments: [number, number][];
   breakaways: { s: Cx; gain: number }[];
@@ -158,6 +165,7 @@ export interface LoopRow {
   /** Cut id, or "auto:<wire>" for a loop the engine proposed on a feedback wire. */
   cutId: string;
   wire: string;
+  /** The loop's one name (loopName: the cut's label, else its id), as the canvas shows it. */
   label: string;
   auto: boolean;
   stable: boolean;
@@ -172,6 +180,8 @@ export interface LoopRow {
   alone: LoopReading | null;
   /** Bode/Nyquist/S/T data of L (every other loop closed), when the request asked for it. */
   frequency: FrequencyData | null;
+  /** Which reading to act on, and why (the open-loop RHP pole counts explain a negative PM). */
+  advice: LoopAdvice;
 }
 
 /** Inner/outer separation of a nested pair (graph's Separation: plain data). */
@@ -199,10 +209,15 @@ export interface OuterIdealData {
 
 export interface LoopsData {
   rows: LoopRow[];
+  /** The one name of each loop by cut id (rows, separations, real-vs-ideal pairs, opened lists). */
+  names: Record<string, string>;
   separations: SeparationRow[];
   /** Every nested pair (each inner loop with the smallest loop around it). */
   outerVsIdeal: OuterIdealData[];
   closedLoopPoles: Cx[];
+  /** How each closed-loop pole was found (Padé marks, see PoleOrigin). */
+  closedLoopPoleOrigin: PoleOrigin[];
+  delayHandling: DelayHandling;
   /** Whole-diagram stability from the closed-loop poles. */
   stable: boolean;
   notes: string[];
@@ -219,6 +234,9 @@ export interface ClosedLoopData {
   transfer: TransferData;
   poles: Cx[];
   zeros: Cx[];
+  /** How each pole and zero was found (with a dead time inside a loop: Padé marks, see PoleOrigin). */
+  poleOrigin: PoleOrigin[];
+  zeroOrigin: PoleOrigin[];
   /** Leading-coefficient gain k of k·Π(s − z)/Π(s − p); static gain T(0) (±Infinity with a pole at 0). */
   gain: number;
   staticGain: number;
@@ -294,7 +312,8 @@ export interface ResponseResult {
   model: 'as-drawn' | 'linear';
   /** The linear model's run for an overlay (null when not asked for). */
   linear: RunTrace | null;
-  probes: { id: string; label: string }[];
+  /** Every probe of the diagram with its unit (the probe's unit field; null when none is given). */
+  probes: { id: string; label: string; unit: string | null }[];
   /** Probes the diagram shows (simulation.probes, else every probe), in diagram order. */
   shownProbes: string[];
   actuators: ActuatorInfo[];

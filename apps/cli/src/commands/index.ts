@@ -7,6 +7,7 @@ import { loopsCommand } from './loops.ts';
 import { simulateCommand } from './simulate.ts';
 import { fitCommand } from './fit.ts';
 import { tuneCommand } from './tune.ts';
+import { reportCommand } from './report.ts';
 
 /** Every command, in the order `loopwright --help` lists them. */
 export const commands: Command[] = [
@@ -18,4 +19,5 @@ export const commands: Command[] = [
   simulateCommand,
   fitCommand,
   tuneCommand,
+  reportCommand,
 ];

@@ -48,6 +48,10 @@ export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Re
       fixedPoles: L.fixedPoles.map(pair),
       poles: L.poles.map(pair),
       zeros: L.zeros.map(pair),
+      // How each was found: 'exact', or with a dead time inside a loop 'approximated' / 'approximant' (Padé).
+      poleOrigin: L.poleOrigin,
+      zeroOrigin: L.zeroOrigin,
+      fixedOrigin: L.fixedOrigin,
       asymptotes: { centroid: L.asymptotes?.centroid ?? null, anglesDeg: L.asymptotes?.anglesDeg ?? [] },
       breakaway: L.breakaways.map((b) => ({ s: pair(b.s), gain: b.gain })),
       crossings: L.crossings.map((c) => ({ omega: c.omega, gain: c.gain })),
@@ -64,6 +68,7 @@ export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Re
     reason: L.reason,
     range: [first, last],
     poles: L.branches.filter((b) => b.k[0] === first).map((b) => [b.re[0], b.im[0]]),
+    poleOrigin: L.poleOrigin,
     zeros: L.branches.filter((b) => b.k[b.k.length - 1] === last).map((b) => [b.re[b.re.length - 1], b.im[b.im.length - 1]]),
     asymptotes: { centroid: null, anglesDeg: [] as number[] },
     breakaway: [] as { s: number[]; gain: number }[],

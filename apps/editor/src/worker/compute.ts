@@ -17,3 +17,17 @@ export function computeReply(req: EngineRequest, ctx: StudyContext = {}): Engine
     return { channel: req.channel, id: req.id, ok: false, error: e instanceof Error ? e.message : String(e) };
   }
 }
+
+/**
+ * A progress callback that passes on at most one report per `everyMs` (the first at once),
+ * so that a run reporting every 1 % does not flood the page with messages.
+ */
+export function throttled<T>(post: (p: T) => void, everyMs: number, clock: () => number = now): (p: T) => void {
+  let last = -Infinity;
+  return (p) => {
+    const t = clock();
+    if (t - last < everyMs) return;
+    last = t;
+    post(p);
+  };
+}

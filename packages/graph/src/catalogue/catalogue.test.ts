@@ -21,7 +21,7 @@ const CONTRACT: Record<BlockKind, string[]> = {
   'rate-limit': ['rising', 'falling'],
   'dead-zone': ['lower', 'upper'],
   source: ['shape', 'amplitude', 'start', 'offset', 'omega', 'width', 'period'],
-  probe: [],
+  probe: ['unit'],
 };
 
 // Plain complex arithmetic, written out here independently of lti's rational functions.

@@ -4,12 +4,12 @@
  * with their signs, wires as arrows, cuts marked on their wires.
  */
 import { blockSpec, type Block, type Diagram } from '@loopwright/graph';
+import { cutName } from '../names.ts';
+import { esc } from './svg-plot.ts';
 
 const W = 132;
 const H = 54;
 const R = 18;
-
-const esc = (s: string): string => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 
 /** The block's card text from the catalogue: its formula, or its caption (limits, shape). */
 function summary(b: Block): string {
@@ -34,7 +34,10 @@ function inPoint(b: Block, port: string): [number, number] {
   return [b.position.x, b.position.y + H / 2];
 }
 
-export function diagramSvg(d: Diagram, colours = { text: '#1d2329', muted: '#5d6670', card: '#ffffff', border: '#8a949e', wire: '#3d4756', cut: '#d1495b' }): string {
+export function diagramSvg(
+  d: Diagram,
+  colours = { text: '#1d2329', muted: '#5d6670', card: '#ffffff', border: '#8a949e', wire: '#3d4756', cut: '#d1495b' },
+): string {
   const byId = new Map(d.blocks.map((b) => [b.id, b]));
   let x0 = Infinity;
   let y0 = Infinity;
@@ -52,6 +55,35 @@ export function diagramSvg(d: Diagram, colours = { text: '#1d2329', muted: '#5d6
     x1 = 200;
     y1 = 80;
   }
+  // Wires going back (feedback) run below the blocks they pass, each on a lane of its own:
+  // nested loops' returns never share a line, and their cut marks sit apart.
+  const routes = new Map<string, { ax: number; ay: number; bx: number; by: number; low: number | null }>();
+  const back: { id: string; lo: number; hi: number; floor: number }[] = [];
+  for (const w of d.wires) {
+    const a = byId.get(w.from.block);
+    const b = byId.get(w.to.block);
+    if (!a || !b) continue;
+    const [ax, ay] = outPoint(a);
+    const [bx, by] = inPoint(b, w.to.port);
+    routes.set(w.id, { ax, ay, bx, by, low: null });
+    if (bx < ax + 20) {
+      const lo = bx - 16;
+      const hi = ax + 16;
+      const under = d.blocks
+        .filter((k) => k.position.x + W >= lo && k.position.x <= hi)
+        .map((k) => k.position.y + (isRound(k) ? 2 * R : H));
+      back.push({ id: w.id, lo, hi, floor: Math.max(ay, by, ...under) });
+    }
+  }
+  const lanes: { lo: number; hi: number; lane: number }[] = [];
+  for (const w of [...back].sort((p, q) => p.hi - p.lo - (q.hi - q.lo))) {
+    let lane = 0;
+    while (lanes.some((l) => l.lane === lane && l.lo < w.hi && w.lo < l.hi)) lane++;
+    lanes.push({ lo: w.lo, hi: w.hi, lane });
+    const low = w.floor + 28 + 20 * lane;
+    routes.get(w.id)!.low = low;
+    y1 = Math.max(y1, low + 6);
+  }
   const pad = 40;
   const vb = `${x0 - pad} ${y0 - pad} ${x1 - x0 + 2 * pad} ${y1 - y0 + 2 * pad}`;
   const parts: string[] = [];
@@ -60,27 +92,22 @@ export function diagramSvg(d: Diagram, colours = { text: '#1d2329', muted: '#5d6
   );
   const cutWires = new Map(d.cuts.map((c) => [c.wire, c]));
   for (const w of d.wires) {
-    const a = byId.get(w.from.block);
+    const r = routes.get(w.id);
     const b = byId.get(w.to.block);
-    if (!a || !b) continue;
-    const [ax, ay] = outPoint(a);
-    const [bx, by] = inPoint(b, w.to.port);
-    // Orthogonal route: out to the right, across, into the input; a wire going back runs below.
-    let path: string;
-    if (bx >= ax + 20) {
-      const mx = (ax + bx) / 2;
-      path = `M${ax},${ay} H${mx} V${by} H${bx}`;
-    } else {
-      const low = Math.max(ay, by, a.position.y + H, b.position.y + H) + 30;
-      path = `M${ax},${ay} H${ax + 16} V${low} H${bx - (isRound(b) ? 0 : 16)} V${by}${isRound(b) ? '' : ` H${bx}`}`;
-    }
+    if (!r || !b) continue;
+    const { ax, ay, bx, by, low } = r;
+    // Orthogonal route: out to the right, across, into the input; a wire going back runs below on its lane.
+    const path =
+      low === null
+        ? `M${ax},${ay} H${(ax + bx) / 2} V${by} H${bx}`
+        : `M${ax},${ay} H${ax + 16} V${low} H${bx - (isRound(b) ? 0 : 16)} V${by}${isRound(b) ? '' : ` H${bx}`}`;
     parts.push(`<path d="${path}" fill="none" stroke="${colours.wire}" stroke-width="1.5" marker-end="url(#lw-arrow)"/>`);
     const cut = cutWires.get(w.id);
     if (cut) {
       const cx = (ax + bx) / 2;
-      const cy = bx >= ax + 20 ? (ay + by) / 2 : Math.max(ay, by) + 30;
+      const cy = low === null ? (ay + by) / 2 : low;
       parts.push(
-        `<g><line x1="${cx - 7}" y1="${cy - 9}" x2="${cx + 7}" y2="${cy + 9}" stroke="${colours.cut}" stroke-width="3"/><text x="${cx + 9}" y="${cy - 8}" font-size="10" fill="${colours.cut}">${esc(cut.label ?? cut.id)}</text></g>`,
+        `<g><line x1="${cx - 7}" y1="${cy - 9}" x2="${cx + 7}" y2="${cy + 9}" stroke="${colours.cut}" stroke-width="3"/><text x="${cx + 9}" y="${cy - 8}" font-size="10" fill="${colours.cut}">${esc(cutName(cut))}</text></g>`,
       );
     }
   }
@@ -91,17 +118,25 @@ export function diagramSvg(d: Diagram, colours = { text: '#1d2329', muted: '#5d6
       const cy = b.position.y + R;
       const signs = String(b.params.signs ?? '+-');
       parts.push(`<circle cx="${cx}" cy="${cy}" r="${R}" fill="${colours.card}" stroke="${colours.border}" stroke-width="1.5"/>`);
-      parts.push(`<text x="${cx - R - 2}" y="${cy - 5}" font-size="11" text-anchor="end" fill="${colours.text}">${esc(signs[0] ?? '+')}</text>`);
+      parts.push(
+        `<text x="${cx - R - 2}" y="${cy - 5}" font-size="11" text-anchor="end" fill="${colours.text}">${esc(signs[0] ?? '+')}</text>`,
+      );
       if (signs[1]) parts.push(`<text x="${cx + 5}" y="${cy + R + 11}" font-size="11" fill="${colours.text}">${esc(signs[1])}</text>`);
       if (signs[2]) parts.push(`<text x="${cx + 5}" y="${cy - R - 3}" font-size="11" fill="${colours.text}">${esc(signs[2])}</text>`);
       parts.push(`<text x="${cx}" y="${cy - R - 6}" font-size="9" text-anchor="middle" fill="${colours.muted}">${label}</text>`);
       continue;
     }
     const { x, y } = b.position;
-    parts.push(`<rect x="${x}" y="${y}" width="${W}" height="${H}" rx="9" fill="${colours.card}" stroke="${colours.border}" stroke-width="1.5"/>`);
-    parts.push(`<text x="${x + W / 2}" y="${y + 21}" font-size="12" font-weight="600" text-anchor="middle" fill="${colours.text}">${label}</text>`);
+    parts.push(
+      `<rect x="${x}" y="${y}" width="${W}" height="${H}" rx="9" fill="${colours.card}" stroke="${colours.border}" stroke-width="1.5"/>`,
+    );
+    parts.push(
+      `<text x="${x + W / 2}" y="${y + 21}" font-size="12" font-weight="600" text-anchor="middle" fill="${colours.text}">${label}</text>`,
+    );
     const s = summary(b);
-    parts.push(`<text x="${x + W / 2}" y="${y + 39}" font-size="10" text-anchor="middle" fill="${colours.muted}">${esc(s.length > 24 ? `${s.slice(0, 23)}…` : s)}</text>`);
+    parts.push(
+      `<text x="${x + W / 2}" y="${y + 39}" font-size="10" text-anchor="middle" fill="${colours.muted}">${esc(s.length > 24 ? `${s.slice(0, 23)}…` : s)}</text>`,
+    );
   }
   return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="${vb}" width="${x1 - x0 + 2 * pad}" height="${y1 - y0 + 2 * pad}" font-family="system-ui, sans-serif">${parts.join('')}</svg>`;
 }
