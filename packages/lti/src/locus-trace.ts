@@ -1,0 +1,227 @@
+import { type Complex, cabs, cx } from './complex.ts';
+import { BudgetError } from './errors.ts';
+import { deadlineTicker } from './budget.ts';
+import { type FactoredPoly, PencilSolver, rootsOfFactored } from './pencil.ts';
+import { matchRoots } from './root-match.ts';
+import type { LocusPoint, RootLocus } from './locus.ts';
+
+/**
+ * Tracing the n closed-loop poles of D + k·N over the gain range. Each new gain is solved by
+ * the product-form Aberth iteration (pencil.ts) warm-started from the previous roots, which
+ * keeps each root's identity; when it does not converge the roots are solved afresh and
+ * matched to the previous ones (root-match.ts). A gain step is halved until every root moves at
+ * most fraction·(|s| + scale). Breakaway and crossing gains are members of the gain list, with
+ * their roots snapped onto the exact points. Leaving a repeated pole (k = 0 with coincident
+ * roots) the start comes from the local expansion (s − p)^μ ≈ −k·N(p)/D̃(p), which puts the μ
+ * branches on their departure directions at once.
+ */
+export interface TraceOptions {
+  deadline?: number;
+  /** Most traced gains before the continuity refinement stops (default 20000). */
+  maxPoints?: number;
+}
+
+export interface TraceResult {
+  branches: LocusPoint[][];
+  gains: number[];
+  /** n = m degree-drop gain magnitude, NaN when not in range. */
+  kStar: number;
+  /** Worst estimated relative error of a traced pole. */
+  worstRelativeError: number;
+  /** Gain steps where the solver did not meet its stopping test (the result is its best iterate). */
+  unconverged: number;
+  /** True when maxPoints stopped the continuity refinement. */
+  truncated: boolean;
+}
+
+export function traceLocus(
+  Nf: FactoredPoly,
+  Df: FactoredPoly,
+  sgn: number,
+  kMin: number,
+  kMax: number,
+  samples: number,
+  fraction: number,
+  scale: number,
+  breakaways: RootLocus['breakaways'],
+  crossings: RootLocus['crossings'],
+  opts: TraceOptions = {},
+): TraceResult {
+  const n = Df.degree;
+  const empty = { branches: [], gains: [], kStar: NaN, worstRelativeError: 0, unconverged: 0, truncated: false };
+  if (n === 0) return empty;
+  const ticker = deadlineTicker(opts.deadline, 'root locus', 8);
+  const maxPoints = opts.maxPoints ?? 20000;
+  let worstRel = 0;
+  let unconverged = 0;
+  let truncated = false;
+
+  // Base magnitudes: geometric from kMax·1e−7 (or kMin) to kMax, plus 0 and the special gains.
+  const lo = kMin > 0 ? kMin : kMax * 1e-7;
+  const mags: number[] = [];
+  if (kMin === 0) mags.push(0);
+  const count = kMin === 0 ? samples - 1 : samples;
+  for (let i = 0; i < count; i++) mags.push(count === 1 ? kMax : lo * (kMax / lo) ** (i / (count - 1)));
+  const specialMags = new Set<number>();
+  for (const b of breakaways) if (Math.abs(b.gain) >= kMin && Math.abs(b.gain) <= kMax) specialMags.add(Math.abs(b.gain));
+  for (const x of crossings) if (Math.abs(x.gain) >= kMin && Math.abs(x.gain) <= kMax) specialMags.add(Math.abs(x.gain));
+  // n = m: the degree drops at k*; the gains step over a small gap around it.
+  let kStar = NaN;
+  if (Nf.degree === Df.degree) {
+    const ks = -Df.lead / Nf.lead;
+    if (Math.sign(ks) === sgn && Math.abs(ks) > kMin && Math.abs(ks) < kMax) kStar = Math.abs(ks);
+  }
+  let all = [...mags, ...specialMags].sort((a, b) => a - b);
+  // Drop base gains that are within a relative 1e−9 of a special one (keep the special, exact one).
+  all = all.filter((k, i) => {
+    if (specialMags.has(k)) return i === 0 || all[i - 1] !== k;
+    for (const s of specialMags) if (Math.abs(k - s) <= 1e-9 * s) return false;
+    return i === 0 || all[i - 1] !== k;
+  });
+  const gap = 1e-3;
+  if (Number.isFinite(kStar)) {
+    all = all.filter((k) => Math.abs(k - kStar) > gap * kStar);
+    all.push(kStar * (1 - gap), kStar * (1 + gap));
+    all.sort((a, b) => a - b);
+  }
+
+  const rel = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b));
+  /** At a special gain, moves the roots nearest each special point exactly onto it. */
+  const snap = (k: number, roots: Complex[]): Complex[] => {
+    const out = roots.slice();
+    const taken = new Set<number>();
+    const place = (target: Complex, cnt: number) => {
+      const order = out
+        .map((z, i) => ({ i, d: Math.hypot(z.re - target.re, z.im - target.im) }))
+        .filter((e) => !taken.has(e.i))
+        .sort((a, b) => a.d - b.d);
+      for (const e of order.slice(0, cnt)) {
+        if (e.d > 1e-3 * (cabs(target) + scale)) break; // not a root here: leave it
+        out[e.i] = target;
+        taken.add(e.i);
+      }
+    };
+    for (const b of breakaways) if (rel(b.gain, k)) place(b.s, b.branches);
+    for (const x of crossings) {
+      if (!rel(x.gain, k)) continue;
+      place(cx(0, x.omega), 1);
+      if (x.omega > 0) place(cx(0, -x.omega), 1);
+    }
+    return out;
+  };
+  const solver = new PencilSolver(Df, Nf);
+  // Leaving k = 0 from a repeated pole, the warm start is replaced by the local expansion.
+  const poles0 = rootsOfFactored(Df);
+  const coincident0 = Df.factors.some((f) => f.multiplicity > 1);
+  /** Roots of D + kN following `prev` (same count). */
+  const solve = (k: number, prev: Complex[] | null): { roots: Complex[]; errors: number[] } => {
+    ticker.tick();
+    const start = prev && prev === poles0 && coincident0 ? solver.expansionStarts(k) : prev ?? undefined;
+    let r = solver.solve(k, start && start.length === n ? { start } : {});
+    if (!r.converged && start) {
+      const fresh = solver.solve(k);
+      if (fresh.converged || fresh.errors.reduce((a, b) => Math.max(a, b), 0) < r.errors.reduce((a, b) => Math.max(a, b), 0)) r = fresh;
+    }
+    if (r.roots.length !== n) throw new BudgetError(`root locus: the solver returned ${r.roots.length} of ${n} poles at k = ${k}`, 'steps');
+    if (!r.converged) unconverged++;
+    if (!prev || r.followsStart) return { roots: r.roots, errors: r.errors };
+    const perm = matchRoots(prev, r.roots);
+    return { roots: perm.map((j) => r.roots[j]), errors: perm.map((j) => r.errors[j]) };
+  };
+  /** The roots at a gain; at a special gain snapped onto the exact points (whose error is then 0). */
+  const rootsAt = (k: number, prev: Complex[] | null, exact: boolean): Complex[] => {
+    const got = solve(k, prev);
+    const roots = exact ? snap(k, got.roots) : got.roots;
+    roots.forEach((z, i) => {
+      if (z !== got.roots[i]) return; // snapped: exact
+      const e = got.errors[i];
+      if (Number.isFinite(e)) worstRel = Math.max(worstRel, e / Math.max(cabs(z), 1e-8 * scale));
+      else worstRel = Infinity;
+    });
+    return roots;
+  };
+
+  const tracks: LocusPoint[][] = [];
+  for (let i = 0; i < n; i++) tracks.push([]);
+  const gains: number[] = [];
+  const k0 = sgn * all[0];
+  let cur = all[0] === 0 ? poles0 : rootsAt(k0, null, true);
+  const push = (k: number, roots: Complex[]) => {
+    gains.push(k);
+    for (let i = 0; i < n; i++) tracks[i].push({ s: roots[i], k });
+  };
+  push(k0, cur);
+  const within = (a: Complex[], b: Complex[]) => {
+    for (let i = 0; i < a.length; i++) {
+      if (Math.hypot(a[i].re - b[i].re, a[i].im - b[i].im) > fraction * (cabs(a[i]) + scale)) return false;
+    }
+    return true;
+  };
+  /** Steps from |k| = ka (roots ra) to kb, halving the step until the continuity bound holds. */
+  const advance = (ka: number, ra: Complex[], kb: number, exact: boolean): Complex[] => {
+    const stack: { k: number; exact: boolean }[] = [{ k: kb, exact }];
+    let kCur = ka;
+    let rCur = ra;
+    while (stack.length) {
+      const target = stack[stack.length - 1];
+      const kSigned = sgn * target.k;
+      const r = rootsAt(kSigned, rCur, target.exact);
+      const tooSmall = target.k - kCur <= 1e-13 * Math.max(target.k, 1e-300);
+      if (gains.length >= maxPoints) truncated = true;
+      if (tooSmall || truncated || within(rCur, r)) {
+        push(kSigned, r);
+        stack.pop();
+        kCur = target.k;
+        rCur = r;
+      } else {
+        stack.push({ k: 0.5 * (kCur + target.k), exact: false });
+      }
+    }
+    return rCur;
+  };
+  const pieces: LocusPoint[][] = [];
+  let kPrev = all[0];
+  for (let idx = 1; idx < all.length; idx++) {
+    const kNext = all[idx];
+    if (Number.isFinite(kStar) && kPrev < kStar && kNext > kStar) {
+      // Across the degree drop one root passes through infinity: close the tracks and start new ones.
+      for (const t of tracks) pieces.push(t.splice(0));
+      const k1 = sgn * kNext;
+      cur = rootsAt(k1, null, true);
+      push(k1, cur);
+      kPrev = kNext;
+      continue;
+    }
+    cur = advance(kPrev, cur, kNext, specialMags.has(kNext));
+    kPrev = kNext;
+  }
+  pieces.push(...tracks);
+  return { branches: joinPieces(pieces, fraction, scale), gains, kStar, worstRelativeError: worstRel, unconverged, truncated };
+}
+
+/** Joins pieces split at a degree drop: a later piece continues an earlier one that ends where it starts. */
+function joinPieces(pieces: LocusPoint[][], fraction: number, scale: number): LocusPoint[][] {
+  const out: LocusPoint[][] = [];
+  const nonEmpty = pieces.filter((p) => p.length > 0);
+  const firstGain = nonEmpty.length ? Math.abs(nonEmpty[0][0].k) : 0;
+  const heads = nonEmpty.filter((p) => Math.abs(p[0].k) === firstGain);
+  const rest = nonEmpty.filter((p) => Math.abs(p[0].k) !== firstGain);
+  out.push(...heads);
+  for (const piece of rest) {
+    const start = piece[0].s;
+    let best: LocusPoint[] | null = null;
+    let bestD = Infinity;
+    for (const o of out) {
+      const end = o[o.length - 1];
+      if (Math.abs(end.k) >= Math.abs(piece[0].k)) continue;
+      const d = Math.hypot(end.s.re - start.re, end.s.im - start.im);
+      if (d < bestD) {
+        bestD = d;
+        best = o;
+      }
+    }
+    if (best && bestD <= fraction * (cabs(start) + scale)) best.push(...piece);
+    else out.push(piece);
+  }
+  return out;
+}
