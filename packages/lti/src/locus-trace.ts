@@ -1,7 +1,7 @@
 import { type Complex, cabs, cx } from './complex.ts';
 import { BudgetError } from './errors.ts';
 import { deadlineTicker } from './budget.ts';
-import { type FactoredPoly, PencilSolver, rootsOfFactored } from './pencil.ts';
+import { type FactoredPoly, PencilSolver, type PencilRoots, reconcileWithCoefficients, rootsOfFactored } from './pencil.ts';
 import { matchRoots } from './root-match.ts';
 import type { LocusPoint, RootLocus } from './locus.ts';
 
@@ -35,6 +35,8 @@ export interface TraceResult {
 }
 
 export function traceLocus(
+  N: readonly number[],
+  D: readonly number[],
   Nf: FactoredPoly,
   Df: FactoredPoly,
   sgn: number,
@@ -70,6 +72,17 @@ export function traceLocus(
   if (Nf.degree === Df.degree) {
     const ks = -Df.lead / Nf.lead;
     if (Math.sign(ks) === sgn && Math.abs(ks) > kMin && Math.abs(ks) < kMax) kStar = Math.abs(ks);
+  }
+  // Leaving k = 0: around a μ-fold pole p the roots move as |k·N(p)/D̃(p)|^(1/μ); the first
+  // traced gain is the one that keeps that within the continuity bound (no halving from the
+  // first base gain, which lies 1e-7·kMax away and may be 1e30 times too large).
+  if (kMin === 0) {
+    let first = Infinity;
+    for (const f of Df.factors) {
+      const w = firstGain(Nf, Df, f.root, f.multiplicity, 0.5 * fraction * (cabs(f.root) + scale));
+      if (w > 0 && w < first) first = w;
+    }
+    if (Number.isFinite(first) && first < lo) mags.push(first);
   }
   let all = [...mags, ...specialMags].sort((a, b) => a - b);
   // Drop base gains that are within a relative 1e−9 of a special one (keep the special, exact one).
@@ -110,20 +123,50 @@ export function traceLocus(
     return out;
   };
   const solver = new PencilSolver(Df, Nf);
+  /** D + kN in coefficients. */
+  const charPoly = (k: number): number[] => {
+    const out = D.slice();
+    for (let i = 0; i < N.length; i++) out[i] += k * N[i];
+    return out;
+  };
   // Leaving k = 0 from a repeated pole, the warm start is replaced by the local expansion.
   const poles0 = rootsOfFactored(Df);
   const coincident0 = Df.factors.some((f) => f.multiplicity > 1);
   /** Roots of D + kN following `prev` (same count). */
+  // The last two accepted points, for a linear prediction of the next roots (a warm start
+  // with a second-order error saves the Aberth iteration a sweep or two).
+  let back: { k: number; roots: Complex[] } | null = null;
+  let front: { k: number; roots: Complex[] } | null = null;
+  const accept = (k: number, roots: Complex[]) => {
+    back = front;
+    front = { k, roots };
+  };
+  const predict = (k: number, prev: Complex[]): Complex[] | null => {
+    const f = front as { k: number; roots: Complex[] } | null;
+    const b = back as { k: number; roots: Complex[] } | null;
+    if (!f || !b || f.roots !== prev || f.k === b.k) return null;
+    const t = (k - f.k) / (f.k - b.k);
+    if (!(t > 0 && t <= 2)) return null;
+    return prev.map((z, i) => cx(z.re + t * (z.re - b.roots[i].re), z.im + t * (z.im - b.roots[i].im)));
+  };
   const solve = (k: number, prev: Complex[] | null): { roots: Complex[]; errors: number[] } => {
     ticker.tick();
-    const start = prev && prev === poles0 && coincident0 ? solver.expansionStarts(k) : prev ?? undefined;
-    let r = solver.solve(k, start && start.length === n ? { start } : {});
-    if (!r.converged && start) {
+    let r: PencilRoots | null = null;
+    if (prev) {
+      const guess = prev === poles0 && coincident0 ? solver.expansionStarts(k) : predict(k, prev);
+      if (guess && guess.length === n) r = solver.solve(k, { start: guess, maxIterations: 12 });
+      if (!r?.converged) {
+        const warm = solver.solve(k, { start: prev });
+        if (!r || warm.converged || worstOf(warm) < worstOf(r)) r = warm;
+      }
+    }
+    if (!r?.converged) {
       const fresh = solver.solve(k);
-      if (fresh.converged || fresh.errors.reduce((a, b) => Math.max(a, b), 0) < r.errors.reduce((a, b) => Math.max(a, b), 0)) r = fresh;
+      if (!r || fresh.converged || worstOf(fresh) < worstOf(r)) r = fresh;
     }
     if (r.roots.length !== n) throw new BudgetError(`root locus: the solver returned ${r.roots.length} of ${n} poles at k = ${k}`, 'steps');
     if (!r.converged) unconverged++;
+    reconcileWithCoefficients(charPoly(k), r.roots, r.errors);
     if (!prev || r.followsStart) return { roots: r.roots, errors: r.errors };
     const perm = matchRoots(prev, r.roots);
     return { roots: perm.map((j) => r.roots[j]), errors: perm.map((j) => r.errors[j]) };
@@ -147,6 +190,7 @@ export function traceLocus(
   const k0 = sgn * all[0];
   let cur = all[0] === 0 ? poles0 : rootsAt(k0, null, true);
   const push = (k: number, roots: Complex[]) => {
+    accept(k, roots);
     gains.push(k);
     for (let i = 0; i < n; i++) tracks[i].push({ s: roots[i], k });
   };
@@ -174,7 +218,10 @@ export function traceLocus(
         kCur = target.k;
         rCur = r;
       } else {
-        stack.push({ k: 0.5 * (kCur + target.k), exact: false });
+        // Halve the step: arithmetically, or geometrically across a wide gain ratio (from 1e-7·kMax
+        // towards kMax a plain midpoint would take a hundred halvings to come back down).
+        const mid = kCur > 0 && target.k > 4 * kCur ? Math.sqrt(kCur * target.k) : 0.5 * (kCur + target.k);
+        stack.push({ k: mid, exact: false });
       }
     }
     return rCur;
@@ -186,6 +233,7 @@ export function traceLocus(
     if (Number.isFinite(kStar) && kPrev < kStar && kNext > kStar) {
       // Across the degree drop one root passes through infinity: close the tracks and start new ones.
       for (const t of tracks) pieces.push(t.splice(0));
+      back = front = null;
       const k1 = sgn * kNext;
       cur = rootsAt(k1, null, true);
       push(k1, cur);
@@ -198,6 +246,25 @@ export function traceLocus(
   pieces.push(...tracks);
   return { branches: joinPieces(pieces, fraction, scale), gains, kStar, worstRelativeError: worstRel, unconverged, truncated };
 }
+
+/** The gain k at which roots leaving the μ-fold pole p have moved `dist`: |k·N(p)/D̃(p)|·… = dist^μ. */
+function firstGain(Nf: FactoredPoly, Df: FactoredPoly, p: Complex, mu: number, dist: number): number {
+  // log |N(p)/D̃(p)| with D̃ = D/(s − p)^μ, from the factors.
+  let log = Math.log(Math.abs(Nf.lead / Df.lead));
+  for (const g of Nf.factors) {
+    const d = Math.hypot(p.re - g.root.re, p.im - g.root.im);
+    if (d === 0) return 0;
+    log += g.multiplicity * Math.log(d);
+  }
+  for (const g of Df.factors) {
+    if (g.root.re === p.re && g.root.im === p.im) continue;
+    log -= g.multiplicity * Math.log(Math.hypot(p.re - g.root.re, p.im - g.root.im));
+  }
+  const k = Math.exp(mu * Math.log(dist) - log);
+  return Number.isFinite(k) ? k : 0;
+}
+
+const worstOf = (r: PencilRoots) => r.errors.reduce((m, e) => Math.max(m, Number.isFinite(e) ? e : Infinity), 0);
 
 /** Joins pieces split at a degree drop: a later piece continues an earlier one that ends where it starts. */
 function joinPieces(pieces: LocusPoint[][], fraction: number, scale: number): LocusPoint[][] {

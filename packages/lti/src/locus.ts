@@ -138,7 +138,7 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
   const kMax = opts.kMax ?? autoKMax(Nf, Df, R, special);
   if (kMax <= kMin) throw new InputError(`k range reversed: kMin ${kMin} is not below kMax ${kMax}`, { field: 'kMin' });
 
-  const t = traceLocus(Nf, Df, sgn, kMin, kMax, samples, fraction, scale, breakaways, crossings, {
+  const t = traceLocus(N, D, Nf, Df, sgn, kMin, kMax, samples, fraction, scale, breakaways, crossings, {
     ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}),
     ...(opts.maxPoints !== undefined ? { maxPoints: opts.maxPoints } : {}),
   });

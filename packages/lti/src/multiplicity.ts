@@ -1,4 +1,6 @@
 import { type Complex, cabs, cx } from './complex.ts';
+import { companionEigenvalues } from './companion.ts';
+import * as P from './poly.ts';
 
 /**
  * Numerical multiplicity of computed roots. A root of multiplicity m is split by rounding
@@ -10,7 +12,7 @@ import { type Complex, cabs, cx } from './complex.ts';
  *  2. roots whose discs overlap form groups (connected components);
  *  3. a group of m roots is ONE root of multiplicity m at c when p is within rounding of a
  *     polynomial with an exact m-fold root at c: every Taylor coefficient t_j(c), j < m, is at
- *     its rounding level, and t_m(c) is clearly above it (the multiplicity is determined, not
+ *     its rounding level, and t_m(c) is clearly (8×) above it (the multiplicity is determined, not
  *     a region where p is flat to rounding, as near the middle roots of Wilkinson's polynomial).
  *     The centre c is the simple root of p^(m−1) found by Newton from the group's mean.
  *  Groups that fail are shrunk (farthest member out) and tried again.
@@ -135,6 +137,27 @@ export function rootMultiplicities(c: readonly number[], raw: readonly Complex[]
     for (let j = 0; j < m; j++) if (raw[j].re === raw[i].re && raw[j].im === -raw[i].im) return j;
     return -1;
   };
+  /** Records a validated m-fold root at `centre` for the given raw roots (and the mirror for a complex one). */
+  const assign = (centre: Complex, members: number[], self: boolean, error: number): boolean => {
+    const lower = self ? [] : members.map(conjOf);
+    if (!self && lower.some((j) => j < 0 || taken[j] || members.includes(j))) return false;
+    for (const i of members) {
+      roots[i] = centre;
+      errors[i] = error;
+      taken[i] = true;
+    }
+    multiple.push({ center: centre, multiplicity: members.length, members: members.map((i) => raw[i]) });
+    if (!self) {
+      const conj = cx(centre.re, -centre.im);
+      for (const j of lower) {
+        roots[j] = conj;
+        errors[j] = error;
+        taken[j] = true;
+      }
+      multiple.push({ center: conj, multiplicity: lower.length, members: lower.map((j) => raw[j]) });
+    }
+    return true;
+  };
   for (let g = 0; g < groups; g++) {
     const seed: number[] = [];
     for (let i = 0; i < m; i++) if (group[i] === g && !taken[i]) seed.push(i);
@@ -147,29 +170,93 @@ export function rootMultiplicities(c: readonly number[], raw: readonly Complex[]
     for (const { start, self } of attempts) {
       if (start.length < 2) continue;
       const found = growAndValidate(c, raw, start, self, taken, K);
-      if (!found) continue;
-      const members = found.members;
-      const lower = self ? [] : members.map(conjOf);
-      if (!self && lower.some((j) => j < 0 || taken[j])) continue;
-      for (const i of members) {
-        roots[i] = found.centre;
-        errors[i] = found.error;
-        taken[i] = true;
-      }
-      multiple.push({ center: found.centre, multiplicity: members.length, members: members.map((i) => raw[i]) });
-      if (!self) {
-        const conj = cx(found.centre.re, -found.centre.im);
-        for (const j of lower) {
-          roots[j] = conj;
-          errors[j] = found.error;
-          taken[j] = true;
-        }
-        multiple.push({ center: conj, multiplicity: lower.length, members: lower.map((j) => raw[j]) });
-      }
-      break;
+      if (found && assign(found.centre, found.members, self, found.error)) break;
     }
   }
+  // 4. Groups still unexplained may hold several multiple roots whose rounding circles overlap
+  //    ((s + 1)^20·(s² + s + 4)^10): an m-fold root is a simple root of p^(m−1), so the roots of
+  //    the derivatives inside the group are the candidate centres, largest m first.
+  for (let g = 0; g < groups; g++) {
+    const free: number[] = [];
+    for (let i = 0; i < m; i++) if (group[i] === g && !taken[i]) free.push(i);
+    if (free.length < 3) continue;
+    if (!free.some((i) => raw[i].im >= 0)) continue;
+    derivativeCandidates(c, raw, free, taken, K, assign);
+  }
   return { roots, errors, multiple };
+}
+
+/** Step 4 above, for one group of free raw roots. */
+function derivativeCandidates(
+  c: readonly number[],
+  raw: readonly Complex[],
+  free: number[],
+  taken: boolean[],
+  K: number,
+  assign: (centre: Complex, members: number[], self: boolean, error: number) => boolean,
+): void {
+  const n = c.length - 1;
+  let mre = 0;
+  let mim = 0;
+  for (const i of free) {
+    mre += raw[i].re;
+    mim += raw[i].im;
+  }
+  mre /= free.length;
+  mim /= free.length;
+  let reach = 0;
+  for (const i of free) reach = Math.max(reach, Math.hypot(raw[i].re - mre, raw[i].im - mim));
+  reach = 1.5 * reach + 1e-12 * (1 + Math.hypot(mre, mim));
+  const derivs: number[][] = [c.slice()];
+  for (let j = 1; j < n; j++) derivs.push(P.derivative(derivs[j - 1]));
+  for (let mult = Math.min(free.length, n - 1); mult >= 2; mult--) {
+    const q = derivs[mult - 1];
+    if (q.length < 2) continue;
+    let cands: Complex[];
+    try {
+      cands = q.length === 2 ? [cx(-q[0] / q[1])] : companionEigenvalues(q, 'derivative of the polynomial');
+    } catch {
+      continue;
+    }
+    for (const z0 of cands) {
+      const left = free.filter((i) => !taken[i]);
+      if (left.length < mult) break;
+      if (z0.im < 0 || Math.hypot(z0.re - mre, z0.im - mim) > reach) continue;
+      const self = Math.abs(z0.im) <= 1e-6 * reach;
+      const centre = refineCentre(c, self ? cx(z0.re) : z0, mult, reach);
+      if (!centre) continue;
+      const verdict = multipleRootAt(c, centre, mult, K);
+      if (!verdict) continue;
+      // The m free raw roots nearest the centre (upper-half ones for a complex centre).
+      const pool = left.filter((i) => self || raw[i].im > 0);
+      if (pool.length < mult) continue;
+      pool.sort((a, b) => Math.hypot(raw[a].re - centre.re, raw[a].im - centre.im) - Math.hypot(raw[b].re - centre.re, raw[b].im - centre.im));
+      let members = pool.slice(0, mult);
+      if (self) {
+        // Keep a real group closed under conjugation: swap in missing mirrors where possible.
+        members = closeUnderConjugation(raw, members, pool, mult);
+        if (members.length !== mult) continue;
+      }
+      assign(centre, members, self, verdict.error);
+    }
+  }
+}
+
+/** A set of `mult` indices from `pool` that contains the mirror of each complex member, or []. */
+function closeUnderConjugation(raw: readonly Complex[], first: number[], pool: number[], mult: number): number[] {
+  const out: number[] = [];
+  for (const i of pool) {
+    if (out.length >= mult) break;
+    if (out.includes(i)) continue;
+    if (raw[i].im === 0) {
+      out.push(i);
+      continue;
+    }
+    const j = pool.find((q) => q !== i && !out.includes(q) && raw[q].re === raw[i].re && raw[q].im === -raw[i].im);
+    if (j === undefined || out.length + 2 > mult) continue;
+    out.push(i, j);
+  }
+  return out.length === mult && first.length === mult ? out : [];
 }
 
 /**
@@ -271,6 +358,6 @@ function multipleRootAt(c: readonly number[], z: Complex, mult: number, K: numbe
     if (Math.hypot(t.re[j], t.im[j]) > K * EPS * s[j]) return null;
   }
   const tm = Math.hypot(t.re[mult], t.im[mult]);
-  if (!(tm > 1e3 * K * EPS * s[mult])) return null;
+  if (!(tm > 8 * K * EPS * s[mult])) return null;
   return { error: (K * EPS * s[mult - 1]) / (mult * tm) };
 }

@@ -415,6 +415,9 @@ export class PencilSolver {
     let numI: number;
     let denR: number;
     let denI: number;
+    // `rounding`: the evaluation's own rounding level (the stopping test); `err` adds the
+    // uncertainty of A's and B's roots (the error estimate of the root reached).
+    let rounding: number;
     let err: number;
     if (!(log2R > 0)) {
       // |R| ≤ ~1: f/f′ = (1 + R)/(σA + R·σB)
@@ -426,7 +429,8 @@ export class PencilSolver {
       numI = Ri;
       denR = sar + Rr * sbr - Ri * sbi;
       denI = sai + Rr * sbi + Ri * sbr;
-      err = EPS * this.nTerms * (1 + aR) + errA + aR * errB;
+      rounding = EPS * this.nTerms * (1 + aR);
+      err = rounding + errA + aR * errB;
     } else {
       // |R| > 1: f/f′ = (1/R + 1)/(σA/R + σB)
       const sc = e2 === 0 ? 1 : log2R > 1000 ? 0 : 2 ** -e2;
@@ -438,16 +442,17 @@ export class PencilSolver {
       numI = Ii;
       denR = sbr + Ir * sar - Ii * sai;
       denI = sbi + Ir * sai + Ii * sar;
-      err = EPS * this.nTerms * (1 + aI) + errB + aI * errA;
+      rounding = EPS * this.nTerms * (1 + aI);
+      err = rounding + errB + aI * errA;
     }
     const nm = Math.hypot(numR, numI);
     const dm = Math.hypot(denR, denI);
     if (!(dm > 0) || !Number.isFinite(dm)) {
       this.nr = 0;
       this.ni = 0;
-      this.atRounding = nm <= err;
+      this.atRounding = nm <= rounding;
       this.error = Infinity;
-      this.bad = !(nm <= err);
+      this.bad = !(nm <= rounding);
       return;
     }
     if (Math.abs(denR) >= Math.abs(denI)) {
@@ -461,7 +466,7 @@ export class PencilSolver {
       this.nr = (numR * r + numI) / d;
       this.ni = (numI * r - numR) / d;
     }
-    this.atRounding = nm <= 4 * err;
+    this.atRounding = nm <= 4 * rounding;
     this.error = err / dm;
     this.bad = !Number.isFinite(nm);
   }
@@ -670,4 +675,45 @@ export function factoredLogDerivative(f: FactoredPoly, s: Complex): Complex {
 /** Start points for A + k·B from the local expansion around A's roots (see pencilRoots). */
 export function pencilExpansionStarts(A: FactoredPoly, B: FactoredPoly, k: number): Complex[] {
   return new PencilSolver(A, B).expansionStarts(k);
+}
+
+/**
+ * Reconciles product-form roots with the expanded coefficients c they stand for: a Newton step
+ * on c is taken where it lowers |c(z)| and moves z by no more than twice the root's estimated
+ * error (the open-loop roots behind the product form are themselves only that accurate). Low
+ * orders thus end backward-stable in the coefficients; where the coefficients are too
+ * ill-conditioned to help ((s + 1)^40), the bound keeps them from pulling a root off.
+ */
+export function reconcileWithCoefficients(c: readonly number[], roots: Complex[], errors: readonly number[]): void {
+  const n = c.length - 1;
+  if (n < 1) return;
+  for (let i = 0; i < roots.length; i++) {
+    const e = errors[i];
+    if (!(e > 0) || !Number.isFinite(e)) continue;
+    let z = roots[i];
+    for (let step = 0; step < 2; step++) {
+      // Horner for c(z) and c′(z)
+      let pr = c[n];
+      let pi = 0;
+      let dr = 0;
+      let di = 0;
+      for (let k = n - 1; k >= 0; k--) {
+        const ndr = dr * z.re - di * z.im + pr;
+        di = dr * z.im + di * z.re + pi;
+        dr = ndr;
+        const npr = pr * z.re - pi * z.im + c[k];
+        pi = pr * z.im + pi * z.re;
+        pr = npr;
+      }
+      if (pr === 0 && pi === 0) break;
+      if (dr === 0 && di === 0) break;
+      const d = cdivParts(pr, pi, dr, di);
+      if (!(Math.hypot(d.re, d.im) <= 2 * e)) break;
+      const next = cx(z.re - d.re, z.im === 0 ? 0 : z.im - d.im);
+      const v = P.evalComplex(c, next);
+      if (!(Math.hypot(v.re, v.im) < Math.hypot(pr, pi))) break;
+      z = next;
+    }
+    roots[i] = z;
+  }
 }
