@@ -13,6 +13,7 @@ export * from './companion.ts';
 export * from './eigen.ts';
 export * from './statespace.ts';
 export * from './frequency.ts';
+export * from './closed-loop.ts';
 export * from './margins.ts';
 export * from './parse.ts';
 export * from './locus.ts';
