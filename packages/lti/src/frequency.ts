@@ -140,6 +140,23 @@ export function frequencyResponse(tf: TransferFunction, omegas: readonly number[
   return out;
 }
 
+/**
+ * Continuous phases (degrees) for values given only by re/im, guided by a continuous phase that
+ * agrees at the first frequency and turns alike between neighbours (an approximant of the same
+ * loop): each principal value is put on the branch nearest to the previous phase plus the
+ * guide's change. Used where L(jω) is solved numerically (a diagram with dead times in inner
+ * loops) and only its Padé approximant has a phase of its own.
+ */
+export function unwrapAlong(re: readonly number[], im: readonly number[], guideDeg: readonly number[]): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < re.length; i++) {
+    const principal = (Math.atan2(im[i], re[i]) * 180) / Math.PI;
+    const ref = i === 0 ? guideDeg[0] : out[i - 1] + (guideDeg[i] - guideDeg[i - 1]);
+    out.push(Number.isFinite(ref) ? principal + 360 * Math.round((ref - principal) / 360) : principal);
+  }
+  return out;
+}
+
 /** n points from 10^a to 10^b, evenly spaced in log10 (both ends included). */
 export function logspace(a: number, b: number, n: number): number[] {
   if (!Number.isFinite(a) || !Number.isFinite(b)) throw new InputError(`logspace: decades must be finite, got ${a} and ${b}`);

@@ -2,7 +2,7 @@ import { type Complex, cabs, cx } from './complex.ts';
 import { InputError, MAX_ORDER } from './errors.ts';
 import { polyRootsDetailed } from './roots.ts';
 import { deadlineTicker } from './budget.ts';
-import { type FrequencyEvaluator, frequencyEvaluator, frequencyRange } from './frequency.ts';
+import { type FrequencyEvaluator, frequencyEvaluator, frequencyRange, unwrapAlong } from './frequency.ts';
 import * as P from './poly.ts';
 import type { TransferFunction } from './transfer.ts';
 import { padeOrderFor } from './pade.ts';
@@ -222,20 +222,18 @@ function marginsOf(
   const grid = sweepGrid(L, g, opts, delayScale, atInfinity);
   const at = (w: number): Complex => (exact ? exact(w) : (({ re, im }) => cx(re, im))(g(w)));
   const samples: Sample[] = [];
+  const guide: number[] = [];
   for (let i = 0; i < grid.length; i++) {
     ticker.tick();
-    const w = grid[i];
-    const gv = g(w);
-    if (!exact) {
-      samples.push({ re: gv.re, im: gv.im, mag: gv.mag, ph: gv.phaseDeg });
-      continue;
-    }
-    const v = exact(w);
-    const principal = Math.atan2(v.im, v.re) * DEG;
+    const gv = g(grid[i]);
+    guide.push(gv.phaseDeg);
+    const v = exact ? exact(grid[i]) : gv;
+    samples.push({ re: v.re, im: v.im, mag: exact ? Math.hypot(v.re, v.im) : gv.mag, ph: gv.phaseDeg });
+  }
+  if (exact) {
     // Unwrap: the approximant's phase change predicts the exact one (they agree at low frequency).
-    const ref = i === 0 ? gv.phaseDeg : samples[i - 1].ph + (gv.phaseDeg - g(grid[i - 1]).phaseDeg);
-    const ph = Number.isFinite(ref) ? principal + 360 * Math.round((ref - principal) / 360) : principal;
-    samples.push({ re: v.re, im: v.im, mag: Math.hypot(v.re, v.im), ph });
+    const ph = unwrapAlong(samples.map((q) => q.re), samples.map((q) => q.im), guide);
+    samples.forEach((q, i) => (q.ph = ph[i]));
   }
   /** The continuous phase at ω inside [grid[i], grid[i+1]] (interpolated branch for exact sources). */
   const phaseIn = (w: number, i: number): number => {
