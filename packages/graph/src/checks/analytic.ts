@@ -4,6 +4,7 @@ import type { Finding } from './finding.ts';
 import { type CompiledGraph, feedthroughOf } from '../analysis/linear-graph.ts';
 import { determinantPoly, flowGraph, simpleCycles } from '../analysis/mason.ts';
 import { type Linearisable, closedLoopPoles, compiledOf } from '../analysis/reduce.ts';
+import { hiddenModeFindings } from '../analysis/hidden-modes.ts';
 
 /** Analytical findings have the shape of every check's findings. */
 export type AnalyticFinding = Finding;
@@ -149,6 +150,10 @@ export function checkAnalytic(d: Linearisable, overrides?: ParameterOverrides): 
   const out = [...algebraicLoopFindings(c), ...cancellationFindings(c)];
   if (!out.some((f) => f.code === 'ill-posed-algebraic-loop' || (f.code === 'algebraic-loop' && f.severity === 'error'))) {
     try {
+      // Hidden modes from the whole diagram (probes, fan-outs and junctions cannot hide them);
+      // a cancellation the series check already reported is not repeated.
+      const same = (a: AnalyticFinding, b: AnalyticFinding) => a.code === b.code && [...(a.blocks ?? [])].sort().join() === [...(b.blocks ?? [])].sort().join();
+      for (const f of hiddenModeFindings(c)) if (!out.some((g) => same(f, g))) out.push(f);
       out.push(...stabilityFindings(c));
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
