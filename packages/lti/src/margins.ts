@@ -111,7 +111,8 @@ export interface LoopSource {
   approximant: TransferFunction;
   /** L(jω) exactly. */
   evaluate(omega: number): Complex;
-  /** Sum of all dead times in the loop (s): bounds how fast the exact phase can turn. */
+  /** Sum of all dead times in the loop (s); those beyond the approximant's own dead time turn the
+   *  exact phase away from the approximant's, which sets how finely it must be sampled. */
   delaySum: number;
 }
 
@@ -121,12 +122,13 @@ const DEFAULT_LISTED = 100;
 
 /** Margins of a transfer function (dead time kept exact in every frequency figure). */
 export function loopMargins(L: TransferFunction, opts: MarginOptions = {}): LoopMargins {
-  return marginsOf(L, null, L.delay, opts, L.delay > 0 ? 'exact' : 'rational');
+  return marginsOf(L, null, L.delay, 0, opts, L.delay > 0 ? 'exact' : 'rational');
 }
 
 /** Margins of a loop given by an exact evaluator and an approximant (see LoopSource). */
 export function loopMarginsOf(source: LoopSource, opts: MarginOptions = {}): LoopMargins {
-  return marginsOf(source.approximant, source.evaluate, Math.max(source.delaySum, source.approximant.delay), opts, 'exact');
+  const inner = Math.max(0, source.delaySum - source.approximant.delay);
+  return marginsOf(source.approximant, source.evaluate, Math.max(source.delaySum, source.approximant.delay), inner, opts, 'exact');
 }
 
 /** One sample of L(jω): value, magnitude and continuous phase (degrees). */
@@ -141,6 +143,7 @@ function marginsOf(
   L: TransferFunction,
   exact: ((omega: number) => Complex) | null,
   delayScale: number,
+  innerDelay: number,
   opts: MarginOptions,
   method: LoopMargins['frequencyMethod'],
 ): LoopMargins {
@@ -219,7 +222,7 @@ function marginsOf(
   }
 
   // ——— the sweep: values and continuous phase on the bracketing grid
-  const grid = sweepGrid(L, g, opts, delayScale, atInfinity);
+  const { grid, trackedTo } = sweepGrid(L, g, opts, delayScale, atInfinity, exact ? innerDelay : 0);
   const at = (w: number): Complex => (exact ? exact(w) : (({ re, im }) => cx(re, im))(g(w)));
   const samples: Sample[] = [];
   const guide: number[] = [];
@@ -235,16 +238,13 @@ function marginsOf(
     const ph = unwrapAlong(samples.map((q) => q.re), samples.map((q) => q.im), guide);
     samples.forEach((q, i) => (q.ph = ph[i]));
   }
-  /** The continuous phase at ω inside [grid[i], grid[i+1]] (interpolated branch for exact sources). */
+  /** The continuous phase at ω inside [grid[i], grid[i+1]]: for an exact source, the branch the approximant's phase change from grid[i] predicts. */
   const phaseIn = (w: number, i: number): number => {
     if (!exact) return g(w).phaseDeg;
     const v = exact(w);
     const principal = Math.atan2(v.im, v.re) * DEG;
-    const a = samples[i].ph;
-    const b = samples[Math.min(i + 1, samples.length - 1)].ph;
-    const t = (Math.log(w) - Math.log(grid[i])) / (Math.log(grid[Math.min(i + 1, grid.length - 1)]) - Math.log(grid[i]) || 1);
-    const ref = a + (b - a) * Math.min(1, Math.max(0, t));
-    return principal + 360 * Math.round((ref - principal) / 360);
+    const ref = samples[i].ph + (g(w).phaseDeg - guide[i]);
+    return Number.isFinite(ref) ? principal + 360 * Math.round((ref - principal) / 360) : principal;
   };
   const n = grid.length;
 
@@ -291,7 +291,11 @@ function marginsOf(
   };
   let listedBelow = Infinity;
   let stopIdx = -1;
-  outer: for (let i = 0; i + 1 < n; i++) {
+  // An exact source's phase is followed only where the grid is fine enough for its inner dead
+  // times (see sweepGrid); above that the crossovers are not searched.
+  const lastTracked = exact ? grid.findIndex((w) => w > trackedTo) : -1;
+  const scanEnd = lastTracked > 0 ? lastTracked : n - 1;
+  outer: for (let i = 0; i < scanEnd; i++) {
     const pa = samples[i].ph;
     const pb = samples[i + 1].ph;
     if (!Number.isFinite(pa) || !Number.isFinite(pb)) continue;
@@ -318,13 +322,18 @@ function marginsOf(
   // ——— the unlisted tail: counted, described, and its deciding crossovers located
   let tail: PhaseCrossoverTail | null = null;
   const deciding: PhaseCrossoverTail['deciding'] = [];
+  const untracked = stopIdx < 0 && scanEnd < n - 1;
+  if (untracked) {
+    stopIdx = scanEnd;
+    listedBelow = grid[scanEnd];
+  }
   if (stopIdx >= 0 || L.delay > 0 || delayScale > 0) {
     const from = stopIdx >= 0 ? listedBelow : grid[n - 1];
     const i0 = stopIdx >= 0 ? stopIdx : n - 1;
     const phFrom = stopIdx >= 0 ? phaseIn(from, i0) : samples[n - 1].ph;
     const phTo = samples[n - 1].ph;
     const levels = Math.abs(Math.floor((phTo + 180) / 360) - Math.floor((phFrom + 180) / 360));
-    const count = Number.isFinite(levels) && levels < 2 ** 53 ? levels + (stopIdx >= 0 ? 1 : 0) : null;
+    const count = exact ? null : Number.isFinite(levels) && levels < 2 ** 53 ? levels + (stopIdx >= 0 ? 1 : 0) : null;
     let fMin = Infinity;
     let fMax = 0;
     for (let i = i0; i < n; i++) {
@@ -340,16 +349,30 @@ function marginsOf(
       fMin = Math.min(fMin, limit);
       fMax = Math.max(fMax, limit);
     }
-    // Deciding crossovers: next to each local extreme of |L| in the tail and next to |L| = 1.
-    const marks: number[] = [];
-    for (let i = Math.max(i0, 1); i + 1 < n; i++) {
+    // Deciding crossovers: next to the local extremes of |L| in the tail that could beat the
+    // listed ones (a maximum of |L| ≤ 1 above the best listed for the gain margin, a minimum of
+    // |L| ≥ 1 below the best listed for the lower one) and next to |L| = 1; the eight closest
+    // to |L| = 1 are located.
+    let bestBelow = 0;
+    let bestAbove = Infinity;
+    for (const p of listed) {
+      const m = 1 / p.gainFactor;
+      if (m <= 1) bestBelow = Math.max(bestBelow, m);
+      else bestAbove = Math.min(bestAbove, m);
+    }
+    const candidates: { i: number; closeness: number }[] = [];
+    for (let i = Math.max(i0, 1); i + 1 < (exact ? scanEnd : n); i++) {
       const a = samples[i - 1].mag;
       const b = samples[i].mag;
       const c = samples[i + 1].mag;
-      if ((b >= a && b >= c) || (b <= a && b <= c) || side(a) !== side(b)) marks.push(i);
+      const crossing = side(a) !== side(b);
+      const useful = (b >= a && b >= c && b <= 1 && b > bestBelow) || (b <= a && b <= c && b >= 1 && b < bestAbove);
+      if (crossing || useful) candidates.push({ i, closeness: Math.abs(Math.log(b)) });
     }
+    candidates.sort((a, b) => a.closeness - b.closeness);
+    const marks = candidates.slice(0, 8).map((c) => c.i);
     if (stopIdx >= 0) marks.push(stopIdx);
-    for (const i of marks.slice(0, 200)) {
+    for (const i of marks) {
       ticker.tick();
       for (const j of [i - 1, i]) {
         if (j < i0 || j + 1 >= n) continue;
@@ -384,7 +407,20 @@ function marginsOf(
         gainFactorMax: fMax,
         deciding,
       };
-      if (stopIdx >= 0) {
+      if (stopIdx < 0 && infinite) {
+        notes.push(
+          `phase crossovers: all ${listed.length} below ${fmt(grid[n - 1])} rad/s are listed; infinitely many lie above (dead time), ` +
+            `with gain factors between ${fmt(fMin)} and ${fmt(fMax)}`,
+        );
+      }
+      if (untracked) {
+        notes.push(
+          `phase crossovers: the ${listed.length} below ${fmt(listedBelow)} rad/s are listed; above it the exact response (dead time inside another loop) ` +
+            `turns too fast to follow and is not searched` +
+            (infinite ? ' (infinitely many lie there)' : '') +
+            `; the magnitude there allows gain factors between ${fmt(fMin)} and ${fmt(fMax)}`,
+        );
+      } else if (stopIdx >= 0) {
         notes.push(
           `phase crossovers: the first ${listed.length} are listed (below ${fmt(listedBelow)} rad/s); ` +
             `${count === null ? 'too many to count' : count} more up to ${fmt(grid[n - 1])} rad/s` +
@@ -666,7 +702,14 @@ function bandwidthOf(grid: readonly number[], tVals: readonly number[], tAt: (w:
  * end is widened (up to 8 decades) while |L| > 0.1, except for a biproper loop, whose |L| never
  * falls: there the features end two decades above the highest pole or zero.
  */
-function sweepGrid(L: TransferFunction, g: FrequencyEvaluator, opts: MarginOptions, T: number, atInfinity: number): number[] {
+function sweepGrid(
+  L: TransferFunction,
+  g: FrequencyEvaluator,
+  opts: MarginOptions,
+  T: number,
+  atInfinity: number,
+  innerDelay: number,
+): { grid: number[]; trackedTo: number } {
   let [lo, hi] = frequencyRange(L, 2);
   if (T > 0 && T !== L.delay) hi = Math.max(hi, 100 / T);
   if (opts.omegaMin !== undefined) lo = opts.omegaMin;
@@ -699,11 +742,17 @@ function sweepGrid(L: TransferFunction, g: FrequencyEvaluator, opts: MarginOptio
     return logFeats.length === 0;
   };
   const sparse = 10 ** (1 / 20);
+  // Dead time inside another loop turns the exact phase away from the approximant's by up to
+  // ω·T_inner: steps of π/(4·T_inner) keep that below 45° per step, up to where 20000 such steps
+  // reach (the phase is followed that far; see marginsOf).
+  const innerCap = innerDelay > 0 ? Math.PI / 4 / innerDelay : Infinity;
+  const trackedTo = innerDelay > 0 ? Math.min(hi, Math.max(lo * 10, 20000 * innerCap)) : hi;
   const pts: number[] = [];
   for (let w = lo; w < hi; ) {
     pts.push(w);
     const r = nearFeature(w) ? ratio : Math.max(ratio, sparse);
-    const step = w < linLimit ? Math.min(w * (r - 1), linCap) : w * (r - 1);
+    let step = w < linLimit ? Math.min(w * (r - 1), linCap) : w * (r - 1);
+    if (w < trackedTo) step = Math.min(step, innerCap);
     w += step;
     if (pts.length > 200000) throw new InputError('frequency sweep: more than 200000 points (the range or the dead time is too extreme)');
   }
@@ -720,7 +769,7 @@ function sweepGrid(L: TransferFunction, g: FrequencyEvaluator, opts: MarginOptio
     }
   }
   pts.sort((a, b) => a - b);
-  return pts;
+  return { grid: pts, trackedTo };
 }
 
 /** The scalar figures of a LoopMargins as plain, serialisable data (CLI JSON, worker messages, tables). */
