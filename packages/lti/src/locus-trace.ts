@@ -17,7 +17,7 @@ import type { LocusPoint, RootLocus } from './locus.ts';
  */
 export interface TraceOptions {
   deadline?: number;
-  /** Most traced gains before the continuity refinement stops (default 20000). */
+  /** Most traced gains before the continuity refinement stops (default 4000: ten times the base samples). */
   maxPoints?: number;
 }
 
@@ -53,7 +53,13 @@ export function traceLocus(
   const empty = { branches: [], gains: [], kStar: NaN, worstRelativeError: 0, unconverged: 0, truncated: false };
   if (n === 0) return empty;
   const ticker = deadlineTicker(opts.deadline, 'root locus', 8);
-  const maxPoints = opts.maxPoints ?? 20000;
+  // How well the coefficients fix the open-loop roots (relative): the floor of the step halving.
+  let noise = 0;
+  for (const f of [...Df.factors, ...Nf.factors]) {
+    const a = cabs(f.root);
+    if (a > 0 && Number.isFinite(f.error)) noise = Math.max(noise, f.error / a);
+  }
+  const maxPoints = opts.maxPoints ?? 4000;
   let worstRel = 0;
   let unconverged = 0;
   let truncated = false;
@@ -210,7 +216,9 @@ export function traceLocus(
       const target = stack[stack.length - 1];
       const kSigned = sgn * target.k;
       const r = rootsAt(kSigned, rCur, target.exact);
-      const tooSmall = target.k - kCur <= 1e-13 * Math.max(target.k, 1e-300);
+      // Halving stops at rounding, or sooner when the open-loop roots themselves are uncertain:
+      // then the roots' own noise breaks the bound and no smaller step can restore it.
+      const tooSmall = target.k - kCur <= Math.max(1e-13, Math.min(0.1, noise)) * Math.max(target.k, 1e-300);
       if (gains.length >= maxPoints) truncated = true;
       if (tooSmall || truncated || within(rCur, r)) {
         push(kSigned, r);

@@ -83,7 +83,7 @@ export interface RootLocusOptions {
   stepFraction?: number;
   /** Deadline on the performance.now() clock (ms): past it the trace stops with a BudgetError('time'). */
   deadline?: number;
-  /** Most traced gains (default 20000): past it the continuity refinement stops and `accuracy.truncated` says so. */
+  /** Most traced gains (default 4000): past it the continuity refinement stops and `accuracy.truncated` says so. */
   maxPoints?: number;
 }
 
@@ -178,7 +178,7 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
   };
 }
 
-const fmtRel = (x: number) => (x >= 0.01 ? `${Math.round(x * 100)} %` : x.toExponential(0));
+const fmtRel = (x: number) => (!Number.isFinite(x) ? 'no digit' : x >= 0.01 ? `${Math.round(x * 100)} %` : x.toExponential(0));
 
 function relativeErrorOf(f: ReturnType<typeof factorPoly>): number {
   let scale = 0;

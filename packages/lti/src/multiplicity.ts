@@ -12,7 +12,7 @@ import * as P from './poly.ts';
  *  2. roots whose discs overlap form groups (connected components);
  *  3. a group of m roots is ONE root of multiplicity m at c when p is within rounding of a
  *     polynomial with an exact m-fold root at c: every Taylor coefficient t_j(c), j < m, is at
- *     its rounding level, and t_m(c) is clearly (8×) above it (the multiplicity is determined, not
+ *     its rounding level, and t_m(c) is clearly (50×) above it (the multiplicity is determined, not
  *     a region where p is flat to rounding, as near the middle roots of Wilkinson's polynomial).
  *     The centre c is the simple root of p^(m−1) found by Newton from the group's mean.
  *  Groups that fail are shrunk (farthest member out) and tried again.
@@ -358,6 +358,6 @@ function multipleRootAt(c: readonly number[], z: Complex, mult: number, K: numbe
     if (Math.hypot(t.re[j], t.im[j]) > K * EPS * s[j]) return null;
   }
   const tm = Math.hypot(t.re[mult], t.im[mult]);
-  if (!(tm > 8 * K * EPS * s[mult])) return null;
+  if (!(tm > 50 * K * EPS * s[mult])) return null;
   return { error: (K * EPS * s[mult - 1]) / (mult * tm) };
 }
