@@ -92,3 +92,13 @@ describe('frequencyResponse', () => {
     );
   });
 });
+
+describe('values at extreme scales', () => {
+  it('1/(1e200·s + 1) at ω = 1 is −j·1e-200 to rounding: the complex division does not square 1e200 (Smith 1962, from memory)', () => {
+    // 1/(1 + j·1e200) = (1 − j·1e200)/(1 + 1e400) ≈ −j·1e-200 (derived here).
+    const r = frequencyResponse(tfFromCoefficients([1], [1, 1e200]), [1]);
+    expect(r.im[0] / -1e-200).toBeCloseTo(1, 12);
+    expect(Math.abs(r.re[0])).toBeLessThan(1e-300);
+  });
+});
+

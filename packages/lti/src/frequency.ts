@@ -92,10 +92,20 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
     let phase = anchor;
     for (let i = 0; i < nfz; i++) phase += Math.atan2(-w * fz[i].ar || 0, 1 - w * fz[i].br) * DEG;
     for (let i = 0; i < nfp; i++) phase -= Math.atan2(-w * fp[i].ar || 0, 1 - w * fp[i].br) * DEG;
-    // Value N/D·e^(−jωT).
-    const dd = dre * dre + dim * dim;
-    let re = (nre * dre + nim * dim) / dd;
-    let im = (nim * dre - nre * dim) / dd;
+    // Value N/D·e^(−jωT), the division by Smith's method (no intermediate overflow for 1e308 gains).
+    let re: number;
+    let im: number;
+    if (Math.abs(dre) >= Math.abs(dim)) {
+      const r = dim / dre;
+      const d = dre + dim * r;
+      re = (nre + nim * r) / d;
+      im = (nim - nre * r) / d;
+    } else {
+      const r = dre / dim;
+      const d = dre * r + dim;
+      re = (nre * r + nim) / d;
+      im = (nim * r - nre) / d;
+    }
     if (T > 0) {
       const cs = Math.cos(w * T);
       const sn = Math.sin(w * T);
