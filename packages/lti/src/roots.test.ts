@@ -221,4 +221,13 @@ describe('repeated roots at their exact centres (numerical multiplicity)', () =>
     expect(r).toHaveLength(6);
     for (const z of r) expect(cabs(P.evalComplex(p, z))).toBeLessThan(1e-9);
   });
+
+  it('coefficients near 1e300 or 1e-310 give the same roots as the unscaled polynomial (exact power-of-two scaling)', () => {
+    // (s + 1)(s + 2) = s² + 3s + 2 (quadratic formula: −1, −2).
+    for (const scale of [1e300, 1e-310]) {
+      const r = polyRoots([2 * scale, 3 * scale, scale]).map((z) => z.re).sort((a, b) => a - b);
+      expect(r[0]).toBeCloseTo(-2, 12);
+      expect(r[1]).toBeCloseTo(-1, 12);
+    }
+  });
 });

@@ -49,6 +49,18 @@ export function polyRootsDetailed(p: Poly, opts: PolyRootsOptions = {}): PolyRoo
     zeros++;
     c = c.slice(1);
   }
+  // Scale by a power of two (exact; the roots do not change) so that the largest coefficient is
+  // near 1: 1e300-size coefficients would overflow b² − 4ac and Horner sums on the way.
+  let big = 0;
+  for (const x of c) big = Math.max(big, Math.abs(x));
+  const e = Math.round(Math.log2(big));
+  if (Math.abs(e) > 64 && Number.isFinite(e)) {
+    // In two factors: 2^1063 (for subnormal coefficients) is itself out of range.
+    const h = Math.trunc(-e / 2);
+    const f1 = 2 ** h;
+    const f2 = 2 ** (-e - h);
+    c = c.map((x) => x * f1 * f2);
+  }
   const n = c.length - 1;
   let raw: Complex[] = [];
   if (n === 1) raw = [cx(-c[0] / c[1])];
