@@ -217,10 +217,95 @@ function pencilConstant(A: FactoredPoly, B: FactoredPoly, k: number, tau: number
 }
 
 /**
- * A solver for the roots of A + k·B at many gains (a locus trace): A and B are packed into flat
- * arrays once, with their time scale, and the work buffers are reused from gain to gain.
+ * A solver for the roots of A + k·B at many gains (a locus trace). Roots that A and B share
+ * exactly (an integrator in both, s² over s²·…) are roots of A + k·B at every gain: they are set
+ * aside and returned as they are, since at such a root 1 + k·B/A does not vanish and the
+ * iteration would creep towards it linearly without ever meeting its stopping test.
  */
 export class PencilSolver {
+  private readonly core: ReducedPencil;
+  /** The shared roots, each repeated by its multiplicity, with their error estimates. */
+  private readonly fixed: { root: Complex; error: number }[] = [];
+
+  constructor(
+    readonly A: FactoredPoly,
+    readonly B: FactoredPoly,
+  ) {
+    const aLeft = A.factors.map((f) => ({ ...f }));
+    const bLeft = B.factors.map((f) => ({ ...f }));
+    for (const f of aLeft) {
+      const g = bLeft.find((h) => h.root.re === f.root.re && h.root.im === f.root.im);
+      if (!g) continue;
+      const m = Math.min(f.multiplicity, g.multiplicity);
+      for (let i = 0; i < m; i++) this.fixed.push({ root: f.root, error: Math.max(f.error, g.error) });
+      f.multiplicity -= m;
+      g.multiplicity -= m;
+    }
+    const m = this.fixed.length;
+    const reduced = (f: FactoredPoly, left: typeof aLeft): FactoredPoly =>
+      m === 0 ? f : { lead: f.lead, degree: f.degree - m, factors: left.filter((g) => g.multiplicity > 0) };
+    this.core = new ReducedPencil(reduced(A, aLeft), reduced(B, bLeft));
+  }
+
+  /** Roots of A + k·B (see pencilRoots). */
+  solve(k: number, opts: PencilOptions = {}): PencilRoots {
+    const m = this.fixed.length;
+    if (m === 0) return this.core.solve(k, opts);
+    const n = pencilDegree(this.A, this.B, k);
+    // A warm start: the start points nearest the shared roots stand for them; the others start the rest.
+    let rest: readonly Complex[] | undefined;
+    let slots: number[] | null = null;
+    if (opts.start && opts.start.length === n) {
+      const taken = new Uint8Array(n);
+      slots = [];
+      for (const f of this.fixed) {
+        let best = -1;
+        let bestD = Infinity;
+        for (let i = 0; i < n; i++) {
+          if (taken[i]) continue;
+          const d = Math.hypot(opts.start[i].re - f.root.re, opts.start[i].im - f.root.im);
+          if (d < bestD) {
+            bestD = d;
+            best = i;
+          }
+        }
+        taken[best] = 1;
+        slots.push(best);
+      }
+      rest = opts.start.filter((_, i) => !taken[i]);
+    }
+    const { start: _start, ...others } = opts;
+    const got = this.core.solve(k, rest ? { ...others, start: rest } : others);
+    if (!slots) {
+      return { ...got, roots: [...got.roots, ...this.fixed.map((f) => f.root)], errors: [...got.errors, ...this.fixed.map((f) => f.error)] };
+    }
+    // In the start's order: roots[i] continues start[i].
+    const roots = new Array<Complex>(n);
+    const errors = new Array<number>(n);
+    slots.forEach((i, q) => {
+      roots[i] = this.fixed[q].root;
+      errors[i] = this.fixed[q].error;
+    });
+    let q = 0;
+    for (let i = 0; i < n; i++) {
+      if (roots[i]) continue;
+      roots[i] = got.roots[q];
+      errors[i] = got.errors[q++];
+    }
+    return { ...got, roots, errors };
+  }
+
+  /** Start points for A + k·B from the local expansion around A's roots (the shared roots as they are). */
+  expansionStarts(k: number): Complex[] {
+    return [...this.core.expansionStarts(k), ...this.fixed.map((f) => f.root)];
+  }
+}
+
+/**
+ * The solver proper, for A and B without shared roots: A and B are packed into flat arrays once,
+ * with their time scale, and the work buffers are reused from gain to gain.
+ */
+class ReducedPencil {
   private readonly tau: number;
   private readonly As: FactoredPoly;
   private readonly Bs: FactoredPoly;
