@@ -109,6 +109,20 @@ describe('margins of loops with dead time end, with small output', () => {
   });
 });
 
+describe('loops the margins refuse or survive', () => {
+  it('an improper loop (s²/(s + 1)) is refused with an InputError naming the degrees', () => {
+    expect(() => loopMargins(parseTransferFunction('s^2/(s+1)'))).toThrow(/improper \(numerator degree 2 > denominator degree 1\)/);
+  });
+
+  it('1e300/(s + 1): no overflow, and the crossover beyond the sweep (|L| = 1e300/√(1 + ω²) = 1 at ω ≈ 1e300) is said to be unsearched, not absent', () => {
+    const m = loopMargins(parseTransferFunction('1e300/(s+1)'));
+    expect(m.gainCrossover).toBeNull();
+    expect(m.notes.join(' ')).toMatch(/where the sweep ends: a gain crossover above it is not searched/);
+    expect(m.closedLoopStable).toBe(true); // 1 + 1e300/(s + 1): the pole at −(1 + 1e300)
+    expect(m.peakSensitivity).not.toBeNull();
+  });
+});
+
 describe('margins of high-order loops', () => {
   it('1/(s+10)^20 reports its true gain margin (10/cos(π/20))^20 ≈ 1.28e20 at ω = 10·tan(π/20)', () => {
     const t0 = budgetNow();

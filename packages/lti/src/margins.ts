@@ -217,6 +217,12 @@ function marginsOf(
       closedLoopAccuracy: { worstRelativeError: cl.worstRelativeError, limited: cl.limited },
     };
   };
+  if (num.length > den.length) {
+    throw new InputError(
+      `the loop L(s) is improper (numerator degree ${num.length - 1} > denominator degree ${den.length - 1}): its gain grows without bound with frequency; add poles, e.g. a derivative filter`,
+      { field: 'loop' },
+    );
+  }
   if (num.length === 0) {
     return { ...empty, ...verdict(1, false), peakSensitivity: 1, peakSensitivityFrequency: 0, peakComplementary: 0, peakComplementaryFrequency: 0 };
   }
@@ -265,14 +271,21 @@ function marginsOf(
     if (lastSide !== 0 && sd !== lastSide) {
       ticker.tick();
       const w = refineLog(grid[lastIdx], grid[i], (x) => Math.log(cabs(at(x))));
-      const ph = phaseIn(w, lastIdx);
-      const pm = wrap180(180 + ph);
+      // The phase margin depends only on the principal angle (finite even where ω·T overflows).
+      const v = at(w);
+      const pm = wrap180(180 + Math.atan2(v.im, v.re) * DEG);
       if (gainCrossoverDetails.length < maxListed) gainCrossoverDetails.push({ omega: w, phaseMarginDeg: pm, delayMargin: pm / DEG / w });
     }
     lastSide = sd;
     lastIdx = i;
   }
   if (onOne === n) notes.push('|L(jω)| = 1 at every frequency: there is no isolated gain crossover, so no phase or delay margin');
+  // A huge gain (1e300/(s + 1)) still has |L| > 1 where the sweep ends: its crossover lies above,
+  // out of reach of the polynomial evaluation (ω² overflows past 1e154). Say so rather than
+  // report "no gain crossover".
+  if (atInfinity < 1 && !(samples[n - 1].mag < 1)) {
+    notes.push(`|L(jω)| is still ${fmt(samples[n - 1].mag)} at ${fmt(grid[n - 1])} rad/s, where the sweep ends: a gain crossover above it is not searched (phase margin not available)`);
+  }
   if (gainCrossoverDetails.length >= maxListed) notes.push(`gain crossovers: only the first ${maxListed} are listed`);
 
   // ——— phase crossovers: the continuous phase passes a level −180° + k·360°
@@ -291,6 +304,7 @@ function marginsOf(
   };
   let listedBelow = Infinity;
   let stopIdx = -1;
+  let attempts = 0;
   // An exact source's phase is followed only where the grid is fine enough for its inner dead
   // times (see sweepGrid); above that the crossovers are not searched.
   const lastTracked = exact ? grid.findIndex((w) => w > trackedTo) : -1;
@@ -307,6 +321,13 @@ function marginsOf(
     const count = kHi - kLo + 1;
     for (let q = 0; q < count; q++) {
       ticker.tick();
+      // Rejected levels (jumps at axis poles, a magnitude that underflows to 0) count too, so
+      // the search ends even where no level gives a crossover.
+      if (++attempts > 20 * maxListed) {
+        listedBelow = grid[i];
+        stopIdx = i;
+        break outer;
+      }
       const k = pb < pa ? kHi - q : kLo + q;
       const c = crossoverAt(i, -180 + 360 * k);
       if (!c) continue;
