@@ -24,10 +24,10 @@ export interface LoopsRequest {
 
 const plain = (c: Complex) => ({ re: c.re, im: c.im });
 
-export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
+export function loopsStudy(d: Diagram, req: LoopsRequest = {}, deadline?: number): LoopsData {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
-  const rep = analyseLoops(diagram, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER });
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
+  const rep = analyseLoops(diagram, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER, ...(deadline !== undefined ? { deadline } : {}) });
   // Opened loops are named by their cut ids (one name per loop across table, canvas and report).
   const cutOfWire = new Map(rep.cuts.map((c) => [c.wire, c.cut]));
   const names = (wires: readonly string[]) => wires.map((w) => cutOfWire.get(w) ?? w);
@@ -42,8 +42,10 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
     loop: transferData(c.loop),
     openLoopRhpPoles: rhpPoleCount(c.loop),
     delayHandling: c.delayHandling,
+    frequencyMethod: { ...c.frequency },
+    notes: [...c.margins.notes],
     hiddenModes: c.hiddenModes.map(plain),
-    frequency: req.frequency ? frequencyOfLoop({ id: c.cut, wire: c.wire, label: c.label }, c.loop, c.margins, c.delayHandling) : null,
+    frequency: req.frequency ? frequencyOfLoop({ id: c.cut, wire: c.wire, label: c.label }, { tf: c.loop, source: c.source, delayHandling: c.delayHandling, frequency: c.frequency }, c.margins) : null,
     alone: c.alone.opened.length
       ? { loop: transferData(c.alone.loop), margins: marginFigures(c.alone.margins), openLoopRhpPoles: rhpPoleCount(c.alone.loop), opened: names(c.alone.opened) }
       : null,

@@ -109,24 +109,29 @@ export interface CutFrequencyData {
   frequency: CutFrequencyMethod;
 }
 
+/**
+ * L(jω) of a cut's loop on a grid: from L(s) when every dead time is exact there, else from the
+ * diagram solved at each s = jω, the phase unwrapped along the approximant's continuous phase.
+ */
+export function cutLoopResponse(cl: { reduction: { tf: TransferFunction }; source: LoopSource | null }, grid: readonly number[]): FrequencyResponse {
+  const loop = frequencyResponse(cl.reduction.tf, grid);
+  if (!cl.source) return loop;
+  const re: number[] = [];
+  const im: number[] = [];
+  for (const w of grid) {
+    const v = cl.source.evaluate(w);
+    re.push(v.re);
+    im.push(v.im);
+  }
+  const phaseDeg = unwrapAlong(re, im, loop.phaseDeg);
+  return { omega: loop.omega, re, im, magDb: re.map((x, i) => 20 * Math.log10(Math.hypot(x, im[i]))), phaseDeg };
+}
+
 /** Frequency data of the loop at a cut, on the given grid or on the loop's default grid. */
 export function cutFrequencyData(d: Linearisable, wireId: string, overrides?: ParameterOverrides, omegas?: readonly number[], opts: ReduceOptions = {}): CutFrequencyData {
   const cl = cutLoop(d, wireId, overrides, opts);
-  const L = cl.reduction.tf;
-  const grid = omegas ?? defaultFrequencyGrid(L);
-  let loop = frequencyResponse(L, grid);
-  if (cl.source) {
-    // Exact values, phase unwrapped along the approximant's continuous phase.
-    const re: number[] = [];
-    const im: number[] = [];
-    for (const w of grid) {
-      const v = cl.source.evaluate(w);
-      re.push(v.re);
-      im.push(v.im);
-    }
-    const phaseDeg = unwrapAlong(re, im, loop.phaseDeg);
-    loop = { omega: loop.omega, re, im, magDb: re.map((x, i) => 20 * Math.log10(Math.hypot(x, im[i]))), phaseDeg };
-  }
+  const grid = omegas ?? defaultFrequencyGrid(cl.reduction.tf);
+  const loop = cutLoopResponse(cl, grid);
   const db = (re: number, im: number) => 20 * Math.log10(Math.hypot(re, im));
   const S = { re: [] as number[], im: [] as number[], magDb: [] as number[] };
   const T = { re: [] as number[], im: [] as number[], magDb: [] as number[] };

@@ -1,4 +1,4 @@
-import { type Complex, InputError, type LoopMargins, type TransferFunction, checkDeadline } from '@loopwright/lti';
+import { type Complex, InputError, type LoopMargins, type LoopSource, type TransferFunction, checkDeadline } from '@loopwright/lti';
 import type { Diagram } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
 import { type Branch, type CompiledGraph } from './linear-graph.ts';
@@ -24,6 +24,8 @@ export interface CutAnalysis {
   delayHandling: DelayHandling;
   /** How L(jω) was evaluated for the margins: every dead time exact (solved at s = jω where needed). */
   frequency: CutFrequencyMethod;
+  /** The exact L(jω) where it differs from L(s) (dead times inside other loops), else null: see cutLoopResponse. */
+  source: LoopSource | null;
   hiddenModes: Complex[];
   margins: LoopMargins;
   /** Gain crossover (rad/s), null if |L| never crosses 1. */
@@ -207,6 +209,7 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
       loop: r.tf,
       delayHandling: r.delayHandling,
       frequency: loop.frequency,
+      source: loop.source,
       hiddenModes: r.hiddenModes,
       margins,
       crossover: margins.gainCrossover,
