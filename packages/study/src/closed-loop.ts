@@ -53,10 +53,10 @@ function stepTimes(poles: readonly Complex[], delay: number): number[] {
   return Array.from({ length: 401 }, (_, i) => (end * i) / 400);
 }
 
-export function closedLoopStudy(d: Diagram, req: ClosedLoopRequest): ClosedLoopData {
+export function closedLoopStudy(d: Diagram, req: ClosedLoopRequest, deadline?: number): ClosedLoopData {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
-  const r = closedLoop(diagram, req.from, req.to, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER });
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
+  const r = closedLoop(diagram, req.from, req.to, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER, ...(deadline !== undefined ? { deadline } : {}) });
   let step: ClosedLoopData['step'] = null;
   if (req.step) {
     const time = stepTimes(r.poles, r.delay);

@@ -17,16 +17,19 @@ export function loopOfExpression(e: ExpressionLoop): TransferFunction {
   return parseTransferFunction(e.text, e.params ?? {});
 }
 
-export function expressionMargins(e: ExpressionLoop, opts: { padeOrder?: number } = {}): { loop: TransferFunction; margins: LoopMargins } {
+export function expressionMargins(e: ExpressionLoop, opts: { padeOrder?: number; deadline?: number } = {}): { loop: TransferFunction; margins: LoopMargins } {
   const loop = loopOfExpression(e);
-  return { loop, margins: loopMargins(loop, opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {}) };
+  return {
+    loop,
+    margins: loopMargins(loop, { ...(opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {}), ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}) }),
+  };
 }
 
 export type PadeNote = { mode: 'none' } | { mode: 'pade'; order: number; delay: number };
 
 export function expressionLocus(
   e: ExpressionLoop,
-  opts: { negative?: boolean; kMax?: number; samples?: number; padeOrder?: number } = {},
+  opts: { negative?: boolean; kMax?: number; samples?: number; padeOrder?: number; deadline?: number } = {},
 ): { loop: TransferFunction; locus: RootLocus; delayHandling: PadeNote } {
   const loop = loopOfExpression(e);
   const order = opts.padeOrder ?? 3;
@@ -44,6 +47,7 @@ export function expressionLocus(
     negative: opts.negative === true,
     ...(opts.kMax !== undefined ? { kMax: opts.kMax } : {}),
     ...(opts.samples !== undefined ? { samples: opts.samples } : {}),
+    ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}),
   });
   return { loop, locus, delayHandling };
 }

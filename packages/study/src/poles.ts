@@ -31,18 +31,18 @@ export function stableFrom(poles: readonly Complex[]): boolean {
   return poles.every((p) => p.re < -1e-9 * scale);
 }
 
-export function polesStudy(d: Diagram, req: PolesRequest = {}): PolesData {
+export function polesStudy(d: Diagram, req: PolesRequest = {}, deadline?: number): PolesData {
   const base = req.overrides ?? {};
   const { diagram, overrides } = withLiveValue(d, base, req.live);
   // Validated at the document's values: a live slider value cannot change the structure.
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
   const order = req.padeOrder ?? DEFAULT_PADE_ORDER;
   const swept = req.live ? engineParameterName(req.live.target) : undefined;
-  const main = characteristicAt(diagram, overrides, order, swept);
+  const main = characteristicAt(diagram, overrides, order, swept, deadline);
   const poles = polyRoots(main.poly);
   let origin: PoleOrigin[] = poles.map(() => 'exact');
   if (main.handling.mode === 'pade') {
-    const other = polyRoots(characteristicAt(diagram, overrides, order + 2, swept).poly);
+    const other = polyRoots(characteristicAt(diagram, overrides, order + 2, swept, deadline).poly);
     const scale = Math.max(...poles.map(cabs));
     origin = poles.map((p) => {
       const near = Math.min(...other.map((q) => Math.hypot(p.re - q.re, p.im - q.im)));

@@ -39,19 +39,20 @@ export type StudyResult = { [K in StudyKind]: { kind: K; value: StudyKinds[K]['r
 
 /**
  * What a study may be given besides plain data: a cancellation poll and a deadline. Runs honour
- * both now; the analyses will pass the deadline on as the math packages accept one.
+ * both; every analysis passes the deadline on to graph and lti, which stop past it with a
+ * BudgetError naming the analysis (a failed part with reason 'budget'; the CLI's exit 2).
  */
 export type StudyContext = RunContext;
 
 type Handlers = { [K in StudyKind]: (d: Diagram, req: { kind: K } & StudyKinds[K]['request'], ctx: StudyContext) => StudyKinds[K]['result'] };
 
 const HANDLERS: Handlers = {
-  check: (d, r) => checkStudy(d, r.overrides ?? {}),
-  locus: (d, r) => locusStudy(d, r),
-  poles: (d, r) => polesStudy(d, r),
-  cut: (d, r) => cutStudy(d, r),
-  loops: (d, r) => loopsStudy(d, r),
-  'closed-loop': (d, r) => closedLoopStudy(d, r),
+  check: (d, r, ctx) => checkStudy(d, r.overrides ?? {}, ctx.deadline),
+  locus: (d, r, ctx) => locusStudy(d, r, ctx.deadline),
+  poles: (d, r, ctx) => polesStudy(d, r, ctx.deadline),
+  cut: (d, r, ctx) => cutStudy(d, r, ctx.deadline),
+  loops: (d, r, ctx) => loopsStudy(d, r, ctx.deadline),
+  'closed-loop': (d, r, ctx) => closedLoopStudy(d, r, ctx.deadline),
   run: (d, r, ctx) => responseStudy(d, r, ctx),
 };
 
