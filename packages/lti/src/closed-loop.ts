@@ -63,6 +63,14 @@ export function closedLoopPolesDetailed(num: readonly number[], den: readonly nu
   }
   const Df = factorPoly(cd);
   const Nf = factorPoly(cn);
+  // A root beyond the floating-point range (1e-320·s + 1 has its zero at −1e320) has no product
+  // form: solve the coefficients, which are representable, directly.
+  const unrepresentable = [...Df.factors, ...Nf.factors].some((f) => !Number.isFinite(f.root.re) || !Number.isFinite(f.root.im)) || !Number.isFinite(Df.lead) || !Number.isFinite(Nf.lead);
+  if (unrepresentable && coeffs !== null) {
+    if (coeffs.length <= 1) return { poles: [], errors: [], worstRelativeError: 0, limited: false, padeOrder };
+    const r = polyRootsDetailed(coeffs);
+    return { poles: r.roots, errors: r.errors, worstRelativeError: r.worstRelativeError, limited: r.worstRelativeError > ACCURACY_LIMIT, padeOrder };
+  }
   const A = padeP.length ? factoredProduct(Df, factoredFromRoots(padeP, 1)) : Df;
   const B = padeP.length
     ? factoredProduct(Nf, factoredFromRoots(padeP.map((p) => cx(-p.re, -p.im)), padeOrder! % 2 ? -1 : 1))

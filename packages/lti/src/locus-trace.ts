@@ -15,6 +15,9 @@ import type { LocusPoint, RootLocus } from './locus.ts';
  * roots) the start comes from the local expansion (s − p)^μ ≈ −k·N(p)/D̃(p), which puts the μ
  * branches on their departure directions at once.
  */
+/** Unconverged pole solutions after which the trace stops refining (each one costs a full iteration cap). */
+const UNCONVERGED_LIMIT = 64;
+
 export interface TraceOptions {
   deadline?: number;
   /** Most traced gains before the continuity refinement stops (default 4000: ten times the base samples). */
@@ -219,7 +222,10 @@ export function traceLocus(
       // Halving stops at rounding, or sooner when the open-loop roots themselves are uncertain:
       // then the roots' own noise breaks the bound and no smaller step can restore it.
       const tooSmall = target.k - kCur <= Math.max(1e-13, Math.min(0.1, noise)) * Math.max(target.k, 1e-300);
-      if (gains.length >= maxPoints) truncated = true;
+      // Refinement stops at the point cap, or once the solver has failed to converge often: past
+      // that every further halving costs a full iteration cap and buys no accuracy (a 1e308 gain
+      // against unit-size poles). The accuracy note says so.
+      if (gains.length >= maxPoints || unconverged > UNCONVERGED_LIMIT) truncated = true;
       if (tooSmall || truncated || within(rCur, r)) {
         push(kSigned, r);
         stack.pop();

@@ -107,6 +107,14 @@ describe('margins of loops with dead time end, with small output', () => {
     expect(m.closedLoopStable).toBe(true);
     expect(() => loopMargins(parseTransferFunction('1/(1e-320*s^3+s+1)'))).toThrow(InputError);
   });
+
+  it('1e-320 + 1/(s + 1): a zero beyond the floating-point range (at −1e320) does not turn the closed-loop pole into NaN', () => {
+    // 1 + L = 0 ⇔ (1 + 1e-320)(s + 1) + 1 = 0 ⇔ s = −2 to rounding (derived here). Found by the expression fuzzer.
+    const m = loopMargins(parseTransferFunction('1e-320 + 1/(s+1)'));
+    expect(m.closedLoopPoles).toHaveLength(1);
+    expect(m.closedLoopPoles[0].re).toBeCloseTo(-2, 12);
+    expect(m.closedLoopStable).toBe(true);
+  });
 });
 
 describe('loops the margins refuse or survive', () => {
