@@ -120,6 +120,18 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
 
   const Df = factorPoly(D);
   const Nf = factorPoly(N);
+  // A leading coefficient so small against the others (1e-320·s² + s + 3) that a root lies
+  // beyond the floating-point range: no branch can be drawn towards it.
+  for (const [f, what] of [
+    [Df, 'denominator D(s)'],
+    [Nf, 'numerator N(s)'],
+  ] as const) {
+    if (!Number.isFinite(f.lead) || f.factors.some((x) => !Number.isFinite(x.root.re) || !Number.isFinite(x.root.im))) {
+      throw new InputError(`${what}: a root lies beyond the floating-point range (|s| > 1e308; its leading coefficient is negligible against the others): drop that term`, {
+        field: what.startsWith('numerator') ? 'numerator' : 'denominator',
+      });
+    }
+  }
   const poles = rootsOfFactored(Df);
   const zeros = rootsOfFactored(Nf);
   const asymptotes = asymptotesOf(N, D, sgn);
