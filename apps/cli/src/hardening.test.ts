@@ -2,13 +2,16 @@
  * Every command ends (issue 10 items 1, 2 and 7, through the command line): the analyses that
  * once ran for minutes or crashed answer fast with small output, and every command runs under a
  * time limit (--time-limit, default 20 s) that ends it with a message naming what ran out (exit 2).
- * Closed forms are derived beside each check.
+ * A probe cannot hide an internally unstable design (item 5). Closed forms are derived beside
+ * each check.
  */
 import { describe, expect, it } from 'vitest';
 import { positioningAxis, serializeDiagram } from '@loopwright/graph';
 import { budgetNow } from '@loopwright/lti';
 import { DEFAULT_TIME_LIMIT_S, main, takeTimeLimit } from './main.ts';
 import type { CliIo } from './io.ts';
+// Test-only builders of the study package (not its public API).
+import { build } from '@loopwright/study/testing';
 
 function fakeIo(files: Record<string, string> = {}) {
   let out = '';
@@ -111,4 +114,36 @@ describe('--time-limit', () => {
     const help = await timed(['loops', '--help']);
     expect(help.out).toMatch(/--time-limit SECONDS/);
   });
+});
+
+describe('a probe cannot hide an internally unstable design (issue 10 item 5)', () => {
+  // A controller zero at s = 1 cancels the plant pole of 1/(s − 1): the loop r → y looks stable,
+  // the diagram is not (Skogestad & Postlethwaite, Multivariable Feedback Control, Sec. 4.7 (from memory)).
+  const cancelling = (probe: boolean) =>
+    build(
+      [
+        ['r', 'source', { shape: 'step', amplitude: 1 }],
+        ['e', 'summing-junction', { signs: '+-' }],
+        ['C', 'transfer-function', { expression: '(s-1)/(s+1)' }],
+        ['P', 'transfer-function', { expression: '1/(s-1)' }],
+        ['y', 'probe'],
+        ...(probe ? ([['u', 'probe']] as const) : []),
+      ],
+      ['r->e.in1', 'e->C', 'C->P', 'fb:P->e.in2', 'P->y', ...(probe ? ['C->u'] : [])],
+    );
+  for (const probe of [false, true]) {
+    it(`reduce and loops refuse it naming both blocks, ${probe ? 'with' : 'without'} a probe on the controller output`, async () => {
+      const files = { 'c.loop.json': serializeDiagram(cancelling(probe)) };
+      for (const argv of [
+        ['reduce', 'c.loop.json', '--from', 'r', '--to', 'y'],
+        ['loops', 'c.loop.json'],
+        ['check', 'c.loop.json'],
+      ]) {
+        const r = await timed(argv, files);
+        expect(r.code).toBe(2);
+        expect(r.err + r.out).toMatch(/pole 1 of block P/);
+        expect(r.err + r.out).toMatch(/\bC\b/);
+      }
+    });
+  }
 });
