@@ -66,6 +66,9 @@ export function closedLoopPolesDetailed(num: readonly number[], den: readonly nu
   // A root beyond the floating-point range (1e-320·s + 1 has its zero at −1e320) has no product
   // form: solve the coefficients, which are representable, directly.
   const unrepresentable = [...Df.factors, ...Nf.factors].some((f) => !Number.isFinite(f.root.re) || !Number.isFinite(f.root.im)) || !Number.isFinite(Df.lead) || !Number.isFinite(Nf.lead);
+  if (unrepresentable && coeffs === null) {
+    throw new InputError('closed-loop poles: a root of the loop lies beyond the floating-point range (a negligible leading coefficient, |s| > 1e308) and the characteristic polynomial is not representable either: drop that term');
+  }
   if (unrepresentable && coeffs !== null) {
     if (coeffs.length <= 1) return { poles: [], errors: [], worstRelativeError: 0, limited: false, padeOrder };
     const r = polyRootsDetailed(coeffs);

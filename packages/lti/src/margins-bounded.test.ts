@@ -127,7 +127,19 @@ describe('loops the margins refuse or survive', () => {
     expect(m.gainCrossover).toBeNull();
     expect(m.notes.join(' ')).toMatch(/where the sweep ends: a gain crossover above it is not searched/);
     expect(m.closedLoopStable).toBe(true); // 1 + 1e300/(s + 1): the pole at −(1 + 1e300)
-    expect(m.peakSensitivity).not.toBeNull();
+    // |S| = 1/|1 + L| rises to its supremum 1 only past the crossover: not reported from the sweep.
+    expect(m.peakSensitivity).toBeNull();
+    expect(m.peakComplementary).toBeNull();
+  });
+
+  it('1e300·(s + 1e4)/s²·e^(−0.3s): |L| overflows at low frequency; no figure is NaN (found by the document fuzzer)', () => {
+    const m = loopMargins(parseTransferFunction('1e300*(s+1e4)/(s*s)*exp(-0.3*s)'));
+    for (const [k, v] of Object.entries(m)) if (typeof v === 'number') expect(Number.isNaN(v), k).toBe(false);
+    expect(m.notes.join(' ')).toMatch(/where the sweep ends/);
+  });
+
+  it('(−1e-320 + 1/(s + 1))·e^(−1e308·s): a zero beyond the floating-point range with a dead time no Padé form can hold is a clean InputError (found by the expression fuzzer)', () => {
+    expect(() => loopMargins(parseTransferFunction('(-1e-320 + 1/(s+1))*exp(-1e308*s)'))).toThrow(InputError);
   });
 });
 

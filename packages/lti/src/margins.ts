@@ -283,8 +283,9 @@ function marginsOf(
   // A huge gain (1e300/(s + 1)) still has |L| > 1 where the sweep ends: its crossover lies above,
   // out of reach of the polynomial evaluation (ω² overflows past 1e154). Say so rather than
   // report "no gain crossover".
-  if (atInfinity < 1 && !(samples[n - 1].mag < 1)) {
-    notes.push(`|L(jω)| is still ${fmt(samples[n - 1].mag)} at ${fmt(grid[n - 1])} rad/s, where the sweep ends: a gain crossover above it is not searched (phase margin not available)`);
+  const beyondSweep = atInfinity < 1 && !(samples[n - 1].mag < 1);
+  if (beyondSweep) {
+    notes.push(`|L(jω)| is still ${fmt(samples[n - 1].mag)} at ${fmt(grid[n - 1])} rad/s, where the sweep ends: a gain crossover above it is not searched (phase margin, Ms and Mt not available)`);
   }
   if (gainCrossoverDetails.length >= maxListed) notes.push(`gain crossovers: only the first ${maxListed} are listed`);
 
@@ -480,15 +481,21 @@ function marginsOf(
   for (const c of gainCrossoverDetails) if (!worst || c.phaseMarginDeg < worst.phaseMarginDeg) worst = c;
 
   // ——— peaks of S and T, bandwidth
+  // |L| that overflows (1e300 gains over ω²) gives S = 0 and T = 1, its limits; a value that
+  // could not be formed at all (NaN) is left out of the peaks.
+  const compOf = (re: number, im: number, mag: number) => {
+    const h = Math.hypot(1 + re, im);
+    return Number.isFinite(h) ? mag / h : h === Infinity ? 1 : NaN;
+  };
   const sVals = samples.map((s) => 1 / Math.hypot(1 + s.re, s.im));
-  const tVals = samples.map((s) => s.mag / Math.hypot(1 + s.re, s.im));
+  const tVals = samples.map((s) => compOf(s.re, s.im, s.mag));
   const sAt = (w: number) => {
     const v = at(w);
     return 1 / Math.hypot(1 + v.re, v.im);
   };
   const tAt = (w: number) => {
     const v = at(w);
-    return cabs(v) / Math.hypot(1 + v.re, v.im);
+    return compOf(v.re, v.im, cabs(v));
   };
   // With dead time |1 + L| dips next to every phase crossover (the closest approach to −1 is
   // there), so the listed and deciding crossovers are candidate peaks as well as the grid's.
@@ -519,6 +526,10 @@ function marginsOf(
   }
   const delayMargin = gainCrossoverDetails.length ? Math.min(...gainCrossoverDetails.map((c) => c.delayMargin)) : null;
   const omegaOf = (p: { omega: number } | null) => (p && Number.isFinite(p.omega) ? p.omega : null);
+  // Past an unsearched crossover |S| and |T| peak where the sweep cannot see.
+  if (beyondSweep) s.value = t.value = s.omega = t.omega = NaN;
+  else if (Number.isNaN(s.value) || Number.isNaN(t.value)) notes.push('L(jω) could not be formed in floating point at some frequencies (overflow): Ms or Mt not available');
+  const bandwidth = bandwidthOf(grid, tVals, tAt, num, den);
   return {
     ...empty,
     ...stability,
@@ -531,11 +542,11 @@ function marginsOf(
     phaseMarginDeg: worst ? worst.phaseMarginDeg : null,
     gainCrossover: worst ? worst.omega : null,
     delayMargin,
-    peakSensitivity: s.value,
-    peakSensitivityFrequency: s.omega,
-    peakComplementary: t.value,
-    peakComplementaryFrequency: t.omega,
-    bandwidth: bandwidthOf(grid, tVals, tAt, num, den),
+    peakSensitivity: Number.isNaN(s.value) ? null : s.value,
+    peakSensitivityFrequency: Number.isNaN(s.value) || Number.isNaN(s.omega) ? null : s.omega,
+    peakComplementary: Number.isNaN(t.value) ? null : t.value,
+    peakComplementaryFrequency: Number.isNaN(t.value) || Number.isNaN(t.omega) ? null : t.omega,
+    bandwidth: bandwidth === null || Number.isNaN(bandwidth) ? null : bandwidth,
     gainCrossovers: gainCrossoverDetails.map((c) => c.omega),
     phaseCrossovers: listed.map((c) => c.omega),
     gainCrossoverDetails,
@@ -653,10 +664,11 @@ function refineLog(a: number, b: number, f: (w: number) => number): number {
  */
 function peakOf(grid: readonly number[], vals: readonly number[], f: (w: number) => number, extra: readonly number[] = []): { value: number; omega: number } {
   const cands: number[] = [];
+  // NaN samples (values that could not be formed) are no candidates and no neighbours.
+  const at = (i: number) => (i >= 0 && i < vals.length && !Number.isNaN(vals[i]) ? vals[i] : -Infinity);
   for (let i = 0; i < vals.length; i++) {
-    const l = i > 0 ? vals[i - 1] : -Infinity;
-    const r = i + 1 < vals.length ? vals[i + 1] : -Infinity;
-    if (vals[i] >= l && vals[i] >= r) cands.push(i);
+    if (Number.isNaN(vals[i])) continue;
+    if (vals[i] >= at(i - 1) && vals[i] >= at(i + 1)) cands.push(i);
   }
   cands.sort((a, b) => vals[b] - vals[a]);
   let best = { value: vals[cands[0]] ?? NaN, omega: grid[cands[0]] ?? NaN };
