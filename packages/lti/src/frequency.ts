@@ -54,6 +54,7 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
   const qz = leadingZeros(num);
   const qp = leadingZeros(den);
   const c = num[qz] / den[qp];
+  const logC = Math.log(Math.abs(num[qz])) - Math.log(Math.abs(den[qp]));
   const zeros = num.length - 1 > qz ? polyRoots(num.slice(qz)) : [];
   const poles = den.length - 1 > qp ? polyRoots(den.slice(qp)) : [];
   const anchor = (c < 0 ? -180 : 0) + 90 * (qz - qp);
@@ -113,6 +114,17 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
       im = im * cs - re * sn;
       re = r2;
       phase -= w * T * DEG;
+    }
+    if (!Number.isFinite(re) || !Number.isFinite(im)) {
+      // N(jω) and D(jω) overflowed (1e300 gains, high powers of ω): the value from the factors,
+      // |G| as a sum of logarithms and the continuous phase above. |G| itself may be ±∞ or 0.
+      let lm = logC + (qz - qp) * Math.log(w);
+      for (let i = 0; i < nfz; i++) lm += Math.log(Math.hypot(1 - w * fz[i].br, w * fz[i].ar));
+      for (let i = 0; i < nfp; i++) lm -= Math.log(Math.hypot(1 - w * fp[i].br, w * fp[i].ar));
+      const m = Math.exp(lm);
+      const cs = Math.cos(phase / DEG);
+      const sn = Math.sin(phase / DEG);
+      return { re: cs === 0 ? 0 : m * cs, im: sn === 0 ? 0 : m * sn, mag: m, phaseDeg: phase };
     }
     const mag = Math.hypot(re, im);
     if (mag > 0 && Number.isFinite(mag)) {
