@@ -9,24 +9,9 @@ import { describe, expect, it } from 'vitest';
 import { positioningAxis, serializeDiagram } from '@loopwright/graph';
 import { budgetNow } from '@loopwright/lti';
 import { DEFAULT_TIME_LIMIT_S, main, takeTimeLimit } from './main.ts';
-import type { CliIo } from './io.ts';
+import { fakeIo } from './fake-io.ts';
 // Test-only builders of the study package (not its public API).
 import { build } from '@loopwright/study/testing';
-
-function fakeIo(files: Record<string, string> = {}) {
-  let out = '';
-  let err = '';
-  const io: CliIo = {
-    stdout: (s) => void (out += s),
-    stderr: (s) => void (err += s),
-    readFile: async (p) => {
-      if (!(p in files)) throw Object.assign(new Error(`ENOENT: ${p}`), { code: 'ENOENT' });
-      return files[p];
-    },
-    writeFile: async () => {},
-  };
-  return { io, out: () => out, err: () => err };
-}
 
 /** Wide limits: the test machines are shared (`npm run bench` records the real times). */
 const FAST_MS = 5000;
