@@ -118,9 +118,10 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
     if (!Number.isFinite(re) || !Number.isFinite(im)) {
       // N(jω) and D(jω) overflowed (1e300 gains, high powers of ω): the value from the factors,
       // |G| as a sum of logarithms and the continuous phase above. |G| itself may be ±∞ or 0.
+      // |1 − jω/r| = |jω − r|/|r|, each by hypot (no product overflows).
       let lm = logC + (qz - qp) * Math.log(w);
-      for (let i = 0; i < nfz; i++) lm += Math.log(Math.hypot(1 - w * fz[i].br, w * fz[i].ar));
-      for (let i = 0; i < nfp; i++) lm -= Math.log(Math.hypot(1 - w * fp[i].br, w * fp[i].ar));
+      for (const z of zeros) lm += Math.log(Math.hypot(z.re, w - z.im)) - Math.log(cabs(z));
+      for (const p of poles) lm -= Math.log(Math.hypot(p.re, w - p.im)) - Math.log(cabs(p));
       const m = Math.exp(lm);
       const cs = Math.cos(phase / DEG);
       const sn = Math.sin(phase / DEG);
