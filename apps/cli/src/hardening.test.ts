@@ -112,7 +112,7 @@ describe('a probe cannot hide an internally unstable design (issue 10 item 5)', 
         ['C', 'transfer-function', { expression: '(s-1)/(s+1)' }],
         ['P', 'transfer-function', { expression: '1/(s-1)' }],
         ['y', 'probe'],
-        ...(probe ? ([['u', 'probe']] as const) : []),
+        ...(probe ? [['u', 'probe'] as [string, 'probe']] : []),
       ],
       ['r->e.in1', 'e->C', 'C->P', 'fb:P->e.in2', 'P->y', ...(probe ? ['C->u'] : [])],
     );

@@ -66,11 +66,11 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     io.stdout(`${text}\nEvery command: --time-limit SECONDS  stop past this wall time with a message naming what ran out (exit 2; default ${DEFAULT_TIME_LIMIT_S})\n`);
     return 0;
   }
-  let rest = words;
   let seconds = DEFAULT_TIME_LIMIT_S;
   try {
-    ({ rest, seconds } = takeTimeLimit(words));
-    return await cmd.run(rest, io, { deadline: deadlineIn(seconds * 1000) });
+    const limited = takeTimeLimit(words);
+    seconds = limited.seconds;
+    return await cmd.run(limited.rest, io, { deadline: deadlineIn(seconds * 1000) });
   } catch (err) {
     const report = errorReport(err);
     const { code, at } = report;

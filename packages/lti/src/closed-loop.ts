@@ -32,7 +32,7 @@ export function closedLoopPolesDetailed(num: readonly number[], den: readonly nu
   const cd = P.trim(den);
   if (cd.length === 0) throw new InputError('the loop has a zero denominator');
   let padeOrder: number | null = null;
-  let poles: Complex[] = [];
+  let poles: Complex[];
   let padeP: Complex[] = [];
   if (delay > 0 && cn.length > 0) {
     const room = MAX_ORDER - Math.max(cd.length, cn.length) + 1;
@@ -45,7 +45,7 @@ export function closedLoopPolesDetailed(num: readonly number[], den: readonly nu
   }
   // The same characteristic polynomial in coefficients, where it is representable (for the
   // degree check and the reconciliation of product-form roots with it).
-  let coeffs: number[] | null = null;
+  let coeffs: number[] | null;
   try {
     if (padeOrder !== null) {
       const pd = padeDelay(delay, padeOrder);

@@ -80,7 +80,7 @@ describe('expression fuzzing through margins and the root locus', () => {
           }
           stats.results++;
         } catch (err) {
-          if (err instanceof BudgetError) throw new Error(`${text}: ran past its ${PER_CASE_MS} ms deadline (${err.message})`);
+          if (err instanceof BudgetError) throw new Error(`${text}: ran past its ${PER_CASE_MS} ms deadline (${err.message})`, { cause: err });
           if (!(err instanceof InputError)) throw err;
           expect(err.message.length).toBeGreaterThan(10);
           stats.inputErrors++;

@@ -370,7 +370,7 @@ class ReducedPencil {
     const scaleIn = (zs: readonly Complex[]) => (tau === 1 ? zs : zs.map((z) => cx(z.re / tau, z.im / tau)));
     let last: PencilRoots | null = null;
     for (let t = 0; t < 3; t++) {
-      let start: readonly Complex[] | null = null;
+      let start: readonly Complex[] | null;
       if (t === 0) start = opts.start && opts.start.length === n ? scaleIn(opts.start) : null;
       else if (t === 1) start = c0[1] === 0 ? companionStarts(this.As, this.Bs, k, n) : null;
       else start = expansionStarts(this.As, this.Bs, c0, n, floor);
