@@ -115,7 +115,8 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
       re = r2;
       phase -= w * T * DEG;
     }
-    if (!Number.isFinite(re) || !Number.isFinite(im)) {
+    // (Only with a finite phase: where ω·T itself overflows, e^(−jωT) has no value to give.)
+    if ((!Number.isFinite(re) || !Number.isFinite(im)) && Number.isFinite(phase)) {
       // N(jω) and D(jω) overflowed (1e300 gains, high powers of ω): the value from the factors,
       // |G| as a sum of logarithms and the continuous phase above. |G| itself may be ±∞ or 0.
       // |1 − jω/r| = |jω − r|/|r|, each by hypot (no product overflows).

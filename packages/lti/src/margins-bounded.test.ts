@@ -138,6 +138,12 @@ describe('loops the margins refuse or survive', () => {
     expect(m.notes.join(' ')).toMatch(/where the sweep ends/);
   });
 
+  it('1e6·(2s + 1)/((s + 3)^5 (s + 1)^4)·e^(−1e308·s): no NaN phase margin where ω·T overflows (found by the expression fuzzer)', () => {
+    const m = loopMargins(parseTransferFunction('1e6*(2*s+1)/((s+3)^5*(s+1)^4)*exp(-1e308*s)'));
+    for (const [k, v] of Object.entries(m)) if (typeof v === 'number') expect(Number.isNaN(v), k).toBe(false);
+    for (const c of m.gainCrossoverDetails) expect(Number.isFinite(c.phaseMarginDeg)).toBe(true);
+  });
+
   it('(−1e-320 + 1/(s + 1))·e^(−1e308·s): a zero beyond the floating-point range with a dead time no Padé form can hold is a clean InputError (found by the expression fuzzer)', () => {
     expect(() => loopMargins(parseTransferFunction('(-1e-320 + 1/(s+1))*exp(-1e308*s)'))).toThrow(InputError);
   });

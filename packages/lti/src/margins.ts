@@ -258,6 +258,7 @@ function marginsOf(
   const gainCrossoverDetails: LoopMargins['gainCrossoverDetails'] = [];
   const side = (m: number) => (m > 1 + 1e-12 ? 1 : m < 1 - 1e-12 ? -1 : 0);
   let onOne = 0;
+  let unphased = false;
   let lastSide = 0;
   let lastIdx = -1;
   for (let i = 0; i < n; i++) {
@@ -274,7 +275,11 @@ function marginsOf(
       // The phase margin depends only on the principal angle (finite even where ω·T overflows).
       const v = at(w);
       const pm = wrap180(180 + Math.atan2(v.im, v.re) * DEG);
-      if (gainCrossoverDetails.length < maxListed) gainCrossoverDetails.push({ omega: w, phaseMarginDeg: pm, delayMargin: pm / DEG / w });
+      if (!Number.isFinite(pm)) {
+        // ω·T overflows there (a 1e308 s dead time): the phase has no floating-point value.
+        if (!unphased) notes.push(`a gain crossover near ${fmt(w)} rad/s is not listed: ω·T overflows there, so its phase has no value`);
+        unphased = true;
+      } else if (gainCrossoverDetails.length < maxListed) gainCrossoverDetails.push({ omega: w, phaseMarginDeg: pm, delayMargin: pm / DEG / w });
     }
     lastSide = sd;
     lastIdx = i;
