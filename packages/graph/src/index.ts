@@ -17,6 +17,8 @@ export * from './analysis/state-space.ts';
 export * from './analysis/cuts.ts';
 export * from './analysis/sweep.ts';
 export * from './analysis/loops.ts';
+export * from './analysis/hidden-modes.ts';
+export { type ExactEvaluator, exactEvaluator } from './analysis/cut-exact.ts';
 export * from './checks/analytic.ts';
 // checkDiagram (structural + analytical findings) and the demo diagrams (graph-document helper).
 export * from './checks/diagram.ts';

@@ -75,15 +75,15 @@ export function scaledStepResponse(r: Rational, time: readonly number[], delay: 
   return time.map((t, i) => (t < delay ? 0 : y[i]));
 }
 
-export function closedLoopStudy(d: Diagram, req: ClosedLoopRequest): ClosedLoopData {
+export function closedLoopStudy(d: Diagram, req: ClosedLoopRequest, deadline?: number): ClosedLoopData {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
   const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
-  const r = closedLoop(diagram, req.from, req.to, overrides, { padeOrder });
+  const r = closedLoop(diagram, req.from, req.to, overrides, { padeOrder, ...(deadline !== undefined ? { deadline } : {}) });
   // With a dead time inside a loop the poles (and zeros) are those of a Padé approximant: each
   // is marked by whether it stays put at a Padé order two higher.
   const pade = r.delayHandling.mode === 'pade';
-  const higher = pade ? closedLoop(diagram, req.from, req.to, overrides, { padeOrder: comparisonOrder(padeOrder) }) : null;
+  const higher = pade ? closedLoop(diagram, req.from, req.to, overrides, { padeOrder: comparisonOrder(padeOrder), ...(deadline !== undefined ? { deadline } : {}) }) : null;
   let step: ClosedLoopData['step'] = null;
   if (req.step) {
     const time = stepTimes(r.poles, r.delay);

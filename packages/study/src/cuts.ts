@@ -2,16 +2,8 @@
  * Cuts: which loop the Frequency view opens, and the frequency data of L there (Bode,
  * Nyquist, |S| and |T|) with its margins and the number of open-loop right-half-plane poles.
  */
-import { DEFAULT_PADE_ORDER, compiledOf, feedbackWires, loopAtCutDetailed, type DelayHandling, type Diagram } from '@loopwright/graph';
-import {
-  InputError,
-  defaultFrequencyGrid,
-  frequencyResponse,
-  loopMargins,
-  marginFigures,
-  type LoopMargins,
-  type TransferFunction,
-} from '@loopwright/lti';
+import { DEFAULT_PADE_ORDER, compiledOf, cutLoopResponse, cutMargins, feedbackWires, type CutFrequencyMethod, type DelayHandling, type Diagram } from '@loopwright/graph';
+import { InputError, defaultFrequencyGrid, marginFigures, type LoopMargins, type LoopSource, type TransferFunction, frequencyResponse, loopMargins } from '@loopwright/lti';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { rhpPoleCount, transferData } from './transfer-data.ts';
@@ -67,22 +59,26 @@ export interface CutRequest {
 }
 
 /** Frequency data of L at a cut (every other loop closed), margins marked; null when the diagram has no loop. */
-export function cutStudy(d: Diagram, req: CutRequest): FrequencyData | null {
+export function cutStudy(d: Diagram, req: CutRequest, deadline?: number): FrequencyData | null {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
   const cut = chooseCut(diagram, req.cut, overrides, req.fallback === true);
   if (!cut) return null;
-  const r = loopAtCutDetailed(diagram, cut.wire, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER });
-  return frequencyOfLoop(cut, r.tf, loopMargins(r.tf), r.delayHandling);
+  const { margins, loop } = cutMargins(diagram, cut.wire, overrides, { padeOrder: req.padeOrder ?? DEFAULT_PADE_ORDER, ...(deadline !== undefined ? { deadline } : {}) });
+  return frequencyOfLoop(cut, { tf: loop.reduction.tf, source: loop.source, delayHandling: loop.reduction.delayHandling, frequency: loop.frequency }, margins);
+}
+
+/** A cut's loop as the frequency data need it: L(s), the exact L(jω) where that differs, and how each was formed. */
+export interface LoopAtCut {
+  tf: TransferFunction;
+  source: LoopSource | null;
+  delayHandling: DelayHandling;
+  frequency: CutFrequencyMethod;
 }
 
 /** Bode, Nyquist, |S| and |T| of a loop L at a cut, on a grid that covers its crossovers, with its margins. */
-export function frequencyOfLoop(
-  cut: Pick<ChosenCut, 'id' | 'wire' | 'label'>,
-  L: TransferFunction,
-  margins: LoopMargins,
-  delayHandling: DelayHandling,
-): FrequencyData {
+export function frequencyOfLoop(cut: Pick<ChosenCut, 'id' | 'wire' | 'label'>, at: LoopAtCut, margins: LoopMargins): FrequencyData {
+  const L = at.tf;
   // Two decades above the highest gain crossover (and past the phase crossover the gain margin
   // is read at) are enough: beyond, a dead time only winds the phase round and round.
   let omega = defaultFrequencyGrid(L, 60);
@@ -95,7 +91,7 @@ export function frequencyOfLoop(
   const top = omega[omega.length - 1];
   const extra = [...margins.gainCrossovers, ...margins.phaseCrossovers].filter((w) => w > 0 && Number.isFinite(w) && w <= top);
   if (extra.length) omega = [...omega, ...extra].sort((x, y) => x - y);
-  const fr = frequencyResponse(L, omega);
+  const fr = cutLoopResponse({ reduction: { tf: L }, source: at.source }, omega);
   const sensDb: number[] = [];
   const compDb: number[] = [];
   for (let i = 0; i < fr.omega.length; i++) {
@@ -118,6 +114,8 @@ export function frequencyOfLoop(
     margins: marginFigures(margins),
     openLoopRhpPoles: rhpPoleCount(L),
     loop: transferData(L),
-    delayHandling,
+    delayHandling: at.delayHandling,
+    frequencyMethod: { ...at.frequency },
+    notes: [...margins.notes],
   };
 }

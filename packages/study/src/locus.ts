@@ -41,7 +41,7 @@ const branchesOf = (br: LocusPoint[][]): LocusBranch[] =>
 const angles = (xs: { at: Complex; angleDeg: number; multiplicity: number }[]): LocusAngleData[] =>
   xs.map((a) => ({ at: plain(a.at), angleDeg: a.angleDeg, multiplicity: a.multiplicity }));
 
-export function locusStudy(d: Diagram, req: LocusRequest): LocusData {
+export function locusStudy(d: Diagram, req: LocusRequest, deadline?: number): LocusData {
   checkTarget(d, req.target);
   const ed = engineDiagram(d, req.target);
   const name = engineParameterName(req.target);
@@ -55,12 +55,10 @@ export function locusStudy(d: Diagram, req: LocusRequest): LocusData {
         ? 'negative'
         : 'positive';
   const overrides = without(req.overrides ?? {}, name);
-  assertAnalysable(ed, overrides);
+  assertAnalysable(ed, overrides, deadline);
   const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
   const key = JSON.stringify([engineText(ed), name, overrides, range, direction, req.opposite === true, padeOrder, req.samples ?? null]);
-  return cached(loci, key, () =>
-    compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples),
-  );
+  return cached(loci, key, () => compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples, deadline));
 }
 
 /** Roots of D0 and N0 (common factors apart, as graph's sweepLocus removes them) at another Padé order. */
@@ -86,13 +84,12 @@ function compute(
   overrides: Record<string, number>,
   padeOrder: number,
   samples: number | undefined,
+  deadline: number | undefined,
 ): LocusData {
+  const budget = deadline !== undefined ? { deadline } : {};
   // The sweep range travels in the diagram (graph's sampled locus reads it from there).
-  const ranged: Diagram = {
-    ...ed,
-    sweeps: [{ id: '~study-range', parameter: name, ...range }, ...ed.sweeps.filter((s) => s.parameter !== name)],
-  };
-  const sw = sweepLocus(ranged, name, overrides, { negative: direction === 'negative', padeOrder, ...(samples ? { samples } : {}) });
+  const ranged: Diagram = { ...ed, sweeps: [{ id: '~study-range', parameter: name, ...range }, ...ed.sweeps.filter((s) => s.parameter !== name)] };
+  const sw = sweepLocus(ranged, name, overrides, { negative: direction === 'negative', padeOrder, ...(samples ? { samples } : {}), ...budget });
   if (sw.mode === 'sampled') {
     const first = sw.branches.filter((b) => b[0].k === sw.values[0]).map((b) => plain(b[0].s));
     return {
@@ -131,8 +128,7 @@ function compute(
   const higher = pade ? higherOrderRoots(ed, name, overrides, comparisonOrder(padeOrder)) : null;
   // The slider's part again, densely: for hit-testing, framing and the current-pole track.
   // A range through zero is traced on both sides of it.
-  const part = (negative: boolean, lo: number, hi: number) =>
-    hi > lo ? branchesOf(rootLocus(L.num, L.den, { negative, kMin: lo, kMax: hi, samples: 240 }).branches) : [];
+  const part = (negative: boolean, lo: number, hi: number) => (hi > lo ? branchesOf(rootLocus(L.num, L.den, { negative, kMin: lo, kMax: hi, samples: 240, ...budget }).branches) : []);
   const rangeBranches =
     range.min >= 0
       ? part(false, range.min, range.max)
@@ -146,7 +142,7 @@ function compute(
     direction,
     branches: branchesOf(L.branches),
     rangeBranches,
-    oppositeBranches: opposite ? branchesOf(rootLocus(L.num, L.den, { negative: direction === 'positive' }).branches) : null,
+    oppositeBranches: opposite ? branchesOf(rootLocus(L.num, L.den, { negative: direction === 'positive', ...budget }).branches) : null,
     poles: L.poles.map(plain),
     zeros: L.zeros.map(plain),
     fixedPoles: sw.fixedPoles.map(plain),

@@ -32,10 +32,10 @@ export function loopOfExpression(e: ExpressionLoop): TransferFunction {
 
 export function expressionMargins(
   e: ExpressionLoop,
-  opts: { padeOrder?: number } = {},
+  opts: { padeOrder?: number; deadline?: number } = {},
 ): { loop: TransferFunction; margins: LoopMargins; poleOrigin: PoleOrigin[] } {
   const loop = loopOfExpression(e);
-  const margins = loopMargins(loop, opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {});
+  const margins = loopMargins(loop, { ...(opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {}), ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}) });
   // With a dead time the closed-loop poles are those of 1 + L with a Padé approximant: each is
   // marked by whether it stays put at an order two higher (roots of D·Pd + N·Pn).
   const order = margins.padeOrder;
@@ -50,7 +50,7 @@ export type PadeNote = { mode: 'none' } | { mode: 'pade'; order: number; delay: 
 
 export function expressionLocus(
   e: ExpressionLoop,
-  opts: { negative?: boolean; kMax?: number; samples?: number; padeOrder?: number } = {},
+  opts: { negative?: boolean; kMax?: number; samples?: number; padeOrder?: number; deadline?: number } = {},
 ): { loop: TransferFunction; locus: RootLocus; delayHandling: PadeNote } {
   const loop = loopOfExpression(e);
   const order = opts.padeOrder ?? 3;
@@ -68,6 +68,7 @@ export function expressionLocus(
     negative: opts.negative === true,
     ...(opts.kMax !== undefined ? { kMax: opts.kMax } : {}),
     ...(opts.samples !== undefined ? { samples: opts.samples } : {}),
+    ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}),
   });
   return { loop, locus, delayHandling };
 }

@@ -27,11 +27,11 @@ export interface LoopsRequest {
 
 const plain = (c: Complex) => ({ re: c.re, im: c.im });
 
-export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
+export function loopsStudy(d: Diagram, req: LoopsRequest = {}, deadline?: number): LoopsData {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
   const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
-  const rep = analyseLoops(diagram, overrides, { padeOrder });
+  const rep = analyseLoops(diagram, overrides, { padeOrder, ...(deadline !== undefined ? { deadline } : {}) });
   // Opened loops are given by their cut ids; every view names them by loopName (one name per
   // loop across table, canvas and report).
   const cutOfWire = new Map(rep.cuts.map((c) => [c.wire, c.cut]));
@@ -59,9 +59,11 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
       loop: transferData(c.loop),
       openLoopRhpPoles,
       delayHandling: c.delayHandling,
+      frequencyMethod: { ...c.frequency },
+      notes: [...c.margins.notes],
       hiddenModes: c.hiddenModes.map(plain),
       frequency: req.frequency
-        ? frequencyOfLoop({ id: c.cut, wire: c.wire, label: names[c.cut] }, c.loop, c.margins, c.delayHandling)
+        ? frequencyOfLoop({ id: c.cut, wire: c.wire, label: names[c.cut] }, { tf: c.loop, source: c.source, delayHandling: c.delayHandling, frequency: c.frequency }, c.margins)
         : null,
       alone,
       advice: loopAdvice(

@@ -31,18 +31,18 @@ export function stableFrom(poles: readonly Complex[]): boolean {
   return poles.every((p) => p.re < -1e-9 * scale);
 }
 
-export function polesStudy(d: Diagram, req: PolesRequest = {}): PolesData {
+export function polesStudy(d: Diagram, req: PolesRequest = {}, deadline?: number): PolesData {
   const base = req.overrides ?? {};
   const { diagram, overrides } = withLiveValue(d, base, req.live);
   // Validated at the document's values: a live slider value cannot change the structure.
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
   const order = req.padeOrder ?? DEFAULT_PADE_ORDER;
   const swept = req.live ? engineParameterName(req.live.target) : undefined;
-  const main = characteristicAt(diagram, overrides, order, swept);
+  const main = characteristicAt(diagram, overrides, order, swept, deadline);
   const poles = polyRoots(main.poly);
   const origin =
     main.handling.mode === 'pade'
-      ? padeOrigins(poles, polyRoots(characteristicAt(diagram, overrides, comparisonOrder(order), swept).poly))
+      ? padeOrigins(poles, polyRoots(characteristicAt(diagram, overrides, comparisonOrder(order), swept, deadline).poly))
       : poles.map((): PoleOrigin => 'exact');
   return { poles: poles.map(plain), origin, delayHandling: main.handling, stable: stableFrom(poles) };
 }

@@ -256,7 +256,7 @@ function metricsRows(d: Diagram, r: RunTrace, actuators: ActuatorInfo[]): Metric
 
 export function responseStudy(d: Diagram, req: RunRequest = {}, ctx: RunContext = {}): ResponseResult {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, ctx.deadline);
   const settings = runSettings(diagram, req, overrides);
   const shown = shownProbes(diagram, req.probes);
   const actuators = actuatorsOf(diagram, overrides);

@@ -66,8 +66,9 @@ export interface StudyProgress {
 
 /**
  * What a study may be given besides plain data: a cancellation poll, a deadline and a progress
- * callback. Runs honour all three; the analyses will pass the deadline on as the math
- * packages accept one, and report progress per part.
+ * callback. Runs honour all three and report progress per part; every analysis passes the
+ * deadline on to graph and lti, which stop past it with a BudgetError naming the analysis (a
+ * failed part with reason 'budget'; the CLI's exit 2).
  */
 export interface StudyContext extends Omit<RunContext, 'onProgress'> {
   onProgress?: (p: StudyProgress) => void;
@@ -76,12 +77,12 @@ export interface StudyContext extends Omit<RunContext, 'onProgress'> {
 type Handlers = { [K in StudyKind]: (d: Diagram, req: { kind: K } & StudyKinds[K]['request'], ctx: RunContext) => StudyKinds[K]['result'] };
 
 const HANDLERS: Handlers = {
-  check: (d, r) => checkStudy(d, r.overrides ?? {}),
-  locus: (d, r) => locusStudy(d, r),
-  poles: (d, r) => polesStudy(d, r),
-  cut: (d, r) => cutStudy(d, r),
-  loops: (d, r) => loopsStudy(d, r),
-  'closed-loop': (d, r) => closedLoopStudy(d, r),
+  check: (d, r, ctx) => checkStudy(d, r.overrides ?? {}, ctx.deadline),
+  locus: (d, r, ctx) => locusStudy(d, r, ctx.deadline),
+  poles: (d, r, ctx) => polesStudy(d, r, ctx.deadline),
+  cut: (d, r, ctx) => cutStudy(d, r, ctx.deadline),
+  loops: (d, r, ctx) => loopsStudy(d, r, ctx.deadline),
+  'closed-loop': (d, r, ctx) => closedLoopStudy(d, r, ctx.deadline),
   run: (d, r, ctx) => responseStudy(d, r, ctx),
   'test-log': (_d, r) => testLogStudy(r),
   fit: (_d, r) => fitStudy(r),

@@ -3,7 +3,7 @@
  * functions, no Maps), so that a worker can post them and the command line can print them as
  * JSON. Polynomials are ascending; complex numbers are {re, im}.
  */
-import type { DelayHandling, Finding, Separation, SignalRef } from '@loopwright/graph';
+import type { CutFrequencyMethod, DelayHandling, Finding, Separation, SignalRef } from '@loopwright/graph';
 import type { MarginFigures } from '@loopwright/lti';
 import type { FitProvenance, ProcessFit, ProcessModel, ProcessModelKind, fitSummary } from '@loopwright/fit';
 import type { ControllerSetting, TuneRule } from '@loopwright/tune';
@@ -149,7 +149,12 @@ export interface FrequencyData {
   /** Poles of L in the open right half-plane (Nyquist: encirclements of −1 needed for stability). */
   openLoopRhpPoles: number;
   loop: TransferData;
+  /** How dead times enter L(s) (its poles): exact, or Padé where they sit inside other loops. */
   delayHandling: DelayHandling;
+  /** How L(jω) here (curves and margins) was evaluated: 'rational', or 'exact' in every dead time (solved at s = jω when `solved`). */
+  frequencyMethod: CutFrequencyMethod;
+  /** What the margins could not say plainly: crossovers past a stated frequency, limited accuracy, … */
+  notes: string[];
 }
 
 /** One reading of a loop: L at the cut with a given set of other loops opened. */
@@ -175,6 +180,10 @@ export interface LoopRow {
   loop: TransferData;
   openLoopRhpPoles: number;
   delayHandling: DelayHandling;
+  /** How L(jω) was evaluated for the margins (see FrequencyData.frequencyMethod). */
+  frequencyMethod: CutFrequencyMethod;
+  /** The margins' notes (crossovers past a stated frequency, limited accuracy, …). */
+  notes: string[];
   hiddenModes: Cx[];
   /** The same cut read inner-first: the loops around it opened (null when none enclose it). */
   alone: LoopReading | null;

@@ -20,9 +20,10 @@ const checks = registerCache(new Lru<Finding[]>(16));
  * Every finding of the diagram (structural, then analytical), errors first, with the
  * simulator's verdict on algebraic loops (see simulationVerdict). Cached per diagram and overrides.
  */
-export function findingsOf(d: Diagram, overrides: Record<string, number> = {}): Finding[] {
+export function findingsOf(d: Diagram, overrides: Record<string, number> = {}, deadline?: number): Finding[] {
+  // A check stopped by the deadline throws (BudgetError) and is not cached.
   return cached(checks, `${fingerprintText(d)}|${JSON.stringify(overrides)}`, () =>
-    simulationVerdict(d, overrides, checkDiagram(d, overrides)),
+    simulationVerdict(d, overrides, checkDiagram(d, overrides, deadline !== undefined ? { deadline } : {})),
   );
 }
 
@@ -53,8 +54,8 @@ function simulationVerdict(d: Diagram, overrides: Record<string, number>, findin
   );
 }
 
-export function checkStudy(d: Diagram, overrides: Record<string, number> = {}): CheckData {
-  const findings = findingsOf(d, overrides);
+export function checkStudy(d: Diagram, overrides: Record<string, number> = {}, deadline?: number): CheckData {
+  const findings = findingsOf(d, overrides, deadline);
   const count = (s: Finding['severity']) => findings.filter((f) => f.severity === s).length;
   return { findings, counts: { error: count('error'), warning: count('warning'), info: count('info') } };
 }
@@ -81,7 +82,7 @@ export class RefusedDiagram extends InputError {
 }
 
 /** Throws RefusedDiagram when the diagram has an error finding (with these overrides). */
-export function assertAnalysable(d: Diagram, overrides: Record<string, number> = {}): void {
-  const errors = findingsOf(d, overrides).filter((f) => f.severity === 'error');
+export function assertAnalysable(d: Diagram, overrides: Record<string, number> = {}, deadline?: number): void {
+  const errors = findingsOf(d, overrides, deadline).filter((f) => f.severity === 'error');
   if (errors.length) throw new RefusedDiagram(errors[0], errors.length);
 }

@@ -22,7 +22,7 @@ import { checkSets } from './diagram-input.ts';
  * `file` is the diagram's JSON text (as read from the FILE) or an already parsed Diagram.
  * `sets` is NAME=VALUE words or a record. Bad input throws InputError or UsageError (exit code 2).
  */
-export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Record<string, number> | string[] = {}, negative = false) {
+export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Record<string, number> | string[] = {}, negative = false, deadline?: number) {
   const d = typeof file === 'string' ? parseDiagram(file) : file;
   const overrides = Array.isArray(sets) ? parseAssignments(sets, 'set') : sets;
   checkSets(d, overrides);
@@ -30,7 +30,7 @@ export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Re
   if (!target) throw new InputError(`--sweep ${sweep}: expected a parameter name or block:ID.k`, { field: '--sweep' });
   const name = engineParameterName(target);
   const value = overrides[name] ?? documentValue(d, target);
-  const L = locusStudy(d, { target, value, overrides, direction: negative ? 'negative' : 'auto' });
+  const L = locusStudy(d, { target, value, overrides, direction: negative ? 'negative' : 'auto' }, deadline);
   const pair = (z: Cx) => [z.re, z.im];
   const branches = L.branches.map((b) => b.re.map((re, i) => [re, b.im[i], b.k[i]]));
   const common = {

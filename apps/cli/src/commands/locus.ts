@@ -101,7 +101,7 @@ function humanSummary(j: LocusSummary, head: string[]): string {
   return lines.join('\n') + '\n';
 }
 
-async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo): Promise<number> {
+async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo, deadline?: number): Promise<number> {
   if (a.positional.length !== 1) throw new UsageError('locus: give exactly one diagram FILE (see --help)');
   if (has(a, 'loop') || has(a, 'param')) throw new UsageError('locus: --loop/--param and a diagram FILE exclude each other');
   const sweep = one(a, 'sweep');
@@ -109,7 +109,7 @@ async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo): Promise<
   const sets = parseAssignments(all(a, 'set'), 'set');
   const d = await readDiagram(io, a.positional[0]);
   checkSets(d, sets);
-  const j = locusFromDiagram(d, sweep, sets, has(a, 'negative'));
+  const j = locusFromDiagram(d, sweep, sets, has(a, 'negative'), deadline);
   if (has(a, 'json')) {
     io.stdout(toJson(j));
     return 0;
@@ -128,25 +128,16 @@ export const locusCommand: Command = {
   name: 'locus',
   summary: 'root locus of a loop, or of a whole diagram as one parameter varies',
   help,
-  async run(argv, io) {
+  async run(argv, io, budget = {}) {
     const a = parseArgs(argv, ['loop', 'param', 'sweep', 'set', 'k-max', 'samples', 'pade-order'], ['negative', 'json']);
-    if (a.positional.length > 0) return diagramForm(a, io);
+    if (a.positional.length > 0) return diagramForm(a, io, budget.deadline);
     if (has(a, 'sweep') || has(a, 'set')) throw new UsageError('locus: --sweep and --set need a diagram FILE (locus FILE --sweep PARAM)');
     const loop = loopFromArgs(a, 'locus');
     const kMax = numberFlag(a, 'k-max');
     const samples = numberFlag(a, 'samples');
     const padeOrder = numberFlag(a, 'pade-order') ?? 3;
-    const {
-      loop: tf,
-      locus: L,
-      delayHandling,
-    } = withCaret(loop, () =>
-      expressionLocus(loop, {
-        negative: has(a, 'negative'),
-        padeOrder,
-        ...(kMax !== undefined ? { kMax } : {}),
-        ...(samples !== undefined ? { samples } : {}),
-      }),
+    const { loop: tf, locus: L, delayHandling } = withCaret(loop, () =>
+      expressionLocus(loop, { negative: has(a, 'negative'), padeOrder, ...budget, ...(kMax !== undefined ? { kMax } : {}), ...(samples !== undefined ? { samples } : {}) }),
     );
     const j = locusJson(L, delayHandling);
     if (has(a, 'json')) {

@@ -58,14 +58,14 @@ export const loopsCommand: Command = {
   name: 'loops',
   summary: 'every cut: crossovers, margins, Ms, stability; inner/outer separation ratios',
   help,
-  async run(argv, io) {
+  async run(argv, io, budget = {}) {
     const a = parseArgs(argv, ['set', 'pade-order'], ['json']);
     if (a.positional.length !== 1) throw new UsageError('loops: give exactly one diagram FILE (see --help)');
     const sets = parseAssignments(all(a, 'set'), 'set');
     const padeOrder = numberFlag(a, 'pade-order');
     const d = await readDiagram(io, a.positional[0]);
     checkSets(d, sets);
-    const rep = runStudy(d, { kind: 'loops', overrides: sets, ...(padeOrder !== undefined ? { padeOrder } : {}) });
+    const rep = runStudy(d, { kind: 'loops', overrides: sets, ...(padeOrder !== undefined ? { padeOrder } : {}) }, budget);
     if (has(a, 'json')) {
       io.stdout(
         toJson(

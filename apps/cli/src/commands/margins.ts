@@ -46,16 +46,12 @@ export const marginsCommand: Command = {
   name: 'margins',
   summary: 'gain, phase and delay margins, Ms/Mt, bandwidth and closed-loop verdict of a loop',
   help,
-  async run(argv, io) {
+  async run(argv, io, budget = {}) {
     const a = parseArgs(argv, ['loop', 'param', 'pade-order'], ['json']);
     if (a.positional.length) throw new UsageError(`margins: unexpected argument "${a.positional[0]}" (the loop goes in --loop "...")`);
     const padeOrder = numberFlag(a, 'pade-order');
     const loop = loopFromArgs(a, 'margins');
-    const {
-      loop: tf,
-      margins: m,
-      poleOrigin,
-    } = withCaret(loop, () => expressionMargins(loop, padeOrder !== undefined ? { padeOrder } : {}));
+    const { loop: tf, margins: m, poleOrigin } = withCaret(loop, () => expressionMargins(loop, { ...(padeOrder !== undefined ? { padeOrder } : {}), ...budget }));
     if (has(a, 'json')) {
       io.stdout(toJson(marginsJson(m, poleOrigin)));
       return 0;

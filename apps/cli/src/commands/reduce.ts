@@ -37,7 +37,7 @@ export const reduceCommand: Command = {
   name: 'reduce',
   summary: 'closed-loop transfer function between two points of a diagram',
   help,
-  async run(argv, io) {
+  async run(argv, io, budget = {}) {
     const a = parseArgs(argv, ['from', 'to', 'set', 'pade-order'], ['json', 'bode', 'step']);
     if (a.positional.length !== 1) throw new UsageError('reduce: give exactly one diagram FILE (see --help)');
     const fromText = one(a, 'from');
@@ -49,15 +49,7 @@ export const reduceCommand: Command = {
     checkSets(d, sets);
     const from = signalRef(d, fromText, 'from');
     const to = signalRef(d, toText, 'to');
-    const r = runStudy(d, {
-      kind: 'closed-loop',
-      from,
-      to,
-      overrides: sets,
-      bode: has(a, 'bode'),
-      step: has(a, 'step'),
-      ...(padeOrder !== undefined ? { padeOrder } : {}),
-    });
+    const r = runStudy(d, { kind: 'closed-loop', from, to, overrides: sets, bode: has(a, 'bode'), step: has(a, 'step'), ...(padeOrder !== undefined ? { padeOrder } : {}) }, budget);
     const { num: numA, den: denA, delay } = r.transfer;
     const text = fmtTransfer(numA, denA, delay);
     if (has(a, 'json')) {

@@ -1,9 +1,9 @@
-import { type Complex, InputError, type LoopMargins, type TransferFunction, loopMargins } from '@loopwright/lti';
+import { type Complex, InputError, type LoopMargins, type LoopSource, type TransferFunction, checkDeadline } from '@loopwright/lti';
 import type { Diagram } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
 import { type Branch, type CompiledGraph } from './linear-graph.ts';
 import { flowGraph, simpleCycles } from './mason.ts';
-import { loopAtCutDetailed } from './cuts.ts';
+import { type CutFrequencyMethod, cutMargins } from './cuts.ts';
 import { type DelayHandling, type ReduceOptions, closedLoopPoles, compiledOf } from './reduce.ts';
 
 /**
@@ -20,7 +20,12 @@ export interface CutAnalysis {
   auto: boolean;
   /** L(s) at the cut with every other loop closed (1 + L = 0). */
   loop: TransferFunction;
+  /** How dead times enter L(s) (the closed-loop poles): exact when outside every other loop, else Padé. */
   delayHandling: DelayHandling;
+  /** How L(jω) was evaluated for the margins: every dead time exact (solved at s = jω where needed). */
+  frequency: CutFrequencyMethod;
+  /** The exact L(jω) where it differs from L(s) (dead times inside other loops), else null: see cutLoopResponse. */
+  source: LoopSource | null;
   hiddenModes: Complex[];
   margins: LoopMargins;
   /** Gain crossover (rad/s), null if |L| never crosses 1. */
@@ -155,6 +160,11 @@ export function withoutWires(c: CompiledGraph, wires: readonly string[]): Compil
 
 const ratioOf = (a: number | null, b: number | null) => (a !== null && b !== null && b > 0 ? a / b : null);
 
+/**
+ * Every cut's margins (dead times exact in L(jω)), the loops as tuned inner-first, separations,
+ * outer loops against ideal inner ones, and the closed-loop poles. `opts.deadline` bounds the
+ * wall time (BudgetError('time')).
+ */
 export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: ReduceOptions = {}): LoopsReport {
   const c = compiledOf(d, overrides);
   const notes: string[] = [];
@@ -186,17 +196,20 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
     }
   }
   function analyseCut(k: (typeof valid)[number]): CutAnalysis {
-    const r = loopAtCutDetailed(c, k.wire, undefined, opts);
-    const margins = loopMargins(r.tf);
+    checkDeadline(opts.deadline, 'loops report');
+    const { margins, loop } = cutMargins(c, k.wire, undefined, opts);
+    const r = loop.reduction;
     const mine = blocksOf(k.wire);
     const opened = valid.filter((o) => enclosesWire(o.wire, k.wire)).map((o) => o.wire);
-    const aloneLoop = opened.length ? loopAtCutDetailed(withoutWires(c, opened), k.wire, undefined, opts).tf : r.tf;
-    const aloneMargins = opened.length ? loopMargins(aloneLoop) : margins;
+    const alone = opened.length ? cutMargins(withoutWires(c, opened), k.wire, undefined, opts) : null;
+    const aloneMargins = alone ? alone.margins : margins;
     return {
       ...k,
-      alone: { loop: aloneLoop, margins: aloneMargins, crossover: aloneMargins.gainCrossover, bandwidth: aloneMargins.bandwidth, opened },
+      alone: { loop: alone ? alone.loop.reduction.tf : r.tf, margins: aloneMargins, crossover: aloneMargins.gainCrossover, bandwidth: aloneMargins.bandwidth, opened },
       loop: r.tf,
       delayHandling: r.delayHandling,
+      frequency: loop.frequency,
+      source: loop.source,
       hiddenModes: r.hiddenModes,
       margins,
       crossover: margins.gainCrossover,
@@ -234,9 +247,10 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
     });
     try {
       // Both readings with the loops around the outer one opened (as tuned inner-first).
+      checkDeadline(opts.deadline, 'loops report');
       const ideal = withIdealInnerLoop(withoutWires(c, outer.alone.opened), inner.wire);
-      const idealLoop = loopAtCutDetailed(ideal, outer.wire, undefined, opts).tf;
-      outerVsIdeal.push({ outer: outer.cut, inner: inner.cut, real: outer.alone.margins, ideal: loopMargins(idealLoop), idealLoop });
+      const idealCut = cutMargins(ideal, outer.wire, undefined, opts);
+      outerVsIdeal.push({ outer: outer.cut, inner: inner.cut, real: outer.alone.margins, ideal: idealCut.margins, idealLoop: idealCut.loop.reduction.tf });
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
       notes.push(`outer loop ${outer.cut} against an ideal inner loop ${inner.cut}: ${err.message}`);
