@@ -58,6 +58,7 @@ function engineSteps(view: View, steps: number): Steps {
       sweep: resolveSweep(d, { key: null, liveValue: value }),
       live: { target: sweep.choice!.target, value },
       cutId: null,
+      closedLoop: null,
     };
     const studies = channelStudies(inputs, { frequency: view === 'frequency', opposite: false });
     for (const full of i % 2 ? [true, false] : [false, true]) {

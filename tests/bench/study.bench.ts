@@ -1,5 +1,5 @@
 // The study engine as the editor drives it: a slider step (locus cached, poles and L at the
-// cut at the new value), a cold locus, the findings of an edit, a run of each demo.
+// cut at the new value), a cold locus, the findings of an edit, a run of each demo, the design report.
 import { bench, ratio, report, section } from './harness.ts';
 import { demoDiagrams } from '@loopwright/graph';
 import { clearCaches, resolveSweep, runStudies, runStudy, type StudyRequest } from '@loopwright/study';
@@ -33,6 +33,15 @@ export function run(): void {
       runStudy(d, { kind: 'check' });
     }, { minRuns: 10, minMs: 200 }));
     report(bench(`${demo.id}: loops table`, () => runStudy(d, { kind: 'loops', live: sweep.live }), { minRuns: 5, minMs: 200 }));
-    report(bench(`${demo.id}: run with linear overlay (diagram settings)`, () => runStudy(d, { kind: 'run', live: sweep.live, linearOverlay: true }), { minRuns: 3, minMs: 100, warmup: 1 }));
+    const runOnly = bench(`${demo.id}: run with linear overlay (diagram settings)`, () => runStudy(d, { kind: 'run', live: sweep.live, linearOverlay: true }), { minRuns: 3, minMs: 100, warmup: 1 });
+    report(runOnly);
+    // The design report: every part computed (findings, locus, poles, loops with each loop's
+    // frequency data, a run) and the HTML with its SVG charts written; cold, as the CLI runs it.
+    const rep = bench(`${demo.id}: design report (caches cleared)`, () => {
+      clearCaches();
+      runStudy(d, { kind: 'report', generatedAt: 'bench' });
+    }, { minRuns: 3, minMs: 100, warmup: 1 });
+    report(rep, undefined, `${demo.id}-report`);
+    ratio(`${demo.id}: design report / run with overlay`, rep, runOnly, undefined, `${demo.id}-report-vs-run`);
   }
 }

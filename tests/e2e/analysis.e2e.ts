@@ -12,6 +12,7 @@ import type { Download, Page } from 'playwright-core';
 import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph';
 import { roundSignificant } from '@loopwright/lti';
 import { openEditor, screenshot, type EditorSession } from './harness.ts';
+import { analysisSettled, analysisState, loadDiagram } from './ui.ts';
 
 const ROOT = resolve(import.meta.dirname, '..', '..');
 
@@ -31,23 +32,8 @@ interface HookState {
   response: { run: { time: number[]; traces: Record<string, number[]> }; linear: { time: number[]; traces: Record<string, number[]> } | null; probes: { id: string }[] } | null;
 }
 
-const state = (page: Page) =>
-  page.evaluate(() => (window as unknown as { __loopwright: { analysis: { state(): unknown } } }).__loopwright.analysis.state()) as Promise<HookState>;
-
-/** Waits until every view has drawn the results of the latest input change. */
-async function settled(page: Page): Promise<HookState> {
-  await page.waitForFunction(
-    () => {
-      const h = (window as unknown as { __loopwright?: { analysis?: { state(): { complete: boolean; poles: unknown; response: unknown } } } }).__loopwright?.analysis;
-      if (!h) return false;
-      const s = h.state();
-      return s.complete && s.poles !== null && s.response !== null;
-    },
-    undefined,
-    { timeout: 30_000, polling: 50 },
-  );
-  return state(page);
-}
+const state = (page: Page) => analysisState<HookState>(page);
+const settled = (page: Page) => analysisSettled<HookState>(page);
 
 const demo = (id: string): Diagram => {
   const d = demoDiagrams.find((x) => x.id === id);
@@ -55,9 +41,6 @@ const demo = (id: string): Diagram => {
   return JSON.parse(JSON.stringify(d.diagram)) as Diagram;
 };
 
-async function loadDiagram(page: Page, d: Diagram) {
-  await page.evaluate((doc) => (window as unknown as { __loopwright: { setDiagram(d: unknown): void } }).__loopwright.setDiagram(doc), d);
-}
 
 /** Sets the slider to a position 0..1000 with the keyboard-free input path a user's drag takes. */
 async function dragSliderTo(page: Page, fraction: number) {
@@ -149,7 +132,10 @@ describe('analysis views', () => {
       const opt = (await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { chartOption(n: string): unknown } } }).__loopwright.analysis.chartOption('locus'))) as {
         series: { name: string; data: number[][] }[];
       };
-      return opt.series.find((x) => x.name === 'closed-loop poles')!.data.map(([re, im]) => ({ re, im }));
+      // Poles that belong to a Padé approximant are drawn apart (hollow), in a series of their own.
+      return opt.series
+        .filter((x) => x.name === 'closed-loop poles' || x.name === 'poles of a Padé approximant')
+        .flatMap((x) => x.data.map(([re, im]) => ({ re, im })));
     };
     const p0 = await chartPoles();
     expect(sortPoles(p0)).toEqual(sortPoles(s0.poles!));

@@ -14,82 +14,11 @@ import type { Page } from 'playwright-core';
 import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph';
 import { roundSignificant } from '@loopwright/lti';
 import { openEditor, screenshot, type EditorSession } from './harness.ts';
-import { getDiagram, getSelection, history, selectBlock, setField, wire } from './ui.ts';
-import { LANE_GAP, pathPoints, type Point } from '@loopwright/editor/testing';
+import { getDiagram, getSelection, history, intersects, lane, pointOnWire, rectOf, selectBlock, setField, toScreen, viewSettled, wire, wirePath, type Rect } from './ui.ts';
+import { LANE_GAP } from '@loopwright/editor/testing';
 
-interface Rect {
-  left: number;
-  top: number;
-  right: number;
-  bottom: number;
-}
-const intersects = (a: Rect, b: Rect) => a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
 const inside = (a: Rect, outer: Rect, slack = 1) =>
   a.left >= outer.left - slack && a.right <= outer.right + slack && a.top >= outer.top - slack && a.bottom <= outer.bottom + slack;
-
-/** The drawn path of a wire, in flow units (the `d` WireEdge draws). */
-async function wirePath(page: Page, id: string): Promise<Point[]> {
-  const d = await page.locator(`[data-testid="rf__edge-${id}"] path.react-flow__edge-path`).getAttribute('d');
-  if (!d) throw new Error(`wire ${id} not drawn`);
-  return pathPoints(d);
-}
-
-/** The horizontal return segment of a feedback wire: its longest horizontal piece. */
-function lane(pts: Point[]): { y: number; x0: number; x1: number } {
-  let best = { y: Number.NaN, x0: 0, x1: 0 };
-  for (let i = 0; i + 1 < pts.length; i++) {
-    const a = pts[i];
-    const b = pts[i + 1];
-    if (Math.abs(a.y - b.y) < 1e-6 && Math.abs(b.x - a.x) > best.x1 - best.x0)
-      best = { y: a.y, x0: Math.min(a.x, b.x), x1: Math.max(a.x, b.x) };
-  }
-  return best;
-}
-
-/** Screen point at fraction f along a wire's longest horizontal segment (f along its length). */
-async function pointOnWire(page: Page, id: string, f: number): Promise<{ x: number; y: number }> {
-  const l = lane(await wirePath(page, id));
-  return toScreen(page, { x: l.x0 + f * (l.x1 - l.x0), y: l.y });
-}
-
-/** Flow coordinates → page coordinates, through the viewport transform React Flow applies. */
-async function toScreen(page: Page, p: Point): Promise<{ x: number; y: number }> {
-  return page.evaluate(
-    ([x, y]) => {
-      const vp = document.querySelector('.react-flow__viewport') as HTMLElement;
-      const m = new DOMMatrix(getComputedStyle(vp).transform);
-      const r = (document.querySelector('.react-flow') as HTMLElement).getBoundingClientRect();
-      return { x: r.left + m.a * x + m.e, y: r.top + m.d * y + m.f };
-    },
-    [p.x, p.y],
-  );
-}
-
-/** Waits until the canvas stops moving (a fit after Tidy or a load runs a frame or two later). */
-async function viewSettled(page: Page) {
-  await page.waitForSelector('.canvas-box:not([data-fit-pending])', { timeout: 20_000 });
-  const transform = () => page.evaluate(() => (document.querySelector('.react-flow__viewport') as HTMLElement).style.transform);
-  let last = '';
-  await expect
-    .poll(
-      async () => {
-        const now = await transform();
-        const same = now === last;
-        last = now;
-        return same;
-      },
-      { interval: 250 },
-    )
-    .toBe(true);
-}
-
-const rectOf = (page: Page, selector: string) =>
-  page.locator(selector).evaluateAll((els) =>
-    els.map((e) => {
-      const r = e.getBoundingClientRect();
-      return { left: r.left, top: r.top, right: r.right, bottom: r.bottom };
-    }),
-  );
 
 /** Everything drawn on the canvas (cards, junctions, wires, cut markers) lies inside the canvas. */
 async function expectAllInView(page: Page, what: string) {

@@ -1,15 +1,42 @@
 /**
  * One engine: the command line's --json path and the editor worker's compute entry give the
- * same numbers for the same diagram — both demos and three scenarios of our own (a three-loop
+ * same numbers for the same diagram — the demos and three scenarios of our own (a three-loop
  * cascade with dead times, a loop with a feedforward, a reverse-acting loop swept over negative
- * gains). The worker side sends exactly the study requests the editor's driver builds; the
+ * gains), the design report included; and `loopwright fit` / `loopwright tune` against the requests of the editor's Test
+ * log and Tune views. The worker side sends exactly the study requests the editor's driver builds; the
  * study caches are cleared between the two sides so that each computes afresh.
  */
 import { describe, expect, it } from 'vitest';
-import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph';
-import { clearCaches, engineParameterName, resolveSweep, type LocusData, type LoopsData, type Part, type ResponseResult, type StudyResult, type CheckData, type ClosedLoopData } from '@loopwright/study';
+import { demoDiagrams, emptyDiagram, serializeDiagram, type Diagram } from '@loopwright/graph';
+import { supplyValveBumpCsv } from '@loopwright/fit';
+import {
+  clearCaches,
+  engineParameterName,
+  resolveSweep,
+  runStudies,
+  type FitData,
+  type StudyRequest,
+  type TuneData,
+  type LocusData,
+  type LoopsData,
+  type Part,
+  type ResponseResult,
+  type StudyResult,
+  type CheckData,
+  type ClosedLoopData,
+  type ReportData,
+} from '@loopwright/study';
 import { main, type CliIo } from '@loopwright/cli/testing';
-import { computeReply, channelStudies, type AnalysisInputs, type Channel } from '@loopwright/editor/testing';
+import {
+  computeReply,
+  channelStudies,
+  reportRequest,
+  fitStudyRequests,
+  tuneStudyRequest,
+  type AnalysisInputs,
+  type Channel,
+  type TuneOptions,
+} from '@loopwright/editor/testing';
 import { coolingReverseActing, furnaceCascade, tankFeedforward } from '@loopwright/study/testing';
 
 async function cli(argv: string[], file: string): Promise<Record<string, any>> {
@@ -29,7 +56,7 @@ async function cli(argv: string[], file: string): Promise<Record<string, any>> {
 /** The worker's answer to the requests the driver sends for the diagram as loaded (no UI choices made). */
 function worker(d: Diagram, channel: Channel): StudyResult['value'][] {
   const sweep = resolveSweep(d, { key: null, liveValue: null });
-  const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null };
+  const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null, closedLoop: null };
   const studies = channelStudies(inp, { frequency: true, opposite: false })[channel];
   const reply = computeReply({ channel, id: 1, diagram: d, studies });
   if (!reply.ok) throw new Error(reply.error);
@@ -116,8 +143,14 @@ describe('the command line and the editor worker agree', () => {
           }
         });
         same(c.separations, w.separations);
-        same(c.outerVsIdeal.map((o: Record<string, unknown>) => [o.outer, o.inner, o.real, o.ideal]), w.outerVsIdeal.map((o) => [o.outer, o.inner, o.realMargins, o.idealMargins]));
+        same(
+          c.outerVsIdeal.map((o: Record<string, unknown>) => [o.outer, o.inner, o.real, o.ideal]),
+          w.outerVsIdeal.map((o) => [o.outer, o.inner, o.realMargins, o.idealMargins]),
+        );
         same(c.closedLoopPoles, pairs(w.closedLoopPoles));
+        expect(c.closedLoopPoleOrigin).toEqual(w.closedLoopPoleOrigin);
+        expect(c.names).toEqual(w.names);
+        expect(c.cuts.map((x: { label: string; advice: unknown }) => [x.label, x.advice])).toEqual(w.rows.map((r) => [r.label, r.advice]));
         expect(c.stable).toBe(w.stable);
       });
 
@@ -130,22 +163,35 @@ describe('the command line and the editor worker agree', () => {
         expect(c.negative).toBe(L.direction === 'negative');
         same(c.poles, pairs(L.poles));
         same(c.zeros, L.mode === 'exact' ? pairs(L.zeros) : c.zeros);
-        same(c.breakaway, L.breakaways.map((b) => ({ s: [b.s.re, b.s.im], gain: b.gain })));
+        same(
+          c.breakaway,
+          L.breakaways.map((b) => ({ s: [b.s.re, b.s.im], gain: b.gain })),
+        );
         same(c.crossings, L.crossings);
         if (L.mode === 'exact') {
           same(c.fixedPoles, pairs(L.fixedPoles));
           same(c.numeratorAscending, L.n0);
           same(c.denominatorAscending, L.d0);
         }
-        same(c.branches, L.branches.map((b) => b.re.map((re, i) => [re, b.im[i], b.k[i]])));
+        same(
+          c.branches,
+          L.branches.map((b) => b.re.map((re, i) => [re, b.im[i], b.k[i]])),
+        );
       });
 
-      it(`closed loop from ${source} to ${probe}: the same transfer function and poles`, async () => {
+      it(`closed loop from ${source} to ${probe}: the same transfer function, poles and Padé marks, step and Bode (the Closed loop view's request)`, async () => {
         clearCaches();
-        const c = await cli(['reduce', 'd.loop.json', '--from', source, '--to', probe, '--json'], file);
+        const c = await cli(['reduce', 'd.loop.json', '--from', source, '--to', probe, '--bode', '--step', '--json'], file);
         clearCaches();
-        const live = sweep.live;
-        const reply = computeReply({ channel: 'analysis', id: 1, diagram: d, studies: [{ kind: 'closed-loop', from: { block: source }, to: { block: probe }, live }] });
+        const inp: AnalysisInputs = {
+          diagram: d,
+          sweep,
+          live: sweep.live,
+          cutId: null,
+          closedLoop: { from: { block: source }, to: { block: probe } },
+        };
+        const studies = channelStudies(inp, { frequency: false, opposite: false, closedLoop: true })['closed-loop'];
+        const reply = computeReply({ channel: 'closed-loop', id: 1, diagram: d, studies });
         expect(reply.ok).toBe(true);
         const part = reply.ok ? reply.results[0] : null;
         const w = (part?.ok ? part.value.value : null) as ClosedLoopData;
@@ -153,6 +199,22 @@ describe('the command line and the editor worker agree', () => {
         same(c.denominatorAscending, w.transfer.den);
         same(c.delay, w.transfer.delay);
         same(c.poles, pairs(w.poles));
+        expect(c.poleOrigin).toEqual(w.poleOrigin);
+        same(c.step, w.step);
+        same(c.bode, w.bode);
+      });
+
+      it("report: the command line writes the bytes the editor's Report button gets from its worker", async () => {
+        clearCaches();
+        let html = '';
+        const io: CliIo = { stdout: (t) => void (html += t), stderr: () => {}, readFile: async () => file, writeFile: async () => {} };
+        expect(await main(['report', 'd.loop.json', '--out', '-', '--date', 'agreement'], io)).toBe(0);
+        clearCaches();
+        const inp: AnalysisInputs = { diagram: d, sweep, live: sweep.live, cutId: null, closedLoop: null };
+        const reply = computeReply({ channel: 'report', id: 1, diagram: d, studies: [reportRequest(inp, 'agreement')] });
+        const part = reply.ok ? reply.results[0] : null;
+        expect(part?.ok).toBe(true);
+        expect(html).toBe(part?.ok ? (part.value.value as ReportData).html : '');
       });
 
       it('simulation: the same settings, traces and figures', async () => {
@@ -167,6 +229,73 @@ describe('the command line and the editor worker agree', () => {
         same(c.metrics, w.run.probeFigures);
         same(c.actuators, w.run.actuatorFigures);
       });
+    });
+  }
+});
+
+/** The editor's task worker runs the studies its views ask for (runStudies, in place here). */
+function editorTask(d: Diagram, studies: StudyRequest[]): StudyResult['value'][] {
+  return runStudies(d, studies).map((r) => {
+    if (!r.ok) throw new Error(r.error);
+    return r.value.value;
+  });
+}
+
+describe('fits and tunings: the command line and the editor agree', () => {
+  const csv = supplyValveBumpCsv();
+
+  it('the demo test log: every model, its intervals and NRMSE', async () => {
+    clearCaches();
+    const c = await cli(['fit', 'supply-valve-bump.csv', '--model', 'all', '--json'], csv);
+    const [, fit] = editorTask(
+      emptyDiagram(),
+      fitStudyRequests({ text: csv, fileName: 'supply-valve-bump.csv' }, { time: null, input: null, output: null }, 'linear'),
+    ) as [unknown, FitData];
+    expect(c.fits.map((f: { model: string }) => f.model)).toEqual(fit.fits.map((f) => f.model));
+    fit.fits.forEach((f, i) => {
+      if (!f.result.ok) throw new Error(f.result.error);
+      const j = c.fits[i];
+      same(
+        [j.gain, j.timeConstants, j.deadTime, j.nrmse, j.intervals, j.expression],
+        [
+          f.result.value.model.gain,
+          f.result.value.model.timeConstants,
+          f.result.value.model.deadTime,
+          f.result.value.nrmse,
+          f.result.value.intervals,
+          f.result.value.expression,
+        ],
+      );
+      expect(j.testLog.sha256).toBe(f.result.value.provenance.source.sha256);
+    });
+  });
+
+  const cases: [string, Diagram, string, TuneOptions['rule'], TuneOptions['controller']][] = [
+    ['heating cascade', demoDiagrams.find((x) => x.id === 'heating-cascade')!.diagram, 'cut-supply', 'simc', 'pi'],
+    ['heating cascade', demoDiagrams.find((x) => x.id === 'heating-cascade')!.diagram, 'cut-room', 'ms', 'pi'],
+    ['supply loop', demoDiagrams.find((x) => x.id === 'supply-loop')!.diagram, 'cut-supply', 'amigo', 'pid'],
+    ['three-loop cascade with dead times', furnaceCascade(), 'cut-zone', 'zn-ultimate', 'pi'],
+    ['three-loop cascade with dead times', furnaceCascade(), 'cut-flow', 'lambda', 'pi'],
+  ];
+  for (const [name, d, cut, rule, controller] of cases) {
+    it(`${name}, ${cut}, ${rule} ${controller}: the same setting, model and predicted margins`, async () => {
+      clearCaches();
+      const c = await cli(['tune', 'd.loop.json', '--cut', cut, '--rule', rule, '--controller', controller, '--json'], serializeDiagram(d));
+      clearCaches();
+      const [t] = editorTask(d, [
+        tuneStudyRequest({ rule, controller, cut, reading: 'inner-first', tauC: null, lambda: null, msMax: null }),
+      ]) as [TuneData];
+      same(c.controller, { kind: t.controller.kind, kp: t.controller.kp, ti: t.controller.ti, td: t.controller.td });
+      same(c.model, t.model);
+      same(c.predicted, {
+        ms: t.predicted.peakSensitivity,
+        gainMargin: t.predicted.gainMargin,
+        phaseMarginDeg: t.predicted.phaseMarginDeg,
+        delayMargin: t.predicted.delayMargin,
+        gainCrossover: t.predicted.gainCrossover,
+        closedLoopStable: t.predicted.closedLoopStable,
+      });
+      expect(c.block.id).toBe(t.block!.id);
     });
   }
 });

@@ -11,27 +11,12 @@ import { describe, expect, it } from 'vitest';
 import { checkDiagram, positioningAxis, serializeDiagram, type Diagram } from '@loopwright/graph';
 import { findingText } from '@loopwright/study';
 import { errorReport, main } from './main.ts';
-import type { CliIo } from './io.ts';
+import { fakeIo as makeIo } from './fake-io.ts';
+/** The shared fake io, with this file's positional options (standard input, failing writes). */
+const fakeIo = (files: Record<string, string> = {}, stdin?: string, failWrites = false) => makeIo(files, { ...(stdin !== undefined ? { stdin } : {}), failWrites });
 // Test-only builders of the study package (not its public API).
 import { unityLoop } from '@loopwright/study/testing';
 
-function fakeIo(files: Record<string, string> = {}, stdin?: string, failWrites = false) {
-  let out = '';
-  let err = '';
-  const io: CliIo = {
-    stdout: (s) => void (out += s),
-    stderr: (s) => void (err += s),
-    readFile: async (p) => {
-      if (!(p in files)) throw Object.assign(new Error(`ENOENT: ${p}`), { code: 'ENOENT' });
-      return files[p];
-    },
-    writeFile: async (p) => {
-      if (failWrites) throw Object.assign(new Error(`EACCES: permission denied, open '${p}'`), { code: 'EACCES' });
-    },
-    ...(stdin !== undefined ? { readStdin: async () => stdin } : {}),
-  };
-  return { io, out: () => out, err: () => err };
-}
 
 /** r → e(+−) → gain K → 1/(s(s+2)) → y with unity feedback (a cut on the feedback wire), run for 5 s. */
 function loop(): Diagram {

@@ -35,8 +35,11 @@ export interface Command {
   summary: string;
   /** Full help text, printed by `loopwright <command> --help`. */
   help: string;
-  /** Parses its own words (it knows which flags take values) with parseArgs from ../args.ts. */
-  run(argv: string[], io: CliIo): Promise<number>;
+  /**
+   * Parses its own words (it knows which flags take values) with parseArgs from ../args.ts.
+   * `budget.deadline` (performance.now() ms, from --time-limit) goes to every study it runs.
+   */
+  run(argv: string[], io: CliIo, budget?: { deadline?: number }): Promise<number>;
 }
 
 export interface ParsedArgs {

@@ -12,6 +12,7 @@ import { installShortcuts } from './panels/shortcuts.ts';
 import { useUiStore } from './store/ui-store.ts';
 import { openFile } from './files/file-actions.ts';
 import { KeptAutosaveNotice } from './files/KeptAutosaveNotice.tsx';
+import { isTestLogFile, openTestLogFile } from './commission/commission-store.ts';
 
 function NoticeBar() {
   const notice = useUiStore((s) => s.notice);
@@ -104,7 +105,8 @@ export function App() {
           const f = e.dataTransfer.files?.[0];
           if (f) {
             e.preventDefault();
-            void openFile(f);
+            if (isTestLogFile(f.name)) void openTestLogFile(f);
+            else void openFile(f);
           }
         }}
       >

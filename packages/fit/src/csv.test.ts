@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '@loopwright/lti';
-import { parseTestLogCsv } from './csv.ts';
+import { parseTestLogCsv, testLogColumns } from './csv.ts';
 import { TestLogError } from './test-log.ts';
 
 const rows = (n: number, f: (i: number) => string) => Array.from({ length: n }, (_, i) => f(i)).join('\n');
@@ -123,5 +123,17 @@ describe('parseTestLogCsv', () => {
     expect(thrown(() => parseTestLogCsv(text, { output: 2 })).message).toContain('three different columns');
     expect(thrown(() => parseTestLogCsv(text, { decimal: ',', separator: ',' })).details.field).toBe('decimal');
     expect(thrown(() => parseTestLogCsv('')).message).toContain('no rows');
+  });
+});
+
+describe('testLogColumns', () => {
+  it('lists the header names, or "column N" without a header, and how the file reads', () => {
+    const text = '# logged 2026-04-13\ntime;valve;temp;flow\n' + rows(12, (i) => `${sample(i).t};${sample(i).u};${sample(i).y};3.5`.replaceAll('.', ','));
+    expect(testLogColumns(text)).toEqual({ names: ['time', 'valve', 'temp', 'flow'], header: true, separator: ';', decimal: ',', rows: 12 });
+    const bare = rows(12, (i) => `${sample(i).t},${sample(i).u},${sample(i).y}`);
+    expect(testLogColumns(bare)).toEqual({ names: ['column 1', 'column 2', 'column 3'], header: false, separator: ',', decimal: '.', rows: 12 });
+  });
+  it('refuses an empty file as parseTestLogCsv does', () => {
+    expect(thrown(() => testLogColumns('\n# nothing\n')).message).toBe('test log: the file has no rows');
   });
 });

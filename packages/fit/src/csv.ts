@@ -96,7 +96,18 @@ function detectSeparator(firstLine: string): CsvSeparator {
 
 const sepName = (s: string) => (s === '\t' ? 'tab' : `'${s}'`);
 
-export function parseTestLogCsv(text: string, options: TestLogCsvOptions = {}): TestLog {
+interface CsvTable {
+  separator: CsvSeparator;
+  decimal: '.' | ',';
+  pattern: RegExp;
+  header: boolean;
+  names: string[];
+  data: { row: number; cells: string[] }[];
+  width: number;
+}
+
+/** Records of the text (comments and blank lines skipped) with separator, decimal mark and header decided. */
+function readTable(text: string, options: Pick<TestLogCsvOptions, 'separator' | 'decimal' | 'header'>): CsvTable {
   if (typeof text !== 'string') throw new InputError('test log: the CSV content must be text', { field: 'test log' });
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   const firstLine = body.split(/\r\n|\r|\n/).find((l) => l.trim() !== '' && !l.trimStart().startsWith('#')) ?? '';
@@ -105,8 +116,6 @@ export function parseTestLogCsv(text: string, options: TestLogCsvOptions = {}): 
   if (![',', ';', '\t'].includes(separator)) {
     throw new InputError(`separator: '${separator}' is not one of ',' ';' or tab`, { field: 'separator' });
   }
-  const unit = options.timeUnit ?? 's';
-  if (!(unit in TIME_UNITS)) throw new InputError(`time unit: '${unit}' is not one of s, ms, min, h`, { field: 'timeUnit' });
 
   // Records with their 1-based file row (d3 counts records; a quoted newline keeps one record).
   const records: { row: number; cells: string[] }[] = [];
@@ -126,6 +135,31 @@ export function parseTestLogCsv(text: string, options: TestLogCsvOptions = {}): 
   const names = header ? records[0].cells.map((c) => c.trim()) : [];
   const data = header ? records.slice(1) : records;
   const width = Math.max(...records.map((r) => r.cells.length));
+  return { separator, decimal, pattern, header, names, data, width };
+}
+
+/**
+ * The columns of a CSV test log before any is chosen (for a column picker): their names (the
+ * header's, else "column N"), how the file was read, and the number of data rows.
+ */
+export interface TestLogColumns {
+  names: string[];
+  header: boolean;
+  separator: CsvSeparator;
+  decimal: '.' | ',';
+  rows: number;
+}
+
+export function testLogColumns(text: string, options: Pick<TestLogCsvOptions, 'separator' | 'decimal' | 'header'> = {}): TestLogColumns {
+  const t = readTable(text, options);
+  const names = Array.from({ length: t.width }, (_, i) => (t.header && t.names[i] ? t.names[i] : `column ${i + 1}`));
+  return { names, header: t.header, separator: t.separator, decimal: t.decimal, rows: t.data.length };
+}
+
+export function parseTestLogCsv(text: string, options: TestLogCsvOptions = {}): TestLog {
+  const { separator, decimal, pattern, header, names, data, width } = readTable(text, options);
+  const unit = options.timeUnit ?? 's';
+  if (!(unit in TIME_UNITS)) throw new InputError(`time unit: '${unit}' is not one of s, ms, min, h`, { field: 'timeUnit' });
 
   const pick = (ref: ColumnRef | undefined, fallback: number, role: string): { index: number; name: string } => {
     const r = ref ?? fallback;

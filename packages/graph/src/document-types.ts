@@ -5,8 +5,12 @@
  * that loading then saving an unchanged document gives the same bytes.
  */
 
+import type { BlockKind } from './catalogue/index.ts';
+
+export type { BlockKind };
+
 export const DIAGRAM_FORMAT = 'loopwright.diagram';
-export const DIAGRAM_VERSION = 2;
+export const DIAGRAM_VERSION = 3;
 
 /** A block parameter: a number, or an expression text over the diagram's named parameters (e.g. "Kp", "2*Kv"). */
 export type ParamValue = number | string | boolean;
@@ -21,22 +25,6 @@ export interface NamedParameter {
   scale?: 'linear' | 'log';
   description?: string;
 }
-
-export type BlockKind =
-  | 'transfer-function'
-  | 'gain'
-  | 'pid'
-  | 'lead-lag'
-  | 'integrator'
-  | 'first-order-lag'
-  | 'second-order'
-  | 'dead-time'
-  | 'summing-junction'
-  | 'saturation'
-  | 'rate-limit'
-  | 'dead-zone'
-  | 'source'
-  | 'probe';
 
 export interface Block {
   id: string;
@@ -101,6 +89,33 @@ export interface SimulationSettings {
   probes?: string[];
 }
 
+/**
+ * Where a block's model came from when it was fitted to a test log (version 3): the test
+ * log's file name and SHA-256, the columns and rows used, the model and its expression, the fit
+ * quality and approximate intervals, how the input was read between samples and the operating
+ * point, and the date of the fit (ISO 8601, UTC). One record per block; fitting the block again
+ * replaces it. Plain data: the same shape as @loopwright/fit's FitProvenance plus `block`.
+ */
+export interface FitRecord {
+  /** The block whose model the fit set. */
+  block: string;
+  source: {
+    fileName: string | null;
+    sha256: string | null;
+    columns: { time: string; input: string; output: string };
+    samples: number;
+    firstRow: number | null;
+    lastRow: number | null;
+  };
+  model: { kind: 'fopdt' | 'sopdt' | 'ipdt'; gain: number; timeConstants: number[]; deadTime: number };
+  expression: string;
+  quality: { nrmse: number; rmse: number; confidence: number };
+  /** Approximate intervals at `quality.confidence` (null where the data do not determine a parameter). */
+  intervals: { gain: [number, number] | null; timeConstants: ([number, number] | null)[]; deadTime: [number, number] | null };
+  method: { between: 'linear' | 'hold'; operatingPoint: { input: number; output: number; samples: number } };
+  fittedAt: string;
+}
+
 export interface Diagram {
   format: typeof DIAGRAM_FORMAT;
   version: typeof DIAGRAM_VERSION;
@@ -113,5 +128,7 @@ export interface Diagram {
   sweeps: Sweep[];
   /** Absent in a document built in code means "all defaults"; files written by Loopwright always have it. */
   simulation?: SimulationSettings;
+  /** Fitted models behind blocks (version 3; absent: none). Written whenever present. */
+  fits?: FitRecord[];
   view: ViewSettings;
 }

@@ -102,7 +102,7 @@ function apply(doc: any, m: Mutation): void {
 // Mostly a small loop (cheap, so 10,000 runs stay within seconds), sometimes a full demo.
 const smallLoop = JSON.stringify({
   format: 'loopwright.diagram',
-  version: 2,
+  version: 3,
   title: 'loop',
   description: '',
   parameters: [{ name: 'Kp', value: 2, unit: '1', min: 0, max: 10, scale: 'linear' }],

@@ -5,7 +5,7 @@ import type { Diagram } from './document-types.ts';
 
 const base = (): Diagram => ({
   format: 'loopwright.diagram',
-  version: 2,
+  version: 3,
   title: 'Small loop',
   description: 'A gain around a lag',
   parameters: [{ name: 'Kp', value: 2, unit: '', min: 0, max: 10, scale: 'linear' }],
@@ -132,7 +132,7 @@ describe('versions', () => {
   };
   it('migrates version 0 (block "parameters" → "params"; adds cuts, sweeps, view)', () => {
     const d = parseDiagram(JSON.stringify(v0));
-    expect(d.version).toBe(2);
+    expect(d.version).toBe(3);
     expect(d.blocks[0].params).toEqual({ k: 'K' });
     expect(d.cuts).toEqual([]);
     expect(d.sweeps).toEqual([]);
@@ -142,7 +142,7 @@ describe('versions', () => {
   it('says when a problem was found after migration', () => {
     const bad = structuredClone(v0) as any;
     bad.blocks[0].parameters.k = [1];
-    expect(loadError(JSON.stringify(bad)).message).toContain('after upgrading the document from version 0 to 2');
+    expect(loadError(JSON.stringify(bad)).message).toContain('after upgrading the document from version 0 to 3');
   });
   it('migrates version 1: the view\'s simulationEnd becomes simulation.end, the rest of the view stays', () => {
     const v1: any = JSON.parse(serializeDiagram(base()));
@@ -150,7 +150,7 @@ describe('versions', () => {
     delete v1.simulation;
     v1.view = { theme: 'dark', simulationEnd: 12.5 };
     const d = parseDiagram(JSON.stringify(v1));
-    expect(d.version).toBe(2);
+    expect(d.version).toBe(3);
     expect(d.simulation).toEqual({ end: 12.5 });
     expect(d.view).toEqual({ theme: 'dark' });
     // Without an end time there are no settings yet, but the section is there (saved as {}).
@@ -165,13 +165,62 @@ describe('versions', () => {
     expect(loadError(withDoc((d) => (d.simulation.rtol = 0))).message).toContain('simulation.rtol: expected a tolerance above 0');
     expect(loadError(withDoc((d) => (d.simulation.probes = ['y', 7]))).message).toContain('simulation.probes[1]');
   });
+  it('migrates version 2 by its number: no fits yet, nothing else changes, and it saves as version 3 without a fits section', () => {
+    const v2: any = JSON.parse(serializeDiagram(base()));
+    v2.version = 2;
+    const d = parseDiagram(JSON.stringify(v2));
+    expect(d.version).toBe(3);
+    expect(d.fits).toBeUndefined();
+    expect(serializeDiagram(d)).toBe(serializeDiagram(base()));
+  });
   it('refuses a newer version with a clear message', () => {
     const e = loadError(withDoc((d) => (d.version = 7)));
-    expect(e.message).toContain('written by a newer Loopwright (format version 7); this one reads versions up to 2');
+    expect(e.message).toContain('written by a newer Loopwright (format version 7); this one reads versions up to 3');
   });
   it('refuses a missing or non-integer version', () => {
     expect(loadError(withDoc((d) => delete d.version)).message).toContain('version: missing');
     expect(loadError(withDoc((d) => (d.version = 0.5))).message).toContain('expected a whole number');
+  });
+});
+
+describe('fit records (version 3)', () => {
+  const record = () => ({
+    block: 'g',
+    source: { fileName: 'bump.csv', sha256: 'ab'.repeat(32), columns: { time: 't', input: 'u', output: 'y' }, samples: 301, firstRow: 2, lastRow: 302 },
+    model: { kind: 'fopdt' as const, gain: 2, timeConstants: [5], deadTime: 1.5 },
+    expression: '2*exp(-1.5*s)/(5*s+1)',
+    quality: { nrmse: 0.0123, rmse: 0.01, confidence: 0.95 },
+    intervals: { gain: [1.9, 2.1] as [number, number], timeConstants: [[4.8, 5.2] as [number, number]], deadTime: null },
+    method: { between: 'linear' as const, operatingPoint: { input: 0, output: 0, samples: 10 } },
+    fittedAt: '2026-04-13T09:30:00.000Z',
+  });
+  it('round-trip byte for byte, keys in the fixed order whatever order the object had', () => {
+    const d = { ...base(), fits: [record()] };
+    const text = serializeDiagram(d);
+    expect(serializeDiagram(parseDiagram(text))).toBe(text);
+    expect(parseDiagram(text).fits).toEqual([record()]);
+    const raw: any = JSON.parse(text);
+    raw.fits[0] = Object.fromEntries(Object.entries(raw.fits[0]).reverse());
+    raw.fits[0].source = Object.fromEntries(Object.entries(raw.fits[0].source).reverse());
+    expect(serializeDiagram(parseDiagram(JSON.stringify(raw)))).toBe(text);
+    // The section sits between the simulation settings and the view.
+    expect(text.indexOf('"simulation"')).toBeLessThan(text.indexOf('"fits"'));
+    expect(text.indexOf('"fits"')).toBeLessThan(text.indexOf('"view"'));
+  });
+  it('an empty list is kept (written whenever present)', () => {
+    const text = serializeDiagram({ ...base(), fits: [] });
+    expect(text).toContain('"fits": [],');
+    expect(serializeDiagram(parseDiagram(text))).toBe(text);
+  });
+  it('refuses bad records naming the field', () => {
+    const bad = (edit: (f: any) => void) => loadError(withDoc((d) => { d.fits = [record()]; edit(d.fits[0]); })).message;
+    expect(bad((f) => (f.source.sha256 = 'xyz'))).toContain('fits[0].source.sha256');
+    expect(bad((f) => (f.model.kind = 'fourth-order'))).toContain('fits[0].model.kind');
+    expect(bad((f) => (f.model.timeConstants = [-1]))).toContain('fits[0].model.timeConstants[0]: expected a time constant above 0 s');
+    expect(bad((f) => (f.intervals.gain = [1]))).toContain('fits[0].intervals.gain');
+    expect(bad((f) => (f.fittedAt = 'yesterday'))).toContain('fits[0].fittedAt: expected an ISO 8601 UTC date-time');
+    expect(bad((f) => (f.extra = 1))).toContain('fits[0].extra: unknown field');
+    expect(bad((f) => delete f.block)).toContain('fits[0].block: missing');
   });
 });
 

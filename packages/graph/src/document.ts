@@ -1,6 +1,6 @@
 import { InputError } from '@loopwright/lti';
 import { blockSpec, isBlockKind } from './catalogue/index.ts';
-import { DIAGRAM_FORMAT, DIAGRAM_VERSION, type Diagram } from './document-types.ts';
+import { DIAGRAM_FORMAT, DIAGRAM_VERSION, type Diagram, type FitRecord } from './document-types.ts';
 import { LIMITS, diagramSchema } from './schema.ts';
 
 /**
@@ -224,7 +224,14 @@ function migrateV1(doc: Record<string, unknown>): Record<string, unknown> {
   return out;
 }
 
-const MIGRATIONS: Record<number, (doc: Record<string, unknown>) => Record<string, unknown>> = { 0: migrateV0, 1: migrateV1 };
+/**
+ * Version 3 may keep the provenance of fitted models (`fits`). A version-2 file has none, so it
+ * upgrades by its number alone; an older Loopwright refuses a version-3 file as newer instead of
+ * calling `fits` an unknown field.
+ */
+const migrateV2 = (doc: Record<string, unknown>): Record<string, unknown> => ({ ...doc, version: 3 });
+
+const MIGRATIONS: Record<number, (doc: Record<string, unknown>) => Record<string, unknown>> = { 0: migrateV0, 1: migrateV1, 2: migrateV2 };
 
 function upgrade(doc: Record<string, unknown>): { doc: Record<string, unknown>; from: number } {
   if (doc.format !== DIAGRAM_FORMAT) {
@@ -342,6 +349,20 @@ function pick(src: object | undefined, keys: readonly string[], path: string): P
 
 const xy = (p: { x: number; y: number } | undefined, path: string) => (p ? pick(p, ['x', 'y'], path) : undefined);
 
+/** A fit record with its keys in the order of document-types.ts. */
+function serializeFit(f: FitRecord, path: string): Plain {
+  return {
+    block: f.block,
+    source: { ...pick(f.source, ['fileName', 'sha256'], `${path}.source`), columns: pick(f.source.columns, ['time', 'input', 'output'], `${path}.source.columns`), ...pick(f.source, ['samples', 'firstRow', 'lastRow'], `${path}.source`) },
+    model: pick(f.model, ['kind', 'gain', 'timeConstants', 'deadTime'], `${path}.model`),
+    expression: f.expression,
+    quality: pick(f.quality, ['nrmse', 'rmse', 'confidence'], `${path}.quality`),
+    intervals: pick(f.intervals, ['gain', 'timeConstants', 'deadTime'], `${path}.intervals`),
+    method: { between: f.method.between, operatingPoint: pick(f.method.operatingPoint, ['input', 'output', 'samples'], `${path}.method.operatingPoint`) },
+    fittedAt: f.fittedAt,
+  };
+}
+
 /**
  * The document as `.loop.json` text: keys in a fixed order (the order of document-types.ts;
  * block parameters in the catalogue's order), 2-space indent, trailing newline.
@@ -374,6 +395,7 @@ export function serializeDiagram(d: Diagram): string {
     sweeps: d.sweeps.map((s, i) => pick(s, ['id', 'parameter', 'min', 'max', 'scale', 'label'], `sweeps[${i}]`)),
     // Written whenever present (even empty), so a file loads and saves to the same bytes.
     simulation: d.simulation ? pick(d.simulation, ['end', 'rtol', 'atol', 'probes'], 'simulation') : undefined,
+    fits: d.fits ? d.fits.map((f, i) => serializeFit(f, `fits[${i}]`)) : undefined,
     view: (() => {
       const v = pick(d.view, ['zoom', 'offset', 'theme', 'activeCut', 'activeSweep', 'activeProbe'], 'view');
       if (v.offset) v.offset = xy(d.view.offset, 'view.offset');

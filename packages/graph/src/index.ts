@@ -17,9 +17,12 @@ export * from './analysis/state-space.ts';
 export * from './analysis/cuts.ts';
 export * from './analysis/sweep.ts';
 export * from './analysis/loops.ts';
+export * from './analysis/hidden-modes.ts';
+export { type ExactEvaluator, exactEvaluator } from './analysis/cut-exact.ts';
 export * from './checks/analytic.ts';
 // checkDiagram (structural + analytical findings) and the demo diagrams (graph-document helper).
 export * from './checks/diagram.ts';
 export { demoDiagrams } from './demos/index.ts';
 export { positioningAxis } from './demos/positioning-axis.ts';
 export { heatingCascade } from './demos/heating-cascade.ts';
+export { supplyLoop } from './demos/supply-loop.ts';

@@ -1,5 +1,5 @@
 import { InputError, parseScalar } from '@loopwright/lti';
-import { blockSpec } from './catalogue/index.ts';
+import { blockSpec, unitOf } from './catalogue/index.ts';
 import type { LinearForm, ParamSpec, ResolvedParams } from './catalogue/types.ts';
 import type { Block, Diagram } from './document-types.ts';
 
@@ -57,11 +57,12 @@ function resolveNumber(block: Block, spec: ParamSpec, raw: unknown, scope: Recor
     throw fieldError(block, spec, `expected a number or an expression, got ${typeof raw}`);
   }
   if (!Number.isFinite(value)) throw fieldError(block, spec, `${value} is not a finite number`);
-  const unit = spec.unit ? ` ${spec.unit}` : '';
-  if (spec.min !== undefined && (spec.exclusiveMin ? !(value > spec.min) : !(value >= spec.min))) {
-    throw fieldError(block, spec, `${value}${unit} must be ${spec.exclusiveMin ? 'above' : 'at least'} ${spec.min}${unit}`);
-  }
-  if (spec.max !== undefined && !(value <= spec.max)) {
+  const belowMin = spec.min !== undefined && (spec.exclusiveMin ? !(value > spec.min) : !(value >= spec.min));
+  const aboveMax = spec.max !== undefined && !(value <= spec.max);
+  if (belowMin || aboveMax) {
+    const u = unitOf(spec, block.params ?? {}, blockSpec(block.kind).params);
+    const unit = u ? ` ${u}` : '';
+    if (belowMin) throw fieldError(block, spec, `${value}${unit} must be ${spec.exclusiveMin ? 'above' : 'at least'} ${spec.min}${unit}`);
     throw fieldError(block, spec, `${value}${unit} must be at most ${spec.max}${unit}`);
   }
   return value;

@@ -126,6 +126,44 @@ export const simulationSchema = z.strictObject({
   probes: z.array(idSchema, { error: 'expected a list of probe ids' }).max(LIMITS.maxBlocks).optional(),
 });
 
+const interval = z.union([z.tuple([finiteNumber(), finiteNumber()], { error: 'expected an interval [low, high]' }), z.null()], {
+  error: 'expected an interval [low, high] or null',
+});
+const row = z.union([z.int({ error: 'expected a row number' }).min(1), z.null()], { error: 'expected a row number or null' });
+
+/** Where a block's fitted model came from (version 3): see FitRecord in document-types.ts. */
+export const fitRecordSchema = z.strictObject({
+  block: idSchema,
+  source: z.strictObject({
+    fileName: z.union([text(1000), z.null()], { error: 'expected a file name or null' }),
+    sha256: z.union([z.string().regex(/^[0-9a-f]{64}$/, { error: 'expected 64 lower-case hex digits' }), z.null()], {
+      error: 'expected a SHA-256 (64 hex digits) or null',
+    }),
+    columns: z.strictObject({ time: text(200), input: text(200), output: text(200) }),
+    samples: z.int({ error: 'expected a whole number of samples' }).min(0),
+    firstRow: row,
+    lastRow: row,
+  }),
+  model: z.strictObject({
+    kind: z.enum(['fopdt', 'sopdt', 'ipdt'], { error: 'expected "fopdt", "sopdt" or "ipdt"' }),
+    gain: finiteNumber(),
+    timeConstants: z.array(finiteNumber().positive({ error: 'expected a time constant above 0 s' })).max(2, { error: 'at most two time constants' }),
+    deadTime: finiteNumber().min(0, { error: 'expected a dead time ≥ 0 s' }),
+  }),
+  expression: text(LIMITS.maxExpressionLength),
+  quality: z.strictObject({
+    nrmse: finiteNumber().min(0),
+    rmse: finiteNumber().min(0),
+    confidence: finiteNumber().positive().max(1),
+  }),
+  intervals: z.strictObject({ gain: interval, timeConstants: z.array(interval).max(2), deadTime: interval }),
+  method: z.strictObject({
+    between: z.enum(['linear', 'hold'], { error: 'expected "linear" or "hold"' }),
+    operatingPoint: z.strictObject({ input: finiteNumber(), output: finiteNumber(), samples: z.int().min(0) }),
+  }),
+  fittedAt: z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d+)?Z$/, { error: 'expected an ISO 8601 UTC date-time' }),
+});
+
 const tooMany = (n: number, what: string) => ({ error: `more than ${n} ${what}: refused (split the diagram)` });
 
 export const diagramSchema = z
@@ -140,6 +178,7 @@ export const diagramSchema = z
     cuts: z.array(cutSchema, { error: 'expected a list' }).max(LIMITS.maxCuts, tooMany(LIMITS.maxCuts, 'cuts')),
     sweeps: z.array(sweepSchema, { error: 'expected a list' }).max(LIMITS.maxSweeps, tooMany(LIMITS.maxSweeps, 'sweeps')),
     simulation: simulationSchema.optional(),
+    fits: z.array(fitRecordSchema, { error: 'expected a list' }).max(LIMITS.maxBlocks, tooMany(LIMITS.maxBlocks, 'fit records')).optional(),
     view: viewSchema,
   })
   .meta({

@@ -63,3 +63,50 @@ describe('cancelCommon', () => {
     );
   });
 });
+
+describe('cancelCommon with repeated roots (issue 10, item 10)', () => {
+  it('a repeated complex pair −8 ± j (twice) against −8 ± j cancels one copy of each', () => {
+    const pair = [cx(-8, 1), cx(-8, -1)];
+    const num = fromRoots([...pair, ...pair], 2);
+    const den = fromRoots([...pair, cx(-3)]);
+    const c = cancelCommon(rational(num, den));
+    expect(c.cancelled).toHaveLength(2);
+    for (const z of c.cancelled) expect(near(z, cx(-8, Math.sign(z.im)), 1e-9)).toBe(true);
+    // What is left: 2(s² + 16s + 65)/(s + 3) (derived here).
+    expect(c.result.num.map((x) => +x.toFixed(9))).toEqual([130, 32, 2]);
+    expect(c.result.den.map((x) => +x.toFixed(9))).toEqual([3, 1]);
+  });
+
+  it('property (fixed seed): the cancelled count is the multiset intersection of the roots, repeated pairs included', () => {
+    // Roots on a half-integer lattice up to ±8 ± 2j, drawn so that repeated complex pairs (the
+    // case that once failed with random seeds) occur often; the expected count is the size of
+    // the multiset intersection of numerator and denominator roots (derived here).
+    const rootArb = fc.record({ re: fc.integer({ min: -16, max: 16 }), im: fc.integer({ min: 0, max: 4 }) });
+    const toRoots = (spec: { re: number; im: number }[]) =>
+      spec.flatMap((r) => (r.im ? [cx(r.re * 0.5, r.im * 0.5), cx(r.re * 0.5, -r.im * 0.5)] : [cx(r.re * 0.5)]));
+    fc.assert(
+      fc.property(
+        fc.array(rootArb, { maxLength: 3 }),
+        fc.array(rootArb, { maxLength: 3 }),
+        fc.array(rootArb, { maxLength: 3 }),
+        fc.double({ min: 0.5, max: 4, noNaN: true }),
+        (common, onlyNum, onlyDen, k) => {
+          const a = [...toRoots(common), ...toRoots(onlyNum)];
+          const b = [...toRoots(common), ...toRoots(onlyDen)];
+          const out = cancelCommon(rational(fromRoots(a, k), fromRoots(b)));
+          const left = b.map((z) => `${z.re},${z.im}`);
+          let want = 0;
+          for (const z of a) {
+            const i = left.indexOf(`${z.re},${z.im}`);
+            if (i >= 0) {
+              want++;
+              left.splice(i, 1);
+            }
+          }
+          expect(out.cancelled.length).toBe(want);
+        },
+      ),
+      { numRuns: 2000, seed: 19 },
+    );
+  });
+});

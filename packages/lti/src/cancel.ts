@@ -1,7 +1,7 @@
-import { type Complex, cabs, cdiv, compareComplex, csub, cx } from './complex.ts';
+import { type Complex, cabs, compareComplex, cx } from './complex.ts';
 import * as P from './poly.ts';
 import { type Rational, rational } from './rational.ts';
-import { type RootCluster, polyRoots, rootClusters } from './roots.ts';
+import { polyRootsDetailed } from './roots.ts';
 
 export interface Cancellation {
   /** The function with the common roots removed (same leading gain). */
@@ -10,115 +10,74 @@ export interface Cancellation {
   cancelled: Complex[];
 }
 
-/** Roots closer than this (× (1 + |r|)) are treated as one repeated root before matching. */
-const CLUSTER_TOL = 1e-4;
-
 /**
- * Removes roots shared by numerator and denominator. Roots are grouped into clusters first
- * (a repeated root splits into a small circle, accuracy ~eps^(1/m)); a numerator cluster and a
- * denominator cluster match when their centres are within `tol` × max(1, |z|, |p|) — relative
- * for large roots, absolute near the origin — and min(multiplicities) copies cancel. Only the
- * upper half-plane and the real axis are matched; a complex match takes its conjugate along,
- * so the result stays real. The polynomials are rebuilt from the remaining roots with the
- * original leading coefficients (so the high-frequency gain is kept exactly). Nothing matched:
- * the input is returned unchanged.
+ * Removes roots shared by numerator and denominator. Roots come from polyRoots, which reports
+ * a repeated root at its exact centre with its multiplicity, so a repeated pair such as
+ * −8 ± j twice meets its partner as two exact copies (not as a circle of split roots that a
+ * fixed clustering radius may or may not gather). A numerator root z and a denominator root p
+ * match when |z − p| ≤ tol · max(1, |z|, |p|) — relative for large roots, absolute near the
+ * origin — or within the accuracy their coefficients fix them to (the roots' error estimates,
+ * capped at 1e-4 relative: a cluster of roots far from the origin is only so well determined
+ * by expanded coefficients), and both are real or both complex; pairs are taken closest first, each root once,
+ * and a complex match takes its conjugate along so the result stays real. The polynomials are
+ * rebuilt from the remaining roots with the original leading coefficients (so the
+ * high-frequency gain is kept exactly). Nothing matched: the input is returned unchanged.
  */
 export function cancelCommon(r: Rational, tol = 1e-8): Cancellation {
   const num = P.trim(r.num);
   const den = P.trim(r.den);
   if (num.length <= 1 || den.length <= 1) return { result: r, cancelled: [] };
-  const nc = refinedClusters(num);
-  const dc = refinedClusters(den);
-  const nLeft = nc.map((c) => c.multiplicity);
-  const dLeft = dc.map((c) => c.multiplicity);
-  const cancelled: Complex[] = [];
-  // Cluster centres of repeated real roots are real to about this size (averaged members).
-  const realTol = (z: Complex) => 1e-10 * Math.max(1, cabs(z));
-  const isUpper = (c: RootCluster) => c.center.im >= -realTol(c.center);
-  const conjIndex = (list: RootCluster[], i: number) => {
-    const z = list[i].center;
-    let best = -1;
-    let bestD = Infinity;
-    list.forEach((c, j) => {
-      if (j === i || c.center.im >= -realTol(c.center)) return;
-      const d = Math.hypot(c.center.re - z.re, c.center.im + z.im);
-      if (d < bestD) {
-        bestD = d;
-        best = j;
-      }
+  const nd = polyRootsDetailed(num);
+  const dd = polyRootsDetailed(den);
+  const zs = nd.roots;
+  const ps = dd.roots;
+  const isReal = (z: Complex) => z.im === 0;
+  // Candidate pairs among real roots and upper-half roots, closest first.
+  const pairs: { d: number; i: number; j: number }[] = [];
+  zs.forEach((z, i) => {
+    if (z.im < 0) return;
+    ps.forEach((p, j) => {
+      if (p.im < 0 || isReal(z) !== isReal(p)) return;
+      const d = Math.hypot(z.re - p.re, z.im - p.im);
+      const size = Math.max(1, cabs(z), cabs(p));
+      // Within tol, or within the accuracy the coefficients fix the two roots to (capped at 1e-4).
+      const within = Math.max(tol * size, Math.min(2 * (nd.errors[i] + dd.errors[j]), 1e-4 * size));
+      if (d <= within) pairs.push({ d, i, j });
     });
-    return best;
-  };
-  for (let i = 0; i < nc.length; i++) {
-    if (!isUpper(nc[i]) || nLeft[i] === 0) continue;
-    const z = nc[i].center;
-    for (let j = 0; j < dc.length && nLeft[i] > 0; j++) {
-      if (!isUpper(dc[j]) || dLeft[j] === 0) continue;
-      const p = dc[j].center;
-      if (cabs(csub(z, p)) > tol * Math.max(1, cabs(z), cabs(p))) continue;
-      const k = Math.min(nLeft[i], dLeft[j]);
-      const complex = Math.abs(z.im) > realTol(z) && Math.abs(p.im) > realTol(p);
-      if (complex) {
-        const ci = conjIndex(nc, i);
-        const cj = conjIndex(dc, j);
-        if (ci < 0 || cj < 0) continue;
-        const kk = Math.min(k, nLeft[ci], dLeft[cj]);
-        nLeft[i] -= kk;
-        dLeft[j] -= kk;
-        nLeft[ci] -= kk;
-        dLeft[cj] -= kk;
-        const m = cx((z.re + p.re) / 2, (z.im + p.im) / 2);
-        for (let q = 0; q < kk; q++) cancelled.push(m, cx(m.re, -m.im));
-      } else {
-        nLeft[i] -= k;
-        dLeft[j] -= k;
-        for (let q = 0; q < k; q++) cancelled.push(cx((z.re + p.re) / 2));
-      }
+  });
+  if (pairs.length === 0) return { result: r, cancelled: [] };
+  pairs.sort((a, b) => a.d - b.d);
+  const usedZ = new Uint8Array(zs.length);
+  const usedP = new Uint8Array(ps.length);
+  // The conjugate partner of a complex root: an unused exact mirror (roots are exactly symmetric).
+  const mirror = (list: Complex[], used: Uint8Array, z: Complex) => list.findIndex((w, q) => !used[q] && w.re === z.re && w.im === -z.im);
+  const cancelled: Complex[] = [];
+  for (const { i, j } of pairs) {
+    if (usedZ[i] || usedP[j]) continue;
+    const z = zs[i];
+    const p = ps[j];
+    if (isReal(z)) {
+      usedZ[i] = 1;
+      usedP[j] = 1;
+      cancelled.push(cx((z.re + p.re) / 2));
+      continue;
     }
+    usedZ[i] = 1;
+    usedP[j] = 1;
+    const zi = mirror(zs, usedZ, z);
+    const pj = mirror(ps, usedP, p);
+    if (zi < 0 || pj < 0) {
+      usedZ[i] = 0;
+      usedP[j] = 0;
+      continue;
+    }
+    usedZ[zi] = 1;
+    usedP[pj] = 1;
+    const m = cx((z.re + p.re) / 2, (z.im + p.im) / 2);
+    cancelled.push(m, cx(m.re, -m.im));
   }
   if (cancelled.length === 0) return { result: r, cancelled: [] };
-  const remaining = (clusters: RootCluster[], left: number[]) => {
-    const out: Complex[] = [];
-    clusters.forEach((c, i) => {
-      if (left[i] === c.multiplicity) out.push(...c.members); // untouched: keep the individual roots
-      else for (let q = 0; q < left[i]; q++) out.push(c.center);
-    });
-    return out;
-  };
-  const newNum = P.fromRoots(realPairs(remaining(nc, nLeft)), P.lead(num));
-  const newDen = P.fromRoots(realPairs(remaining(dc, dLeft)), P.lead(den));
+  const newNum = P.fromRoots(zs.filter((_, i) => !usedZ[i]), P.lead(num));
+  const newDen = P.fromRoots(ps.filter((_, j) => !usedP[j]), P.lead(den));
   return { result: rational(newNum, newDen), cancelled: cancelled.sort(compareComplex) };
-}
-
-/**
- * Clusters of roots with accurate centres: a root of multiplicity m is a SIMPLE root of the
- * (m−1)-th derivative, so Newton on that derivative from the members' mean restores full
- * accuracy (the mean alone is only good to ~eps^(1/m) after polishing moved members unevenly).
- */
-function refinedClusters(p: readonly number[]): RootCluster[] {
-  const clusters = rootClusters(polyRoots(p), CLUSTER_TOL);
-  for (const c of clusters) {
-    if (c.multiplicity < 2) continue;
-    let q: number[] = P.trim(p);
-    for (let k = 1; k < c.multiplicity; k++) q = P.derivative(q);
-    const dq = P.derivative(q);
-    let z = c.center;
-    let fz = cabs(P.evalComplex(q, z));
-    for (let it = 0; it < 10 && fz > 0; it++) {
-      const d = P.evalComplex(dq, z);
-      if (d.re === 0 && d.im === 0) break;
-      const next = csub(z, cdiv(P.evalComplex(q, z), d));
-      const fn = cabs(P.evalComplex(q, next));
-      if (!(fn < fz)) break;
-      z = next;
-      fz = fn;
-    }
-    c.center = Math.abs(z.im) <= 1e-12 * Math.max(1, cabs(z)) ? cx(z.re) : z;
-  }
-  return clusters;
-}
-
-/** Forces exact conjugate symmetry of a root set before it is multiplied out. */
-function realPairs(roots: Complex[]): Complex[] {
-  return roots.map((z) => (Math.abs(z.im) <= 1e-14 * Math.max(1, cabs(z)) ? cx(z.re) : z));
 }

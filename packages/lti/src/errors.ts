@@ -14,6 +14,24 @@ export class InputError extends Error {
   }
 }
 
+/**
+ * An analysis stopped because it ran past its deadline (`time`), would have produced more
+ * output than a result may hold (`size`), or took more iterations than any sound input needs
+ * (`steps`). Not a bug and not bad input: the CLI maps it to exit 2 with its message, the
+ * editor's worker reports it as a failed part of a result. `budget` lets callers recognise it
+ * without importing this class.
+ */
+export class BudgetError extends Error {
+  override name = 'BudgetError';
+  readonly budget = true;
+  constructor(
+    message: string,
+    readonly reason: 'time' | 'size' | 'steps',
+  ) {
+    super(message);
+  }
+}
+
 /** Throws an InputError unless every number is finite; `what` names the field. */
 export function assertFinite(values: ArrayLike<number>, what: string): void {
   for (let i = 0; i < values.length; i++) {

@@ -92,3 +92,23 @@ describe('frequencyResponse', () => {
     );
   });
 });
+
+describe('values at extreme scales', () => {
+  it('1/(1e200·s + 1) at ω = 1 is −j·1e-200 to rounding: the complex division does not square 1e200 (Smith 1962, from memory)', () => {
+    // 1/(1 + j·1e200) = (1 − j·1e200)/(1 + 1e400) ≈ −j·1e-200 (derived here).
+    const r = frequencyResponse(tfFromCoefficients([1], [1, 1e200]), [1]);
+    expect(r.im[0] / -1e-200).toBeCloseTo(1, 12);
+    expect(Math.abs(r.re[0])).toBeLessThan(1e-300);
+  });
+
+  it('1e300·(s + 10)/(s + 0.01) at ω = 1e10, where N(jω) overflows: |G| from the factors (found by the document fuzzer)', () => {
+    // |G(jω)| = 1e300·√(ω² + 100)/√(ω² + 1e-4) = 1e300 to 1e-18 at ω = 1e10; phase atan(ω/10) − atan(ω/0.01) ≈ −1e-9 rad (derived here).
+    const tf = tfFromCoefficients(P.scale([10, 1], 1e300), [0.01, 1]);
+    const r = frequencyResponse(tf, [1e-3, 1, 1e10, 1e200]);
+    for (const x of [...r.re, ...r.im, ...r.magDb, ...r.phaseDeg]) expect(Number.isNaN(x)).toBe(false);
+    expect(Math.hypot(r.re[2], r.im[2]) / 1e300).toBeCloseTo(1, 12);
+    expect(r.magDb[2]).toBeCloseTo(6000, 9);
+    expect(Math.abs(r.phaseDeg[2])).toBeLessThan(1e-6);
+  });
+});
+

@@ -54,6 +54,7 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
   const qz = leadingZeros(num);
   const qp = leadingZeros(den);
   const c = num[qz] / den[qp];
+  const logC = Math.log(Math.abs(num[qz])) - Math.log(Math.abs(den[qp]));
   const zeros = num.length - 1 > qz ? polyRoots(num.slice(qz)) : [];
   const poles = den.length - 1 > qp ? polyRoots(den.slice(qp)) : [];
   const anchor = (c < 0 ? -180 : 0) + 90 * (qz - qp);
@@ -92,10 +93,20 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
     let phase = anchor;
     for (let i = 0; i < nfz; i++) phase += Math.atan2(-w * fz[i].ar || 0, 1 - w * fz[i].br) * DEG;
     for (let i = 0; i < nfp; i++) phase -= Math.atan2(-w * fp[i].ar || 0, 1 - w * fp[i].br) * DEG;
-    // Value N/D·e^(−jωT).
-    const dd = dre * dre + dim * dim;
-    let re = (nre * dre + nim * dim) / dd;
-    let im = (nim * dre - nre * dim) / dd;
+    // Value N/D·e^(−jωT), the division by Smith's method (no intermediate overflow for 1e308 gains).
+    let re: number;
+    let im: number;
+    if (Math.abs(dre) >= Math.abs(dim)) {
+      const r = dim / dre;
+      const d = dre + dim * r;
+      re = (nre + nim * r) / d;
+      im = (nim - nre * r) / d;
+    } else {
+      const r = dre / dim;
+      const d = dre * r + dim;
+      re = (nre * r + nim) / d;
+      im = (nim * r - nre) / d;
+    }
     if (T > 0) {
       const cs = Math.cos(w * T);
       const sn = Math.sin(w * T);
@@ -103,6 +114,19 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
       im = im * cs - re * sn;
       re = r2;
       phase -= w * T * DEG;
+    }
+    // (Only with a finite phase: where ω·T itself overflows, e^(−jωT) has no value to give.)
+    if ((!Number.isFinite(re) || !Number.isFinite(im)) && Number.isFinite(phase)) {
+      // N(jω) and D(jω) overflowed (1e300 gains, high powers of ω): the value from the factors,
+      // |G| as a sum of logarithms and the continuous phase above. |G| itself may be ±∞ or 0.
+      // |1 − jω/r| = |jω − r|/|r|, each by hypot (no product overflows).
+      let lm = logC + (qz - qp) * Math.log(w);
+      for (const z of zeros) lm += Math.log(Math.hypot(z.re, w - z.im)) - Math.log(cabs(z));
+      for (const p of poles) lm -= Math.log(Math.hypot(p.re, w - p.im)) - Math.log(cabs(p));
+      const m = Math.exp(lm);
+      const cs = Math.cos(phase / DEG);
+      const sn = Math.sin(phase / DEG);
+      return { re: cs === 0 ? 0 : m * cs, im: sn === 0 ? 0 : m * sn, mag: m, phaseDeg: phase };
     }
     const mag = Math.hypot(re, im);
     if (mag > 0 && Number.isFinite(mag)) {
@@ -136,6 +160,23 @@ export function frequencyResponse(tf: TransferFunction, omegas: readonly number[
     out.im.push(v.im);
     out.magDb.push(20 * Math.log10(v.mag));
     out.phaseDeg.push(v.phaseDeg);
+  }
+  return out;
+}
+
+/**
+ * Continuous phases (degrees) for values given only by re/im, guided by a continuous phase that
+ * agrees at the first frequency and turns alike between neighbours (an approximant of the same
+ * loop): each principal value is put on the branch nearest to the previous phase plus the
+ * guide's change. Used where L(jω) is solved numerically (a diagram with dead times in inner
+ * loops) and only its Padé approximant has a phase of its own.
+ */
+export function unwrapAlong(re: readonly number[], im: readonly number[], guideDeg: readonly number[]): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < re.length; i++) {
+    const principal = (Math.atan2(im[i], re[i]) * 180) / Math.PI;
+    const ref = i === 0 ? guideDeg[0] : out[i - 1] + (guideDeg[i] - guideDeg[i - 1]);
+    out.push(Number.isFinite(ref) ? principal + 360 * Math.round((ref - principal) / 360) : principal);
   }
   return out;
 }

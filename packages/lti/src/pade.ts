@@ -1,3 +1,4 @@
+import { type Complex, cx } from './complex.ts';
 import { InputError } from './errors.ts';
 import { polyRoots } from './roots.ts';
 import { type Rational, rational } from './rational.ts';
@@ -19,6 +20,13 @@ export function padeDelay(T: number, order: number): Rational {
   if (T === 0 || order === 0) return rational([1], [1]);
   const c = padeCoefficients(order);
   const den = c.map((ck, k) => ck * T ** k);
+  if (!den.every((x) => Number.isFinite(x) && x !== 0)) {
+    throw new InputError(
+      `dead time ${T} s is too long or too short for a Padé (${order},${order}) approximant in coefficients (they overflow or underflow); ` +
+        'change the time unit so that dead times and time constants are of moderate size',
+      { field: 'delay' },
+    );
+  }
   const num = den.map((dk, k) => (k % 2 ? -dk : dk));
   return rational(num, den);
 }
@@ -31,16 +39,39 @@ export function padeCoefficients(n: number): number[] {
   return c;
 }
 
+/** Roots of D(x) = Σ c_k x^k (x = sT) per order, computed once: the approximant's poles are x_i/T. */
+const unitRoots = new Map<number, Complex[]>();
+export function padeUnitPoles(order: number): Complex[] {
+  let r = unitRoots.get(order);
+  if (!r) {
+    r = order === 0 ? [] : polyRoots(padeCoefficients(order));
+    unitRoots.set(order, r);
+  }
+  return r;
+}
+
+/**
+ * Poles of the (n, n) Padé approximant of e^(−sT): x_i/T for the roots x_i of Σ c_k x^k. Its zeros
+ * are their mirror images −x_i/T (all-pass), and the ratio of leading coefficients
+ * numerator/denominator is (−1)^n. Formed without the coefficients c_k·T^k, which overflow for
+ * long dead times (T = 1e308 s).
+ */
+export function padePoles(T: number, order: number): Complex[] {
+  if (!Number.isFinite(T) || T <= 0) throw new InputError(`dead time must be a finite number > 0 s, got ${T}`, { field: 'delay' });
+  return padeUnitPoles(order).map((x) => cx(x.re / T, x.im / T));
+}
+
 /**
  * Phase (rad, continuous, ≤ 0) of the (n, n) Padé approximant at frequency ω: the all-pass
  * N(jω)/D(jω) = conj(D)/D has phase −2·arg D(jω), and with every root p of D in the left
- * half-plane arg D(jω) = Σ atan2(ω − Im p, −Re p) is continuous in ω.
+ * half-plane arg D(jω) = Σ atan2(ω − Im p, −Re p) is continuous in ω. Computed in x = ωT,
+ * so it holds for any T.
  */
 export function padePhase(T: number, order: number, omega: number): number {
-  const r = padeDelay(T, order);
-  if (r.den.length <= 1) return 0;
+  if (!(T > 0) || order === 0) return 0;
+  const x = omega * T;
   let arg = 0;
-  for (const p of polyRoots(r.den)) arg += Math.atan2(omega - p.im, -p.re);
+  for (const p of padeUnitPoles(order)) arg += Math.atan2(x - p.im, -p.re);
   return -2 * arg;
 }
 

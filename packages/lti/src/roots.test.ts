@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { eigs, matrix } from 'mathjs';
-import { polyRoots, rootClusters } from './roots.ts';
+import { polyRoots, polyRootsDetailed, rootClusters } from './roots.ts';
 import { type Complex, cabs, csub, cx } from './complex.ts';
 import * as P from './poly.ts';
 import { InputError } from './errors.ts';
@@ -182,6 +182,52 @@ describe('termination on QR-unfriendly companion matrices', () => {
     for (const z of r) {
       expect(Math.abs(cabs(z) - 1)).toBeLessThan(1e-12);
       expect(cabs(P.evalComplex(p, z))).toBeLessThan(1e-12);
+    }
+  });
+});
+
+describe('repeated roots at their exact centres (numerical multiplicity)', () => {
+  it('(s + 1)^40: forty roots at −1, not a circle of radius ~0.4 — and the error estimate says so', () => {
+    const d = polyRootsDetailed(P.pow([1, 1], 40));
+    expect(d.roots).toHaveLength(40);
+    for (const z of d.roots) expect(cabs(csub(z, cx(-1)))).toBeLessThan(1e-13);
+    expect(d.multiple).toHaveLength(1);
+    expect(d.multiple[0].multiplicity).toBe(40);
+    expect(d.worstRelativeError).toBeLessThan(1e-10);
+  });
+
+  it('overlapping clusters (s + 1)^20 (s² + s + 4)^10 are told apart (roots of the derivatives as centres)', () => {
+    const d = polyRootsDetailed(P.mul(P.pow([1, 1], 20), P.pow([4, 1, 1], 10)));
+    const m = d.multiple.map((c) => c.multiplicity).sort((a, b) => a - b);
+    expect(m).toEqual([10, 10, 20]);
+    // s² + s + 4 = 0 ⇔ s = −1/2 ± j√15/2 (derived here).
+    const pair = d.multiple.find((c) => c.center.im > 0)!;
+    expect(cabs(csub(pair.center, cx(-0.5, Math.sqrt(15) / 2)))).toBeLessThan(1e-5);
+  });
+
+  it('close but distinct roots stay distinct; an ill-conditioned set says how far it can be trusted', () => {
+    const d = polyRootsDetailed(P.mul([1, 1], [1.0001, 1]));
+    expect(d.multiple).toEqual([]);
+    expect(d.roots.map((z) => +z.re.toFixed(8))).toEqual([-1.0001, -1]);
+    // Wilkinson's polynomial of degree 20: its expanded coefficients fix the middle roots poorly
+    // (Wilkinson, Rounding Errors in Algebraic Processes, 1963 (from memory)).
+    const w = polyRootsDetailed(P.fromRoots(Array.from({ length: 20 }, (_, i) => cx(-(i + 1)))));
+    expect(w.worstRelativeError).toBeGreaterThan(1e-6);
+  });
+
+  it('roots of equal modulus in a symmetric pattern (±4 ± j): the QR that cycles on them is retried shifted', () => {
+    const p = P.fromRoots([cx(4, 1), cx(4, -1), cx(-4, 1), cx(-4, -1), cx(-0.5, 1.5), cx(-0.5, -1.5)]);
+    const r = polyRoots(p);
+    expect(r).toHaveLength(6);
+    for (const z of r) expect(cabs(P.evalComplex(p, z))).toBeLessThan(1e-9);
+  });
+
+  it('coefficients near 1e300 or 1e-310 give the same roots as the unscaled polynomial (exact power-of-two scaling)', () => {
+    // (s + 1)(s + 2) = s² + 3s + 2 (quadratic formula: −1, −2).
+    for (const scale of [1e300, 1e-310]) {
+      const r = polyRoots([2 * scale, 3 * scale, scale]).map((z) => z.re).sort((a, b) => a - b);
+      expect(r[0]).toBeCloseTo(-2, 12);
+      expect(r[1]).toBeCloseTo(-1, 12);
     }
   });
 });

@@ -1,4 +1,4 @@
-import { type Complex, type LoopMargins, type MarginFigures, cabs, loopMargins, marginFigures, poly as P, polyRoots } from '@loopwright/lti';
+import { type Complex, type LoopMargins, type MarginFigures, cabs, loopMargins, marginFigures, poly as P, polyRootsDetailed } from '@loopwright/lti';
 import type { DiscreteTransferFunction } from './discrete.ts';
 import { type JuryResult, juryTest } from './jury.ts';
 import { type SampleRateNote, sampleRateCheck } from './sample-rate.ts';
@@ -20,7 +20,7 @@ const STABLE_TOL = 1e-9;
  * phase −mωT); for other extra dead times it is the usual estimate (aliased terms shift
  * differently) — `sampledDelayMargin` finds the exact one.
  */
-export interface SampledMargins extends LoopMargins {
+export interface SampledMargins extends Omit<LoopMargins, 'notes'> {
   sampleTime: number;
   computeDelay: number;
   /** π/T (rad/s): the response is computed up to here. */
@@ -65,7 +65,8 @@ export function pulseMargins(pulse: DiscreteTransferFunction, opts: SampledMargi
   const num = P.trim(pulse.rational.num);
   const den = P.trim(pulse.rational.den);
   const ch = P.add(den, num);
-  const closedLoopPoles: Complex[] = ch.length > 1 ? polyRoots(ch) : [];
+  const roots = ch.length > 1 ? polyRootsDetailed(ch) : null;
+  const closedLoopPoles: Complex[] = roots ? roots.roots : [];
   const closedLoopStable = closedLoopPoles.every((z) => cabs(z) < 1 - STABLE_TOL);
   const jury = juryTest(ch);
   const base = {
@@ -76,6 +77,11 @@ export function pulseMargins(pulse: DiscreteTransferFunction, opts: SampledMargi
     closedLoopPoles,
     closedLoopStable,
     padeOrder: null,
+    // Six digits, as for continuous closed-loop poles (lti closed-loop.ts).
+    closedLoopAccuracy: { worstRelativeError: roots ? roots.worstRelativeError : 0, limited: roots ? roots.worstRelativeError > 1e-6 : false },
+    // G(z) is rational in z and evaluated exactly on the unit circle; no crossover tail (the band ends at π/T).
+    frequencyMethod: 'rational' as const,
+    phaseCrossoverTail: null,
     gainMargin: null,
     gainMarginDb: null,
     phaseCrossover: null,
@@ -195,7 +201,7 @@ export function pulseMargins(pulse: DiscreteTransferFunction, opts: SampledMargi
 export type SampledMarginFigures = MarginFigures & { sampleTime: number; computeDelay: number; nyquistFrequency: number };
 
 export function sampledMarginFigures(m: SampledMargins): SampledMarginFigures {
-  return { ...marginFigures(m), sampleTime: m.sampleTime, computeDelay: m.computeDelay, nyquistFrequency: m.nyquistFrequency };
+  return { ...marginFigures({ ...m, notes: m.notes.map((n) => n.message) }), sampleTime: m.sampleTime, computeDelay: m.computeDelay, nyquistFrequency: m.nyquistFrequency };
 }
 
 /** G at a real z (±1): null at a pole. */

@@ -62,10 +62,11 @@ export function buildRun(model: CompiledModel, overrides: Record<string, number>
   };
 
   for (const cb of model.blocks) {
-    if (cb.kind === 'probe') continue;
+    const build = builderFor(cb.kind);
+    if (!build) continue;
     current = cb;
     const p = resolveWithScope(cb.block, scope) as Record<string, unknown>;
-    builderFor(cb.kind)(cb, p, ctx);
+    build(cb, p, ctx);
   }
 
   for (const { node, from, fromNode } of pending) {

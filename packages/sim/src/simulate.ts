@@ -5,7 +5,7 @@ import type { CompiledModel } from './compile.ts';
 import { chooseEngine } from './engine-choice.ts';
 import { probeMetrics } from './metrics.ts';
 import { runSegments } from './loop.ts';
-import { resolveOptions } from './options.ts';
+import { fmt, resolveOptions } from './options.ts';
 import { Recorder } from './recorder.ts';
 import { RunState } from './run-state.ts';
 import type { SimResult, SimulateOptions } from './types.ts';
@@ -47,6 +47,7 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     metricsFor.map((id) => keys.indexOf(id)),
   );
   runSegments(rs, engine);
+  cutAtNonFinite(rec, budget);
   budget.finish();
 
   const traces: Record<string, number[]> = {};
@@ -86,3 +87,28 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
     },
   };
 }
+
+/**
+ * A recorded signal that is no longer finite ends the run as diverged at that time, the traces
+ * kept up to just before it. The engines watch the states; a loop of gains and dead times alone
+ * (2·e^(−1e-9·s) in a unity loop) has none, and its signals grow through the dead-time histories.
+ */
+function cutAtNonFinite(rec: Recorder, budget: Budget): void {
+  let first = -1;
+  for (const col of rec.cols) {
+    const end = first < 0 ? col.length : first;
+    for (let i = 0; i < end; i++) {
+      if (!Number.isFinite(col[i])) {
+        first = i;
+        break;
+      }
+    }
+  }
+  if (first < 0) return;
+  const t = rec.time[first];
+  rec.time.length = first;
+  for (const col of rec.cols) col.length = first;
+  budget.reached = first > 0 ? rec.time[first - 1] : 0;
+  budget.stop('diverged', `the run diverged at t = ${fmt(t)} s: a signal is no longer finite`);
+}
+

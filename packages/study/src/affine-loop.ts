@@ -9,16 +9,18 @@
  * recomputation; every result says which path it took (`SweepPath`).
  */
 import {
+  RATIONAL_FREQUENCY,
   compiledOf,
   divideExactly,
   loopAtCutDetailed,
   plainLoopReader,
   reductionOf,
   type CompiledGraph,
+  type CutLoop,
   type DelayHandling,
   type Diagram,
   type LoopReader,
-  type Reduction,
+  type ReduceOptions,
 } from '@loopwright/graph';
 import { InputError, loopMargins, poly, polyRoots, type Complex, type LoopMargins } from '@loopwright/lti';
 import { affineMargins, pieceGrid, type PieceGrid } from './affine-margins.ts';
@@ -39,7 +41,11 @@ interface Site {
   ks: [number, number, number];
 }
 
-/** One reading's pieces: L(k) = (a + k·b)/(c + k·d)·e^(−s·delay), or a reading k cannot reach. */
+/**
+ * One reading's pieces: L(k) = (a + k·b)/(c + k·d), rational (no dead time on the loop), or a
+ * reading k cannot reach. A loop with dead time is read in full: its L(jω) is exact in the dead
+ * time (graph's cutMargins), which the pieces do not carry.
+ */
 type Pieces =
   | {
       kind: 'affine';
@@ -47,6 +53,7 @@ type Pieces =
       b: number[];
       c: number[];
       d: number[];
+      /** Always 0 and no Padé here (a loop with dead time is read in full); kept for affineMargins. */
       delay: number;
       handling: DelayHandling;
       hidden: Complex[];
@@ -55,9 +62,10 @@ type Pieces =
   | { kind: 'constant'; reading: Reading }
   | { kind: 'full' };
 
+/** A reading as graph's cutMargins gives it: the margins and the cut's loop (source, frequency method). */
 interface Reading {
-  reduction: Reduction;
   margins: LoopMargins;
+  loop: CutLoop;
 }
 
 /** Relative size of an affinity residual accepted as round-off (graph's affineSplit uses the same). */
@@ -125,13 +133,13 @@ function carries(g: CompiledGraph, s: Site, k: number): boolean {
   return p.length === q.length && p.every((c, i) => Math.abs(c - q[i]) <= 1e-12 * scale);
 }
 
-function fullReading(g: CompiledGraph, wire: string, padeOrder: number): Reading {
-  return plainLoopReader({ padeOrder }).read(g, wire, '');
-}
-
-function piecesOf(g: CompiledGraph, wire: string, s: Site, value: number, padeOrder: number): Pieces {
-  if (!carries(g, s, value)) return { kind: 'constant', reading: fullReading(g, wire, padeOrder) };
-  const rs = s.ks.map((k) => loopAtCutDetailed(withSite(g, s, k), wire, undefined, { padeOrder }));
+function piecesOf(g: CompiledGraph, wire: string, s: Site, value: number, plain: LoopReader, opts: ReduceOptions): Pieces {
+  if (!carries(g, s, value)) return { kind: 'constant', reading: plain.read(g, wire, '') };
+  const rs = s.ks.map((k) => loopAtCutDetailed(withSite(g, s, k), wire, undefined, opts));
+  // Only a purely rational loop (cutMargins' frequency method 'rational') is read from pieces:
+  // with any dead time on the loop — a delay factor, or Padé stand-ins for dead times inside other
+  // loops — cutMargins reads L(jω) exact in the dead time, and so does the full path.
+  if (rs.some((r) => r.delay !== 0 || r.tf.delay !== 0 || r.delayHandling.mode === 'pade')) return { kind: 'full' };
   const [r1, r2, r3] = rs;
   if (r2.delay !== r1.delay || r3.delay !== r1.delay || r1.delayHandling.mode !== r2.delayHandling.mode) return { kind: 'full' };
   const num = affineFit(
@@ -143,7 +151,7 @@ function piecesOf(g: CompiledGraph, wire: string, s: Site, value: number, padeOr
     s.ks,
   );
   if (!num || !den) return { kind: 'full' };
-  if (poly.isZero(num.p1) && poly.isZero(den.p1)) return { kind: 'constant', reading: fullReading(g, wire, padeOrder) };
+  if (poly.isZero(num.p1) && poly.isZero(den.p1)) return { kind: 'constant', reading: plain.read(g, wire, '') };
   const pieces = { a: num.p0, b: num.p1, c: den.p0, d: den.p1 };
   // Modes the loop cannot see (block factors common to both sides) are the same at every k when
   // they divide all four pieces: divided out once here, so that a step need not look for them.
@@ -173,13 +181,14 @@ function commonFactor(
 }
 
 /** L(k) from its pieces, normalised and cancelled as graph's reduction does. */
-function evaluate(p: Extract<Pieces, { kind: 'affine' }>, k: number, wire: string): Reading {
+function evaluate(p: Extract<Pieces, { kind: 'affine' }>, k: number, wire: string, deadline: number | undefined): Reading {
   const num = at(p.a, p.b, k);
   if (poly.isZero(num))
     throw new InputError(`wire ${wire}: no feedback loop passes through this wire (the loop transfer there is zero)`, { field: 'wire' });
   const reduction = reductionOf({ num, den: at(p.c, p.d, k), delay: p.delay, handling: p.handling });
   if (p.hidden.length) reduction.hiddenModes = [...p.hidden, ...reduction.hiddenModes];
-  return { reduction, margins: affineMargins(p, p.grid, k, reduction) ?? loopMargins(reduction.tf) };
+  const loop: CutLoop = { reduction, source: null, frequency: { ...RATIONAL_FREQUENCY } };
+  return { loop, margins: affineMargins(p, p.grid, k, reduction) ?? loopMargins(reduction.tf, deadline === undefined ? {} : { deadline }) };
 }
 
 /** A loop reader for one live value, and which path each reading took. */
@@ -200,8 +209,10 @@ export function liveReader(
   overrides: Record<string, number>,
   live: LiveValue | null | undefined,
   padeOrder: number,
+  deadline?: number,
 ): LiveReader {
-  const plain = plainLoopReader({ padeOrder });
+  const opts: ReduceOptions = { padeOrder, ...(deadline !== undefined ? { deadline } : {}) };
+  const plain = plainLoopReader(opts);
   const plainOnly = (): LiveReader => ({
     reader: plain,
     readClosed: (wire, graph) => plain.read(graph(), wire, 'closed'),
@@ -222,16 +233,16 @@ export function liveReader(
   if (!site) return plainOnly();
   let full = 0;
   const readLazy = (graph: () => CompiledGraph, wire: string, config: string): Reading => {
-    const p = cached(pieces, `${key}|${config}|${wire}`, () => piecesOf(graph(), wire, site, value, padeOrder));
+    const p = cached(pieces, `${key}|${config}|${wire}`, () => piecesOf(graph(), wire, site, value, plain, opts));
     if (p.kind === 'constant') return p.reading;
-    if (p.kind === 'affine') return evaluate(p, value, wire);
+    if (p.kind === 'affine') return evaluate(p, value, wire, deadline);
     full++;
     return plain.read(graph(), wire, config);
   };
   const reader: LoopReader = {
     read: (g, wire, config) => readLazy(() => g, wire, config),
     poles: (g): Complex[] => {
-      const ch = characteristicAt(d, overrides, padeOrder, name);
+      const ch = characteristicAt(d, overrides, padeOrder, name, deadline);
       return ch.poly.length > 1 ? polyRoots(ch.poly) : plain.poles(g);
     },
   };

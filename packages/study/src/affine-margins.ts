@@ -8,10 +8,12 @@
  * past its limits at the grid's ends — the step returns null and the caller uses loopMargins.
  */
 import type { Reduction } from '@loopwright/graph';
-import { cabs, closedLoopPolesOf, frequencyRange, padeOrderFor, rational, transfer, type Complex, type LoopMargins } from '@loopwright/lti';
+import { cabs, closedLoopPolesDetailed, frequencyRange, padeOrderFor, rational, transfer, type Complex, type LoopMargins } from '@loopwright/lti';
 
 const DEG = 180 / Math.PI;
-const STABLE_TOL = 1e-9;
+/** lti's loopMargins verdict tolerance (relative to a pole's size) and its listed-crossover limit. */
+const VERDICT_TOL = 1e-12;
+const MAX_LISTED = 100;
 /** Bracketing density of loopMargins' sweep (points per decade). */
 const PER_DECADE = 200;
 
@@ -338,8 +340,18 @@ export function affineMargins(p: AffinePieces, g: PieceGrid, k: number, r: Reduc
   // Verdict from the closed-loop poles, with loopMargins' Padé order for the dead time.
   const wRef = 2 * Math.max(1e-12, ...gainCrossoverDetails.map((c) => c.omega), upper ? upper.omega : 0);
   const hint = p.delay > 0 ? Math.max(3, padeOrderFor(p.delay, wRef)) : 1;
-  const { poles, padeOrder } = closedLoopPolesOf(num, den, p.delay, hint);
-  const closedLoopStable = poles.every((q) => q.re < -STABLE_TOL * (1 + cabs(q)));
+  // As many crossovers as loopMargins lists at most: it truncates and says so; let it.
+  if (gainCrossoverDetails.length >= MAX_LISTED || phaseCrossoverDetails.length >= MAX_LISTED) return null;
+  // The verdict as loopMargins gives it for a rational loop: each pole left of the axis by more
+  // than its own error and than rounding relative to its size; doubtful poles named in the notes.
+  const notes: string[] = [];
+  const cl = closedLoopPolesDetailed(num, den, p.delay, hint);
+  const poles = cl.poles;
+  const padeOrder = cl.padeOrder;
+  const closedLoopStable = poles.every((q, i) => q.re < -Math.max(cl.errors[i], VERDICT_TOL * cabs(q)));
+  if (cl.limited) notes.push(`closed-loop poles are good to about ${cl.worstRelativeError.toExponential(0)} (relative): accuracy limited`);
+  const doubtful = poles.filter((q, i) => Math.abs(q.re) <= cl.errors[i] && cl.errors[i] > VERDICT_TOL * cabs(q));
+  if (doubtful.length) notes.push(`the verdict is uncertain: ${doubtful.length} closed-loop pole(s) lie within their error of the imaginary axis`);
   if (closedLoopStable) for (const c of gainCrossoverDetails) c.delayMargin = lag360(c.phaseMarginDeg) / DEG / c.omega;
 
   // Bandwidth: first ω where |T| falls to |T(0)|/√2.
@@ -376,5 +388,9 @@ export function affineMargins(p: AffinePieces, g: PieceGrid, k: number, r: Reduc
     phaseCrossovers: phaseCrossoverDetails.map((c) => c.omega),
     gainCrossoverDetails,
     phaseCrossoverDetails,
+    phaseCrossoverTail: null,
+    closedLoopAccuracy: { worstRelativeError: cl.worstRelativeError, limited: cl.limited },
+    frequencyMethod: p.delay > 0 ? 'exact' : 'rational',
+    notes,
   };
 }

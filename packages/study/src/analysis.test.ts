@@ -5,8 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { closedLoopPoles } from '@loopwright/graph';
-import { cabs, cadd, cexp, cscale, type Complex } from '@loopwright/lti';
-import { closedLoopStudy } from './closed-loop.ts';
+import { cabs, cadd, cexp, cscale, exactStepResponse, type Complex } from '@loopwright/lti';
+import { closedLoopStudy, scaledStepResponse } from './closed-loop.ts';
 import { chooseCut, cutStudy } from './cuts.ts';
 import { locusStudy } from './locus.ts';
 import { loopsStudy } from './loops.ts';
@@ -32,7 +32,9 @@ describe('locus of a sweep', () => {
     expect(L.crossings.find((c) => c.omega > 0)!.gain).toBeCloseTo(6, 7);
     // Asymptotes: centroid −1, angles ±60°, 180° [R01].
     expect(L.asymptotes!.centroid).toBeCloseTo(-1, 10);
-    expect([...L.asymptotes!.anglesDeg].map((a) => Math.abs(a)).sort((a, b) => a - b)).toEqual([60, 60, 180].map((x) => expect.closeTo(x, 9)));
+    expect([...L.asymptotes!.anglesDeg].map((a) => Math.abs(a)).sort((a, b) => a - b)).toEqual(
+      [60, 60, 180].map((x) => expect.closeTo(x, 9)),
+    );
     // The dense trace covers the slider range only.
     for (const b of L.rangeBranches!) for (const k of b.k) expect(k >= 0.1 - 1e-12 && k <= 20 + 1e-9).toBe(true);
   });
@@ -46,7 +48,9 @@ describe('locus of a sweep', () => {
     expect(L.breakaways[0].s.re).toBeCloseTo(-1 - 1 / Math.sqrt(3), 9);
     expect(L.breakaways[0].gain).toBeCloseTo(-2 / (3 * Math.sqrt(3)), 9);
     // k < 0: asymptote angles 2q·180°/3 = 0°, ±120° (Ogata, negative-gain locus rules, from memory).
-    expect([...L.asymptotes!.anglesDeg].map((a) => Math.abs(a)).sort((a, b) => a - b)).toEqual([0, 120, 120].map((x) => expect.closeTo(x, 9)));
+    expect([...L.asymptotes!.anglesDeg].map((a) => Math.abs(a)).sort((a, b) => a - b)).toEqual(
+      [0, 120, 120].map((x) => expect.closeTo(x, 9)),
+    );
     for (const b of L.branches) for (const k of b.k) expect(k).toBeLessThanOrEqual(0);
     // The range [−5, −0.01] is traced on the k < 0 side.
     for (const b of L.rangeBranches!) for (const k of b.k) expect(k >= -5 - 1e-9 && k <= -0.01 + 1e-12).toBe(true);
@@ -104,7 +108,16 @@ describe('closed-loop poles', () => {
       const viaSplit = byRe(polesStudy(unityLoop(1), { live: { target: K_PARAM, value: K } }).poles);
       const viaReduction = byRe(polesStudy(unityLoop(K)).poles);
       const disc = 1 - K;
-      const want = disc >= 0 ? [{ re: -1 - Math.sqrt(disc), im: 0 }, { re: -1 + Math.sqrt(disc), im: 0 }] : [{ re: -1, im: -Math.sqrt(-disc) }, { re: -1, im: Math.sqrt(-disc) }];
+      const want =
+        disc >= 0
+          ? [
+              { re: -1 - Math.sqrt(disc), im: 0 },
+              { re: -1 + Math.sqrt(disc), im: 0 },
+            ]
+          : [
+              { re: -1, im: -Math.sqrt(-disc) },
+              { re: -1, im: Math.sqrt(-disc) },
+            ];
       for (const got of [viaSplit, viaReduction]) {
         got.forEach((p, i) => {
           expect(p.re).toBeCloseTo(want[i].re, 8);
@@ -129,6 +142,49 @@ describe('closed-loop poles', () => {
     for (const s of artefacts) expect(residual(s)).toBeGreaterThan(1e-2);
     // The dominant pair is stable (PM 61° in R24): the closed loop is stable.
     expect(P.stable).toBe(true);
+  });
+});
+
+describe('Padé marks everywhere the poles appear', () => {
+  // Loop of R24 (L = 0.5e^(−s)/s): the exact characteristic equation is s + 0.5e^(−s) = 0.
+  const residual = (s: Complex) => cabs(cadd(s, cscale(cexp({ re: -s.re, im: -s.im }), 0.5))) / Math.max(1, cabs(s));
+  const d = () => unityLoop(0.5, 'exp(-s)/s');
+
+  it('the loops table marks its closed-loop poles exactly as the poles study does', () => {
+    const L = loopsStudy(d());
+    const P = polesStudy(d());
+    expect(L.closedLoopPoles).toEqual(P.poles);
+    expect(L.closedLoopPoleOrigin).toEqual(P.origin);
+    expect(L.delayHandling.mode).toBe('pade');
+  });
+
+  it('a closed-loop form marks its poles: those marked approximated solve s + 0.5e^(−s) = 0, the others do not [R24]', () => {
+    const c = closedLoopStudy(d(), { from: { block: 'r' }, to: { block: 'y' } });
+    expect(c.delayHandling.mode).toBe('pade');
+    expect(c.poleOrigin).toHaveLength(c.poles.length);
+    const approx = c.poles.filter((_, i) => c.poleOrigin[i] === 'approximated');
+    const artefacts = c.poles.filter((_, i) => c.poleOrigin[i] === 'approximant');
+    expect(approx.length).toBeGreaterThanOrEqual(2);
+    expect(artefacts.length).toBeGreaterThanOrEqual(1);
+    for (const s of approx) expect(residual(s)).toBeLessThan(1e-3);
+    for (const s of artefacts) expect(residual(s)).toBeGreaterThan(1e-2);
+    // Without a dead time nothing is approximated.
+    const plain = closedLoopStudy(unityLoop(2), { from: { block: 'r' }, to: { block: 'y' } });
+    expect(plain.poleOrigin.every((o) => o === 'exact')).toBe(true);
+  });
+
+  it('the locus marks its open-loop poles: the Padé denominator roots are artefacts, the integrator is not', () => {
+    const L = locusStudy(d(), { target: K_PARAM });
+    expect(L.delayHandling.mode).toBe('pade');
+    expect(L.poleOrigin).toHaveLength(L.poles.length);
+    const origin = L.poles.map((p, i) => [Math.hypot(p.re, p.im) < 1e-9, L.poleOrigin[i]] as const);
+    expect(origin.filter(([atZero]) => atZero).map(([, o]) => o)).toEqual(['approximated']);
+    expect(origin.filter(([atZero]) => !atZero).every(([, o]) => o === 'approximant')).toBe(true);
+  });
+
+  it('a Padé order at the top of the range is compared two orders lower (never an order the approximant refuses)', () => {
+    expect(() => polesStudy(d(), { padeOrder: 10 })).not.toThrow();
+    expect(polesStudy(d(), { padeOrder: 10 }).origin.some((o) => o === 'approximated')).toBe(true);
   });
 });
 
@@ -160,7 +216,7 @@ describe('L at a cut', () => {
     expect(() => chooseCut(d, 'gone')).toThrow(/cut gone is not in the diagram/);
     expect(chooseCut(d, 'gone', {}, true)?.id).toBe('c1');
     d.cuts = [];
-    expect(chooseCut(d, null)).toEqual({ id: 'auto:fb', wire: 'fb', label: 'fb', auto: true });
+    expect(chooseCut(d, null)).toEqual({ id: 'auto:fb', wire: 'fb', label: 'loop at fb (proposed)', auto: true });
   });
 });
 
@@ -179,7 +235,12 @@ function r27() {
     ],
     ['r->e1.in1', 'e1->C1', 'C1->e2.in1', 'e2->C2', 'C2->G2', 'inner:G2->e2.in2', 'G2->G1', 'outer:G1->e1.in2', 'G1->y'],
     [{ name: 'C1', value: 2 }],
-    { cuts: [{ id: 'ci', wire: 'inner', label: 'inner loop' }, { id: 'co', wire: 'outer', label: 'outer loop' }] },
+    {
+      cuts: [
+        { id: 'ci', wire: 'inner', label: 'inner loop' },
+        { id: 'co', wire: 'outer', label: 'outer loop' },
+      ],
+    },
   );
 }
 
@@ -217,7 +278,7 @@ describe('loops table', () => {
     expect(o.realMargins).toEqual(outerRow.alone?.margins ?? outerRow.margins);
   });
 
-  it('every cut\'s frequency data on request: the same as the cut study of that cut', () => {
+  it("every cut's frequency data on request: the same as the cut study of that cut", () => {
     const L = loopsStudy(r27(), { frequency: true });
     for (const row of L.rows) expect(row.frequency).toEqual(cutStudy(r27(), { cut: row.cutId }));
     expect(loopsStudy(r27()).rows.every((r) => r.frequency === null)).toBe(true);
@@ -238,9 +299,29 @@ describe('loops table', () => {
         ['axis', 'integrator', { k: 1 }],
         ['pos', 'probe'],
       ],
-      ['ref->ePos.in1', 'ePos->Cpos', 'Cpos->eVel.in1', 'eVel->Cvel', 'Cvel->eCur.in1', 'eCur->Ccur', 'Ccur->winding', 'fbCur:winding->eCur.in2', 'winding->mech', 'fbVel:mech->eVel.in2', 'mech->axis', 'fbPos:axis->ePos.in2', 'axis->pos'],
+      [
+        'ref->ePos.in1',
+        'ePos->Cpos',
+        'Cpos->eVel.in1',
+        'eVel->Cvel',
+        'Cvel->eCur.in1',
+        'eCur->Ccur',
+        'Ccur->winding',
+        'fbCur:winding->eCur.in2',
+        'winding->mech',
+        'fbVel:mech->eVel.in2',
+        'mech->axis',
+        'fbPos:axis->ePos.in2',
+        'axis->pos',
+      ],
       [{ name: 'Kpos', value: 40 }],
-      { cuts: [{ id: 'current', wire: 'fbCur' }, { id: 'speed', wire: 'fbVel' }, { id: 'position', wire: 'fbPos' }] },
+      {
+        cuts: [
+          { id: 'current', wire: 'fbCur' },
+          { id: 'speed', wire: 'fbVel' },
+          { id: 'position', wire: 'fbPos' },
+        ],
+      },
     );
     const L = loopsStudy(d);
     expect(L.outerVsIdeal.map((o) => `${o.inner}<${o.outer}`).sort()).toEqual(['current<speed', 'speed<position']);
@@ -261,7 +342,14 @@ describe('closed-loop forms between two points', () => {
   });
 
   it('step and Bode of 2e^(−1.5s)/(5s + 1): y(6.5) = 1.26424, y(11.5) = 1.72933, zero before the dead time; |G(jω)| = 2/√(1 + 25ω²) [R41]', () => {
-    const d = build([['u', 'source'], ['g', 'transfer-function', { expression: '2*exp(-1.5*s)/(5*s + 1)' }], ['y', 'probe']], ['u->g', 'g->y']);
+    const d = build(
+      [
+        ['u', 'source'],
+        ['g', 'transfer-function', { expression: '2*exp(-1.5*s)/(5*s + 1)' }],
+        ['y', 'probe'],
+      ],
+      ['u->g', 'g->y'],
+    );
     const c = closedLoopStudy(d, { from: { block: 'u' }, to: { block: 'y' }, step: true, bode: true });
     expect(c.transfer.delay).toBeCloseTo(1.5, 12);
     const at = (t: number) => {
@@ -278,6 +366,38 @@ describe('closed-loop forms between two points', () => {
       const w = c.bode!.omega[i];
       expect(c.bode!.magDb[i]).toBeCloseTo(20 * Math.log10(2 / Math.sqrt(1 + 25 * w * w)), 9);
     }
+  });
+});
+
+describe('the step response of a closed-loop form over decades of pole speeds', () => {
+  it('Π aᵢ/(s + aᵢ) with a = 1, 30, 1e3, 3e4, 1e5, 3e5 (coefficients up to 9e20): y = 1 − Σ e^(−aᵢt) Π_{j≠i} aⱼ/(aⱼ − aᵢ) (partial fractions)', () => {
+    const a = [1, 30, 1e3, 3e4, 1e5, 3e5];
+    const expression = a.map((x) => `${x}/(s + ${x})`).join('*');
+    const d = build(
+      [
+        ['u', 'source'],
+        ['g', 'transfer-function', { expression }],
+        ['y', 'probe'],
+      ],
+      ['u->g', 'g->y'],
+    );
+    const c = closedLoopStudy(d, { from: { block: 'u' }, to: { block: 'y' }, step: true });
+    const exact = (t: number) =>
+      1 -
+      a.reduce((sum, ai, i) => {
+        const k = a.reduce((p, aj, j) => (j === i ? p : (p * aj) / (aj - ai)), 1);
+        return sum + k * Math.exp(-ai * t);
+      }, 0);
+    const { time, value } = c.step!;
+    for (let i = 0; i < time.length; i += 20) expect(value[i]).toBeCloseTo(exact(time[i]), 6);
+    // Final-value theorem: T(0) = 1.
+    expect(value[value.length - 1]).toBeCloseTo(c.staticGain, 2);
+  });
+
+  it('a well-scaled system is left alone (the same numbers as the unscaled exact response)', () => {
+    const r = { num: [2], den: [2, 3, 1] };
+    const t = [0, 0.5, 1, 2, 4];
+    expect(scaledStepResponse(r, t, 0.3)).toEqual(exactStepResponse(r, t, 0.3));
   });
 });
 

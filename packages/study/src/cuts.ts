@@ -2,21 +2,15 @@
  * Cuts: which loop the Frequency view opens, and the frequency data of L there (Bode,
  * Nyquist, |S| and |T|) with its margins and the number of open-loop right-half-plane poles.
  */
-import { DEFAULT_PADE_ORDER, compiledOf, feedbackWires, type DelayHandling, type Diagram } from '@loopwright/graph';
-import {
-  InputError,
-  defaultFrequencyGrid,
-  frequencyResponse,
-  marginFigures,
-  type LoopMargins,
-  type TransferFunction,
-} from '@loopwright/lti';
+import { DEFAULT_PADE_ORDER, compiledOf, cutLoopResponse, feedbackWires, type CutFrequencyMethod, type DelayHandling, type Diagram } from '@loopwright/graph';
+import { InputError, defaultFrequencyGrid, marginFigures, type LoopMargins, type LoopSource, type TransferFunction } from '@loopwright/lti';
 import { liveReader } from './affine-loop.ts';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { rhpPoleCount, transferData } from './transfer-data.ts';
 import type { FrequencyData, LiveValue } from './types.ts';
 import { assertAnalysable } from './validate.ts';
+import { cutName, loopName } from './names.ts';
 
 export interface ChosenCut {
   id: string;
@@ -39,20 +33,20 @@ export function chooseCut(
 ): ChosenCut | null {
   if (requested?.startsWith('auto:')) {
     const wire = requested.slice(5);
-    if (d.wires.some((w) => w.id === wire)) return { id: requested, wire, label: wire, auto: true };
+    if (d.wires.some((w) => w.id === wire)) return { id: requested, wire, label: loopName(d, requested), auto: true };
     if (!fallback) throw new InputError(`cut ${requested}: the diagram has no wire "${wire}"`, { field: 'cut' });
   } else if (requested !== null) {
     const c = d.cuts.find((x) => x.id === requested);
-    if (c) return { id: c.id, wire: c.wire, label: c.label ?? c.wire, auto: false };
+    if (c) return { id: c.id, wire: c.wire, label: cutName(c), auto: false };
     if (!fallback)
       throw new InputError(`cut ${requested} is not in the diagram (cuts: ${d.cuts.map((x) => x.id).join(', ') || 'none'})`, {
         field: 'cut',
       });
   }
   const c = d.cuts.find((x) => x.id === d.view.activeCut) ?? d.cuts[0];
-  if (c) return { id: c.id, wire: c.wire, label: c.label ?? c.wire, auto: false };
+  if (c) return { id: c.id, wire: c.wire, label: cutName(c), auto: false };
   const wire = feedbackWires(compiledOf(d, overrides))[0];
-  return wire ? { id: `auto:${wire}`, wire, label: wire, auto: true } : null;
+  return wire ? { id: `auto:${wire}`, wire, label: loopName(d, `auto:${wire}`), auto: true } : null;
 }
 
 export interface CutRequest {
@@ -68,23 +62,30 @@ export interface CutRequest {
 }
 
 /** Frequency data of L at a cut (every other loop closed), margins marked; null when the diagram has no loop. */
-export function cutStudy(d: Diagram, req: CutRequest): FrequencyData | null {
+export function cutStudy(d: Diagram, req: CutRequest, deadline?: number): FrequencyData | null {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
   const cut = chooseCut(diagram, req.cut, overrides, req.fallback === true);
   if (!cut) return null;
-  const live = liveReader(diagram, overrides, req.affine === false ? null : req.live, req.padeOrder ?? DEFAULT_PADE_ORDER);
-  const r = live.readClosed(cut.wire, () => compiledOf(diagram, overrides));
-  return { ...frequencyOfLoop(cut, r.reduction.tf, r.margins, r.reduction.delayHandling), sweepPath: live.path() };
+  const live = liveReader(diagram, overrides, req.affine === false ? null : req.live, req.padeOrder ?? DEFAULT_PADE_ORDER, deadline);
+  const { margins, loop } = live.readClosed(cut.wire, () => compiledOf(diagram, overrides));
+  return {
+    ...frequencyOfLoop(cut, { tf: loop.reduction.tf, source: loop.source, delayHandling: loop.reduction.delayHandling, frequency: loop.frequency }, margins),
+    sweepPath: live.path(),
+  };
+}
+
+/** A cut's loop as the frequency data need it: L(s), the exact L(jω) where that differs, and how each was formed. */
+export interface LoopAtCut {
+  tf: TransferFunction;
+  source: LoopSource | null;
+  delayHandling: DelayHandling;
+  frequency: CutFrequencyMethod;
 }
 
 /** Bode, Nyquist, |S| and |T| of a loop L at a cut, on a grid that covers its crossovers, with its margins. */
-export function frequencyOfLoop(
-  cut: Pick<ChosenCut, 'id' | 'wire' | 'label'>,
-  L: TransferFunction,
-  margins: LoopMargins,
-  delayHandling: DelayHandling,
-): FrequencyData {
+export function frequencyOfLoop(cut: Pick<ChosenCut, 'id' | 'wire' | 'label'>, at: LoopAtCut, margins: LoopMargins): FrequencyData {
+  const L = at.tf;
   // Two decades above the highest gain crossover (and past the phase crossover the gain margin
   // is read at) are enough: beyond, a dead time only winds the phase round and round.
   let omega = defaultFrequencyGrid(L, 60);
@@ -97,7 +98,7 @@ export function frequencyOfLoop(
   const top = omega[omega.length - 1];
   const extra = [...margins.gainCrossovers, ...margins.phaseCrossovers].filter((w) => w > 0 && Number.isFinite(w) && w <= top);
   if (extra.length) omega = [...omega, ...extra].sort((x, y) => x - y);
-  const fr = frequencyResponse(L, omega);
+  const fr = cutLoopResponse({ reduction: { tf: L }, source: at.source }, omega);
   const sensDb: number[] = [];
   const compDb: number[] = [];
   for (let i = 0; i < fr.omega.length; i++) {
@@ -120,6 +121,8 @@ export function frequencyOfLoop(
     margins: marginFigures(margins),
     openLoopRhpPoles: rhpPoleCount(L),
     loop: transferData(L),
-    delayHandling,
+    delayHandling: at.delayHandling,
+    frequencyMethod: { ...at.frequency },
+    notes: [...margins.notes],
   };
 }

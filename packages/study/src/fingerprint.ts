@@ -21,8 +21,13 @@ export function engineText(d: Diagram, without?: string): string {
   ]);
 }
 
-/** Everything the engine sees, simulation settings included. */
-export const fingerprintText = (d: Diagram): string => `${engineText(d)}|${JSON.stringify(d.simulation ?? {})}`;
+/**
+ * Everything the engine sees, simulation settings included, and which blocks have fit records
+ * (the checks warn about records of missing blocks; a document without records keeps its old
+ * fingerprint).
+ */
+export const fingerprintText = (d: Diagram): string =>
+  `${engineText(d)}|${JSON.stringify(d.simulation ?? {})}${d.fits?.length ? `|${JSON.stringify(d.fits.map((f) => f.block))}` : ''}`;
 
 /** cyrb53: a fast 53-bit string hash (public domain, bryc) — short identities, not security. */
 function hash53(text: string): number {

@@ -7,14 +7,15 @@
  * sweeps k < 0 (the negative-gain locus) with its own geometry.
  */
 import { DEFAULT_PADE_ORDER, sweepLocus, type Diagram } from '@loopwright/graph';
-import { InputError, rootLocus, type Complex, type LocusPoint } from '@loopwright/lti';
+import { InputError, cancelCommon, polyRoots, rational, rootLocus, type Complex, type LocusPoint } from '@loopwright/lti';
 import { Lru, cached } from './cache.ts';
 import { registerCache } from './caches.ts';
 import { engineText } from './fingerprint.ts';
-import { without } from './split.ts';
+import { characteristicAt, splitOf, without } from './split.ts';
 import { checkTarget, documentValue, engineDiagram, engineParameterName, targetKey, targetRange } from './sweep-target.ts';
 import type { LocusAngleData, LocusBranch, LocusData, SweepRange, SweepTarget } from './types.ts';
 import { assertAnalysable } from './validate.ts';
+import { comparisonOrder, originsOf } from './poles.ts';
 
 export interface LocusRequest {
   target: SweepTarget;
@@ -35,23 +36,42 @@ export interface LocusRequest {
 
 const loci = registerCache(new Lru<LocusData>(12));
 const plain = (c: Complex) => ({ re: c.re, im: c.im });
-const branchesOf = (br: LocusPoint[][]): LocusBranch[] => br.map((b) => ({ re: b.map((p) => p.s.re), im: b.map((p) => p.s.im), k: b.map((p) => p.k) }));
+const branchesOf = (br: LocusPoint[][]): LocusBranch[] =>
+  br.map((b) => ({ re: b.map((p) => p.s.re), im: b.map((p) => p.s.im), k: b.map((p) => p.k) }));
 const angles = (xs: { at: Complex; angleDeg: number; multiplicity: number }[]): LocusAngleData[] =>
   xs.map((a) => ({ at: plain(a.at), angleDeg: a.angleDeg, multiplicity: a.multiplicity }));
 
-export function locusStudy(d: Diagram, req: LocusRequest): LocusData {
+export function locusStudy(d: Diagram, req: LocusRequest, deadline?: number): LocusData {
   checkTarget(d, req.target);
   const ed = engineDiagram(d, req.target);
   const name = engineParameterName(req.target);
   const value = req.value ?? documentValue(d, req.target);
   const range = req.range ?? targetRange(d, req.target);
   if (!(range.max > range.min)) throw new InputError(`sweep range: max ${range.max} must be above min ${range.min}`, { field: 'range' });
-  const direction = req.direction === 'positive' || req.direction === 'negative' ? req.direction : value < 0 || (value === 0 && range.max <= 0) ? 'negative' : 'positive';
+  const direction =
+    req.direction === 'positive' || req.direction === 'negative'
+      ? req.direction
+      : value < 0 || (value === 0 && range.max <= 0)
+        ? 'negative'
+        : 'positive';
   const overrides = without(req.overrides ?? {}, name);
-  assertAnalysable(ed, overrides);
+  assertAnalysable(ed, overrides, deadline);
   const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
   const key = JSON.stringify([engineText(ed), name, overrides, range, direction, req.opposite === true, padeOrder, req.samples ?? null]);
-  return cached(loci, key, () => compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples));
+  return cached(loci, key, () => compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples, deadline));
+}
+
+/** Roots of D0 and N0 (common factors apart, as graph's sweepLocus removes them) at another Padé order. */
+function higherOrderRoots(
+  d: Diagram,
+  name: string,
+  overrides: Record<string, number>,
+  padeOrder: number,
+): { poles: Complex[]; zeros: Complex[]; fixed: Complex[] } | null {
+  const s = splitOf(d, name, overrides, padeOrder);
+  if (!s) return null;
+  const c = cancelCommon(rational(s.n0, s.d0), 1e-7);
+  return { poles: polyRoots(c.result.den), zeros: polyRoots(c.result.num), fixed: c.cancelled };
 }
 
 function compute(
@@ -64,10 +84,12 @@ function compute(
   overrides: Record<string, number>,
   padeOrder: number,
   samples: number | undefined,
+  deadline: number | undefined,
 ): LocusData {
+  const budget = deadline !== undefined ? { deadline } : {};
   // The sweep range travels in the diagram (graph's sampled locus reads it from there).
   const ranged: Diagram = { ...ed, sweeps: [{ id: '~study-range', parameter: name, ...range }, ...ed.sweeps.filter((s) => s.parameter !== name)] };
-  const sw = sweepLocus(ranged, name, overrides, { negative: direction === 'negative', padeOrder, ...(samples ? { samples } : {}) });
+  const sw = sweepLocus(ranged, name, overrides, { negative: direction === 'negative', padeOrder, ...(samples ? { samples } : {}), ...budget });
   if (sw.mode === 'sampled') {
     const first = sw.branches.filter((b) => b[0].k === sw.values[0]).map((b) => plain(b[0].s));
     return {
@@ -81,6 +103,11 @@ function compute(
       poles: first,
       zeros: [],
       fixedPoles: [],
+      poleOrigin: originsOf(first, sw.delayHandling.mode === 'pade', () =>
+        polyRoots(characteristicAt(ed, { ...overrides, [name]: sw.values[0] }, comparisonOrder(padeOrder)).poly),
+      ),
+      zeroOrigin: [],
+      fixedOrigin: [],
       asymptotes: null,
       realAxisSegments: [],
       breakaways: [],
@@ -95,9 +122,13 @@ function compute(
     };
   }
   const L = sw.locus;
+  // With a dead time inside a loop, D0 and N0 hold a Padé approximant: mark each root by whether
+  // it stays put at a Padé order two higher (same split, the common factors found there).
+  const pade = sw.delayHandling.mode === 'pade';
+  const higher = pade ? higherOrderRoots(ed, name, overrides, comparisonOrder(padeOrder)) : null;
   // The slider's part again, densely: for hit-testing, framing and the current-pole track.
   // A range through zero is traced on both sides of it.
-  const part = (negative: boolean, lo: number, hi: number) => (hi > lo ? branchesOf(rootLocus(L.num, L.den, { negative, kMin: lo, kMax: hi, samples: 240 }).branches) : []);
+  const part = (negative: boolean, lo: number, hi: number) => (hi > lo ? branchesOf(rootLocus(L.num, L.den, { negative, kMin: lo, kMax: hi, samples: 240, ...budget }).branches) : []);
   const rangeBranches =
     range.min >= 0
       ? part(false, range.min, range.max)
@@ -111,10 +142,13 @@ function compute(
     direction,
     branches: branchesOf(L.branches),
     rangeBranches,
-    oppositeBranches: opposite ? branchesOf(rootLocus(L.num, L.den, { negative: direction === 'positive' }).branches) : null,
+    oppositeBranches: opposite ? branchesOf(rootLocus(L.num, L.den, { negative: direction === 'positive', ...budget }).branches) : null,
     poles: L.poles.map(plain),
     zeros: L.zeros.map(plain),
     fixedPoles: sw.fixedPoles.map(plain),
+    poleOrigin: originsOf(L.poles, pade, () => higher?.poles ?? []),
+    zeroOrigin: originsOf(L.zeros, pade, () => higher?.zeros ?? []),
+    fixedOrigin: originsOf(sw.fixedPoles, pade, () => higher?.fixed ?? []),
     asymptotes: L.asymptotes.centroid === null ? null : { centroid: L.asymptotes.centroid, anglesDeg: [...L.asymptotes.anglesDeg] },
     realAxisSegments: L.realAxisSegments.map((s) => [s.from, s.to] as [number, number]),
     breakaways: L.breakaways.map((b) => ({ s: plain(b.s), gain: b.gain })),

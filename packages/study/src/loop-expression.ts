@@ -3,7 +3,20 @@
  * `loopwright locus --loop`): margins with the dead time exact, and the root locus of
  * 1 + k·L(s) = 0 with a dead time replaced by a Padé approximant (the only place poles need it).
  */
-import { InputError, loopMargins, padeDelay, parseTransferFunction, poly, rootLocus, type LoopMargins, type RootLocus, type TransferFunction } from '@loopwright/lti';
+import {
+  InputError,
+  loopMargins,
+  padeDelay,
+  parseTransferFunction,
+  poly,
+  polyRoots,
+  rootLocus,
+  type LoopMargins,
+  type RootLocus,
+  type TransferFunction,
+} from '@loopwright/lti';
+import { comparisonOrder, originsOf } from './poles.ts';
+import type { PoleOrigin } from './types.ts';
 
 export interface ExpressionLoop {
   text: string;
@@ -17,16 +30,27 @@ export function loopOfExpression(e: ExpressionLoop): TransferFunction {
   return parseTransferFunction(e.text, e.params ?? {});
 }
 
-export function expressionMargins(e: ExpressionLoop, opts: { padeOrder?: number } = {}): { loop: TransferFunction; margins: LoopMargins } {
+export function expressionMargins(
+  e: ExpressionLoop,
+  opts: { padeOrder?: number; deadline?: number } = {},
+): { loop: TransferFunction; margins: LoopMargins; poleOrigin: PoleOrigin[] } {
   const loop = loopOfExpression(e);
-  return { loop, margins: loopMargins(loop, opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {}) };
+  const margins = loopMargins(loop, { ...(opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {}), ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}) });
+  // With a dead time the closed-loop poles are those of 1 + L with a Padé approximant: each is
+  // marked by whether it stays put at an order two higher (roots of D·Pd + N·Pn).
+  const order = margins.padeOrder;
+  const poleOrigin = originsOf(margins.closedLoopPoles, order !== null && loop.delay > 0, () => {
+    const p = padeDelay(loop.delay, comparisonOrder(order!));
+    return polyRoots(poly.add(poly.mul(loop.rational.den, p.den), poly.mul(loop.rational.num, p.num)));
+  });
+  return { loop, margins, poleOrigin };
 }
 
 export type PadeNote = { mode: 'none' } | { mode: 'pade'; order: number; delay: number };
 
 export function expressionLocus(
   e: ExpressionLoop,
-  opts: { negative?: boolean; kMax?: number; samples?: number; padeOrder?: number } = {},
+  opts: { negative?: boolean; kMax?: number; samples?: number; padeOrder?: number; deadline?: number } = {},
 ): { loop: TransferFunction; locus: RootLocus; delayHandling: PadeNote } {
   const loop = loopOfExpression(e);
   const order = opts.padeOrder ?? 3;
@@ -44,6 +68,7 @@ export function expressionLocus(
     negative: opts.negative === true,
     ...(opts.kMax !== undefined ? { kMax: opts.kMax } : {}),
     ...(opts.samples !== undefined ? { samples: opts.samples } : {}),
+    ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}),
   });
   return { loop, locus, delayHandling };
 }

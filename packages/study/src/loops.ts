@@ -12,8 +12,11 @@ import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { frequencyOfLoop } from './cuts.ts';
 import { bodeOf, rhpPoleCount, sharedGrid, transferData } from './transfer-data.ts';
-import type { LiveValue, LoopRow, LoopsData, OuterIdealData } from './types.ts';
+import type { LiveValue, LoopReading, LoopRow, LoopsData, OuterIdealData } from './types.ts';
 import { assertAnalysable } from './validate.ts';
+import { loopAdvice } from './loop-advice.ts';
+import { loopName } from './names.ts';
+import { polesStudy } from './poles.ts';
 
 export interface LoopsRequest {
   overrides?: Record<string, number>;
@@ -27,46 +30,69 @@ export interface LoopsRequest {
 
 const plain = (c: Complex) => ({ re: c.re, im: c.im });
 
-export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
+export function loopsStudy(d: Diagram, req: LoopsRequest = {}, deadline?: number): LoopsData {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
-  const order = req.padeOrder ?? DEFAULT_PADE_ORDER;
-  const live = liveReader(diagram, overrides, req.affine === false ? null : req.live, order);
-  const rep = analyseLoops(diagram, overrides, { padeOrder: order }, live.reader);
-  // Opened loops are named by their cut ids (one name per loop across table, canvas and report).
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
+  const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
+  const live = liveReader(diagram, overrides, req.affine === false ? null : req.live, padeOrder, deadline);
+  const rep = analyseLoops(diagram, overrides, { padeOrder, ...(deadline !== undefined ? { deadline } : {}) }, live.reader);
+  // Opened loops are given by their cut ids; every view names them by loopName (one name per
+  // loop across table, canvas and report).
   const cutOfWire = new Map(rep.cuts.map((c) => [c.wire, c.cut]));
-  const names = (wires: readonly string[]) => wires.map((w) => cutOfWire.get(w) ?? w);
-  const rows: LoopRow[] = rep.cuts.map((c) => ({
-    cutId: c.cut,
-    wire: c.wire,
-    label: c.label,
-    auto: c.auto,
-    stable: c.stable,
-    blocks: [...c.blocks],
-    margins: marginFigures(c.margins),
-    loop: transferData(c.loop),
-    openLoopRhpPoles: rhpPoleCount(c.loop),
-    delayHandling: c.delayHandling,
-    hiddenModes: c.hiddenModes.map(plain),
-    frequency: req.frequency
-      ? { ...frequencyOfLoop({ id: c.cut, wire: c.wire, label: c.label }, c.loop, c.margins, c.delayHandling), sweepPath: live.path() }
-      : null,
-    alone: c.alone.opened.length
+  const ids = (wires: readonly string[]) => wires.map((w) => cutOfWire.get(w) ?? w);
+  const names: Record<string, string> = Object.fromEntries(rep.cuts.map((c) => [c.cut, loopName(diagram, c.cut)]));
+  const rows: LoopRow[] = rep.cuts.map((c) => {
+    const margins = marginFigures(c.margins);
+    const openLoopRhpPoles = rhpPoleCount(c.loop);
+    const alone: LoopReading | null = c.alone.opened.length
       ? {
           loop: transferData(c.alone.loop),
           margins: marginFigures(c.alone.margins),
           openLoopRhpPoles: rhpPoleCount(c.alone.loop),
-          opened: names(c.alone.opened),
+          opened: ids(c.alone.opened),
         }
-      : null,
-  }));
+      : null;
+    return {
+      cutId: c.cut,
+      wire: c.wire,
+      label: names[c.cut],
+      auto: c.auto,
+      stable: c.stable,
+      blocks: [...c.blocks],
+      margins,
+      loop: transferData(c.loop),
+      openLoopRhpPoles,
+      delayHandling: c.delayHandling,
+      frequencyMethod: { ...c.frequency },
+      notes: [...c.margins.notes],
+      hiddenModes: c.hiddenModes.map(plain),
+      frequency: req.frequency
+        ? {
+            ...frequencyOfLoop({ id: c.cut, wire: c.wire, label: names[c.cut] }, { tf: c.loop, source: c.source, delayHandling: c.delayHandling, frequency: c.frequency }, c.margins),
+            sweepPath: live.path(),
+          }
+        : null,
+      alone,
+      advice: loopAdvice(
+        margins,
+        openLoopRhpPoles,
+        alone,
+        (alone?.opened ?? []).map((id) => names[id] ?? id),
+      ),
+    };
+  });
   const byCut = new Map<string, CutAnalysis>(rep.cuts.map((c) => [c.cut, c]));
   const outerVsIdeal: OuterIdealData[] = [];
   for (const o of rep.outerVsIdeal) {
     const outer = byCut.get(o.outer);
     if (!outer) continue;
     // The real curve is the outer loop as read for its margins here: inner-first (outer.alone).
-    const grid = sharedGrid([o.idealLoop, outer.alone.loop]);
+    // Two decades past the highest crossover of either reading is enough: beyond, a dead time
+    // only winds the phase round (the Frequency view's rule too).
+    const wc = [...o.real.gainCrossovers, ...o.ideal.gainCrossovers].filter((w) => w > 0 && Number.isFinite(w));
+    const full = sharedGrid([o.idealLoop, outer.alone.loop]);
+    const clipped = wc.length ? full.filter((w) => w <= 100 * Math.max(...wc)) : full;
+    const grid = clipped.length > 20 ? clipped : full;
     const ideal = bodeOf(o.idealLoop, grid);
     const real = bodeOf(outer.alone.loop, grid);
     outerVsIdeal.push({
@@ -81,15 +107,20 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}): LoopsData {
       idealMargins: marginFigures(o.ideal),
       realLoop: transferData(outer.alone.loop),
       idealLoop: transferData(o.idealLoop),
-      opened: names(outer.alone.opened),
+      opened: ids(outer.alone.opened),
     });
   }
+  // The closed-loop poles as the poles study finds them, each marked by Padé origin.
+  const poles = polesStudy(d, { overrides: req.overrides ?? {}, live: req.live ?? null, padeOrder });
   return {
     rows,
+    names,
     separations: rep.separations.map((s) => ({ ...s })),
     outerVsIdeal,
-    closedLoopPoles: rep.closedLoopPoles.map(plain),
-    stable: rep.stable,
+    closedLoopPoles: poles.poles,
+    closedLoopPoleOrigin: poles.origin,
+    delayHandling: poles.delayHandling,
+    stable: poles.stable,
     notes: [...rep.notes],
     sweepPath: live.path(),
   };

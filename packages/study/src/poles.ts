@@ -6,10 +6,10 @@
  * and is marked so that no view or report passes it off as a property of the plant.
  */
 import { DEFAULT_PADE_ORDER, type Diagram } from '@loopwright/graph';
-import { cabs, polyRoots, type Complex } from '@loopwright/lti';
+import { MAX_PADE_ORDER, cabs, polyRoots, type Complex } from '@loopwright/lti';
 import { characteristicAt, without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
-import type { LiveValue, PoleOrigin, PolesData } from './types.ts';
+import type { Cx, LiveValue, PoleOrigin, PolesData } from './types.ts';
 import { assertAnalysable } from './validate.ts';
 
 export interface PolesRequest {
@@ -33,29 +33,53 @@ export function stableFrom(poles: readonly Complex[]): boolean {
   return poles.every((p) => p.re < -1e-9 * scale);
 }
 
-export function polesStudy(d: Diagram, req: PolesRequest = {}): PolesData {
+export function polesStudy(d: Diagram, req: PolesRequest = {}, deadline?: number): PolesData {
   const base = req.overrides ?? {};
   const { diagram, overrides } = withLiveValue(d, base, req.live);
   // Validated at the document's values: a live slider value cannot change the structure.
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, deadline);
   const order = req.padeOrder ?? DEFAULT_PADE_ORDER;
   const swept = req.live && req.affine !== false ? engineParameterName(req.live.target) : undefined;
-  const main = characteristicAt(diagram, overrides, order, swept);
+  const main = characteristicAt(diagram, overrides, order, swept, deadline);
   const poles = polyRoots(main.poly);
-  let origin: PoleOrigin[] = poles.map(() => 'exact');
-  if (main.handling.mode === 'pade') {
-    const other = polyRoots(characteristicAt(diagram, overrides, order + 2, swept).poly);
-    const scale = Math.max(...poles.map(cabs));
-    origin = poles.map((p) => {
-      const near = Math.min(...other.map((q) => Math.hypot(p.re - q.re, p.im - q.im)));
-      return near <= AGREE * Math.max(cabs(p), 1e-9 * scale) ? 'approximated' : 'approximant';
-    });
-  }
-  return {
-    poles: poles.map(plain),
-    origin,
-    delayHandling: main.handling,
-    stable: stableFrom(poles),
-    sweepPath: main.affine ? 'affine' : 'full',
-  };
+  const origin =
+    main.handling.mode === 'pade'
+      ? padeOrigins(poles, polyRoots(characteristicAt(diagram, overrides, comparisonOrder(order), swept, deadline).poly))
+      : poles.map((): PoleOrigin => 'exact');
+  return { poles: poles.map(plain), origin, delayHandling: main.handling, stable: stableFrom(poles), sweepPath: main.affine ? 'affine' : 'full' };
+}
+
+/** The Padé order a result is compared at to mark its roots: two higher, or two lower at the top order. */
+export const comparisonOrder = (order: number): number => (order + 2 <= MAX_PADE_ORDER ? order + 2 : Math.max(1, order - 2));
+
+/**
+ * How each root found with a Padé approximant relates to the true ones: 'approximated' when a
+ * root of the same problem at a Padé order two higher lies within 1 % of it (it approximates a
+ * true root), else 'approximant' (it belongs to the approximation). `higher`: those roots.
+ */
+export function padeOrigins(roots: readonly Complex[], higher: readonly Complex[]): PoleOrigin[] {
+  const scale = Math.max(0, ...roots.map(cabs));
+  return roots.map((p) => {
+    const near = Math.min(Infinity, ...higher.map((q) => Math.hypot(p.re - q.re, p.im - q.im)));
+    return near <= AGREE * Math.max(cabs(p), 1e-9 * scale) ? 'approximated' : 'approximant';
+  });
+}
+
+/** Origins of roots that involve no approximation unless `pade` (then compared with `higher()`, computed only then). */
+export function originsOf(roots: readonly Complex[], pade: boolean, higher: () => readonly Complex[]): PoleOrigin[] {
+  return pade ? padeOrigins(roots, higher()) : roots.map((): PoleOrigin => 'exact');
+}
+
+/** The origin of the root nearest `at` (a departure angle's pole, an arrival angle's zero). */
+export function originAt(at: Cx, roots: readonly Cx[], origin: readonly PoleOrigin[]): PoleOrigin {
+  let best = -1;
+  let dist = Infinity;
+  roots.forEach((r, i) => {
+    const d = Math.hypot(r.re - at.re, r.im - at.im);
+    if (d < dist) {
+      dist = d;
+      best = i;
+    }
+  });
+  return best < 0 ? 'exact' : (origin[best] ?? 'exact');
 }

@@ -50,6 +50,8 @@ export interface RunContext {
   isCancelled?: () => boolean;
   /** performance.now() (ms) by which the study must end; a run stops there with status 'budget'. */
   deadline?: number;
+  /** Called with the fraction done (0..1) as the work goes on, at most about every 1 %. */
+  onProgress?: (fraction: number) => void;
 }
 
 const clock = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
@@ -94,7 +96,8 @@ export function runSettings(d: Diagram, req: RunRequest = {}, overrides: Record<
     until = automaticEnd(d, overrides);
     untilFrom = 'automatic';
   }
-  if (!(until > 0) || !Number.isFinite(until)) throw new InputError(`simulation end time: ${until} must be a finite number of seconds above 0`, { field: 'until' });
+  if (!(until > 0) || !Number.isFinite(until))
+    throw new InputError(`simulation end time: ${until} must be a finite number of seconds above 0`, { field: 'until' });
   return {
     until,
     untilFrom,
@@ -114,7 +117,11 @@ export function shownProbes(d: Diagram, asked?: string[] | 'all'): string[] {
   const all = d.blocks.filter((b) => b.kind === 'probe').map((b) => b.id);
   if (asked === 'all') return all;
   if (asked) {
-    for (const id of asked) if (!all.includes(id)) throw new InputError(`probe "${id}" is not a probe block of the diagram (probes: ${all.join(', ') || 'none'})`, { field: 'probes' });
+    for (const id of asked)
+      if (!all.includes(id))
+        throw new InputError(`probe "${id}" is not a probe block of the diagram (probes: ${all.join(', ') || 'none'})`, {
+          field: 'probes',
+        });
     return all.filter((id) => asked.includes(id));
   }
   const want = d.simulation?.probes;
@@ -144,6 +151,29 @@ export function actuatorsOf(d: Diagram, overrides: Record<string, number> = {}):
   return out;
 }
 
+/** A probe's unit as its field holds it (null: none given). */
+const probeUnit = (u: unknown): string | null => (typeof u === 'string' && u.trim() !== '' ? u.trim() : null);
+
+/**
+ * The panels a response is drawn in (small multiples on one time axis): probes of one unit
+ * share a panel and its axis, in the order of their first probe; a probe without a unit has a
+ * panel of its own. `shown`: the probe ids shown, in order.
+ */
+export function responsePanels(
+  probes: readonly { id: string; label: string; unit: string | null }[],
+  shown: readonly string[],
+): { unit: string | null; probes: string[] }[] {
+  const out: { unit: string | null; probes: string[] }[] = [];
+  for (const id of shown) {
+    const p = probes.find((x) => x.id === id);
+    if (!p) continue;
+    const same = p.unit === null ? undefined : out.find((g) => g.unit === p.unit);
+    if (same) same.probes.push(id);
+    else out.push({ unit: p.unit, probes: [id] });
+  }
+  return out;
+}
+
 function modelOf(d: Diagram): CompiledModel {
   return cached(models, engineText(d), () => compileModel(d));
 }
@@ -167,7 +197,8 @@ function traceOf(r: SimResult): RunTrace {
       : null;
   }
   const actuatorFigures: RunTrace['actuatorFigures'] = {};
-  for (const [id, a] of Object.entries(r.actuators)) actuatorFigures[id] = { timeInSaturation: a.timeInSaturation, peakEffort: a.peakEffort, limitHits: a.limitHits };
+  for (const [id, a] of Object.entries(r.actuators))
+    actuatorFigures[id] = { timeInSaturation: a.timeInSaturation, peakEffort: a.peakEffort, limitHits: a.limitHits };
   return {
     time: r.time,
     traces: r.traces,
@@ -225,7 +256,7 @@ function metricsRows(d: Diagram, r: RunTrace, actuators: ActuatorInfo[]): Metric
 
 export function responseStudy(d: Diagram, req: RunRequest = {}, ctx: RunContext = {}): ResponseResult {
   const { diagram, overrides } = withLiveValue(d, req.overrides ?? {}, req.live);
-  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides);
+  assertAnalysable(diagram, req.live ? without(overrides, engineParameterName(req.live.target)) : overrides, ctx.deadline);
   const settings = runSettings(diagram, req, overrides);
   const shown = shownProbes(diagram, req.probes);
   const actuators = actuatorsOf(diagram, overrides);
@@ -239,18 +270,29 @@ export function responseStudy(d: Diagram, req: RunRequest = {}, ctx: RunContext 
     atol: settings.atol,
     outputStep: settings.outputStep,
     // The run's own budget, shortened to what the caller's deadline leaves (half each when an overlay follows).
-    maxWallMs: Math.max(1, Math.min(req.maxWallMs ?? DEFAULT_RUN_MS, ctx.deadline !== undefined ? (ctx.deadline - clock()) / (req.linearOverlay ? 2 : 1) : Infinity)),
+    maxWallMs: Math.max(
+      1,
+      Math.min(
+        req.maxWallMs ?? DEFAULT_RUN_MS,
+        ctx.deadline !== undefined ? (ctx.deadline - clock()) / (req.linearOverlay ? 2 : 1) : Infinity,
+      ),
+    ),
     ...(settings.maxSteps !== null ? { maxSteps: settings.maxSteps } : {}),
     isCancelled: ctx.isCancelled,
   };
   const linearOnly = req.model === 'linear';
-  const run = traceOf(simulate(model, { ...common, linear: linearOnly }));
-  const linear = !linearOnly && req.linearOverlay ? traceOf(simulate(model, { ...common, linear: true })) : null;
+  const overlay = !linearOnly && req.linearOverlay === true;
+  // Progress: the run as drawn, then the linear overlay, each its share of the whole.
+  const share = (from: number, size: number) => (ctx.onProgress ? { onProgress: (f: number) => ctx.onProgress!(from + size * f) } : {});
+  const run = traceOf(simulate(model, { ...common, linear: linearOnly, ...share(0, overlay ? 0.5 : 1) }));
+  const linear = overlay ? traceOf(simulate(model, { ...common, linear: true, ...share(0.5, 0.5) })) : null;
   return {
     run,
     model: linearOnly ? 'linear' : 'as-drawn',
     linear,
-    probes: diagram.blocks.filter((b) => b.kind === 'probe').map((b) => ({ id: b.id, label: b.label ?? b.id })),
+    probes: diagram.blocks
+      .filter((b) => b.kind === 'probe')
+      .map((b) => ({ id: b.id, label: b.label ?? b.id, unit: probeUnit(b.params.unit) })),
     shownProbes: shown,
     actuators,
     metrics: metricsRows(diagram, run, actuators),

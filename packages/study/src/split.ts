@@ -25,10 +25,10 @@ export function without(overrides: Record<string, number>, name: string): Record
 }
 
 /** D0 + k·N0 for `name` (null when the polynomial is not affine in it, or either part vanishes). */
-export function splitOf(d: Diagram, name: string, overrides: Record<string, number>, padeOrder: number): Split | null {
+export function splitOf(d: Diagram, name: string, overrides: Record<string, number>, padeOrder: number, deadline?: number): Split | null {
   const rest = without(overrides, name);
   return cached(splits, `${engineText(d)}|${name}|${JSON.stringify(rest)}|${padeOrder}`, () => {
-    const s = affineSplit(d, name, rest, { padeOrder });
+    const s = affineSplit(d, name, rest, { padeOrder, ...(deadline !== undefined ? { deadline } : {}) });
     if (!s || poly.isZero(s.n0) || poly.isZero(s.d0)) return null;
     return { n0: s.n0, d0: s.d0, handling: s.handling };
   });
@@ -40,10 +40,11 @@ export function characteristicAt(
   overrides: Record<string, number>,
   padeOrder: number,
   swept?: string,
+  deadline?: number,
 ): { poly: number[]; handling: DelayHandling; affine: boolean } {
   if (swept !== undefined && overrides[swept] !== undefined) {
-    const s = splitOf(d, swept, overrides, padeOrder);
+    const s = splitOf(d, swept, overrides, padeOrder, deadline);
     if (s) return { poly: poly.add(s.d0, poly.scale(s.n0, overrides[swept])), handling: s.handling, affine: true };
   }
-  return { ...characteristicPolynomial(d, overrides, { padeOrder }), affine: false };
+  return { ...characteristicPolynomial(d, overrides, { padeOrder, ...(deadline !== undefined ? { deadline } : {}) }), affine: false };
 }

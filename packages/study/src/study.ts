@@ -14,6 +14,12 @@ import { polesStudy, type PolesRequest } from './poles.ts';
 import { responseStudy, type RunContext, type RunRequest } from './run.ts';
 import type { CheckData, ClosedLoopData, FrequencyData, LocusData, LoopsData, Part, PolesData, ResponseResult } from './types.ts';
 import { checkStudy } from './validate.ts';
+import { fitStudy, testLogStudy, type FitRequest, type TestLogRequest } from './fit-study.ts';
+import { tuneStudy, type TuneRequest } from './tune-study.ts';
+import { cascadeStudy, type CascadeRequest } from './cascade-study.ts';
+import { dampingStudy, type DampingRequest } from './damping-study.ts';
+import type { CascadeData, DampingData, FitData, TestLogData, TuneData } from './types.ts';
+import { reportStudy, type ReportData, type ReportRequest } from './report/report.ts';
 
 export interface StudyKinds {
   /** Every finding of the diagram (what `loopwright check` lists). */
@@ -30,6 +36,18 @@ export interface StudyKinds {
   'closed-loop': { request: ClosedLoopRequest; result: ClosedLoopData };
   /** A time simulation. */
   run: { request: RunRequest; result: ResponseResult };
+  /** The columns of a CSV test log (no diagram needed). */
+  'test-log': { request: TestLogRequest; result: TestLogData };
+  /** Process models fitted to a CSV test log (no diagram needed). */
+  fit: { request: FitRequest; result: FitData };
+  /** A suggested controller setting for a loop (by its cut) or a model expression. */
+  tune: { request: TuneRequest; result: TuneData };
+  /** Every loop tuned inner-first, innermost first. */
+  cascade: { request: CascadeRequest; result: CascadeData };
+  /** The swept value that gives the dominant poles a target damping. */
+  damping: { request: DampingRequest; result: DampingData };
+  /** The design report (self-contained HTML) with everything it shows computed here. */
+  report: { request: ReportRequest; result: ReportData };
 }
 
 export type StudyKind = keyof StudyKinds;
@@ -37,32 +55,61 @@ export type StudyRequest = { [K in StudyKind]: { kind: K } & StudyKinds[K]['requ
 export type StudyResultOf<K extends StudyKind> = StudyKinds[K]['result'];
 export type StudyResult = { [K in StudyKind]: { kind: K; value: StudyKinds[K]['result'] } }[StudyKind];
 
-/**
- * What a study may be given besides plain data: a cancellation poll and a deadline. Runs honour
- * both now; the analyses will pass the deadline on as the math packages accept one.
- */
-export type StudyContext = RunContext;
+/** How far a batch of studies has got: part `part` (0-based) of `parts`, and the fraction of that part done when it says (runs do). */
+export interface StudyProgress {
+  part: number;
+  parts: number;
+  kind: StudyKind;
+  /** 0..1 within the part; null when the part cannot tell (an analysis in one piece). */
+  fraction: number | null;
+}
 
-type Handlers = { [K in StudyKind]: (d: Diagram, req: { kind: K } & StudyKinds[K]['request'], ctx: StudyContext) => StudyKinds[K]['result'] };
+/**
+ * What a study may be given besides plain data: a cancellation poll, a deadline and a progress
+ * callback. Runs honour all three and report progress per part; every analysis passes the
+ * deadline on to graph and lti, which stop past it with a BudgetError naming the analysis (a
+ * failed part with reason 'budget'; the CLI's exit 2).
+ */
+export interface StudyContext extends Omit<RunContext, 'onProgress'> {
+  onProgress?: (p: StudyProgress) => void;
+}
+
+type Handlers = { [K in StudyKind]: (d: Diagram, req: { kind: K } & StudyKinds[K]['request'], ctx: RunContext) => StudyKinds[K]['result'] };
 
 const HANDLERS: Handlers = {
-  check: (d, r) => checkStudy(d, r.overrides ?? {}),
-  locus: (d, r) => locusStudy(d, r),
-  poles: (d, r) => polesStudy(d, r),
-  cut: (d, r) => cutStudy(d, r),
-  loops: (d, r) => loopsStudy(d, r),
-  'closed-loop': (d, r) => closedLoopStudy(d, r),
+  check: (d, r, ctx) => checkStudy(d, r.overrides ?? {}, ctx.deadline),
+  locus: (d, r, ctx) => locusStudy(d, r, ctx.deadline),
+  poles: (d, r, ctx) => polesStudy(d, r, ctx.deadline),
+  cut: (d, r, ctx) => cutStudy(d, r, ctx.deadline),
+  loops: (d, r, ctx) => loopsStudy(d, r, ctx.deadline),
+  'closed-loop': (d, r, ctx) => closedLoopStudy(d, r, ctx.deadline),
   run: (d, r, ctx) => responseStudy(d, r, ctx),
+  'test-log': (_d, r) => testLogStudy(r),
+  fit: (_d, r) => fitStudy(r),
+  tune: (d, r) => tuneStudy(d, r),
+  cascade: (d, r) => cascadeStudy(d, r),
+  damping: (d, r) => dampingStudy(d, r),
+  report: (d, r, ctx) => reportStudy(d, r, ctx),
 };
 
 /** Runs one study; throws what it throws (InputError for bad input, naming what is wrong). */
 export function runStudy<K extends StudyKind>(d: Diagram, req: { kind: K } & StudyKinds[K]['request'], ctx: StudyContext = {}): StudyKinds[K]['result'] {
-  const handler = HANDLERS[req.kind] as unknown as (d: Diagram, r: typeof req, c: StudyContext) => StudyKinds[K]['result'];
+  return runPart(d, req, ctx, 0, 1);
+}
+
+function runPart<K extends StudyKind>(d: Diagram, req: { kind: K } & StudyKinds[K]['request'], ctx: StudyContext, i: number, n: number): StudyKinds[K]['result'] {
+  const handler = HANDLERS[req.kind] as unknown as (d: Diagram, r: typeof req, c: RunContext) => StudyKinds[K]['result'];
   if (!handler) throw new Error(`unknown study kind "${String((req as { kind: unknown }).kind)}"`);
-  return handler(d, req, ctx);
+  const report = ctx.onProgress;
+  report?.({ part: i, parts: n, kind: req.kind, fraction: null });
+  const inner: RunContext = {};
+  if (ctx.isCancelled) inner.isCancelled = ctx.isCancelled;
+  if (ctx.deadline !== undefined) inner.deadline = ctx.deadline;
+  if (report) inner.onProgress = (fraction) => report({ part: i, parts: n, kind: req.kind, fraction });
+  return handler(d, req, inner);
 }
 
 /** Runs several studies of one diagram; each result is a part of its own (one failure does not blank the rest). */
 export function runStudies(d: Diagram, reqs: readonly StudyRequest[], ctx: StudyContext = {}): Part<StudyResult>[] {
-  return reqs.map((r) => part(() => ({ kind: r.kind, value: runStudy(d, r, ctx) }) as StudyResult));
+  return reqs.map((r, i) => part(() => ({ kind: r.kind, value: runPart(d, r, ctx, i, reqs.length) }) as StudyResult));
 }

@@ -2,3 +2,4 @@
 // and scenarios of our own used by tests across the repo. Not part of the public API.
 export { build, unityLoop } from './testing/builders.ts';
 export { coolingReverseActing, furnaceCascade, tankFeedforward } from './testing/scenarios.ts';
+export { firstNaN } from './testing/finite.ts';

@@ -3,8 +3,14 @@
  * functions, no Maps), so that a worker can post them and the command line can print them as
  * JSON. Polynomials are ascending; complex numbers are {re, im}.
  */
-import type { DelayHandling, Finding, Separation, SignalRef } from '@loopwright/graph';
+import type { CutFrequencyMethod, DelayHandling, Finding, Separation, SignalRef } from '@loopwright/graph';
 import type { MarginFigures } from '@loopwright/lti';
+import type { FitProvenance, ProcessFit, ProcessModel, ProcessModelKind, fitSummary } from '@loopwright/fit';
+import type { ControllerSetting, TuneRule } from '@loopwright/tune';
+import type { ControllerPatch } from './controller-block.ts';
+import type { LoopAdvice } from './loop-advice.ts';
+
+export type { LoopAdvice };
 
 export type { DelayHandling, Finding, SignalRef };
 
@@ -87,6 +93,10 @@ export interface LocusData {
   zeros: Cx[];
   /** Closed-loop poles that do not move with the swept value (common roots of N0 and D0). */
   fixedPoles: Cx[];
+  /** How each of poles, zeros and fixedPoles was found (with a dead time inside a loop: Padé marks). */
+  poleOrigin: PoleOrigin[];
+  zeroOrigin: PoleOrigin[];
+  fixedOrigin: PoleOrigin[];
   asymptotes: { centroid: number; anglesDeg: number[] } | null;
   realAxisSegments: [number, number][];
   breakaways: { s: Cx; gain: number }[];
@@ -148,7 +158,12 @@ export interface FrequencyData {
   /** Poles of L in the open right half-plane (Nyquist: encirclements of −1 needed for stability). */
   openLoopRhpPoles: number;
   loop: TransferData;
+  /** How dead times enter L(s) (its poles): exact, or Padé where they sit inside other loops. */
   delayHandling: DelayHandling;
+  /** How L(jω) here (curves and margins) was evaluated: 'rational', or 'exact' in every dead time (solved at s = jω when `solved`). */
+  frequencyMethod: CutFrequencyMethod;
+  /** What the margins could not say plainly: crossovers past a stated frequency, limited accuracy, … */
+  notes: string[];
   /** How L at the live value was found (see SweepPath). */
   sweepPath?: SweepPath;
 }
@@ -166,6 +181,7 @@ export interface LoopRow {
   /** Cut id, or "auto:<wire>" for a loop the engine proposed on a feedback wire. */
   cutId: string;
   wire: string;
+  /** The loop's one name (loopName: the cut's label, else its id), as the canvas shows it. */
   label: string;
   auto: boolean;
   stable: boolean;
@@ -175,11 +191,17 @@ export interface LoopRow {
   loop: TransferData;
   openLoopRhpPoles: number;
   delayHandling: DelayHandling;
+  /** How L(jω) was evaluated for the margins (see FrequencyData.frequencyMethod). */
+  frequencyMethod: CutFrequencyMethod;
+  /** The margins' notes (crossovers past a stated frequency, limited accuracy, …). */
+  notes: string[];
   hiddenModes: Cx[];
   /** The same cut read inner-first: the loops around it opened (null when none enclose it). */
   alone: LoopReading | null;
   /** Bode/Nyquist/S/T data of L (every other loop closed), when the request asked for it. */
   frequency: FrequencyData | null;
+  /** Which reading to act on, and why (the open-loop RHP pole counts explain a negative PM). */
+  advice: LoopAdvice;
 }
 
 /** Inner/outer separation of a nested pair (graph's Separation: plain data). */
@@ -207,10 +229,15 @@ export interface OuterIdealData {
 
 export interface LoopsData {
   rows: LoopRow[];
+  /** The one name of each loop by cut id (rows, separations, real-vs-ideal pairs, opened lists). */
+  names: Record<string, string>;
   separations: SeparationRow[];
   /** Every nested pair (each inner loop with the smallest loop around it). */
   outerVsIdeal: OuterIdealData[];
   closedLoopPoles: Cx[];
+  /** How each closed-loop pole was found (Padé marks, see PoleOrigin). */
+  closedLoopPoleOrigin: PoleOrigin[];
+  delayHandling: DelayHandling;
   /** Whole-diagram stability from the closed-loop poles. */
   stable: boolean;
   notes: string[];
@@ -229,6 +256,9 @@ export interface ClosedLoopData {
   transfer: TransferData;
   poles: Cx[];
   zeros: Cx[];
+  /** How each pole and zero was found (with a dead time inside a loop: Padé marks, see PoleOrigin). */
+  poleOrigin: PoleOrigin[];
+  zeroOrigin: PoleOrigin[];
   /** Leading-coefficient gain k of k·Π(s − z)/Π(s − p); static gain T(0) (±Infinity with a pole at 0). */
   gain: number;
   staticGain: number;
@@ -304,7 +334,8 @@ export interface ResponseResult {
   model: 'as-drawn' | 'linear';
   /** The linear model's run for an overlay (null when not asked for). */
   linear: RunTrace | null;
-  probes: { id: string; label: string }[];
+  /** Every probe of the diagram with its unit (the probe's unit field; null when none is given). */
+  probes: { id: string; label: string; unit: string | null }[];
   /** Probes the diagram shows (simulation.probes, else every probe), in diagram order. */
   shownProbes: string[];
   actuators: ActuatorInfo[];
@@ -319,4 +350,114 @@ export interface ResponseResult {
 export interface CheckData {
   findings: Finding[];
   counts: { error: number; warning: number; info: number };
+}
+
+// ------------------------------------------------------------------------------ test logs and fits
+
+/** The columns of a test log before any is chosen, and the ones a fit would use. */
+export interface TestLogData {
+  fileName: string | null;
+  /** Every column: the header's names, else "column N". */
+  columns: string[];
+  header: boolean;
+  separator: ',' | ';' | '\t';
+  decimal: '.' | ',';
+  rows: number;
+  /** The columns chosen (by the request, else 1, 2, 3), by name. */
+  chosen: { time: string; input: string; output: string };
+}
+
+/** One model fitted to the log: @loopwright/fit's ProcessFit, its CLI summary and its provenance (what a block's fit record holds). */
+export type FittedModel = ProcessFit & { summary: ReturnType<typeof fitSummary>; provenance: FitProvenance };
+
+export interface FitData {
+  /** Where the log came from (as a fit's provenance names it) and its series. */
+  log: FitProvenance['source'] & { time: number[]; input: number[]; output: number[] };
+  /** One part per model asked for, in the order asked (a model that does not fit fails on its own). */
+  fits: { model: ProcessModelKind; result: Part<FittedModel> }[];
+  /** The caution shown beside every fit. */
+  caution: string;
+}
+
+// ------------------------------------------------------------------------------ tunings
+
+/** Set-point and load-disturbance step responses of a loop before (null: no loop today) and after a tuning; null where a run stopped early. */
+export interface StepResponses {
+  time: number[];
+  setpoint: { before: (number | null)[] | null; after: (number | null)[] };
+  load: { before: (number | null)[] | null; after: (number | null)[] };
+  /** Why a run stopped early (null: it ran to the end). */
+  status: { before: string | null; after: string | null };
+}
+
+/** A suggested setting as the CLI and views show it: @loopwright/tune's suggestion reduced to plain figures. */
+export interface TuneData {
+  rule: TuneRule;
+  /** What was tuned: a cut of the diagram, or a model expression. */
+  source: 'cut' | 'model';
+  cut: { id: string; wire: string; label: string } | null;
+  reading: 'closed' | 'inner-first';
+  /** Cut ids opened for the reading (inner-first: the loops around it). */
+  opened: string[];
+  /** The controller block set by the suggestion and what it holds today (null: a model with no block named). */
+  block: { id: string; label: string; current: ControllerSetting; derivativeFilter: number } | null;
+  /** What the controller sees, P = L/C (or the model given). */
+  process: TransferData;
+  /** true when P does not depend on the controller (see loop-reading.ts); false: divided by today's controller. */
+  processExact: boolean;
+  delayHandling: DelayHandling | null;
+  /** The low-order model a rule used (null for the ms and zn-ultimate rules). */
+  model: ProcessModel | null;
+  /** How that model came from P: 'model' (P has that form), 'half rule', 'step fit' (least squares on P's exact step response), or null. */
+  modelFrom: 'model' | 'half rule' | 'step fit' | null;
+  /** Ku and Pu (zn-ultimate): from the diagram's own crossing. */
+  ultimate: { ku: number; pu: number; omega: number; from: 'frequency response' | 'root locus' | 'model' } | null;
+  controller: ControllerSetting;
+  derivativeFilter: number;
+  settings: Record<string, number>;
+  /** Margins of the loop with the suggestion in place (at the cut, read as asked; or C·P of the model). */
+  predicted: MarginsData;
+  /** The same figures for the loop as it is today (null: no loop today, or a model). */
+  current: MarginsData | null;
+  /** L with the suggestion in place (what `loopwright margins --loop` reads back). */
+  loop: TransferData;
+  /** The edit that applies the suggestion (null: no block). */
+  apply: ControllerPatch | null;
+  responses: StepResponses | null;
+  notes: string[];
+  caution: string;
+}
+
+/** Inner-first tuning of every loop of a cascade: one step per loop, innermost first. */
+export interface CascadeData {
+  rule: TuneRule;
+  steps: { cut: string; label: string; depth: number; result: Part<TuneData> }[];
+  /** Separation ratios with every suggestion applied (flagged below 3). */
+  separations: SeparationRow[];
+  /** Each loop's margins with every suggestion applied, every other loop closed. */
+  final: { cut: string; label: string; margins: MarginsData }[];
+  /** Every step's edit, in order (apply them in this order). */
+  apply: ControllerPatch[];
+  notes: string[];
+  caution: string;
+}
+
+/** The gain for a target damping on the exact locus of the current sweep. */
+export interface DampingData {
+  zeta: number;
+  target: string;
+  parameter: string;
+  /** The swept value that puts the dominant poles at damping ζ (null: no dominant crossing). */
+  value: number | null;
+  /** 'strict': no closed-loop pole to their right; 'oscillatory': only real poles to their right (see notes). */
+  dominance: 'strict' | 'oscillatory' | null;
+  /** The document's value now. */
+  current: number;
+  pole: Cx | null;
+  naturalFrequency: number | null;
+  poles: Cx[];
+  /** Every crossing of the ζ line, ascending |value|. */
+  crossings: { value: number; pole: Cx; dominant: boolean }[];
+  delayHandling: DelayHandling;
+  notes: string[];
 }

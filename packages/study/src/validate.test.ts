@@ -52,7 +52,13 @@ describe('what check refuses, every study refuses with the same message', () => 
   });
   it('an ill-posed algebraic self-loop (1 − loop gain at s → ∞ = 0)', () => {
     const d = build(
-      [['r', 'source'], ['e', 'summing-junction', { signs: '++' }], ['k', 'gain', { k: 'K' }], ['g', 'transfer-function', { expression: '1/(s + 1)' }], ['y', 'probe']],
+      [
+        ['r', 'source'],
+        ['e', 'summing-junction', { signs: '++' }],
+        ['k', 'gain', { k: 'K' }],
+        ['g', 'transfer-function', { expression: '1/(s + 1)' }],
+        ['y', 'probe'],
+      ],
       ['r->e.in1', 'e->k', 'k->g', 'g->y', 'self:k->e.in2'],
       [{ name: 'K', value: 1, min: 0.5, max: 2, scale: 'log' }],
     );
@@ -65,5 +71,38 @@ describe('what check refuses, every study refuses with the same message', () => 
     expect(c.counts.error).toBe(0);
     expect(c.counts.warning).toBeGreaterThan(0);
     expect(() => runStudy(d, { kind: 'loops' })).not.toThrow();
+  });
+});
+
+describe('one verdict on an algebraic loop', () => {
+  // A gain in a junction's own positive feedback (well posed: 1 − 0.5 ≠ 0) in front of a lag.
+  const d = () =>
+    build(
+      [
+        ['r', 'source'],
+        ['e', 'summing-junction', { signs: '++' }],
+        ['k', 'gain', { k: 0.5 }],
+        ['g', 'transfer-function', { expression: '1/(s + 1)' }],
+        ['y', 'probe'],
+      ],
+      ['r->e.in1', 'e->k', 'k->g', 'g->y', 'self:k->e.in2'],
+    );
+
+  it("the finding says the simulation cannot run it, in the simulator's words, and never that it is solved", () => {
+    const f = checkStudy(d()).findings.find((x) => x.code === 'algebraic-loop')!;
+    expect(f.severity).toBe('warning');
+    expect(f.message).not.toMatch(/found by solving it/);
+    expect(f.message).toMatch(/The linear analyses solve it, but the time simulation cannot run it: algebraic loop through blocks/);
+    // …and the run refuses with the same words.
+    let refusal = '';
+    try {
+      runStudy(d(), { kind: 'run', until: 1 });
+    } catch (e) {
+      refusal = (e as Error).message;
+    }
+    expect(refusal).toMatch(/^algebraic loop through blocks/);
+    expect(f.message.endsWith(refusal)).toBe(true);
+    // The analyses still run (the loop is well posed).
+    expect(() => runStudy(d(), { kind: 'poles' })).not.toThrow();
   });
 });

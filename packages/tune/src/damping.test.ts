@@ -45,6 +45,23 @@ describe('gainForDamping', () => {
     expect(r.gain).toBe(r.crossings.find((c) => c.dominant)?.gain ?? null);
   });
 
+  it('finds every crossing when fast and slow poles make the coefficients span many decades (a cascade with a fast inner loop)', () => {
+    // 1e32·K/(s(s + 1)(s + 1e4)^8): the slow pair s² + s + K' has ζ = 0.7 near K' = 1/1.96 (Ogata,
+    // Sec. 5-3 (from memory)); the eight poles at −1e4 leave it at (2q + 1)·180°/8 (root-locus
+    // departure from a repeated pole, Ogata Sec. 6-3 (from memory)), so branches near |s| = 1e4
+    // also cross the ζ = 0.7 ray. Coefficients span 32 decades.
+    let D = fd([1, 1, 0]);
+    for (let i = 0; i < 8; i++) D = poly.mul(D, [1e4, 1]);
+    const r = gainForDamping([1e32], D, 0.7);
+    expect(Math.abs(r.gain! - 1 / 1.96) / (1 / 1.96)).toBeLessThan(2e-3);
+    expect(r.crossings.some((c) => Math.hypot(c.pole.re, c.pole.im) > 1e3 && Math.hypot(c.pole.re, c.pole.im) < 1e5)).toBe(true);
+    for (const c of r.crossings) {
+      const poles = polyRoots(poly.add(D, [1e32 * c.gain]));
+      const near = Math.min(...poles.map((p) => Math.hypot(p.re - c.pole.re, p.im - c.pole.im) / Math.hypot(c.pole.re, c.pole.im)));
+      expect(near).toBeLessThan(1e-5);
+    }
+  });
+
   it('rejects ζ outside [0, 1) and a zero N0', () => {
     expect(() => gainForDamping([1], [0, 1], 1)).toThrow(InputError);
     expect(() => gainForDamping([], [0, 1], 0.5)).toThrow(InputError);

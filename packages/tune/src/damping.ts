@@ -61,11 +61,18 @@ export function gainForDamping(num: readonly number[], den: readonly number[], z
   const nw = N.map((c, i) => cx(c * powers[i].re, c * powers[i].im));
   // Im(Σ dw_i r^i · Σ conj(nw_j) r^j) = Σ_k r^k Σ_(i+j=k) Im(dw_i·conj(nw_j)).
   const im = new Array<number>(D.length + N.length - 1).fill(0);
+  const size = new Array<number>(D.length + N.length - 1).fill(0);
   for (let i = 0; i < dw.length; i++) {
-    for (let j = 0; j < nw.length; j++) im[i + j] += dw[i].im * nw[j].re - dw[i].re * nw[j].im;
+    for (let j = 0; j < nw.length; j++) {
+      im[i + j] += dw[i].im * nw[j].re - dw[i].re * nw[j].im;
+      size[i + j] += Math.abs(dw[i].im * nw[j].re) + Math.abs(dw[i].re * nw[j].im);
+    }
   }
-  const scale = Math.max(...im.map(Math.abs));
-  const cleaned = poly.trim(im.map((c) => (Math.abs(c) <= 1e-14 * scale ? 0 : c)));
+  // A coefficient that is round-off of terms cancelling exactly is zero. The test is per
+  // coefficient, against the size of the terms summed into it: coefficients of a diagram's
+  // polynomial span many decades (fast and slow loops), so one threshold for all would drop
+  // the high powers that decide the large roots.
+  const cleaned = poly.trim(im.map((c, k) => (Math.abs(c) <= 1e-12 * size[k] ? 0 : c)));
   const crossings: DampingCrossing[] = [];
   if (cleaned.length > 1) {
     // Roots r = 0 (from a factor r^m) are the origin, not a point with damping ζ.

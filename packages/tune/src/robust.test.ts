@@ -80,4 +80,8 @@ describe('robustTune: largest integral gain with Ms ≤ target', () => {
     expect(() => robustTune(plant, { pmMinDeg: 95 })).toThrow(fieldError('pmMinDeg'));
     expect(() => robustTune(plant, { gmMin: 0.5 })).toThrow(fieldError('gmMin'));
   });
+
+  it('says why a first-order lag without dead time has no answer: PI·K/(τs + 1) never nears −1, so Ms bounds no integral gain', () => {
+    expect(() => robustTune(tfFromCoefficients([0.8], [1, 0.0025]))).toThrow(/integral gain can grow without limit/);
+  });
 });

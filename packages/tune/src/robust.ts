@@ -297,6 +297,13 @@ export function robustTune(plant: TransferFunction, opts: RobustTuneOptions = {}
     }
     ({ kp, ki, td } = best);
   }
+  if (ki === Infinity) {
+    // PI on a first-order lag without dead time never nears −1: Ms bounds no integral gain.
+    throw new InputError(
+      `Ms ≤ ${msMax} bounds no ${kind.toUpperCase()} setting of this plant: the integral gain can grow without limit (a lag without dead time); give the loop its real delays (sampling, sensor, actuator) or use a rule with a chosen closed-loop time`,
+      { field: 'plant' },
+    );
+  }
   if (!(ki > 0) || !Number.isFinite(ki)) {
     throw new InputError(
       `no ${kind.toUpperCase()} setting meets Ms ≤ ${msMax}${gm ? `, GM ≥ ${gm}` : ''}${pm ? `, PM ≥ ${pm}°` : ''} for this plant`,

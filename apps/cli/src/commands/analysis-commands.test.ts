@@ -87,7 +87,7 @@ describe('loopwright loops', () => {
     expect(Math.abs(pos.ideal.phaseMarginDeg - 90)).toBeLessThan(1e-6);
     const t = fakeIo(files);
     expect(await main(['loops', 'axis.loop.json'], t.io)).toBe(0);
-    expect(t.out()).toMatch(/cut current \(current loop\) on wire fbCur/);
+    expect(t.out()).toMatch(/current loop: cut current on wire fbCur/);
     expect(t.out()).toMatch(/separation/);
   });
 });

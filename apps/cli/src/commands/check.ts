@@ -29,7 +29,7 @@ export const checkCommand: Command = {
   name: 'check',
   summary: 'list structural and analytical findings of a diagram',
   help,
-  async run(argv: string[], io: CliIo) {
+  async run(argv: string[], io: CliIo, budget: { deadline?: number } = {}) {
     const args = parseArgs(argv, ['set'], ['json']);
     if (args.positional.length !== 1) throw new UsageError('check needs exactly one FILE (see loopwright check --help)');
     const file = args.positional[0];
@@ -49,7 +49,7 @@ export const checkCommand: Command = {
     }
     checkSets(d, overrides);
 
-    const { findings, counts: n } = checkStudy(d, overrides);
+    const { findings, counts: n } = checkStudy(d, overrides, budget.deadline);
     if (json) {
       io.stdout(toJson({ file, loaded: true, overrides: { ...overrides }, counts: n, findings }));
     } else {

@@ -13,7 +13,10 @@ export async function readDiagramText(io: CliIo, path: string): Promise<string> 
     return await io.readFile(path);
   } catch (err) {
     const code = (err as { code?: string }).code;
-    throw new UsageError(`cannot read ${path}${code === 'ENOENT' ? ': no such file' : `: ${err instanceof Error ? err.message : String(err)}`}`, path);
+    throw new UsageError(
+      `cannot read ${path}${code === 'ENOENT' ? ': no such file' : `: ${err instanceof Error ? err.message : String(err)}`}`,
+      path,
+    );
   }
 }
 
@@ -47,14 +50,29 @@ const num = (x: number, digits = 6) => {
 export const fmtNumber = num;
 
 /** Roots for people: conjugate pairs once as "a ± bj". */
-export function fmtRoots(roots: readonly Complex[]): string {
+export const fmtRoots = (roots: readonly Complex[]): string => fmtRootsMarked(roots, []);
+
+/** Words for a root found through a Padé approximant (see study PoleOrigin); nothing for an exact one. */
+const ORIGIN_MARK: Record<string, string> = { exact: '', approximated: ' [via Padé]', approximant: ' [Padé artefact]' };
+
+/** Roots as fmtRoots prints them, each marked by how it was found (origin[i] belongs to roots[i]; none: unmarked). */
+export function fmtRootsMarked(roots: readonly Complex[], origin: readonly string[]): string {
   if (roots.length === 0) return 'none';
   const out: string[] = [];
-  for (const z of roots) {
-    if (z.im < 0 && roots.some((w) => w.im > 0 && Math.abs(w.re - z.re) <= 1e-12 * Math.max(1, Math.abs(z.re)) && Math.abs(w.im + z.im) <= 1e-12 * Math.max(1, Math.abs(z.im)))) continue;
-    out.push(z.im === 0 ? num(z.re) : `${num(z.re)} ± ${num(Math.abs(z.im))}j`);
-  }
+  roots.forEach((z, i) => {
+    // The lower member of a conjugate pair is said with the upper one.
+    const tol = (v: number) => 1e-12 * Math.max(1, Math.abs(v));
+    if (z.im < 0 && roots.some((w) => w.im > 0 && Math.abs(w.re - z.re) <= tol(z.re) && Math.abs(w.im + z.im) <= tol(z.im))) return;
+    out.push(`${z.im === 0 ? num(z.re) : `${num(z.re)} ± ${num(Math.abs(z.im))}j`}${ORIGIN_MARK[origin[i]] ?? ''}`);
+  });
   return out.join(', ');
+}
+
+/** A note on Padé marks when any root carries one. */
+export function padeLegend(origin: readonly string[]): string | null {
+  return origin.some((o) => o !== 'exact')
+    ? '[via Padé]: approximates a true root (stays put at a Padé order two higher); [Padé artefact]: belongs to the approximation of a dead time, not to the plant'
+    : null;
 }
 
 /** A rational function with dead time, highest power first, as the parser reads it back. */
@@ -70,7 +88,10 @@ export function checkSets(d: Diagram, sets: Record<string, number>): void {
   const known = new Set(d.parameters.map((p) => p.name));
   for (const name of Object.keys(sets)) {
     if (!known.has(name)) {
-      throw new UsageError(`--set ${name}: the diagram has no named parameter "${name}" (known: ${[...known].join(', ') || 'none'})`, '--set');
+      throw new UsageError(
+        `--set ${name}: the diagram has no named parameter "${name}" (known: ${[...known].join(', ') || 'none'})`,
+        '--set',
+      );
     }
   }
 }

@@ -5,6 +5,9 @@ import { checkCommand } from './check.ts';
 import { reduceCommand } from './reduce.ts';
 import { loopsCommand } from './loops.ts';
 import { simulateCommand } from './simulate.ts';
+import { fitCommand } from './fit.ts';
+import { tuneCommand } from './tune.ts';
+import { reportCommand } from './report.ts';
 
 /** Every command, in the order `loopwright --help` lists them. */
 export const commands: Command[] = [
@@ -14,4 +17,7 @@ export const commands: Command[] = [
   reduceCommand,
   loopsCommand,
   simulateCommand,
+  fitCommand,
+  tuneCommand,
+  reportCommand,
 ];

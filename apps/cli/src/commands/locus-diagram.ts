@@ -22,7 +22,7 @@ import { checkSets } from './diagram-input.ts';
  * `file` is the diagram's JSON text (as read from the FILE) or an already parsed Diagram.
  * `sets` is NAME=VALUE words or a record. Bad input throws InputError or UsageError (exit code 2).
  */
-export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Record<string, number> | string[] = {}, negative = false) {
+export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Record<string, number> | string[] = {}, negative = false, deadline?: number) {
   const d = typeof file === 'string' ? parseDiagram(file) : file;
   const overrides = Array.isArray(sets) ? parseAssignments(sets, 'set') : sets;
   checkSets(d, overrides);
@@ -30,7 +30,7 @@ export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Re
   if (!target) throw new InputError(`--sweep ${sweep}: expected a parameter name or block:ID.k`, { field: '--sweep' });
   const name = engineParameterName(target);
   const value = overrides[name] ?? documentValue(d, target);
-  const L = locusStudy(d, { target, value, overrides, direction: negative ? 'negative' : 'auto' });
+  const L = locusStudy(d, { target, value, overrides, direction: negative ? 'negative' : 'auto' }, deadline);
   const pair = (z: Cx) => [z.re, z.im];
   const branches = L.branches.map((b) => b.re.map((re, i) => [re, b.im[i], b.k[i]]));
   const common = {
@@ -48,6 +48,10 @@ export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Re
       fixedPoles: L.fixedPoles.map(pair),
       poles: L.poles.map(pair),
       zeros: L.zeros.map(pair),
+      // How each was found: 'exact', or with a dead time inside a loop 'approximated' / 'approximant' (Padé).
+      poleOrigin: L.poleOrigin,
+      zeroOrigin: L.zeroOrigin,
+      fixedOrigin: L.fixedOrigin,
       asymptotes: { centroid: L.asymptotes?.centroid ?? null, anglesDeg: L.asymptotes?.anglesDeg ?? [] },
       breakaway: L.breakaways.map((b) => ({ s: pair(b.s), gain: b.gain })),
       crossings: L.crossings.map((c) => ({ omega: c.omega, gain: c.gain })),
@@ -64,6 +68,7 @@ export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Re
     reason: L.reason,
     range: [first, last],
     poles: L.branches.filter((b) => b.k[0] === first).map((b) => [b.re[0], b.im[0]]),
+    poleOrigin: L.poleOrigin,
     zeros: L.branches.filter((b) => b.k[b.k.length - 1] === last).map((b) => [b.re[b.re.length - 1], b.im[b.im.length - 1]]),
     asymptotes: { centroid: null, anglesDeg: [] as number[] },
     breakaway: [] as { s: number[]; gain: number }[],

@@ -2,7 +2,7 @@ import type { Complex, RootLocus } from '@loopwright/lti';
 import { expressionLocus, type PadeNote } from '@loopwright/study';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type CliIo, type Command } from '../io.ts';
-import { checkSets, fmtNumber, fmtRoots, fmtTransfer, readDiagram } from './diagram-input.ts';
+import { checkSets, fmtNumber, fmtRoots, fmtRootsMarked, fmtTransfer, padeLegend, readDiagram } from './diagram-input.ts';
 import { locusFromDiagram } from './locus-diagram.ts';
 import { loopFromArgs, withCaret } from './loop-input.ts';
 
@@ -67,6 +67,8 @@ type LocusSummary = {
   departures: { at: number[]; angleDeg: number }[];
   arrivals?: { at: number[]; angleDeg: number }[];
   branches: number[][][];
+  poleOrigin?: string[];
+  zeroOrigin?: string[];
 };
 
 const cplx = (p: number[]) => (p[1] === 0 ? fmtNumber(p[0]) : `${fmtNumber(p[0])} ${p[1] < 0 ? '-' : '+'} ${fmtNumber(Math.abs(p[1]))}j`);
@@ -74,21 +76,32 @@ const asRoots = (ps: number[][]): Complex[] => ps.map((p) => ({ re: p[0], im: p[
 
 function humanSummary(j: LocusSummary, head: string[]): string {
   const lines = [...head];
-  lines.push(`open-loop poles    ${fmtRoots(asRoots(j.poles))}`);
-  lines.push(`open-loop zeros    ${fmtRoots(asRoots(j.zeros))}`);
+  lines.push(`open-loop poles    ${j.poleOrigin ? fmtRootsMarked(asRoots(j.poles), j.poleOrigin) : fmtRoots(asRoots(j.poles))}`);
+  lines.push(`open-loop zeros    ${j.zeroOrigin ? fmtRootsMarked(asRoots(j.zeros), j.zeroOrigin) : fmtRoots(asRoots(j.zeros))}`);
+  const legend = padeLegend([...(j.poleOrigin ?? []), ...(j.zeroOrigin ?? [])]);
+  if (legend) lines.push(`                   ${legend}`);
   lines.push(
     `asymptotes         ${j.asymptotes.centroid === null ? 'none (every branch ends at a finite zero)' : `centroid ${fmtNumber(j.asymptotes.centroid)}, angles ${j.asymptotes.anglesDeg.map((a) => `${fmtNumber(a, 5)}°`).join(', ')}`}`,
   );
-  lines.push(`breakaway points   ${j.breakaway.length ? j.breakaway.map((b) => `s = ${cplx(b.s)} (k = ${fmtNumber(b.gain)})`).join('; ') : 'none'}`);
-  lines.push(`jω-axis crossings  ${j.crossings.length ? j.crossings.map((c) => `ω = ${fmtNumber(c.omega)} rad/s (k = ${fmtNumber(c.gain)})`).join('; ') : 'none'}`);
-  lines.push(`departure angles   ${j.departures.length ? j.departures.map((d) => `${fmtNumber(d.angleDeg, 5)}° from ${cplx(d.at)}`).join('; ') : 'none (no complex poles)'}`);
-  if (j.arrivals) lines.push(`arrival angles     ${j.arrivals.length ? j.arrivals.map((d) => `${fmtNumber(d.angleDeg, 5)}° at ${cplx(d.at)}`).join('; ') : 'none (no complex zeros)'}`);
+  lines.push(
+    `breakaway points   ${j.breakaway.length ? j.breakaway.map((b) => `s = ${cplx(b.s)} (k = ${fmtNumber(b.gain)})`).join('; ') : 'none'}`,
+  );
+  lines.push(
+    `jω-axis crossings  ${j.crossings.length ? j.crossings.map((c) => `ω = ${fmtNumber(c.omega)} rad/s (k = ${fmtNumber(c.gain)})`).join('; ') : 'none'}`,
+  );
+  lines.push(
+    `departure angles   ${j.departures.length ? j.departures.map((d) => `${fmtNumber(d.angleDeg, 5)}° from ${cplx(d.at)}`).join('; ') : 'none (no complex poles)'}`,
+  );
+  if (j.arrivals)
+    lines.push(
+      `arrival angles     ${j.arrivals.length ? j.arrivals.map((d) => `${fmtNumber(d.angleDeg, 5)}° at ${cplx(d.at)}`).join('; ') : 'none (no complex zeros)'}`,
+    );
   const pts = j.branches.reduce((n, b) => n + b.length, 0);
   lines.push(`branches           ${j.branches.length} (${pts} points; --json lists them)`);
   return lines.join('\n') + '\n';
 }
 
-async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo): Promise<number> {
+async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo, deadline?: number): Promise<number> {
   if (a.positional.length !== 1) throw new UsageError('locus: give exactly one diagram FILE (see --help)');
   if (has(a, 'loop') || has(a, 'param')) throw new UsageError('locus: --loop/--param and a diagram FILE exclude each other');
   const sweep = one(a, 'sweep');
@@ -96,14 +109,17 @@ async function diagramForm(a: ReturnType<typeof parseArgs>, io: CliIo): Promise<
   const sets = parseAssignments(all(a, 'set'), 'set');
   const d = await readDiagram(io, a.positional[0]);
   checkSets(d, sets);
-  const j = locusFromDiagram(d, sweep, sets, has(a, 'negative'));
+  const j = locusFromDiagram(d, sweep, sets, has(a, 'negative'), deadline);
   if (has(a, 'json')) {
     io.stdout(toJson(j));
     return 0;
   }
-  const head = [`locus of every closed-loop pole as ${j.parameter} varies (${j.mode === 'exact' ? 'exact geometry' : 'sampled'}; now ${fmtNumber(j.value)})${j.negative ? ', negative direction' : ''}`];
+  const head = [
+    `locus of every closed-loop pole as ${j.parameter} varies (${j.mode === 'exact' ? 'exact geometry' : 'sampled'}; now ${fmtNumber(j.value)})${j.negative ? ', negative direction' : ''}`,
+  ];
   if (j.mode === 'sampled') head.push(`reason: ${j.reason}`, `range ${fmtNumber(j.range[0])} … ${fmtNumber(j.range[1])}`);
-  if (j.mode === 'exact' && j.fixedPoles.length) head.push(`fixed poles        ${fmtRoots(j.fixedPoles.map((p) => ({ re: p[0], im: p[1] })))} (closed-loop poles the sweep does not move)`);
+  if (j.mode === 'exact' && j.fixedPoles.length)
+    head.push(`fixed poles        ${fmtRootsMarked(asRoots(j.fixedPoles), j.fixedOrigin)} (closed-loop poles the sweep does not move)`);
   io.stdout(humanSummary(j, head));
   return 0;
 }
@@ -112,16 +128,16 @@ export const locusCommand: Command = {
   name: 'locus',
   summary: 'root locus of a loop, or of a whole diagram as one parameter varies',
   help,
-  async run(argv, io) {
+  async run(argv, io, budget = {}) {
     const a = parseArgs(argv, ['loop', 'param', 'sweep', 'set', 'k-max', 'samples', 'pade-order'], ['negative', 'json']);
-    if (a.positional.length > 0) return diagramForm(a, io);
+    if (a.positional.length > 0) return diagramForm(a, io, budget.deadline);
     if (has(a, 'sweep') || has(a, 'set')) throw new UsageError('locus: --sweep and --set need a diagram FILE (locus FILE --sweep PARAM)');
     const loop = loopFromArgs(a, 'locus');
     const kMax = numberFlag(a, 'k-max');
     const samples = numberFlag(a, 'samples');
     const padeOrder = numberFlag(a, 'pade-order') ?? 3;
     const { loop: tf, locus: L, delayHandling } = withCaret(loop, () =>
-      expressionLocus(loop, { negative: has(a, 'negative'), padeOrder, ...(kMax !== undefined ? { kMax } : {}), ...(samples !== undefined ? { samples } : {}) }),
+      expressionLocus(loop, { negative: has(a, 'negative'), padeOrder, ...budget, ...(kMax !== undefined ? { kMax } : {}), ...(samples !== undefined ? { samples } : {}) }),
     );
     const j = locusJson(L, delayHandling);
     if (has(a, 'json')) {
@@ -132,7 +148,8 @@ export const locusCommand: Command = {
       `root locus of 1 + k·L(s) = 0 for k ${L.negative ? '< 0' : '> 0'}, |k| up to ${fmtNumber(Math.abs(L.kRange[1]))}`,
       `L(s) = ${fmtTransfer(tf.rational.num, tf.rational.den, tf.delay)}`,
     ];
-    if (delayHandling.mode === 'pade') head.push(`dead time ${fmtNumber(tf.delay)} s replaced by a Padé (${padeOrder},${padeOrder}) approximant for the poles`);
+    if (delayHandling.mode === 'pade')
+      head.push(`dead time ${fmtNumber(tf.delay)} s replaced by a Padé (${padeOrder},${padeOrder}) approximant for the poles`);
     const segs = L.realAxisSegments.map((s) => `[${fmtNumber(s.from)}, ${fmtNumber(s.to)}]`).join(', ');
     head.push(`real-axis parts    ${segs || 'none'}`);
     io.stdout(humanSummary(j, head));

@@ -2,7 +2,7 @@ import { MIN_SEPARATION } from '@loopwright/graph';
 import { runStudy, type LoopRow, type MarginsData, type TransferData } from '@loopwright/study';
 import { all, has, numberFlag, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
-import { checkSets, fmtNumber, fmtRoots, fmtTransfer, jsonForm, readDiagram } from './diagram-input.ts';
+import { checkSets, fmtNumber, fmtRootsMarked, fmtTransfer, jsonForm, padeLegend, readDiagram } from './diagram-input.ts';
 
 const help = `loopwright loops FILE [--set NAME=VALUE ...] [--pade-order N] [--json]
 
@@ -26,6 +26,7 @@ const text = (t: TransferData) => fmtTransfer(t.num, t.den, t.delay);
 const cutJson = (c: LoopRow) => ({
   cut: c.cutId,
   wire: c.wire,
+  // The loop's one name (the cut's label, else its id), as the editor and the report show it.
   label: c.label,
   auto: c.auto,
   loopText: text(c.loop),
@@ -42,6 +43,7 @@ const cutJson = (c: LoopRow) => ({
   alone: c.alone
     ? { opened: c.alone.opened, loopText: text(c.alone.loop), openLoopRhpPoles: c.alone.openLoopRhpPoles, margins: c.alone.margins }
     : { opened: [], loopText: text(c.loop), openLoopRhpPoles: c.openLoopRhpPoles, margins: c.margins },
+  advice: c.advice,
 });
 
 const f = (x: number | null, unit = '') => (x === null ? '—' : `${fmtNumber(x, 4)}${unit}`);
@@ -56,14 +58,14 @@ export const loopsCommand: Command = {
   name: 'loops',
   summary: 'every cut: crossovers, margins, Ms, stability; inner/outer separation ratios',
   help,
-  async run(argv, io) {
+  async run(argv, io, budget = {}) {
     const a = parseArgs(argv, ['set', 'pade-order'], ['json']);
     if (a.positional.length !== 1) throw new UsageError('loops: give exactly one diagram FILE (see --help)');
     const sets = parseAssignments(all(a, 'set'), 'set');
     const padeOrder = numberFlag(a, 'pade-order');
     const d = await readDiagram(io, a.positional[0]);
     checkSets(d, sets);
-    const rep = runStudy(d, { kind: 'loops', overrides: sets, ...(padeOrder !== undefined ? { padeOrder } : {}) });
+    const rep = runStudy(d, { kind: 'loops', overrides: sets, ...(padeOrder !== undefined ? { padeOrder } : {}) }, budget);
     if (has(a, 'json')) {
       io.stdout(
         toJson(
@@ -80,7 +82,9 @@ export const loopsCommand: Command = {
               realLoopText: text(o.realLoop),
               idealLoopText: text(o.idealLoop),
             })),
+            names: rep.names,
             closedLoopPoles: rep.closedLoopPoles,
+            closedLoopPoleOrigin: rep.closedLoopPoleOrigin,
             stable: rep.stable,
             notes: rep.notes,
           }),
@@ -89,21 +93,39 @@ export const loopsCommand: Command = {
       return 0;
     }
     const out: string[] = [];
-    out.push(`closed loop: ${rep.stable ? 'stable' : 'NOT stable'}; poles ${fmtRoots(rep.closedLoopPoles)}`);
+    // One name per loop (the cut's label, else its id), as the editor and the report show it.
+    const name = (id: string) => rep.names[id] ?? id;
+    out.push(
+      `closed loop: ${rep.stable ? 'stable' : 'NOT stable'}; poles ${fmtRootsMarked(rep.closedLoopPoles, rep.closedLoopPoleOrigin)}`,
+    );
+    const legend = padeLegend(rep.closedLoopPoleOrigin);
+    if (legend) out.push(`  ${legend}`);
     for (const n of rep.notes) out.push(`note: ${n}`);
     for (const c of rep.rows) {
-      out.push('', `cut ${c.cutId}${c.label !== c.cutId ? ` (${c.label})` : ''} on wire ${c.wire}${c.auto ? ' [proposed]' : ''}`);
+      out.push('', `${c.label}: cut ${c.cutId} on wire ${c.wire}${c.auto ? ' [proposed]' : ''}`);
       out.push(`  L(s) = ${text(c.loop)}`);
-      out.push(`  every other loop closed: ${row(c.margins, c.openLoopRhpPoles)}`);
-      if (c.alone) out.push(`  tuned inner-first (opened ${c.alone.opened.join(', ')}): ${row(c.alone.margins, c.alone.openLoopRhpPoles)}`);
+      out.push(
+        `  every other loop closed: ${row(c.margins, c.openLoopRhpPoles)}${c.advice.actOn === 'all-closed' ? '   <- act on this' : ''}`,
+      );
+      if (c.alone)
+        out.push(
+          `  tuned inner-first (opened ${c.alone.opened.map(name).join(', ')}): ${row(c.alone.margins, c.alone.openLoopRhpPoles)}   <- act on this`,
+        );
+      out.push(`  ${c.advice.text}`);
       if (c.delayHandling.mode === 'pade') out.push(`  ${c.delayHandling.note}`);
     }
     if (rep.separations.length) {
       out.push('', 'separation (inner/outer, loops as tuned inner-first):');
-      for (const s of rep.separations) out.push(`  ${s.inner} in ${s.outer}: ${s.ratio === null ? '—' : `${fmtNumber(s.ratio, 3)}×`} ${s.flag ? '[LOW] ' : ''}${s.note}`);
+      for (const s of rep.separations)
+        out.push(
+          `  ${name(s.inner)} in ${name(s.outer)}: ${s.ratio === null ? '—' : `${fmtNumber(s.ratio, 3)}×`} ${s.flag ? '[LOW] ' : ''}${s.note}`,
+        );
     }
     for (const o of rep.outerVsIdeal) {
-      out.push('', `outer loop ${o.outer} with inner loop ${o.inner}${o.opened.length ? ` (opened ${o.opened.join(', ')})` : ''}:`);
+      out.push(
+        '',
+        `outer loop ${name(o.outer)} with inner loop ${name(o.inner)}${o.opened.length ? ` (opened ${o.opened.map(name).join(', ')})` : ''}:`,
+      );
       out.push(`  real inner loop : ${row(o.realMargins)}`);
       out.push(`  ideal inner loop: ${row(o.idealMargins)}`);
     }

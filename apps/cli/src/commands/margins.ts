@@ -2,7 +2,7 @@ import { type LoopMargins, marginFigures } from '@loopwright/lti';
 import { expressionMargins } from '@loopwright/study';
 import { has, numberFlag, parseArgs, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
-import { fmtNumber, fmtRoots, fmtTransfer } from './diagram-input.ts';
+import { fmtNumber, fmtRootsMarked, fmtTransfer, padeLegend } from './diagram-input.ts';
 import { loopFromArgs, withCaret } from './loop-input.ts';
 
 const help = `loopwright margins --loop "<expression>" [--param NAME=VALUE ...] [--pade-order N] [--json]
@@ -29,10 +29,11 @@ Example: npx loopwright margins --loop "4/(s+1)^3"
 `;
 
 /** The JSON shape of the margins command (see --help). */
-export function marginsJson(m: LoopMargins) {
+export function marginsJson(m: LoopMargins, poleOrigin: readonly string[] = m.closedLoopPoles.map(() => 'exact')) {
   return {
     ...marginFigures(m),
     closedLoopPoles: m.closedLoopPoles.map((p) => [p.re, p.im]),
+    closedLoopPoleOrigin: poleOrigin,
     padeOrder: m.padeOrder,
     gainCrossoverDetails: m.gainCrossoverDetails,
     phaseCrossoverDetails: m.phaseCrossoverDetails,
@@ -45,14 +46,14 @@ export const marginsCommand: Command = {
   name: 'margins',
   summary: 'gain, phase and delay margins, Ms/Mt, bandwidth and closed-loop verdict of a loop',
   help,
-  async run(argv, io) {
+  async run(argv, io, budget = {}) {
     const a = parseArgs(argv, ['loop', 'param', 'pade-order'], ['json']);
     if (a.positional.length) throw new UsageError(`margins: unexpected argument "${a.positional[0]}" (the loop goes in --loop "...")`);
     const padeOrder = numberFlag(a, 'pade-order');
     const loop = loopFromArgs(a, 'margins');
-    const { loop: tf, margins: m } = withCaret(loop, () => expressionMargins(loop, padeOrder !== undefined ? { padeOrder } : {}));
+    const { loop: tf, margins: m, poleOrigin } = withCaret(loop, () => expressionMargins(loop, { ...(padeOrder !== undefined ? { padeOrder } : {}), ...budget }));
     if (has(a, 'json')) {
-      io.stdout(toJson(marginsJson(m)));
+      io.stdout(toJson(marginsJson(m, poleOrigin)));
       return 0;
     }
     const lines = [
@@ -61,7 +62,9 @@ export const marginsCommand: Command = {
       `gain margin        ${m.gainMargin === null ? 'infinite (no phase crossover with |L| < 1)' : `${fmtNumber(m.gainMargin)} (${fmtNumber(m.gainMarginDb!, 4)} dB) at ${fmtNumber(m.phaseCrossover!)} rad/s`}`,
     ];
     if (m.lowerGainMargin !== null) {
-      lines.push(`lower gain margin  ${fmtNumber(m.lowerGainMargin)} (${fmtNumber(m.lowerGainMarginDb!, 4)} dB) at ${fmtNumber(m.lowerPhaseCrossover!)} rad/s`);
+      lines.push(
+        `lower gain margin  ${fmtNumber(m.lowerGainMargin)} (${fmtNumber(m.lowerGainMarginDb!, 4)} dB) at ${fmtNumber(m.lowerPhaseCrossover!)} rad/s`,
+      );
     }
     lines.push(
       `phase margin       ${m.phaseMarginDeg === null ? 'none (|L| never crosses 1)' : `${fmtNumber(m.phaseMarginDeg, 5)}° at ${fmtNumber(m.gainCrossover!)} rad/s`}`,
@@ -70,12 +73,17 @@ export const marginsCommand: Command = {
       `peak compl. sens.  Mt = ${opt(m.peakComplementary)}${m.peakComplementaryFrequency !== null ? ` at ${fmtNumber(m.peakComplementaryFrequency)} rad/s` : ''}`,
       `bandwidth          ${opt(m.bandwidth, ' rad/s')}`,
       `closed loop        ${m.closedLoopStable ? 'stable' : 'NOT stable'}${m.padeOrder !== null ? ` (dead time as Padé (${m.padeOrder},${m.padeOrder}))` : ''}`,
-      `closed-loop poles  ${fmtRoots(m.closedLoopPoles)}`,
+      `closed-loop poles  ${fmtRootsMarked(m.closedLoopPoles, poleOrigin)}`,
+      ...(padeLegend(poleOrigin) ? [`                   ${padeLegend(poleOrigin)}`] : []),
       '',
       `gain crossovers (${m.gainCrossoverDetails.length}):`,
-      ...m.gainCrossoverDetails.map((c) => `  ω = ${fmtNumber(c.omega)} rad/s   PM = ${fmtNumber(c.phaseMarginDeg, 5)}°   delay margin ${fmtNumber(c.delayMargin)} s`),
+      ...m.gainCrossoverDetails.map(
+        (c) => `  ω = ${fmtNumber(c.omega)} rad/s   PM = ${fmtNumber(c.phaseMarginDeg, 5)}°   delay margin ${fmtNumber(c.delayMargin)} s`,
+      ),
       `phase crossovers (${m.phaseCrossoverDetails.length}):`,
-      ...m.phaseCrossoverDetails.slice(0, 12).map((c) => `  ω = ${fmtNumber(c.omega)} rad/s   gain factor to -1: ${fmtNumber(c.gainFactor)}`),
+      ...m.phaseCrossoverDetails
+        .slice(0, 12)
+        .map((c) => `  ω = ${fmtNumber(c.omega)} rad/s   gain factor to -1: ${fmtNumber(c.gainFactor)}`),
     );
     if (m.phaseCrossoverDetails.length > 12) lines.push(`  … ${m.phaseCrossoverDetails.length - 12} more (--json lists all)`);
     if (!m.closedLoopStable) lines.push('', 'The closed loop is not stable: the margins above do not describe a working loop.');

@@ -3,7 +3,17 @@ import { poly } from '@loopwright/lti';
 import { runStudy } from '@loopwright/study';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
-import { checkSets, fmtNumber, fmtRoots, fmtTransfer, jsonForm, readDiagram, signalRef } from './diagram-input.ts';
+import {
+  checkSets,
+  fmtNumber,
+  fmtRoots,
+  fmtRootsMarked,
+  fmtTransfer,
+  jsonForm,
+  padeLegend,
+  readDiagram,
+  signalRef,
+} from './diagram-input.ts';
 
 const help = `loopwright reduce FILE --from A --to B [--set NAME=VALUE ...] [--pade-order N] [--bode] [--step] [--json]
 
@@ -27,7 +37,7 @@ export const reduceCommand: Command = {
   name: 'reduce',
   summary: 'closed-loop transfer function between two points of a diagram',
   help,
-  async run(argv, io) {
+  async run(argv, io, budget = {}) {
     const a = parseArgs(argv, ['from', 'to', 'set', 'pade-order'], ['json', 'bode', 'step']);
     if (a.positional.length !== 1) throw new UsageError('reduce: give exactly one diagram FILE (see --help)');
     const fromText = one(a, 'from');
@@ -39,7 +49,7 @@ export const reduceCommand: Command = {
     checkSets(d, sets);
     const from = signalRef(d, fromText, 'from');
     const to = signalRef(d, toText, 'to');
-    const r = runStudy(d, { kind: 'closed-loop', from, to, overrides: sets, bode: has(a, 'bode'), step: has(a, 'step'), ...(padeOrder !== undefined ? { padeOrder } : {}) });
+    const r = runStudy(d, { kind: 'closed-loop', from, to, overrides: sets, bode: has(a, 'bode'), step: has(a, 'step'), ...(padeOrder !== undefined ? { padeOrder } : {}) }, budget);
     const { num: numA, den: denA, delay } = r.transfer;
     const text = fmtTransfer(numA, denA, delay);
     if (has(a, 'json')) {
@@ -54,6 +64,8 @@ export const reduceCommand: Command = {
             text,
             poles: r.poles,
             zeros: r.zeros,
+            poleOrigin: r.poleOrigin,
+            zeroOrigin: r.zeroOrigin,
             gain: r.gain,
             staticGain: r.staticGain,
             delay,
@@ -71,11 +83,13 @@ export const reduceCommand: Command = {
       `  T(s) = ${text}`,
       `  numerator   (highest power first): ${poly.format(numA)}`,
       `  denominator (highest power first): ${poly.format(denA)}`,
-      `  poles: ${fmtRoots(r.poles)}`,
-      `  zeros: ${fmtRoots(r.zeros)}`,
+      `  poles: ${fmtRootsMarked(r.poles, r.poleOrigin)}`,
+      `  zeros: ${fmtRootsMarked(r.zeros, r.zeroOrigin)}`,
       `  gain (leading coefficient): ${fmtNumber(r.gain)}   static gain T(0): ${fmtNumber(r.staticGain)}`,
       `  dead time: ${delay > 0 ? `${fmtNumber(delay)} s` : 'none'}   (${r.delayHandling.note})`,
     ];
+    const legend = padeLegend([...r.poleOrigin, ...r.zeroOrigin]);
+    if (legend) lines.push(`  ${legend}`);
     if (r.hiddenModes.length) lines.push(`  cancelled (hidden) modes: ${fmtRoots(r.hiddenModes)}`);
     io.stdout(lines.join('\n') + '\n');
     return 0;

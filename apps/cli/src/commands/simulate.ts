@@ -61,7 +61,7 @@ export const simulateCommand: Command = {
   name: 'simulate',
   summary: 'time-simulate a diagram (saturation, rate limits, dead time, anti-windup)',
   help,
-  async run(argv, io) {
+  async run(argv, io, budget = {}) {
     const args = parseArgs(argv, ['until', 'set', 'csv', 'step', 'rtol', 'atol', 'wire', 'probe', 'max-steps'], ['json', 'linear']);
     if (args.positional.length !== 1) throw new UsageError('simulate needs exactly one FILE (see loopwright simulate --help)');
     const file = args.positional[0];
@@ -85,7 +85,7 @@ export const simulateCommand: Command = {
       model: has(args, 'linear') ? 'linear' : 'as-drawn',
       wires: wireFlags.includes('all') ? 'all' : wireFlags,
       ...(probeFlags.length ? { probes: probeFlags.includes('all') ? ('all' as const) : probeFlags } : {}),
-    });
+    }, budget);
     // Data out: every probe and the wires asked for (actuator signals only when asked for).
     const keep = new Set([...res.probes.map((p) => p.id), ...(wireFlags.includes('all') ? Object.keys(res.run.traces).filter((k) => k.startsWith('wire:')) : wireFlags.map((w) => `wire:${w}`))]);
     const traces = Object.fromEntries(Object.entries(res.run.traces).filter(([k]) => keep.has(k)));

@@ -9,7 +9,8 @@ import { create } from 'zustand';
 import type { SweepRange } from './sweep.ts';
 import type { AnalysisSnapshot } from './snapshot.ts';
 
-export type AnalysisViewId = 'locus' | 'response' | 'frequency' | 'loops' | 'compare';
+
+export type AnalysisViewId = 'locus' | 'response' | 'frequency' | 'loops' | 'closed-loop' | 'compare' | 'fit' | 'tune';
 
 export interface AnalysisUiState {
   view: AnalysisViewId;
@@ -27,12 +28,19 @@ export interface AnalysisUiState {
   pinned: AnalysisSnapshot | null;
   /** > 0 while something needs every result at once (pinning, the report): hidden views are computed too. */
   needAll: number;
+  /** The two points of the Closed loop view ("block:ID" or "wire:ID"; null: the first source / probe). */
+  closedLoopFrom: string | null;
+  closedLoopTo: string | null;
 
   setView(v: AnalysisViewId): void;
   setSweepKey(key: string | null): void;
   setLiveValue(v: number | null): void;
   setRange(key: string, r: SweepRange): void;
-  setOptions(patch: Partial<Pick<AnalysisUiState, 'negativeLocus' | 'showDampingGuides' | 'showFrequencyGuides' | 'cutId'>>): void;
+  setOptions(
+    patch: Partial<
+      Pick<AnalysisUiState, 'negativeLocus' | 'showDampingGuides' | 'showFrequencyGuides' | 'cutId' | 'closedLoopFrom' | 'closedLoopTo'>
+    >,
+  ): void;
   pin(s: AnalysisSnapshot | null): void;
   setNeedAll(delta: number): void;
 }
@@ -48,6 +56,8 @@ export const useAnalysisStore = create<AnalysisUiState>()((set) => ({
   cutId: null,
   pinned: null,
   needAll: 0,
+  closedLoopFrom: null,
+  closedLoopTo: null,
 
   setView: (view) => set({ view }),
   setSweepKey: (sweepKey) => set({ sweepKey, liveValue: null }),

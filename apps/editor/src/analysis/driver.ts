@@ -4,19 +4,23 @@
  * which sweep, which cut, how long a run — is decided by @loopwright/study; the driver only
  * says what the views on screen need. Results land in the results store. The slider's live
  * value travels as a held value, so moving it never touches the document (nor its undo history).
+ * Each channel's computation in progress is shown (with the worker's progress) and can be
+ * cancelled; a cancelled channel holds no result until the user asks again or its inputs change.
  */
-import type { Diagram } from '@loopwright/graph';
+import type { Diagram, SignalRef } from '@loopwright/graph';
 import {
   engineText,
   fingerprintText,
   resolveSweep,
   type CheckData,
+  type ClosedLoopData,
   type FrequencyData,
   type LiveValue,
   type LocusData,
   type LoopsData,
   type Part,
   type PolesData,
+  type ReportData,
   type ResolvedSweep,
   type ResponseResult,
   type StudyRequest,
@@ -24,9 +28,10 @@ import {
 } from '@loopwright/study';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { useAnalysisStore } from './analysis-store.ts';
-import { resultsComplete, useResultsStore, type AnalysisResult, type ResultsState } from './results-store.ts';
-import { EngineClient, type WorkerLike } from '../worker/engine-client.ts';
-import { CHANNELS, type Channel } from '../worker/protocol.ts';
+import { resultsComplete, useResultsStore, type AnalysisResult, type PinnedRun, type ResultsState } from './results-store.ts';
+import { CANCELLED, EngineClient, type WorkerLike } from '../worker/engine-client.ts';
+import { CHANNELS, type Channel, type EngineReply, type ViewChannel } from '../worker/protocol.ts';
+import type { AnalysisSnapshot } from './snapshot.ts';
 
 export interface AnalysisInputs {
   diagram: Diagram;
@@ -35,6 +40,24 @@ export interface AnalysisInputs {
   live: LiveValue | null;
   /** The cut the user picked in the Frequency view (null: the study's default). */
   cutId: string | null;
+  /** The Closed loop view's points (null when the diagram has none to offer). */
+  closedLoop: { from: SignalRef; to: SignalRef } | null;
+}
+
+/** A point written "block:ID" / "wire:ID" as a SignalRef, when it still names something in the diagram. */
+export function refOf(d: Diagram, text: string | null): SignalRef | null {
+  const m = text ? /^(block|wire):(.+)$/.exec(text) : null;
+  if (!m) return null;
+  if (m[1] === 'block') return d.blocks.some((b) => b.id === m[2]) ? { block: m[2] } : null;
+  return d.wires.some((w) => w.id === m[2]) ? { wire: m[2] } : null;
+}
+
+/** The Closed loop view's points: the ones picked, else the first source and the first probe. */
+export function closedLoopPoints(d: Diagram, from: string | null, to: string | null): { from: SignalRef; to: SignalRef } | null {
+  const firstOf = (kind: string) => d.blocks.find((b) => b.kind === kind)?.id;
+  const f = refOf(d, from) ?? (firstOf('source') ? { block: firstOf('source')! } : null);
+  const t = refOf(d, to) ?? (firstOf('probe') ? { block: firstOf('probe')! } : null);
+  return f && t ? { from: f, to: t } : null;
 }
 
 /** The inputs the views are computed from, as they stand now. */
@@ -42,15 +65,19 @@ export function currentInputs(): AnalysisInputs {
   const diagram = useDiagramStore.getState().diagram;
   const ui = useAnalysisStore.getState();
   const sweep = resolveSweep(diagram, { key: ui.sweepKey, liveValue: ui.liveValue, ranges: ui.ranges });
-  return { diagram, sweep, live: sweep.live, cutId: ui.cutId };
+  return { diagram, sweep, live: sweep.live, cutId: ui.cutId, closedLoop: closedLoopPoints(diagram, ui.closedLoopFrom, ui.closedLoopTo) };
 }
 
 /** The study requests of each channel for the views that need them. */
-export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; opposite: boolean }): Record<Channel, StudyRequest[]> {
+export function channelStudies(
+  inp: AnalysisInputs,
+  opts: { frequency: boolean; opposite: boolean; closedLoop?: boolean },
+): Record<Exclude<ViewChannel, 'pinned'>, StudyRequest[]> {
   const { live } = inp;
   const { choice, range, value } = inp.sweep;
   const analysis: StudyRequest[] = [];
-  if (choice && range && Number.isFinite(value)) analysis.push({ kind: 'locus', target: choice.target, value, range, opposite: opts.opposite });
+  if (choice && range && Number.isFinite(value))
+    analysis.push({ kind: 'locus', target: choice.target, value, range, opposite: opts.opposite });
   analysis.push({ kind: 'poles', live });
   if (opts.frequency) analysis.push({ kind: 'cut', cut: inp.cutId, live, fallback: true });
   return {
@@ -59,12 +86,35 @@ export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; 
     loops: [{ kind: 'loops', live }],
     // A live preview: 5 s of wall time at most (a run that needs more says so).
     response: [{ kind: 'run', live, linearOverlay: true, maxWallMs: 5000 }],
+    'closed-loop':
+      opts.closedLoop && inp.closedLoop
+        ? [{ kind: 'closed-loop', from: inp.closedLoop.from, to: inp.closedLoop.to, live, bode: true, step: true }]
+        : [],
+  };
+}
+
+/**
+ * The pinned design's run under the current settings: its own diagram and held value, with the
+ * current run's end time (whatever decided it) and tolerances, so that both runs have one length.
+ */
+export function pinnedRunStudy(pinned: AnalysisSnapshot, current: ResponseResult): { diagram: Diagram; study: StudyRequest } {
+  return {
+    diagram: pinned.diagram,
+    study: {
+      kind: 'run',
+      live: pinned.live,
+      until: current.settings.until,
+      rtol: current.settings.rtol,
+      atol: current.settings.atol,
+      maxWallMs: 5000,
+    },
   };
 }
 
 /** Identity of a locus: its defining polynomials (exact) or its sampled points' ends. */
 function locusSignature(l: LocusData): string {
-  const ends = (bs: LocusData['branches'] | null) => (bs ?? []).map((b) => [b.re.length, b.re[0], b.im[0], b.re[b.re.length - 1], b.im[b.im.length - 1]]);
+  const ends = (bs: LocusData['branches'] | null) =>
+    (bs ?? []).map((b) => [b.re.length, b.re[0], b.im[0], b.re[b.re.length - 1], b.im[b.im.length - 1]]);
   return JSON.stringify([l.mode, l.target, l.direction, l.n0, l.d0, ends(l.branches), ends(l.rangeBranches), ends(l.oppositeBranches)]);
 }
 
@@ -74,7 +124,8 @@ function analysisOf(studies: StudyRequest[], results: Part<StudyResult>[], elaps
     const i = studies.findIndex((s) => s.kind === kind);
     return i < 0 ? null : results[i];
   };
-  const unwrap = <T>(p: Part<StudyResult> | null): Part<T> | null => (p === null ? null : p.ok ? { ok: true, value: p.value.value as T } : p);
+  const unwrap = <T>(p: Part<StudyResult> | null): Part<T> | null =>
+    p === null ? null : p.ok ? { ok: true, value: p.value.value as T } : p;
   const locus = unwrap<LocusData>(byKind('locus'));
   const poles = unwrap<PolesData>(byKind('poles'))!;
   const cut = unwrap<FrequencyData | null>(byKind('cut'));
@@ -86,7 +137,10 @@ function analysisOf(studies: StudyRequest[], results: Part<StudyResult>[], elaps
 let client: EngineClient | null = null;
 
 function makeWorker(): WorkerLike {
-  return new Worker(new URL('../worker/engine.worker.ts', import.meta.url), { type: 'module', name: 'loopwright-engine' }) as unknown as WorkerLike;
+  return new Worker(new URL('../worker/engine.worker.ts', import.meta.url), {
+    type: 'module',
+    name: 'loopwright-engine',
+  }) as unknown as WorkerLike;
 }
 
 /** The shared engine client (one worker per channel, created on first use). */
@@ -95,18 +149,69 @@ export function engineClient(): EngineClient {
   return client;
 }
 
+const isViewChannel = (c: Channel): c is ViewChannel => (CHANNELS as readonly string[]).includes(c);
+
+/** Clears a channel's busy mark, or sets it for a request just sent. */
+function markBusy(ch: Channel, on: boolean): void {
+  const s = useResultsStore.getState();
+  useResultsStore.setState({ busy: { ...s.busy, [ch]: on ? { since: performance.now(), fraction: null, kind: null } : null } });
+}
+
+/** Stops a channel's computation (the progress bar's Cancel). */
+export function cancelChannel(ch: Channel): void {
+  engineClient().cancel(ch);
+}
+
+/** Asks again for a channel whose computation was cancelled (set by the running driver). */
+let retry: ((ch: ViewChannel) => void) | null = null;
+export function computeAgain(ch: ViewChannel): void {
+  retry?.(ch);
+}
+
+/** What a result of each channel becomes in the store when it is cancelled or fails as a whole. */
+function clearedResult(ch: ViewChannel, error: string): Partial<ResultsState> {
+  switch (ch) {
+    case 'analysis':
+      return { analysis: null };
+    case 'loops':
+      return { loops: { ok: false, error, reason: 'input', at: null } };
+    case 'response':
+      return { response: null };
+    case 'closed-loop':
+      return { closedLoop: { ok: false, error, reason: 'input', at: null } };
+    case 'pinned':
+      return { pinnedRun: { ok: false, error } };
+    default:
+      return {};
+  }
+}
+
 /**
  * Starts watching; returns the function that stops. Idempotent per call site: each start
  * subscribes once and sends the current inputs immediately.
  */
 export function startAnalysisDriver(): () => void {
   const engine = engineClient();
-  const sentKey = Object.fromEntries(CHANNELS.map((c) => [c, ''])) as Record<Channel, string>;
-  const genOf = Object.fromEntries(CHANNELS.map((c) => [c, new Map<number, number>()])) as Record<Channel, Map<number, number>>;
-  const studiesOf = Object.fromEntries(CHANNELS.map((c) => [c, new Map<number, StudyRequest[]>()])) as Record<Channel, Map<number, StudyRequest[]>>;
+  const sentKey = Object.fromEntries(CHANNELS.map((c) => [c, ''])) as Record<ViewChannel, string>;
+  const genOf = Object.fromEntries(CHANNELS.map((c) => [c, new Map<number, number>()])) as Record<ViewChannel, Map<number, number>>;
+  const studiesOf = Object.fromEntries(CHANNELS.map((c) => [c, new Map<number, StudyRequest[]>()])) as Record<
+    ViewChannel,
+    Map<number, StudyRequest[]>
+  >;
 
-  const off = engine.onReply((reply) => {
+  const offProgress = engine.onProgress((p) => {
+    const s = useResultsStore.getState();
+    const busy = s.busy[p.channel];
+    if (!busy) return;
+    const { part, parts, fraction, kind } = p.progress;
+    useResultsStore.setState({
+      busy: { ...s.busy, [p.channel]: { ...busy, kind, fraction: (part + (fraction ?? 0)) / Math.max(1, parts) } },
+    });
+  });
+
+  const off = engine.onReply((reply: EngineReply) => {
     const ch = reply.channel;
+    if (!isViewChannel(ch)) return; // the report's reply goes to its own caller
     const gen = genOf[ch].get(reply.id) ?? 0;
     const studies = studiesOf[ch].get(reply.id) ?? [];
     genOf[ch].delete(reply.id);
@@ -115,6 +220,7 @@ export function startAnalysisDriver(): () => void {
     const patch: Partial<ResultsState> = {
       held: { ...s.held, [ch]: gen },
       arrivedAt: { ...s.arrivedAt, [ch]: performance.now() },
+      busy: { ...s.busy, [ch]: null },
     };
     let error: string | null = reply.ok ? null : reply.error;
     if (reply.ok) {
@@ -132,13 +238,18 @@ export function startAnalysisDriver(): () => void {
       } else if (ch === 'check') {
         patch.check = first.ok ? (first.value.value as CheckData) : null;
         if (!first.ok) error = first.error;
+      } else if (ch === 'closed-loop') {
+        patch.closedLoop = first === undefined ? null : first.ok ? { ok: true, value: first.value.value as ClosedLoopData } : first;
+      } else if (ch === 'pinned') {
+        patch.pinnedRun = pinnedRunOf(first);
       } else {
         // A run that could not start leaves no old traces drawn under its error.
         patch.response = first.ok ? (first.value.value as ResponseResult) : null;
         if (!first.ok) error = first.error;
       }
-    } else if (ch === 'response') {
-      patch.response = null;
+    } else {
+      // Cancelled, or the worker failed: nothing old stays drawn as if it were current.
+      Object.assign(patch, clearedResult(ch, reply.error));
     }
     patch.errors = { ...s.errors, [ch]: error };
     useResultsStore.setState(patch);
@@ -150,20 +261,45 @@ export function startAnalysisDriver(): () => void {
     // and the findings always; the others follow their tab.
     const ui = useAnalysisStore.getState();
     const all = ui.needAll > 0 || ui.view === 'compare';
-    const needed: Record<Channel, boolean> = {
+    const rs0 = useResultsStore.getState();
+    const needed: Record<ViewChannel, boolean> = {
       check: true,
       analysis: true,
       loops: all || ui.view === 'loops',
       response: all || ui.view === 'response' || ui.view === 'locus',
+      'closed-loop': ui.view === 'closed-loop',
+      // The pinned design, re-run once the current run's settings are known.
+      pinned: ui.pinned !== null && rs0.response !== null,
     };
-    const studies = channelStudies(inp, { frequency: all || ui.view === 'frequency', opposite: ui.negativeLocus });
+    const studies = channelStudies(inp, {
+      frequency: all || ui.view === 'frequency',
+      opposite: ui.negativeLocus,
+      closedLoop: needed['closed-loop'],
+    });
     // What each channel's results depend on: findings on everything; a run on the simulation
     // settings but not on which probes are shown; the analyses on neither.
     const d = inp.diagram;
     const run = { ...(d.simulation ?? {}), probes: undefined };
-    const base: Record<Channel, string> = { check: fingerprintText(d), analysis: engineText(d), loops: engineText(d), response: `${engineText(d)}|${JSON.stringify(run)}` };
-    const keys = Object.fromEntries(CHANNELS.map((c) => [c, `${base[c]}|${JSON.stringify(studies[c])}`])) as Record<Channel, string>;
-    const changed = CHANNELS.filter((c) => needed[c] && keys[c] !== sentKey[c]);
+    const pinned = ui.pinned && rs0.response ? pinnedRunStudy(ui.pinned, rs0.response) : null;
+    const diagrams: Record<ViewChannel, Diagram> = {
+      check: d,
+      analysis: d,
+      loops: d,
+      response: d,
+      'closed-loop': d,
+      pinned: pinned?.diagram ?? d,
+    };
+    const requests: Record<ViewChannel, StudyRequest[]> = { ...studies, pinned: pinned ? [pinned.study] : [] };
+    const base: Record<ViewChannel, string> = {
+      check: fingerprintText(d),
+      analysis: engineText(d),
+      loops: engineText(d),
+      response: `${engineText(d)}|${JSON.stringify(run)}`,
+      'closed-loop': engineText(d),
+      pinned: pinned ? `${ui.pinned!.takenAt}|${engineText(pinned.diagram)}` : '',
+    };
+    const keys = Object.fromEntries(CHANNELS.map((c) => [c, `${base[c]}|${JSON.stringify(requests[c])}`])) as Record<ViewChannel, string>;
+    const changed = CHANNELS.filter((c) => needed[c] && requests[c].length > 0 && keys[c] !== sentKey[c]);
     if (changed.length === 0) return;
     const rs = useResultsStore.getState();
     const gen = rs.generation + 1;
@@ -173,10 +309,15 @@ export function startAnalysisDriver(): () => void {
     useResultsStore.setState({ generation: gen, generationAt: performance.now(), wanted });
     for (const c of changed) {
       sentKey[c] = keys[c];
-      const id = engine.send({ channel: c, diagram: inp.diagram, studies: studies[c] });
+      const id = engine.send({ channel: c, diagram: diagrams[c], studies: requests[c] });
       genOf[c].set(id, gen);
-      studiesOf[c].set(id, studies[c]);
+      studiesOf[c].set(id, requests[c]);
+      markBusy(c, true);
     }
+  };
+  retry = (ch) => {
+    sentKey[ch] = '';
+    update();
   };
 
   // The diagram's own sweep choice (Parameters panel "Sweep") takes over from the sweep bar's.
@@ -187,20 +328,47 @@ export function startAnalysisDriver(): () => void {
       useAnalysisStore.getState().setSweepKey(null);
     }
   });
+  // Unpinning clears the re-run; a new current run (other settings) re-runs the pinned design.
+  let pinnedSeen = useAnalysisStore.getState().pinned;
+  const offPinned = useAnalysisStore.subscribe((st) => {
+    if (st.pinned === pinnedSeen) return;
+    pinnedSeen = st.pinned;
+    sentKey.pinned = '';
+    useResultsStore.setState({ pinnedRun: null });
+  });
+  let responseSeen = useResultsStore.getState().response;
+  const offResponse = useResultsStore.subscribe((st) => {
+    if (st.response === responseSeen) return;
+    responseSeen = st.response;
+    if (useAnalysisStore.getState().pinned) update();
+  });
   const offDiagram = useDiagramStore.subscribe(update);
   const offUi = useAnalysisStore.subscribe(update);
   update();
   return () => {
     off();
+    offProgress();
     offActive();
+    offPinned();
+    offResponse();
     offDiagram();
     offUi();
+    retry = null;
   };
+}
+
+/** The pinned re-run as Compare uses it: a run cut short is refused, like a run that failed. */
+function pinnedRunOf(p: Part<StudyResult> | undefined): PinnedRun | null {
+  if (!p) return null;
+  if (!p.ok) return { ok: false, error: p.error };
+  const r = p.value.value as ResponseResult;
+  if (r.run.status !== 'ok') return { ok: false, error: `its run stopped at t = ${r.run.timeReached} s: ${r.run.message}` };
+  return { ok: true, value: r };
 }
 
 /**
  * Resolves once every result is computed for the current inputs and drawn (hidden views
- * included): for pinning and the report, which need everything at once.
+ * included): for pinning, which needs everything at once.
  */
 export async function withAllResults<T>(fn: () => T, timeoutMs = 20_000): Promise<T> {
   useAnalysisStore.getState().setNeedAll(1);
@@ -224,4 +392,34 @@ export async function withAllResults<T>(fn: () => T, timeoutMs = 20_000): Promis
   } finally {
     useAnalysisStore.getState().setNeedAll(-1);
   }
+}
+
+/** The report request for what the views show: the sweep in force, its held value and range. */
+export function reportRequest(inp: AnalysisInputs, generatedAt: string): StudyRequest {
+  const { choice, range } = inp.sweep;
+  return { kind: 'report', sweep: choice?.key ?? null, live: inp.live, range: range ?? null, generatedAt };
+}
+
+/**
+ * The design report of the current inputs (sweep, live value, range), computed in the worker
+ * by the study's report — the same code `loopwright report` runs. Rejects with the reason when
+ * it fails or is cancelled.
+ */
+export function requestReport(): Promise<ReportData> {
+  const engine = engineClient();
+  const inp = currentInputs();
+  const study = reportRequest(inp, new Date().toISOString());
+  return new Promise<ReportData>((resolve, reject) => {
+    const id = engine.send({ channel: 'report', diagram: inp.diagram, studies: [study] });
+    markBusy('report', true);
+    const off = engine.onReply((r) => {
+      if (r.channel !== 'report' || r.id !== id) return;
+      off();
+      markBusy('report', false);
+      if (!r.ok) return reject(new Error(r.cancelled ? CANCELLED : r.error));
+      const part = r.results[0];
+      if (!part.ok) return reject(new Error(part.error));
+      resolve(part.value.value as ReportData);
+    });
+  });
 }

@@ -3,7 +3,9 @@
  * interesting points, nice tick steps, pixel ↔ s mapping, the locus point nearest the pointer
  * (projected onto the branch segment), damping ratio and natural frequency.
  */
-import type { Cx, LocusBranch, LocusData } from '@loopwright/study';
+import type { Cx, LocusBranch } from '@loopwright/study';
+// Framing and damping are the study's (shared with the report).
+export { activePoints, dampingOf, keyPoints, pointsNear } from '@loopwright/study';
 
 export interface PlotBox {
   /** Grid rectangle inside the chart, px. */
@@ -28,60 +30,6 @@ export function niceStep(raw: number): number {
   const f = raw / 10 ** e;
   const m = f < 1.5 ? 1 : f < 3.5 ? 2 : f < 7.5 ? 5 : 10;
   return m * 10 ** e;
-}
-
-/** The points a reader must see: poles, zeros, centroid, special points, current poles. */
-export function keyPoints(locus: LocusData | null, current: readonly Cx[]): Cx[] {
-  const pts: Cx[] = [...current];
-  if (locus) {
-    pts.push(...locus.poles, ...locus.zeros);
-    for (const b of locus.breakaways) pts.push(b.s);
-    for (const c of locus.crossings) pts.push({ re: 0, im: c.omega }, { re: 0, im: -c.omega });
-    if (locus.asymptotes) pts.push({ re: locus.asymptotes.centroid, im: 0 });
-  }
-  return pts.filter((p) => Number.isFinite(p.re) && Number.isFinite(p.im));
-}
-
-/**
- * The part of the locus the slider actually moves: branch points whose sweep value lies in
- * the slider range, on branches that move by more than 2 % of their size over that range.
- * Fast modes of inner loops (or Padé poles) barely move when an outer gain is swept; framing
- * them would shrink the interesting part to a dot.
- */
-export function activePoints(branches: readonly LocusBranch[], kMin: number, kMax: number): Cx[] {
-  const lo = Math.min(kMin, kMax);
-  const hi = Math.max(kMin, kMax);
-  const out: Cx[] = [];
-  for (const b of branches) {
-    const pts: Cx[] = [];
-    for (let i = 0; i < b.k.length; i++) if (b.k[i] >= lo && b.k[i] <= hi) pts.push({ re: b.re[i], im: b.im[i] });
-    if (pts.length < 2) continue;
-    let x0 = Infinity;
-    let x1 = -Infinity;
-    let y0 = Infinity;
-    let y1 = -Infinity;
-    let size = 0;
-    for (const p of pts) {
-      x0 = Math.min(x0, p.re);
-      x1 = Math.max(x1, p.re);
-      y0 = Math.min(y0, p.im);
-      y1 = Math.max(y1, p.im);
-      size = Math.max(size, Math.hypot(p.re, p.im));
-    }
-    if (Math.hypot(x1 - x0, y1 - y0) > 0.02 * size) out.push(...pts);
-  }
-  return out;
-}
-
-/** Key points near a set of focus points (within `factor` times their extent). */
-export function pointsNear(points: readonly Cx[], focus: readonly Cx[], factor = 1.5): Cx[] {
-  if (focus.length === 0) return [...points];
-  let r = 0;
-  let cx = 0;
-  for (const f of focus) cx += f.re / focus.length;
-  for (const f of focus) r = Math.max(r, Math.hypot(f.re - cx, f.im));
-  r = Math.max(r * factor, 1e-9);
-  return points.filter((p) => Math.hypot(p.re - cx, p.im) <= r);
 }
 
 /**
@@ -189,12 +137,6 @@ export function nearestOnBranches(
   return best;
 }
 
-/** Damping ratio ζ = −Re s / |s| and natural frequency ωn = |s| of a pole. */
-export function dampingOf(s: Cx): { zeta: number; omegaN: number } {
-  const wn = Math.hypot(s.re, s.im);
-  return { zeta: wn === 0 ? 1 : -s.re / wn, omegaN: wn };
-}
-
 /** Distance from s to the nearest of the poles, relative to |s| (or absolute near the origin). */
 export function relativeDistanceToNearest(s: Cx, poles: readonly Cx[]): number {
   let best = Infinity;
@@ -219,7 +161,15 @@ export function zoomWindow(win: PlaneWindow, z: PlaneZoom | null): PlaneWindow {
 }
 
 /** Zooms by `factor` keeping the plane point under the pointer fixed. */
-export function zoomAt(fitted: PlaneWindow, current: PlaneWindow, box: PlotBox, x: number, y: number, factor: number, z: PlaneZoom | null): PlaneZoom {
+export function zoomAt(
+  fitted: PlaneWindow,
+  current: PlaneWindow,
+  box: PlotBox,
+  x: number,
+  y: number,
+  factor: number,
+  z: PlaneZoom | null,
+): PlaneZoom {
   const at = fromPixel(current, box, x, y);
   const scale = Math.min(20, Math.max(1e-4, (z?.scale ?? 1) * factor));
   const cur = { re: (current.xMin + current.xMax) / 2, im: (current.yMin + current.yMax) / 2 };

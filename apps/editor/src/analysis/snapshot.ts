@@ -10,6 +10,12 @@ import type { Cx, FrequencyData, LoopsData, Part, ResponseResult } from '@loopwr
 export interface AnalysisSnapshot {
   takenAt: string;
   label: string;
+  /**
+   * The design pinned: the document and the sweep value held then. Compare re-runs it under
+   * the current simulation settings, so that two runs of different lengths are never compared.
+   */
+  diagram: Diagram;
+  live: LiveValue | null;
   /** Named parameter values and gain-block values (block:<id>.k) in force. */
   values: Record<string, number>;
   poles: Cx[];
@@ -28,11 +34,20 @@ export function tunedValues(d: Diagram, live: LiveValue | null): Record<string, 
   return out;
 }
 
-export function takeSnapshot(label: string, values: Record<string, number>, a: AnalysisResult | null, loops: Part<LoopsData> | null, r: ResponseResult | null): AnalysisSnapshot {
+export function takeSnapshot(
+  label: string,
+  design: { diagram: Diagram; live: LiveValue | null },
+  values: Record<string, number>,
+  a: AnalysisResult | null,
+  loops: Part<LoopsData> | null,
+  r: ResponseResult | null,
+): AnalysisSnapshot {
   const copy = <T>(x: T): T => (x === null ? x : structuredClone(x));
   return {
     takenAt: new Date().toISOString(),
     label,
+    diagram: design.diagram,
+    live: design.live ? { ...design.live } : null,
     values: { ...values },
     poles: a?.poles.ok ? copy(a.poles.value.poles) : [],
     frequency: a?.frequency?.ok ? copy(a.frequency.value) : null,

@@ -19,12 +19,17 @@ export {
   type SweepTarget,
 } from '@loopwright/study';
 
-/** Number formatting for readouts: 4 significant digits, exponent form outside 1e-3..1e5. */
-export function fmt(v: number | null | undefined, digits = 4): string {
-  if (v === null || v === undefined || Number.isNaN(v)) return '—';
-  if (v === Infinity) return '∞';
-  if (v === -Infinity) return '−∞';
-  const a = Math.abs(v);
-  if (a !== 0 && (a < 1e-3 || a >= 1e5)) return v.toExponential(digits - 1);
-  return String(Number(v.toPrecision(digits)));
+/** Number formatting for readouts: 4 significant digits, exponent form outside 1e-3..1e5 (the study's, shared with the report). */
+export { formatNumber as fmt } from '@loopwright/study';
+import { formatNumber } from '@loopwright/study';
+
+/**
+ * A tick of a log frequency axis: decades beyond 1000 or below 0.01 as "1e5", "1e-3" (short
+ * enough that eight decades in a small chart do not run together; "10000 1.0e5" did), any
+ * other value as the readouts write it.
+ */
+export function fmtLogTick(v: number): string {
+  const e = Math.round(Math.log10(v));
+  if (v > 0 && (e > 3 || e < -2) && Math.abs(v / 10 ** e - 1) < 1e-9) return `1e${e}`;
+  return formatNumber(v, 2);
 }

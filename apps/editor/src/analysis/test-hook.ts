@@ -14,6 +14,8 @@ export interface AnalysisHook {
   /** ECharts getOption() of a chart on screen (functions dropped). */
   chartOption(name: string): unknown;
   chartNames(): string[];
+  /** The drawn extent [min, max] of each y-axis of a chart (what its panels show). */
+  yExtents(name: string): [number, number][] | null;
   /** Page coordinates (CSS px) of the s-plane point (re, im) on the locus chart. */
   locusPagePoint(re: number, im: number): { x: number; y: number } | null;
   latencies(): number[];
@@ -36,7 +38,13 @@ export function installAnalysisHook(): void {
         complete: resultsComplete(rs) && rs.renderedGeneration === rs.generation,
         view: ui.view,
         sweep: inp.sweep.choice
-          ? { key: inp.sweep.choice.key, label: inp.sweep.choice.label, value: inp.sweep.value, live: ui.liveValue, parameter: engineParameterName(inp.sweep.choice.target) }
+          ? {
+              key: inp.sweep.choice.key,
+              label: inp.sweep.choice.label,
+              value: inp.sweep.value,
+              live: ui.liveValue,
+              parameter: engineParameterName(inp.sweep.choice.target),
+            }
           : null,
         poles: a?.poles.ok ? a.poles.value.poles : null,
         polesDetail: a?.poles.ok ? a.poles.value : null,
@@ -47,8 +55,11 @@ export function installAnalysisHook(): void {
         loops: rs.loops?.ok ? rs.loops.value : null,
         computeMs: rs.computeMs,
         response: rs.response,
+        closedLoop: rs.closedLoop,
+        pinnedRun: rs.pinnedRun,
+        busy: rs.busy,
         errors: rs.errors,
-        pinned: ui.pinned ? { label: ui.pinned.label, values: ui.pinned.values } : null,
+        pinned: ui.pinned ? { label: ui.pinned.label, values: ui.pinned.values, until: ui.pinned.response?.settings.until ?? null } : null,
       });
     },
     chartOption: (name) => {
@@ -56,6 +67,16 @@ export function installAnalysisHook(): void {
       return c ? json(c.getOption()) : null;
     },
     chartNames,
+    yExtents(name) {
+      const c = chartInstance(name) as unknown as { getModel(): { getComponent(t: string, i: number): { axis?: { scale: { getExtent(): [number, number] } } } | undefined } } | undefined;
+      if (!c) return null;
+      const out: [number, number][] = [];
+      for (let i = 0; ; i++) {
+        const axis = c.getModel().getComponent('yAxis', i)?.axis;
+        if (!axis) return out;
+        out.push(axis.scale.getExtent());
+      }
+    },
     locusPagePoint(re, im) {
       const c = chartInstance('locus');
       if (!c) return null;

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { parseForDisplay } from './formula.tsx';
-import { cardContent } from './block-formula.ts';
+import { blockKinds, blockSpec } from '@loopwright/graph';
+import { defaultParams } from '../store/graph-bridge.ts';
 
 // The display parser follows ordinary operator precedence (common practice, no source).
 describe('parseForDisplay', () => {
@@ -17,15 +18,13 @@ describe('parseForDisplay', () => {
     expect(parseForDisplay('2*#')).toBeNull();
     expect(parseForDisplay('2*(s+1')).toBeNull();
   });
-  it('builds card formulas from block parameters', () => {
-    const lag = cardContent({ id: 'a', kind: 'first-order-lag', position: { x: 0, y: 0 }, params: { k: 2, tau: 'T1' } });
-    expect(lag.formula).toBe('2/(T1*s + 1)');
-    const pid = cardContent({ id: 'p', kind: 'pid', position: { x: 0, y: 0 }, params: { form: 'ideal', kp: 'Kp', ti: 1.5, td: 0, n: 10, umin: '', umax: '' } });
-    expect(pid.formula).toBe('Kp*(1 + 1/(1.5*s))');
+  it('can draw every card formula the catalogue writes', () => {
+    // BlockSpec.card returns expression texts; the card renders them through this parser.
+    for (const kind of blockKinds) {
+      const f = blockSpec(kind).card(defaultParams(kind)).formula;
+      if (f !== undefined && f !== '') expect(parseForDisplay(f), `${kind}: ${f}`).not.toBeNull();
+    }
+    const pid = blockSpec('pid').card({ form: 'parallel', kp: 'Kp', ki: 2, kd: 0.1, n: 10, umin: -1, umax: 1 });
     expect(parseForDisplay(pid.formula!)).not.toBeNull();
-    // Small and large numbers in engineering notation, still readable by the display parser.
-    const tiny = cardContent({ id: 'g', kind: 'first-order-lag', position: { x: 0, y: 0 }, params: { k: 2.5e-5, tau: 120000 } });
-    expect(tiny.formula).toBe('25e-6/(120e3*s + 1)');
-    expect(parseForDisplay(tiny.formula!)).not.toBeNull();
   });
 });

@@ -5,9 +5,8 @@
  */
 import { memo, useEffect } from 'react';
 import { Handle, Position, useUpdateNodeInternals, type Node, type NodeProps } from '@xyflow/react';
-import type { Block } from '../store/graph-bridge.ts';
+import { blockSpec, type Block, type IconStroke } from '../store/graph-bridge.ts';
 import { Formula } from './formula.tsx';
-import { cardContent } from './block-formula.ts';
 import { inputSide } from './ports.ts';
 
 export interface BlockNodeData extends Record<string, unknown> {
@@ -31,8 +30,9 @@ function portLabel(block: Block, port: string) {
 
 export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<BlockFlowNode>) {
   const { block, inputs, outputs, fault, swept, sweptHere } = data;
-  const content = cardContent(block);
-  const cls = ['lw-card', `lw-kind-${block.kind}`, selected ? 'is-selected' : '', fault ? `fault-${fault}` : '', sweptHere ? 'is-swept' : '']
+  const spec = blockSpec(block.kind);
+  const content = spec.card(block.params);
+  const cls = ['lw-card', `lw-kind-${block.kind}`, `lw-category-${spec.category}`, selected ? 'is-selected' : '', fault ? `fault-${fault}` : '', sweptHere ? 'is-swept' : '']
     .filter(Boolean)
     .join(' ');
   return (
@@ -67,9 +67,7 @@ export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<B
         </div>
       )}
       {content.caption && <div className="lw-card-caption">{content.caption}</div>}
-      {block.kind === 'saturation' && <SatIcon />}
-      {block.kind === 'dead-zone' && <DeadZoneIcon />}
-      {block.kind === 'rate-limit' && <RateIcon />}
+      {spec.icon && <CardIcon strokes={spec.icon} />}
       {fault && <span className={`lw-fault-badge ${fault}`} aria-label={`${fault}: ${data.faultText ?? ''}`}>{fault === 'error' ? '!' : fault === 'warning' ? '▲' : 'i'}</span>}
       {outputs.map((p) => (
         <Handle key={p} id={p} type="source" position={Position.Right} aria-label={`output ${portLabel(block, p)}`} data-testid={`port-${block.id}-${p}`} />
@@ -78,22 +76,16 @@ export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<B
   );
 });
 
-const SatIcon = () => (
-  <svg className="lw-icon" viewBox="0 0 40 20" aria-hidden="true">
-    <path d="M2 16 H12 L28 4 H38" />
-  </svg>
-);
-const DeadZoneIcon = () => (
-  <svg className="lw-icon" viewBox="0 0 40 20" aria-hidden="true">
-    <path d="M4 18 L14 10 H26 L36 2" />
-  </svg>
-);
-const RateIcon = () => (
-  <svg className="lw-icon" viewBox="0 0 40 20" aria-hidden="true">
-    <path d="M2 16 H10 L30 4 H38" strokeDasharray="0" />
-    <path d="M10 16 V4 H30" className="lw-icon-ghost" />
-  </svg>
-);
+/** The catalogue's small drawing of a block's characteristic (BlockSpec.icon). */
+function CardIcon({ strokes }: { strokes: readonly IconStroke[] }) {
+  return (
+    <svg className="lw-icon" viewBox="0 0 40 20" aria-hidden="true">
+      {strokes.map((k, i) => (
+        <path key={i} d={k.d} className={k.ghost ? 'lw-icon-ghost' : undefined} />
+      ))}
+    </svg>
+  );
+}
 
 const SIDE = { left: Position.Left, bottom: Position.Bottom, top: Position.Top } as const;
 /** Where input i of a summing junction enters (see ports.ts). */

@@ -3,27 +3,9 @@
  * of its inputs (wiring by keyboard), or the selected wire with its cut.
  */
 import { useDiagramStore } from '../store/diagram-store.ts';
-import { blockSpec, type Block, type Diagram, type ParamSpec } from '../store/graph-bridge.ts';
+import { blockSpec, visibleParams, type Block, type Diagram } from '../store/graph-bridge.ts';
 import { ParamField } from './ParamField.tsx';
-
-/** Fields that matter for the block as configured (PID shows its chosen form's gains). */
-function visibleParams(b: Block): ParamSpec[] {
-  const all = blockSpec(b.kind).params;
-  if (b.kind === 'pid') {
-    const parallel = b.params.form === 'parallel';
-    return all.filter((p) => {
-      if (parallel && (p.name === 'ti' || p.name === 'td')) return false;
-      if (!parallel && (p.name === 'ki' || p.name === 'kd')) return false;
-      if (p.name === 'tt' && b.params.antiWindup !== 'back-calculation') return false;
-      return true;
-    });
-  }
-  if (b.kind === 'source') {
-    const shape = b.params.shape;
-    return all.filter((p) => (p.name !== 'omega' || shape === 'sinusoid') && ((p.name !== 'width' && p.name !== 'period') || shape === 'pulse'));
-  }
-  return all;
-}
+import { FitRecordNote } from '../commission/FitRecordNote.tsx';
 
 function outputsOf(d: Diagram, except: string): { value: string; label: string }[] {
   const out: { value: string; label: string }[] = [];
@@ -50,6 +32,7 @@ function BlockDetails({ diagram, block }: { diagram: Diagram; block: Block }) {
         <strong>{spec.title}</strong> <span className="muted mono">{block.id}</span>
       </div>
       <p className="muted small desc" title={spec.description}>{spec.description}</p>
+      <FitRecordNote diagram={diagram} block={block} />
       <div className="field">
         <label htmlFor="block-label">Label</label>
         <input
@@ -62,7 +45,7 @@ function BlockDetails({ diagram, block }: { diagram: Diagram; block: Block }) {
           onKeyDown={(e) => e.key === 'Enter' && (e.target as HTMLInputElement).blur()}
         />
       </div>
-      {visibleParams(block).map((p) => (
+      {visibleParams(block.kind, block.params).map((p) => (
         <ParamField key={`${block.id}:${p.name}`} diagram={diagram} block={block} spec={p} onCommit={(v) => st.updateBlockParams(block.id, { [p.name]: v })} />
       ))}
       {inputs.length > 0 && (

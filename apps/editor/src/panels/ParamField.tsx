@@ -4,7 +4,7 @@
  * is written to the document only when valid, on Enter or leaving the field. Escape reverts.
  */
 import { useEffect, useId, useState } from 'react';
-import type { Block, Diagram, ParamSpec, ParamValue } from '../store/graph-bridge.ts';
+import { blockSpec, unitOf, type Block, type Diagram, type ParamSpec, type ParamValue } from '../store/graph-bridge.ts';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { textFromValue, validateField, valueFromText, type FieldProblem } from './validate.ts';
 
@@ -65,13 +65,14 @@ export function ParamField({ diagram, block, spec, onCommit }: Props) {
   }
 
   const hint = rangeHint(spec);
+  const unit = unitOf(spec, block.params, blockSpec(block.kind).params);
   const pos = problem?.position;
   const len = Math.max(1, problem?.length ?? 1);
   return (
     <div className={`field${problem ? ' has-error' : ''}`}>
       <label htmlFor={id}>
         {spec.label}
-        {spec.unit && <span className="unit"> [{spec.unit}]</span>}
+        {unit && <span className="unit"> [{unit}]</span>}
       </label>
       <input
         id={id}
@@ -124,7 +125,7 @@ export function ParamField({ diagram, block, spec, onCommit }: Props) {
           })()}
         </div>
       )}
-      {!problem && hint && <div className="field-hint">{hint}{spec.unit ? ` ${spec.unit}` : ''}</div>}
+      {!problem && hint && <div className="field-hint">{hint}{unit ? ` ${unit}` : ''}</div>}
     </div>
   );
 }

@@ -62,7 +62,7 @@ export function PartsPanel() {
                   e.dataTransfer.effectAllowed = 'copy';
                 }}
               >
-                <span className={`part-glyph glyph-${s.kind}`} aria-hidden="true" />
+                <span className={`part-glyph glyph-${s.kind} glyph-${s.category}`} aria-hidden="true" />
                 {s.title}
               </button>
             ))}

@@ -7,6 +7,11 @@ import { demos } from '../store/graph-bridge.ts';
 import { useUiStore } from '../store/ui-store.ts';
 import { loadDemo, newDiagram, openFile, saveDiagram } from '../files/file-actions.ts';
 import { tidyPositions } from '../canvas/tidy.ts';
+import { demoTestLogs } from '@loopwright/study';
+import { openSampleLog } from '../commission/commission-store.ts';
+
+/** Demo-picker values that open a sample test log rather than a diagram. */
+const SAMPLE_LOG = 'log:';
 
 export async function tidyLayout(getSizes: () => Record<string, { width: number; height: number }>): Promise<void> {
   const d = useDiagramStore.getState().diagram;
@@ -61,7 +66,9 @@ export function Toolbar() {
         aria-label="Load demo"
         value=""
         onChange={(e) => {
-          if (e.target.value) loadDemo(e.target.value);
+          const v = e.target.value;
+          if (v.startsWith(SAMPLE_LOG)) void openSampleLog(v.slice(SAMPLE_LOG.length));
+          else if (v) loadDemo(v);
         }}
       >
         <option value="">Demos…</option>
@@ -70,6 +77,13 @@ export function Toolbar() {
             {d.title}
           </option>
         ))}
+        <optgroup label="Sample test logs">
+          {demoTestLogs.map((d) => (
+            <option key={d.id} value={`${SAMPLE_LOG}${d.id}`}>
+              {d.title}
+            </option>
+          ))}
+        </optgroup>
       </select>
       <span className="sep" />
       <button type="button" aria-label="Undo" title="Undo (Ctrl+Z)" disabled={!canUndo} onClick={undo}>

@@ -6,7 +6,7 @@
 import { create } from 'zustand';
 import { temporal } from 'zundo';
 import type { Block, BlockKind, Diagram, NamedParameter, ParamValue, SimulationSettings, Sweep, ViewSettings, Wire } from './graph-bridge.ts';
-import { defaultParams, emptyDiagram } from './graph-bridge.ts';
+import { blockSpec, defaultParams, emptyDiagram } from './graph-bridge.ts';
 import { renameInExpression } from './rename.ts';
 import { spliceIntoWire } from './wiring.ts';
 
@@ -61,24 +61,6 @@ export interface DiagramState {
   renameParameter(oldName: string, newName: string): void;
   removeParameter(name: string): void;
 }
-
-/** Block id prefixes: short, readable ids that make documents easy to diff. */
-const PREFIX: Record<BlockKind, string> = {
-  'transfer-function': 'tf',
-  gain: 'gain',
-  pid: 'pid',
-  'lead-lag': 'leadlag',
-  integrator: 'int',
-  'first-order-lag': 'lag',
-  'second-order': 'so',
-  'dead-time': 'delay',
-  'summing-junction': 'sum',
-  saturation: 'sat',
-  'rate-limit': 'rate',
-  'dead-zone': 'dz',
-  source: 'src',
-  probe: 'probe',
-};
 
 /** The smallest unused id `${prefix}${n}` (n ≥ 1): deterministic, so tests can predict ids. */
 export function nextId(prefix: string, taken: Iterable<string>): string {
@@ -179,14 +161,14 @@ export const useDiagramStore = create<DiagramState>()(
         },
         addBlock: (kind, position, params) => {
           const d = clone(get().diagram);
-          const id = nextId(PREFIX[kind], d.blocks.map((b) => b.id));
+          const id = nextId(blockSpec(kind).idPrefix, d.blocks.map((b) => b.id));
           d.blocks.push({ id, kind, position: { x: Math.round(position.x), y: Math.round(position.y) }, params: { ...defaultParams(kind), ...params } });
           set({ diagram: d, selection: { blocks: [id], wires: [] } });
           return id;
         },
         addBlockOnWire: (kind, position, wireId) => {
           const d = clone(get().diagram);
-          const id = nextId(PREFIX[kind], d.blocks.map((b) => b.id));
+          const id = nextId(blockSpec(kind).idPrefix, d.blocks.map((b) => b.id));
           d.blocks.push({ id, kind, position: { x: Math.round(position.x), y: Math.round(position.y) }, params: defaultParams(kind) });
           spliceIntoWire(d, id, wireId);
           set({ diagram: d, selection: { blocks: [id], wires: [] } });
@@ -240,6 +222,7 @@ export const useDiagramStore = create<DiagramState>()(
           if (d.view.activeCut && !d.cuts.some((c) => c.id === d.view.activeCut)) d.view.activeCut = d.cuts[0]?.id;
           if (d.view.activeProbe && !d.blocks.some((b) => b.id === d.view.activeProbe)) delete d.view.activeProbe;
           if (d.simulation?.probes) d.simulation.probes = d.simulation.probes.filter((id) => !gone.has(id));
+          if (d.fits) d.fits = d.fits.filter((f) => !gone.has(f.block));
           set({ diagram: d, selection: { blocks: [], wires: [] } });
         },
         removeWires: (ids) =>
@@ -274,7 +257,7 @@ export const useDiagramStore = create<DiagramState>()(
           const map = new Map<string, string>();
           const newIds: string[] = [];
           for (const b of clip.blocks) {
-            const id = nextId(PREFIX[b.kind], d.blocks.map((x) => x.id));
+            const id = nextId(blockSpec(b.kind).idPrefix, d.blocks.map((x) => x.id));
             map.set(b.id, id);
             newIds.push(id);
             d.blocks.push({ ...clone(b), id, position: { x: b.position.x + 40, y: b.position.y + 40 } });

@@ -1,18 +1,21 @@
 /**
  * The analysis area: the sweep bar on top, the Locus always on the left (it is what the
- * slider moves), and the Response, Frequency, Loops and Compare views in tabs on the right.
- * Starts the analysis driver (document → worker → results) and the test hook.
+ * slider moves), and the Response, Frequency, Loops, Closed loop and Compare views in tabs on
+ * the right; computations in progress with their Cancel above them. Starts the analysis driver
+ * (document → worker → results) and the test hook.
  */
 import { useEffect, useLayoutEffect, useMemo, useState } from 'react';
 import './analysis.css';
-import { currentInputs, startAnalysisDriver, withAllResults } from '../analysis/driver.ts';
+import { requestReport, startAnalysisDriver } from '../analysis/driver.ts';
 import { installAnalysisHook } from '../analysis/test-hook.ts';
 import { useAnalysisStore, type AnalysisViewId } from '../analysis/analysis-store.ts';
 import { resultsComplete, useResultsStore, type ResultsState } from '../analysis/results-store.ts';
 import { useShallow } from 'zustand/react/shallow';
 import { useDiagramStore } from '../store/diagram-store.ts';
-import { designReportHtml } from '../analysis/report.ts';
 import { download, slug } from '../analysis/export.ts';
+import { useUiStore } from '../store/ui-store.ts';
+import { BusyBar } from './BusyBar.tsx';
+import { ClosedLoopView } from './ClosedLoopView.tsx';
 import { SweepBar } from './SweepBar.tsx';
 import { LocusView } from './LocusView.tsx';
 import { ResponseView } from './ResponseView.tsx';
@@ -20,12 +23,18 @@ import { FrequencyView } from './FrequencyView.tsx';
 import { LoopsView } from './LoopsView.tsx';
 import { CompareView, pinCurrent } from './CompareView.tsx';
 import { palette } from './palette.ts';
+import { FitView } from '../commission/FitView.tsx';
+import { TuneView } from '../commission/TuneView.tsx';
+import { installCommissionHook } from '../commission/test-hook.ts';
 
 const TABS: { id: Exclude<AnalysisViewId, 'locus'>; label: string }[] = [
   { id: 'response', label: 'Response' },
   { id: 'frequency', label: 'Frequency' },
   { id: 'loops', label: 'Loops' },
+  { id: 'closed-loop', label: 'Closed loop' },
   { id: 'compare', label: 'Compare' },
+  { id: 'fit', label: 'Test log' },
+  { id: 'tune', label: 'Tune' },
 ];
 
 /** Dark when the page shows the dark theme (the <html data-theme> the theme switch sets). */
@@ -41,21 +50,20 @@ function useDark(): boolean {
   return (attr ?? theme) === 'dark';
 }
 
+/**
+ * The design report of what the views show (sweep, live value): computed in the worker by the
+ * study's report — the code `loopwright report` runs — with progress and Cancel, then offered
+ * as a download.
+ */
 export async function exportReport(): Promise<void> {
-  await withAllResults(() => undefined);
   const d = useDiagramStore.getState().diagram;
-  const rs = useResultsStore.getState();
-  const inp = currentInputs();
-  const html = designReportHtml({
-    diagram: d,
-    sweepLabel: inp.sweep.choice?.label ?? null,
-    sweepValue: inp.sweep.choice ? inp.sweep.value : null,
-    analysis: rs.analysis,
-    loops: rs.loops,
-    response: rs.response,
-    generatedAt: new Date(),
-  });
-  download(`${slug(d.title)}-report.html`, html, 'text/html');
+  try {
+    const r = await requestReport();
+    download(`${slug(d.title)}-report.html`, r.html, 'text/html');
+    if (r.problems.length) useUiStore.getState().notify({ kind: 'info', title: 'The report leaves out what could not be computed:', problems: r.problems });
+  } catch (e) {
+    useUiStore.getState().notify({ kind: 'error', title: `No report: ${e instanceof Error ? e.message : String(e)}` });
+  }
 }
 
 export function AnalysisArea() {
@@ -72,6 +80,7 @@ export function AnalysisArea() {
 
   useEffect(() => startAnalysisDriver(), []);
   useEffect(() => installAnalysisHook(), []);
+  useEffect(() => installCommissionHook(), []);
 
   // After the charts of a complete generation have been given their options (child effects run
   // first), wait one frame for the paint and record the generation as drawn.
@@ -118,6 +127,7 @@ export function AnalysisArea() {
         }}
       />
       <SweepBar />
+      <BusyBar />
       <div className="lw-analysis-body">
         <div className="lw-locus-pane">
           <LocusView pal={pal} />
@@ -142,7 +152,10 @@ export function AnalysisArea() {
             {tab === 'response' && <ResponseView pal={pal} />}
             {tab === 'frequency' && <FrequencyView pal={pal} />}
             {tab === 'loops' && <LoopsView pal={pal} />}
+            {tab === 'closed-loop' && <ClosedLoopView pal={pal} />}
             {tab === 'compare' && <CompareView pal={pal} />}
+            {tab === 'fit' && <FitView pal={pal} />}
+            {tab === 'tune' && <TuneView pal={pal} />}
           </div>
         </div>
       </div>

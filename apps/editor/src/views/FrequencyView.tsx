@@ -9,9 +9,11 @@ import { useDiagramStore } from '../store/diagram-store.ts';
 import { bodeOption, marginsText, nyquistOption, sensitivityOption, sensitivityText } from './frequency-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
+import { useStale } from './BusyBar.tsx';
 
 export function FrequencyView({ pal }: { pal: Palette }) {
   const analysis = useResultsStore((s) => s.analysis);
+  const stale = useStale('analysis');
   const pinned = useAnalysisStore((s) => s.pinned);
   const setOptions = useAnalysisStore((s) => s.setOptions);
   const [nySize, setNySize] = useState({ width: 360, height: 300 });
@@ -43,7 +45,12 @@ export function FrequencyView({ pal }: { pal: Palette }) {
     </label>
   );
   if (!f) {
-    const why = analysis?.frequency && !analysis.frequency.ok ? analysis.frequency.error : analysis ? 'No loop to open: mark a cut on a feedback wire (right-click a wire on the canvas).' : 'Computing…';
+    const why =
+      analysis?.frequency && !analysis.frequency.ok
+        ? analysis.frequency.error
+        : analysis
+          ? 'No loop to open: mark a cut on a feedback wire (right-click a wire on the canvas).'
+          : 'Computing…';
     return (
       <div className="lw-view">
         {rows.length > 0 && <div className="lw-view-tools">{picker}</div>}
@@ -52,18 +59,36 @@ export function FrequencyView({ pal }: { pal: Palette }) {
     );
   }
   return (
-    <div className="lw-view lw-frequency">
+    <div className={`lw-view lw-frequency${stale ? ' lw-stale' : ''}`} data-stale={stale}>
       <div className="lw-view-tools">
         {picker}
-        <span className={f.margins.closedLoopStable ? 'lw-ok' : 'lw-bad'}>{f.margins.closedLoopStable ? 'closed loop stable' : 'closed loop UNSTABLE'}</span>
+        <span className={f.margins.closedLoopStable ? 'lw-ok' : 'lw-bad'}>
+          {f.margins.closedLoopStable ? 'closed loop stable' : 'closed loop UNSTABLE'}
+        </span>
         {pin && <span className="lw-muted">dotted: pinned</span>}
       </div>
       <div className="lw-grid-freq">
-        <ChartFrame name="bode" title={`Bode of L`} background={pal.background} option={bode!} extra={<span className="lw-muted" title={marginsText(f.margins)}>{marginsText(f.margins)}</span>} />
+        <ChartFrame
+          name="bode"
+          title={`Bode of L`}
+          background={pal.background}
+          option={bode!}
+          extra={
+            <span className="lw-muted" title={marginsText(f.margins)}>
+              {marginsText(f.margins)}
+            </span>
+          }
+        />
         <ChartFrame name="nyquist" title="Nyquist of L" background={pal.background} option={nyq!} onSize={setNySize} />
       </div>
       <div className="lw-grid-1">
-        <ChartFrame name="sensitivity" title="|S| and |T|" background={pal.background} option={sens!} extra={<span className="lw-muted">{sensitivityText(f.margins)}</span>} />
+        <ChartFrame
+          name="sensitivity"
+          title="|S| and |T|"
+          background={pal.background}
+          option={sens!}
+          extra={<span className="lw-muted">{sensitivityText(f.margins)}</span>}
+        />
       </div>
     </div>
   );

@@ -1,7 +1,10 @@
 /**
- * The Loops view: every cut with its crossover, margins, Ms and stability; the inner/outer
- * separation ratios with the rule-of-thumb flag; the outer loop with the real inner loop
- * against an ideal one. Cells carry their raw values (data-value) for tests and copy-paste.
+ * The Loops view: every loop by its one name, read with every other loop closed and (when
+ * loops enclose it) inner-first, each reading with its crossover, margins, Ms, the open-loop
+ * RHP poles of its L and stability, the reading to act on marked and why; the inner/outer
+ * separation ratios with the rule-of-thumb flag; and for every nested pair the outer loop with
+ * the real against an ideal inner loop, one configuration for both. Cells carry their raw
+ * values (data-value) for tests and copy-paste.
  */
 import { useMemo } from 'react';
 import { useResultsStore } from '../analysis/results-store.ts';
@@ -9,22 +12,81 @@ import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { fmt } from '../analysis/sweep.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
-import type { LoopsData, OuterIdealData } from '@loopwright/study';
+import { useStale } from './BusyBar.tsx';
+import type { LoopsData, MarginsData, OuterIdealData } from '@loopwright/study';
 import { LOOP_COLUMNS } from './loop-columns.ts';
 import type { ChartOption } from './echarts-setup.ts';
+
+/** Columns before the RHP pole count: crossover, PM and GM (LOOP_COLUMNS order). */
+const FIRST_COLUMNS = 3;
 
 /** A missing gain or delay margin means "unlimited"; other missing values are just absent. */
 const cellText = (v: number | null, field: string) => (v === null && (field === 'gainMarginDb' || field === 'delayMargin') ? '∞' : fmt(v));
 
-export function LoopsTable({ loops, pinned, names }: { loops: LoopsData; pinned: LoopsData | null; names?: Record<string, string> }) {
-  const label = (cut: string) => names?.[cut] ?? loops.rows.find((r) => r.cutId === cut)?.label ?? cut;
+/** One reading of a loop as a table row: its margins, the open-loop RHP poles of that L, the closed loop. */
+function ReadingCells({ margins, rhp, pinned }: { margins: MarginsData; rhp: number; pinned?: MarginsData }) {
+  const cell = (c: (typeof LOOP_COLUMNS)[number]) => {
+    const v = margins[c.field] as number | null;
+    const pv = pinned ? (pinned[c.field] as number | null) : undefined;
+    const negativePm = c.field === 'phaseMarginDeg' && v !== null && v < 0;
+    return (
+      <td key={c.field} data-field={c.field} data-value={v === null ? 'null' : String(v)} className={negativePm ? 'lw-warnval' : undefined}>
+        {cellText(v, c.field)}
+        {pv !== undefined && pv !== v && <span className="lw-pinned-val"> ({fmt(pv)})</span>}
+      </td>
+    );
+  };
+  // The margins first, then the RHP pole count that explains a negative PM, then the rest.
+  return (
+    <>
+      {LOOP_COLUMNS.slice(0, FIRST_COLUMNS).map(cell)}
+      <td
+        data-field="openLoopRhpPoles"
+        data-value={String(rhp)}
+        className={rhp > 0 ? 'lw-warnval' : undefined}
+        title={
+          rhp > 0
+            ? `L has ${rhp} open-loop pole(s) in the right half-plane: a stable closed loop encircles −1 that many times counter-clockwise`
+            : 'L has no open-loop pole in the right half-plane'
+        }
+      >
+        {rhp}
+      </td>
+      {LOOP_COLUMNS.slice(FIRST_COLUMNS).map(cell)}
+      <td
+        data-field="closedLoopStable"
+        data-value={String(margins.closedLoopStable)}
+        className={margins.closedLoopStable ? 'lw-ok' : 'lw-bad'}
+      >
+        {margins.closedLoopStable ? 'stable' : 'UNSTABLE'}
+      </td>
+    </>
+  );
+}
+
+/**
+ * Every loop read with every other loop closed and, when loops enclose it, inner-first beside
+ * it, each reading with the open-loop RHP poles of its L; the reading to act on marked and the
+ * reason said under the table (so a negative PM with a stable closed loop explains itself).
+ */
+export function LoopsTable({ loops, pinned }: { loops: LoopsData; pinned: LoopsData | null }) {
+  const name = (cut: string) => loops.names[cut] ?? cut;
   return (
     <>
       <table className="lw-table" data-testid="loops-table">
         <thead>
           <tr>
             <th>loop (cut)</th>
-            {LOOP_COLUMNS.map((c) => (
+            <th>reading</th>
+            {LOOP_COLUMNS.slice(0, FIRST_COLUMNS).map((c) => (
+              <th key={c.field} title={c.title}>
+                {c.label}
+              </th>
+            ))}
+            <th title="open-loop poles of L in the right half-plane (Nyquist: that many counter-clockwise encirclements of −1 for a stable closed loop)">
+              RHP poles of L
+            </th>
+            {LOOP_COLUMNS.slice(FIRST_COLUMNS).map((c) => (
               <th key={c.field} title={c.title}>
                 {c.label}
               </th>
@@ -36,48 +98,47 @@ export function LoopsTable({ loops, pinned, names }: { loops: LoopsData; pinned:
           {loops.rows.map((r) => {
             const p = pinned?.rows.find((x) => x.cutId === r.cutId);
             const inner = r.alone;
+            const act = (on: boolean) =>
+              on ? (
+                <span className="lw-act" title="the reading to act on (see below why)">
+                  {' '}
+                  ◀ act on this
+                </span>
+              ) : null;
             return [
-              <tr key={r.cutId} data-cut={r.cutId} data-wire={r.wire}>
-                <td className="lw-nowrap" title={`wire ${r.wire}; loop through ${r.blocks.join(', ')}`}>
+              <tr key={r.cutId} data-cut={r.cutId} data-wire={r.wire} data-act={r.advice.actOn === 'all-closed' ? 'true' : 'false'}>
+                <td className="lw-nowrap" title={`cut ${r.cutId} on wire ${r.wire}; loop through ${r.blocks.join(', ')}`}>
                   {r.label}
                   {r.auto && <span className="lw-muted"> (proposed)</span>}
                 </td>
-                {LOOP_COLUMNS.map((c) => {
-                  const v = r.margins[c.field] as number | null;
-                  const pv = p ? (p.margins[c.field] as number | null) : undefined;
-                  return (
-                    <td key={c.field} data-field={c.field} data-value={v === null ? 'null' : String(v)}>
-                      {cellText(v, c.field)}
-                      {pv !== undefined && pv !== v && <span className="lw-pinned-val"> ({fmt(pv)})</span>}
-                    </td>
-                  );
-                })}
-                <td data-field="closedLoopStable" data-value={String(r.margins.closedLoopStable)} className={r.margins.closedLoopStable ? 'lw-ok' : 'lw-bad'}>
-                  {r.margins.closedLoopStable ? 'stable' : 'UNSTABLE'}
+                <td className="lw-nowrap" title="L at this cut with every other loop closed (how the loop runs)">
+                  others closed{act(r.advice.actOn === 'all-closed')}
                 </td>
+                <ReadingCells margins={r.margins} rhp={r.openLoopRhpPoles} pinned={p?.margins} />
               </tr>,
               inner && (
-                <tr key={`${r.cutId}:alone`} data-cut-alone={r.cutId} className="lw-muted">
-                  <td className="lw-nowrap" title={`opened: ${inner.opened.join(', ')}`}>
-                    ↳ tuned inner-first
+                <tr key={`${r.cutId}:alone`} data-cut-alone={r.cutId} data-act={r.advice.actOn === 'inner-first' ? 'true' : 'false'}>
+                  <td className="lw-nowrap lw-muted">↳ {r.label}</td>
+                  <td
+                    className="lw-nowrap"
+                    title={`inner-first: ${inner.opened.map(name).join(', ')} opened (how a cascade is tuned and commissioned)`}
+                  >
+                    inner-first{act(r.advice.actOn === 'inner-first')}
                   </td>
-                  {LOOP_COLUMNS.map((c) => {
-                    const v = inner.margins[c.field] as number | null;
-                    return (
-                      <td key={c.field} data-field={c.field} data-value={v === null ? 'null' : String(v)}>
-                        {cellText(v, c.field)}
-                      </td>
-                    );
-                  })}
-                  <td data-field="closedLoopStable" data-value={String(inner.margins.closedLoopStable)} className={inner.margins.closedLoopStable ? 'lw-ok' : 'lw-bad'}>
-                    {inner.margins.closedLoopStable ? 'stable' : 'UNSTABLE'}
-                  </td>
+                  <ReadingCells margins={inner.margins} rhp={inner.openLoopRhpPoles} pinned={p?.alone?.margins} />
                 </tr>
               ),
             ];
           })}
         </tbody>
       </table>
+      <ul className="lw-advice" data-testid="loops-advice">
+        {loops.rows.map((r) => (
+          <li key={r.cutId} data-cut={r.cutId}>
+            <b>{r.label}</b>: {r.advice.text}
+          </li>
+        ))}
+      </ul>
       {loops.separations.length > 0 && (
         <table className="lw-table" data-testid="separation-table">
           <thead>
@@ -92,8 +153,8 @@ export function LoopsTable({ loops, pinned, names }: { loops: LoopsData; pinned:
           <tbody>
             {loops.separations.map((s) => (
               <tr key={`${s.inner}>${s.outer}`}>
-                <td>{label(s.inner)}</td>
-                <td>{label(s.outer)}</td>
+                <td>{name(s.inner)}</td>
+                <td>{name(s.outer)}</td>
                 <td data-value={String(s.ratio)}>{s.ratio === null ? '—' : `${fmt(s.ratio, 3)}×`}</td>
                 <td>{s.basis}</td>
                 <td className={s.flag ? 'lw-bad' : 'lw-ok'} title={s.note}>
@@ -122,11 +183,20 @@ function idealOption(o: OuterIdealData, label: (c: string) => string, pal: Palet
     itemStyle: { color },
     data,
   });
-  const axisBase = { axisLine: { onZero: false, lineStyle: { color: pal.axis } }, axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 3) }, splitLine: { lineStyle: { color: pal.grid } } };
+  const axisBase = {
+    axisLine: { onZero: false, lineStyle: { color: pal.axis } },
+    axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 3) },
+    splitLine: { lineStyle: { color: pal.grid } },
+  };
   return {
     animation: false,
     backgroundColor: pal.background,
-    title: { text: `Outer loop ${label(o.outer)}: real vs ideal inner loop ${label(o.inner)}`, left: 8, top: 4, textStyle: { color: pal.text, fontSize: 12, fontWeight: 'normal' } },
+    title: {
+      text: `Outer loop ${label(o.outer)}: real vs ideal inner loop ${label(o.inner)}`,
+      left: 8,
+      top: 4,
+      textStyle: { color: pal.text, fontSize: 12, fontWeight: 'normal' },
+    },
     legend: { top: 22, right: 10, textStyle: { color: pal.muted } },
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
     grid: [
@@ -135,7 +205,17 @@ function idealOption(o: OuterIdealData, label: (c: string) => string, pal: Palet
     ],
     xAxis: [
       { type: 'log', gridIndex: 0, min: o.omega[0], max: o.omega[o.omega.length - 1], ...axisBase },
-      { type: 'log', gridIndex: 1, min: o.omega[0], max: o.omega[o.omega.length - 1], name: 'ω [rad/s]', nameLocation: 'middle', nameGap: 22, nameTextStyle: { color: pal.muted }, ...axisBase },
+      {
+        type: 'log',
+        gridIndex: 1,
+        min: o.omega[0],
+        max: o.omega[o.omega.length - 1],
+        name: 'ω [rad/s]',
+        nameLocation: 'middle',
+        nameGap: 22,
+        nameTextStyle: { color: pal.muted },
+        ...axisBase,
+      },
     ],
     yAxis: [
       { type: 'value', gridIndex: 0, scale: true, name: '|L| dB', nameTextStyle: { color: pal.muted }, ...axisBase },
@@ -150,18 +230,68 @@ function idealOption(o: OuterIdealData, label: (c: string) => string, pal: Palet
   };
 }
 
+/** One nested pair: both margin rows and both curves in one configuration, said in words. */
+function OuterIdealPair({ o, loops, pal, index }: { o: OuterIdealData; loops: LoopsData; pal: Palette; index: number }) {
+  const name = (c: string) => loops.names[c] ?? c;
+  const option = useMemo(() => idealOption(o, name, pal), [o, loops, pal]); // eslint-disable-line react-hooks/exhaustive-deps
+  const opened = o.opened.map(name).join(', ');
+  return (
+    <div className="lw-pair" data-testid="outer-ideal" data-outer={o.outer} data-inner={o.inner}>
+      <div className="lw-note">
+        {name(o.outer)} with the real against an ideal {name(o.inner)} — both rows and both curves with{' '}
+        {opened ? `${opened} opened` : 'every other loop as drawn'}.
+      </div>
+      <table className="lw-table lw-compact" data-testid="outer-ideal-table">
+        <thead>
+          <tr>
+            <th>outer loop {name(o.outer)}</th>
+            <th>crossover [rad/s]</th>
+            <th>phase margin [°]</th>
+            <th>gain margin [dB]</th>
+            <th>Ms</th>
+          </tr>
+        </thead>
+        <tbody>
+          {(
+            [
+              [`with the real ${name(o.inner)}`, o.realMargins],
+              [`with an ideal ${name(o.inner)}`, o.idealMargins],
+            ] as const
+          ).map(([label, m]) => (
+            <tr key={label}>
+              <td>{label}</td>
+              <td>{fmt(m.gainCrossover)}</td>
+              <td>{fmt(m.phaseMarginDeg)}</td>
+              <td>{m.gainMarginDb === null ? '∞' : fmt(m.gainMarginDb)}</td>
+              <td>{fmt(m.peakSensitivity)}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <div className="lw-grid-1 lw-short">
+        <ChartFrame
+          name={index === 0 ? 'outer-ideal' : `outer-ideal-${index + 1}`}
+          title={`${name(o.outer)}: real vs ideal ${name(o.inner)}`}
+          background={pal.background}
+          option={option}
+        />
+      </div>
+    </div>
+  );
+}
+
 export function LoopsView({ pal }: { pal: Palette }) {
   const result = useResultsStore((s) => s.loops);
   const pinned = useAnalysisStore((s) => s.pinned);
   const loops = result?.ok ? result.value : null;
-  const label = (c: string) => loops?.rows.find((r) => r.cutId === c)?.label ?? c;
-  const o = loops?.outerVsIdeal[0] ?? null;
-  const option = useMemo(() => (o && loops ? idealOption(o, label, pal) : null), [o, loops, pal]); // eslint-disable-line react-hooks/exhaustive-deps
+  const stale = useStale('loops');
   if (!loops) return <div className="lw-empty">{result && !result.ok ? `Loops: ${result.error}` : 'Computing…'}</div>;
   return (
-    <div className="lw-view lw-loops">
+    <div className={`lw-view lw-loops${stale ? ' lw-stale' : ''}`} data-stale={stale}>
       <div className="lw-view-tools">
-        <span className={loops.stable ? 'lw-ok' : 'lw-bad'}>{loops.stable ? 'whole diagram stable (closed-loop poles)' : 'whole diagram UNSTABLE (closed-loop poles)'}</span>
+        <span className={loops.stable ? 'lw-ok' : 'lw-bad'}>
+          {loops.stable ? 'whole diagram stable (closed-loop poles)' : 'whole diagram UNSTABLE (closed-loop poles)'}
+        </span>
         {pinned?.loops && <span className="lw-muted">(pinned values in brackets)</span>}
       </div>
       {loops.notes.map((n) => (
@@ -170,40 +300,9 @@ export function LoopsView({ pal }: { pal: Palette }) {
         </div>
       ))}
       <LoopsTable loops={loops} pinned={pinned?.loops ?? null} />
-      {loops.outerVsIdeal.map((x) => (
-        <table key={`${x.outer}<${x.inner}`} className="lw-table lw-compact" data-testid="outer-ideal-table">
-          <thead>
-            <tr>
-              <th>outer loop {label(x.outer)}</th>
-              <th>crossover [rad/s]</th>
-              <th>phase margin [°]</th>
-              <th>gain margin [dB]</th>
-              <th>Ms</th>
-            </tr>
-          </thead>
-          <tbody>
-            {(
-              [
-                ['with the real inner loop ' + label(x.inner), x.realMargins],
-                ['with an ideal inner loop', x.idealMargins],
-              ] as const
-            ).map(([name, m]) => (
-              <tr key={name}>
-                <td>{name}</td>
-                <td>{fmt(m?.gainCrossover)}</td>
-                <td>{fmt(m?.phaseMarginDeg)}</td>
-                <td>{m?.gainMarginDb === null ? '∞' : fmt(m?.gainMarginDb)}</td>
-                <td>{fmt(m?.peakSensitivity)}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+      {loops.outerVsIdeal.map((x, i) => (
+        <OuterIdealPair key={`${x.outer}<${x.inner}`} o={x} loops={loops} pal={pal} index={i} />
       ))}
-      {option && (
-        <div className="lw-grid-1 lw-short">
-          <ChartFrame name="outer-ideal" title="Outer loop: real vs ideal inner loop" background={pal.background} option={option} />
-        </div>
-      )}
     </div>
   );
 }

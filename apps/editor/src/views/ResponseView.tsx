@@ -1,18 +1,20 @@
 /**
  * The Response view: simulated responses of the chosen probes to the diagram's sources, with
- * nonlinearities, over the linear model's response; the actuator signals with their limits;
- * the metrics table. CSV export of every trace.
+ * nonlinearities, over the linear model's response, in small multiples (probes of one unit on
+ * a shared axis); the actuator signals with their limits; the metrics table. CSV export of
+ * every trace. The pinned design's re-run (Compare) is drawn dotted.
  */
 import { useMemo } from 'react';
-import { shownProbes, type ResponseResult } from '@loopwright/study';
+import { responsePanels, shownProbes, type ResponseResult } from '@loopwright/study';
+import { comparableRun } from '../analysis/compare.ts';
 import { useResultsStore } from '../analysis/results-store.ts';
-import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { useDiagramStore } from '../store/diagram-store.ts';
 import { fmt } from '../analysis/sweep.ts';
 import { download, responseCsv, slug } from '../analysis/export.ts';
-import { actuatorOption, probeColor, responseOption } from './response-option.ts';
+import { actuatorOption, probeColor, responseHeight, responseOption } from './response-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
+import { useStale } from './BusyBar.tsx';
 
 export function exportResponseCsv(r: ResponseResult): void {
   download(`${slug(useDiagramStore.getState().diagram.title)}-traces.csv`, responseCsv(r), 'text/csv');
@@ -21,14 +23,17 @@ export function exportResponseCsv(r: ResponseResult): void {
 export function ResponseView({ pal }: { pal: Palette }) {
   const r = useResultsStore((s) => s.response);
   const error = useResultsStore((s) => s.errors.response);
-  const pinned = useAnalysisStore((s) => s.pinned);
+  const stale = useStale('response');
+  const pinnedRun = useResultsStore((s) => s.pinnedRun);
+  const pinned = comparableRun(pinnedRun, r);
   // The run's end time and the probes shown are simulation settings of the document (saved, undoable).
   const diagram = useDiagramStore((s) => s.diagram);
   const simEnd = diagram.simulation?.end;
   const setSimulation = useDiagramStore((s) => s.setSimulation);
   const probes = useMemo(() => (r ? shownProbes(diagram).filter((id) => r.probes.some((p) => p.id === id)) : []), [r, diagram]);
-  const option = useMemo(() => (r ? responseOption(r, probes, pinned?.response ?? null, pal) : null), [r, probes, pinned, pal]);
-  const actOption = useMemo(() => (r && r.actuators.length > 0 ? actuatorOption(r, pinned?.response ?? null, pal) : null), [r, pinned, pal]);
+  const option = useMemo(() => (r ? responseOption(r, probes, pinned, pal) : null), [r, probes, pinned, pal]);
+  const actOption = useMemo(() => (r && r.actuators.length > 0 ? actuatorOption(r, pinned, pal) : null), [r, pinned, pal]);
+  const panels = useMemo(() => (r ? responsePanels(r.probes, probes).length : 1), [r, probes]);
 
   if (!r) return <div className="lw-empty">{error ? `Response: ${error}` : 'Simulating…'}</div>;
   const toggle = (id: string) => {
@@ -38,7 +43,7 @@ export function ResponseView({ pal }: { pal: Palette }) {
     setSimulation({ probes: r.probes.map((p) => p.id).filter((p) => cur.has(p)) });
   };
   return (
-    <div className="lw-view lw-response">
+    <div className={`lw-view lw-response${stale ? ' lw-stale' : ''}`} data-stale={stale}>
       <div className="lw-view-tools">
         <span className="lw-muted">Probes</span>
         {r.probes.map((p) => (
@@ -69,7 +74,8 @@ export function ResponseView({ pal }: { pal: Palette }) {
         </label>
       </div>
       {error && <div className="lw-error">{error}</div>}
-      <div className={actOption ? 'lw-grid-2' : 'lw-grid-1'}>
+      {/* Small multiples: the chart grows with its panels and the view scrolls. */}
+      <div className={actOption ? 'lw-grid-2' : 'lw-grid-1'} style={{ minHeight: responseHeight(panels) + 28 }}>
         <ChartFrame
           name="response"
           title="Response"
@@ -78,10 +84,20 @@ export function ResponseView({ pal }: { pal: Palette }) {
           extra={
             <>
               <span className="lw-muted" title="solid: with nonlinearities · dashed: the linear model · dotted: pinned">
-                solid: nonlinear · dashed: linear{pinned ? ' · dotted: pinned' : ''}
+                solid: nonlinear · dashed: linear{pinned ? ' · dotted: pinned (re-run under these settings)' : ''}
               </span>
-              {r.run.status !== 'ok' && <span className="lw-bad">simulation {r.run.status}: {r.run.message}</span>}
-              <button type="button" className="lw-mini" data-export="traces:csv" title="Every trace as CSV" onClick={() => exportResponseCsv(r)}>
+              {r.run.status !== 'ok' && (
+                <span className="lw-bad">
+                  simulation {r.run.status}: {r.run.message}
+                </span>
+              )}
+              <button
+                type="button"
+                className="lw-mini"
+                data-export="traces:csv"
+                title="Every trace as CSV"
+                onClick={() => exportResponseCsv(r)}
+              >
                 CSV
               </button>
             </>
@@ -89,7 +105,7 @@ export function ResponseView({ pal }: { pal: Palette }) {
         />
         {actOption && <ChartFrame name="actuator" title="Actuator" background={pal.background} option={actOption} />}
       </div>
-      <MetricsTable r={r} pinned={pinned?.response ?? null} />
+      <MetricsTable r={r} pinned={pinned} />
     </div>
   );
 }

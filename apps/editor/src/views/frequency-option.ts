@@ -4,7 +4,7 @@
  * A pinned result is overlaid dotted.
  */
 import type { FrequencyData, MarginsData } from '@loopwright/study';
-import { fmt } from '../analysis/sweep.ts';
+import { fmt, fmtLogTick } from '../analysis/sweep.ts';
 import type { Palette } from './palette.ts';
 import type { ChartOption } from './echarts-setup.ts';
 
@@ -51,7 +51,7 @@ function logAxis(pal: Palette, name: string, gridIndex: number, min: number, max
     max,
     logBase: 10,
     axisLine: { onZero: false, lineStyle: { color: pal.axis } },
-    axisLabel: { color: pal.muted, formatter: (v: number) => fmt(v, 2) },
+    axisLabel: { color: pal.muted, formatter: fmtLogTick },
     splitLine: { lineStyle: { color: pal.grid } },
     minorSplitLine: { show: false },
   };
@@ -78,14 +78,17 @@ export function bodeOption(f: FrequencyData, pinned: FrequencyData | null, pal: 
   const vline = (x: number, label: string) => ({ xAxis: x, label: { formatter: label, color: pal.text, fontSize: 10 } });
   const magMarks: unknown[] = [{ yAxis: 0, label: { show: false }, lineStyle: { color: pal.axis, type: 'solid' } }];
   const inRange = (w: number) => w >= wMin && w <= wMax;
-  for (const wc of m.gainCrossovers.filter(inRange).slice(0, 6)) magMarks.push(wc === m.gainCrossover ? vline(wc, `ωc ${fmt(wc, 3)}`) : { xAxis: wc, label: { show: false } });
+  for (const wc of m.gainCrossovers.filter(inRange).slice(0, 6))
+    magMarks.push(wc === m.gainCrossover ? vline(wc, `ωc ${fmt(wc, 3)}`) : { xAxis: wc, label: { show: false } });
   const phaseMarks: unknown[] = [];
   const pMin = Math.min(...f.phaseDeg);
   const pMax = Math.max(...f.phaseDeg);
   for (let k = -1980; k <= 1980; k += 360) {
-    if (k >= pMin - 30 && k <= pMax + 30) phaseMarks.push({ yAxis: k, label: { show: false }, lineStyle: { color: pal.axis, type: 'solid' } });
+    if (k >= pMin - 30 && k <= pMax + 30)
+      phaseMarks.push({ yAxis: k, label: { show: false }, lineStyle: { color: pal.axis, type: 'solid' } });
   }
-  for (const wp of m.phaseCrossovers.filter(inRange).slice(0, 6)) phaseMarks.push(wp === m.phaseCrossover ? vline(wp, `ω180 ${fmt(wp, 3)}`) : { xAxis: wp, label: { show: false } });
+  for (const wp of m.phaseCrossovers.filter(inRange).slice(0, 6))
+    phaseMarks.push(wp === m.phaseCrossover ? vline(wp, `ω180 ${fmt(wp, 3)}`) : { xAxis: wp, label: { show: false } });
   const marks = { silent: true, symbol: 'none', lineStyle: { color: pal.limit, type: 'dashed' }, animation: false };
 
   const series: unknown[] = [
@@ -94,15 +97,39 @@ export function bodeOption(f: FrequencyData, pinned: FrequencyData | null, pal: 
   ];
   // The margins as vertical bars: GM at the phase crossover, PM at the gain crossover.
   if (m.phaseCrossover !== null && m.gainMarginDb !== null) {
-    series.push(lineSeries('gain margin', [[m.phaseCrossover, 0], [m.phaseCrossover, -m.gainMarginDb]], pal.limit, { xAxisIndex: 0, yAxisIndex: 0, lineStyle: { color: pal.limit, width: 3 } }));
+    series.push(
+      lineSeries(
+        'gain margin',
+        [
+          [m.phaseCrossover, 0],
+          [m.phaseCrossover, -m.gainMarginDb],
+        ],
+        pal.limit,
+        { xAxisIndex: 0, yAxisIndex: 0, lineStyle: { color: pal.limit, width: 3 } },
+      ),
+    );
   }
   if (m.gainCrossover !== null && m.phaseMarginDeg !== null) {
     const base = nearestMultiple(interpAt(f.omega, f.phaseDeg, m.gainCrossover) - m.phaseMarginDeg);
-    series.push(lineSeries('phase margin', [[m.gainCrossover, base], [m.gainCrossover, base + m.phaseMarginDeg]], pal.limit, { xAxisIndex: 1, yAxisIndex: 1, lineStyle: { color: pal.limit, width: 3 } }));
+    series.push(
+      lineSeries(
+        'phase margin',
+        [
+          [m.gainCrossover, base],
+          [m.gainCrossover, base + m.phaseMarginDeg],
+        ],
+        pal.limit,
+        { xAxisIndex: 1, yAxisIndex: 1, lineStyle: { color: pal.limit, width: 3 } },
+      ),
+    );
   }
   if (pinned) {
-    series.push(lineSeries('pinned |L| dB', zip(pinned.omega, pinned.magDb), pal.pinned, { xAxisIndex: 0, yAxisIndex: 0, ...pinnedStyle(pal) }));
-    series.push(lineSeries('pinned ∠L °', zip(pinned.omega, pinned.phaseDeg), pal.pinned, { xAxisIndex: 1, yAxisIndex: 1, ...pinnedStyle(pal) }));
+    series.push(
+      lineSeries('pinned |L| dB', zip(pinned.omega, pinned.magDb), pal.pinned, { xAxisIndex: 0, yAxisIndex: 0, ...pinnedStyle(pal) }),
+    );
+    series.push(
+      lineSeries('pinned ∠L °', zip(pinned.omega, pinned.phaseDeg), pal.pinned, { xAxisIndex: 1, yAxisIndex: 1, ...pinnedStyle(pal) }),
+    );
   }
   return {
     animation: false,
@@ -133,7 +160,12 @@ function nearestMultiple(p: number): number {
   return Math.round((p - 180) / 360) * 360 + 180;
 }
 
-export function nyquistOption(f: FrequencyData, pinned: FrequencyData | null, pal: Palette, size: { width: number; height: number }): ChartOption {
+export function nyquistOption(
+  f: FrequencyData,
+  pinned: FrequencyData | null,
+  pal: Palette,
+  size: { width: number; height: number },
+): ChartOption {
   // Clip the view to a window around the critical point so that integrators do not squash it.
   const all: number[][] = zip(f.re, f.im);
   const R = 4;
@@ -164,10 +196,22 @@ export function nyquistOption(f: FrequencyData, pinned: FrequencyData | null, pa
   const circle: number[][] = [];
   for (let i = 0; i <= 96; i++) circle.push([Math.cos((2 * Math.PI * i) / 96), Math.sin((2 * Math.PI * i) / 96)]);
   const series: unknown[] = [
-    lineSeries('unit circle', circle, pal.guide, { silent: true, sampling: undefined, lineStyle: { color: pal.guide, width: 1, type: 'dotted' } }),
+    lineSeries('unit circle', circle, pal.guide, {
+      silent: true,
+      sampling: undefined,
+      lineStyle: { color: pal.guide, width: 1, type: 'dotted' },
+    }),
     // A parametric curve (x not monotonic): no down-sampling by x.
     lineSeries('L(jω), ω > 0', all, pal.series[0], { sampling: undefined }),
-    lineSeries('L(jω), ω < 0', zip(f.re, f.im.map((v) => -v)), pal.series[0], { sampling: undefined, lineStyle: { color: pal.series[0], width: 1, type: 'dashed' } }),
+    lineSeries(
+      'L(jω), ω < 0',
+      zip(
+        f.re,
+        f.im.map((v) => -v),
+      ),
+      pal.series[0],
+      { sampling: undefined, lineStyle: { color: pal.series[0], width: 1, type: 'dashed' } },
+    ),
     {
       type: 'scatter',
       name: 'critical point −1',
@@ -180,7 +224,13 @@ export function nyquistOption(f: FrequencyData, pinned: FrequencyData | null, pa
   ];
   if (pinned) series.push(lineSeries('pinned L(jω)', zip(pinned.re, pinned.im), pal.pinned, { ...pinnedStyle(pal), sampling: undefined }));
   const ax = (name: string, min: number, max: number) =>
-    valueAxis(pal, name, { min, max, scale: false, nameGap: name === 'Re L' ? 26 : 44, axisLabel: { color: pal.muted, showMinLabel: false, showMaxLabel: false, formatter: (v: number) => fmt(v, 3) } });
+    valueAxis(pal, name, {
+      min,
+      max,
+      scale: false,
+      nameGap: name === 'Re L' ? 26 : 44,
+      axisLabel: { color: pal.muted, showMinLabel: false, showMaxLabel: false, formatter: (v: number) => fmt(v, 3) },
+    });
   return {
     animation: false,
     backgroundColor: pal.background,
@@ -202,7 +252,13 @@ export function sensitivityOption(f: FrequencyData, pinned: FrequencyData | null
   const series: unknown[] = [
     lineSeries('|S| dB', zip(f.omega, f.sensDb), pal.series[2], {
       markLine: { silent: true, symbol: 'none', data: marks, animation: false },
-      markPoint: { symbol: 'pin', symbolSize: 34, itemStyle: { color: pal.series[2] }, label: { fontSize: 9, color: '#fff', formatter: 'Ms' }, data: points },
+      markPoint: {
+        symbol: 'pin',
+        symbolSize: 34,
+        itemStyle: { color: pal.series[2] },
+        label: { fontSize: 9, color: '#fff', formatter: 'Ms' },
+        data: points,
+      },
     }),
     lineSeries('|T| dB', zip(f.omega, f.compDb), pal.series[3]),
   ];

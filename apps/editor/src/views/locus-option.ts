@@ -1,10 +1,11 @@
 /**
  * The Locus chart as an ECharts option (pure: data + window in, option out). Branches are
- * lines, open-loop poles ×, zeros ○, the current closed-loop poles filled diamonds, pinned
- * ones hollow diamonds; asymptotes dashed from the centroid; breakaways and axis crossings
- * labelled with their gains; optional constant-ζ rays and constant-ωn arcs.
+ * lines, open-loop poles ×, zeros ○, the current closed-loop poles filled diamonds (those of a
+ * Padé approximant hollow), pinned ones hollow grey diamonds; asymptotes dashed from the
+ * centroid; breakaways and axis crossings labelled with their gains; departure and arrival
+ * angles as arrows; optional constant-ζ rays and constant-ωn arcs.
  */
-import type { Cx, LocusData } from '@loopwright/study';
+import { originAt, type Cx, type LocusData, type PoleOrigin } from '@loopwright/study';
 import { fmt } from '../analysis/sweep.ts';
 import type { PlaneWindow, PlotBox } from '../analysis/locus-geometry.ts';
 import type { Palette } from './palette.ts';
@@ -27,6 +28,8 @@ export function locusBox(width: number, height: number): PlotBox {
 export interface LocusOptionInput {
   locus: LocusData | null;
   current: Cx[];
+  /** Current closed-loop poles that belong to a Padé approximant (drawn hollow, apart). */
+  currentPade?: Cx[];
   pinned: Cx[] | null;
   win: PlaneWindow;
   pal: Palette;
@@ -127,7 +130,13 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
     if (locus.asymptotes && locus.asymptotes.anglesDeg.length > 0) {
       const c = locus.asymptotes.centroid;
       for (const ang of locus.asymptotes.anglesDeg) {
-        series.push({ ...lineBase, name: 'asymptote', z: 2, lineStyle: { color: pal.axis, width: 1, type: 'dashed' }, data: ray(win, c, 0, ang) });
+        series.push({
+          ...lineBase,
+          name: 'asymptote',
+          z: 2,
+          lineStyle: { color: pal.axis, width: 1, type: 'dashed' },
+          data: ray(win, c, 0, ang),
+        });
       }
       series.push({
         type: 'scatter',
@@ -137,7 +146,13 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
         symbol: 'triangle',
         symbolSize: 9,
         itemStyle: { color: pal.axis },
-        label: { show: c >= win.xMin && c <= win.xMax, position: 'bottom', color: pal.muted, fontSize: 10, formatter: `centroid ${fmt(c, 3)}` },
+        label: {
+          show: c >= win.xMin && c <= win.xMax,
+          position: 'bottom',
+          color: pal.muted,
+          fontSize: 10,
+          formatter: `centroid ${fmt(c, 3)}`,
+        },
         data: [[c, 0]],
       });
     }
@@ -182,7 +197,13 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
         symbol: 'rect',
         symbolSize: 7,
         itemStyle: { color: pal.muted },
-        label: { show: true, position: 'top', color: pal.text, fontSize: 10, formatter: (p: { value: number[] }) => `k=${fmt(p.value[2], 3)}` },
+        label: {
+          show: true,
+          position: 'top',
+          color: pal.text,
+          fontSize: 10,
+          formatter: (p: { value: number[] }) => `k=${fmt(p.value[2], 3)}`,
+        },
         data: breakaways.map((b) => ({ value: [b.s.re, b.s.im, b.gain], label: { show: roomFor(b.s.re, b.s.im) } })),
       });
     }
@@ -213,6 +234,46 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
       });
     }
   }
+  if (locus) {
+    // Departure angles at complex poles and arrival angles at complex zeros, as short arrows
+    // along the branch tangent (the angle and its label; Padé artefacts' left out), listed too.
+    const len = 0.09 * (win.xMax - win.xMin);
+    const arrow = (at: Cx, deg: number, into: boolean, label: string) => {
+      const a = (deg * Math.PI) / 180;
+      const tip = { re: at.re + len * Math.cos(a), im: at.im + len * Math.sin(a) };
+      const [from, to] = into ? [tip, at] : [at, tip];
+      return [
+        { coord: [from.re, from.im], symbol: 'none' },
+        {
+          coord: [to.re, to.im],
+          symbol: 'arrow',
+          label: { show: true, formatter: label, color: pal.text, fontSize: 10, position: into ? 'start' : 'end' },
+        },
+      ];
+    };
+    const shown = (at: Cx) => at.im > 0 && at.re >= win.xMin && at.re <= win.xMax && at.im <= win.yMax;
+    const deps = locus.departures.filter((d) => shown(d.at) && originAt(d.at, locus.poles, locus.poleOrigin) !== 'approximant');
+    const arrs = locus.arrivals.filter((d) => shown(d.at) && originAt(d.at, locus.zeros, locus.zeroOrigin) !== 'approximant');
+    if (deps.length + arrs.length > 0) {
+      series.push({
+        ...lineBase,
+        id: 'angles',
+        name: 'departure and arrival angles',
+        z: 7,
+        data: [],
+        markLine: {
+          silent: true,
+          animation: false,
+          symbolSize: 9,
+          lineStyle: { color: pal.text, width: 1.5, type: 'solid' },
+          data: [
+            ...deps.map((d) => arrow(d.at, d.angleDeg, false, `θd ${fmt(d.angleDeg, 4)}°`)),
+            ...arrs.map((d) => arrow(d.at, d.angleDeg, true, `θa ${fmt(d.angleDeg, 4)}°`)),
+          ],
+        },
+      });
+    }
+  }
   if (inp.pinned && inp.pinned.length > 0) {
     series.push({
       type: 'scatter',
@@ -238,6 +299,17 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
   });
   series.push({
     type: 'scatter',
+    id: 'closed-loop-poles-pade',
+    name: 'poles of a Padé approximant',
+    silent: true,
+    z: 8,
+    symbol: 'diamond',
+    symbolSize: 11,
+    itemStyle: { color: pal.background, borderColor: pal.current, borderWidth: 1.5 },
+    data: pts(inp.currentPade ?? []),
+  });
+  series.push({
+    type: 'scatter',
     id: 'hover',
     name: 'hover',
     silent: true,
@@ -252,7 +324,8 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
   // not a round number in an equal-aspect window); grid lines drawn as mark lines to match.
   const ticks = (min: number, max: number) => {
     const out: number[] = [];
-    for (let v = Math.ceil(min / win.step) * win.step; v <= max + 1e-9 * win.step; v += win.step) out.push(Math.abs(v) < 1e-12 * win.step ? 0 : v);
+    for (let v = Math.ceil(min / win.step) * win.step; v <= max + 1e-9 * win.step; v += win.step)
+      out.push(Math.abs(v) < 1e-12 * win.step ? 0 : v);
     return out;
   };
   const xt = ticks(win.xMin, win.xMax);
@@ -288,8 +361,26 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
     series: [
       ...series,
       // The imaginary axis, drawn over the grid.
-      { ...lineBase, name: 'imaginary axis', z: 2, lineStyle: { color: pal.axis, width: 1 }, data: [[0, win.yMin], [0, win.yMax]] },
-      { ...lineBase, name: 'real axis', z: 2, lineStyle: { color: pal.axis, width: 1 }, data: [[win.xMin, 0], [win.xMax, 0]] },
+      {
+        ...lineBase,
+        name: 'imaginary axis',
+        z: 2,
+        lineStyle: { color: pal.axis, width: 1 },
+        data: [
+          [0, win.yMin],
+          [0, win.yMax],
+        ],
+      },
+      {
+        ...lineBase,
+        name: 'real axis',
+        z: 2,
+        lineStyle: { color: pal.axis, width: 1 },
+        data: [
+          [win.xMin, 0],
+          [win.xMax, 0],
+        ],
+      },
       { ...lineBase, name: 'grid', z: 0, lineStyle: { width: 0 }, data: [], markLine: gridLines },
     ],
   };
@@ -306,10 +397,12 @@ function labelOnRay(win: PlaneWindow, th: number): { coord: number[] }[] {
  * marker, as a merge patch over the base option (series matched by id), so that the rest of
  * the locus is not rebuilt on every slider step.
  */
-export function locusLivePatch(current: Cx[], hover: { s: Cx } | null): ChartOption {
+export function locusLivePatch(current: Cx[], hover: { s: Cx } | null, origin: readonly PoleOrigin[] = []): ChartOption {
+  const pade = current.filter((_, i) => origin[i] === 'approximant');
   return {
     series: [
-      { id: 'closed-loop-poles', data: pts(current) },
+      { id: 'closed-loop-poles', data: pts(current.filter((_, i) => origin[i] !== 'approximant')) },
+      { id: 'closed-loop-poles-pade', data: pts(pade) },
       { id: 'hover', data: hover ? [[hover.s.re, hover.s.im]] : [] },
     ],
   };

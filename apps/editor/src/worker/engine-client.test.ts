@@ -1,10 +1,12 @@
 /**
  * The worker client with a fake worker: only the newest request's reply is delivered, and a
- * stale simulation is cancelled by restarting the worker and resending the newest request.
+ * stale simulation is cancelled by restarting the worker and resending the newest request; the
+ * user's Cancel ends a computation at once; progress reaches the page, throttled.
  */
 import { describe, expect, it, vi } from 'vitest';
-import { EngineClient, type WorkerLike } from './engine-client.ts';
-import type { EngineReply, EngineRequest } from './protocol.ts';
+import { CANCELLED, EngineClient, type WorkerLike } from './engine-client.ts';
+import { throttled } from './compute.ts';
+import type { EngineProgress, EngineReply, EngineRequest } from './protocol.ts';
 
 class FakeWorker implements WorkerLike {
   onmessage: ((e: MessageEvent) => void) | null = null;
@@ -24,16 +26,22 @@ class FakeWorker implements WorkerLike {
 
 const diagram = {} as never;
 
+/** A client whose workers are fakes (kept in order of creation) and the replies it delivers. */
+function fakeClient(staleMs?: number) {
+  const workers: FakeWorker[] = [];
+  const c = new EngineClient(() => {
+    const w = new FakeWorker();
+    workers.push(w);
+    return w;
+  }, staleMs);
+  const got: EngineReply[] = [];
+  c.onReply((r) => got.push(r));
+  return { c, workers, got };
+}
+
 describe('engine client', () => {
   it('drops replies to superseded requests and delivers the newest', () => {
-    const workers: FakeWorker[] = [];
-    const c = new EngineClient(() => {
-      const w = new FakeWorker();
-      workers.push(w);
-      return w;
-    });
-    const got: EngineReply[] = [];
-    c.onReply((r) => got.push(r));
+    const { c, workers, got } = fakeClient();
     const a = c.send({ channel: 'analysis', diagram, studies: [] });
     const b = c.send({ channel: 'analysis', diagram, studies: [] });
     expect(workers).toHaveLength(1);
@@ -45,14 +53,7 @@ describe('engine client', () => {
     c.dispose();
   });
   it('channels are independent: a long simulation does not hold up the analysis', () => {
-    const workers: FakeWorker[] = [];
-    const c = new EngineClient(() => {
-      const w = new FakeWorker();
-      workers.push(w);
-      return w;
-    });
-    const got: EngineReply[] = [];
-    c.onReply((r) => got.push(r));
+    const { c, workers, got } = fakeClient();
     c.send({ channel: 'response', diagram, studies: [] });
     const a = c.send({ channel: 'analysis', diagram, studies: [] });
     expect(workers).toHaveLength(2);
@@ -63,14 +64,7 @@ describe('engine client', () => {
   it('a stale simulation is cancelled: the worker is ended and the newest request resent to a fresh one', () => {
     vi.useFakeTimers();
     try {
-      const workers: FakeWorker[] = [];
-      const c = new EngineClient(() => {
-        const w = new FakeWorker();
-        workers.push(w);
-        return w;
-      }, 400);
-      const got: EngineReply[] = [];
-      c.onReply((r) => got.push(r));
+      const { c, workers, got } = fakeClient(400);
       c.send({ channel: 'response', diagram, studies: [{ kind: 'run', overrides: { k: 1 } }] });
       vi.advanceTimersByTime(100);
       const newest = c.send({ channel: 'response', diagram, studies: [{ kind: 'run', overrides: { k: 2 } }] });
@@ -85,5 +79,46 @@ describe('engine client', () => {
     } finally {
       vi.useRealTimers();
     }
+  });
+  it('Cancel ends the worker at once, answers the newest request as cancelled, and the next request gets a fresh worker', () => {
+    const { c, workers, got } = fakeClient();
+    const id = c.send({ channel: 'loops', diagram, studies: [] });
+    expect(c.cancel('loops')).toBe(true);
+    expect(workers[0].terminated).toBe(true);
+    expect(got).toEqual([{ channel: 'loops', id, ok: false, error: CANCELLED, cancelled: true }]);
+    // A late answer of the ended worker is not delivered; nothing is pending any more.
+    workers[0].reply({ channel: 'loops', id, ok: false, error: 'late' });
+    expect(got).toHaveLength(1);
+    expect(c.cancel('loops')).toBe(false);
+    const next = c.send({ channel: 'loops', diagram, studies: [] });
+    expect(workers).toHaveLength(2);
+    expect(workers[1].received.map((r) => r.id)).toEqual([next]);
+    c.dispose();
+  });
+  it('progress reaches its listeners for the newest request only', () => {
+    const { c, workers } = fakeClient();
+    const seen: EngineProgress[] = [];
+    c.onProgress((p) => seen.push(p));
+    const old = c.send({ channel: 'report', diagram, studies: [] });
+    const id = c.send({ channel: 'report', diagram, studies: [] });
+    const progress = { part: 0, parts: 1, kind: 'report' as const, fraction: 0.5 };
+    workers[0].onmessage?.({ data: { channel: 'report', id: old, progress } } as MessageEvent);
+    workers[0].onmessage?.({ data: { channel: 'report', id, progress } } as MessageEvent);
+    expect(seen).toEqual([{ channel: 'report', id, progress }]);
+    c.dispose();
+  });
+  it('the worker posts progress at most once per interval (the first at once)', () => {
+    let t = 0;
+    const posted: number[] = [];
+    const post = throttled(
+      (p: number) => posted.push(p),
+      100,
+      () => t,
+    );
+    for (let i = 0; i <= 30; i++) {
+      post(i);
+      t += 10;
+    }
+    expect(posted).toEqual([0, 10, 20, 30]);
   });
 });

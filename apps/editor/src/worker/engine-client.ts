@@ -5,9 +5,13 @@
  * longer than `staleMs` is cancelled by ending its worker and starting a fresh one (a
  * synchronous integration inside a worker cannot see new messages until it returns).
  */
-import type { Channel, EngineReply, EngineRequest } from './protocol.ts';
+import { isProgress, type Channel, type EngineProgress, type EngineReply, type EngineRequest } from './protocol.ts';
 
 type Listener = (reply: EngineReply) => void;
+type ProgressListener = (p: EngineProgress) => void;
+
+/** The reply a request gets when the user cancels it. */
+export const CANCELLED = 'Cancelled: the computation was stopped before it finished.';
 /** A request without its id (the client numbers it), kept as a union per channel. */
 export type UnnumberedRequest = EngineRequest extends infer R ? (R extends EngineRequest ? Omit<R, 'id'> : never) : never;
 
@@ -39,17 +43,45 @@ interface ChannelState {
 export class EngineClient {
   private readonly channels = new Map<Channel, ChannelState>();
   private readonly listeners = new Set<Listener>();
+  private readonly progressListeners = new Set<ProgressListener>();
 
   constructor(
     private readonly factory: WorkerFactory,
     private readonly staleMs = 400,
     /** Channels whose stale work is cancelled by restarting the worker (analysis keeps its caches). */
-    private readonly cancellable: readonly Channel[] = ['response'],
+    private readonly cancellable: readonly Channel[] = ['response', 'pinned'],
   ) {}
 
   onReply(fn: Listener): () => void {
     this.listeners.add(fn);
     return () => this.listeners.delete(fn);
+  }
+
+  /** Progress of the newest request of each channel, as the worker reports it. */
+  onProgress(fn: ProgressListener): () => void {
+    this.progressListeners.add(fn);
+    return () => this.progressListeners.delete(fn);
+  }
+
+  /**
+   * Stops the channel's computation at once (the user's Cancel): its worker is ended (a fresh
+   * one serves the next request, so caches of that channel start empty) and the newest request
+   * is answered with a cancelled reply. Returns false when nothing was pending.
+   */
+  cancel(channel: Channel): boolean {
+    const ch = this.state(channel);
+    const id = ch.pending;
+    if (!id) return false;
+    if (ch.watchdog) clearTimeout(ch.watchdog);
+    ch.watchdog = null;
+    ch.worker?.terminate();
+    ch.worker = null;
+    ch.newest = null;
+    ch.pending = 0;
+    ch.pendingRequest = null;
+    ch.busyId = 0;
+    this.emit({ channel, id, ok: false, error: CANCELLED, cancelled: true });
+    return true;
   }
 
   /** Sends a request on its channel, superseding any older one; returns its id. */
@@ -81,12 +113,24 @@ export class EngineClient {
       ch.worker = null;
     }
     this.listeners.clear();
+    this.progressListeners.clear();
   }
 
   private state(channel: Channel): ChannelState {
     let ch = this.channels.get(channel);
     if (!ch) {
-      ch = { worker: null, newest: null, seq: 0, pending: 0, pendingRequest: null, busySince: 0, busyId: 0, watchdog: null, restarts: 0, dropped: 0 };
+      ch = {
+        worker: null,
+        newest: null,
+        seq: 0,
+        pending: 0,
+        pendingRequest: null,
+        busySince: 0,
+        busyId: 0,
+        watchdog: null,
+        restarts: 0,
+        dropped: 0,
+      };
       this.channels.set(channel, ch);
     }
     return ch;
@@ -95,7 +139,15 @@ export class EngineClient {
   private worker(ch: ChannelState): WorkerLike {
     if (ch.worker) return ch.worker;
     const w = this.factory();
-    w.onmessage = (e: MessageEvent) => this.receive(ch, e.data as EngineReply);
+    w.onmessage = (e: MessageEvent) => {
+      const m = e.data as EngineReply | EngineProgress;
+      if (isProgress(m)) {
+        // Only the newest request's progress is of interest.
+        if (m.id === ch.pending) for (const fn of this.progressListeners) fn(m);
+        return;
+      }
+      this.receive(ch, m);
+    };
     w.onerror = (e: ErrorEvent) => {
       // A crashed worker answers nothing more: report the failure for the newest request.
       e.preventDefault?.();

@@ -4,9 +4,11 @@
  * messages that arrive while a computation runs queue up behind it, and the drain that
  * follows takes just the latest (older ones are answered by nothing; the client drops any
  * stray reply by id anyway). One request is computed per task so new messages get in between.
+ * Progress is posted while a request computes; the user's Cancel ends the worker (the client
+ * starts a fresh one), which stops any computation at once.
  */
-import { computeReply } from './compute.ts';
-import type { Channel, EngineReply, EngineRequest } from './protocol.ts';
+import { computeReply, throttled } from './compute.ts';
+import { PROGRESS_MS, type Channel, type EngineProgress, type EngineReply, type EngineRequest } from './protocol.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 const held = new Map<Channel, EngineRequest>();
@@ -28,7 +30,12 @@ function drain(): void {
   held.delete(channel);
   // Where shared memory is allowed, a simulation sees a newer request at once and stops.
   const isCancelled = newest ? () => Atomics.load(newest!, 0) > req.id : undefined;
-  const reply: EngineReply = computeReply(req, { isCancelled });
+  // Progress of this request, at most every PROGRESS_MS (the client shows it and offers Cancel).
+  const onProgress = throttled(
+    (progress: EngineProgress['progress']) => scope.postMessage({ channel, id: req.id, progress } satisfies EngineProgress),
+    PROGRESS_MS,
+  );
+  const reply: EngineReply = computeReply(req, { isCancelled, onProgress });
   scope.postMessage(reply);
   if (held.size > 0) schedule();
 }

@@ -1,10 +1,10 @@
-import { type Complex, InputError, type LoopMargins, type TransferFunction, loopMargins } from '@loopwright/lti';
+import { type Complex, InputError, type LoopMargins, type LoopSource, type TransferFunction, checkDeadline } from '@loopwright/lti';
 import type { Diagram } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
 import { type Branch, type CompiledGraph } from './linear-graph.ts';
 import { flowGraph, simpleCycles } from './mason.ts';
-import { loopAtCutDetailed } from './cuts.ts';
-import { type DelayHandling, type ReduceOptions, type Reduction, closedLoopPoles, compiledOf } from './reduce.ts';
+import { type CutFrequencyMethod, type CutLoop, cutMargins } from './cuts.ts';
+import { type DelayHandling, type ReduceOptions, closedLoopPoles, compiledOf } from './reduce.ts';
 
 /**
  * The usual cascade rule: the inner loop should be 3–10 times faster than the loop around it
@@ -20,7 +20,12 @@ export interface CutAnalysis {
   auto: boolean;
   /** L(s) at the cut with every other loop closed (1 + L = 0). */
   loop: TransferFunction;
+  /** How dead times enter L(s) (the closed-loop poles): exact when outside every other loop, else Padé. */
   delayHandling: DelayHandling;
+  /** How L(jω) was evaluated for the margins: every dead time exact (solved at s = jω where needed). */
+  frequency: CutFrequencyMethod;
+  /** The exact L(jω) where it differs from L(s) (dead times inside other loops), else null: see cutLoopResponse. */
+  source: LoopSource | null;
   hiddenModes: Complex[];
   margins: LoopMargins;
   /** Gain crossover (rad/s), null if |L| never crosses 1. */
@@ -156,27 +161,31 @@ export function withoutWires(c: CompiledGraph, wires: readonly string[]): Compil
 const ratioOf = (a: number | null, b: number | null) => (a !== null && b !== null && b > 0 ? a / b : null);
 
 /**
+/**
  * How analyseLoops reads one loop and the whole diagram's poles. `config` names the graph's
  * configuration ('closed': every other loop closed; 'alone:<wires>': those opened;
  * 'ideal:<inner>|<wires>': the inner loop ideal, those opened), so that a caller sweeping one
  * value can precompute what does not change and keep readings the value cannot reach.
+ * A reading is what cutMargins gives: the margins (dead times exact in L(jω)) and the cut's loop.
  */
 export interface LoopReader {
-  read(graph: CompiledGraph, wire: string, config: string): { reduction: Reduction; margins: LoopMargins };
+  read(graph: CompiledGraph, wire: string, config: string): { margins: LoopMargins; loop: CutLoop };
   poles(graph: CompiledGraph): Complex[];
 }
 
-/** The reading from scratch: a reduction of the graph and the margins of its L. */
+/** The reading from scratch: cutMargins at the cut (its deadline, source and frequency method kept). */
 export function plainLoopReader(opts: ReduceOptions = {}): LoopReader {
   return {
-    read: (g, wire) => {
-      const reduction = loopAtCutDetailed(g, wire, undefined, opts);
-      return { reduction, margins: loopMargins(reduction.tf) };
-    },
+    read: (g, wire) => cutMargins(g, wire, undefined, opts),
     poles: (g) => closedLoopPoles(g, undefined, opts),
   };
 }
 
+/**
+ * Every cut's margins (dead times exact in L(jω)), the loops as tuned inner-first, separations,
+ * outer loops against ideal inner ones, and the closed-loop poles. `opts.deadline` bounds the
+ * wall time (BudgetError('time')). `reader` reads each loop (default: from scratch).
+ */
 export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: ReduceOptions = {}, reader: LoopReader = plainLoopReader(opts)): LoopsReport {
   const c = compiledOf(d, overrides);
   const notes: string[] = [];
@@ -208,17 +217,20 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
     }
   }
   function analyseCut(k: (typeof valid)[number]): CutAnalysis {
-    const { reduction: r, margins } = reader.read(c, k.wire, 'closed');
+    checkDeadline(opts.deadline, 'loops report');
+    const { margins, loop } = reader.read(c, k.wire, 'closed');
+    const r = loop.reduction;
     const mine = blocksOf(k.wire);
     const opened = valid.filter((o) => enclosesWire(o.wire, k.wire)).map((o) => o.wire);
     const alone = opened.length ? reader.read(withoutWires(c, opened), k.wire, `alone:${opened.join(',')}`) : null;
-    const aloneLoop = alone ? alone.reduction.tf : r.tf;
     const aloneMargins = alone ? alone.margins : margins;
     return {
       ...k,
-      alone: { loop: aloneLoop, margins: aloneMargins, crossover: aloneMargins.gainCrossover, bandwidth: aloneMargins.bandwidth, opened },
+      alone: { loop: alone ? alone.loop.reduction.tf : r.tf, margins: aloneMargins, crossover: aloneMargins.gainCrossover, bandwidth: aloneMargins.bandwidth, opened },
       loop: r.tf,
       delayHandling: r.delayHandling,
+      frequency: loop.frequency,
+      source: loop.source,
       hiddenModes: r.hiddenModes,
       margins,
       crossover: margins.gainCrossover,
@@ -256,9 +268,10 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
     });
     try {
       // Both readings with the loops around the outer one opened (as tuned inner-first).
+      checkDeadline(opts.deadline, 'loops report');
       const ideal = withIdealInnerLoop(withoutWires(c, outer.alone.opened), inner.wire);
-      const read = reader.read(ideal, outer.wire, `ideal:${inner.wire}|${outer.alone.opened.join(',')}`);
-      outerVsIdeal.push({ outer: outer.cut, inner: inner.cut, real: outer.alone.margins, ideal: read.margins, idealLoop: read.reduction.tf });
+      const idealCut = reader.read(ideal, outer.wire, `ideal:${inner.wire}|${outer.alone.opened.join(',')}`);
+      outerVsIdeal.push({ outer: outer.cut, inner: inner.cut, real: outer.alone.margins, ideal: idealCut.margins, idealLoop: idealCut.loop.reduction.tf });
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
       notes.push(`outer loop ${outer.cut} against an ideal inner loop ${inner.cut}: ${err.message}`);

@@ -1,4 +1,4 @@
-import { InputError, poly } from '@loopwright/lti';
+import { InputError, deadlineTicker, poly } from '@loopwright/lti';
 
 /**
  * Exact signal-flow reduction by Mason's gain formula, carried out on polynomials so that no
@@ -88,12 +88,14 @@ export function components(g: FlowGraph): number[] {
  * Every simple cycle, each found once from its lowest-numbered node; the search stays inside
  * that node's strongly connected component.
  */
-export function simpleCycles(g: FlowGraph, comp = components(g)): Cycle[] {
+export function simpleCycles(g: FlowGraph, comp = components(g), deadline?: number): Cycle[] {
+  const ticker = deadlineTicker(deadline, 'reduction (loop enumeration)', 256);
   const cycles: Cycle[] = [];
   const onPath = new Array<boolean>(g.n).fill(false);
   const path: number[] = [];
   for (let s = 0; s < g.n; s++) {
     const dfs = (v: number, weight: number) => {
+      ticker.tick();
       for (const { to, w } of g.adj[v]) {
         if (to === s) {
           cycles.push({ nodes: path.slice(), weight: weight * w });
@@ -119,12 +121,14 @@ export function simpleCycles(g: FlowGraph, comp = components(g)): Cycle[] {
 }
 
 /** Every simple path from `from` to `to` (the node lists include both ends). */
-export function forwardPaths(g: FlowGraph, from: number, to: number): Path[] {
+export function forwardPaths(g: FlowGraph, from: number, to: number, deadline?: number): Path[] {
+  const ticker = deadlineTicker(deadline, 'reduction (path enumeration)', 256);
   const out: Path[] = [];
   const on = new Array<boolean>(g.n).fill(false);
   const path: number[] = [from];
   on[from] = true;
   const dfs = (v: number, weight: number) => {
+    ticker.tick();
     if (v === to) {
       out.push({ nodes: path.slice(), weight });
       if (out.length > MAX_PATHS) throw new InputError(`more than ${MAX_PATHS} signal paths between the two points: too interconnected for exact reduction`);
@@ -147,7 +151,8 @@ export function forwardPaths(g: FlowGraph, from: number, to: number): Path[] {
  * Π_{v not excluded} D_v · Δ(excluded): the graph determinant of the subgraph without the
  * excluded nodes (Mason's Δ_k for a forward path when the path's nodes are excluded).
  */
-export function determinantPoly(g: FlowGraph, cycles: readonly Cycle[], excluded?: readonly boolean[]): number[] {
+export function determinantPoly(g: FlowGraph, cycles: readonly Cycle[], excluded?: readonly boolean[], deadline?: number): number[] {
+  const ticker = deadlineTicker(deadline, 'reduction (determinant)', 256);
   const allowed = excluded ? cycles.filter((c) => !c.nodes.some((v) => excluded[v])) : cycles.slice();
   const inLoop = new Array<boolean>(g.n).fill(false);
   for (const c of allowed) for (const v of c.nodes) inLoop[v] = true;
@@ -174,6 +179,7 @@ export function determinantPoly(g: FlowGraph, cycles: readonly Cycle[], excluded
     acc.add(p, pa);
   };
   const choose = (start: number, sign: number) => {
+    ticker.tick();
     if (++terms > MAX_TERMS) throw new InputError('too many combinations of non-touching loops: too interconnected for exact reduction');
     addTerm(sign);
     for (let i = start; i < allowed.length; i++) {
@@ -211,10 +217,10 @@ class SignedSum {
  * Transmission from node `from` to node `to` as num/den polynomials (not normalised, not
  * cancelled): den = Π D_v · Δ over the given graph, num = Σ_k P_k · Π D_v · Δ_k.
  */
-export function transmission(g: FlowGraph, from: number, to: number, cycles = simpleCycles(g)): { num: number[]; den: number[] } {
-  const den = determinantPoly(g, cycles);
+export function transmission(g: FlowGraph, from: number, to: number, cycles = simpleCycles(g), deadline?: number): { num: number[]; den: number[] } {
+  const den = determinantPoly(g, cycles, undefined, deadline);
   const acc = new SignedSum();
-  for (const p of forwardPaths(g, from, to)) {
+  for (const p of forwardPaths(g, from, to, deadline)) {
     const excluded = new Array<boolean>(g.n).fill(false);
     let gain: number[] = [p.weight];
     for (const v of p.nodes) {
@@ -222,7 +228,7 @@ export function transmission(g: FlowGraph, from: number, to: number, cycles = si
       gain = poly.mul(gain, g.num[v]);
     }
     if (gain.length === 0) continue;
-    const term = poly.mul(gain, determinantPoly(g, cycles, excluded));
+    const term = poly.mul(gain, determinantPoly(g, cycles, excluded, deadline));
     acc.add(term, term.map(Math.abs));
   }
   return { num: acc.value(), den };

@@ -32,6 +32,8 @@ export interface ReduceOptions {
   delays?: 'auto' | 'pade';
   /** Relative tolerance for cancelling common numerator/denominator roots (default 1e-7). */
   cancelTolerance?: number;
+  /** Deadline on the performance.now() clock (ms): past it the analysis stops with a BudgetError('time'). */
+  deadline?: number;
 }
 
 /** How dead times were treated in a result. */
@@ -143,7 +145,7 @@ export function transmissionOfGraph(g: SignalGraph, opts: ReduceOptions = {}): R
   const keep = relevantNodes(g);
   if (!keep[g.output]) return { num: [], den: [1], delay: 0, handling: handlingOf(g, new Set(), order, 0, '') };
   const plain = subFlowGraph(g, keep, g.num, g.den);
-  const cycles = simpleCycles(plain.fg);
+  const cycles = simpleCycles(plain.fg, undefined, opts.deadline);
   const delayed = plain.nodes.filter((v) => g.delay[v] > 0);
   const pade = new Set<number>();
   let why = 'requested';
@@ -155,7 +157,7 @@ export function transmissionOfGraph(g: SignalGraph, opts: ReduceOptions = {}): R
       for (const v of delayed) if (inLoop[plain.map[v]]) pade.add(v);
       if (pade.size) why = 'the dead time sits inside a loop';
       const pathDelays = new Set<number>();
-      for (const p of forwardPaths(plain.fg, plain.map[g.input], plain.map[g.output])) {
+      for (const p of forwardPaths(plain.fg, plain.map[g.input], plain.map[g.output], opts.deadline)) {
         let d = 0;
         for (const i of p.nodes) { const v = plain.nodes[i]; if (!pade.has(v)) d += g.delay[v]; }
         pathDelays.add(d);
@@ -171,7 +173,7 @@ export function transmissionOfGraph(g: SignalGraph, opts: ReduceOptions = {}): R
     const { num, den } = withPade(g, pade, order);
     fg = subFlowGraph(g, keep, num, den).fg;
   }
-  const t = transmission(fg, plain.map[g.input], plain.map[g.output], cycles);
+  const t = transmission(fg, plain.map[g.input], plain.map[g.output], cycles, opts.deadline);
   const factors = [...fg.num, ...fg.den].filter((f) => poly.degree(f) > 0).map((f) => f.slice());
   return { num: t.num, den: t.den, delay: exactDelay, handling: handlingOf(g, pade, order, exactDelay, why), factors };
 }
@@ -376,13 +378,13 @@ export function characteristicPolynomial(d: Linearisable, overrides?: ParameterO
   const order = padeOrderOf(opts);
   const all = new Array<boolean>(g.ids.length).fill(true);
   const plain = subFlowGraph(g, all, g.num, g.den);
-  const cycles = simpleCycles(plain.fg);
+  const cycles = simpleCycles(plain.fg, undefined, opts.deadline);
   const inLoop = loopMembers(plain.fg.n, cycles);
   const pade = new Set<number>();
   g.ids.forEach((_, v) => { if (g.delay[v] > 0 && (opts.delays === 'pade' || inLoop[v])) pade.add(v); });
   const { num, den } = withPade(g, pade, order);
   const fg = subFlowGraph(g, all, num, den).fg;
-  const p = determinantPoly(fg, cycles);
+  const p = determinantPoly(fg, cycles, undefined, opts.deadline);
   if (poly.isZero(p)) throw new InputError('the diagram is ill-posed: its interconnection determinant is identically zero (an algebraic loop with loop gain 1?)');
   return { poly: p, handling: handlingOf(g, pade, order, 0, opts.delays === 'pade' ? 'requested' : 'the dead time sits inside a loop') };
 }

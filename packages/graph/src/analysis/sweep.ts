@@ -1,4 +1,4 @@
-import { type Complex, InputError, type RootLocus, cabs, cancelCommon, csub, poly, polyRoots, rational, rootLocus } from '@loopwright/lti';
+import { type Complex, InputError, type RootLocus, cabs, cancelCommon, checkDeadline, csub, matchRoots, poly, polyRoots, rational, rootLocus } from '@loopwright/lti';
 import type { Diagram, Sweep } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
 import { type DelayHandling, type ReduceOptions, characteristicPolynomial } from './reduce.ts';
@@ -104,6 +104,7 @@ export function sweepLocus(d: Diagram, parameter: string, overrides: ParameterOv
     // The whole geometry is traced (branches reach their zeros/asymptotes) unless kMax is given.
     const locus = rootLocus(c.result.num, c.result.den, {
       negative: opts.negative,
+      ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}),
       ...(opts.kMax !== undefined ? { kMax: opts.kMax } : {}),
       ...(opts.samples ? { samples: opts.samples } : {}),
     });
@@ -127,23 +128,8 @@ function sampleValues(min: number, max: number, scale: 'linear' | 'log', n: numb
   return out;
 }
 
-/**
- * Pairs the roots of one sample with those of the next: repeatedly takes the globally closest
- * unpaired pair (greedy over sorted distances). Returns perm with next[perm[i]] ↔ prev[i].
- */
-export function matchRoots(prev: readonly Complex[], next: readonly Complex[]): number[] {
-  const pairs: [number, number, number][] = [];
-  for (let i = 0; i < prev.length; i++) for (let j = 0; j < next.length; j++) pairs.push([cabs(csub(prev[i], next[j])), i, j]);
-  pairs.sort((a, b) => a[0] - b[0]);
-  const perm = new Array<number>(prev.length).fill(-1);
-  const taken = new Array<boolean>(next.length).fill(false);
-  for (const [, i, j] of pairs) {
-    if (perm[i] >= 0 || taken[j]) continue;
-    perm[i] = j;
-    taken[j] = true;
-  }
-  return perm;
-}
+/** Root pairing between samples: the one home is @loopwright/lti's matchRoots (re-exported for callers). */
+export { matchRoots };
 
 function sampledLocus(
   d: Diagram,
@@ -157,6 +143,7 @@ function sampledLocus(
   if (!(range.max > range.min)) throw new InputError(`sweep of ${parameter}: max ${range.max} must be above min ${range.min}`, { field: 'max' });
   let handling: DelayHandling | null = null;
   const rootsAt = (k: number) => {
+    checkDeadline(opts.deadline, `sweep of ${parameter}`);
     const cp = characteristicPolynomial(d, { ...overrides, [parameter]: k }, opts);
     handling ??= cp.handling;
     return polyRoots(cp.poly);

@@ -14,13 +14,14 @@ const CONTRACT: Record<BlockKind, string[]> = {
   integrator: ['k'],
   'first-order-lag': ['k', 'tau'],
   'second-order': ['k', 'wn', 'zeta'],
+  notch: ['frequency', 'frequencyUnit', 'depth', 'damping'],
   'dead-time': ['delay'],
   'summing-junction': ['signs'],
   saturation: ['lower', 'upper'],
   'rate-limit': ['rising', 'falling'],
   'dead-zone': ['lower', 'upper'],
   source: ['shape', 'amplitude', 'start', 'offset', 'omega', 'width', 'period'],
-  probe: [],
+  probe: ['unit'],
 };
 
 // Plain complex arithmetic, written out here independently of lti's rational functions.

@@ -1,11 +1,11 @@
 import { InputError } from '@loopwright/lti';
-import type { BlockKind } from '../document-types.ts';
 import { deadTimeSpec } from './dead-time.ts';
 import { deadZoneSpec } from './dead-zone.ts';
 import { firstOrderLagSpec } from './first-order-lag.ts';
 import { gainSpec } from './gain.ts';
 import { integratorSpec } from './integrator.ts';
 import { leadLagSpec } from './lead-lag.ts';
+import { notchSpec } from './notch.ts';
 import { pidSpec } from './pid.ts';
 import { probeSpec } from './probe.ts';
 import { rateLimitSpec } from './rate-limit.ts';
@@ -14,15 +14,17 @@ import { secondOrderSpec } from './second-order.ts';
 import { sourceSpec } from './source.ts';
 import { summingJunctionSpec } from './summing-junction.ts';
 import { transferFunctionSpec } from './transfer-function.ts';
-import type { BlockSpec } from './types.ts';
+import type { BlockSpec, StoredParams } from './types.ts';
 
-export type { BlockSpec, LinearForm, ParamSpec, ResolvedParams } from './types.ts';
+export type { BlockSpec, CardContent, IconStroke, LinearForm, ParamSpec, ResolvedParams, StoredParams } from './types.ts';
+export { defineBlock, unitOf } from './types.ts';
 export { sumSigns, MAX_SUM_INPUTS } from './summing-junction.ts';
 export { defaultTrackingTime, PID_FORMS, ANTI_WINDUP_MODES } from './pid.ts';
 export { SOURCE_SHAPES } from './source.ts';
+export { NOTCH_UNITS, notchFigures, type NotchFigures } from './notch.ts';
 
 /** Every block kind, in the order the Parts panel lists them. */
-export const catalogue: BlockSpec[] = [
+export const catalogue = [
   sourceSpec,
   summingJunctionSpec,
   pidSpec,
@@ -31,17 +33,21 @@ export const catalogue: BlockSpec[] = [
   integratorSpec,
   firstOrderLagSpec,
   secondOrderSpec,
+  notchSpec,
   transferFunctionSpec,
   deadTimeSpec,
   saturationSpec,
   rateLimitSpec,
   deadZoneSpec,
   probeSpec,
-];
+] as const;
 
-export const blockKinds = catalogue.map((s) => s.kind) as BlockKind[];
+/** The block kinds: derived from the catalogue, so adding a spec above is all a new kind needs here. */
+export type BlockKind = (typeof catalogue)[number]['kind'];
 
-const byKind = new Map<string, BlockSpec>(catalogue.map((s) => [s.kind, s]));
+export const blockKinds: readonly BlockKind[] = catalogue.map((s) => s.kind);
+
+const byKind = new Map<string, BlockSpec>(catalogue.map((s): [string, BlockSpec] => [s.kind, s]));
 
 export function isBlockKind(kind: unknown): kind is BlockKind {
   return typeof kind === 'string' && byKind.has(kind);
@@ -51,4 +57,10 @@ export function blockSpec(kind: BlockKind | string): BlockSpec {
   const spec = byKind.get(kind);
   if (!spec) throw new InputError(`unknown block kind "${kind}" (known: ${blockKinds.join(', ')})`, { field: 'kind' });
   return spec;
+}
+
+/** The fields that matter for a block as configured (BlockSpec.shows), in catalogue order. */
+export function visibleParams(kind: BlockKind, params: StoredParams): BlockSpec['params'] {
+  const spec = blockSpec(kind);
+  return spec.shows ? spec.params.filter((p) => spec.shows!(p.name, params)) : spec.params;
 }

@@ -1,7 +1,8 @@
 import { InputError, radd, rational, rconst, transfer, type Rational } from '@loopwright/lti';
 import { finite, numberOf, singleInput, singleOutput, stringOf } from './common.ts';
 import { orderedLimits } from './saturation.ts';
-import type { BlockSpec, ResolvedParams } from './types.ts';
+import { isBlank, isZero, show, term, times } from './card-text.ts';
+import { defineBlock, type CardContent, type ResolvedParams, type StoredParams } from './types.ts';
 
 export const PID_FORMS = ['ideal', 'parallel'] as const;
 export const ANTI_WINDUP_MODES = ['off', 'back-calculation', 'conditional'] as const;
@@ -57,7 +58,28 @@ function pidRational(p: ResolvedParams): Rational {
   return c;
 }
 
-export const pidSpec: BlockSpec = {
+/** The card: the controller's formula in its chosen form, and its output limits when set. */
+function pidCard(p: StoredParams): CardContent {
+  const kp = term(p.kp) ?? '0';
+  const n = term(p.n) ?? '10';
+  const limits = isBlank(p, 'umin') && isBlank(p, 'umax') ? undefined : `output ${isBlank(p, 'umin') ? '−∞' : show(p.umin)} … ${isBlank(p, 'umax') ? '∞' : show(p.umax)}`;
+  if (p.form === 'parallel') {
+    const parts = [kp];
+    const ki = term(p.ki);
+    const kd = term(p.kd);
+    if (!isZero(ki)) parts.push(`${ki}/s`);
+    if (!isZero(kd)) parts.push(`${kd}*s/(1 + ${kd}/${kp}*s/${n})`);
+    return { formula: parts.join(' + '), caption: limits };
+  }
+  const inner = ['1'];
+  const ti = term(p.ti);
+  const td = term(p.td);
+  if (ti !== null) inner.push(`1/(${ti}*s)`);
+  if (!isZero(td)) inner.push(`${td}*s/(1 + ${td}*s/${n})`);
+  return { formula: inner.length === 1 ? kp : times(kp, `(${inner.join(' + ')})`), caption: limits };
+}
+
+export const pidSpec = defineBlock({
   kind: 'pid',
   title: 'PID controller',
   description:
@@ -66,6 +88,7 @@ export const pidSpec: BlockSpec = {
     'with anti-windup by back-calculation (tracking time tt, blank = √(ti·td), or ti without derivative) or ' +
     'conditional integration. Its linear form ignores the limits.',
   category: 'linear',
+  idPrefix: 'pid',
   params: [
     { name: 'form', label: 'Form', type: 'choice', default: 'ideal', choices: PID_FORMS },
     { name: 'kp', label: 'Proportional gain kp', type: 'number', default: 1 },
@@ -80,6 +103,14 @@ export const pidSpec: BlockSpec = {
     { name: 'tt', label: 'Tracking time tt', unit: 's', type: 'number', default: '', min: 0, exclusiveMin: true, blank: NaN, description: 'Back-calculation; blank = √(ti·td), or ti without derivative' },
   ],
   actuator: { lower: 'umin', upper: 'umax', onlyWithLimits: true },
+  shows: (field, p) => {
+    const parallel = p.form === 'parallel';
+    if (field === 'ti' || field === 'td') return !parallel;
+    if (field === 'ki' || field === 'kd') return parallel;
+    if (field === 'tt') return (p.antiWindup ?? 'back-calculation') === 'back-calculation';
+    return true;
+  },
+  card: pidCard,
   inputs: singleInput,
   outputs: singleOutput,
   complete: (p) => {
@@ -89,4 +120,4 @@ export const pidSpec: BlockSpec = {
     orderedLimits(p, 'umin', 'umax', true);
     return { type: 'transfer', tf: transfer(pidRational(p)) };
   },
-};
+});

@@ -1,5 +1,5 @@
 import { InputError } from '@loopwright/lti';
-import type { BlockSpec } from './types.ts';
+import { defineBlock } from './types.ts';
 
 /** Most inputs one junction may have (keeps the canvas readable; chain junctions for more). */
 export const MAX_SUM_INPUTS = 16;
@@ -13,11 +13,12 @@ export function sumSigns(signs: unknown): number[] {
   return [...text].map((c) => (c === '+' ? 1 : -1));
 }
 
-export const summingJunctionSpec: BlockSpec = {
+export const summingJunctionSpec = defineBlock({
   kind: 'summing-junction',
   title: 'Summing junction',
   description: 'Adds its inputs in1..inN with the signs given in order, e.g. "+-" is in1 − in2 (reference minus feedback).',
   category: 'linear',
+  idPrefix: 'sum',
   params: [
     {
       name: 'signs',
@@ -28,10 +29,11 @@ export const summingJunctionSpec: BlockSpec = {
       patternHint: `1 to ${MAX_SUM_INPUTS} characters, each + or -, one per input (e.g. "+-")`,
     },
   ],
+  card: () => ({}),
   inputs: (p) => {
     const text = typeof p.signs === 'string' && SIGNS_PATTERN.test(p.signs) ? p.signs : '+-';
     return [...text].map((_, i) => `in${i + 1}`);
   },
   outputs: ['out'],
   linear: (p) => ({ type: 'sum', signs: sumSigns(p.signs) }),
-};
+});

@@ -1,14 +1,15 @@
 import { InputError, parseTransferFunction } from '@loopwright/lti';
 import { singleInput, singleOutput, stringOf } from './common.ts';
-import type { BlockSpec } from './types.ts';
+import { defineBlock } from './types.ts';
 
-export const transferFunctionSpec: BlockSpec = {
+export const transferFunctionSpec = defineBlock({
   kind: 'transfer-function',
   title: 'Transfer function',
   description:
     'Any rational function of s written as text over the named parameters, e.g. "Kp*(1 + 1/(Ti*s))" ' +
     'or "2*exp(-0.5*s)/(3*s + 1)" (exp(−T·s) is a dead time).',
   category: 'linear',
+  idPrefix: 'tf',
   params: [
     {
       name: 'expression',
@@ -18,6 +19,7 @@ export const transferFunctionSpec: BlockSpec = {
       description: 'Arithmetic, integer powers, numbers, named parameters, s and exp(-T*s).',
     },
   ],
+  card: (p) => ({ formula: String(p.expression ?? '') }),
   inputs: singleInput,
   outputs: singleOutput,
   linear: (p, scope = {}) => {
@@ -32,4 +34,4 @@ export const transferFunctionSpec: BlockSpec = {
       throw err;
     }
   },
-};
+});

@@ -1,5 +1,5 @@
 import type { TransferFunction } from '@loopwright/lti';
-import type { BlockKind } from '../document-types.ts';
+import type { ParamValue } from '../document-types.ts';
 
 /**
  * One editable field of a block kind.
@@ -21,6 +21,8 @@ export interface ParamSpec {
   max?: number;
   exclusiveMin?: boolean;
   blank?: number;
+  /** A number whose unit another field (a choice) gives, e.g. a frequency in Hz or rad/s; it replaces `unit`. */
+  unitFrom?: string;
   /** For `text` fields: a pattern the text must match, and how to say it in a message. */
   pattern?: RegExp;
   patternHint?: string;
@@ -29,6 +31,9 @@ export interface ParamSpec {
 
 /** Block parameters after evaluation: numbers are numbers, choices and texts stay strings. */
 export type ResolvedParams = { readonly [name: string]: number | string | boolean };
+
+/** Block parameters as the document stores them (numbers, expression texts, choices; absent = default). */
+export type StoredParams = Readonly<Record<string, ParamValue | undefined>>;
 
 /**
  * The small-signal (linear) view of a block, used by reduction and analysis:
@@ -41,12 +46,44 @@ export type LinearForm =
   | { type: 'source' }
   | { type: 'probe' };
 
-export interface BlockSpec {
-  kind: BlockKind;
+/**
+ * What a block's card shows, as plain data (the editor draws it). `formula` is a text in the
+ * transfer-function expression syntax over `s`, numbers and names ("2/(T1*s + 1)",
+ * "exp(-0.1*s)"); the editor sets it with stacked fractions, powers and subscripts.
+ */
+export interface CardContent {
+  formula?: string;
+  /** A short line under the formula, or instead of it (limits, source shape, notch figures). */
+  caption?: string;
+}
+
+/** One stroke of a card's small line drawing, in a 40 × 20 box; `ghost` strokes are drawn faint. */
+export interface IconStroke {
+  d: string;
+  ghost?: boolean;
+}
+
+/**
+ * Everything about one block kind, in one place: the document schema, the editor (Parts,
+ * Details, the card), reduction, simulation and the command line all read it from here.
+ */
+export interface BlockSpec<K extends string = string> {
+  kind: K;
   title: string;
   description: string;
   category: 'linear' | 'nonlinear' | 'signal';
+  /** New blocks of this kind get ids `${idPrefix}1`, `${idPrefix}2`, … (short ids keep documents easy to diff). */
+  idPrefix: string;
   params: ParamSpec[];
+  /**
+   * Whether a field matters for the block as configured (the PID shows its chosen form's gains,
+   * a source the fields of its shape). Absent: every field. Hidden fields keep their values.
+   */
+  shows?(field: string, p: StoredParams): boolean;
+  /** What the card shows, from the stored fields (never throws: a half-typed field shows as typed or as a placeholder). */
+  card(p: StoredParams): CardContent;
+  /** A small drawing on the card (the static nonlinearities' characteristics, the notch's dip). */
+  icon?: readonly IconStroke[];
   /** Input port names; they can depend on the parameters (summing junction: one per sign). */
   inputs(params: ResolvedParams | Readonly<Record<string, unknown>>): string[];
   outputs: string[];
@@ -65,4 +102,18 @@ export interface BlockSpec {
   actuator?: { lower?: string; upper?: string; onlyWithLimits?: boolean };
   /** Fills derived defaults after resolution (e.g. the PID tracking time when blank). */
   complete?(p: Record<string, number | string | boolean>): void;
+}
+
+/** Declares a block kind; its `kind` stays a literal type, so `BlockKind` is derived from the catalogue. */
+export function defineBlock<const K extends string>(spec: BlockSpec<K>): BlockSpec<K> {
+  return spec;
+}
+
+/** The unit a number field is shown in for these stored or resolved fields (its `unitFrom` choice, else `unit`). */
+export function unitOf(spec: ParamSpec, params: Readonly<Record<string, unknown>>, all?: readonly ParamSpec[]): string | undefined {
+  if (!spec.unitFrom) return spec.unit;
+  const v = params[spec.unitFrom];
+  if (typeof v === 'string' && v !== '') return v;
+  const d = all?.find((p) => p.name === spec.unitFrom)?.default;
+  return typeof d === 'string' ? d : spec.unit;
 }

@@ -1,9 +1,10 @@
-import { type Complex, InputError, cabs, poly, polyRoots } from '@loopwright/lti';
+import { type BudgetOptions, type Complex, InputError, cabs, poly, polyRoots } from '@loopwright/lti';
 import type { ParameterOverrides } from '../resolve.ts';
 import type { Finding } from './finding.ts';
 import { type CompiledGraph, feedthroughOf } from '../analysis/linear-graph.ts';
 import { determinantPoly, flowGraph, simpleCycles } from '../analysis/mason.ts';
 import { type Linearisable, closedLoopPoles, compiledOf } from '../analysis/reduce.ts';
+import { hiddenModeFindings } from '../analysis/hidden-modes.ts';
 
 /** Analytical findings have the shape of every check's findings. */
 export type AnalyticFinding = Finding;
@@ -16,7 +17,7 @@ const fmtC = (z: Complex) => (Math.abs(z.im) < 1e-12 ? `${+z.re.toPrecision(6)}`
  * 1 − (loop gain at s → ∞) — over all of them together, the determinant of I − D·W — is zero
  * the diagram is ill-posed (no solution for the signals): an error.
  */
-export function algebraicLoopFindings(c: CompiledGraph): AnalyticFinding[] {
+export function algebraicLoopFindings(c: CompiledGraph, deadline?: number): AnalyticFinding[] {
   const ft = c.ids.map((_, v) => (c.delay[v] > 0 ? 0 : feedthroughOf(c.num[v], c.den[v])));
   const keep = ft.map((x) => x !== 0);
   const map: number[] = [];
@@ -28,7 +29,7 @@ export function algebraicLoopFindings(c: CompiledGraph): AnalyticFinding[] {
     nodes.map(() => [1]),
     c.branches.filter((b) => b.to >= 0 && map[b.from] >= 0 && map[b.to] >= 0).map((b) => ({ from: map[b.from], to: map[b.to], weight: b.weight })),
   );
-  const cycles = simpleCycles(fg);
+  const cycles = simpleCycles(fg, undefined, deadline);
   if (cycles.length === 0) return [];
   const out: AnalyticFinding[] = [];
   for (const cyc of cycles) {
@@ -117,8 +118,8 @@ export function cancellationFindings(c: CompiledGraph): AnalyticFinding[] {
 }
 
 /** Closed-loop poles in the right half-plane (warning) or on the imaginary axis (info). */
-export function stabilityFindings(c: CompiledGraph): AnalyticFinding[] {
-  const poles = closedLoopPoles(c);
+export function stabilityFindings(c: CompiledGraph, deadline?: number): AnalyticFinding[] {
+  const poles = closedLoopPoles(c, undefined, deadline !== undefined ? { deadline } : {});
   const scale = Math.max(1, ...poles.map(cabs));
   const tol = 1e-9 * scale;
   const rhp = poles.filter((p) => p.re > tol);
@@ -138,7 +139,7 @@ export function stabilityFindings(c: CompiledGraph): AnalyticFinding[] {
  * closed-loop stability. A diagram whose linear model cannot be built (unknown block, bad
  * field) gives one error finding here; the structural checks name the details.
  */
-export function checkAnalytic(d: Linearisable, overrides?: ParameterOverrides): AnalyticFinding[] {
+export function checkAnalytic(d: Linearisable, overrides?: ParameterOverrides, opts: BudgetOptions = {}): AnalyticFinding[] {
   let c: CompiledGraph;
   try {
     c = compiledOf(d, overrides);
@@ -146,10 +147,14 @@ export function checkAnalytic(d: Linearisable, overrides?: ParameterOverrides): 
     if (err instanceof InputError) return [{ severity: 'error', code: 'linear-model', message: `no linear model: ${err.message}`, ...(err.details.field ? { field: err.details.field } : {}) }];
     throw err;
   }
-  const out = [...algebraicLoopFindings(c), ...cancellationFindings(c)];
+  const out = [...algebraicLoopFindings(c, opts.deadline), ...cancellationFindings(c)];
   if (!out.some((f) => f.code === 'ill-posed-algebraic-loop' || (f.code === 'algebraic-loop' && f.severity === 'error'))) {
     try {
-      out.push(...stabilityFindings(c));
+      // Hidden modes from the whole diagram (probes, fan-outs and junctions cannot hide them);
+      // a cancellation the series check already reported is not repeated.
+      const same = (a: AnalyticFinding, b: AnalyticFinding) => a.code === b.code && [...(a.blocks ?? [])].sort().join() === [...(b.blocks ?? [])].sort().join();
+      for (const f of hiddenModeFindings(c, opts)) if (!out.some((g) => same(f, g))) out.push(f);
+      out.push(...stabilityFindings(c, opts.deadline));
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
       out.push({ severity: 'error', code: 'closed-loop-poles', message: `closed-loop poles not found: ${err.message}` });

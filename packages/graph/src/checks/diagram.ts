@@ -1,3 +1,4 @@
+import type { BudgetOptions } from '@loopwright/lti';
 import type { Diagram } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
 import { checkAnalytic } from './analytic.ts';
@@ -11,8 +12,9 @@ import { checkStructure } from './structure.ts';
  * Sorted errors first.
  * Note for the graph-analysis owner (G2): written by G1 to combine both; extend freely.
  */
-export function checkDiagram(d: Diagram, overrides?: ParameterOverrides): Finding[] {
+/** `opts.deadline` bounds the analytical checks (loop enumeration, closed-loop poles): past it a BudgetError. */
+export function checkDiagram(d: Diagram, overrides?: ParameterOverrides, opts: BudgetOptions = {}): Finding[] {
   const structural = checkStructure(d, overrides);
   if (structural.some((f) => f.severity === 'error')) return sortFindings(structural);
-  return sortFindings([...structural, ...checkAnalytic(d, overrides)]);
+  return sortFindings([...structural, ...checkAnalytic(d, overrides, opts)]);
 }

@@ -97,6 +97,25 @@ describe('checkStructure', () => {
     expect(only(fs, 'dangling-sweep').message).toContain('"Ti"');
     expect(fs.filter((f) => f.code === 'dangling-view').length).toBe(2);
   });
+  it('fit records that name a missing block, or a block twice', () => {
+    const d = loop();
+    const rec = (block: string) => ({
+      block,
+      source: { fileName: null, sha256: null, columns: { time: 't', input: 'u', output: 'y' }, samples: 20, firstRow: null, lastRow: null },
+      model: { kind: 'fopdt' as const, gain: 1, timeConstants: [0.5], deadTime: 0 },
+      expression: '1/(0.5*s+1)',
+      quality: { nrmse: 0.01, rmse: 0.01, confidence: 0.95 },
+      intervals: { gain: null, timeConstants: [null], deadTime: null },
+      method: { between: 'linear' as const, operatingPoint: { input: 0, output: 0, samples: 1 } },
+      fittedAt: '2026-01-01T00:00:00.000Z',
+    });
+    d.fits = [rec('g')];
+    expect(checkStructure(d)).toEqual([]);
+    d.fits = [rec('g'), rec('gone'), rec('g')];
+    const fs = checkStructure(d);
+    expect(only(fs, 'dangling-fit').message).toBe('fits: the record of a fitted model names block "gone", which does not exist');
+    expect(only(fs, 'duplicate-fit').blocks).toEqual(['g']);
+  });
   it('unknown named parameters in expressions name the block and field', () => {
     const d = loop();
     d.blocks[2].params.k = '2*Kp*Kv';

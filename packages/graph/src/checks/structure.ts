@@ -113,6 +113,12 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
   for (const id of d.simulation?.probes ?? []) {
     if (blocks.get(id)?.kind !== 'probe') warn('dangling-simulation-probe', `simulation: the shown probe "${id}" is not a probe block of this diagram`, { field: 'simulation.probes' });
   }
+  const fitted = new Set<string>();
+  for (const f of d.fits ?? []) {
+    if (!blocks.has(f.block)) warn('dangling-fit', `fits: the record of a fitted model names block "${f.block}", which does not exist`, { field: `fits.${f.block}` });
+    else if (fitted.has(f.block)) warn('duplicate-fit', `fits: block ${f.block} has more than one fit record (the last one describes its model)`, { blocks: [f.block], field: `fits.${f.block}` });
+    fitted.add(f.block);
+  }
 
   // --- named parameters
   for (const p of d.parameters) {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { type Rational, loopMargins, padeDelay, poly, polyRoots, rational, rconst, rmul, transfer } from '@loopwright/lti';
+import { type Rational, loopMargins, padeDelay, parseTransferFunction, poly, polyRoots, rational, rconst, rmul, transfer } from '@loopwright/lti';
 import { checkStructure } from '../checks/structure.ts';
 import { parseDiagram, serializeDiagram } from '../document.ts';
 import type { Diagram } from '../document-types.ts';
@@ -7,12 +7,13 @@ import { resolveParams } from '../resolve.ts';
 import { demoDiagrams } from './index.ts';
 import axisText from './positioning-axis.loop.json?raw';
 import heatingText from './heating-cascade.loop.json?raw';
+import supplyText from './supply-loop.loop.json?raw';
 
-const committed: Record<string, string> = { 'positioning-axis': axisText, 'heating-cascade': heatingText };
+const committed: Record<string, string> = { 'positioning-axis': axisText, 'heating-cascade': heatingText, 'supply-loop': supplyText };
 
 describe('demo diagrams', () => {
   it('are the two contract ids', () => {
-    expect(demoDiagrams.map((d) => d.id)).toEqual(['positioning-axis', 'heating-cascade']);
+    expect(demoDiagrams.map((d) => d.id)).toEqual(['positioning-axis', 'heating-cascade', 'supply-loop']);
   });
   for (const demo of demoDiagrams) {
     describe(demo.id, () => {
@@ -29,9 +30,11 @@ describe('demo diagrams', () => {
       });
       it('has a cut per loop, a sweep, probes, and named parameters with slider ranges and units', () => {
         const d = demo.diagram;
-        expect(d.cuts.length).toBeGreaterThanOrEqual(2);
+        // The supply loop is a single loop to commission (its loop, its output and its valve).
+        const single = demo.id === 'supply-loop';
+        expect(d.cuts.length).toBeGreaterThanOrEqual(single ? 1 : 2);
         expect(d.sweeps.length).toBeGreaterThanOrEqual(1);
-        expect(d.blocks.filter((b) => b.kind === 'probe').length).toBeGreaterThanOrEqual(4);
+        expect(d.blocks.filter((b) => b.kind === 'probe').length).toBeGreaterThanOrEqual(single ? 2 : 4);
         for (const p of d.parameters) {
           expect(p.unit, p.name).toBeTruthy();
           expect(p.min! < p.max!, p.name).toBe(true);
@@ -127,5 +130,13 @@ describe('heating cascade: hand-assembled loops', () => {
   });
   it('the whole cascade has all closed-loop poles in the left half-plane', () => {
     expect(allLeft(closeLoop(Lroom, rconst(1)).den)).toBe(true);
+  });
+});
+
+describe('supply loop to commission: hand-assembled loop', () => {
+  const d = demoDiagrams.find((x) => x.id === 'supply-loop')!.diagram;
+  it('its start settings give a stable loop with margins on the first-guess plant block', () => {
+    const plant = parseTransferFunction(String(d.blocks.find((b) => b.id === 'supply-plant')!.params.expression));
+    expectGoodLoop(rmul(pidOf(d, 'supply-controller'), plant.rational), plant.delay, 'supply');
   });
 });

@@ -14,7 +14,7 @@ const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id,
  */
 export const heatingCascade: Diagram = {
   format: 'loopwright.diagram',
-  version: 2,
+  version: 3,
   title: 'Building heating cascade',
   description:
     'Supply-temperature loop (PI on a 0–100 % mixing valve) inside a room-temperature loop (PI). Temperatures are ' +
@@ -56,11 +56,11 @@ export const heatingCascade: Diagram = {
     { id: 'radiator-share', kind: 'gain', label: 'radiator share of heat balance', position: at(11, 0), params: { k: 0.4 } },
     { id: 'heat-balance', kind: 'summing-junction', label: 'heat balance', position: at(12, 0), params: { signs: '++' } },
     { id: 'room', kind: 'first-order-lag', label: 'room air', position: at(13, 0), params: { k: 1, tau: 3600 } },
-    { id: 'room-temperature', kind: 'probe', label: 'room temperature (K)', position: at(14, 0), params: {} },
+    { id: 'room-temperature', kind: 'probe', label: 'room temperature (K)', position: at(14, 0), params: { unit: 'K' } },
     { id: 'valve-operating-point', kind: 'source', label: 'valve operating point (%)', position: at(5, -1), params: { shape: 'step', amplitude: 50, start: 0, offset: 0 } },
-    { id: 'valve-position', kind: 'probe', label: 'valve position (%, actuator)', position: at(7, -1), params: {} },
-    { id: 'supply-setpoint', kind: 'probe', label: 'supply setpoint (K)', position: at(3, -1), params: {} },
-    { id: 'supply-temperature', kind: 'probe', label: 'supply temperature (K)', position: at(10, 1), params: {} },
+    { id: 'valve-position', kind: 'probe', label: 'valve position (%, actuator)', position: at(7, -1), params: { unit: '%' } },
+    { id: 'supply-setpoint', kind: 'probe', label: 'supply setpoint (K)', position: at(3, -1), params: { unit: 'K' } },
+    { id: 'supply-temperature', kind: 'probe', label: 'supply temperature (K)', position: at(10, 1), params: { unit: 'K' } },
     { id: 'outdoor', kind: 'source', label: 'outdoor temperature (K)', position: at(10, -2), params: { shape: 'step', amplitude: -5, start: 7200, offset: 0 } },
     { id: 'outdoor-share', kind: 'gain', label: 'outdoor share of heat balance', position: at(11, -1), params: { k: 0.6 } },
   ],

@@ -15,7 +15,7 @@ const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id,
  */
 export const positioningAxis: Diagram = {
   format: 'loopwright.diagram',
-  version: 2,
+  version: 3,
   title: 'Belt-driven positioning axis',
   description:
     'Cascade of current, speed and position loops on a belt-driven axis (invented but plausible numbers: ' +
@@ -59,11 +59,11 @@ export const positioningAxis: Diagram = {
     { id: 'net-torque', kind: 'summing-junction', label: 'net torque', position: at(10, 0), params: { signs: '+-' } },
     { id: 'mechanics', kind: 'first-order-lag', label: 'inertia + friction (rad/s per N·m)', position: at(11, 0), params: { k: 1000, tau: 1 } },
     { id: 'pulley', kind: 'integrator', label: 'belt and pulley (mm)', position: at(12, 0), params: { k: 'r_pulley' } },
-    { id: 'position', kind: 'probe', label: 'position (mm)', position: at(13, 0), params: {} },
+    { id: 'position', kind: 'probe', label: 'position (mm)', position: at(13, 0), params: { unit: 'mm' } },
     { id: 'load-torque', kind: 'source', label: 'load torque (N·m)', position: at(9, -1), params: { shape: 'step', amplitude: 0.3, start: 0.15, offset: 0 } },
-    { id: 'motor-voltage', kind: 'probe', label: 'motor voltage (V, actuator)', position: at(8, -1), params: {} },
-    { id: 'current', kind: 'probe', label: 'motor current (A)', position: at(9, 1), params: {} },
-    { id: 'speed', kind: 'probe', label: 'motor speed (rad/s)', position: at(12, 1), params: {} },
+    { id: 'motor-voltage', kind: 'probe', label: 'motor voltage (V, actuator)', position: at(8, -1), params: { unit: 'V' } },
+    { id: 'current', kind: 'probe', label: 'motor current (A)', position: at(9, 1), params: { unit: 'A' } },
+    { id: 'speed', kind: 'probe', label: 'motor speed (rad/s)', position: at(12, 1), params: { unit: 'rad/s' } },
     { id: 'speed-encoder', kind: 'dead-time', label: 'encoder delay (speed)', position: at(11, 2), params: { delay: 'T_enc' } },
     { id: 'position-encoder', kind: 'dead-time', label: 'encoder delay (position)', position: at(12, 3), params: { delay: 'T_enc' } },
   ],

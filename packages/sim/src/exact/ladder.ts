@@ -31,7 +31,9 @@ export class Ladder {
     // at least one rung below h0 (e^(M·h0/2) is the mid-step guard check), and as many as the output lattice needs
     // (a matrix that is not finite gets no extra rungs: its steps come out not finite and the run
     // ends as diverged, naming the time)
-    const K = Math.max(1, minRungs, norm > 0 && Number.isFinite(norm) ? Math.ceil(Math.log2(norm * 64)) : 0);
+    // (norm·64 itself may overflow for a norm near 1e308: such a matrix gets no extra rungs either)
+    const rungs = Math.ceil(Math.log2(norm * 64));
+    const K = Math.max(1, minRungs, norm > 0 && Number.isFinite(rungs) ? rungs : 0);
     this.K = K;
     const X = new Float64Array(N * N);
     const f = h0 / 2 ** K;

@@ -9,20 +9,30 @@ import { buildSource } from './source.ts';
 import { buildSum } from './sum.ts';
 
 /**
- * Which builder makes the run-time nodes of each block kind. Kinds not listed are linear: their
- * catalogue transfer function (with its dead time) is realised by ops/linear.ts — a new linear
- * kind (a notch filter, say) needs nothing here. Probes make no node: they read the signal
- * they are wired to.
+ * Which builder makes the run-time nodes of each block kind, keyed by the catalogue's kinds: a
+ * kind added to the catalogue and missing here is a type error. Linear kinds use buildLinear
+ * (their catalogue transfer function with its dead time, ops/linear.ts). A probe makes no node
+ * (null): it reads the signal it is wired to.
  */
-const builders: Partial<Record<BlockKind, Builder>> = {
+const builders: Readonly<Record<BlockKind, Builder | null>> = {
   source: buildSource,
   'summing-junction': buildSum,
-  saturation: buildSaturation,
-  'dead-zone': buildDeadZone,
-  'rate-limit': buildRateLimit,
   pid: buildPid,
+  gain: buildLinear,
+  'lead-lag': buildLinear,
+  integrator: buildLinear,
+  'first-order-lag': buildLinear,
+  'second-order': buildLinear,
+  notch: buildLinear,
+  'transfer-function': buildLinear,
+  'dead-time': buildLinear,
+  saturation: buildSaturation,
+  'rate-limit': buildRateLimit,
+  'dead-zone': buildDeadZone,
+  probe: null,
 };
 
-export function builderFor(kind: BlockKind): Builder {
-  return builders[kind] ?? buildLinear;
+/** The builder of a kind; null for a kind that makes no node (a probe). */
+export function builderFor(kind: BlockKind): Builder | null {
+  return builders[kind];
 }
