@@ -1,4 +1,5 @@
 import { finite, singleInput, singleOutput, tfOf } from './common.ts';
+import { samplingParams } from './sampling.ts';
 import type { BlockSpec } from './types.ts';
 
 export const gainSpec: BlockSpec = {
@@ -6,7 +7,7 @@ export const gainSpec: BlockSpec = {
   title: 'Gain',
   description: 'Multiplies its input by a constant k.',
   category: 'linear',
-  params: [{ name: 'k', label: 'Gain k', type: 'number', default: 1, description: 'Output = k · input' }],
+  params: [{ name: 'k', label: 'Gain k', type: 'number', default: 1, description: 'Output = k · input' }, ...samplingParams('gain')],
   inputs: singleInput,
   outputs: singleOutput,
   linear: (p) => ({ type: 'transfer', tf: tfOf([finite(p, 'k')], [1]) }),

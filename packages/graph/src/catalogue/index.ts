@@ -20,6 +20,18 @@ export type { BlockSpec, LinearForm, ParamSpec, ResolvedParams } from './types.t
 export { sumSigns, MAX_SUM_INPUTS } from './summing-junction.ts';
 export { defaultTrackingTime, PID_FORMS, ANTI_WINDUP_MODES } from './pid.ts';
 export { SOURCE_SHAPES } from './source.ts';
+export {
+  SAMPLED_METHODS,
+  SAMPLED_INTEGRALS,
+  SAMPLED_DERIVATIVES,
+  SAMPLING_FIELDS,
+  samplingParams,
+  samplingOf,
+  samplingFieldVisible,
+  isSampledKind,
+  type SampledKind,
+  type BlockSampling,
+} from './sampling.ts';
 
 /** Every block kind, in the order the Parts panel lists them. */
 export const catalogue: BlockSpec[] = [

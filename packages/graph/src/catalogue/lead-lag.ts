@@ -1,4 +1,5 @@
 import { finite, singleInput, singleOutput, tfOf } from './common.ts';
+import { samplingParams } from './sampling.ts';
 import type { BlockSpec } from './types.ts';
 
 export const leadLagSpec: BlockSpec = {
@@ -10,6 +11,7 @@ export const leadLagSpec: BlockSpec = {
     { name: 'k', label: 'Gain k', type: 'number', default: 1 },
     { name: 'tLead', label: 'Lead time tLead', unit: 's', type: 'number', default: 1, min: 0, max: 1e6 },
     { name: 'tLag', label: 'Lag time tLag', unit: 's', type: 'number', default: 0.1, min: 0, max: 1e6 },
+    ...samplingParams('lead-lag'),
   ],
   inputs: singleInput,
   outputs: singleOutput,

@@ -1,5 +1,6 @@
 import { InputError, radd, rational, rconst, transfer, type Rational } from '@loopwright/lti';
 import { finite, numberOf, singleInput, singleOutput, stringOf } from './common.ts';
+import { samplingParams } from './sampling.ts';
 import { orderedLimits } from './saturation.ts';
 import type { BlockSpec, ResolvedParams } from './types.ts';
 
@@ -78,6 +79,7 @@ export const pidSpec: BlockSpec = {
     { name: 'umax', label: 'Output upper limit', type: 'number', default: '', blank: Infinity },
     { name: 'antiWindup', label: 'Anti-windup', type: 'choice', default: 'back-calculation', choices: ANTI_WINDUP_MODES },
     { name: 'tt', label: 'Tracking time tt', unit: 's', type: 'number', default: '', min: 0, exclusiveMin: true, blank: NaN, description: 'Back-calculation; blank = √(ti·td), or ti without derivative' },
+    ...samplingParams('pid'),
   ],
   actuator: { lower: 'umin', upper: 'umax', onlyWithLimits: true },
   inputs: singleInput,

@@ -1,5 +1,6 @@
 import { InputError, parseTransferFunction } from '@loopwright/lti';
 import { singleInput, singleOutput, stringOf } from './common.ts';
+import { samplingParams } from './sampling.ts';
 import type { BlockSpec } from './types.ts';
 
 export const transferFunctionSpec: BlockSpec = {
@@ -17,6 +18,7 @@ export const transferFunctionSpec: BlockSpec = {
       default: '1/(s + 1)',
       description: 'Arithmetic, integer powers, numbers, named parameters, s and exp(-T*s).',
     },
+    ...samplingParams('transfer-function'),
   ],
   inputs: singleInput,
   outputs: singleOutput,
