@@ -43,3 +43,14 @@ export { loopOfExpression, expressionMargins, expressionLocus, type ExpressionLo
 export { resultsComplete, type PartProgress } from './complete.ts';
 export { clearCaches } from './caches.ts';
 export { transferData, rhpPoleCount } from './transfer-data.ts';
+export { sampledBlockOf, sampledBlocks, requireSampledBlock, controllerSpecOf, type SampledBlock } from './sampled-block.ts';
+export {
+  expressionSampledMargins,
+  expressionSampledLocus,
+  exportStudy,
+  blockTestVector,
+  codeNameOf,
+  type ExpressionSampling,
+  type ExportRequest,
+  type ExportData,
+} from './sampled.ts';

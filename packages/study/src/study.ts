@@ -12,6 +12,7 @@ import { loopsStudy, type LoopsRequest } from './loops.ts';
 import { part } from './part.ts';
 import { polesStudy, type PolesRequest } from './poles.ts';
 import { responseStudy, type RunContext, type RunRequest } from './run.ts';
+import { exportStudy, type ExportData, type ExportRequest } from './sampled.ts';
 import type { CheckData, ClosedLoopData, FrequencyData, LocusData, LoopsData, Part, PolesData, ResponseResult } from './types.ts';
 import { checkStudy } from './validate.ts';
 
@@ -30,6 +31,8 @@ export interface StudyKinds {
   'closed-loop': { request: ClosedLoopRequest; result: ClosedLoopData };
   /** A time simulation. */
   run: { request: RunRequest; result: ResponseResult };
+  /** Code, coefficients and test vector of a sampled controller block. */
+  export: { request: ExportRequest; result: ExportData };
 }
 
 export type StudyKind = keyof StudyKinds;
@@ -53,6 +56,7 @@ const HANDLERS: Handlers = {
   loops: (d, r) => loopsStudy(d, r),
   'closed-loop': (d, r) => closedLoopStudy(d, r),
   run: (d, r, ctx) => responseStudy(d, r, ctx),
+  export: (d, r) => exportStudy(d, r),
 };
 
 /** Runs one study; throws what it throws (InputError for bad input, naming what is wrong). */

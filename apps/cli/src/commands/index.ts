@@ -5,6 +5,7 @@ import { checkCommand } from './check.ts';
 import { reduceCommand } from './reduce.ts';
 import { loopsCommand } from './loops.ts';
 import { simulateCommand } from './simulate.ts';
+import { exportCommand } from './export.ts';
 
 /** Every command, in the order `loopwright --help` lists them. */
 export const commands: Command[] = [
@@ -14,4 +15,5 @@ export const commands: Command[] = [
   reduceCommand,
   loopsCommand,
   simulateCommand,
+  exportCommand,
 ];
