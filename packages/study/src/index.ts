@@ -54,3 +54,4 @@ export {
   type ExportRequest,
   type ExportData,
 } from './sampled.ts';
+export { sampledCutStudy, type SampledCutRequest, type SampledCutData, type SampledBlockRole, type SampledLocusData } from './sampled-cut.ts';

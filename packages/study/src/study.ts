@@ -13,6 +13,7 @@ import { part } from './part.ts';
 import { polesStudy, type PolesRequest } from './poles.ts';
 import { responseStudy, type RunContext, type RunRequest } from './run.ts';
 import { exportStudy, type ExportData, type ExportRequest } from './sampled.ts';
+import { sampledCutStudy, type SampledCutData, type SampledCutRequest } from './sampled-cut.ts';
 import type { CheckData, ClosedLoopData, FrequencyData, LocusData, LoopsData, Part, PolesData, ResponseResult } from './types.ts';
 import { checkStudy } from './validate.ts';
 
@@ -33,6 +34,8 @@ export interface StudyKinds {
   run: { request: RunRequest; result: ResponseResult };
   /** Code, coefficients and test vector of a sampled controller block. */
   export: { request: ExportRequest; result: ExportData };
+  /** The loop at a cut read at its sampled controller (exact pulse transfer function); null: no sampled block in that loop. */
+  'sampled-cut': { request: SampledCutRequest; result: SampledCutData | null };
 }
 
 export type StudyKind = keyof StudyKinds;
@@ -57,6 +60,7 @@ const HANDLERS: Handlers = {
   'closed-loop': (d, r) => closedLoopStudy(d, r),
   run: (d, r, ctx) => responseStudy(d, r, ctx),
   export: (d, r) => exportStudy(d, r),
+  'sampled-cut': (d, r) => sampledCutStudy(d, r),
 };
 
 /** Runs one study; throws what it throws (InputError for bad input, naming what is wrong). */
