@@ -43,7 +43,7 @@ export { loopOfExpression, expressionMargins, expressionLocus, type ExpressionLo
 export { resultsComplete, type PartProgress } from './complete.ts';
 export { clearCaches } from './caches.ts';
 export { transferData, rhpPoleCount } from './transfer-data.ts';
-export { sampledBlockOf, sampledBlocks, requireSampledBlock, controllerSpecOf, type SampledBlock } from './sampled-block.ts';
+export { sampledBlockOf, sampledBlocks, requireSampledBlock, type SampledBlock } from './sampled-block.ts';
 export {
   expressionSampledMargins,
   expressionSampledLocus,

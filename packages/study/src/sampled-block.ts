@@ -6,7 +6,7 @@
  */
 import { InputError, type TransferFunction } from '@loopwright/lti';
 import { type Block, type BlockSampling, type Diagram, linearForm, resolveParams, samplingOf } from '@loopwright/graph';
-import { type ControllerSpec, type DiscreteController, discretizeController } from '@loopwright/sampled';
+import { type DiscreteController, controllerSpecOf, discretizeController } from '@loopwright/sampled';
 
 export interface SampledBlock {
   block: Block;
@@ -14,31 +14,6 @@ export interface SampledBlock {
   /** The continuous transfer function the block stands for (its linear form). */
   continuous: TransferFunction;
   controller: DiscreteController;
-}
-
-const num = (v: unknown): number | undefined => (typeof v === 'number' && !Number.isNaN(v) ? v : undefined);
-
-/** The controller spec of a block kind from its resolved parameters (field names as in the catalogue). */
-export function controllerSpecOf(kind: string, p: Record<string, unknown>, continuous: TransferFunction): ControllerSpec {
-  switch (kind) {
-    case 'pid': {
-      const spec: ControllerSpec = { kind: 'pid', form: p.form === 'parallel' ? 'parallel' : 'ideal', kp: num(p.kp) ?? 0, n: num(p.n) };
-      for (const f of ['ti', 'td', 'ki', 'kd', 'umin', 'umax', 'tt'] as const) {
-        const v = num(p[f]);
-        if (v !== undefined) spec[f] = v;
-      }
-      spec.antiWindup = p.antiWindup as 'off' | 'back-calculation' | 'conditional';
-      return spec;
-    }
-    case 'lead-lag':
-      return { kind: 'lead-lag', k: num(p.k) ?? 1, tLead: num(p.tLead) ?? 0, tLag: num(p.tLag) ?? 0 };
-    case 'gain':
-      return { kind: 'gain', k: num(p.k) ?? 1 };
-    case 'transfer-function':
-      return { kind: 'transfer-function', tf: continuous };
-    default:
-      throw new InputError(`block kind ${kind} has no sampled form`, { field: 'kind' });
-  }
 }
 
 /** Re-throws an error of the sampled math with the block named. */

@@ -6,6 +6,7 @@ import { buildRateLimit } from './rate-limit.ts';
 import type { Builder } from './registry-types.ts';
 import { buildSaturation } from './saturation.ts';
 import { buildSource } from './source.ts';
+import { sampledOr } from './sampled.ts';
 import { buildSum } from './sum.ts';
 
 /**
@@ -20,7 +21,11 @@ const builders: Partial<Record<BlockKind, Builder>> = {
   saturation: buildSaturation,
   'dead-zone': buildDeadZone,
   'rate-limit': buildRateLimit,
-  pid: buildPid,
+  // controller kinds with sampling fields: sampled when a sample time is set
+  pid: sampledOr(buildPid),
+  'lead-lag': sampledOr(buildLinear),
+  'transfer-function': sampledOr(buildLinear),
+  gain: sampledOr(buildLinear),
 };
 
 export function builderFor(kind: BlockKind): Builder {
