@@ -23,3 +23,4 @@ export * from './checks/diagram.ts';
 export { demoDiagrams } from './demos/index.ts';
 export { positioningAxis } from './demos/positioning-axis.ts';
 export { heatingCascade } from './demos/heating-cascade.ts';
+export { sampledAxis } from './demos/sampled-axis.ts';

@@ -7,12 +7,13 @@ import { resolveParams } from '../resolve.ts';
 import { demoDiagrams } from './index.ts';
 import axisText from './positioning-axis.loop.json?raw';
 import heatingText from './heating-cascade.loop.json?raw';
+import sampledText from './sampled-axis.loop.json?raw';
 
-const committed: Record<string, string> = { 'positioning-axis': axisText, 'heating-cascade': heatingText };
+const committed: Record<string, string> = { 'positioning-axis': axisText, 'heating-cascade': heatingText, 'sampled-axis': sampledText };
 
 describe('demo diagrams', () => {
-  it('are the two contract ids', () => {
-    expect(demoDiagrams.map((d) => d.id)).toEqual(['positioning-axis', 'heating-cascade']);
+  it('are the two contract ids and the multirate axis', () => {
+    expect(demoDiagrams.map((d) => d.id)).toEqual(['positioning-axis', 'heating-cascade', 'sampled-axis']);
   });
   for (const demo of demoDiagrams) {
     describe(demo.id, () => {
