@@ -19,6 +19,7 @@ import {
   type PolesData,
   type ResolvedSweep,
   type ResponseResult,
+  type SampledCutData,
   type StudyRequest,
   type StudyResult,
 } from '@loopwright/study';
@@ -53,6 +54,8 @@ export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; 
   if (choice && range && Number.isFinite(value)) analysis.push({ kind: 'locus', target: choice.target, value, range, opposite: opts.opposite });
   analysis.push({ kind: 'poles', live });
   if (opts.frequency) analysis.push({ kind: 'cut', cut: inp.cutId, live, fallback: true });
+  // A loop with a sampled controller is also read at its sampler (exact pulse transfer function).
+  if (opts.frequency && hasSampledBlock(inp.diagram)) analysis.push({ kind: 'sampled-cut', cut: inp.cutId, live, fallback: true, locus: true });
   return {
     check: [{ kind: 'check' }],
     analysis,
@@ -60,6 +63,14 @@ export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; 
     // A live preview: 5 s of wall time at most (a run that needs more says so).
     response: [{ kind: 'run', live, linearOverlay: true, maxWallMs: 5000 }],
   };
+}
+
+/** Whether any block has a sample time set (only then is the sampled reading asked for). */
+function hasSampledBlock(d: Diagram): boolean {
+  return d.blocks.some((b) => {
+    const t = b.params.sampleTime;
+    return typeof t === 'number' ? t > 0 : typeof t === 'string' && t.trim() !== '' && t.trim() !== '0';
+  });
 }
 
 /** Identity of a locus: its defining polynomials (exact) or its sampled points' ends. */
@@ -80,7 +91,9 @@ function analysisOf(studies: StudyRequest[], results: Part<StudyResult>[], elaps
   const cut = unwrap<FrequencyData | null>(byKind('cut'));
   // A diagram with no loop has nothing to show in the Frequency view: no part, no error.
   const frequency = !cut || (cut.ok && cut.value === null) ? null : (cut as AnalysisResult['frequency']);
-  return { locus, poles, frequency, elapsedMs };
+  const sampledPart = unwrap<SampledCutData | null>(byKind('sampled-cut'));
+  const sampled = !sampledPart || (sampledPart.ok && sampledPart.value === null) ? null : (sampledPart as AnalysisResult['sampled']);
+  return { locus, poles, frequency, sampled, elapsedMs };
 }
 
 let client: EngineClient | null = null;

@@ -6,7 +6,7 @@
  * has drawn a complete generation, so tests and the bench can wait for "all views updated".
  */
 import { create } from 'zustand';
-import { resultsComplete as allIn, type CheckData, type FrequencyData, type LocusData, type LoopsData, type Part, type PolesData, type ResponseResult } from '@loopwright/study';
+import { resultsComplete as allIn, type CheckData, type FrequencyData, type LocusData, type LoopsData, type Part, type PolesData, type ResponseResult, type SampledCutData } from '@loopwright/study';
 import { CHANNELS, type Channel } from '../worker/protocol.ts';
 
 /** What the analysis channel gives back: the locus of the sweep, the closed-loop poles, L at the cut. */
@@ -14,6 +14,8 @@ export interface AnalysisResult {
   locus: Part<LocusData> | null;
   poles: Part<PolesData>;
   frequency: Part<FrequencyData> | null;
+  /** The loop at the cut read at its sampled controller (null: not asked for, or no sampled block in that loop). */
+  sampled?: Part<SampledCutData> | null;
   /** Worker compute time, ms. */
   elapsedMs: number;
 }

@@ -31,7 +31,19 @@ export interface CardContent {
   caption?: string;
 }
 
+/** The card of a sampled controller adds its sample time to the caption ("sampled every 250e-6 s"). */
 export function cardContent(b: Block): CardContent {
+  const c = continuousCard(b);
+  const T = b.params.sampleTime;
+  const set = typeof T === 'number' ? T > 0 : typeof T === 'string' && T.trim() !== '' && T.trim() !== '0';
+  if (!set) return c;
+  const delay = b.params.computeDelay;
+  const d = typeof delay === 'number' && delay > 0 ? `, delay ${show(delay)} sample${delay === 1 ? '' : 's'}` : typeof delay === 'string' && delay.trim() ? `, delay ${delay}` : '';
+  const sampled = `sampled every ${show(T)} s${d}`;
+  return { ...c, caption: c.caption ? `${c.caption}; ${sampled}` : sampled };
+}
+
+function continuousCard(b: Block): CardContent {
   const p = b.params;
   switch (b.kind) {
     case 'transfer-function':

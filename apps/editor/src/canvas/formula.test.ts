@@ -28,4 +28,12 @@ describe('parseForDisplay', () => {
     expect(tiny.formula).toBe('25e-6/(120e3*s + 1)');
     expect(parseForDisplay(tiny.formula!)).not.toBeNull();
   });
+  it('a sampled controller card shows its sample time and computation delay', () => {
+    const pid = cardContent({ id: 'p', kind: 'pid', position: { x: 0, y: 0 }, params: { form: 'ideal', kp: 2, ti: 0.01, td: 0, n: 10, umin: -5, umax: 5, sampleTime: 2.5e-4, computeDelay: 1 } });
+    expect(pid.formula).toBe('2*(1 + 1/(0.01*s))');
+    expect(pid.caption).toBe('output -5 … 5; sampled every 250e-6 s, delay 1 sample');
+    const g = cardContent({ id: 'g', kind: 'gain', position: { x: 0, y: 0 }, params: { k: 3, sampleTime: 'Ts_pos' } });
+    expect(g.caption).toBe('sampled every Ts_pos s');
+    expect(cardContent({ id: 'g', kind: 'gain', position: { x: 0, y: 0 }, params: { k: 3, sampleTime: '' } }).caption).toBeUndefined();
+  });
 });

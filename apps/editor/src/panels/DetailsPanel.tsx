@@ -3,12 +3,14 @@
  * of its inputs (wiring by keyboard), or the selected wire with its cut.
  */
 import { useDiagramStore } from '../store/diagram-store.ts';
-import { blockSpec, type Block, type Diagram, type ParamSpec } from '../store/graph-bridge.ts';
+import { blockSpec, isSampledKind, samplingFieldVisible, SAMPLING_FIELDS, type Block, type Diagram, type ParamSpec } from '../store/graph-bridge.ts';
+import { SampledExport } from './SampledExport.tsx';
 import { ParamField } from './ParamField.tsx';
 
 /** Fields that matter for the block as configured (PID shows its chosen form's gains). */
 function visibleParams(b: Block): ParamSpec[] {
-  const all = blockSpec(b.kind).params;
+  // sampling fields beyond the sample time only once a sample time is set
+  const all = blockSpec(b.kind).params.filter((p) => !isSampledKind(b.kind) || !SAMPLING_FIELDS.includes(p.name) || samplingFieldVisible(p.name, b.params));
   if (b.kind === 'pid') {
     const parallel = b.params.form === 'parallel';
     return all.filter((p) => {
@@ -65,6 +67,7 @@ function BlockDetails({ diagram, block }: { diagram: Diagram; block: Block }) {
       {visibleParams(block).map((p) => (
         <ParamField key={`${block.id}:${p.name}`} diagram={diagram} block={block} spec={p} onCommit={(v) => st.updateBlockParams(block.id, { [p.name]: v })} />
       ))}
+      {isSampledKind(block.kind) && <SampledExport diagram={diagram} block={block} />}
       {inputs.length > 0 && (
         <fieldset className="wiring">
           <legend>Inputs</legend>

@@ -9,6 +9,7 @@ import { useDiagramStore } from '../store/diagram-store.ts';
 import { bodeOption, marginsText, nyquistOption, sensitivityOption, sensitivityText } from './frequency-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
+import { SampledLoopPanel } from './SampledLoopPanel.tsx';
 
 export function FrequencyView({ pal }: { pal: Palette }) {
   const analysis = useResultsStore((s) => s.analysis);
@@ -62,6 +63,8 @@ export function FrequencyView({ pal }: { pal: Palette }) {
         <ChartFrame name="bode" title={`Bode of L`} background={pal.background} option={bode!} extra={<span className="lw-muted" title={marginsText(f.margins)}>{marginsText(f.margins)}</span>} />
         <ChartFrame name="nyquist" title="Nyquist of L" background={pal.background} option={nyq!} onSize={setNySize} />
       </div>
+      {analysis?.sampled?.ok && <SampledLoopPanel data={analysis.sampled.value} pal={pal} />}
+      {analysis?.sampled && !analysis.sampled.ok && <div className="lw-bad small">Sampled loop: {analysis.sampled.error}</div>}
       <div className="lw-grid-1">
         <ChartFrame name="sensitivity" title="|S| and |T|" background={pal.background} option={sens!} extra={<span className="lw-muted">{sensitivityText(f.margins)}</span>} />
       </div>
