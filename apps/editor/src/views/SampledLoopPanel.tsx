@@ -4,6 +4,7 @@
  * (labelled as one) and the continuous design, the sample-rate warning, what is exact and what
  * approximated, and the z-plane locus of the loop gain with the unit circle and ζ/ωn guides.
  */
+import { formatEngineering } from '@loopwright/lti';
 import type { SampledCutData } from '@loopwright/study';
 import type { Palette } from './palette.ts';
 
@@ -24,7 +25,7 @@ export function SampledLoopPanel({ data, pal }: { data: SampledCutData; pal: Pal
       <div className="lw-view-tools">
         <strong>Sampled loop</strong>
         <span className="lw-muted">
-          {data.sampler ? `read at ${data.sampler}, T = ${fmt(data.sampleTime)} s, computation delay ${fmt(data.computeDelay)} samples` : 'no sampler on this loop alone: estimate only'}
+          {data.sampler ? `read at ${data.sampler}, T = ${formatEngineering(data.sampleTime)} s, computation delay ${fmt(data.computeDelay)} samples` : 'no sampler on this loop alone: estimate only'}
         </span>
         {data.closedLoopStable !== null && (
           <span className={data.closedLoopStable ? 'lw-ok' : 'lw-bad'}>{data.closedLoopStable ? 'z-plane poles inside the unit circle' : 'sampled closed loop UNSTABLE'}</span>
