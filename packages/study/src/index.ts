@@ -55,3 +55,5 @@ export {
   type ExportData,
 } from './sampled.ts';
 export { sampledCutStudy, type SampledCutRequest, type SampledCutData, type SampledBlockRole, type SampledLocusData } from './sampled-cut.ts';
+// The test vector's JSON form, for apps that write the export's files.
+export { testVectorToJson } from '@loopwright/sampled';

@@ -1,5 +1,4 @@
-import { runStudy } from '@loopwright/study';
-import { testVectorToJson } from '@loopwright/sampled';
+import { runStudy, testVectorToJson } from '@loopwright/study';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, WriteError, type Command } from '../io.ts';
 import { checkSets, readDiagram } from './diagram-input.ts';
