@@ -48,7 +48,6 @@ export {
   expressionSampledMargins,
   expressionSampledLocus,
   exportStudy,
-  blockTestVector,
   codeNameOf,
   type ExpressionSampling,
   type ExportRequest,
@@ -57,3 +56,4 @@ export {
 export { sampledCutStudy, type SampledCutRequest, type SampledCutData, type SampledBlockRole, type SampledLocusData } from './sampled-cut.ts';
 // The test vector's JSON form, for apps that write the export's files.
 export { testVectorToJson } from '@loopwright/sampled';
+export { simulatedTestVector, testBenchDiagram } from './block-test-vector.ts';

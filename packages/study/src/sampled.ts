@@ -13,9 +13,7 @@ import {
   type TestVector,
   type ZPlaneLocus,
   coefficientsText,
-  exerciseInput,
   exportController,
-  makeTestVector,
   sampledLocus,
   sampledMargins,
   checkCodeName,
@@ -23,6 +21,7 @@ import {
 } from '@loopwright/sampled';
 import { type ExpressionLoop, loopOfExpression } from './loop-expression.ts';
 import { requireSampledBlock } from './sampled-block.ts';
+import { simulatedTestVector } from './block-test-vector.ts';
 
 /** How the loop expression is sampled: L(s) behind a sampler, a hold and D samples of computation delay. */
 export interface ExpressionSampling {
@@ -85,7 +84,7 @@ export interface ExportData {
   lang: ExportLanguage;
   /** The generated files (a C export also carries `<name>_check.c`, which replays the test vector). */
   files: ExportedFile[];
-  /** The block alone on a deterministic input: its outputs per sample, for whoever ports the code. */
+  /** The block alone in the simulator on a fixed input: its outputs per sample, for whoever ports the code. */
   testVector: TestVector;
   /** The difference equation and coefficients in words. */
   summary: string;
@@ -97,25 +96,11 @@ export function codeNameOf(blockId: string): string {
   return /^[A-Za-z]/.test(s) ? s : `ctrl_${s}`;
 }
 
-/**
- * The test vector of a block: its controller run from rest on `exerciseInput`, scaled so that
- * limits, where the block has them, are reached. The run steps the block exactly as the
- * simulator does at the block's sample instants (`stepController` of @loopwright/sampled).
- */
-export function blockTestVector(c: ReturnType<typeof requireSampledBlock>['controller'], name: string, samples = 400): TestVector {
-  if (!Number.isInteger(samples) || samples < 2 || samples > 100000) throw new InputError(`samples: ${samples} must be a whole number from 2 to 100000`, { field: 'samples' });
-  const k = c.coefficients;
-  const limits = [k.umin, k.umax].filter((v) => Number.isFinite(v)).map(Math.abs);
-  const direct = Math.abs(c.differenceEquation.b[0] ?? 0);
-  const amplitude = limits.length && direct > 0 ? (1.5 * Math.max(...limits)) / direct : 1;
-  return makeTestVector(c, exerciseInput(samples, amplitude), { name });
-}
-
 export function exportStudy(d: Diagram, r: ExportRequest): ExportData {
   if (!(EXPORT_LANGUAGES as readonly string[]).includes(r.lang)) throw new InputError(`lang: "${r.lang}" is not one of ${EXPORT_LANGUAGES.join(', ')}`, { field: 'lang' });
   const sb = requireSampledBlock(d, r.block, r.overrides);
   const name = checkCodeName(r.name ?? codeNameOf(r.block));
-  const testVector = blockTestVector(sb.controller, name, r.samples ?? 400);
+  const testVector = simulatedTestVector(d, sb.block, sb.controller, name, r.overrides ?? {}, r.samples ?? 400);
   const files = exportController(sb.controller, r.lang, name);
   if (r.lang === 'c') files.push(cTestProgram(sb.controller, testVector, name));
   return { block: r.block, name, lang: r.lang, files, testVector, summary: coefficientsText(sb.controller, name) };

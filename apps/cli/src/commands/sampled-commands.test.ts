@@ -9,6 +9,7 @@ import { join } from 'node:path';
 import { main } from '../main.ts';
 import type { CliIo } from '../io.ts';
 import { diagramOf } from '@loopwright/graph/testing';
+import { discretizeController, runController } from '@loopwright/sampled';
 
 function fakeIo(files: Record<string, string>) {
   let out = '';
@@ -147,6 +148,13 @@ describe('loopwright export', () => {
     expect(j.testVector.input).toHaveLength(400);
     const text: string = j.files[0].text;
     for (const v of ['0.0666666', '0.444444', '8.88888']) expect(text).toContain(v);
+    // the vector comes from a simulation of the block alone; the reference executor on its
+    // input gives the same outputs (two implementations: simulator instants and executor)
+    const ctrl = discretizeController({ kind: 'pid', kp: 2, ti: 1.5, td: 0.4, n: 10, umin: -5, umax: 5 }, { sampleTime: 0.05, computeDelay: 1 });
+    const u = runController(ctrl, j.testVector.input);
+    u.forEach((v, k) => expect(Math.abs(v - j.testVector.output[k])).toBeLessThan(1e-12));
+    // the input: a step A at k = 0, −0.6·A from k = 80 (a fifth of 400 samples)
+    expect(j.testVector.input[79]).toBeCloseTo(-j.testVector.input[80] / 0.6, 12);
     // the vector reaches the limits (±5) and stays within them
     expect(Math.max(...j.testVector.output)).toBeCloseTo(5, 12);
     expect(Math.min(...j.testVector.output)).toBeCloseTo(-5, 12);
