@@ -49,6 +49,17 @@ describe('sampled controllers in the editor', () => {
     await screenshot(page, 'sampled-axis-frequency');
   });
 
+  it('the Loops view lists each loop read at its own sampler', async () => {
+    await page.getByRole('tab', { name: 'Loops' }).click();
+    const table = page.getByTestId('sampled-loops-table');
+    await expect.poll(async () => (await table.count()) > 0 && (await table.locator('tbody tr').count()), { timeout: 30_000 }).toBe(3);
+    const text = (await table.textContent())!;
+    for (const b of ['current-controller', 'speed-controller', 'position-controller']) expect(text).toContain(b);
+    for (const t of ['62.5e-6', '250e-6', '0.001']) expect(text).toContain(t);
+    await table.scrollIntoViewIfNeeded();
+    await screenshot(page, 'sampled-axis-loops');
+  });
+
   it('the current controller shows its sample time on the card and exports C with a test vector', async () => {
     expect(await page.locator('[data-block="current-controller"]').textContent()).toMatch(/sampled every Ts_cur s, delay 1 sample/);
     await selectBlock(page, 'current-controller');

@@ -5,7 +5,7 @@ import { runController } from './executor.ts';
 /**
  * A test vector for a ported controller: the input sequence e(0), e(1), … and the outputs u(k)
  * expected for it (one per sample, from a zero state whose output starts at `initialOutput`),
- * with optional coefficient changes applied before the step at `atSample`. Plain JSON data:
+ * with optional coefficient changes applied before the step at `atSample`. Plain JSON data.
  * The export (study kind `export`) writes it from a simulation of the block alone; `makeTestVector`
  * writes the same shape from the reference executor.
  */

@@ -59,7 +59,8 @@ export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; 
   return {
     check: [{ kind: 'check' }],
     analysis,
-    loops: [{ kind: 'loops', live }],
+    // with sampled blocks, each cut's loop is also read at its sampler (Loops view)
+    loops: [{ kind: 'loops', live }, ...(hasSampledBlock(inp.diagram) ? inp.diagram.cuts.map((c): StudyRequest => ({ kind: 'sampled-cut', cut: c.id, live })) : [])],
     // A live preview: 5 s of wall time at most (a run that needs more says so).
     response: [{ kind: 'run', live, linearOverlay: true, maxWallMs: 5000 }],
   };
@@ -142,6 +143,7 @@ export function startAnalysisDriver(): () => void {
         patch.analysis = next;
       } else if (ch === 'loops') {
         patch.loops = first.ok ? { ok: true, value: first.value.value as LoopsData } : first;
+        patch.sampledLoops = reply.results.slice(1).flatMap((r) => (r.ok && r.value.value ? [r.value.value as SampledCutData] : []));
       } else if (ch === 'check') {
         patch.check = first.ok ? (first.value.value as CheckData) : null;
         if (!first.ok) error = first.error;

@@ -28,6 +28,8 @@ export interface ResultsState {
   check: CheckData | null;
   analysis: AnalysisResult | null;
   loops: Part<LoopsData> | null;
+  /** Each cut's loop read at its sampler (diagrams with sampled blocks; else empty). */
+  sampledLoops?: SampledCutData[];
   response: ResponseResult | null;
   /** Per channel: generation of the newest request, and of the result held. */
   wanted: Record<Channel, number>;

@@ -11,6 +11,7 @@ import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
 import type { LoopsData, OuterIdealData } from '@loopwright/study';
 import { LOOP_COLUMNS } from './loop-columns.ts';
+import { SampledLoopsTable } from './SampledLoopPanel.tsx';
 import type { ChartOption } from './echarts-setup.ts';
 
 /** A missing gain or delay margin means "unlimited"; other missing values are just absent. */
@@ -152,6 +153,7 @@ function idealOption(o: OuterIdealData, label: (c: string) => string, pal: Palet
 
 export function LoopsView({ pal }: { pal: Palette }) {
   const result = useResultsStore((s) => s.loops);
+  const sampled = useResultsStore((s) => s.sampledLoops) ?? [];
   const pinned = useAnalysisStore((s) => s.pinned);
   const loops = result?.ok ? result.value : null;
   const label = (c: string) => loops?.rows.find((r) => r.cutId === c)?.label ?? c;
@@ -170,6 +172,7 @@ export function LoopsView({ pal }: { pal: Palette }) {
         </div>
       ))}
       <LoopsTable loops={loops} pinned={pinned?.loops ?? null} />
+      {sampled.length > 0 && <SampledLoopsTable rows={sampled} />}
       {loops.outerVsIdeal.map((x) => (
         <table key={`${x.outer}<${x.inner}`} className="lw-table lw-compact" data-testid="outer-ideal-table">
           <thead>

@@ -149,3 +149,44 @@ function ZPlane({ data, pal }: { data: SampledCutData; pal: Palette }) {
     </figure>
   );
 }
+
+/** The Loops view's table of sampled readings: one row per cut whose loop holds a sampled controller. */
+export function SampledLoopsTable({ rows }: { rows: SampledCutData[] }) {
+  return (
+    <table className="lw-table" data-testid="sampled-loops-table">
+      <thead>
+        <tr>
+          <th>loop (cut)</th>
+          <th>read at</th>
+          <th>T (s)</th>
+          <th title="exact pulse transfer function">GM sampled</th>
+          <th title="exact pulse transfer function">PM sampled</th>
+          <th title="exact pulse transfer function">Ms sampled</th>
+          <th title="continuous estimate: hold as e^(−sT/2), computation delay as dead time">PM estimate</th>
+          <th>closed loop</th>
+        </tr>
+      </thead>
+      <tbody>
+        {rows.map((r) => (
+          <tr key={r.cutId} data-sampled-cut={r.cutId} title={[...r.warnings.map((w) => w.message), ...r.notes].join('\n')}>
+            <td className="lw-nowrap">{r.label}</td>
+            <td>{r.sampler ?? '—'}</td>
+            <td>{formatEngineering(r.sampleTime)}</td>
+            <td data-field="gainMarginDb">{r.margins?.gainMarginDb === null ? '∞' : `${fmt(r.margins?.gainMarginDb, 3)} dB`}</td>
+            <td data-field="phaseMarginDeg">{r.margins ? `${fmt(r.margins.phaseMarginDeg)}°` : '—'}</td>
+            <td>{fmt(r.margins?.peakSensitivity)}</td>
+            <td>{r.estimate ? `${fmt(r.estimate.margins.phaseMarginDeg)}°` : '—'}</td>
+            <td className={r.closedLoopStable === false || r.warnings.length ? 'lw-bad' : 'lw-ok'}>
+              {r.closedLoopStable === null ? 'estimate only' : r.closedLoopStable ? 'stable' : 'UNSTABLE'}
+              {r.warnings.length ? ' (sample time slow)' : ''}
+              {r.exact ? '' : ' *'}
+            </td>
+          </tr>
+        ))}
+      </tbody>
+      <caption className="small lw-muted" style={{ captionSide: 'bottom', textAlign: 'left' }}>
+        Sampled loops read at their sampler from the exact pulse transfer function; * other rates taken as continuous with their hold delay (hover a row for the notes).
+      </caption>
+    </table>
+  );
+}
