@@ -24,6 +24,7 @@ import {
   type StudyResult,
 } from '@loopwright/study';
 import { useDiagramStore } from '../store/diagram-store.ts';
+import { sampleTimeSet } from '../store/graph-bridge.ts';
 import { useAnalysisStore } from './analysis-store.ts';
 import { resultsComplete, useResultsStore, type AnalysisResult, type ResultsState } from './results-store.ts';
 import { EngineClient, type WorkerLike } from '../worker/engine-client.ts';
@@ -68,10 +69,7 @@ export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; 
 
 /** Whether any block has a sample time set (only then is the sampled reading asked for). */
 function hasSampledBlock(d: Diagram): boolean {
-  return d.blocks.some((b) => {
-    const t = b.params.sampleTime;
-    return typeof t === 'number' ? t > 0 : typeof t === 'string' && t.trim() !== '' && t.trim() !== '0';
-  });
+  return d.blocks.some((b) => sampleTimeSet(b.params.sampleTime));
 }
 
 /** Identity of a locus: its defining polynomials (exact) or its sampled points' ends. */

@@ -3,7 +3,7 @@
  * the block's own parameters, or a short caption for the nonlinear and signal blocks.
  */
 import { formatEngineering } from '@loopwright/lti';
-import type { Block } from '../store/graph-bridge.ts';
+import { sampleTimeSet, type Block } from '../store/graph-bridge.ts';
 
 /** A parameter value as a factor in a formula text: numbers compact, expressions bracketed. */
 export function term(v: unknown): string | null {
@@ -35,8 +35,7 @@ export interface CardContent {
 export function cardContent(b: Block): CardContent {
   const c = continuousCard(b);
   const T = b.params.sampleTime;
-  const set = typeof T === 'number' ? T > 0 : typeof T === 'string' && T.trim() !== '' && T.trim() !== '0';
-  if (!set) return c;
+  if (!sampleTimeSet(T)) return c;
   const delay = b.params.computeDelay;
   const d = typeof delay === 'number' && delay > 0 ? `, delay ${show(delay)} sample${delay === 1 ? '' : 's'}` : typeof delay === 'string' && delay.trim() ? `, delay ${delay}` : '';
   const sampled = `sampled every ${show(T)} s${d}`;

@@ -7,7 +7,7 @@
 import { useState } from 'react';
 import { runStudy, testVectorToJson } from '@loopwright/study';
 import { download } from '../analysis/export.ts';
-import type { Block, Diagram } from '../store/graph-bridge.ts';
+import { sampleTimeSet, type Block, type Diagram } from '../store/graph-bridge.ts';
 
 const LANGS = [
   ['c', 'C'],
@@ -17,8 +17,7 @@ const LANGS = [
 
 export function SampledExport({ diagram, block }: { diagram: Diagram; block: Block }) {
   const [error, setError] = useState<string | null>(null);
-  const T = block.params.sampleTime;
-  if (T === undefined || T === '' || T === 0 || T === '0') return null;
+  if (!sampleTimeSet(block.params.sampleTime)) return null;
   const run = (lang: (typeof LANGS)[number][0]) => {
     try {
       const res = runStudy(diagram, { kind: 'export', block: block.id, lang });

@@ -28,6 +28,7 @@ export {
   samplingParams,
   samplingOf,
   samplingFieldVisible,
+  sampleTimeSet,
   isSampledKind,
   type SampledKind,
   type BlockSampling,

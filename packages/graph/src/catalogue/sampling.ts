@@ -97,15 +97,18 @@ export const SAMPLING_FIELDS: readonly string[] = ['sampleTime', 'computeDelay',
 /** Whether a kind has sampling fields. */
 export const isSampledKind = (kind: string): kind is SampledKind => kind === 'pid' || kind === 'lead-lag' || kind === 'transfer-function' || kind === 'gain';
 
+/** Whether a raw (document) sample-time field is set: a positive number, or a non-blank text other than "0". */
+export function sampleTimeSet(t: unknown): boolean {
+  return typeof t === 'number' ? t > 0 : typeof t === 'string' && t.trim() !== '' && t.trim() !== '0';
+}
+
 /**
  * Whether a sampling field matters for a block with these (raw or resolved) parameters: every
  * field but the sample time only when a sample time is set, the prewarp frequency only with Tustin.
  */
 export function samplingFieldVisible(name: string, params: Readonly<Record<string, unknown>>): boolean {
   if (name === 'sampleTime') return true;
-  const t = params.sampleTime;
-  const set = typeof t === 'number' ? t > 0 : typeof t === 'string' && t.trim() !== '' && t.trim() !== '0';
-  if (!set) return false;
+  if (!sampleTimeSet(params.sampleTime)) return false;
   if (name === 'prewarp') return (params.method ?? 'tustin') === 'tustin';
   return true;
 }
