@@ -47,6 +47,13 @@ describe('sampled controllers in the editor', () => {
     expect(await svg.textContent()).toMatch(/Unit-circle crossings: k = /);
     await panel.scrollIntoViewIfNeeded();
     await screenshot(page, 'sampled-axis-frequency');
+    // the Locus pane shows the same z-plane locus on request
+    await page.getByLabel('z-plane locus', { exact: true }).check();
+    const z = page.getByTestId('locus-z-plane');
+    expect(await z.textContent()).toMatch(/read at current-controller/);
+    expect(await z.locator('path').count()).toBeGreaterThan(10);
+    await screenshot(page, 'sampled-axis-locus-z');
+    await page.getByLabel('z-plane locus', { exact: true }).uncheck();
   });
 
   it('the Loops view lists each loop read at its own sampler', async () => {

@@ -55,8 +55,9 @@ export function channelStudies(inp: AnalysisInputs, opts: { frequency: boolean; 
   if (choice && range && Number.isFinite(value)) analysis.push({ kind: 'locus', target: choice.target, value, range, opposite: opts.opposite });
   analysis.push({ kind: 'poles', live });
   if (opts.frequency) analysis.push({ kind: 'cut', cut: inp.cutId, live, fallback: true });
-  // A loop with a sampled controller is also read at its sampler (exact pulse transfer function).
-  if (opts.frequency && hasSampledBlock(inp.diagram)) analysis.push({ kind: 'sampled-cut', cut: inp.cutId, live, fallback: true, locus: true });
+  // A loop with a sampled controller is also read at its sampler (exact pulse transfer function):
+  // the Frequency and Loops views show its margins, the Locus pane its z-plane locus.
+  if (hasSampledBlock(inp.diagram)) analysis.push({ kind: 'sampled-cut', cut: inp.cutId, live, fallback: true, locus: true });
   return {
     check: [{ kind: 'check' }],
     analysis,

@@ -9,6 +9,7 @@ import { useResultsStore } from '../analysis/results-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 import { activePoints, dampingOf, keyPoints, nearestOnBranches, planeWindow, pointsNear, zoomAt, zoomWindow, type LocusHit, type PlaneZoom } from '../analysis/locus-geometry.ts';
 import { fmt } from '../analysis/sweep.ts';
+import { ZPlane } from './SampledLoopPanel.tsx';
 import { locusBox, locusLivePatch, locusOption } from './locus-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import { commitSweepValue, useSweepChoice, widenRangeFor } from './SweepBar.tsx';
@@ -42,6 +43,9 @@ export function LocusView({ pal }: { pal: Palette }) {
   const [size, setSize] = useState({ width: 480, height: 300 });
   const [hover, setHover] = useState<LocusHit | null>(null);
   const [zoom, setZoom] = useState<PlaneZoom | null>(null);
+  // a sampled loop at the cut: its z-plane locus (loop gain) can take the pane's place
+  const [zView, setZView] = useState(false);
+  const sampledCut = analysis?.sampled?.ok && analysis.sampled.value.locus ? analysis.sampled.value : null;
 
   const locus = analysis?.locus?.ok ? analysis.locus.value : null;
   const current = analysis?.poles.ok ? analysis.poles.value.poles : NO_POLES;
@@ -128,10 +132,23 @@ export function LocusView({ pal }: { pal: Palette }) {
         <>
           {hoverInfo}
           {message && <div className="lw-chart-message">{message}</div>}
+          {zView && sampledCut && (
+            <div className="lw-zplane-overlay" data-testid="locus-z-plane">
+              <div className="small">
+                z-plane: loop {sampledCut.label} read at {sampledCut.sampler}
+              </div>
+              <ZPlane data={sampledCut} pal={pal} />
+            </div>
+          )}
           <div className="lw-chart-toggles">
           <label className="lw-check" title="Show the locus for values of the other sign (dashed)">
             <input type="checkbox" checked={negative} onChange={(e) => setOptions({ negativeLocus: e.target.checked })} /> {locus?.direction === 'negative' ? 'k > 0' : 'k < 0'}
           </label>
+          {sampledCut && (
+            <label className="lw-check" title="z-plane locus of the sampled loop at the cut (unit circle, ζ and ωn curves)">
+              <input type="checkbox" aria-label="z-plane locus" checked={zView} onChange={(e) => setZView(e.target.checked)} /> z
+            </label>
+          )}
           <label className="lw-check" title="Constant damping-ratio rays">
             <input type="checkbox" checked={damping} onChange={(e) => setOptions({ showDampingGuides: e.target.checked })} /> ζ
           </label>

@@ -97,7 +97,7 @@ export function SampledLoopPanel({ data, pal }: { data: SampledCutData; pal: Pal
 }
 
 /** The z-plane locus of 1 + k·G(z) = 0 (k scales the loop gain; k = 1 is the design) as an SVG. */
-function ZPlane({ data, pal }: { data: SampledCutData; pal: Palette }) {
+export function ZPlane({ data, pal }: { data: SampledCutData; pal: Palette }) {
   const L = data.locus!;
   const size = 240;
   const R = 1.25;
