@@ -3,7 +3,7 @@
  * Nyquist, |S| and |T|) with its margins and the number of open-loop right-half-plane poles.
  */
 import { DEFAULT_PADE_ORDER, compiledOf, cutLoopResponse, cutMargins, feedbackWires, type CutFrequencyMethod, type DelayHandling, type Diagram } from '@loopwright/graph';
-import { InputError, defaultFrequencyGrid, marginFigures, type LoopMargins, type LoopSource, type TransferFunction, frequencyResponse, loopMargins } from '@loopwright/lti';
+import { InputError, defaultFrequencyGrid, marginFigures, type LoopMargins, type LoopSource, type TransferFunction } from '@loopwright/lti';
 import { without } from './split.ts';
 import { engineParameterName, withLiveValue } from './sweep-target.ts';
 import { rhpPoleCount, transferData } from './transfer-data.ts';
