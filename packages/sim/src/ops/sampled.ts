@@ -22,7 +22,10 @@ export class Sampler {
   /** Outputs computed, waiting for their application time (increasing). */
   private readonly pending: { time: number; value: number }[] = [];
 
-  constructor(readonly controller: DiscreteController) {
+  constructor(
+    readonly controller: DiscreteController,
+    private readonly blockId = 'sampled block',
+  ) {
     this.T = controller.sampleTime;
     this.D = controller.computeDelay;
     this.state = createControllerState(controller, 0);
@@ -31,7 +34,9 @@ export class Sampler {
   /** The first instant (sample or application) after t. */
   nextAfter(t: number): number {
     let j = Math.max(this.k, Math.floor(t / this.T));
-    while (!(j * this.T > t)) j++;
+    // Past 2^52 samples the index no longer counts one by one: the instants cannot be told apart.
+    if (!(j < 2 ** 52)) throw this.tooFine(t);
+    while (!(j * this.T > t)) if (++j >= 2 ** 52) throw this.tooFine(t);
     let next = j * this.T;
     for (const p of this.pending) {
       if (p.time > t) {
@@ -40,6 +45,12 @@ export class Sampler {
       }
     }
     return next;
+  }
+
+  private tooFine(t: number): InputError {
+    return new InputError(`block ${this.blockId}: sample time ${this.T} s is too small to step to t = ${t} s (more than 2^52 samples)`, {
+      field: `blocks.${this.blockId}.params.sampleTime`,
+    });
   }
 
   /** Applies every output due at t (within tol); returns the held value to use, or NaN when none changed. */
@@ -51,6 +62,9 @@ export class Sampler {
 
   /** Whether t is a sample instant (within tol); on true the instant is consumed. */
   due(t: number, tol: number): boolean {
+    // Jump to the first instant not before t - tol (arithmetic, not a count: a tiny T would
+    // otherwise take one iteration per skipped sample).
+    if (this.k * this.T < t - tol) this.k = Math.max(this.k + 1, Math.ceil((t - tol) / this.T));
     while (this.k * this.T < t - tol) this.k++;
     if (Math.abs(this.k * this.T - t) > tol) return false;
     this.k++;
@@ -101,7 +115,7 @@ export function sampledOr(continuous: Builder): Builder {
     }
     const nd: SimNode = ctx.add(sampledOp, cb);
     ctx.wire(nd, cb.inputs);
-    nd.smp = new Sampler(controller);
+    nd.smp = new Sampler(controller, cb.id);
     ctx.sampler(nd);
   };
 }
