@@ -26,3 +26,4 @@ export { demoDiagrams } from './demos/index.ts';
 export { positioningAxis } from './demos/positioning-axis.ts';
 export { heatingCascade } from './demos/heating-cascade.ts';
 export { supplyLoop } from './demos/supply-loop.ts';
+export { sampledAxis } from './demos/sampled-axis.ts';

@@ -17,3 +17,4 @@ export * from './sample-rate.ts';
 export * from './sampled-margins.ts';
 export * from './zlocus.ts';
 export * from './delay-margin.ts';
+export * from './block-spec.ts';

@@ -5,8 +5,9 @@ import { runController } from './executor.ts';
 /**
  * A test vector for a ported controller: the input sequence e(0), e(1), … and the outputs u(k)
  * expected for it (one per sample, from a zero state whose output starts at `initialOutput`),
- * with optional coefficient changes applied before the step at `atSample`. Plain JSON data:
- * Loopwright's executor writes it today; the simulator may write the same shape later.
+ * with optional coefficient changes applied before the step at `atSample`. Plain JSON data.
+ * The export (study kind `export`) writes it from a simulation of the block alone; `makeTestVector`
+ * writes the same shape from the reference executor.
  */
 export interface TestVector {
   format: 'loopwright-test-vector';

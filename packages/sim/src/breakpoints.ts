@@ -18,12 +18,17 @@ export class Breakpoints {
   private heapT: number[] = [];
   private heapL: number[] = [];
 
+  private readonly instant: Float64Array;
+
   constructor(
     private readonly sources: readonly SimNode[],
     private readonly delays: readonly number[],
     private readonly until: number,
+    /** Sampled nodes: their sample and application instants, generated one at a time. */
+    private readonly samplers: readonly SimNode[] = [],
   ) {
     this.edge = new Float64Array(sources.length).fill(-Infinity);
+    this.instant = new Float64Array(samplers.length).fill(-Infinity);
   }
 
   /** The first breakpoint after t (and its level), or null when none lies before the end. */
@@ -33,6 +38,10 @@ export class Breakpoints {
     for (let i = 0; i < this.sources.length; i++) {
       if (!(this.edge[i] > t + tol)) this.edge[i] = nextSourceEdge(this.sources[i].src!, t, tol);
       if (this.edge[i] < edge) edge = this.edge[i];
+    }
+    for (let i = 0; i < this.samplers.length; i++) {
+      if (!(this.instant[i] > t + tol)) this.instant[i] = this.samplers[i].smp!.nextAfter(t + tol);
+      if (this.instant[i] < edge) edge = this.instant[i];
     }
     while (this.heapT.length > 0 && !(this.heapT[0] > t + tol)) this.pop();
     let best = edge;
@@ -47,6 +56,11 @@ export class Breakpoints {
     }
     if (level > 0) this.push(best, level); // kept until passed (a source edge is found again from its waveform)
     return { time: best, level };
+  }
+
+  /** A sampled node scheduled an output: its next instant is found again. */
+  refreshSamplers(): void {
+    this.instant.fill(-Infinity);
   }
 
   /** A discontinuity at t of `level` passes through every dead time: t + T at level + 1. */

@@ -16,6 +16,8 @@ export interface BuiltRun {
   sources: SimNode[];
   /** Distinct positive dead times, increasing. */
   delays: number[];
+  /** Sampled controller nodes (their instants are breakpoints; they step at them). */
+  samplers: SimNode[];
 }
 
 export function buildRun(model: CompiledModel, overrides: Record<string, number> | undefined, linear: boolean): BuiltRun {
@@ -25,6 +27,7 @@ export function buildRun(model: CompiledModel, overrides: Record<string, number>
   /** Inputs to resolve once every block has its output node: from blocks, or from a node. */
   const pending: { node: SimNode; from: readonly number[] | null; fromNode: SimNode | null }[] = [];
   const sources: SimNode[] = [];
+  const samplers: SimNode[] = [];
   let nStates = 0;
   let current = model.blocks[0];
 
@@ -59,6 +62,9 @@ export function buildRun(model: CompiledModel, overrides: Record<string, number>
     source(nd) {
       sources.push(nd);
     },
+    sampler(nd) {
+      samplers.push(nd);
+    },
   };
 
   for (const cb of model.blocks) {
@@ -81,7 +87,7 @@ export function buildRun(model: CompiledModel, overrides: Record<string, number>
 
   const order = topologicalOrder(nodes, model);
   const delays = [...new Set(nodes.filter((n) => n.delay > 0).map((n) => n.delay))].sort((a, b) => a - b);
-  return { net: new Network(nodes, order, nStates), blockSignal, sources, delays };
+  return { net: new Network(nodes, order, nStates), blockSignal, sources, delays, samplers };
 }
 
 function inputsOf(nd: SimNode): number[] {

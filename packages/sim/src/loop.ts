@@ -1,5 +1,6 @@
 import { fmt } from './options.ts';
 import type { RunState, SegmentEngine } from './run-state.ts';
+import { sampleInstant } from './ops/sampled.ts';
 
 /**
  * The segment loop, the same for both engines: the run is split into segments at breakpoints
@@ -10,6 +11,7 @@ import type { RunState, SegmentEngine } from './run-state.ts';
  */
 export function runSegments(rs: RunState, eng: SegmentEngine): void {
   const { net, budget, modes, rec, bps, s, x } = rs;
+  const samplers = rs.built.samplers;
   const ng = net.guards.length;
   const g0 = new Float64Array(ng);
   let t = 0;
@@ -17,7 +19,18 @@ export function runSegments(rs: RunState, eng: SegmentEngine): void {
   let startIsBreak = false;
   bps.propagate(0, 0);
   while (!budget.stopped) {
-    const bp = bps.next(t);
+    let bp = bps.next(t);
+    if (samplers.length) {
+      // Sampled blocks read their inputs and put out their held values at their instants (the
+      // sources read on the side of t the segment lies on); an output now due later (a
+      // computation delay) is a breakpoint found by asking again.
+      net.piece = 0.5 * (t + (bp ? bp.time : s.until));
+      net.evalNet(t, x);
+      if (sampleInstant(samplers, t, net.sig, () => net.evalNet(t, x)).scheduled) {
+        bps.refreshSamplers();
+        bp = bps.next(t);
+      }
+    }
     let tEnd = bp ? bp.time : s.until;
     const cut = eng.segmentEnd(t, tEnd);
     const atBreak = !(cut < tEnd);

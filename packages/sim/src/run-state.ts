@@ -25,7 +25,7 @@ export class RunState {
   ) {
     this.net = built.net;
     this.modes = new ModeControl(this.net, (b) => this.blockId(b));
-    this.bps = new Breakpoints(built.sources, built.delays, s.until);
+    this.bps = new Breakpoints(built.sources, built.delays, s.until, built.samplers);
     this.x = new Float64Array(this.net.nStates);
   }
 

@@ -71,3 +71,17 @@ export { designReportHtml, SAFETY_CAUTION, ORIGIN_TEXT } from './report/html.ts'
 export { fmt as formatNumber, fmtS as formatComplex, dampingOf } from './report/format.ts';
 export { plotSvg, ticks, type PlotPanel, type PlotSeries, type PlotAxis } from './report/svg-plot.ts';
 export { keyPoints, activePoints, pointsNear, locusFocus } from './locus-frame.ts';
+export { sampledBlockOf, sampledBlocks, requireSampledBlock, type SampledBlock } from './sampled-block.ts';
+export {
+  expressionSampledMargins,
+  expressionSampledLocus,
+  exportStudy,
+  codeNameOf,
+  type ExpressionSampling,
+  type ExportRequest,
+  type ExportData,
+} from './sampled.ts';
+export { sampledCutStudy, type SampledCutRequest, type SampledCutData, type SampledBlockRole, type SampledLocusData } from './sampled-cut.ts';
+// The test vector's JSON form, for apps that write the export's files.
+export { testVectorToJson } from '@loopwright/sampled';
+export { simulatedTestVector, testBenchDiagram } from './block-test-vector.ts';

@@ -5,11 +5,11 @@
  */
 import {
   InputError,
+  closedLoopPolesOf,
   loopMargins,
   padeDelay,
   parseTransferFunction,
   poly,
-  polyRoots,
   rootLocus,
   type LoopMargins,
   type RootLocus,
@@ -39,10 +39,13 @@ export function expressionMargins(
   // With a dead time the closed-loop poles are those of 1 + L with a Padé approximant: each is
   // marked by whether it stays put at an order two higher (roots of D·Pd + N·Pn).
   const order = margins.padeOrder;
-  const poleOrigin = originsOf(margins.closedLoopPoles, order !== null && loop.delay > 0, () => {
-    const p = padeDelay(loop.delay, comparisonOrder(order!));
-    return polyRoots(poly.add(poly.mul(loop.rational.den, p.den), poly.mul(loop.rational.num, p.num)));
-  });
+  // Solved the way the margins solved theirs (product form), so that a dead time whose Padé
+  // coefficients overflow (e^(−1e308·s)) is compared too.
+  const poleOrigin = originsOf(
+    margins.closedLoopPoles,
+    order !== null && loop.delay > 0,
+    () => closedLoopPolesOf(loop.rational.num, loop.rational.den, loop.delay, comparisonOrder(order!)).poles,
+  );
   return { loop, margins, poleOrigin };
 }
 

@@ -12,6 +12,8 @@ import { loopsStudy, type LoopsRequest } from './loops.ts';
 import { part } from './part.ts';
 import { polesStudy, type PolesRequest } from './poles.ts';
 import { responseStudy, type RunContext, type RunRequest } from './run.ts';
+import { exportStudy, type ExportData, type ExportRequest } from './sampled.ts';
+import { sampledCutStudy, type SampledCutData, type SampledCutRequest } from './sampled-cut.ts';
 import type { CheckData, ClosedLoopData, FrequencyData, LocusData, LoopsData, Part, PolesData, ResponseResult } from './types.ts';
 import { checkStudy } from './validate.ts';
 import { fitStudy, testLogStudy, type FitRequest, type TestLogRequest } from './fit-study.ts';
@@ -48,6 +50,10 @@ export interface StudyKinds {
   damping: { request: DampingRequest; result: DampingData };
   /** The design report (self-contained HTML) with everything it shows computed here. */
   report: { request: ReportRequest; result: ReportData };
+  /** Code, coefficients and test vector of a sampled controller block. */
+  export: { request: ExportRequest; result: ExportData };
+  /** The loop at a cut read at its sampled controller (exact pulse transfer function); null: no sampled block in that loop. */
+  'sampled-cut': { request: SampledCutRequest; result: SampledCutData | null };
 }
 
 export type StudyKind = keyof StudyKinds;
@@ -90,6 +96,8 @@ const HANDLERS: Handlers = {
   cascade: (d, r) => cascadeStudy(d, r),
   damping: (d, r) => dampingStudy(d, r),
   report: (d, r, ctx) => reportStudy(d, r, ctx),
+  export: (d, r) => exportStudy(d, r),
+  'sampled-cut': (d, r) => sampledCutStudy(d, r),
 };
 
 /** Runs one study; throws what it throws (InputError for bad input, naming what is wrong). */

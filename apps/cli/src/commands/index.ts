@@ -8,6 +8,7 @@ import { simulateCommand } from './simulate.ts';
 import { fitCommand } from './fit.ts';
 import { tuneCommand } from './tune.ts';
 import { reportCommand } from './report.ts';
+import { exportCommand } from './export.ts';
 
 /** Every command, in the order `loopwright --help` lists them. */
 export const commands: Command[] = [
@@ -20,4 +21,5 @@ export const commands: Command[] = [
   fitCommand,
   tuneCommand,
   reportCommand,
+  exportCommand,
 ];

@@ -1,5 +1,6 @@
 import type { Complex, RootLocus } from '@loopwright/lti';
-import { expressionLocus, type PadeNote } from '@loopwright/study';
+import { expressionLocus, expressionSampledLocus, type PadeNote } from '@loopwright/study';
+import type { ZPlaneLocus } from '@loopwright/sampled';
 import { all, has, numberFlag, one, parseArgs, parseAssignments, toJson } from '../args.ts';
 import { UsageError, type CliIo, type Command } from '../io.ts';
 import { checkSets, fmtNumber, fmtRoots, fmtRootsMarked, fmtTransfer, padeLegend, readDiagram } from './diagram-input.ts';
@@ -7,6 +8,7 @@ import { locusFromDiagram } from './locus-diagram.ts';
 import { loopFromArgs, withCaret } from './loop-input.ts';
 
 const help = `loopwright locus --loop "<expression>" [--param NAME=VALUE ...] [--negative] [--json]
+loopwright locus --loop "<expression>" --sample-time T [--compute-delay D] [--json]
 loopwright locus FILE --sweep PARAM [--set NAME=VALUE ...] [--negative] [--json]
 
 Root locus: every closed-loop pole as a gain k varies.
@@ -32,6 +34,13 @@ negative PARAM traces the k < 0 locus (as does --negative).
   FILE             a diagram (.loop.json; "-" reads standard input), with --sweep PARAM (a named
                    parameter, or block:ID.k for a gain block's k) and --set NAME=VALUE (repeatable)
   --json           machine-readable output; complex numbers are [re, im]
+  --sample-time T  z-plane locus of the loop sampled every T seconds behind a zero-order hold:
+                   the roots of 1 + k·G(z) = 0, G(z) the exact pulse transfer function of L(s)
+                   (with --compute-delay D samples). The stability boundary is the unit circle:
+                   "crossings" are the unit-circle crossings, each with its gain, the point z,
+                   theta = ωT (rad, 0 … π) and ω; also the stable gain ranges and the critical
+                   gain (Jury limit)
+  --compute-delay D  computation delay in samples (with --sample-time; default 0)
 
 Example: npx loopwright locus --loop "1/(s*(s+1)*(s+2))"
 `;
@@ -55,6 +64,20 @@ export function locusJson(L: RootLocus, delayHandling: PadeNote) {
     kRange: L.kRange,
     degreeDropGain: L.degreeDropGain,
     branches: L.branches.map((br) => br.map((p) => [p.s.re, p.s.im, p.k])),
+  };
+}
+
+/** The JSON shape of the sampled (z-plane) loop form: that of the s-plane form, crossings on the unit circle. */
+export function zLocusJson(L: ZPlaneLocus, computeDelay: number) {
+  const pair = (z: Complex) => [z.re, z.im];
+  return {
+    ...locusJson({ ...L, crossings: [] }, { mode: 'none' }),
+    plane: 'z',
+    sampleTime: L.sampleTime,
+    computeDelay,
+    crossings: L.crossings.map((c) => ({ gain: c.gain, omegaT: c.theta, omega: c.omega, z: pair(c.z) })),
+    stableGainRanges: L.stableGainRanges,
+    criticalGain: L.criticalGain,
   };
 }
 
@@ -129,12 +152,18 @@ export const locusCommand: Command = {
   summary: 'root locus of a loop, or of a whole diagram as one parameter varies',
   help,
   async run(argv, io, budget = {}) {
-    const a = parseArgs(argv, ['loop', 'param', 'sweep', 'set', 'k-max', 'samples', 'pade-order'], ['negative', 'json']);
-    if (a.positional.length > 0) return diagramForm(a, io, budget.deadline);
+    const a = parseArgs(argv, ['loop', 'param', 'sweep', 'set', 'k-max', 'samples', 'pade-order', 'sample-time', 'compute-delay'], ['negative', 'json']);
+    if (a.positional.length > 0) {
+      if (has(a, 'sample-time') || has(a, 'compute-delay')) throw new UsageError('locus: --sample-time applies to the --loop form (a diagram takes the sample time of its blocks)', '--sample-time');
+      return diagramForm(a, io, budget.deadline);
+    }
     if (has(a, 'sweep') || has(a, 'set')) throw new UsageError('locus: --sweep and --set need a diagram FILE (locus FILE --sweep PARAM)');
     const loop = loopFromArgs(a, 'locus');
     const kMax = numberFlag(a, 'k-max');
     const samples = numberFlag(a, 'samples');
+    const sampleTime = numberFlag(a, 'sample-time');
+    if (sampleTime === undefined && has(a, 'compute-delay')) throw new UsageError('locus: --compute-delay needs --sample-time T', '--sample-time');
+    if (sampleTime !== undefined) return sampledForm(a, io, loop, sampleTime, { kMax, samples });
     const padeOrder = numberFlag(a, 'pade-order') ?? 3;
     const { loop: tf, locus: L, delayHandling } = withCaret(loop, () =>
       expressionLocus(loop, { negative: has(a, 'negative'), padeOrder, ...budget, ...(kMax !== undefined ? { kMax } : {}), ...(samples !== undefined ? { samples } : {}) }),
@@ -156,3 +185,32 @@ export const locusCommand: Command = {
     return 0;
   },
 };
+
+async function sampledForm(
+  a: ReturnType<typeof parseArgs>,
+  io: CliIo,
+  loop: ReturnType<typeof loopFromArgs>,
+  sampleTime: number,
+  o: { kMax: number | undefined; samples: number | undefined },
+): Promise<number> {
+  if (has(a, 'pade-order')) throw new UsageError('locus: --pade-order does not apply to a sampled loop (a dead time is exact in G(z))', '--pade-order');
+  const computeDelay = numberFlag(a, 'compute-delay') ?? 0;
+  const { loop: tf, locus: L } = withCaret(loop, () =>
+    expressionSampledLocus(loop, { sampleTime, computeDelay }, { negative: has(a, 'negative'), ...(o.kMax !== undefined ? { kMax: o.kMax } : {}), ...(o.samples !== undefined ? { samples: o.samples } : {}) }),
+  );
+  const j = zLocusJson(L, computeDelay);
+  if (has(a, 'json')) {
+    io.stdout(toJson(j));
+    return 0;
+  }
+  const head = [
+    `z-plane root locus of 1 + k·G(z) = 0 for k ${L.negative ? '< 0' : '> 0'}, |k| up to ${fmtNumber(Math.abs(L.kRange[1]))}`,
+    `L(s) = ${fmtTransfer(tf.rational.num, tf.rational.den, tf.delay)} sampled every T = ${fmtNumber(sampleTime)} s (zero-order hold, computation delay ${fmtNumber(computeDelay)} samples)`,
+    `unit-circle crossings ${L.crossings.length ? L.crossings.map((c) => `k = ${fmtNumber(c.gain)} at ωT = ${fmtNumber(c.theta, 5)} rad (ω = ${fmtNumber(c.omega)} rad/s)`).join('; ') : 'none'}`,
+    `critical gain      ${L.criticalGain === null ? 'none (stable for every gain traced, or unstable from the start)' : fmtNumber(L.criticalGain)}`,
+    `stable gains       ${L.stableGainRanges.length ? L.stableGainRanges.map((r) => `${fmtNumber(r.from)} … ${r.to === null ? '∞' : fmtNumber(r.to)}`).join(', ') : 'none'}`,
+  ];
+  const { crossings: _c, ...rest } = j;
+  io.stdout(humanSummary({ ...rest, crossings: [] }, head).replace(/^jω-axis crossings.*\n/m, ''));
+  return 0;
+}

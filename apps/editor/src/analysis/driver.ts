@@ -23,10 +23,12 @@ import {
   type ReportData,
   type ResolvedSweep,
   type ResponseResult,
+  type SampledCutData,
   type StudyRequest,
   type StudyResult,
 } from '@loopwright/study';
 import { useDiagramStore } from '../store/diagram-store.ts';
+import { sampleTimeSet } from '../store/graph-bridge.ts';
 import { useAnalysisStore } from './analysis-store.ts';
 import { resultsComplete, useResultsStore, type AnalysisResult, type PinnedRun, type ResultsState } from './results-store.ts';
 import { CANCELLED, EngineClient, type WorkerLike } from '../worker/engine-client.ts';
@@ -80,10 +82,14 @@ export function channelStudies(
     analysis.push({ kind: 'locus', target: choice.target, value, range, opposite: opts.opposite });
   analysis.push({ kind: 'poles', live });
   if (opts.frequency) analysis.push({ kind: 'cut', cut: inp.cutId, live, fallback: true });
+  // A loop with a sampled controller is also read at its sampler (exact pulse transfer function):
+  // the Frequency and Loops views show its margins, the Locus pane its z-plane locus.
+  if (hasSampledBlock(inp.diagram)) analysis.push({ kind: 'sampled-cut', cut: inp.cutId, live, fallback: true, locus: true });
   return {
     check: [{ kind: 'check' }],
     analysis,
-    loops: [{ kind: 'loops', live }],
+    // with sampled blocks, each cut's loop is also read at its sampler (Loops view)
+    loops: [{ kind: 'loops', live }, ...(hasSampledBlock(inp.diagram) ? inp.diagram.cuts.map((c): StudyRequest => ({ kind: 'sampled-cut', cut: c.id, live })) : [])],
     // A live preview: 5 s of wall time at most (a run that needs more says so).
     response: [{ kind: 'run', live, linearOverlay: true, maxWallMs: 5000 }],
     'closed-loop':
@@ -111,6 +117,11 @@ export function pinnedRunStudy(pinned: AnalysisSnapshot, current: ResponseResult
   };
 }
 
+/** Whether any block has a sample time set (only then is the sampled reading asked for). */
+function hasSampledBlock(d: Diagram): boolean {
+  return d.blocks.some((b) => sampleTimeSet(b.params.sampleTime));
+}
+
 /** Identity of a locus: its defining polynomials (exact) or its sampled points' ends. */
 function locusSignature(l: LocusData): string {
   const ends = (bs: LocusData['branches'] | null) =>
@@ -131,7 +142,9 @@ function analysisOf(studies: StudyRequest[], results: Part<StudyResult>[], elaps
   const cut = unwrap<FrequencyData | null>(byKind('cut'));
   // A diagram with no loop has nothing to show in the Frequency view: no part, no error.
   const frequency = !cut || (cut.ok && cut.value === null) ? null : (cut as AnalysisResult['frequency']);
-  return { locus, poles, frequency, elapsedMs };
+  const sampledPart = unwrap<SampledCutData | null>(byKind('sampled-cut'));
+  const sampled = !sampledPart || (sampledPart.ok && sampledPart.value === null) ? null : (sampledPart as AnalysisResult['sampled']);
+  return { locus, poles, frequency, sampled, elapsedMs };
 }
 
 let client: EngineClient | null = null;
@@ -235,6 +248,7 @@ export function startAnalysisDriver(): () => void {
         patch.analysis = next;
       } else if (ch === 'loops') {
         patch.loops = first.ok ? { ok: true, value: first.value.value as LoopsData } : first;
+        patch.sampledLoops = reply.results.slice(1).flatMap((r) => (r.ok && r.value.value ? [r.value.value as SampledCutData] : []));
       } else if (ch === 'check') {
         patch.check = first.ok ? (first.value.value as CheckData) : null;
         if (!first.ok) error = first.error;

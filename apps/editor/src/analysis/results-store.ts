@@ -16,6 +16,7 @@ import {
   type Part,
   type PolesData,
   type ResponseResult,
+  type SampledCutData,
   type StudyKind,
 } from '@loopwright/study';
 import { CHANNELS, type Channel, type ViewChannel } from '../worker/protocol.ts';
@@ -25,6 +26,8 @@ export interface AnalysisResult {
   locus: Part<LocusData> | null;
   poles: Part<PolesData>;
   frequency: Part<FrequencyData> | null;
+  /** The loop at the cut read at its sampled controller (null: not asked for, or no sampled block in that loop). */
+  sampled?: Part<SampledCutData> | null;
   /** Worker compute time, ms. */
   elapsedMs: number;
 }
@@ -53,6 +56,8 @@ export interface ResultsState {
   check: CheckData | null;
   analysis: AnalysisResult | null;
   loops: Part<LoopsData> | null;
+  /** Each cut's loop read at its sampler (diagrams with sampled blocks; else empty). */
+  sampledLoops?: SampledCutData[];
   response: ResponseResult | null;
   /** The transfer function between the Closed loop view's two points. */
   closedLoop: Part<ClosedLoopData> | null;

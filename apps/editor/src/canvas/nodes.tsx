@@ -5,7 +5,7 @@
  */
 import { memo, useEffect } from 'react';
 import { Handle, Position, useUpdateNodeInternals, type Node, type NodeProps } from '@xyflow/react';
-import { blockSpec, type Block, type IconStroke } from '../store/graph-bridge.ts';
+import { blockSpec, cardOf, type Block, type IconStroke } from '../store/graph-bridge.ts';
 import { Formula } from './formula.tsx';
 import { inputSide } from './ports.ts';
 
@@ -31,7 +31,7 @@ function portLabel(block: Block, port: string) {
 export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<BlockFlowNode>) {
   const { block, inputs, outputs, fault, swept, sweptHere } = data;
   const spec = blockSpec(block.kind);
-  const content = spec.card(block.params);
+  const content = cardOf(block.kind, block.params);
   const cls = ['lw-card', `lw-kind-${block.kind}`, `lw-category-${spec.category}`, selected ? 'is-selected' : '', fault ? `fault-${fault}` : '', sweptHere ? 'is-swept' : '']
     .filter(Boolean)
     .join(' ');

@@ -3,7 +3,8 @@
  * of its inputs (wiring by keyboard), or the selected wire with its cut.
  */
 import { useDiagramStore } from '../store/diagram-store.ts';
-import { blockSpec, visibleParams, type Block, type Diagram } from '../store/graph-bridge.ts';
+import { blockSpec, isSampledKind, visibleParams, type Block, type Diagram } from '../store/graph-bridge.ts';
+import { SampledExport } from './SampledExport.tsx';
 import { ParamField } from './ParamField.tsx';
 import { FitRecordNote } from '../commission/FitRecordNote.tsx';
 
@@ -48,6 +49,7 @@ function BlockDetails({ diagram, block }: { diagram: Diagram; block: Block }) {
       {visibleParams(block.kind, block.params).map((p) => (
         <ParamField key={`${block.id}:${p.name}`} diagram={diagram} block={block} spec={p} onCommit={(v) => st.updateBlockParams(block.id, { [p.name]: v })} />
       ))}
+      {isSampledKind(block.kind) && <SampledExport diagram={diagram} block={block} />}
       {inputs.length > 0 && (
         <fieldset className="wiring">
           <legend>Inputs</legend>

@@ -10,6 +10,7 @@ import { bodeOption, marginsText, nyquistOption, sensitivityOption, sensitivityT
 import { ChartFrame } from './ChartFrame.tsx';
 import type { Palette } from './palette.ts';
 import { useStale } from './BusyBar.tsx';
+import { SampledLoopPanel } from './SampledLoopPanel.tsx';
 
 export function FrequencyView({ pal }: { pal: Palette }) {
   const analysis = useResultsStore((s) => s.analysis);
@@ -81,6 +82,8 @@ export function FrequencyView({ pal }: { pal: Palette }) {
         />
         <ChartFrame name="nyquist" title="Nyquist of L" background={pal.background} option={nyq!} onSize={setNySize} />
       </div>
+      {analysis?.sampled?.ok && <SampledLoopPanel data={analysis.sampled.value} pal={pal} />}
+      {analysis?.sampled && !analysis.sampled.ok && <div className="lw-bad small">Sampled loop: {analysis.sampled.error}</div>}
       <div className="lw-grid-1">
         <ChartFrame
           name="sensitivity"

@@ -18,6 +18,7 @@ import {
 } from '../analysis/locus-geometry.ts';
 import { formatComplex, locusFocus, originAt, type Cx, type PoleOrigin } from '@loopwright/study';
 import { fmt } from '../analysis/sweep.ts';
+import { ZPlane } from './SampledLoopPanel.tsx';
 import { locusBox, locusLivePatch, locusOption } from './locus-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import { RootsTable } from './RootsTable.tsx';
@@ -111,6 +112,9 @@ export function LocusView({ pal }: { pal: Palette }) {
   const [size, setSize] = useState({ width: 480, height: 300 });
   const [hover, setHover] = useState<LocusHit | null>(null);
   const [zoom, setZoom] = useState<PlaneZoom | null>(null);
+  // a sampled loop at the cut: its z-plane locus (loop gain) can take the pane's place
+  const [zView, setZView] = useState(false);
+  const sampledCut = analysis?.sampled?.ok && analysis.sampled.value.locus ? analysis.sampled.value : null;
 
   const held = analysis?.locus?.ok ? analysis.locus.value : null;
   // Right after the sweep is switched the locus held is still the old quantity's: it is not
@@ -222,11 +226,24 @@ export function LocusView({ pal }: { pal: Palette }) {
           <>
             {hoverInfo}
             {message && <div className="lw-chart-message">{message}</div>}
+            {zView && sampledCut && (
+              <div className="lw-zplane-overlay" data-testid="locus-z-plane">
+                <div className="small">
+                  z-plane: loop {sampledCut.label} read at {sampledCut.sampler}
+                </div>
+                <ZPlane data={sampledCut} pal={pal} />
+              </div>
+            )}
             <div className="lw-chart-toggles">
               <label className="lw-check" title="Show the locus for values of the other sign (dashed)">
                 <input type="checkbox" checked={negative} onChange={(e) => setOptions({ negativeLocus: e.target.checked })} />{' '}
                 {locus?.direction === 'negative' ? 'k > 0' : 'k < 0'}
               </label>
+              {sampledCut && (
+                <label className="lw-check" title="z-plane locus of the sampled loop at the cut (unit circle, ζ and ωn curves)">
+                  <input type="checkbox" aria-label="z-plane locus" checked={zView} onChange={(e) => setZView(e.target.checked)} /> z
+                </label>
+              )}
               <label className="lw-check" title="Constant damping-ratio rays">
                 <input type="checkbox" checked={damping} onChange={(e) => setOptions({ showDampingGuides: e.target.checked })} /> ζ
               </label>

@@ -15,6 +15,7 @@ import type { Palette } from './palette.ts';
 import { useStale } from './BusyBar.tsx';
 import type { LoopsData, MarginsData, OuterIdealData } from '@loopwright/study';
 import { LOOP_COLUMNS } from './loop-columns.ts';
+import { SampledLoopsTable } from './SampledLoopPanel.tsx';
 import type { ChartOption } from './echarts-setup.ts';
 
 /** Columns before the RHP pole count: crossover, PM and GM (LOOP_COLUMNS order). */
@@ -282,6 +283,7 @@ function OuterIdealPair({ o, loops, pal, index }: { o: OuterIdealData; loops: Lo
 
 export function LoopsView({ pal }: { pal: Palette }) {
   const result = useResultsStore((s) => s.loops);
+  const sampled = useResultsStore((s) => s.sampledLoops) ?? [];
   const pinned = useAnalysisStore((s) => s.pinned);
   const loops = result?.ok ? result.value : null;
   const stale = useStale('loops');
@@ -300,6 +302,7 @@ export function LoopsView({ pal }: { pal: Palette }) {
         </div>
       ))}
       <LoopsTable loops={loops} pinned={pinned?.loops ?? null} />
+      {sampled.length > 0 && <SampledLoopsTable rows={sampled} />}
       {loops.outerVsIdeal.map((x, i) => (
         <OuterIdealPair key={`${x.outer}<${x.inner}`} o={x} loops={loops} pal={pal} index={i} />
       ))}

@@ -7,10 +7,10 @@ import { blockKinds, blockSpec, catalogue } from './index.ts';
 
 // The parameter names of every kind, as fixed in the cross-team contract.
 const CONTRACT: Record<BlockKind, string[]> = {
-  'transfer-function': ['expression'],
-  gain: ['k'],
-  pid: ['form', 'kp', 'ti', 'td', 'ki', 'kd', 'n', 'umin', 'umax', 'antiWindup', 'tt'],
-  'lead-lag': ['k', 'tLead', 'tLag'],
+  'transfer-function': ['expression', 'sampleTime', 'computeDelay', 'method', 'prewarp'],
+  gain: ['k', 'sampleTime', 'computeDelay'],
+  pid: ['form', 'kp', 'ti', 'td', 'ki', 'kd', 'n', 'umin', 'umax', 'antiWindup', 'tt', 'sampleTime', 'computeDelay', 'integral', 'derivative'],
+  'lead-lag': ['k', 'tLead', 'tLag', 'sampleTime', 'computeDelay', 'method', 'prewarp'],
   integrator: ['k'],
   'first-order-lag': ['k', 'tau'],
   'second-order': ['k', 'wn', 'zeta'],

@@ -1,5 +1,6 @@
 import { term, times } from './card-text.ts';
 import { finite, singleInput, singleOutput, tfOf } from './common.ts';
+import { samplingParams } from './sampling.ts';
 import { defineBlock } from './types.ts';
 
 export const leadLagSpec = defineBlock({
@@ -12,6 +13,7 @@ export const leadLagSpec = defineBlock({
     { name: 'k', label: 'Gain k', type: 'number', default: 1 },
     { name: 'tLead', label: 'Lead time tLead', unit: 's', type: 'number', default: 1, min: 0, max: 1e6 },
     { name: 'tLag', label: 'Lag time tLag', unit: 's', type: 'number', default: 0.1, min: 0, max: 1e6 },
+    ...samplingParams('lead-lag'),
   ],
   card: (p) => ({ formula: times(term(p.k), `(${times(term(p.tLead), 's')} + 1)/(${times(term(p.tLag), 's')} + 1)`) }),
   inputs: singleInput,

@@ -1,5 +1,6 @@
 import { InputError, radd, rational, rconst, transfer, type Rational } from '@loopwright/lti';
 import { finite, numberOf, singleInput, singleOutput, stringOf } from './common.ts';
+import { samplingParams } from './sampling.ts';
 import { orderedLimits } from './saturation.ts';
 import { isBlank, isZero, show, term, times } from './card-text.ts';
 import { defineBlock, type CardContent, type ResolvedParams, type StoredParams } from './types.ts';
@@ -101,6 +102,7 @@ export const pidSpec = defineBlock({
     { name: 'umax', label: 'Output upper limit', type: 'number', default: '', blank: Infinity },
     { name: 'antiWindup', label: 'Anti-windup', type: 'choice', default: 'back-calculation', choices: ANTI_WINDUP_MODES },
     { name: 'tt', label: 'Tracking time tt', unit: 's', type: 'number', default: '', min: 0, exclusiveMin: true, blank: NaN, description: 'Back-calculation; blank = √(ti·td), or ti without derivative' },
+    ...samplingParams('pid'),
   ],
   actuator: { lower: 'umin', upper: 'umax', onlyWithLimits: true },
   shows: (field, p) => {

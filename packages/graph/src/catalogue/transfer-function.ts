@@ -1,5 +1,6 @@
 import { InputError, parseTransferFunction } from '@loopwright/lti';
 import { singleInput, singleOutput, stringOf } from './common.ts';
+import { samplingParams } from './sampling.ts';
 import { defineBlock } from './types.ts';
 
 export const transferFunctionSpec = defineBlock({
@@ -18,6 +19,7 @@ export const transferFunctionSpec = defineBlock({
       default: '1/(s + 1)',
       description: 'Arithmetic, integer powers, numbers, named parameters, s and exp(-T*s).',
     },
+    ...samplingParams('transfer-function'),
   ],
   card: (p) => ({ formula: String(p.expression ?? '') }),
   inputs: singleInput,

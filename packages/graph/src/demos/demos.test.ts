@@ -8,12 +8,13 @@ import { demoDiagrams } from './index.ts';
 import axisText from './positioning-axis.loop.json?raw';
 import heatingText from './heating-cascade.loop.json?raw';
 import supplyText from './supply-loop.loop.json?raw';
+import sampledText from './sampled-axis.loop.json?raw';
 
-const committed: Record<string, string> = { 'positioning-axis': axisText, 'heating-cascade': heatingText, 'supply-loop': supplyText };
+const committed: Record<string, string> = { 'positioning-axis': axisText, 'heating-cascade': heatingText, 'supply-loop': supplyText, 'sampled-axis': sampledText };
 
 describe('demo diagrams', () => {
-  it('are the two contract ids', () => {
-    expect(demoDiagrams.map((d) => d.id)).toEqual(['positioning-axis', 'heating-cascade', 'supply-loop']);
+  it('are the two contract ids, the loop to commission and the multirate axis', () => {
+    expect(demoDiagrams.map((d) => d.id)).toEqual(['positioning-axis', 'heating-cascade', 'supply-loop', 'sampled-axis']);
   });
   for (const demo of demoDiagrams) {
     describe(demo.id, () => {

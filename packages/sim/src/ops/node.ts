@@ -1,5 +1,6 @@
 import type { SignalHistory } from '../history.ts';
 import type { SourceParams } from './source-wave.ts';
+import type { Sampler } from './sampled.ts';
 
 /**
  * The run-time form of one signal of a diagram. A block becomes one node (or two: a transfer
@@ -54,6 +55,8 @@ export class SimNode {
   src: SourceParams | null = null;
   delay = 0;
   hist: SignalHistory | null = null;
+  /** A sampled controller's instants, state and pending outputs (its held output is `v`). */
+  smp: Sampler | null = null;
   /** Slot of an exogenous signal (a source or a dead time's output) in the exact engine; −1 for none. */
   exo = -1;
 

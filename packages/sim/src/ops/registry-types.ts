@@ -21,6 +21,8 @@ export interface BuildContext {
   checkLinearForm(): unknown;
   /** Source edges in (0, until) come from this node's waveform (lazily). */
   source(nd: SimNode): void;
+  /** A sampled node: its instants are breakpoints, its steps run at them. */
+  sampler(nd: SimNode): void;
 }
 
 /** Makes the run-time nodes of one block from its resolved parameters. */

@@ -6,6 +6,7 @@ import { buildRateLimit } from './rate-limit.ts';
 import type { Builder } from './registry-types.ts';
 import { buildSaturation } from './saturation.ts';
 import { buildSource } from './source.ts';
+import { sampledOr } from './sampled.ts';
 import { buildSum } from './sum.ts';
 
 /**
@@ -17,14 +18,14 @@ import { buildSum } from './sum.ts';
 const builders: Readonly<Record<BlockKind, Builder | null>> = {
   source: buildSource,
   'summing-junction': buildSum,
-  pid: buildPid,
-  gain: buildLinear,
-  'lead-lag': buildLinear,
+  pid: sampledOr(buildPid), // controller kinds with sampling fields: sampled when a sample time is set
+  gain: sampledOr(buildLinear),
+  'lead-lag': sampledOr(buildLinear),
   integrator: buildLinear,
   'first-order-lag': buildLinear,
   'second-order': buildLinear,
   notch: buildLinear,
-  'transfer-function': buildLinear,
+  'transfer-function': sampledOr(buildLinear),
   'dead-time': buildLinear,
   saturation: buildSaturation,
   'rate-limit': buildRateLimit,

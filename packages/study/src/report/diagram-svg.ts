@@ -3,7 +3,7 @@
  * blocks as rounded cards with their label and main parameters, summing junctions as circles
  * with their signs, wires as arrows, cuts marked on their wires.
  */
-import { blockSpec, type Block, type Diagram } from '@loopwright/graph';
+import { cardOf, type Block, type Diagram } from '@loopwright/graph';
 import { cutName } from '../names.ts';
 import { esc } from './svg-plot.ts';
 
@@ -13,7 +13,7 @@ const R = 18;
 
 /** The block's card text from the catalogue: its formula, or its caption (limits, shape). */
 function summary(b: Block): string {
-  const c = blockSpec(b.kind).card(b.params);
+  const c = cardOf(b.kind, b.params);
   return c.formula ?? c.caption ?? '';
 }
 
