@@ -11,7 +11,7 @@ export * from './checks/structure.ts';
 // Analysis: reduction, cuts, sweeps, loop interaction, analytical checks (graph-analysis helper).
 export * from './analysis/linear-graph.ts';
 export { linearGraphOf } from './analysis/from-diagram.ts';
-export { type SignalRef, describeRef } from './analysis/points.ts';
+export { type SignalRef, describeRef, prepareCut } from './analysis/points.ts';
 export * from './analysis/reduce.ts';
 export * from './analysis/state-space.ts';
 export * from './analysis/cuts.ts';

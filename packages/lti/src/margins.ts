@@ -98,6 +98,13 @@ export interface MarginOptions {
   maxListedCrossovers?: number;
   /** Deadline on the performance.now() clock (ms): past it the analysis stops with a BudgetError('time'). */
   deadline?: number;
+  /**
+   * Bracketing points to use instead of building them (ascending): the sweep keeps its own limits
+   * and takes the points between them from here. The caller promises they are at least as dense
+   * as the sweep's own everywhere in the range (a live sweep's grid fixed once per edit, whose
+   * exact values are tabulated). Ignored unless it covers the sweep's limits.
+   */
+  gridFrom?: Float64Array | readonly number[];
 }
 
 /**
@@ -786,13 +793,19 @@ function sweepGrid(
   const innerCap = innerDelay > 0 ? Math.PI / 4 / innerDelay : Infinity;
   const trackedTo = innerDelay > 0 ? Math.min(hi, Math.max(lo * 10, 20000 * innerCap)) : hi;
   const pts: number[] = [];
-  for (let w = lo; w < hi; ) {
-    pts.push(w);
-    const r = nearFeature(w) ? ratio : Math.max(ratio, sparse);
-    let step = w < linLimit ? Math.min(w * (r - 1), linCap) : w * (r - 1);
-    if (w < trackedTo) step = Math.min(step, innerCap);
-    w += step;
-    if (pts.length > 200000) throw new InputError('frequency sweep: more than 200000 points (the range or the dead time is too extreme)');
+  const from = opts.gridFrom;
+  if (from && from.length > 1 && from[0] <= lo && from[from.length - 1] >= hi) {
+    pts.push(lo);
+    for (let i = lowerIndex(from, lo); i < from.length && from[i] < hi; i++) if (from[i] > lo) pts.push(from[i]);
+  } else {
+    for (let w = lo; w < hi; ) {
+      pts.push(w);
+      const r = nearFeature(w) ? ratio : Math.max(ratio, sparse);
+      let step = w < linLimit ? Math.min(w * (r - 1), linCap) : w * (r - 1);
+      if (w < trackedTo) step = Math.min(step, innerCap);
+      w += step;
+      if (pts.length > 200000) throw new InputError('frequency sweep: more than 200000 points (the range or the dead time is too extreme)');
+    }
   }
   pts.push(hi);
   for (const r of [...g.poles, ...g.zeros]) {
@@ -808,6 +821,18 @@ function sweepGrid(
   }
   pts.sort((a, b) => a - b);
   return { grid: pts, trackedTo };
+}
+
+/** First index of an ascending array whose value is ≥ x (binary search). */
+function lowerIndex(xs: Float64Array | readonly number[], x: number): number {
+  let a = 0;
+  let b = xs.length;
+  while (a < b) {
+    const m = (a + b) >> 1;
+    if (xs[m] < x) a = m + 1;
+    else b = m;
+  }
+  return a;
 }
 
 /** The scalar figures of a LoopMargins as plain, serialisable data (CLI JSON, worker messages, tables). */

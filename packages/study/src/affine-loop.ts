@@ -16,13 +16,19 @@ import {
   plainLoopReader,
   reductionOf,
   type CompiledGraph,
+  cutLoop,
+  exactEvaluator,
+  prepareCut,
+  type CutFrequencyMethod,
   type CutLoop,
   type DelayHandling,
+  type Reduction,
   type Diagram,
   type LoopReader,
   type ReduceOptions,
 } from '@loopwright/graph';
-import { InputError, loopMargins, poly, polyRoots, type Complex, type LoopMargins } from '@loopwright/lti';
+import { InputError, cx, loopMargins, loopMarginsOf, poly, polyRoots, type Complex, type LoopMargins } from '@loopwright/lti';
+import { exactGrid, exactSourceAt, tabulate, type ExactTable } from './affine-exact.ts';
 import { affineMargins, pieceGrid, type PieceGrid } from './affine-margins.ts';
 import { Lru, cached } from './cache.ts';
 import { registerCache } from './caches.ts';
@@ -58,6 +64,21 @@ type Pieces =
       handling: DelayHandling;
       hidden: Complex[];
       grid: PieceGrid;
+    }
+  | {
+      kind: 'exact';
+      a: number[];
+      b: number[];
+      c: number[];
+      d: number[];
+      delay: number;
+      handling: DelayHandling;
+      hidden: Complex[];
+      table: ExactTable;
+      frequency: CutFrequencyMethod;
+      /** The compiled graph and site the pieces were fitted on: the diagram at k, solved between grid points. */
+      graph: CompiledGraph;
+      site: Site;
     }
   | { kind: 'constant'; reading: Reading }
   | { kind: 'full' };
@@ -136,10 +157,6 @@ function carries(g: CompiledGraph, s: Site, k: number): boolean {
 function piecesOf(g: CompiledGraph, wire: string, s: Site, value: number, plain: LoopReader, opts: ReduceOptions): Pieces {
   if (!carries(g, s, value)) return { kind: 'constant', reading: plain.read(g, wire, '') };
   const rs = s.ks.map((k) => loopAtCutDetailed(withSite(g, s, k), wire, undefined, opts));
-  // Only a purely rational loop (cutMargins' frequency method 'rational') is read from pieces:
-  // with any dead time on the loop — a delay factor, or Padé stand-ins for dead times inside other
-  // loops — cutMargins reads L(jω) exact in the dead time, and so does the full path.
-  if (rs.some((r) => r.delay !== 0 || r.tf.delay !== 0 || r.delayHandling.mode === 'pade')) return { kind: 'full' };
   const [r1, r2, r3] = rs;
   if (r2.delay !== r1.delay || r3.delay !== r1.delay || r1.delayHandling.mode !== r2.delayHandling.mode) return { kind: 'full' };
   const num = affineFit(
@@ -157,7 +174,40 @@ function piecesOf(g: CompiledGraph, wire: string, s: Site, value: number, plain:
   // they divide all four pieces: divided out once here, so that a step need not look for them.
   const common = commonFactor(r1.hiddenModes, pieces);
   const kept = { ...(common ?? pieces), delay: r1.delay };
-  return { kind: 'affine', ...kept, handling: r1.delayHandling, hidden: common ? r1.hiddenModes : [], grid: pieceGrid(kept, s.ks) };
+  const hidden = common ? r1.hiddenModes : [];
+  // A purely rational loop, or one whose only dead time is its own delay factor: L(jω) is the
+  // pieces' (the delay factor exact). Dead times inside other loops: the approximant's pieces
+  // give L(s) and its poles, the diagram solved at s = jω (tabulated) the exact L(jω).
+  if (r1.delayHandling.mode !== 'pade') return { kind: 'affine', ...kept, handling: r1.delayHandling, hidden, grid: pieceGrid(kept, s.ks) };
+  const exact = exactPieces(g, wire, s, rs, opts);
+  return exact ? { kind: 'exact', ...kept, handling: r1.delayHandling, hidden, ...exact, graph: g, site: s } : { kind: 'full' };
+}
+
+/** The exact L(jω) tabulated for a reading with dead times inside other loops, or null (read in full). */
+function exactPieces(
+  g: CompiledGraph,
+  wire: string,
+  s: Site,
+  rs: readonly Reduction[],
+  opts: ReduceOptions,
+): { table: ExactTable; frequency: CutFrequencyMethod } | null {
+  const loops = s.ks.map((k) => cutLoop(withSite(g, s, k), wire, undefined, opts));
+  const sources = loops.map((l) => l.source);
+  if (!sources[0] || !sources[1] || !sources[2]) return null;
+  const delaySum = sources[0].delaySum;
+  const inner = Math.max(0, delaySum - rs[0].tf.delay);
+  const grid = exactGrid(
+    rs.map((r) => ({ num: r.tf.rational.num, den: r.tf.rational.den, delay: r.tf.delay })),
+    delaySum,
+    inner,
+  );
+  if (!grid) return null;
+  const k4 = 0.5 * (s.ks[0] + s.ks[1]);
+  const check = cutLoop(withSite(g, s, k4), wire, undefined, opts).source;
+  if (!check) return null;
+  const ev = sources.map((x) => x!.evaluate.bind(x)) as unknown as ExactTable['evaluators'];
+  const table = tabulate(grid, s.ks, ev, delaySum, { k: k4, evaluate: (w) => check.evaluate(w) });
+  return table ? { table, frequency: { ...loops[0].frequency } } : null;
 }
 
 /** The pieces divided by the polynomial of `modes`, when it divides every one of them exactly. */
@@ -180,15 +230,43 @@ function commonFactor(
   return out;
 }
 
-/** L(k) from its pieces, normalised and cancelled as graph's reduction does. */
-function evaluate(p: Extract<Pieces, { kind: 'affine' }>, k: number, wire: string, deadline: number | undefined): Reading {
+/** L(s) at k from its pieces, normalised and cancelled as graph's reduction does. */
+function reductionAt(p: Extract<Pieces, { kind: 'affine' | 'exact' }>, k: number, wire: string): Reduction {
   const num = at(p.a, p.b, k);
   if (poly.isZero(num))
     throw new InputError(`wire ${wire}: no feedback loop passes through this wire (the loop transfer there is zero)`, { field: 'wire' });
   const reduction = reductionOf({ num, den: at(p.c, p.d, k), delay: p.delay, handling: p.handling });
   if (p.hidden.length) reduction.hiddenModes = [...p.hidden, ...reduction.hiddenModes];
+  return reduction;
+}
+
+/** The reading at k from its pieces: cutMargins' figures, the loop as cutLoop gives it. */
+function evaluate(p: Extract<Pieces, { kind: 'affine' | 'exact' }>, k: number, wire: string, deadline: number | undefined): Reading {
+  const reduction = reductionAt(p, k, wire);
+  const dl = deadline === undefined ? {} : { deadline };
+  if (p.kind === 'exact') {
+    const source = exactSourceAt(p.table, k, reduction.tf, () => {
+      const ev = exactEvaluator(prepareCut(withSite(p.graph, p.site, k), wire));
+      return (w) => {
+        const v = ev(w);
+        return cx(-v.re, -v.im); // L = −r/u (graph's cutLoop)
+      };
+    });
+    return {
+      loop: { reduction, source, frequency: { ...p.frequency } },
+      margins: loopMarginsOf(source, { ...dl, gridFrom: p.table.omega }),
+    };
+  }
+  if (p.delay > 0) {
+    // The delay factor exact: loopMargins on L(s) itself, as cutMargins does (cheap: no solving).
+    const note = `dead time ${reduction.tf.delay} s kept exact as e^(-jωT)`;
+    return {
+      loop: { reduction, source: null, frequency: { method: 'exact', solved: false, note } },
+      margins: loopMargins(reduction.tf, dl),
+    };
+  }
   const loop: CutLoop = { reduction, source: null, frequency: { ...RATIONAL_FREQUENCY } };
-  return { loop, margins: affineMargins(p, p.grid, k, reduction) ?? loopMargins(reduction.tf, deadline === undefined ? {} : { deadline }) };
+  return { loop, margins: affineMargins(p, p.grid, k, reduction) ?? loopMargins(reduction.tf, dl) };
 }
 
 /** A loop reader for one live value, and which path each reading took. */
@@ -235,7 +313,7 @@ export function liveReader(
   const readLazy = (graph: () => CompiledGraph, wire: string, config: string): Reading => {
     const p = cached(pieces, `${key}|${config}|${wire}`, () => piecesOf(graph(), wire, site, value, plain, opts));
     if (p.kind === 'constant') return p.reading;
-    if (p.kind === 'affine') return evaluate(p, value, wire, deadline);
+    if (p.kind === 'affine' || p.kind === 'exact') return evaluate(p, value, wire, deadline);
     full++;
     return plain.read(graph(), wire, config);
   };
