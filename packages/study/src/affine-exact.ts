@@ -21,7 +21,6 @@ export interface ExactTable {
   ks: readonly [number, number, number];
   evaluators: readonly [(w: number) => Complex, (w: number) => Complex, (w: number) => Complex];
   omega: Float64Array;
-  index: Map<number, number>;
   /** L₁, α, β per grid point (re, im interleaved). */
   l1: Float64Array;
   alpha: Float64Array;
@@ -129,10 +128,8 @@ export function tabulate(
   const l1 = new Float64Array(2 * n);
   const alpha = new Float64Array(2 * n);
   const beta = new Float64Array(2 * n);
-  const index = new Map<number, number>();
   for (let i = 0; i < n; i++) {
     const w = omega[i];
-    index.set(w, i);
     const v1 = evaluators[0](w);
     const [ar, ai, br, bi] = mobius(ks, v1.re, v1.im, evaluators[1](w), evaluators[2](w));
     l1[2 * i] = v1.re;
@@ -147,7 +144,19 @@ export function tabulate(
       if (!(Math.hypot(got.re - want.re, got.im - want.im) <= 1e-8 * Math.hypot(want.re, want.im) + 1e-12)) return null;
     }
   }
-  return { ks, evaluators, omega, index, l1, alpha, beta, delaySum };
+  return { ks, evaluators, omega, l1, alpha, beta, delaySum };
+}
+
+/** Index of w in the ascending grid (binary search), or −1 when w is not a grid point. */
+function gridIndex(omega: Float64Array, w: number): number {
+  let a = 0;
+  let b = omega.length;
+  while (a < b) {
+    const m = (a + b) >> 1;
+    if (omega[m] < w) a = m + 1;
+    else b = m;
+  }
+  return a < omega.length && omega[a] === w ? a : -1;
 }
 
 /**
@@ -166,8 +175,8 @@ export function exactSourceAt(
     approximant,
     delaySum: t.delaySum,
     evaluate: (w) => {
-      const i = t.index.get(w);
-      if (i === undefined) return (direct ??= solveAt())(w);
+      const i = gridIndex(t.omega, w);
+      if (i < 0) return (direct ??= solveAt())(w);
       return apply(k, t.ks[0], t.l1[2 * i], t.l1[2 * i + 1], t.alpha[2 * i], t.alpha[2 * i + 1], t.beta[2 * i], t.beta[2 * i + 1]);
     },
   };

@@ -107,7 +107,9 @@ function agreeAt(d: Diagram, target: SweepTarget, value: number, atCrossing = fa
     expect(a.omega.length).toBe(b.omega.length);
     // The view's L(jω), exact in every dead time on both paths.
     if (!atCrossing)
-      a.re.forEach((x, j) => expect(Math.hypot(x - b.re[j], a.im[j] - b.im[j])).toBeLessThanOrEqual(1e-9 * Math.max(1e-300, Math.hypot(b.re[j], b.im[j]))));
+      a.re.forEach((x, j) =>
+        expect(Math.hypot(x - b.re[j], a.im[j] - b.im[j])).toBeLessThanOrEqual(1e-9 * Math.max(1e-300, Math.hypot(b.re[j], b.im[j]))),
+      );
   }
   expectSamePoles(polesStudy(d, { live }).poles, polesStudy(d, { live, affine: false }).poles);
 }
