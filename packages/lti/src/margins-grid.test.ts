@@ -1,6 +1,6 @@
 /**
- * loopMargins on points the caller supplies (`gridFrom`, a live sweep's grid fixed once per
- * edit) against the closed form of an integrator with dead time, and against its own grid.
+ * loopMargins on points the caller supplies (`gridFrom`: the grid of a live sweep, fixed once
+ * per edit) against the closed form of an integrator with dead time, and against its own grid.
  */
 import { describe, expect, it } from 'vitest';
 import { loopMargins } from './margins.ts';

@@ -101,8 +101,8 @@ export interface MarginOptions {
   /**
    * Bracketing points to use instead of building them (ascending): the sweep keeps its own limits
    * and takes the points between them from here. The caller promises they are at least as dense
-   * as the sweep's own everywhere in the range (a live sweep's grid fixed once per edit, whose
-   * exact values are tabulated). Ignored unless it covers the sweep's limits.
+   * as the sweep's own everywhere in the range (the grid of a live sweep, fixed once per edit,
+   * whose exact values are tabulated). Ignored unless it covers the sweep's limits.
    */
   gridFrom?: Float64Array | readonly number[];
 }
@@ -796,7 +796,7 @@ function sweepGrid(
   const from = opts.gridFrom;
   if (from && from.length > 1 && from[0] <= lo && from[from.length - 1] >= hi) {
     pts.push(lo);
-    for (let i = lowerIndex(from, lo); i < from.length && from[i] < hi; i++) if (from[i] > lo) pts.push(from[i]);
+    for (let i = firstIndexAtLeast(from, lo); i < from.length && from[i] < hi; i++) if (from[i] > lo) pts.push(from[i]);
   } else {
     for (let w = lo; w < hi; ) {
       pts.push(w);
@@ -823,8 +823,8 @@ function sweepGrid(
   return { grid: pts, trackedTo };
 }
 
-/** First index of an ascending array whose value is ≥ x (binary search). */
-function lowerIndex(xs: Float64Array | readonly number[], x: number): number {
+/** First index of an ascending array whose value is ≥ x (binary search); the length when none is. */
+export function firstIndexAtLeast(xs: Float64Array | readonly number[], x: number): number {
   let a = 0;
   let b = xs.length;
   while (a < b) {

@@ -9,7 +9,7 @@
  * division, and only the refinement between grid points solves the diagram (three times).
  */
 import type { Complex, LoopSource } from '@loopwright/lti';
-import { cx, frequencyEvaluator, frequencyRange, poly, rational, transfer } from '@loopwright/lti';
+import { cx, deadlineTicker, firstIndexAtLeast, frequencyEvaluator, frequencyRange, poly, rational, transfer } from '@loopwright/lti';
 
 /** Bracketing density of loopMarginsOf's sweep (points per decade, its default). */
 const PER_DECADE = 200;
@@ -123,12 +123,15 @@ export function tabulate(
   evaluators: ExactTable['evaluators'],
   delaySum: number,
   check: { k: number; evaluate: (w: number) => Complex },
+  deadline?: number,
 ): ExactTable | null {
+  const ticker = deadlineTicker(deadline, 'margins', 64);
   const n = omega.length;
   const l1 = new Float64Array(2 * n);
   const alpha = new Float64Array(2 * n);
   const beta = new Float64Array(2 * n);
   for (let i = 0; i < n; i++) {
+    ticker.tick();
     const w = omega[i];
     const v1 = evaluators[0](w);
     const [ar, ai, br, bi] = mobius(ks, v1.re, v1.im, evaluators[1](w), evaluators[2](w));
@@ -147,16 +150,10 @@ export function tabulate(
   return { ks, evaluators, omega, l1, alpha, beta, delaySum };
 }
 
-/** Index of w in the ascending grid (binary search), or −1 when w is not a grid point. */
+/** Index of w in the ascending grid, or −1 when w is not a grid point. */
 function gridIndex(omega: Float64Array, w: number): number {
-  let a = 0;
-  let b = omega.length;
-  while (a < b) {
-    const m = (a + b) >> 1;
-    if (omega[m] < w) a = m + 1;
-    else b = m;
-  }
-  return a < omega.length && omega[a] === w ? a : -1;
+  const i = firstIndexAtLeast(omega, w);
+  return i < omega.length && omega[i] === w ? i : -1;
 }
 
 /**

@@ -5,6 +5,8 @@
  * depend on k. They are found once per diagram edit (three reductions; the third checks the
  * affinity) and a slider step then costs a normalisation and the margins of L(k) — and nothing
  * for readings the value cannot reach (B = D = 0), whose reduction and margins are kept.
+ * Dead times are kept exact: the loop's own delay factor on L(s); dead times inside other loops
+ * through the exact L(jω), tabulated once per edit (affine-exact.ts).
  * A value that enters more than once, in a dead time, or not affinely is swept by full
  * recomputation; every result says which path it took (`SweepPath`).
  */
@@ -47,39 +49,35 @@ interface Site {
   ks: [number, number, number];
 }
 
+/** L(s) of a reading at k: (a + k·b)/(c + k·d), times e^(−s·delay), as the reduction gives it. */
+interface RationalPieces {
+  a: number[];
+  b: number[];
+  c: number[];
+  d: number[];
+  /** The loop's own delay factor (exact); dead times inside other loops are in `handling` (Padé). */
+  delay: number;
+  handling: DelayHandling;
+  /** Modes divided out of all four pieces once (see commonFactor). */
+  hidden: Complex[];
+}
+
 /**
- * One reading's pieces: L(k) = (a + k·b)/(c + k·d), rational (no dead time on the loop), or a
- * reading k cannot reach. A loop with dead time is read in full: its L(jω) is exact in the dead
- * time (graph's cutMargins), which the pieces do not carry.
+ * One reading's pieces: 'affine' where L(jω) is L(s)'s own (rational, or with its delay factor
+ * exact); 'exact' where dead times sit inside other loops, so that the exact L(jω) comes from the
+ * diagram solved at s = jω (tabulated once, see affine-exact.ts); a reading k cannot reach; or one
+ * read in full.
  */
 type Pieces =
-  | {
-      kind: 'affine';
-      a: number[];
-      b: number[];
-      c: number[];
-      d: number[];
-      /** Always 0 and no Padé here (a loop with dead time is read in full); kept for affineMargins. */
-      delay: number;
-      handling: DelayHandling;
-      hidden: Complex[];
-      grid: PieceGrid;
-    }
-  | {
+  | ({ kind: 'affine'; grid: PieceGrid } & RationalPieces)
+  | ({
       kind: 'exact';
-      a: number[];
-      b: number[];
-      c: number[];
-      d: number[];
-      delay: number;
-      handling: DelayHandling;
-      hidden: Complex[];
       table: ExactTable;
       frequency: CutFrequencyMethod;
       /** The compiled graph and site the pieces were fitted on: the diagram at k, solved between grid points. */
       graph: CompiledGraph;
       site: Site;
-    }
+    } & RationalPieces)
   | { kind: 'constant'; reading: Reading }
   | { kind: 'full' };
 
@@ -206,7 +204,7 @@ function exactPieces(
   const check = cutLoop(withSite(g, s, k4), wire, undefined, opts).source;
   if (!check) return null;
   const ev = sources.map((x) => x!.evaluate.bind(x)) as unknown as ExactTable['evaluators'];
-  const table = tabulate(grid, s.ks, ev, delaySum, { k: k4, evaluate: (w) => check.evaluate(w) });
+  const table = tabulate(grid, s.ks, ev, delaySum, { k: k4, evaluate: (w) => check.evaluate(w) }, opts.deadline);
   return table ? { table, frequency: { ...loops[0].frequency } } : null;
 }
 
