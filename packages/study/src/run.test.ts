@@ -30,7 +30,8 @@ describe('runs', () => {
   });
 
   it("a caller's deadline bounds the run: it stops with status budget and the partial traces, never hangs", () => {
-    const r = responseStudy(unityLoop(4), { until: 1e6, step: 1 }, { deadline: performance.now() + 30 });
+    // A step budget far beyond reach, so that the deadline (not the projected step count) stops it.
+    const r = responseStudy(unityLoop(4), { until: 1e6, step: 1, maxSteps: 1e9 }, { deadline: performance.now() + 30 });
     expect(r.run.status).toBe('budget');
     expect(r.run.timeReached).toBeLessThan(1e6);
     expect(r.run.time.length).toBeGreaterThan(0);

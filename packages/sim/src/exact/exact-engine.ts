@@ -231,9 +231,8 @@ export class ExactEngine implements SegmentEngine {
       const regular = Math.abs(h - this.h0) <= 1e-10 * this.h0;
 
       if (this.calm && this.quiet(sys, tc, tEnd)) {
-        this.jump(sys, tc, tEnd);
-        tc = tEnd;
-        if (budget.check(tc)) return { end: tc, restart: false, guard: -1 };
+        tc = this.jump(sys, tc, tEnd);
+        if (budget.stopped || budget.check(tc)) return { end: tc, restart: false, guard: -1 };
         break;
       }
 
@@ -476,26 +475,38 @@ export class ExactEngine implements SegmentEngine {
     return true;
   }
 
-  /** Holds every signal from tc to tEnd: grid points recorded, histories extended with constants. */
-  private jump(sys: ModeSystem, tc: number, tEnd: number): void {
+  /**
+   * Holds every signal from tc to tEnd: grid points recorded, histories extended with constants.
+   * Returns where it got to: tEnd, or earlier when the wall-time budget or a cancel stops the
+   * recording (a long quiet stretch on a fine grid is millions of rows).
+   */
+  private jump(sys: ModeSystem, tc: number, tEnd: number): number {
     const { rec, s } = this.rs;
     const N = this.lay.N;
     const z0 = this.z0;
     matvecRect(sys.Rg, this.recRows.length, N, z0, this.gridOut);
     for (let j = 0; j < this.recRows.length; j++) this.sigOut[this.recRows[j]] = this.gridOut[j];
     const endTol = 1e-12 * Math.max(1, Math.abs(tEnd));
-    for (let g = Math.floor(tc / s.dt) + 1; g * s.dt < tEnd - endTol; g++) if (rec.isNew(g * s.dt)) rec.record(g * s.dt, this.sigOut);
+    let end = tEnd;
+    for (let g = Math.floor(tc / s.dt) + 1, n = 1; g * s.dt < tEnd - endTol; g++, n++) {
+      if (rec.isNew(g * s.dt)) rec.record(g * s.dt, this.sigOut);
+      if ((n & 0xffff) === 0 && this.rs.budget.check(g * s.dt)) {
+        end = g * s.dt;
+        break;
+      }
+    }
     matvecRect(sys.R, sys.rows, N, z0, this.out);
     for (let d = 0; d < this.hist.length; d++) {
       const v = this.out[this.oD + 3 * d];
-      this.hist[d].pushConstant(tc, tEnd, v);
+      this.hist[d].pushConstant(tc, end, v);
       this.hStart[3 * d] = v;
       this.hStart[3 * d + 1] = 0;
       this.hStart[3 * d + 2] = 0;
     }
     for (let i = 0; i < this.lay.n; i++) this.rs.x[i] = z0[i];
     this.jumps++;
-    this.rs.budget.reached = tEnd;
+    this.rs.budget.reached = end;
+    return end;
   }
 }
 
