@@ -14,6 +14,7 @@ export function fakeIo(files: Record<string, string> = {}, opts: { stdin?: strin
     stdout: (s) => void (out += s),
     stderr: (s) => void (err += s),
     readFile: async (p) => {
+      if (p in written) return written[p]; // what a command wrote reads back
       if (!(p in files)) throw Object.assign(new Error(`ENOENT: ${p}`), { code: 'ENOENT' });
       return files[p];
     },

@@ -9,25 +9,9 @@ import { supplyValveBumpCsv } from '@loopwright/fit';
 import { parseTransferFunction } from '@loopwright/lti';
 import { build } from '@loopwright/study/testing';
 import { main } from '../main.ts';
-import type { CliIo } from '../io.ts';
+import { fakeIo as sharedFakeIo } from '../fake-io.ts';
 
-function fakeIo(files: Record<string, string>, stdin?: string) {
-  let out = '';
-  let err = '';
-  const written: Record<string, string> = {};
-  const io: CliIo = {
-    stdout: (s) => void (out += s),
-    stderr: (s) => void (err += s),
-    readFile: async (p) => {
-      if (p in written) return written[p];
-      if (!(p in files)) throw Object.assign(new Error(`ENOENT: ${p}`), { code: 'ENOENT' });
-      return files[p];
-    },
-    writeFile: async (p, text) => void (written[p] = text),
-    ...(stdin !== undefined ? { readStdin: async () => stdin } : {}),
-  };
-  return { io, out: () => out, err: () => err, written };
-}
+const fakeIo = (files: Record<string, string>, stdin?: string) => sharedFakeIo(files, stdin !== undefined ? { stdin } : {});
 
 const csv = supplyValveBumpCsv();
 const files = { 'bump.csv': csv, 'heating.loop.json': serializeDiagram(heatingCascade) };

@@ -7,25 +7,9 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../main.ts';
-import type { CliIo } from '../io.ts';
+import { fakeIo } from '../fake-io.ts';
 import { diagramOf } from '@loopwright/graph/testing';
 import { discretizeController, runController } from '@loopwright/sampled';
-
-function fakeIo(files: Record<string, string>) {
-  let out = '';
-  let err = '';
-  const written: Record<string, string> = {};
-  const io: CliIo = {
-    stdout: (s) => void (out += s),
-    stderr: (s) => void (err += s),
-    readFile: async (p) => {
-      if (!(p in files)) throw Object.assign(new Error(`ENOENT: ${p}`), { code: 'ENOENT' });
-      return files[p];
-    },
-    writeFile: async (p, t) => void (written[p] = t),
-  };
-  return { io, out: () => out, err: () => err, written };
-}
 
 async function json(argv: string[], files: Record<string, string> = {}) {
   const f = fakeIo(files);

@@ -25,7 +25,7 @@ export function SampledLoopPanel({ data, pal }: { data: SampledCutData; pal: Pal
       <div className="lw-view-tools">
         <strong>Sampled loop</strong>
         <span className="lw-muted">
-          {data.sampler ? `read at ${data.sampler}, T = ${formatEngineering(data.sampleTime)} s, computation delay ${fmt(data.computeDelay)} samples` : 'no sampler on this loop alone: estimate only'}
+          {data.sampler ? `read at ${data.sampler}, T = ${formatEngineering(data.sampleTime)} s, computation delay ${fmt(data.computeDelay)} sample${data.computeDelay === 1 ? '' : 's'}` : 'no sampler on this loop alone: estimate only'}
         </span>
         {data.closedLoopStable !== null && (
           <span className={data.closedLoopStable ? 'lw-ok' : 'lw-bad'}>{data.closedLoopStable ? 'z-plane poles inside the unit circle' : 'sampled closed loop UNSTABLE'}</span>

@@ -1,5 +1,5 @@
 import { type Complex, InputError, cx, poly } from '@loopwright/lti';
-import type { SignalGraph } from './points.ts';
+import { type SignalGraph, relevantNodes } from './points.ts';
 
 /**
  * The transmission of a prepared signal graph evaluated at s = jω by solving the linear
@@ -18,38 +18,6 @@ export interface ExactEvaluator {
   readonly loopDelays: number;
 }
 
-/** Nodes reachable from the input that also reach the output. */
-function relevant(g: SignalGraph): number[] {
-  const n = g.ids.length;
-  const fwd: number[][] = Array.from({ length: n }, () => []);
-  const bwd: number[][] = Array.from({ length: n }, () => []);
-  for (const b of g.branches) {
-    if (b.to < 0 || b.weight === 0) continue;
-    fwd[b.from].push(b.to);
-    bwd[b.to].push(b.from);
-  }
-  const mark = (start: number, adj: number[][]) => {
-    const seen = new Array<boolean>(n).fill(false);
-    const stack = [start];
-    seen[start] = true;
-    while (stack.length) {
-      const v = stack.pop()!;
-      for (const x of adj[v]) {
-        if (!seen[x]) {
-          seen[x] = true;
-          stack.push(x);
-        }
-      }
-    }
-    return seen;
-  };
-  const a = mark(g.input, fwd);
-  const b = mark(g.output, bwd);
-  const out: number[] = [];
-  for (let v = 0; v < n; v++) if (a[v] && b[v]) out.push(v);
-  return out;
-}
-
 /** Even and odd parts of a polynomial for p(jω) = E(−ω²) + jω·O(−ω²) (Horner in ω², no allocation). */
 function split(p: readonly number[]): { even: number[]; odd: number[] } {
   const even: number[] = [];
@@ -65,7 +33,7 @@ const horner = (c: readonly number[], x: number) => {
 };
 
 export function exactEvaluator(g: SignalGraph): ExactEvaluator {
-  const nodes = relevant(g);
+  const nodes = relevantNodes(g).flatMap((keep, v) => (keep ? [v] : []));
   const index = new Map<number, number>();
   nodes.forEach((v, i) => index.set(v, i));
   const m = nodes.length;
@@ -92,7 +60,10 @@ export function exactEvaluator(g: SignalGraph): ExactEvaluator {
   }
   let delaySum = 0;
   for (const x of gains) delaySum += x.delay;
-  const loopDelays = loopDelaysOf(W, gains.map((x) => x.delay));
+  const loopDelays = loopDelaysOf(
+    W,
+    gains.map((x) => x.delay),
+  );
   const Are = Array.from({ length: m }, () => new Float64Array(m));
   const Aim = Array.from({ length: m }, () => new Float64Array(m));
   const bre = new Float64Array(m);
@@ -145,7 +116,15 @@ export function exactEvaluator(g: SignalGraph): ExactEvaluator {
 }
 
 /** Component `k` of the solution of the complex system (Are + j·Aim) y = b (destroys its inputs). */
-function solveFor(Are: Float64Array[], Aim: Float64Array[], bre: Float64Array, bim: Float64Array, m: number, k: number, w: number): Complex {
+function solveFor(
+  Are: Float64Array[],
+  Aim: Float64Array[],
+  bre: Float64Array,
+  bim: Float64Array,
+  m: number,
+  k: number,
+  w: number,
+): Complex {
   for (let c = 0; c < m; c++) {
     let p = c;
     let best = Math.abs(Are[c][c]) + Math.abs(Aim[c][c]);
@@ -156,7 +135,10 @@ function solveFor(Are: Float64Array[], Aim: Float64Array[], bre: Float64Array, b
         p = r;
       }
     }
-    if (best === 0) throw new InputError(`the diagram is singular at ω = ${w} rad/s (a pole of the closed loop on the imaginary axis)`, { field: 'omega' });
+    if (best === 0)
+      throw new InputError(`the diagram is singular at ω = ${w} rad/s (a pole of the closed loop on the imaginary axis)`, {
+        field: 'omega',
+      });
     if (p !== c) {
       [Are[c], Are[p]] = [Are[p], Are[c]];
       [Aim[c], Aim[p]] = [Aim[p], Aim[c]];

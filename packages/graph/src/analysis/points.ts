@@ -62,7 +62,8 @@ export function prepareTransmission(c: CompiledGraph, from: SignalRef, to: Signa
   if ('block' in from) {
     const b = c.index.get(from.block);
     if (b === undefined) {
-      if (c.probes.has(from.block)) throw new InputError(`block ${from.block}: a probe is a measurement point, not an input`, { field: 'from' });
+      if (c.probes.has(from.block))
+        throw new InputError(`block ${from.block}: a probe is a measurement point, not an input`, { field: 'from' });
       throw new InputError(`block ${from.block}: no such block`, { field: 'from' });
     }
     if (c.kinds[b] === 'source') input = b;
@@ -118,4 +119,33 @@ export function prepareCut(c: CompiledGraph, wireId: string): SignalGraph {
 /** The whole diagram as a signal graph without an input or output (for its determinant). */
 export function wholeGraph(c: CompiledGraph): SignalGraph {
   return { ...copy(c), input: -1, output: -1 };
+}
+
+/** Nodes reachable from the graph's input that also reach its output (the ones a transmission depends on). */
+export function relevantNodes(g: SignalGraph): boolean[] {
+  const n = g.ids.length;
+  const fwd: number[][] = Array.from({ length: n }, () => []);
+  const bwd: number[][] = Array.from({ length: n }, () => []);
+  for (const b of g.branches) {
+    if (b.to < 0 || b.weight === 0) continue;
+    fwd[b.from].push(b.to);
+    bwd[b.to].push(b.from);
+  }
+  const mark = (start: number, adj: number[][]) => {
+    const seen = new Array<boolean>(n).fill(false);
+    const stack = [start];
+    seen[start] = true;
+    while (stack.length) {
+      const v = stack.pop()!;
+      for (const x of adj[v])
+        if (!seen[x]) {
+          seen[x] = true;
+          stack.push(x);
+        }
+    }
+    return seen;
+  };
+  const a = mark(g.input, fwd);
+  const b = mark(g.output, bwd);
+  return a.map((x, i) => x && b[i]);
 }

@@ -16,7 +16,7 @@ import type { ParameterOverrides } from '../resolve.ts';
 import { linearGraphOf } from './from-diagram.ts';
 import { type CompiledGraph, type LinearGraph, compileGraph } from './linear-graph.ts';
 import { type Cycle, type FlowGraph, determinantPoly, flowGraph, forwardPaths, simpleCycles, transmission } from './mason.ts';
-import { type SignalGraph, type SignalRef, describeRef, prepareTransmission, wholeGraph } from './points.ts';
+import { type SignalGraph, type SignalRef, describeRef, prepareTransmission, relevantNodes, wholeGraph } from './points.ts';
 
 /**
  * Padé order used for a dead time that sits inside a loop (or on paths of unequal delay)
@@ -77,44 +77,30 @@ export interface RawTransmission {
 
 const padeOrderOf = (o: ReduceOptions) => {
   const order = o.padeOrder ?? DEFAULT_PADE_ORDER;
-  if (!Number.isInteger(order) || order < 1 || order > 10) throw new InputError(`Padé order must be a whole number from 1 to 10, got ${order}`, { field: 'padeOrder' });
+  if (!Number.isInteger(order) || order < 1 || order > 10)
+    throw new InputError(`Padé order must be a whole number from 1 to 10, got ${order}`, { field: 'padeOrder' });
   return order;
 };
-
-/** Nodes reachable from `input` that also reach `output`. */
-function relevantNodes(g: SignalGraph): boolean[] {
-  const n = g.ids.length;
-  const fwd: number[][] = Array.from({ length: n }, () => []);
-  const bwd: number[][] = Array.from({ length: n }, () => []);
-  for (const b of g.branches) {
-    if (b.to < 0 || b.weight === 0) continue;
-    fwd[b.from].push(b.to);
-    bwd[b.to].push(b.from);
-  }
-  const mark = (start: number, adj: number[][]) => {
-    const seen = new Array<boolean>(n).fill(false);
-    const stack = [start];
-    seen[start] = true;
-    while (stack.length) {
-      const v = stack.pop()!;
-      for (const x of adj[v]) if (!seen[x]) { seen[x] = true; stack.push(x); }
-    }
-    return seen;
-  };
-  const a = mark(g.input, fwd);
-  const b = mark(g.output, bwd);
-  return a.map((x, i) => x && b[i]);
-}
 
 /** A sub-graph on the chosen nodes, with node gains from `num`/`den`. */
 function subFlowGraph(g: SignalGraph, keep: boolean[], num: number[][], den: number[][]) {
   const map = new Array<number>(g.ids.length).fill(-1);
   const nodes: number[] = [];
-  keep.forEach((k, i) => { if (k) { map[i] = nodes.length; nodes.push(i); } });
+  keep.forEach((k, i) => {
+    if (k) {
+      map[i] = nodes.length;
+      nodes.push(i);
+    }
+  });
   const branches = g.branches
     .filter((b) => b.to >= 0 && map[b.from] >= 0 && map[b.to] >= 0)
     .map((b) => ({ from: map[b.from], to: map[b.to], weight: b.weight }));
-  const fg = flowGraph(nodes.length, nodes.map((v) => num[v]), nodes.map((v) => den[v]), branches);
+  const fg = flowGraph(
+    nodes.length,
+    nodes.map((v) => num[v]),
+    nodes.map((v) => den[v]),
+    branches,
+  );
   return { fg, nodes, map };
 }
 
@@ -133,9 +119,19 @@ function withPade(g: SignalGraph, pade: ReadonlySet<number>, order: number) {
 function handlingOf(g: SignalGraph, pade: ReadonlySet<number>, order: number, exactDelay: number, why: string): DelayHandling {
   if (pade.size > 0) {
     const blocks = [...pade].map((v) => g.ids[v]);
-    return { mode: 'pade', order, blocks, note: `dead time of ${blocks.join(', ')} replaced by its Padé (${order},${order}) approximant: ${why}` };
+    return {
+      mode: 'pade',
+      order,
+      blocks,
+      note: `dead time of ${blocks.join(', ')} replaced by its Padé (${order},${order}) approximant: ${why}`,
+    };
   }
-  if (exactDelay > 0) return { mode: 'exact', blocks: [], note: `dead time ${exactDelay} s is common to every path and outside every loop: kept exact as e^(-${exactDelay}*s)` };
+  if (exactDelay > 0)
+    return {
+      mode: 'exact',
+      blocks: [],
+      note: `dead time ${exactDelay} s is common to every path and outside every loop: kept exact as e^(-${exactDelay}*s)`,
+    };
   return { mode: 'none', blocks: [], note: 'no dead time on the way' };
 }
 
@@ -159,7 +155,10 @@ export function transmissionOfGraph(g: SignalGraph, opts: ReduceOptions = {}): R
       const pathDelays = new Set<number>();
       for (const p of forwardPaths(plain.fg, plain.map[g.input], plain.map[g.output], opts.deadline)) {
         let d = 0;
-        for (const i of p.nodes) { const v = plain.nodes[i]; if (!pade.has(v)) d += g.delay[v]; }
+        for (const i of p.nodes) {
+          const v = plain.nodes[i];
+          if (!pade.has(v)) d += g.delay[v];
+        }
         pathDelays.add(d);
       }
       if (pathDelays.size > 1) {
@@ -198,17 +197,22 @@ export function cleanRoundOff(p: readonly number[]): number[] {
   if (hi - lo < 2) return t;
   const rho = Math.abs(t[lo] / t[hi]) ** (1 / (hi - lo));
   if (!(rho > 0) || !Number.isFinite(rho)) return t;
-  return poly.trim(t.map((c, k) => {
-    if (k <= lo || k >= hi) return c;
-    let scale = 0;
-    for (let j = lo; j <= hi; j++) scale = Math.max(scale, Math.abs(t[j]) * rho ** (j - k));
-    return Math.abs(c) <= 1e-12 * scale ? 0 : c;
-  }));
+  return poly.trim(
+    t.map((c, k) => {
+      if (k <= lo || k >= hi) return c;
+      let scale = 0;
+      for (let j = lo; j <= hi; j++) scale = Math.max(scale, Math.abs(t[j]) * rho ** (j - k));
+      return Math.abs(c) <= 1e-12 * scale ? 0 : c;
+    }),
+  );
 }
 
 /** Normalises and cancels a raw transmission into a Reduction (poles, zeros, gains, hidden modes). */
 export function reductionOf(raw: RawTransmission, opts: ReduceOptions = {}): Reduction {
-  if (poly.isZero(raw.den)) throw new InputError('the diagram is ill-posed: its interconnection determinant is identically zero (an algebraic loop with loop gain 1?)');
+  if (poly.isZero(raw.den))
+    throw new InputError(
+      'the diagram is ill-posed: its interconnection determinant is identically zero (an algebraic loop with loop gain 1?)',
+    );
   const structural = divideBlockFactors(raw.num, raw.den, raw.factors ?? []);
   const r0 = rational(structural.num, structural.den);
   let r: Rational = r0;
@@ -280,7 +284,10 @@ export function divideExactly(p: readonly number[], f: readonly number[]): numbe
       }
       worst = Math.max(worst, mag > 0 ? Math.abs(pt[k] - prod) / mag : 0);
     }
-    if (worst < bestErr) { bestErr = worst; best = q; }
+    if (worst < bestErr) {
+      bestErr = worst;
+      best = q;
+    }
   }
   return bestErr <= 1e-10 ? poly.trim(best!) : null;
 }
@@ -290,7 +297,11 @@ export function divideExactly(p: readonly number[], f: readonly number[]): numbe
  * (a mode of a block that the path cannot see, or a controller zero on a plant pole): cheap
  * and structural, before any root-based cancellation.
  */
-function divideBlockFactors(num: number[], den: number[], factors: readonly number[][]): { num: number[]; den: number[]; cancelled: Complex[] } {
+function divideBlockFactors(
+  num: number[],
+  den: number[],
+  factors: readonly number[][],
+): { num: number[]; den: number[]; cancelled: Complex[] } {
   const cancelled: Complex[] = [];
   if (poly.isZero(num)) return { num, den, cancelled };
   const seen = new Set<string>();
@@ -329,7 +340,10 @@ function lazy<T extends object>(o: T, key: string, compute: () => unknown): void
   Object.defineProperty(o, key, {
     enumerable: true,
     get: () => {
-      if (!done) { value = compute(); done = true; }
+      if (!done) {
+        value = compute();
+        done = true;
+      }
       return value;
     },
   });
@@ -349,7 +363,13 @@ export function compiledOf(x: Linearisable, overrides?: ParameterOverrides): Com
  * or a wire) to a measurement at `to` (a probe, a block's output or a wire), every loop closed.
  * Method A: exact polynomial elimination (Mason) over the nodes between the two points.
  */
-export function closedLoop(d: Linearisable, from: SignalRef, to: SignalRef, overrides?: ParameterOverrides, opts: ReduceOptions = {}): Reduction {
+export function closedLoop(
+  d: Linearisable,
+  from: SignalRef,
+  to: SignalRef,
+  overrides?: ParameterOverrides,
+  opts: ReduceOptions = {},
+): Reduction {
   const c = compiledOf(d, overrides);
   const raw = transmissionOfGraph(prepareTransmission(c, from, to), opts);
   try {
@@ -372,7 +392,11 @@ export interface CharacteristicPolynomial {
  * included, nothing cancelled). Dead times inside loops are replaced by Padé approximants;
  * dead times outside every loop add no poles and are left out ('pade' mode approximates all).
  */
-export function characteristicPolynomial(d: Linearisable, overrides?: ParameterOverrides, opts: ReduceOptions = {}): CharacteristicPolynomial {
+export function characteristicPolynomial(
+  d: Linearisable,
+  overrides?: ParameterOverrides,
+  opts: ReduceOptions = {},
+): CharacteristicPolynomial {
   const c = compiledOf(d, overrides);
   const g = wholeGraph(c);
   const order = padeOrderOf(opts);
@@ -381,11 +405,16 @@ export function characteristicPolynomial(d: Linearisable, overrides?: ParameterO
   const cycles = simpleCycles(plain.fg, undefined, opts.deadline);
   const inLoop = loopMembers(plain.fg.n, cycles);
   const pade = new Set<number>();
-  g.ids.forEach((_, v) => { if (g.delay[v] > 0 && (opts.delays === 'pade' || inLoop[v])) pade.add(v); });
+  g.ids.forEach((_, v) => {
+    if (g.delay[v] > 0 && (opts.delays === 'pade' || inLoop[v])) pade.add(v);
+  });
   const { num, den } = withPade(g, pade, order);
   const fg = subFlowGraph(g, all, num, den).fg;
   const p = determinantPoly(fg, cycles, undefined, opts.deadline);
-  if (poly.isZero(p)) throw new InputError('the diagram is ill-posed: its interconnection determinant is identically zero (an algebraic loop with loop gain 1?)');
+  if (poly.isZero(p))
+    throw new InputError(
+      'the diagram is ill-posed: its interconnection determinant is identically zero (an algebraic loop with loop gain 1?)',
+    );
   return { poly: p, handling: handlingOf(g, pade, order, 0, opts.delays === 'pade' ? 'requested' : 'the dead time sits inside a loop') };
 }
 
