@@ -31,7 +31,6 @@ import {
 } from '@loopwright/graph';
 import { InputError, cx, loopMargins, loopMarginsOf, poly, polyRoots, type Complex, type LoopMargins } from '@loopwright/lti';
 import { exactGrid, exactSourceAt, tabulate, type ExactTable } from './affine-exact.ts';
-import { affineMargins, pieceGrid, type PieceGrid } from './affine-margins.ts';
 import { Lru, cached } from './cache.ts';
 import { registerCache } from './caches.ts';
 import { engineText } from './fingerprint.ts';
@@ -69,7 +68,7 @@ interface RationalPieces {
  * read in full.
  */
 type Pieces =
-  | ({ kind: 'affine'; grid: PieceGrid } & RationalPieces)
+  | ({ kind: 'affine' } & RationalPieces)
   | ({
       kind: 'exact';
       table: ExactTable;
@@ -91,7 +90,6 @@ interface Reading {
 const AFFINE_TOL = 1e-9;
 
 const sites = registerCache(new Lru<Site | null>(24));
-// Each affine entry holds its grid (nine arrays of a few thousand doubles): some 150 kB.
 const pieces = registerCache(new Lru<Pieces>(48));
 
 const same = (x: readonly number[], y: readonly number[]) => x.length === y.length && x.every((v, i) => v === y[i]);
@@ -176,7 +174,7 @@ function piecesOf(g: CompiledGraph, wire: string, s: Site, value: number, plain:
   // A purely rational loop, or one whose only dead time is its own delay factor: L(jω) is the
   // pieces' (the delay factor exact). Dead times inside other loops: the approximant's pieces
   // give L(s) and its poles, the diagram solved at s = jω (tabulated) the exact L(jω).
-  if (r1.delayHandling.mode !== 'pade') return { kind: 'affine', ...kept, handling: r1.delayHandling, hidden, grid: pieceGrid(kept, s.ks) };
+  if (r1.delayHandling.mode !== 'pade') return { kind: 'affine', ...kept, handling: r1.delayHandling, hidden };
   const exact = exactPieces(g, wire, s, rs, opts);
   return exact ? { kind: 'exact', ...kept, handling: r1.delayHandling, hidden, ...exact, graph: g, site: s } : { kind: 'full' };
 }
@@ -255,16 +253,11 @@ function evaluate(p: Extract<Pieces, { kind: 'affine' | 'exact' }>, k: number, w
       margins: loopMarginsOf(source, { ...dl, gridFrom: p.table.omega }),
     };
   }
-  if (p.delay > 0) {
-    // The delay factor exact: loopMargins on L(s) itself, as cutMargins does (cheap: no solving).
-    const note = `dead time ${reduction.tf.delay} s kept exact as e^(-jωT)`;
-    return {
-      loop: { reduction, source: null, frequency: { method: 'exact', solved: false, note } },
-      margins: loopMargins(reduction.tf, dl),
-    };
-  }
-  const loop: CutLoop = { reduction, source: null, frequency: { ...RATIONAL_FREQUENCY } };
-  return { loop, margins: affineMargins(p, p.grid, k, reduction) ?? loopMargins(reduction.tf, dl) };
+  // L(s) itself, its delay factor (if any) exact: loopMargins as cutMargins does (cheap: the
+  // pieces spare the diagram reduction; no solving).
+  const frequency: CutFrequencyMethod =
+    p.delay > 0 ? { method: 'exact', solved: false, note: `dead time ${reduction.tf.delay} s kept exact as e^(-jωT)` } : { ...RATIONAL_FREQUENCY };
+  return { loop: { reduction, source: null, frequency }, margins: loopMargins(reduction.tf, dl) };
 }
 
 /** A loop reader for one live value, and which path each reading took. */
