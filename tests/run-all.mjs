@@ -31,7 +31,13 @@ function count(jsonFile) {
 if (!run('CLI bundle', 'npm', ['run', '--silent', 'build:cli'], 5)) failed += 1;
 if (!run('type-check', 'npm', ['run', '--silent', 'typecheck'])) failed += 1;
 if (!run('lint', 'npm', ['run', '--silent', 'lint'])) failed += 1;
-run('unit and reference tests', 'npx', ['vitest', 'run', '--reporter=default', '--reporter=json', '--outputFile.json=test-artifacts/unit.json']);
+run('unit and reference tests', 'npx', [
+  'vitest',
+  'run',
+  '--reporter=default',
+  '--reporter=json',
+  '--outputFile.json=test-artifacts/unit.json',
+]);
 count('test-artifacts/unit.json');
 if (!run('installable CLI', 'npm', ['run', '--silent', 'test:package'], 5)) failed += 1;
 run('browser tests', 'node', ['tests/e2e/run.mjs']);

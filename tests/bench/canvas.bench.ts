@@ -20,7 +20,11 @@ function nestedRow(n: number): Diagram {
   const wires: Wire[] = [];
   for (let i = 0; i + 1 < order.length; i++) {
     const to = order[i + 1];
-    wires.push({ id: `f${i}`, from: { block: order[i].id, port: 'out' }, to: { block: to.id, port: to.kind === 'summing-junction' ? 'in1' : 'in' } });
+    wires.push({
+      id: `f${i}`,
+      from: { block: order[i].id, port: 'out' },
+      to: { block: to.id, port: to.kind === 'summing-junction' ? 'in1' : 'in' },
+    });
   }
   for (let i = 1; i <= n; i++) wires.push({ id: `fb${i}`, from: { block: `P${i}`, port: 'out' }, to: { block: `e${i}`, port: 'in2' } });
   return { ...emptyDiagram(), blocks: order, wires };
@@ -30,7 +34,11 @@ export function run(): void {
   section('canvas: feedback lanes per drag frame');
   const demo = demoDiagrams.find((x) => x.id === 'positioning-axis')!.diagram;
   const demoBoxes = boxesOf(demo);
-  report(bench('positioning axis (20 blocks, 3 loops): lanes', () => feedbackLanes(demo, demoBoxes), { minRuns: 200 }), 1, 'demo-lanes');
+  report(
+    bench('positioning axis (20 blocks, 3 loops): lanes', () => feedbackLanes(demo, demoBoxes), { minRuns: 200 }),
+    1,
+    'demo-lanes',
+  );
   const ns = [4, 8, 16, 32];
   const medians: number[] = [];
   for (const n of ns) {
@@ -42,5 +50,7 @@ export function run(): void {
     report(r, n <= 8 ? 1 : undefined, `nested-${n}-lanes`);
     medians.push(r.median);
   }
-  console.log(`  cost ∝ loops^${record('nested-lanes.exponent', fitExponent(ns, medians), 'exponent').toFixed(2)} (shortest-first placement, each lane checked against blocks and lanes)`);
+  console.log(
+    `  cost ∝ loops^${record('nested-lanes.exponent', fitExponent(ns, medians), 'exponent').toFixed(2)} (shortest-first placement, each lane checked against blocks and lanes)`,
+  );
 }

@@ -24,14 +24,20 @@ const line = (name: string, xs: number[], target: number, on: 'median' | 'p95') 
   record(`${slug(name)}.p95`, q(xs, 0.95), 'ms');
   record(`${slug(name)}.runs`, xs.length, 'runs');
   const verdict = v <= target ? 'met' : 'MISSED';
-  console.log(`  ${name.padEnd(58)} median ${q(xs, 0.5).toFixed(1).padStart(8)} ms  p95 ${q(xs, 0.95).toFixed(1).padStart(8)} ms  n=${xs.length}  (target ${on} ≤ ${target} ms: ${verdict})`);
+  console.log(
+    `  ${name.padEnd(58)} median ${q(xs, 0.5).toFixed(1).padStart(8)} ms  p95 ${q(xs, 0.95).toFixed(1).padStart(8)} ms  n=${xs.length}  (target ${on} ≤ ${target} ms: ${verdict})`,
+  );
 };
 
 export async function drawnAfterLoad(page: Page): Promise<number> {
   await page.waitForFunction(
     () => {
       // Every view on screen drawn: the Locus with the closed-loop poles, and the open tab.
-      const h = (window as unknown as { __loopwright?: { analysis?: { state(): { complete: boolean; renderedGeneration: number; poles: unknown; locus: unknown } } } }).__loopwright?.analysis;
+      const h = (
+        window as unknown as {
+          __loopwright?: { analysis?: { state(): { complete: boolean; renderedGeneration: number; poles: unknown; locus: unknown } } };
+        }
+      ).__loopwright?.analysis;
       const s = h?.state();
       return Boolean(s && s.complete && s.renderedGeneration > 0 && s.poles && s.locus);
     },
@@ -44,7 +50,13 @@ export async function drawnAfterLoad(page: Page): Promise<number> {
 /** Moves the slider by input events (as a drag does) and waits for each generation to be drawn. */
 export async function sliderLatencies(page: Page, moves: number): Promise<number[]> {
   return page.evaluate(async (n) => {
-    const hook = (window as unknown as { __loopwright: { analysis: { state(): { generation: number; renderedGeneration: number; complete: boolean }; latencies(): number[] } } }).__loopwright.analysis;
+    const hook = (
+      window as unknown as {
+        __loopwright: {
+          analysis: { state(): { generation: number; renderedGeneration: number; complete: boolean }; latencies(): number[] };
+        };
+      }
+    ).__loopwright.analysis;
     const slider = document.querySelector<HTMLInputElement>('[data-testid="sweep-slider"]')!;
     const setter = Object.getOwnPropertyDescriptor(HTMLInputElement.prototype, 'value')!.set!;
     const out: number[] = [];
@@ -84,14 +96,39 @@ export async function run(): Promise<void> {
           await drawnAfterLoad(page);
           await sliderLatencies(page, 5); // warm-up
           line(`slider → all views drawn, ${tab} view shown (positioning demo)`, await sliderLatencies(page, 40), 50, 'p95');
-          const br = (await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { breakdown(): [number, number][] } } }).__loopwright.analysis.breakdown())).slice(-40);
-          const reply = record(`slider-${tab.toLowerCase()}.input-to-reply.median`, q(br.map((b) => b[0]), 0.5), 'ms');
-          const drawn = record(`slider-${tab.toLowerCase()}.reply-to-drawn.median`, q(br.map((b) => b[1]), 0.5), 'ms');
+          const br = (
+            await page.evaluate(() =>
+              (window as unknown as { __loopwright: { analysis: { breakdown(): [number, number][] } } }).__loopwright.analysis.breakdown(),
+            )
+          ).slice(-40);
+          const reply = record(
+            `slider-${tab.toLowerCase()}.input-to-reply.median`,
+            q(
+              br.map((b) => b[0]),
+              0.5,
+            ),
+            'ms',
+          );
+          const drawn = record(
+            `slider-${tab.toLowerCase()}.reply-to-drawn.median`,
+            q(
+              br.map((b) => b[1]),
+              0.5,
+            ),
+            'ms',
+          );
           console.log(`    of which: input → last engine reply median ${reply.toFixed(1)} ms, reply → drawn median ${drawn.toFixed(1)} ms`);
         }
-        const ms = await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { state(): { computeMs: Record<string, number> } } } }).__loopwright.analysis.state().computeMs);
+        const ms = await page.evaluate(
+          () =>
+            (
+              window as unknown as { __loopwright: { analysis: { state(): { computeMs: Record<string, number> } } } }
+            ).__loopwright.analysis.state().computeMs,
+        );
         for (const part of ['analysis', 'loops', 'response']) record(`worker-compute.${part}`, ms[part], 'ms');
-        console.log(`  worker compute per update (last): analysis ${ms.analysis.toFixed(1)} ms, loops ${ms.loops.toFixed(1)} ms, response ${ms.response.toFixed(1)} ms`);
+        console.log(
+          `  worker compute per update (last): analysis ${ms.analysis.toFixed(1)} ms, loops ${ms.loops.toFixed(1)} ms, response ${ms.response.toFixed(1)} ms`,
+        );
         await s.close();
       }
     }
@@ -117,6 +154,10 @@ export async function run(): Promise<void> {
   }
   record('javascript-at-start.gzip', atStart / 1024, 'kB');
   record('javascript-all.gzip', total / 1024, 'kB');
-  console.log(`  production JavaScript loaded at start, gzipped               ${(atStart / 1024).toFixed(0).padStart(6)} kB  (target ≤ 800 kB: ${atStart <= 800 * 1024 ? 'met' : 'MISSED'})`);
-  console.log(`  production JavaScript, all chunks, gzipped                   ${(total / 1024).toFixed(0).padStart(6)} kB  (target ≤ 800 kB: ${total <= 800 * 1024 ? 'met' : 'MISSED'})`);
+  console.log(
+    `  production JavaScript loaded at start, gzipped               ${(atStart / 1024).toFixed(0).padStart(6)} kB  (target ≤ 800 kB: ${atStart <= 800 * 1024 ? 'met' : 'MISSED'})`,
+  );
+  console.log(
+    `  production JavaScript, all chunks, gzipped                   ${(total / 1024).toFixed(0).padStart(6)} kB  (target ≤ 800 kB: ${total <= 800 * 1024 ? 'met' : 'MISSED'})`,
+  );
 }

@@ -24,11 +24,17 @@ export function run(): void {
     for (const from of sources) for (const to of probes) closedLoop(c, { block: from }, { block: to });
     for (const cut of d.cuts) loopAtCut(c, cut.wire);
   };
-  report(bench(`positioning axis: ${sources.length * probes.length} closed-loop forms + ${d.cuts.length} cuts' L(s)`, allForms, { minRuns: 30 }), 10, 'positioning-axis-all-forms');
+  report(
+    bench(`positioning axis: ${sources.length * probes.length} closed-loop forms + ${d.cuts.length} cuts' L(s)`, allForms, { minRuns: 30 }),
+    10,
+    'positioning-axis-all-forms',
+  );
   console.log(`  (same, mean CPU time per run: ${record('positioning-axis-all-forms.cpu', cpuMs(allForms, 30), 'ms').toFixed(2)} ms)`);
   const locus = () => sweepLocus(d, 'Kp_pos');
   report(bench('positioning axis: exact locus of Kp_pos (whole diagram)', locus, { minRuns: 20 }), 25);
-  console.log(`  (same, mean CPU time per run: ${record('positioning-axis-exact-locus-of-kp-pos-whole-diagram.cpu', cpuMs(locus, 20), 'ms').toFixed(2)} ms)`);
+  console.log(
+    `  (same, mean CPU time per run: ${record('positioning-axis-exact-locus-of-kp-pos-whole-diagram.cpu', cpuMs(locus, 20), 'ms').toFixed(2)} ms)`,
+  );
   report(bench('positioning axis: loops report (cuts, margins, separations, ideal inner)', () => analyseLoops(d), { minRuns: 10 }));
 
   const ns = [2, 4, 8, 16];
@@ -36,12 +42,18 @@ export function run(): void {
   for (const n of ns) {
     const g = compiledOf(nestedChain(n));
     const cuts = [...Array(n).keys()].map((i) => `fb${i + 1}`);
-    const r = bench(`nested chain of ${n} loops: r → y and every cut`, () => {
-      closedLoop(g, { block: 'r' }, { block: 'y' });
-      for (const w of cuts) loopAtCut(g, w);
-    }, { minRuns: 10, minMs: 200 });
+    const r = bench(
+      `nested chain of ${n} loops: r → y and every cut`,
+      () => {
+        closedLoop(g, { block: 'r' }, { block: 'y' });
+        for (const w of cuts) loopAtCut(g, w);
+      },
+      { minRuns: 10, minMs: 200 },
+    );
     report(r);
     times.push(r.median);
   }
-  console.log(`  fitted cost exponent over N = ${ns.join(', ')}: time ∝ N^${record('nested-chain.exponent', fitExponent(ns, times), 'exponent').toFixed(2)}`);
+  console.log(
+    `  fitted cost exponent over N = ${ns.join(', ')}: time ∝ N^${record('nested-chain.exponent', fitExponent(ns, times), 'exponent').toFixed(2)}`,
+  );
 }

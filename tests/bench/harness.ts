@@ -98,7 +98,8 @@ export function report(r: BenchResult, targetMs?: number, key = slug(r.name)): v
   record(`${key}.median`, r.median, 'ms');
   record(`${key}.p95`, r.p95, 'ms');
   record(`${key}.runs`, r.runs, 'runs');
-  const verdict = targetMs === undefined ? '' : r.median <= targetMs ? `  (target ≤ ${targetMs} ms: met)` : `  (target ≤ ${targetMs} ms: MISSED)`;
+  const verdict =
+    targetMs === undefined ? '' : r.median <= targetMs ? `  (target ≤ ${targetMs} ms: met)` : `  (target ≤ ${targetMs} ms: MISSED)`;
   console.log(`  ${r.name.padEnd(58)} median ${fmt(r.median).padStart(10)}  p95 ${fmt(r.p95).padStart(10)}  n=${r.runs}${verdict}`);
 }
 
@@ -107,11 +108,19 @@ export function section(title: string): void {
 }
 
 /** Prints and records (`<key>.ratio`) the ratio of two medians, with an optional target. */
-export function ratio(label: string, a: BenchResult, b: BenchResult, target?: { atLeast?: number; atMost?: number }, key = slug(label)): number {
+export function ratio(
+  label: string,
+  a: BenchResult,
+  b: BenchResult,
+  target?: { atLeast?: number; atMost?: number },
+  key = slug(label),
+): number {
   const x = record(`${key}.ratio`, a.median / b.median, 'ratio');
   let verdict = '';
-  if (target?.atLeast !== undefined) verdict = x >= target.atLeast ? `  (target ≥ ${target.atLeast}: met)` : `  (target ≥ ${target.atLeast}: MISSED)`;
-  if (target?.atMost !== undefined) verdict = x <= target.atMost ? `  (target ≤ ${target.atMost}: met)` : `  (target ≤ ${target.atMost}: MISSED)`;
+  if (target?.atLeast !== undefined)
+    verdict = x >= target.atLeast ? `  (target ≥ ${target.atLeast}: met)` : `  (target ≥ ${target.atLeast}: MISSED)`;
+  if (target?.atMost !== undefined)
+    verdict = x <= target.atMost ? `  (target ≤ ${target.atMost}: met)` : `  (target ≤ ${target.atMost}: MISSED)`;
   console.log(`  ratio ${label.padEnd(52)} ${x.toFixed(2)}×${verdict}`);
   return x;
 }

@@ -37,10 +37,11 @@ function baseline(num: number[], den: number[], gains: readonly number[]): numbe
       for (let i = 0; i < n; i++) {
         let col = 0;
         let row = 0;
-        for (let j = 0; j < n; j++) if (j !== i) {
-          col += Math.abs(a[j][i]);
-          row += Math.abs(a[i][j]);
-        }
+        for (let j = 0; j < n; j++)
+          if (j !== i) {
+            col += Math.abs(a[j][i]);
+            row += Math.abs(a[i][j]);
+          }
         if (col === 0 || row === 0) continue;
         const f = 2 ** Math.round(Math.log2(Math.sqrt(row / col)));
         if (f === 1) continue;
@@ -72,20 +73,33 @@ export async function run(): Promise<void> {
   console.log(
     `  10-pole, 4-zero loop: ${once.gains.length} traced gains (400 base + adaptive), ${special} special points (breakaways ${once.breakaways.length}, crossings ${once.crossings.length})`,
   );
-  const fast = bench('locus 10 poles / 4 zeros, ≥ 400 gains + special points', () => rootLocus(num, den, { samples: 400 }), { minRuns: 15, minMs: 500 });
+  const fast = bench('locus 10 poles / 4 zeros, ≥ 400 gains + special points', () => rootLocus(num, den, { samples: 400 }), {
+    minRuns: 15,
+    minMs: 500,
+  });
   report(fast, 15);
   let failed: number[] = [];
-  const slow = bench('baseline: same gains one by one, mathjs eigs', () => (failed = baseline(num, den, once.gains)), { minRuns: 3, minMs: 0, warmup: 1 });
+  const slow = bench('baseline: same gains one by one, mathjs eigs', () => (failed = baseline(num, den, once.gains)), {
+    minRuns: 3,
+    minMs: 0,
+    warmup: 1,
+  });
   report(slow);
   ratio('baseline / locus', slow, fast, { atLeast: 10 });
   if (failed.length) {
     // mathjs gives up (after its iteration limit) at some gains, which inflates the baseline:
     // also time it on only the gains where it converges, and compare per gain.
-    console.log(`  (mathjs eigs did not converge at ${record('baseline.failed-gains', failed.length, 'count')} of ${once.gains.length} gains)`);
+    console.log(
+      `  (mathjs eigs did not converge at ${record('baseline.failed-gains', failed.length, 'count')} of ${once.gains.length} gains)`,
+    );
     const bad = new Set(failed);
     const good = once.gains.filter((k) => !bad.has(k));
     if (good.length) {
-      const fair = bench(`baseline on the ${good.length} converging gains only`, () => baseline(num, den, good), { minRuns: 5, minMs: 0, warmup: 1 });
+      const fair = bench(`baseline on the ${good.length} converging gains only`, () => baseline(num, den, good), {
+        minRuns: 5,
+        minMs: 0,
+        warmup: 1,
+      });
       report(fair, undefined, 'baseline-converging-gains');
       const perGain = { ...fair, median: (fair.median / good.length) * once.gains.length };
       ratio('baseline (converging gains, per gain) / locus', perGain, fast, { atLeast: 10 });
@@ -100,8 +114,13 @@ export async function run(): Promise<void> {
   record('margins-loop.phase-margin', mr.phaseMarginDeg ?? NaN, 'deg');
   record('margins-loop.phase-crossovers', mr.phaseCrossovers.length, 'count');
   record('margins-loop.pade-order', mr.padeOrder ?? NaN, 'order');
-  console.log(`  margins loop: GM ${mr.gainMargin?.toFixed(4)}, PM ${mr.phaseMarginDeg?.toFixed(2)}°, ${mr.phaseCrossovers.length} phase crossovers, Padé ${mr.padeOrder}`);
-  report(bench('margins, 10th-order loop with dead time', () => loopMargins(L), { minRuns: 30, minMs: 500 }), 5);
+  console.log(
+    `  margins loop: GM ${mr.gainMargin?.toFixed(4)}, PM ${mr.phaseMarginDeg?.toFixed(2)}°, ${mr.phaseCrossovers.length} phase crossovers, Padé ${mr.padeOrder}`,
+  );
+  report(
+    bench('margins, 10th-order loop with dead time', () => loopMargins(L), { minRuns: 30, minMs: 500 }),
+    5,
+  );
 
   const sizes = [5, 10, 20, 40];
   const medians: number[] = [];
@@ -115,5 +134,7 @@ export async function run(): Promise<void> {
     report(r);
     medians.push(r.median);
   }
-  console.log(`  fitted cost exponent (time ∝ n^p): p = ${record('locus-growth.exponent', fitExponent(sizes, medians), 'exponent').toFixed(2)}`);
+  console.log(
+    `  fitted cost exponent (time ∝ n^p): p = ${record('locus-growth.exponent', fitExponent(sizes, medians), 'exponent').toFixed(2)}`,
+  );
 }

@@ -17,30 +17,52 @@ export function run(): void {
     const step = () => {
       const value = at();
       const live = { target, value };
-      const reqs: StudyRequest[] = [{ kind: 'locus', target, value, range }, { kind: 'poles', live }, { kind: 'cut', cut: null, live }];
+      const reqs: StudyRequest[] = [
+        { kind: 'locus', target, value, range },
+        { kind: 'poles', live },
+        { kind: 'cut', cut: null, live },
+      ];
       for (const r of runStudies(d, reqs)) if (!r.ok) throw new Error(r.error);
     };
     const s = bench(`${demo.id}: slider step (locus cached; poles, L at the cut)`, step, { minRuns: 30 });
     report(s, 50);
-    const cold = bench(`${demo.id}: locus from scratch (caches cleared)`, () => {
-      clearCaches();
-      runStudy(d, { kind: 'locus', target, range });
-    }, { minRuns: 5, minMs: 200 });
+    const cold = bench(
+      `${demo.id}: locus from scratch (caches cleared)`,
+      () => {
+        clearCaches();
+        runStudy(d, { kind: 'locus', target, range });
+      },
+      { minRuns: 5, minMs: 200 },
+    );
     report(cold);
     ratio(`${demo.id}: cold locus / slider step`, cold, s);
-    report(bench(`${demo.id}: findings of an edit (caches cleared)`, () => {
-      clearCaches();
-      runStudy(d, { kind: 'check' });
-    }, { minRuns: 10, minMs: 200 }));
+    report(
+      bench(
+        `${demo.id}: findings of an edit (caches cleared)`,
+        () => {
+          clearCaches();
+          runStudy(d, { kind: 'check' });
+        },
+        { minRuns: 10, minMs: 200 },
+      ),
+    );
     report(bench(`${demo.id}: loops table`, () => runStudy(d, { kind: 'loops', live: sweep.live }), { minRuns: 5, minMs: 200 }));
-    const runOnly = bench(`${demo.id}: run with linear overlay (diagram settings)`, () => runStudy(d, { kind: 'run', live: sweep.live, linearOverlay: true }), { minRuns: 3, minMs: 100, warmup: 1 });
+    const runOnly = bench(
+      `${demo.id}: run with linear overlay (diagram settings)`,
+      () => runStudy(d, { kind: 'run', live: sweep.live, linearOverlay: true }),
+      { minRuns: 3, minMs: 100, warmup: 1 },
+    );
     report(runOnly);
     // The design report: every part computed (findings, locus, poles, loops with each loop's
     // frequency data, a run) and the HTML with its SVG charts written; cold, as the CLI runs it.
-    const rep = bench(`${demo.id}: design report (caches cleared)`, () => {
-      clearCaches();
-      runStudy(d, { kind: 'report', generatedAt: 'bench' });
-    }, { minRuns: 3, minMs: 100, warmup: 1 });
+    const rep = bench(
+      `${demo.id}: design report (caches cleared)`,
+      () => {
+        clearCaches();
+        runStudy(d, { kind: 'report', generatedAt: 'bench' });
+      },
+      { minRuns: 3, minMs: 100, warmup: 1 },
+    );
     report(rep, undefined, `${demo.id}-report`);
     ratio(`${demo.id}: design report / run with overlay`, rep, runOnly, undefined, `${demo.id}-report-vs-run`);
   }

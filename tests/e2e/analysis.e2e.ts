@@ -29,7 +29,11 @@ interface HookState {
   locus: { mode: string; branches: { re: number[]; im: number[]; k: number[] }[]; poles: Cx[]; zeros: Cx[] } | null;
   frequency: { cutId: string; margins: Record<string, number | null> } | null;
   loops: { rows: { cutId: string; wire: string; margins: Record<string, number | boolean | null> }[] } | null;
-  response: { run: { time: number[]; traces: Record<string, number[]> }; linear: { time: number[]; traces: Record<string, number[]> } | null; probes: { id: string }[] } | null;
+  response: {
+    run: { time: number[]; traces: Record<string, number[]> };
+    linear: { time: number[]; traces: Record<string, number[]> } | null;
+    probes: { id: string }[];
+  } | null;
 }
 
 const state = (page: Page) => analysisState<HookState>(page);
@@ -40,7 +44,6 @@ const demo = (id: string): Diagram => {
   if (!d) throw new Error(`demo ${id} missing`);
   return JSON.parse(JSON.stringify(d.diagram)) as Diagram;
 };
-
 
 /** Sets the slider to a position 0..1000 with the keyboard-free input path a user's drag takes. */
 async function dragSliderTo(page: Page, fraction: number) {
@@ -60,14 +63,20 @@ type Branch = { re: number[]; im: number[]; k: number[] };
 function dominantRangeBranch(st: HookState): Branch {
   const range = (st.locus as unknown as { rangeBranches: Branch[] }).rangeBranches;
   return range
-    .map((b) => ({ b, span: Math.hypot(b.re[b.re.length - 1] - b.re[0], b.im[b.im.length - 1] - b.im[0]) / Math.max(1, Math.hypot(b.re[0], b.im[0])) }))
+    .map((b) => ({
+      b,
+      span: Math.hypot(b.re[b.re.length - 1] - b.re[0], b.im[b.im.length - 1] - b.im[0]) / Math.max(1, Math.hypot(b.re[0], b.im[0])),
+    }))
     .filter((x) => Math.max(...x.b.im) > 0)
     .sort((a, b) => b.span - a.span)[0].b;
 }
 
 const locusPagePoint = (page: Page, p: Cx) =>
   page.evaluate(
-    ([re, im]) => (window as unknown as { __loopwright: { analysis: { locusPagePoint(a: number, b: number): { x: number; y: number } } } }).__loopwright.analysis.locusPagePoint(re, im),
+    ([re, im]) =>
+      (
+        window as unknown as { __loopwright: { analysis: { locusPagePoint(a: number, b: number): { x: number; y: number } } } }
+      ).__loopwright.analysis.locusPagePoint(re, im),
     [p.re, p.im],
   );
 
@@ -129,7 +138,11 @@ describe('analysis views', () => {
     const y0 = s0.response!.run.traces[probe];
     // The poles as the Locus chart was given them (not the hook's copy of the results).
     const chartPoles = async () => {
-      const opt = (await page.evaluate(() => (window as unknown as { __loopwright: { analysis: { chartOption(n: string): unknown } } }).__loopwright.analysis.chartOption('locus'))) as {
+      const opt = (await page.evaluate(() =>
+        (window as unknown as { __loopwright: { analysis: { chartOption(n: string): unknown } } }).__loopwright.analysis.chartOption(
+          'locus',
+        ),
+      )) as {
         series: { name: string; data: number[][] }[];
       };
       // Poles that belong to a Padé approximant are drawn apart (hollow), in a series of their own.
@@ -159,7 +172,10 @@ describe('analysis views', () => {
       let best = Math.min(Infinity, ...fixed.map((q) => dist(p, q)));
       for (const b of branches) {
         for (let i = 0; i + 1 < b.re.length; i++) {
-          const ax = b.re[i], ay = b.im[i], dx = b.re[i + 1] - ax, dy = b.im[i + 1] - ay;
+          const ax = b.re[i],
+            ay = b.im[i],
+            dx = b.re[i + 1] - ax,
+            dy = b.im[i + 1] - ay;
           const l2 = dx * dx + dy * dy;
           const t = l2 > 0 ? Math.max(0, Math.min(1, ((p.re - ax) * dx + (p.im - ay) * dy) / l2)) : 0;
           best = Math.min(best, Math.hypot(ax + t * dx - p.re, ay + t * dy - p.im));
@@ -174,14 +190,18 @@ describe('analysis views', () => {
     const scale = Math.max(...y0.map(Math.abs));
     expect(diff).toBeGreaterThan(0.01 * scale);
     // Releasing commits the value to the document (one undoable edit).
-    const before = await page.evaluate(() => (window as unknown as { __loopwright: { historySize(): { past: number } } }).__loopwright.historySize().past);
+    const before = await page.evaluate(
+      () => (window as unknown as { __loopwright: { historySize(): { past: number } } }).__loopwright.historySize().past,
+    );
     await drag.release();
     await expect.poll(async () => (await state(page)).sweep!.live).toBeNull();
     const doc = await page.evaluate(() => (window as unknown as { __loopwright: { getDiagram(): Diagram } }).__loopwright.getDiagram());
     // Written rounded to 4 significant digits (issue 11 item 7), the rounding the shared lti routine does.
     expect(doc.parameters.find((p) => p.name === 'Kp_pos')!.value).toBe(roundSignificant(v1, 4));
     expect(String(doc.parameters.find((p) => p.name === 'Kp_pos')!.value).replace(/^0\.0*|[.-]|e.*$/g, '').length).toBeLessThanOrEqual(4);
-    const after = await page.evaluate(() => (window as unknown as { __loopwright: { historySize(): { past: number } } }).__loopwright.historySize().past);
+    const after = await page.evaluate(
+      () => (window as unknown as { __loopwright: { historySize(): { past: number } } }).__loopwright.historySize().past,
+    );
     expect(after).toBe(before + 1);
   });
 
@@ -209,7 +229,12 @@ describe('analysis views', () => {
       const gen = s0.generation;
       await page.mouse.move(at.x, at.y);
       await page.mouse.click(at.x, at.y);
-      await page.waitForFunction((g) => (window as unknown as { __loopwright: { analysis: { state(): { generation: number } } } }).__loopwright.analysis.state().generation > g, gen);
+      await page.waitForFunction(
+        (g) =>
+          (window as unknown as { __loopwright: { analysis: { state(): { generation: number } } } }).__loopwright.analysis.state()
+            .generation > g,
+        gen,
+      );
       const s1 = await settled(page);
       const nearest = Math.min(...s1.poles!.map((p) => dist(p, target)));
       expect(nearest / Math.hypot(target.re, target.im), `pole near the clicked point ${target.re} ${target.im}`).toBeLessThan(0.01);
@@ -227,10 +252,17 @@ describe('analysis views', () => {
     await settled(page);
     const file = join(downloads, 'positioning-axis.loop.json');
     writeFileSync(file, serializeDiagram(d));
-    const r = spawnSync(process.execPath, [join(ROOT, 'apps/cli/bin/loopwright.mjs'), 'loops', file, '--json'], { cwd: ROOT, encoding: 'utf8' });
+    const r = spawnSync(process.execPath, [join(ROOT, 'apps/cli/bin/loopwright.mjs'), 'loops', file, '--json'], {
+      cwd: ROOT,
+      encoding: 'utf8',
+    });
     expect(r.status, r.stderr).toBe(0);
     const cli = JSON.parse(r.stdout) as {
-      cuts: { cut: string; margins: Record<string, number | boolean | null>; alone?: { opened: string[]; margins: Record<string, number | boolean | null> } }[];
+      cuts: {
+        cut: string;
+        margins: Record<string, number | boolean | null>;
+        alone?: { opened: string[]; margins: Record<string, number | boolean | null> };
+      }[];
     };
     await page.getByRole('tab', { name: 'Loops' }).click();
     await settled(page);
@@ -240,12 +272,23 @@ describe('analysis views', () => {
     // Each cut's row (other loops closed) and, for an enclosed loop, its inner-first row (loops around it opened).
     const readings = cli.cuts.flatMap((c) => [
       { name: c.cut, row: `tr[data-cut="${c.cut}"]`, margins: c.margins },
-      ...(c.alone && c.alone.opened.length ? [{ name: `${c.cut} inner-first`, row: `tr[data-cut-alone="${c.cut}"]`, margins: c.alone.margins }] : []),
+      ...(c.alone && c.alone.opened.length
+        ? [{ name: `${c.cut} inner-first`, row: `tr[data-cut-alone="${c.cut}"]`, margins: c.alone.margins }]
+        : []),
     ]);
     expect(readings.length).toBeGreaterThan(cli.cuts.length);
     for (const c of readings.map((x) => ({ cut: x.name, rowSel: x.row, margins: x.margins }))) {
       const row = table.locator(c.rowSel);
-      for (const field of ['gainCrossover', 'phaseMarginDeg', 'gainMarginDb', 'phaseCrossover', 'delayMargin', 'peakSensitivity', 'bandwidth', 'closedLoopStable']) {
+      for (const field of [
+        'gainCrossover',
+        'phaseMarginDeg',
+        'gainMarginDb',
+        'phaseCrossover',
+        'delayMargin',
+        'peakSensitivity',
+        'bandwidth',
+        'closedLoopStable',
+      ]) {
         const cell = row.locator(`td[data-field="${field}"]`);
         const raw = await cell.getAttribute('data-value');
         const want = c.margins[field];
@@ -266,10 +309,14 @@ describe('analysis views', () => {
       const [chart] = selector.split(':');
       if (chart !== 'traces' && chart !== 'report') {
         // A chart exports once it is drawn; under load the redraw after a tab switch can lag.
-        await page.waitForFunction((name) => {
-          const h = (window as unknown as { __loopwright?: { analysis?: { chartOption(n: string): unknown } } }).__loopwright?.analysis;
-          return !!h && h.chartOption(name) != null;
-        }, chart, { timeout: 30_000, polling: 50 });
+        await page.waitForFunction(
+          (name) => {
+            const h = (window as unknown as { __loopwright?: { analysis?: { chartOption(n: string): unknown } } }).__loopwright?.analysis;
+            return !!h && h.chartOption(name) != null;
+          },
+          chart,
+          { timeout: 30_000, polling: 50 },
+        );
       }
       // A chart being redrawn at the moment of the click (a late worker reply) answers with a
       // notice asking to export again, as a user would be told; the test then clicks again.
@@ -337,7 +384,13 @@ describe('analysis views', () => {
     await settled(page);
     await page.getByTestId('pin').click();
     // Pinning waits for every result of the current inputs (hidden views included).
-    await page.waitForFunction(() => (window as unknown as { __loopwright: { analysis: { state(): { pinned: unknown } } } }).__loopwright.analysis.state().pinned !== null, undefined, { timeout: 20_000 });
+    await page.waitForFunction(
+      () =>
+        (window as unknown as { __loopwright: { analysis: { state(): { pinned: unknown } } } }).__loopwright.analysis.state().pinned !==
+        null,
+      undefined,
+      { timeout: 20_000 },
+    );
     const drag = await dragSliderTo(page, 0.2);
     await drag.release();
     await settled(page);
@@ -371,7 +424,12 @@ describe('analysis views', () => {
     await page.mouse.move(5, 5);
     await page.getByLabel('k < 0').check();
     await page.getByLabel('ωn', { exact: true }).check();
-    await expect.poll(async () => ((await state(page)).locus as unknown as { oppositeBranches: unknown[] | null } | null)?.oppositeBranches?.length ?? 0, { timeout: 20_000 }).toBeGreaterThan(0);
+    await expect
+      .poll(
+        async () => ((await state(page)).locus as unknown as { oppositeBranches: unknown[] | null } | null)?.oppositeBranches?.length ?? 0,
+        { timeout: 20_000 },
+      )
+      .toBeGreaterThan(0);
     await settled(page);
     await page.waitForTimeout(150);
     await screenshot(page, 'analysis-locus-negative');

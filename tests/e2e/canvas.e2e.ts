@@ -14,7 +14,22 @@ import type { Page } from 'playwright-core';
 import { demoDiagrams, serializeDiagram, type Diagram } from '@loopwright/graph';
 import { roundSignificant } from '@loopwright/lti';
 import { openEditor, screenshot, type EditorSession } from './harness.ts';
-import { getDiagram, getSelection, history, intersects, lane, pointOnWire, rectOf, selectBlock, setField, toScreen, viewSettled, wire, wirePath, type Rect } from './ui.ts';
+import {
+  getDiagram,
+  getSelection,
+  history,
+  intersects,
+  lane,
+  pointOnWire,
+  rectOf,
+  selectBlock,
+  setField,
+  toScreen,
+  viewSettled,
+  wire,
+  wirePath,
+  type Rect,
+} from './ui.ts';
 import { LANE_GAP } from '@loopwright/editor/testing';
 
 const inside = (a: Rect, outer: Rect, slack = 1) =>

@@ -242,29 +242,46 @@ describe('editor', () => {
 
   it('a corrupt or invalid file opens nothing, says why, and leaves the diagram untouched', async () => {
     const before = await getDiagram(page);
-    await page.getByTestId('open-file-input').setInputFiles({ name: 'broken.loop.json', mimeType: 'application/json', buffer: Buffer.from('{"format": "loopwright.diagram", "blocks": [ {') });
+    await page
+      .getByTestId('open-file-input')
+      .setInputFiles({
+        name: 'broken.loop.json',
+        mimeType: 'application/json',
+        buffer: Buffer.from('{"format": "loopwright.diagram", "blocks": [ {'),
+      });
     const alert = page.getByRole('alert', { name: 'Error', exact: true });
     await expect.poll(() => alert.textContent()).toMatch(/Could not open broken\.loop\.json/);
     expect(await getDiagram(page)).toEqual(before);
     // Valid JSON, but a PID gain that is a list: the message names the block and the field.
     const bad = JSON.parse(serializeDiagram(built)) as Diagram;
     (bad.blocks.find((b) => b.id === 'pid1')!.params as Record<string, unknown>).kp = [1, 2];
-    await page.getByTestId('open-file-input').setInputFiles({ name: 'dangling.loop.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(bad)) });
+    await page
+      .getByTestId('open-file-input')
+      .setInputFiles({ name: 'dangling.loop.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(bad)) });
     await expect.poll(() => alert.textContent()).toMatch(/dangling\.loop\.json.*pid1.*kp/s);
     expect(await getDiagram(page)).toEqual(before);
   });
 
   it('a finding marks its culprit and clicking it selects the culprit', async () => {
-    if (await page.getByRole('button', { name: 'Dismiss message' }).count()) await page.getByRole('button', { name: 'Dismiss message' }).click();
+    if (await page.getByRole('button', { name: 'Dismiss message' }).count())
+      await page.getByRole('button', { name: 'Dismiss message' }).click();
     await selectBlock(page, 'sum1');
     // Disconnect the feedback input: the junction now has an undriven input.
     await page.getByLabel('Input in2 of sum1 comes from').selectOption('');
     const item = page.locator('.finding', { hasText: 'sum1' }).first();
     await expect.poll(() => item.count()).toBe(1);
     await page.locator('.react-flow__pane').click({ position: { x: 5, y: 5 } });
-    expect((await page.evaluate(() => (window as unknown as { __loopwright: { getSelection(): { blocks: string[] } } }).__loopwright.getSelection())).blocks).toEqual([]);
+    expect(
+      (
+        await page.evaluate(() =>
+          (window as unknown as { __loopwright: { getSelection(): { blocks: string[] } } }).__loopwright.getSelection(),
+        )
+      ).blocks,
+    ).toEqual([]);
     await item.click();
-    const sel = await page.evaluate(() => (window as unknown as { __loopwright: { getSelection(): { blocks: string[] } } }).__loopwright.getSelection());
+    const sel = await page.evaluate(() =>
+      (window as unknown as { __loopwright: { getSelection(): { blocks: string[] } } }).__loopwright.getSelection(),
+    );
     expect(sel.blocks).toContain('sum1');
     expect(await page.locator('[data-block="sum1"]').getAttribute('class')).toMatch(/fault-/);
     await page.getByRole('button', { name: 'Undo' }).click();
@@ -299,7 +316,16 @@ describe('editor', () => {
       return { x: p.x * m.a + p.y * m.c + m.e, y: p.x * m.b + p.y * m.d + m.f };
     });
     await page.mouse.click(onWire.x, onWire.y);
-    await expect.poll(async () => (await page.evaluate(() => (window as unknown as { __loopwright: { getSelection(): { wires: string[] } } }).__loopwright.getSelection())).wires).toEqual(['w6']);
+    await expect
+      .poll(
+        async () =>
+          (
+            await page.evaluate(() =>
+              (window as unknown as { __loopwright: { getSelection(): { wires: string[] } } }).__loopwright.getSelection(),
+            )
+          ).wires,
+      )
+      .toEqual(['w6']);
     await page.getByRole('button', { name: 'Cut wire w6' }).click();
     expect((await getDiagram(page)).cuts).toEqual([{ id: 'cut1', wire: 'w6' }]);
     await expect.poll(() => page.getByTestId('cut-cut1').count()).toBe(1);
@@ -317,17 +343,24 @@ describe('editor', () => {
 
     const before = (await history(page)).past;
     await page.getByRole('button', { name: 'Tidy layout' }).click();
-    await expect.poll(async () => JSON.stringify((await getDiagram(page)).blocks.map((b) => b.position))).not.toBe(JSON.stringify(built.blocks.map((b) => b.position)));
+    await expect
+      .poll(async () => JSON.stringify((await getDiagram(page)).blocks.map((b) => b.position)))
+      .not.toBe(JSON.stringify(built.blocks.map((b) => b.position)));
     expect((await history(page)).past).toBe(before + 1);
     await page.waitForTimeout(200);
     // Left to right along the forward path, and no two cards overlap on screen.
     const tidy = await getDiagram(page);
     const x = (id: string) => tidy.blocks.find((b) => b.id === id)!.position.x;
-    expect(x('src1') < x('sum1') && x('sum1') < x('pid1') && x('pid1') < x('sat1') && x('sat1') < x('tf1') && x('tf1') < x('probe1')).toBe(true);
-    const rects = await page.locator('.react-flow__node').evaluateAll((els) => els.map((e) => e.getBoundingClientRect().toJSON() as DOMRect));
+    expect(x('src1') < x('sum1') && x('sum1') < x('pid1') && x('pid1') < x('sat1') && x('sat1') < x('tf1') && x('tf1') < x('probe1')).toBe(
+      true,
+    );
+    const rects = await page
+      .locator('.react-flow__node')
+      .evaluateAll((els) => els.map((e) => e.getBoundingClientRect().toJSON() as DOMRect));
     for (let i = 0; i < rects.length; i++)
       for (let j = i + 1; j < rects.length; j++) {
-        const a = rects[i], b = rects[j];
+        const a = rects[i],
+          b = rects[j];
         const overlap = a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
         expect(overlap, `nodes ${i} and ${j} overlap`).toBe(false);
       }
@@ -345,7 +378,16 @@ describe('editor', () => {
     await page.mouse.move(paneBox.x + paneBox.width - 4, paneBox.y + paneBox.height - 4, { steps: 8 });
     await page.mouse.up();
     await page.keyboard.up('Shift');
-    await expect.poll(async () => (await page.evaluate(() => (window as unknown as { __loopwright: { getSelection(): { blocks: string[] } } }).__loopwright.getSelection())).blocks.length).toBe(built.blocks.length);
+    await expect
+      .poll(
+        async () =>
+          (
+            await page.evaluate(() =>
+              (window as unknown as { __loopwright: { getSelection(): { blocks: string[] } } }).__loopwright.getSelection(),
+            )
+          ).blocks.length,
+      )
+      .toBe(built.blocks.length);
     await page.keyboard.press('Escape');
 
     // Moving a block: by mouse drag (snapped to the grid), then by arrow key; one step each.

@@ -93,7 +93,16 @@ export async function openEditor(opts: OpenOptions = {}): Promise<EditorSession>
     headless: true,
     viewport: { width: opts.width ?? 1280, height: opts.height ?? 800 },
     acceptDownloads: true,
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
   });
   const page = context.pages()[0] ?? (await context.newPage());
   const errors: string[] = [];

@@ -22,7 +22,15 @@ if (specs.length === 0) {
 }
 const r = spawnSync(
   'npx',
-  ['vitest', 'run', '-c', 'tests/e2e/vitest.e2e.config.ts', '--reporter=default', '--reporter=json', '--outputFile.json=test-artifacts/e2e.json'],
+  [
+    'vitest',
+    'run',
+    '-c',
+    'tests/e2e/vitest.e2e.config.ts',
+    '--reporter=default',
+    '--reporter=json',
+    '--outputFile.json=test-artifacts/e2e.json',
+  ],
   { stdio: 'inherit' },
 );
 process.exit(r.status ?? 1);

@@ -33,7 +33,9 @@ describe('sampled controllers in the editor', () => {
     await page.getByRole('tab', { name: 'Frequency' }).click();
     await page.getByLabel('Cut shown').selectOption('cut-current');
     const panel = page.getByTestId('sampled-loop');
-    await expect.poll(async () => (await panel.count()) > 0 && (await panel.textContent()), { timeout: 30_000 }).toMatch(/read at current-controller/);
+    await expect
+      .poll(async () => (await panel.count()) > 0 && (await panel.textContent()), { timeout: 30_000 })
+      .toMatch(/read at current-controller/);
     const text = (await panel.textContent())!;
     expect(text).toMatch(/T = 62\.5e-6 s/);
     expect(text).toMatch(/continuous estimate/);
@@ -84,7 +86,12 @@ describe('sampled controllers in the editor', () => {
     });
     await button.click();
     await got;
-    expect(Object.keys(files).sort()).toEqual(['current_controller.c', 'current_controller.h', 'current_controller.vector.json', 'current_controller_check.c']);
+    expect(Object.keys(files).sort()).toEqual([
+      'current_controller.c',
+      'current_controller.h',
+      'current_controller.vector.json',
+      'current_controller_check.c',
+    ]);
     expect(files['current_controller.c']).toMatch(/current_controller_step/);
     const v = JSON.parse(files['current_controller.vector.json']);
     expect(v.sampleTime).toBe(6.25e-5);

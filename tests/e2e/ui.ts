@@ -116,18 +116,21 @@ export const rectOf = (page: Page, selector: string) =>
     }),
   );
 
-
 // The analysis views through the test hook (`window.__loopwright.analysis`, read only).
 
 /** What the analysis hook reports now (the caller names the fields it reads). */
 export const analysisState = <T>(page: Page) =>
-  page.evaluate(() => (window as unknown as { __loopwright: { analysis: { state(): unknown } } }).__loopwright.analysis.state()) as Promise<T>;
+  page.evaluate(() =>
+    (window as unknown as { __loopwright: { analysis: { state(): unknown } } }).__loopwright.analysis.state(),
+  ) as Promise<T>;
 
 /** Waits until every view has drawn the results of the latest input change (poles and a run in). */
 export async function analysisSettled<T>(page: Page, timeout = 30_000): Promise<T> {
   await page.waitForFunction(
     () => {
-      const h = (window as unknown as { __loopwright?: { analysis?: { state(): { complete: boolean; poles: unknown; response: unknown } } } }).__loopwright?.analysis;
+      const h = (
+        window as unknown as { __loopwright?: { analysis?: { state(): { complete: boolean; poles: unknown; response: unknown } } } }
+      ).__loopwright?.analysis;
       if (!h) return false;
       const s = h.state();
       return s.complete && s.poles !== null && s.response !== null;

@@ -57,9 +57,31 @@ function expectMethodsAgree(d: Diagram, from: string, to: string) {
 /** R27/R28 cascade: r → e1 → C1 → e2 → C2 → G2 → G1 → y, H2 from G2 into e2, H1 from G1 into e1. */
 const cascade = (c1: number, c2: number, g2tau: number, g2k: number, h2: number) =>
   diagram(
-    [['r', 'source'], ['e1', 'summing-junction', { signs: '+-' }], ['C1', 'gain', { k: c1 }], ['e2', 'summing-junction', { signs: '+-' }], ['C2', 'gain', { k: c2 }],
-      ['G2', 'first-order-lag', { k: g2k, tau: g2tau }], ['H2', 'gain', { k: h2 }], ['G1', 'integrator', { k: 1 }], ['y', 'probe'], ['yi', 'probe']],
-    ['r->e1.in1', 'e1->C1', 'C1->e2.in1', 'e2->C2', 'C2->G2', 'G2->H2', 'inner:H2->e2.in2', 'G2->G1', 'outer:G1->e1.in2', 'G1->y', 'G2->yi'],
+    [
+      ['r', 'source'],
+      ['e1', 'summing-junction', { signs: '+-' }],
+      ['C1', 'gain', { k: c1 }],
+      ['e2', 'summing-junction', { signs: '+-' }],
+      ['C2', 'gain', { k: c2 }],
+      ['G2', 'first-order-lag', { k: g2k, tau: g2tau }],
+      ['H2', 'gain', { k: h2 }],
+      ['G1', 'integrator', { k: 1 }],
+      ['y', 'probe'],
+      ['yi', 'probe'],
+    ],
+    [
+      'r->e1.in1',
+      'e1->C1',
+      'C1->e2.in1',
+      'e2->C2',
+      'C2->G2',
+      'G2->H2',
+      'inner:H2->e2.in2',
+      'G2->G1',
+      'outer:G1->e1.in2',
+      'G1->y',
+      'G2->yi',
+    ],
   );
 
 describe('two-loop cascades (block-diagram algebra)', () => {
@@ -88,7 +110,14 @@ describe('two-loop cascades (block-diagram algebra)', () => {
     expect(rootError(t.poles, [cx(-2, Math.SQRT2), cx(-2, -Math.SQRT2)])).toBeLessThanOrEqual(1e-4);
     // Inner loop alone (outer cut opened): a diagram of only C2, G2, H2.
     const innerOnly = diagram(
-      [['r', 'source'], ['e2', 'summing-junction', { signs: '+-' }], ['C2', 'gain', { k: 1 }], ['G2', 'first-order-lag', { k: 0.5, tau: 0.5 }], ['H2', 'gain', { k: 2 }], ['y', 'probe']],
+      [
+        ['r', 'source'],
+        ['e2', 'summing-junction', { signs: '+-' }],
+        ['C2', 'gain', { k: 1 }],
+        ['G2', 'first-order-lag', { k: 0.5, tau: 0.5 }],
+        ['H2', 'gain', { k: 2 }],
+        ['y', 'probe'],
+      ],
       ['r->e2.in1', 'e2->C2', 'C2->G2', 'G2->H2', 'H2->e2.in2', 'G2->y'],
     );
     const inner = closedLoop(innerOnly, { block: 'r' }, { block: 'y' });
@@ -102,15 +131,48 @@ describe('two-loop cascades (block-diagram algebra)', () => {
 /** The signal-flow graph of R29/R30 as a diagram: x1 = R + H1·x2 + H2·x3 and x4 = G3·x3 + H3·x5. */
 const masonDiagram = (g: [BlockKind, Record<string, ParamValue>][], h: number[]) =>
   diagram(
-    [['R', 'source'], ['x1', 'summing-junction', { signs: '+++' }], ['G1', ...g[0]], ['G2', ...g[1]], ['G3', ...g[2]], ['x4', 'summing-junction', { signs: '++' }], ['G4', ...g[3]],
-      ['H1', 'gain', { k: h[0] }], ['H2', 'gain', { k: h[1] }], ['H3', 'gain', { k: h[2] }], ['C', 'probe']],
-    ['R->x1.in1', 'x1->G1', 'G1->G2', 'G2->G3', 'G3->x4.in1', 'x4->G4', 'G1->H1', 'H1->x1.in2', 'G2->H2', 'H2->x1.in3', 'G4->H3', 'H3->x4.in2', 'G4->C'],
+    [
+      ['R', 'source'],
+      ['x1', 'summing-junction', { signs: '+++' }],
+      ['G1', ...g[0]],
+      ['G2', ...g[1]],
+      ['G3', ...g[2]],
+      ['x4', 'summing-junction', { signs: '++' }],
+      ['G4', ...g[3]],
+      ['H1', 'gain', { k: h[0] }],
+      ['H2', 'gain', { k: h[1] }],
+      ['H3', 'gain', { k: h[2] }],
+      ['C', 'probe'],
+    ],
+    [
+      'R->x1.in1',
+      'x1->G1',
+      'G1->G2',
+      'G2->G3',
+      'G3->x4.in1',
+      'x4->G4',
+      'G1->H1',
+      'H1->x1.in2',
+      'G2->H2',
+      'H2->x1.in3',
+      'G4->H3',
+      'H3->x4.in2',
+      'G4->C',
+    ],
   );
 
 describe("Mason's gain formula: touching and non-touching loops", () => {
   it('R29: L1 = −1, L2 = −0.6, L3 = −1, P1 = 24, Δ = 5.2, T = 4.6154', () => {
     // Mason (1956) (from memory); Nise, Sec. 5.5 (from memory); instance derived in the reference table [R29]
-    const d = masonDiagram([['gain', { k: 2 }], ['gain', { k: 3 }], ['gain', { k: 1 }], ['gain', { k: 4 }]], [-0.5, -0.1, -0.25]);
+    const d = masonDiagram(
+      [
+        ['gain', { k: 2 }],
+        ['gain', { k: 3 }],
+        ['gain', { k: 1 }],
+        ['gain', { k: 4 }],
+      ],
+      [-0.5, -0.1, -0.25],
+    );
     const t = closedLoop(d, { block: 'R' }, { block: 'C' });
     // Every block is a constant gain, so the unnormalised denominator is Mason's Δ itself.
     expect(t.rawDenominator.length).toBe(1);
@@ -119,7 +181,16 @@ describe("Mason's gain formula: touching and non-touching loops", () => {
     expect(Math.abs(t.staticGain - 4.6154)).toBeLessThanOrEqual(1e-4);
     // The loop gains, each read at a cut (L_cut = −loop gain with the 1 + L convention, the others closed
     // — so read here with the other loops' feedback gains set to zero).
-    const only = (h: number[]) => masonDiagram([['gain', { k: 2 }], ['gain', { k: 3 }], ['gain', { k: 1 }], ['gain', { k: 4 }]], h);
+    const only = (h: number[]) =>
+      masonDiagram(
+        [
+          ['gain', { k: 2 }],
+          ['gain', { k: 3 }],
+          ['gain', { k: 1 }],
+          ['gain', { k: 4 }],
+        ],
+        h,
+      );
     expect(Math.abs(-poly.evalReal(loopAtCut(only([-0.5, 0, 0]), 'w8').rational.num, 0) - -1)).toBeLessThanOrEqual(1e-4);
     expect(Math.abs(-poly.evalReal(loopAtCut(only([0, -0.1, 0]), 'w10').rational.num, 0) - -0.6)).toBeLessThanOrEqual(1e-4);
     expect(Math.abs(-poly.evalReal(loopAtCut(only([0, 0, -0.25]), 'w12').rational.num, 0) - -1)).toBeLessThanOrEqual(1e-4);
@@ -129,7 +200,12 @@ describe("Mason's gain formula: touching and non-touching loops", () => {
     // Derived in the reference table from the formula of R29 [R30]
     // G1 = 1/(s+1), G2 = 2/s, G3 = 1, G4 = 3/(s+4) (first-order lag k = 0.75, tau = 0.25); H = −1.
     const d = masonDiagram(
-      [['first-order-lag', { k: 1, tau: 1 }], ['integrator', { k: 2 }], ['gain', { k: 1 }], ['first-order-lag', { k: 0.75, tau: 0.25 }]],
+      [
+        ['first-order-lag', { k: 1, tau: 1 }],
+        ['integrator', { k: 2 }],
+        ['gain', { k: 1 }],
+        ['first-order-lag', { k: 0.75, tau: 0.25 }],
+      ],
       [-1, -1, -1],
     );
     const t = closedLoop(d, { block: 'R' }, { block: 'C' });

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { dampingFromOvershoot, exactStepResponse, overshootFromDamping, rational, responseMetrics, secondOrderFigures } from '@loopwright/lti';
+import {
+  dampingFromOvershoot,
+  exactStepResponse,
+  overshootFromDamping,
+  rational,
+  responseMetrics,
+  secondOrderFigures,
+} from '@loopwright/lti';
 
 /** Analytic unit-step response of ωn²/(s² + 2ζωn s + ωn²), 0 < ζ < 1 (Ogata, Sec. 5-3, from memory). */
 function secondOrderStep(zeta: number, wn: number, t: number): number {
@@ -12,9 +19,18 @@ const grid = (tEnd: number, dt: number) => Array.from({ length: Math.round(tEnd 
 describe('response metrics against published formulas', () => {
   it('R17: %OS = 100·exp(−ζπ/√(1 − ζ²)) and its inverse', () => {
     // Ogata, Sec. 5-3; Nise, Sec. 4.6, Eqs. (4.38)–(4.39) (from memory) [R17]
-    const os: [number, number][] = [[0.3, 37.23], [0.5, 16.3], [0.7, 4.6], [0.7071, 4.32]];
+    const os: [number, number][] = [
+      [0.3, 37.23],
+      [0.5, 16.3],
+      [0.7, 4.6],
+      [0.7071, 4.32],
+    ];
     for (const [z, pct] of os) expect(Math.abs(overshootFromDamping(z) - pct)).toBeLessThanOrEqual(0.01);
-    const zs: [number, number][] = [[5, 0.69011], [10, 0.59116], [20, 0.45595]];
+    const zs: [number, number][] = [
+      [5, 0.69011],
+      [10, 0.59116],
+      [20, 0.45595],
+    ];
     for (const [pct, z] of zs) {
       expect(Math.abs(dampingFromOvershoot(pct) - z)).toBeLessThanOrEqual(1e-5);
       expect(Math.abs(overshootFromDamping(dampingFromOvershoot(pct)) - pct)).toBeLessThanOrEqual(1e-10);

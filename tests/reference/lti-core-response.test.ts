@@ -1,15 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import {
-  errorConstants,
-  exactStepResponse,
-  padeDelay,
-  poly,
-  radd,
-  rational,
-  rdiv,
-  rconst,
-  steadyStateError,
-} from '@loopwright/lti';
+import { errorConstants, exactStepResponse, padeDelay, poly, radd, rational, rdiv, rconst, steadyStateError } from '@loopwright/lti';
 
 describe('exact step responses against analytic solutions', () => {
   it('R20: 4/(s² + 2s + 4), y = 1 − e^(−t)(cos √3t + sin √3t/√3)', () => {

@@ -37,7 +37,9 @@ describe('Routh–Hurwitz array against textbook examples', () => {
     expect(r.auxiliary).toEqual(poly.fromDescending([7, 0, 42, 0, 56]));
     expect([r.rhp, r.jw, r.lhp]).toEqual([0, 4, 1]);
     // The auxiliary polynomial's roots are the jω-axis roots ±j√2, ±2j.
-    const im = polyRoots(r.auxiliary!).map((z) => Math.abs(z.im)).sort((a, b) => a - b);
+    const im = polyRoots(r.auxiliary!)
+      .map((z) => Math.abs(z.im))
+      .sort((a, b) => a - b);
     const want = [Math.SQRT2, Math.SQRT2, 2, 2];
     im.forEach((v, i) => expect(Math.abs(v - want[i])).toBeLessThanOrEqual(1e-4));
     for (const z of polyRoots(r.auxiliary!)) expect(Math.abs(z.re)).toBeLessThanOrEqual(1e-4);

@@ -6,7 +6,15 @@
 // GM/PM definitions: Ogata, Sec. 7-6 (from memory).
 import { describe, expect, it } from 'vitest';
 import { cabs, loopMargins, poly, tfFromCoefficients } from '@loopwright/lti';
-import { holdEquivalent, juryTest, pulseMargins, sampledLocus, sampledMargins, unitCircleRootCount, zPlaneLocus } from '@loopwright/sampled';
+import {
+  holdEquivalent,
+  juryTest,
+  pulseMargins,
+  sampledLocus,
+  sampledMargins,
+  unitCircleRootCount,
+  zPlaneLocus,
+} from '@loopwright/sampled';
 
 const fd = poly.fromDescending;
 const near = (a: number | null | undefined, b: number, tol: number) => {
@@ -102,7 +110,9 @@ describe('R60: 1/(s(s + 1)(s + 2)) behind a hold: the critical gain tends to the
     });
   }
   it('the limit: |Kcrit(T) − 6| shrinks with T', () => {
-    const err = [1, 0.1, 0.01, 0.001].map((T) => Math.abs(sampledLocus({ plant: tfFromCoefficients([1], fd([1, 3, 2, 0])), sampleTime: T }).criticalGain! - 6));
+    const err = [1, 0.1, 0.01, 0.001].map((T) =>
+      Math.abs(sampledLocus({ plant: tfFromCoefficients([1], fd([1, 3, 2, 0])), sampleTime: T }).criticalGain! - 6),
+    );
     for (let i = 1; i < err.length; i++) expect(err[i]).toBeLessThan(err[i - 1]);
     expect(err[3]).toBeLessThan(0.01);
   });

@@ -5,7 +5,14 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { poly } from '@loopwright/lti';
-import { type DiscretePid, createControllerState, discretizeController, filterSequence, runController, stepController } from '@loopwright/sampled';
+import {
+  type DiscretePid,
+  createControllerState,
+  discretizeController,
+  filterSequence,
+  runController,
+  stepController,
+} from '@loopwright/sampled';
 
 const near = (a: number, b: number, tol: number) => expect(Math.abs(a - b)).toBeLessThanOrEqual(tol);
 

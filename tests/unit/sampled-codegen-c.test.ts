@@ -17,14 +17,22 @@ describe.skipIf(!hasCc)('generated C compiled with cc runs the test vector to 1e
     it(c.label, () => {
       const ctrl = c.make();
       const name = 'axis_ctrl';
-      const v = makeTestVector(ctrl, exerciseInput(500, 3), { name, initialOutput: -0.3, retunes: [{ atSample: 260, coefficients: c.retune().coefficients }] });
+      const v = makeTestVector(ctrl, exerciseInput(500, 3), {
+        name,
+        initialOutput: -0.3,
+        retunes: [{ atSample: 260, coefficients: c.retune().coefficients }],
+      });
       const dir = mkdtempSync(join(tmpdir(), 'loopwright-cc-'));
       try {
         const g = generateC(ctrl, name);
         const main = cTestProgram(ctrl, v, name);
         for (const f of [g.header, g.source, main]) writeFileSync(join(dir, f.path), f.text);
         const exe = join(dir, 'check');
-        const cc = spawnSync('cc', ['-std=c99', '-pedantic', '-Wall', '-Wextra', '-Werror', '-O2', '-o', exe, join(dir, main.path), join(dir, g.source.path), '-lm'], { encoding: 'utf8' });
+        const cc = spawnSync(
+          'cc',
+          ['-std=c99', '-pedantic', '-Wall', '-Wextra', '-Werror', '-O2', '-o', exe, join(dir, main.path), join(dir, g.source.path), '-lm'],
+          { encoding: 'utf8' },
+        );
         expect(cc.stderr).toBe('');
         expect(cc.status).toBe(0);
         const run = spawnSync(exe, [], { encoding: 'utf8' });

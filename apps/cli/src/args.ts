@@ -22,7 +22,10 @@ export function parseArgs(argv: string[], valueFlags: string[], booleanFlags: st
   for (const [name, v] of Object.entries(parsed.values)) {
     const list = (Array.isArray(v) ? v : [v]) as (string | boolean)[];
     if (list.some((x) => x === false)) continue;
-    flags.set(name, list.map((x) => (typeof x === 'string' ? x : '')));
+    flags.set(
+      name,
+      list.map((x) => (typeof x === 'string' ? x : '')),
+    );
   }
   return { positional: parsed.positionals, flags };
 }

@@ -13,10 +13,10 @@ import { findingText } from '@loopwright/study';
 import { errorReport, main } from './main.ts';
 import { fakeIo as makeIo } from './fake-io.ts';
 /** The shared fake io, with this file's positional options (standard input, failing writes). */
-const fakeIo = (files: Record<string, string> = {}, stdin?: string, failWrites = false) => makeIo(files, { ...(stdin !== undefined ? { stdin } : {}), failWrites });
+const fakeIo = (files: Record<string, string> = {}, stdin?: string, failWrites = false) =>
+  makeIo(files, { ...(stdin !== undefined ? { stdin } : {}), failWrites });
 // Test-only builders of the study package (not its public API).
 import { unityLoop } from '@loopwright/study/testing';
-
 
 /** r → e(+−) → gain K → 1/(s(s+2)) → y with unity feedback (a cut on the feedback wire), run for 5 s. */
 function loop(): Diagram {
@@ -89,7 +89,10 @@ describe('conventions', () => {
       const file = join(dir, 'axis.loop.json');
       writeFileSync(file, serializeDiagram(positioningAxis));
       const bin = resolve(import.meta.dirname, '..', 'bin', 'loopwright.mjs');
-      const r = spawnSync('bash', ['-c', `node "${bin}" simulate "${file}" --json 2>"${dir}/err" | head -1; cat "${dir}/err"`], { encoding: 'utf8', timeout: 60_000 });
+      const r = spawnSync('bash', ['-c', `node "${bin}" simulate "${file}" --json 2>"${dir}/err" | head -1; cat "${dir}/err"`], {
+        encoding: 'utf8',
+        timeout: 60_000,
+      });
       expect(r.stdout.split('\n')[0]).toBe('{');
       expect(r.stdout).not.toMatch(/EPIPE|Error/);
     } finally {
@@ -100,8 +103,16 @@ describe('conventions', () => {
 
 describe('one validation for every command (what check refuses)', () => {
   const cases: [string, (d: Diagram) => void, string][] = [
-    ['a wire into an output port', (d) => d.wires.push({ id: 'bad', from: { block: 'r', port: 'out' }, to: { block: 'k', port: 'out' } }), 'wire-into-output'],
-    ['two wires into one input', (d) => d.wires.push({ id: 'two', from: { block: 'r', port: 'out' }, to: { block: 'k', port: 'in' } }), 'multiple-drivers'],
+    [
+      'a wire into an output port',
+      (d) => d.wires.push({ id: 'bad', from: { block: 'r', port: 'out' }, to: { block: 'k', port: 'out' } }),
+      'wire-into-output',
+    ],
+    [
+      'two wires into one input',
+      (d) => d.wires.push({ id: 'two', from: { block: 'r', port: 'out' }, to: { block: 'k', port: 'in' } }),
+      'multiple-drivers',
+    ],
     ['a parameter defined twice', (d) => d.parameters.push({ name: 'K', value: 9 }), 'duplicate-parameter'],
     [
       'an ill-posed self-loop',

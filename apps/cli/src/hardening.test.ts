@@ -67,7 +67,9 @@ describe('commands that once did not end', () => {
   });
 
   it('loops on the positioning axis with T_enc = 59 s ends (exit 0) within the default limit', async () => {
-    const r = await timed(['loops', 'axis.loop.json', '--set', 'T_enc=59', '--json'], { 'axis.loop.json': serializeDiagram(positioningAxis) });
+    const r = await timed(['loops', 'axis.loop.json', '--set', 'T_enc=59', '--json'], {
+      'axis.loop.json': serializeDiagram(positioningAxis),
+    });
     expect(r.err).toBe('');
     expect(r.code).toBe(0);
     expect(r.ms).toBeLessThan(DEFAULT_TIME_LIMIT_S * 1000);
@@ -79,8 +81,12 @@ describe('--time-limit', () => {
   it('an analysis past the limit ends with exit 2 and a message naming the analysis and the limit (words and --json)', async () => {
     const r = await timed(['margins', '--loop', '(s+1)/(s+2)*exp(-s)', '--time-limit', '0.000001']);
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/^loopwright margins: margins: stopped at its time budget .*the time limit is 0\.000001 s \(--time-limit SECONDS to change it\)/);
-    const j = await timed(['loops', 'axis.loop.json', '--json', '--time-limit=0.000001', '--set', 'T_enc=0.0123'], { 'axis.loop.json': serializeDiagram(positioningAxis) });
+    expect(r.err).toMatch(
+      /^loopwright margins: margins: stopped at its time budget .*the time limit is 0\.000001 s \(--time-limit SECONDS to change it\)/,
+    );
+    const j = await timed(['loops', 'axis.loop.json', '--json', '--time-limit=0.000001', '--set', 'T_enc=0.0123'], {
+      'axis.loop.json': serializeDiagram(positioningAxis),
+    });
     expect(j.code).toBe(2);
     expect(JSON.parse(j.out).error.message).toMatch(/stopped at its time budget/);
   });

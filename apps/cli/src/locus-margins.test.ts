@@ -52,7 +52,9 @@ describe('loopwright locus --loop', () => {
 
   it('--param values and --negative', async () => {
     const f = fakeIo();
-    expect(await main(['locus', '--loop', 'K0/(s*(s+a)*(s+2))', '--param', 'K0=1', '--param', 'a=1', '--negative', '--json'], f.io)).toBe(0);
+    expect(await main(['locus', '--loop', 'K0/(s*(s+a)*(s+2))', '--param', 'K0=1', '--param', 'a=1', '--negative', '--json'], f.io)).toBe(
+      0,
+    );
     const j = JSON.parse(f.out());
     expect(j.negative).toBe(true);
     // The other root of 3s² + 6s + 2 = 0, on the k < 0 locus (Ogata, Example 6-1 (from memory)) [R02].

@@ -43,7 +43,8 @@ export function takeTimeLimit(words: readonly string[]): { rest: string[]; secon
       continue;
     }
     const x = Number(v);
-    if (v.trim() === '' || !(x > 0) || !Number.isFinite(x)) throw new UsageError(`--time-limit: "${v}" is not a number of seconds above 0`, '--time-limit');
+    if (v.trim() === '' || !(x > 0) || !Number.isFinite(x))
+      throw new UsageError(`--time-limit: "${v}" is not a number of seconds above 0`, '--time-limit');
     seconds = x;
   }
   return { rest, seconds };
@@ -63,7 +64,9 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
   }
   if (words.includes('--help') || words.includes('-h')) {
     const text = cmd.help.endsWith('\n') ? cmd.help : cmd.help + '\n';
-    io.stdout(`${text}\nEvery command: --time-limit SECONDS  stop past this wall time with a message naming what ran out (exit 2; default ${DEFAULT_TIME_LIMIT_S})\n`);
+    io.stdout(
+      `${text}\nEvery command: --time-limit SECONDS  stop past this wall time with a message naming what ran out (exit 2; default ${DEFAULT_TIME_LIMIT_S})\n`,
+    );
     return 0;
   }
   let seconds = DEFAULT_TIME_LIMIT_S;
@@ -74,7 +77,9 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
   } catch (err) {
     const report = errorReport(err);
     const { code, at } = report;
-    const message = isBudgetError(err) ? `${report.message}: the time limit is ${seconds} s (--time-limit SECONDS to change it)` : report.message;
+    const message = isBudgetError(err)
+      ? `${report.message}: the time limit is ${seconds} s (--time-limit SECONDS to change it)`
+      : report.message;
     // --json callers parse standard output: the error goes there too, as JSON.
     if (words.includes('--json')) io.stdout(toJson({ error: { message, at } }));
     io.stderr(`loopwright ${name}: ${message}\n`);

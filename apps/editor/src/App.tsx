@@ -23,7 +23,11 @@ function NoticeBar() {
   }, [notice]);
   if (!notice) return null;
   return (
-    <div className={`notice ${notice.kind}`} role={notice.kind === 'error' ? 'alert' : 'status'} aria-label={notice.kind === 'error' ? 'Error' : 'Status'}>
+    <div
+      className={`notice ${notice.kind}`}
+      role={notice.kind === 'error' ? 'alert' : 'status'}
+      aria-label={notice.kind === 'error' ? 'Error' : 'Status'}
+    >
       <span className="notice-title">{notice.title}</span>
       {notice.problems && (
         <ul>
@@ -129,7 +133,12 @@ export function App() {
         </section>
         <footer className="footer">
           <span>Results are design aids — validate on the real plant with limits and interlocks in place.</span>
-          <button type="button" aria-label="About and safety (footer)" title={SAFETY_TEXT} onClick={() => useUiStore.getState().setAboutOpen(true)}>
+          <button
+            type="button"
+            aria-label="About and safety (footer)"
+            title={SAFETY_TEXT}
+            onClick={() => useUiStore.getState().setAboutOpen(true)}
+          >
             About &amp; safety
           </button>
         </footer>

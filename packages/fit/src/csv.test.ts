@@ -128,10 +128,24 @@ describe('parseTestLogCsv', () => {
 
 describe('testLogColumns', () => {
   it('lists the header names, or "column N" without a header, and how the file reads', () => {
-    const text = '# logged 2026-04-13\ntime;valve;temp;flow\n' + rows(12, (i) => `${sample(i).t};${sample(i).u};${sample(i).y};3.5`.replaceAll('.', ','));
-    expect(testLogColumns(text)).toEqual({ names: ['time', 'valve', 'temp', 'flow'], header: true, separator: ';', decimal: ',', rows: 12 });
+    const text =
+      '# logged 2026-04-13\ntime;valve;temp;flow\n' +
+      rows(12, (i) => `${sample(i).t};${sample(i).u};${sample(i).y};3.5`.replaceAll('.', ','));
+    expect(testLogColumns(text)).toEqual({
+      names: ['time', 'valve', 'temp', 'flow'],
+      header: true,
+      separator: ';',
+      decimal: ',',
+      rows: 12,
+    });
     const bare = rows(12, (i) => `${sample(i).t},${sample(i).u},${sample(i).y}`);
-    expect(testLogColumns(bare)).toEqual({ names: ['column 1', 'column 2', 'column 3'], header: false, separator: ',', decimal: '.', rows: 12 });
+    expect(testLogColumns(bare)).toEqual({
+      names: ['column 1', 'column 2', 'column 3'],
+      header: false,
+      separator: ',',
+      decimal: '.',
+      rows: 12,
+    });
   });
   it('refuses an empty file as parseTestLogCsv does', () => {
     expect(thrown(() => testLogColumns('\n# nothing\n')).message).toBe('test log: the file has no rows');

@@ -31,7 +31,26 @@ function paths(root: Json): Path[] {
 const parentOf = (root: Json, path: Path): any => path.slice(0, -1).reduce((n: any, k) => (n == null ? n : n[k]), root);
 
 const weird = fc.oneof(
-  fc.constantFrom(null, true, false, 0, -1, 1e308, -1e308, 5e-324, 2 ** 53 + 1, '', ' ', 'Kp*', '1/(s+', '__proto__', 'exp(-s)', '+-+-+-+-+-+-+-+-+-', [], {}),
+  fc.constantFrom(
+    null,
+    true,
+    false,
+    0,
+    -1,
+    1e308,
+    -1e308,
+    5e-324,
+    2 ** 53 + 1,
+    '',
+    ' ',
+    'Kp*',
+    '1/(s+',
+    '__proto__',
+    'exp(-s)',
+    '+-+-+-+-+-+-+-+-+-',
+    [],
+    {},
+  ),
   fc.integer(),
   fc.double({ noNaN: true, noDefaultInfinity: true }),
   fc.string({ maxLength: 12 }),
@@ -92,7 +111,12 @@ function apply(doc: any, m: Mutation): void {
       // as JSON.parse would create it: an own property, never the prototype
       const target = Array.isArray(parent) ? parent[key as number] : parent;
       if (target && typeof target === 'object' && !Array.isArray(target)) {
-        Object.defineProperty(target, m.key, { value: { polluted: 'yes', prototype: { polluted: 'yes' } }, enumerable: true, configurable: true, writable: true });
+        Object.defineProperty(target, m.key, {
+          value: { polluted: 'yes', prototype: { polluted: 'yes' } },
+          enumerable: true,
+          configurable: true,
+          writable: true,
+        });
       }
       break;
     }
@@ -125,7 +149,17 @@ const smallLoop = JSON.stringify({
   simulation: { end: 5, probes: ['y'] },
   view: { activeCut: 'k1', activeProbe: 'y' },
 });
-const bases = [smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, smallLoop, ...demoDiagrams.map((d) => serializeDiagram(d.diagram))];
+const bases = [
+  smallLoop,
+  smallLoop,
+  smallLoop,
+  smallLoop,
+  smallLoop,
+  smallLoop,
+  smallLoop,
+  smallLoop,
+  ...demoDiagrams.map((d) => serializeDiagram(d.diagram)),
+];
 
 describe('document fuzz', () => {
   it('10,000 mutated documents load or give a clear InputError; fast; no prototype pollution', () => {

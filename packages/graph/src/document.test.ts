@@ -144,7 +144,7 @@ describe('versions', () => {
     bad.blocks[0].parameters.k = [1];
     expect(loadError(JSON.stringify(bad)).message).toContain('after upgrading the document from version 0 to 3');
   });
-  it('migrates version 1: the view\'s simulationEnd becomes simulation.end, the rest of the view stays', () => {
+  it("migrates version 1: the view's simulationEnd becomes simulation.end, the rest of the view stays", () => {
     const v1: any = JSON.parse(serializeDiagram(base()));
     v1.version = 1;
     delete v1.simulation;
@@ -186,7 +186,14 @@ describe('versions', () => {
 describe('fit records (version 3)', () => {
   const record = () => ({
     block: 'g',
-    source: { fileName: 'bump.csv', sha256: 'ab'.repeat(32), columns: { time: 't', input: 'u', output: 'y' }, samples: 301, firstRow: 2, lastRow: 302 },
+    source: {
+      fileName: 'bump.csv',
+      sha256: 'ab'.repeat(32),
+      columns: { time: 't', input: 'u', output: 'y' },
+      samples: 301,
+      firstRow: 2,
+      lastRow: 302,
+    },
     model: { kind: 'fopdt' as const, gain: 2, timeConstants: [5], deadTime: 1.5 },
     expression: '2*exp(-1.5*s)/(5*s+1)',
     quality: { nrmse: 0.0123, rmse: 0.01, confidence: 0.95 },
@@ -213,7 +220,13 @@ describe('fit records (version 3)', () => {
     expect(serializeDiagram(parseDiagram(text))).toBe(text);
   });
   it('refuses bad records naming the field', () => {
-    const bad = (edit: (f: any) => void) => loadError(withDoc((d) => { d.fits = [record()]; edit(d.fits[0]); })).message;
+    const bad = (edit: (f: any) => void) =>
+      loadError(
+        withDoc((d) => {
+          d.fits = [record()];
+          edit(d.fits[0]);
+        }),
+      ).message;
     expect(bad((f) => (f.source.sha256 = 'xyz'))).toContain('fits[0].source.sha256');
     expect(bad((f) => (f.model.kind = 'fourth-order'))).toContain('fits[0].model.kind');
     expect(bad((f) => (f.model.timeConstants = [-1]))).toContain('fits[0].model.timeConstants[0]: expected a time constant above 0 s');

@@ -91,8 +91,14 @@ interface ZodLikeIssue {
   expected?: string;
 }
 
-const TYPE_NAMES: Record<string, string> = { object: 'an object', array: 'a list', number: 'a number', string: 'a text', boolean: 'true or false' };
-const typeName = (t: string | undefined) => (t ? TYPE_NAMES[t] ?? t : 'another type');
+const TYPE_NAMES: Record<string, string> = {
+  object: 'an object',
+  array: 'a list',
+  number: 'a number',
+  string: 'a text',
+  boolean: 'true or false',
+};
+const typeName = (t: string | undefined) => (t ? (TYPE_NAMES[t] ?? t) : 'another type');
 /** A path to one element of `blocks` (where a failed kind match means "not a block"). */
 const path2kind = (path: readonly PropertyKey[]) => path.length === 2 && path[0] === 'blocks' && typeof path[1] === 'number';
 
@@ -113,9 +119,7 @@ function knownFieldsAt(root: Json, path: readonly PropertyKey[]): string | null 
 function formatIssue(root: Json, issue: ZodLikeIssue): string[] {
   if (issue.code === 'unrecognized_keys') {
     const known = knownFieldsAt(root, issue.path);
-    return (issue.keys ?? []).map(
-      (k) => `${pathLabel(root, [...issue.path, k])}: unknown field${known ? ` (${known})` : ''}`,
-    );
+    return (issue.keys ?? []).map((k) => `${pathLabel(root, [...issue.path, k])}: unknown field${known ? ` (${known})` : ''}`);
   }
   const where = pathLabel(root, issue.path);
   const { found, value } = valueAt(root, issue.path);
@@ -127,7 +131,8 @@ function formatIssue(root: Json, issue: ZodLikeIssue): string[] {
   if (path2kind(issue.path) && !isObject(value)) {
     msg = `expected a block (an object), got ${describeValue(value)}`;
   } else if (issue.code === 'too_big' && isDefaultMessage(issue.message)) {
-    msg = typeof value === 'string' ? `longer than ${issue.maximum} characters` : `${describeValue(value)} is above the limit ${issue.maximum}`;
+    msg =
+      typeof value === 'string' ? `longer than ${issue.maximum} characters` : `${describeValue(value)} is above the limit ${issue.maximum}`;
   } else if (issue.code === 'too_small' && isDefaultMessage(issue.message)) {
     msg = `${describeValue(value)} is below the limit ${issue.minimum}`;
   } else if (issue.code === 'invalid_type' && isDefaultMessage(issue.message)) {
@@ -143,7 +148,11 @@ function formatIssue(root: Json, issue: ZodLikeIssue): string[] {
 function failure(problems: string[], note = '', field?: string): DiagramError {
   const shown = problems.slice(0, 3).join('; ');
   const more = problems.length > 3 ? `; and ${problems.length - 3} more` : '';
-  return new DiagramError(`diagram does not load: ${shown}${more}${note}`, problems.map((p) => p + note), field ? { field } : {});
+  return new DiagramError(
+    `diagram does not load: ${shown}${more}${note}`,
+    problems.map((p) => p + note),
+    field ? { field } : {},
+  );
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -152,7 +161,12 @@ function failure(problems: string[], note = '', field?: string): DiagramError {
 /** Refuses object-internal keys and absurd nesting, iteratively (no recursion to overflow). */
 function scanKeys(root: Json): void {
   // Paths are rebuilt from parent links only when something is refused (keeps the scan cheap).
-  interface Entry { node: object; key: PropertyKey; parent: Entry | null; depth: number }
+  interface Entry {
+    node: object;
+    key: PropertyKey;
+    parent: Entry | null;
+    depth: number;
+  }
   const pathOf = (e: Entry | null): PropertyKey[] => {
     const out: PropertyKey[] = [];
     for (let x = e; x && x.parent; x = x.parent) out.unshift(x.key);
@@ -241,7 +255,9 @@ function upgrade(doc: Record<string, unknown>): { doc: Record<string, unknown>; 
   }
   const v = doc.version;
   if (typeof v !== 'number' || !Number.isInteger(v) || v < 0) {
-    throw failure([`version: ${'version' in doc ? describeValue(v) : 'missing'}: expected a whole number (this Loopwright reads versions 0 to ${DIAGRAM_VERSION})`]);
+    throw failure([
+      `version: ${'version' in doc ? describeValue(v) : 'missing'}: expected a whole number (this Loopwright reads versions 0 to ${DIAGRAM_VERSION})`,
+    ]);
   }
   if (v > DIAGRAM_VERSION) {
     throw failure([
@@ -305,7 +321,11 @@ export function parseDiagram(jsonText: string): Diagram {
     const msg = err instanceof Error ? err.message : String(err);
     const m = /position (\d+)/.exec(msg);
     const position = m ? Number(m[1]) : undefined;
-    throw new DiagramError(`diagram does not load: not valid JSON: ${msg}`, [`not valid JSON: ${msg}`], position !== undefined ? { position, length: 1 } : {});
+    throw new DiagramError(
+      `diagram does not load: not valid JSON: ${msg}`,
+      [`not valid JSON: ${msg}`],
+      position !== undefined ? { position, length: 1 } : {},
+    );
   }
   return validateDiagram(raw);
 }
@@ -353,12 +373,19 @@ const xy = (p: { x: number; y: number } | undefined, path: string) => (p ? pick(
 function serializeFit(f: FitRecord, path: string): Plain {
   return {
     block: f.block,
-    source: { ...pick(f.source, ['fileName', 'sha256'], `${path}.source`), columns: pick(f.source.columns, ['time', 'input', 'output'], `${path}.source.columns`), ...pick(f.source, ['samples', 'firstRow', 'lastRow'], `${path}.source`) },
+    source: {
+      ...pick(f.source, ['fileName', 'sha256'], `${path}.source`),
+      columns: pick(f.source.columns, ['time', 'input', 'output'], `${path}.source.columns`),
+      ...pick(f.source, ['samples', 'firstRow', 'lastRow'], `${path}.source`),
+    },
     model: pick(f.model, ['kind', 'gain', 'timeConstants', 'deadTime'], `${path}.model`),
     expression: f.expression,
     quality: pick(f.quality, ['nrmse', 'rmse', 'confidence'], `${path}.quality`),
     intervals: pick(f.intervals, ['gain', 'timeConstants', 'deadTime'], `${path}.intervals`),
-    method: { between: f.method.between, operatingPoint: pick(f.method.operatingPoint, ['input', 'output', 'samples'], `${path}.method.operatingPoint`) },
+    method: {
+      between: f.method.between,
+      operatingPoint: pick(f.method.operatingPoint, ['input', 'output', 'samples'], `${path}.method.operatingPoint`),
+    },
     fittedAt: f.fittedAt,
   };
 }
@@ -373,13 +400,13 @@ export function serializeDiagram(d: Diagram): string {
     version: d.version,
     title: d.title,
     description: d.description,
-    parameters: d.parameters.map((p, i) =>
-      pick(p, ['name', 'value', 'unit', 'min', 'max', 'scale', 'description'], `parameters[${i}]`),
-    ),
+    parameters: d.parameters.map((p, i) => pick(p, ['name', 'value', 'unit', 'min', 'max', 'scale', 'description'], `parameters[${i}]`)),
     blocks: d.blocks.map((b, i) => {
       const path = `blocks[${i}] (id "${b.id}")`;
       const order = isBlockKind(b.kind) ? blockSpec(b.kind).params.map((p) => p.name) : [];
-      const extra = Object.keys(b.params ?? {}).filter((k) => !order.includes(k)).sort();
+      const extra = Object.keys(b.params ?? {})
+        .filter((k) => !order.includes(k))
+        .sort();
       return {
         ...pick(b, ['id', 'kind', 'label'], path),
         position: xy(b.position, `${path}.position`),

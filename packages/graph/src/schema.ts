@@ -28,16 +28,16 @@ const ID_PATTERN = /^[A-Za-z0-9_][A-Za-z0-9_.:-]{0,63}$/;
  * Parameter names are identifiers; not `s` (the Laplace variable), `exp`, words the expression
  * language reserves, or object-internal names.
  */
-const NAME_PATTERN = /^(?!(?:s|exp|__proto__|constructor|prototype|mod|to|in|and|or|not|xor|true|false|null|undefined|NaN|Infinity)$)[A-Za-z_][A-Za-z0-9_]{0,63}$/;
+const NAME_PATTERN =
+  /^(?!(?:s|exp|__proto__|constructor|prototype|mod|to|in|and|or|not|xor|true|false|null|undefined|NaN|Infinity)$)[A-Za-z_][A-Za-z0-9_]{0,63}$/;
 
 const idSchema = z
   .string({ error: 'expected an id (a text)' })
   .regex(ID_PATTERN, { error: 'an id is 1–64 letters, digits, "_", ".", ":" or "-", starting with a letter, digit or "_"' });
-const nameSchema = z
-  .string({ error: 'expected a parameter name (a text)' })
-  .regex(NAME_PATTERN, {
-    error: 'a parameter name is an identifier (letters, digits, "_", not starting with a digit, at most 64), and not "s", "exp" or a reserved word',
-  });
+const nameSchema = z.string({ error: 'expected a parameter name (a text)' }).regex(NAME_PATTERN, {
+  error:
+    'a parameter name is an identifier (letters, digits, "_", not starting with a digit, at most 64), and not "s", "exp" or a reserved word',
+});
 const finiteNumber = (what = 'a finite number') => z.number({ error: `expected ${what}` });
 const text = (max: number) => z.string({ error: 'expected a text' }).max(max, { error: `longer than ${max} characters` });
 const coordinate = finiteNumber()
@@ -75,7 +75,7 @@ const blockVariants = catalogue.map((spec) =>
     .meta({ title: spec.title, description: spec.description }),
 );
 
-export const blockSchema = z.discriminatedUnion('kind', blockVariants as unknown as [typeof blockVariants[0], ...typeof blockVariants], {
+export const blockSchema = z.discriminatedUnion('kind', blockVariants as unknown as [(typeof blockVariants)[0], ...typeof blockVariants], {
   error: `unknown block kind; expected one of ${catalogue.map((s) => `"${s.kind}"`).join(', ')}`,
 });
 
@@ -147,7 +147,9 @@ export const fitRecordSchema = z.strictObject({
   model: z.strictObject({
     kind: z.enum(['fopdt', 'sopdt', 'ipdt'], { error: 'expected "fopdt", "sopdt" or "ipdt"' }),
     gain: finiteNumber(),
-    timeConstants: z.array(finiteNumber().positive({ error: 'expected a time constant above 0 s' })).max(2, { error: 'at most two time constants' }),
+    timeConstants: z
+      .array(finiteNumber().positive({ error: 'expected a time constant above 0 s' }))
+      .max(2, { error: 'at most two time constants' }),
     deadTime: finiteNumber().min(0, { error: 'expected a dead time ≥ 0 s' }),
   }),
   expression: text(LIMITS.maxExpressionLength),
@@ -172,7 +174,9 @@ export const diagramSchema = z
     version: z.literal(DIAGRAM_VERSION, { error: `expected ${DIAGRAM_VERSION}` }),
     title: text(200),
     description: text(LIMITS.maxTextLength),
-    parameters: z.array(namedParameterSchema, { error: 'expected a list' }).max(LIMITS.maxParameters, tooMany(LIMITS.maxParameters, 'named parameters')),
+    parameters: z
+      .array(namedParameterSchema, { error: 'expected a list' })
+      .max(LIMITS.maxParameters, tooMany(LIMITS.maxParameters, 'named parameters')),
     blocks: z.array(blockSchema, { error: 'expected a list' }).max(LIMITS.maxBlocks, tooMany(LIMITS.maxBlocks, 'blocks')),
     wires: z.array(wireSchema, { error: 'expected a list' }).max(LIMITS.maxWires, tooMany(LIMITS.maxWires, 'wires')),
     cuts: z.array(cutSchema, { error: 'expected a list' }).max(LIMITS.maxCuts, tooMany(LIMITS.maxCuts, 'cuts')),

@@ -77,7 +77,13 @@ export function cancelCommon(r: Rational, tol = 1e-8): Cancellation {
     cancelled.push(m, cx(m.re, -m.im));
   }
   if (cancelled.length === 0) return { result: r, cancelled: [] };
-  const newNum = P.fromRoots(zs.filter((_, i) => !usedZ[i]), P.lead(num));
-  const newDen = P.fromRoots(ps.filter((_, j) => !usedP[j]), P.lead(den));
+  const newNum = P.fromRoots(
+    zs.filter((_, i) => !usedZ[i]),
+    P.lead(num),
+  );
+  const newDen = P.fromRoots(
+    ps.filter((_, j) => !usedP[j]),
+    P.lead(den),
+  );
   return { result: rational(newNum, newDen), cancelled: cancelled.sort(compareComplex) };
 }

@@ -59,24 +59,47 @@ export function closedLoopPolesDetailed(num: readonly number[], den: readonly nu
   if (coeffs !== null && coeffs.length === 0) throw new InputError('the closed-loop characteristic polynomial 1 + L is identically zero');
   if (cn.length === 0) {
     const r = polyRootsDetailed(cd);
-    return { poles: r.roots, errors: r.errors, worstRelativeError: r.worstRelativeError, limited: r.worstRelativeError > ACCURACY_LIMIT, padeOrder };
+    return {
+      poles: r.roots,
+      errors: r.errors,
+      worstRelativeError: r.worstRelativeError,
+      limited: r.worstRelativeError > ACCURACY_LIMIT,
+      padeOrder,
+    };
   }
   const Df = factorPoly(cd);
   const Nf = factorPoly(cn);
   // A root beyond the floating-point range (1e-320·s + 1 has its zero at −1e320) has no product
   // form: solve the coefficients, which are representable, directly.
-  const unrepresentable = [...Df.factors, ...Nf.factors].some((f) => !Number.isFinite(f.root.re) || !Number.isFinite(f.root.im)) || !Number.isFinite(Df.lead) || !Number.isFinite(Nf.lead);
+  const unrepresentable =
+    [...Df.factors, ...Nf.factors].some((f) => !Number.isFinite(f.root.re) || !Number.isFinite(f.root.im)) ||
+    !Number.isFinite(Df.lead) ||
+    !Number.isFinite(Nf.lead);
   if (unrepresentable && coeffs === null) {
-    throw new InputError('closed-loop poles: a root of the loop lies beyond the floating-point range (a negligible leading coefficient, |s| > 1e308) and the characteristic polynomial is not representable either: drop that term');
+    throw new InputError(
+      'closed-loop poles: a root of the loop lies beyond the floating-point range (a negligible leading coefficient, |s| > 1e308) and the characteristic polynomial is not representable either: drop that term',
+    );
   }
   if (unrepresentable && coeffs !== null) {
     if (coeffs.length <= 1) return { poles: [], errors: [], worstRelativeError: 0, limited: false, padeOrder };
     const r = polyRootsDetailed(coeffs);
-    return { poles: r.roots, errors: r.errors, worstRelativeError: r.worstRelativeError, limited: r.worstRelativeError > ACCURACY_LIMIT, padeOrder };
+    return {
+      poles: r.roots,
+      errors: r.errors,
+      worstRelativeError: r.worstRelativeError,
+      limited: r.worstRelativeError > ACCURACY_LIMIT,
+      padeOrder,
+    };
   }
   const A = padeP.length ? factoredProduct(Df, factoredFromRoots(padeP, 1)) : Df;
   const B = padeP.length
-    ? factoredProduct(Nf, factoredFromRoots(padeP.map((p) => cx(-p.re, -p.im)), padeOrder! % 2 ? -1 : 1))
+    ? factoredProduct(
+        Nf,
+        factoredFromRoots(
+          padeP.map((p) => cx(-p.re, -p.im)),
+          padeOrder! % 2 ? -1 : 1,
+        ),
+      )
     : Nf;
   const degree = pencilDegree(A, B, 1);
   if (coeffs !== null && coeffs.length - 1 < degree) {
@@ -84,7 +107,13 @@ export function closedLoopPolesDetailed(num: readonly number[], den: readonly nu
     // coefficients directly.
     if (coeffs.length <= 1) return { poles: [], errors: [], worstRelativeError: 0, limited: false, padeOrder };
     const r = polyRootsDetailed(coeffs);
-    return { poles: r.roots, errors: r.errors, worstRelativeError: r.worstRelativeError, limited: r.worstRelativeError > ACCURACY_LIMIT, padeOrder };
+    return {
+      poles: r.roots,
+      errors: r.errors,
+      worstRelativeError: r.worstRelativeError,
+      limited: r.worstRelativeError > ACCURACY_LIMIT,
+      padeOrder,
+    };
   }
   const sol = pencilRootsContinued(A, B, 1);
   poles = sol.roots.slice();

@@ -10,21 +10,31 @@ describe('matrixExponential', () => {
   it('agrees with mathjs expm (an independent implementation) on random matrices', () => {
     let seed = 7;
     const rand = () => ((seed = (seed * 16807) % 2147483647) / 2147483647) * 2 - 1;
-    for (const [n, scale] of [[1, 1], [2, 3], [4, 0.2], [6, 5], [8, 12]]) {
+    for (const [n, scale] of [
+      [1, 1],
+      [2, 3],
+      [4, 0.2],
+      [6, 5],
+      [8, 12],
+    ]) {
       const m = Array.from({ length: n }, () => Array.from({ length: n }, () => rand() * scale));
       const ours = matrixExponential(m);
-      const theirs = (expm(matrix(m)).toArray() as number[][]);
+      const theirs = expm(matrix(m)).toArray() as number[][];
       let big = 0;
       for (const row of theirs) for (const v of row) big = Math.max(big, Math.abs(v));
-      for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) {
-        expect(Math.abs(ours[i][j] - theirs[i][j])).toBeLessThanOrEqual(1e-11 * Math.max(1, big));
-      }
+      for (let i = 0; i < n; i++)
+        for (let j = 0; j < n; j++) {
+          expect(Math.abs(ours[i][j] - theirs[i][j])).toBeLessThanOrEqual(1e-11 * Math.max(1, big));
+        }
     }
   });
 
   it('e^[[0, w],[−w, 0]] is a rotation (analytic)', () => {
     const w = 2.3;
-    const e = matrixExponential([[0, w], [-w, 0]]);
+    const e = matrixExponential([
+      [0, w],
+      [-w, 0],
+    ]);
     expect(e[0][0]).toBeCloseTo(Math.cos(w), 14);
     expect(e[0][1]).toBeCloseTo(Math.sin(w), 14);
     expect(e[1][0]).toBeCloseTo(-Math.sin(w), 14);
@@ -72,7 +82,10 @@ describe('exact responses', () => {
       x = x.map((v, i) => v + (h / 6) * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i]));
       if (checkAt.includes(k)) rk.push(C.reduce((s, c, i) => s + c * x[i], 0) + D);
     }
-    const exact = exactStepResponse(r, checkAt.map((k) => k * h));
+    const exact = exactStepResponse(
+      r,
+      checkAt.map((k) => k * h),
+    );
     exact.forEach((v, i) => expect(Math.abs(v - rk[i])).toBeLessThanOrEqual(1e-8));
   });
 

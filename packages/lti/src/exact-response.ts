@@ -101,7 +101,13 @@ export function exactStepResponse(r: Rational, times: readonly number[], delay =
   if (!Number.isFinite(delay) || delay < 0) throw new InputError(`dead time must be a finite number ≥ 0 s, got ${delay}`);
   const { A, B, C, D } = realize(r);
   const shifted = times.map((t) => t - delay);
-  const xs = propagate(A, B, new Array<number>(A.length).fill(0), 1, shifted.map((t) => Math.max(t, 0)));
+  const xs = propagate(
+    A,
+    B,
+    new Array<number>(A.length).fill(0),
+    1,
+    shifted.map((t) => Math.max(t, 0)),
+  );
   return shifted.map((t, i) => (t < 0 ? 0 : dot(C, xs[i]) + D));
 }
 
@@ -114,7 +120,13 @@ export function exactImpulseResponse(r: Rational, times: readonly number[], dela
   if (!Number.isFinite(delay) || delay < 0) throw new InputError(`dead time must be a finite number ≥ 0 s, got ${delay}`);
   const { A, B, C } = realize(r);
   const shifted = times.map((t) => t - delay);
-  const xs = propagate(A, new Array<number>(A.length).fill(0), B, 0, shifted.map((t) => Math.max(t, 0)));
+  const xs = propagate(
+    A,
+    new Array<number>(A.length).fill(0),
+    B,
+    0,
+    shifted.map((t) => Math.max(t, 0)),
+  );
   return shifted.map((t, i) => (t < 0 ? 0 : dot(C, xs[i])));
 }
 

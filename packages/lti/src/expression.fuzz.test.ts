@@ -31,13 +31,11 @@ const factor = fc.oneof(
   fc.tuple(small, fc.integer({ min: 2, max: 8 })).map(([a, n]) => `(s+${a})^${n}`),
 );
 const product = fc.array(factor, { minLength: 0, maxLength: 4 }).map((fs) => (fs.length ? fs.join('*') : '1'));
-const expression = fc
-  .tuple(num, product, product, delay, fc.boolean(), fc.boolean())
-  .map(([k, n, d, T, sum, neg]) => {
-    const body = `${neg ? '-' : ''}${k}*${n}/(${d})`;
-    const withSum = sum ? `(${body} + 1/(s+1))` : body;
-    return T === '0' ? withSum : `${withSum}*exp(-${T}*s)`;
-  });
+const expression = fc.tuple(num, product, product, delay, fc.boolean(), fc.boolean()).map(([k, n, d, T, sum, neg]) => {
+  const body = `${neg ? '-' : ''}${k}*${n}/(${d})`;
+  const withSum = sum ? `(${body} + 1/(s+1))` : body;
+  return T === '0' ? withSum : `${withSum}*exp(-${T}*s)`;
+});
 
 /** Every number in a result is finite, or ±Infinity / null where the API documents it; never NaN. */
 function noNaN(x: unknown, path = 'result'): string | null {
@@ -72,7 +70,8 @@ describe('expression fuzzing through margins and the root locus', () => {
           const m = loopMargins(tf, { deadline });
           const bad = noNaN(m);
           if (bad) throw new Error(`${text}: margins hold NaN at ${bad}`);
-          if (!m.closedLoopPoles.every((p) => Number.isFinite(p.re) && Number.isFinite(p.im))) throw new Error(`${text}: a closed-loop pole is not finite`);
+          if (!m.closedLoopPoles.every((p) => Number.isFinite(p.re) && Number.isFinite(p.im)))
+            throw new Error(`${text}: a closed-loop pole is not finite`);
           if (relativeDegree(tf.rational) >= 0) {
             const L = rootLocus(tf.rational.num, tf.rational.den, { samples: 24, deadline });
             const badL = noNaN({ branches: L.branches, crossings: L.crossings, breakaways: L.breakaways, gains: L.gains });
@@ -80,7 +79,8 @@ describe('expression fuzzing through margins and the root locus', () => {
           }
           stats.results++;
         } catch (err) {
-          if (err instanceof BudgetError) throw new Error(`${text}: ran past its ${PER_CASE_MS} ms deadline (${err.message})`, { cause: err });
+          if (err instanceof BudgetError)
+            throw new Error(`${text}: ran past its ${PER_CASE_MS} ms deadline (${err.message})`, { cause: err });
           if (!(err instanceof InputError)) throw err;
           expect(err.message.length).toBeGreaterThan(10);
           stats.inputErrors++;
@@ -95,8 +95,17 @@ describe('expression fuzzing through margins and the root locus', () => {
       }),
       { numRuns: CASES, seed: SEED, endOnFailure: true },
     );
-    if (process.env.LOOPWRIGHT_FUZZ_PROFILE) console.log(times.sort((a, b) => b[0] - a[0]).slice(0, 15).map(([t, x]) => `${t.toFixed(0)} ms ${x}`).join('\n'));
-    console.log(`expression fuzz: ${stats.cases} cases, ${stats.results} results, ${stats.inputErrors} clean input errors, worst ${stats.worstMs.toFixed(0)} ms (${stats.worst})`);
+    if (process.env.LOOPWRIGHT_FUZZ_PROFILE)
+      console.log(
+        times
+          .sort((a, b) => b[0] - a[0])
+          .slice(0, 15)
+          .map(([t, x]) => `${t.toFixed(0)} ms ${x}`)
+          .join('\n'),
+      );
+    console.log(
+      `expression fuzz: ${stats.cases} cases, ${stats.results} results, ${stats.inputErrors} clean input errors, worst ${stats.worstMs.toFixed(0)} ms (${stats.worst})`,
+    );
     expect(stats.cases).toBe(CASES);
   }, 600_000);
 });

@@ -45,8 +45,12 @@ describe('frequencyResponse', () => {
     expect(frequencyResponse(tfFromCoefficients([1], [0, 1]), [1e-3, 1, 1e3]).phaseDeg).toEqual([-90, -90, -90]);
     for (const p of frequencyResponse(tfFromCoefficients([1], [0, 0, 1]), [1e-3, 1, 1e3]).phaseDeg) expect(p).toBeCloseTo(-180, 12);
     const w = [0.1, 1, 10];
-    frequencyResponse(tfFromCoefficients([-1], [1, 1]), w).phaseDeg.forEach((p, i) => expect(p).toBeCloseTo(-180 - (Math.atan(w[i]) * 180) / Math.PI, 10));
-    frequencyResponse(tfFromCoefficients([1, -1], [1, 1]), w).phaseDeg.forEach((p, i) => expect(p).toBeCloseTo((-2 * Math.atan(w[i]) * 180) / Math.PI, 10));
+    frequencyResponse(tfFromCoefficients([-1], [1, 1]), w).phaseDeg.forEach((p, i) =>
+      expect(p).toBeCloseTo(-180 - (Math.atan(w[i]) * 180) / Math.PI, 10),
+    );
+    frequencyResponse(tfFromCoefficients([1, -1], [1, 1]), w).phaseDeg.forEach((p, i) =>
+      expect(p).toBeCloseTo((-2 * Math.atan(w[i]) * 180) / Math.PI, 10),
+    );
   });
   it('dead time contributes exactly −ωT, far past −360°', () => {
     const w = [0.5, 10, 100];
@@ -69,7 +73,10 @@ describe('frequencyResponse', () => {
   });
   it('property: phase is grid-independent and continuous on a dense grid (fast-check)', () => {
     const arb = fc.record({
-      poles: fc.array(fc.record({ re: fc.double({ min: -5, max: 5, noNaN: true }), im: fc.double({ min: 0, max: 5, noNaN: true }) }), { minLength: 1, maxLength: 4 }),
+      poles: fc.array(fc.record({ re: fc.double({ min: -5, max: 5, noNaN: true }), im: fc.double({ min: 0, max: 5, noNaN: true }) }), {
+        minLength: 1,
+        maxLength: 4,
+      }),
       zeros: fc.array(fc.double({ min: -5, max: 5, noNaN: true }), { maxLength: 3 }),
       delay: fc.constantFrom(0, 0.1, 1),
       gain: fc.constantFrom(1, -2),
@@ -79,7 +86,14 @@ describe('frequencyResponse', () => {
         const roots = x.poles.flatMap((p) => (Math.abs(p.im) < 0.05 ? [cx(p.re)] : [cx(p.re, p.im), cx(p.re, -p.im)]));
         if (roots.some((r) => Math.hypot(r.re, r.im) < 0.05 || (Math.abs(r.re) < 0.05 && r.im !== 0))) return true;
         if (x.zeros.some((z) => Math.abs(z) < 0.05)) return true;
-        const tf = tfFromCoefficients(P.fromRoots(x.zeros.map((z) => cx(z)), x.gain), P.fromRoots(roots), x.delay);
+        const tf = tfFromCoefficients(
+          P.fromRoots(
+            x.zeros.map((z) => cx(z)),
+            x.gain,
+          ),
+          P.fromRoots(roots),
+          x.delay,
+        );
         const dense = logspace(-2, 2, 2001);
         const r = frequencyResponse(tf, dense);
         // Consecutive samples (ratio 1.0046) move by well under 180°: no wrap jumps.
@@ -111,4 +125,3 @@ describe('values at extreme scales', () => {
     expect(Math.abs(r.phaseDeg[2])).toBeLessThan(1e-6);
   });
 });
-

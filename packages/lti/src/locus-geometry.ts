@@ -49,7 +49,13 @@ function angleEntry(at: Complex, sumDeg: number, mu: number): LocusAngle {
 }
 
 /** Departure angles at complex poles and arrival angles at complex zeros (each with its multiplicity). */
-export function anglesOf(N: readonly number[], D: readonly number[], Nf: FactoredPoly, Df: FactoredPoly, sgn: number): { departures: LocusAngle[]; arrivals: LocusAngle[] } {
+export function anglesOf(
+  N: readonly number[],
+  D: readonly number[],
+  Nf: FactoredPoly,
+  Df: FactoredPoly,
+  sgn: number,
+): { departures: LocusAngle[]; arrivals: LocusAngle[] } {
   const kcAngle = sgn * (P.lead(N) / P.lead(D)) > 0 ? 0 : 180;
   const arg = (a: Complex, b: Complex) => carg(cx(a.re - b.re, a.im - b.im)) * DEG;
   const departures: LocusAngle[] = [];
@@ -250,7 +256,7 @@ export function findCrossings(N: number[], D: number[], Nf: FactoredPoly, Df: Fa
       const fa = tPrev - level;
       for (let it = 0; it < 200 && xb - xa > 1e-15 * xb; it++) {
         const xm = 0.5 * (xa + xb);
-        if ((theta(xm) - level > 0) === (fa > 0)) xa = xm;
+        if (theta(xm) - level > 0 === fa > 0) xa = xm;
         else xb = xm;
       }
       cands.push(0.5 * (xa + xb));
@@ -272,7 +278,8 @@ export function findCrossings(N: number[], D: number[], Nf: FactoredPoly, Df: Fa
     if (Math.abs(k.im) > 1e-9 * Math.abs(k.re)) continue;
     if (Math.sign(k.re) !== sgn) continue;
     // Next to the crossing at the origin, at its gain: the same event (a root passing through 0).
-    if (out.some((x) => x.omega === 0 && Math.abs(x.gain - k.re) <= 1e-6 * Math.abs(k.re)) && w < 1e-6 * (1 + Math.max(0, ...feats))) continue;
+    if (out.some((x) => x.omega === 0 && Math.abs(x.gain - k.re) <= 1e-6 * Math.abs(k.re)) && w < 1e-6 * (1 + Math.max(0, ...feats)))
+      continue;
     seen.push(w);
     out.push({ omega: w, gain: k.re });
   }
@@ -314,7 +321,8 @@ export function realSegments(Nf: FactoredPoly, Df: FactoredPoly, sgn: number): R
   for (let i = 0; i + 1 < edges.length; i++) {
     const a = edges[i];
     const b = edges[i + 1];
-    const mid = a === -Infinity && b === Infinity ? 0 : a === -Infinity ? b - 1 - Math.abs(b) : b === Infinity ? a + 1 + Math.abs(a) : 0.5 * (a + b);
+    const mid =
+      a === -Infinity && b === Infinity ? 0 : a === -Infinity ? b - 1 - Math.abs(b) : b === Infinity ? a + 1 + Math.abs(a) : 0.5 * (a + b);
     onLocus.push(signAt(mid) === sgn);
   }
   const out: RootLocus['realAxisSegments'] = [];

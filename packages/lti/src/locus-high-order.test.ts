@@ -112,7 +112,8 @@ describe('root locus at high order', () => {
   it('a numerator root beyond the floating-point range (1e-320·s² + s + 3: a root near −1e320) is a clean InputError, not NaN branches', () => {
     // Found by the expression fuzzer: 1e-320(s − 1e5)/(s + 3) + 1/(s + 1). The roots of
     // 1e-320·s² + s + 3 are ≈ −3 and ≈ −1e320 (sum of roots −b/a, Vieta): the second is not a double.
-    expect(() => rootLocus(P.fromDescending([1e-320, 1, 3]), P.fromDescending([1, 4, 3]))).toThrow(/numerator N\(s\): a root lies beyond the floating-point range/);
+    expect(() => rootLocus(P.fromDescending([1e-320, 1, 3]), P.fromDescending([1, 4, 3]))).toThrow(
+      /numerator N\(s\): a root lies beyond the floating-point range/,
+    );
   });
 });
-

@@ -33,10 +33,11 @@ function mathjsRoots(p: readonly number[]): Complex[] {
     for (let i = 0; i < n; i++) {
       let c = 0;
       let r = 0;
-      for (let j = 0; j < n; j++) if (j !== i) {
-        c += Math.abs(m[j][i]);
-        r += Math.abs(m[i][j]);
-      }
+      for (let j = 0; j < n; j++)
+        if (j !== i) {
+          c += Math.abs(m[j][i]);
+          r += Math.abs(m[i][j]);
+        }
       if (c === 0 || r === 0) continue;
       const f = 2 ** Math.round(Math.log2(Math.sqrt(r / c)));
       if (f === 1) continue;
@@ -59,7 +60,8 @@ function matchDistance(a: Complex[], b: Complex[]): number {
   let worst = 0;
   for (const z of a) {
     let best = 0;
-    for (let j = 1; j < left.length; j++) if (cabs({ re: left[j].re - z.re, im: left[j].im - z.im }) < cabs({ re: left[best].re - z.re, im: left[best].im - z.im })) best = j;
+    for (let j = 1; j < left.length; j++)
+      if (cabs({ re: left[j].re - z.re, im: left[j].im - z.im }) < cabs({ re: left[best].re - z.re, im: left[best].im - z.im })) best = j;
     worst = Math.max(worst, Math.hypot(left[best].re - z.re, left[best].im - z.im) / (1 + cabs(z)));
     left.splice(best, 1);
   }
@@ -69,10 +71,7 @@ function matchDistance(a: Complex[], b: Complex[]): number {
 /** Random loops: poles and zeros on a half-integer lattice (so coincidences and repeated roots happen). */
 const rootSet = (min: number, max: number) =>
   fc
-    .array(
-      fc.record({ re: fc.integer({ min: -10, max: 6 }), im: fc.integer({ min: 0, max: 8 }) }),
-      { minLength: min, maxLength: max },
-    )
+    .array(fc.record({ re: fc.integer({ min: -10, max: 6 }), im: fc.integer({ min: 0, max: 8 }) }), { minLength: min, maxLength: max })
     .map((rs) => rs.flatMap((r) => (r.im === 0 ? [cx(r.re / 2)] : [cx(r.re / 2, r.im / 2), cx(r.re / 2, -r.im / 2)])));
 const loopArb = fc
   .record({ poles: rootSet(1, 4), zeros: rootSet(0, 3), gain: fc.constantFrom(1, -1, 2.5, -0.5), negative: fc.boolean() })
@@ -107,10 +106,12 @@ describe('rootLocus shapes', () => {
     // (s+3)(s+5)/((s+1)(s+2)) for k > 0: the real-axis rule puts the locus on [−2,−1] ∪ [−5,−3] (Ogata, Sec. 6-2 rules (from memory)).
     const L = rootLocus(P.fromRoots([cx(-3), cx(-5)]), P.fromRoots([cx(-1), cx(-2)]));
     expect(L.asymptotes.centroid).toBeNull();
-    expect(L.realAxisSegments).toEqual([
-      { from: -5, to: -3 },
-      { from: -2, to: -1 },
-    ].map((x) => expect.objectContaining({ from: expect.closeTo(x.from, 9), to: expect.closeTo(x.to, 9) })));
+    expect(L.realAxisSegments).toEqual(
+      [
+        { from: -5, to: -3 },
+        { from: -2, to: -1 },
+      ].map((x) => expect.objectContaining({ from: expect.closeTo(x.from, 9), to: expect.closeTo(x.to, 9) })),
+    );
     const ends = L.branches.map((b) => b[b.length - 1].s.re).sort((a, b) => a - b);
     expect(ends[0]).toBeCloseTo(-5, 1);
     expect(ends[1]).toBeCloseTo(-3, 1);
@@ -119,7 +120,8 @@ describe('rootLocus shapes', () => {
     // 1 + k(1 − s)/(s + 1) = 0 ⇒ s = (1 + k)/(k − 1): → −∞ as k → 1⁻, back from +∞, → 1 as k → ∞ (solved by hand).
     const L = rootLocus([1, -1], [1, 1]);
     expect(L.branches.length).toBe(2);
-    for (const br of L.branches) for (const p of br) expect(Math.abs(p.s.re - (1 + p.k) / (p.k - 1))).toBeLessThan(1e-9 * (1 + Math.abs(p.s.re)));
+    for (const br of L.branches)
+      for (const p of br) expect(Math.abs(p.s.re - (1 + p.k) / (p.k - 1))).toBeLessThan(1e-9 * (1 + Math.abs(p.s.re)));
   });
   it('negative gains trace the complementary locus', () => {
     // k < 0 on 1/(s(s+1)(s+2)): real-axis parts [−2, −1] and [0, ∞) (the complement of R01's), angles 0°, ±120°.
@@ -207,7 +209,15 @@ describe('rootLocus properties (fast-check, 1000 random loops)', () => {
         const byGain = new Map<number, Complex[]>();
         for (const br of L.branches) for (const p of br) byGain.set(p.k, [...(byGain.get(p.k) ?? []), p.s]);
         for (const set of byGain.values()) {
-          if (!(matchDistance(set, set.map((z) => cx(z.re, -z.im))) < 1e-12)) return false;
+          if (
+            !(
+              matchDistance(
+                set,
+                set.map((z) => cx(z.re, -z.im)),
+              ) < 1e-12
+            )
+          )
+            return false;
         }
         return true;
       }),
@@ -221,7 +231,8 @@ function specialMembers(L: RootLocus): boolean {
   const [k0, k1] = L.kRange.map(Math.abs).sort((a, b) => a - b);
   const kStar = L.degreeDropGain === null ? NaN : Math.abs(L.degreeDropGain);
   const inGap = (k: number) => Math.abs(Math.abs(k) - kStar) <= 1e-3 * kStar;
-  const has = (s: Complex, k: number) => inGap(k) || L.branches.some((br) => br.some((p) => p.k === k && p.s.re === s.re && p.s.im === s.im));
+  const has = (s: Complex, k: number) =>
+    inGap(k) || L.branches.some((br) => br.some((p) => p.k === k && p.s.re === s.re && p.s.im === s.im));
   for (const b of L.breakaways) if (Math.abs(b.gain) >= k0 && Math.abs(b.gain) <= k1 && !has(b.s, b.gain)) return false;
   for (const c of L.crossings) if (Math.abs(c.gain) >= k0 && Math.abs(c.gain) <= k1 && !has(cx(0, c.omega), c.gain)) return false;
   return true;

@@ -97,7 +97,9 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
   const n = D.length - 1;
   const m = N.length - 1;
   if (m > n) {
-    throw new InputError(`improper loop: numerator degree ${m} is above denominator degree ${n} (k·N/D must be proper)`, { field: 'numerator' });
+    throw new InputError(`improper loop: numerator degree ${m} is above denominator degree ${n} (k·N/D must be proper)`, {
+      field: 'numerator',
+    });
   }
   const negative = opts.negative === true;
   const sgn = negative ? -1 : 1;
@@ -105,7 +107,9 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
   if (!(fraction > 0 && fraction < 1)) throw new InputError(`stepFraction must lie in (0, 1), got ${fraction}`, { field: 'stepFraction' });
   const kMin = opts.kMin ?? 0;
   if (!Number.isFinite(kMin) || kMin < 0) {
-    throw new InputError(`kMin must be a finite gain magnitude ≥ 0 (use negative: true for the k < 0 locus), got ${kMin}`, { field: 'kMin' });
+    throw new InputError(`kMin must be a finite gain magnitude ≥ 0 (use negative: true for the k < 0 locus), got ${kMin}`, {
+      field: 'kMin',
+    });
   }
   if (opts.kMax !== undefined && (!Number.isFinite(opts.kMax) || opts.kMax <= 0)) {
     throw new InputError(`kMax must be a finite gain magnitude > 0, got ${opts.kMax}`, { field: 'kMax' });
@@ -127,9 +131,12 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
     [Nf, 'numerator N(s)'],
   ] as const) {
     if (!Number.isFinite(f.lead) || f.factors.some((x) => !Number.isFinite(x.root.re) || !Number.isFinite(x.root.im))) {
-      throw new InputError(`${what}: a root lies beyond the floating-point range (|s| > 1e308; its leading coefficient is negligible against the others): drop that term`, {
-        field: what.startsWith('numerator') ? 'numerator' : 'denominator',
-      });
+      throw new InputError(
+        `${what}: a root lies beyond the floating-point range (|s| > 1e308; its leading coefficient is negligible against the others): drop that term`,
+        {
+          field: what.startsWith('numerator') ? 'numerator' : 'denominator',
+        },
+      );
     }
   }
   const poles = rootsOfFactored(Df);
@@ -141,7 +148,10 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
   const { departures, arrivals } = anglesOf(N, D, Nf, Df, sgn);
 
   // Scale for the continuity bound: median size of the finite features (1 if there are none).
-  const sizes = [...poles, ...zeros, ...breakaways.map((b) => b.s)].map(cabs).concat(crossings.map((x) => x.omega)).filter((x) => x > 0);
+  const sizes = [...poles, ...zeros, ...breakaways.map((b) => b.s)]
+    .map(cabs)
+    .concat(crossings.map((x) => x.omega))
+    .filter((x) => x > 0);
   sizes.sort((a, b) => a - b);
   const scale = sizes.length ? sizes[Math.floor(sizes.length / 2)] : 1;
   const R = sizes.length ? sizes[sizes.length - 1] : 1;
@@ -157,7 +167,8 @@ export function rootLocus(num: P.Poly, den: P.Poly, opts: RootLocusOptions = {})
   const openLoop = Math.max(relativeErrorOf(Df), relativeErrorOf(Nf));
   const limited = t.worstRelativeError > ACCURACY_LIMIT || openLoop > ACCURACY_LIMIT || t.unconverged > 0 || t.truncated;
   const parts: string[] = [];
-  if (openLoop > ACCURACY_LIMIT) parts.push(`the coefficients fix the open-loop poles and zeros only to about ${fmtRel(openLoop)} (relative)`);
+  if (openLoop > ACCURACY_LIMIT)
+    parts.push(`the coefficients fix the open-loop poles and zeros only to about ${fmtRel(openLoop)} (relative)`);
   if (t.worstRelativeError > ACCURACY_LIMIT) parts.push(`traced poles are good to about ${fmtRel(t.worstRelativeError)} (relative)`);
   if (t.unconverged > 0) parts.push(`at ${t.unconverged} gain step(s) the pole solver stopped at its iteration cap`);
   if (t.truncated) parts.push(`the trace stopped refining at ${t.gains.length} gains, so a branch may jump between points`);

@@ -166,7 +166,9 @@ describe('margins of high-order loops', () => {
     expect(budgetNow() - t0).toBeLessThan(LIMIT_MS);
     expect(m.closedLoopPoles).toHaveLength(40);
     const r = 4 ** (1 / 40);
-    const want = Array.from({ length: 40 }, (_, q) => cx(-1 + r * Math.cos(((2 * q + 1) * Math.PI) / 40), r * Math.sin(((2 * q + 1) * Math.PI) / 40)));
+    const want = Array.from({ length: 40 }, (_, q) =>
+      cx(-1 + r * Math.cos(((2 * q + 1) * Math.PI) / 40), r * Math.sin(((2 * q + 1) * Math.PI) / 40)),
+    );
     for (const p of m.closedLoopPoles) {
       const d = Math.min(...want.map((w) => cabs(cx(p.re - w.re, p.im - w.im))));
       expect(d).toBeLessThan(1e-9);

@@ -198,9 +198,11 @@ function marginsOf(
     // rounding relative to its size (a very long dead time gives genuinely slow, barely damped
     // poles such as −5e-15 ± 3e-5j, which an absolute tolerance would misjudge).
     let stable = cl.poles.every((p, i) => p.re < -Math.max(cl.errors[i], STABLE_TOL * cabs(p)));
-    if (cl.limited) notes.push(`closed-loop poles are good to about ${cl.worstRelativeError.toExponential(0)} (relative): accuracy limited`);
+    if (cl.limited)
+      notes.push(`closed-loop poles are good to about ${cl.worstRelativeError.toExponential(0)} (relative): accuracy limited`);
     const doubtful = cl.poles.filter((p, i) => Math.abs(p.re) <= cl.errors[i] && cl.errors[i] > STABLE_TOL * cabs(p));
-    if (doubtful.length) notes.push(`the verdict is uncertain: ${doubtful.length} closed-loop pole(s) lie within their error of the imaginary axis`);
+    if (doubtful.length)
+      notes.push(`the verdict is uncertain: ${doubtful.length} closed-loop pole(s) lie within their error of the imaginary axis`);
     // A delay loop whose |L(jω)| does not fall below 1 at high frequency is of neutral type: its
     // characteristic roots form chains that approach Re s = ln|L(∞)|/T ≥ 0, which no Padé
     // approximant shows (its poles are all at moderate frequencies).
@@ -209,7 +211,9 @@ function marginsOf(
       // cannot reach −1, whatever the dead time (Nyquist). Such a loop with a very long dead
       // time has closed-loop poles so close to the axis (Re ≈ −ω²/2T) that they round onto it.
       stable = true;
-      notes.push('stable for every dead time: the loop is open-loop stable and |L(jω)| < 1 at every ω > 0 (small gain); its slowest closed-loop poles lie within rounding of the imaginary axis');
+      notes.push(
+        'stable for every dead time: the loop is open-loop stable and |L(jω)| < 1 at every ω > 0 (small gain); its slowest closed-loop poles lie within rounding of the imaginary axis',
+      );
     }
     if (L.delay > 0 && atInfinity >= 1 - 1e-12) {
       stable = false;
@@ -231,7 +235,14 @@ function marginsOf(
     );
   }
   if (num.length === 0) {
-    return { ...empty, ...verdict(1, false), peakSensitivity: 1, peakSensitivityFrequency: 0, peakComplementary: 0, peakComplementaryFrequency: 0 };
+    return {
+      ...empty,
+      ...verdict(1, false),
+      peakSensitivity: 1,
+      peakSensitivityFrequency: 0,
+      peakComplementary: 0,
+      peakComplementaryFrequency: 0,
+    };
   }
 
   // ——— the sweep: values and continuous phase on the bracketing grid
@@ -248,7 +259,11 @@ function marginsOf(
   }
   if (exact) {
     // Unwrap: the approximant's phase change predicts the exact one (they agree at low frequency).
-    const ph = unwrapAlong(samples.map((q) => q.re), samples.map((q) => q.im), guide);
+    const ph = unwrapAlong(
+      samples.map((q) => q.re),
+      samples.map((q) => q.im),
+      guide,
+    );
     samples.forEach((q, i) => (q.ph = ph[i]));
   }
   /** The continuous phase at ω inside [grid[i], grid[i+1]]: for an exact source, the branch the approximant's phase change from grid[i] predicts. */
@@ -286,7 +301,8 @@ function marginsOf(
         // ω·T overflows there (a 1e308 s dead time): the phase has no floating-point value.
         if (!unphased) notes.push(`a gain crossover near ${fmt(w)} rad/s is not listed: ω·T overflows there, so its phase has no value`);
         unphased = true;
-      } else if (gainCrossoverDetails.length < maxListed) gainCrossoverDetails.push({ omega: w, phaseMarginDeg: pm, delayMargin: pm / DEG / w });
+      } else if (gainCrossoverDetails.length < maxListed)
+        gainCrossoverDetails.push({ omega: w, phaseMarginDeg: pm, delayMargin: pm / DEG / w });
     }
     lastSide = sd;
     lastIdx = i;
@@ -297,7 +313,9 @@ function marginsOf(
   // report "no gain crossover".
   const beyondSweep = atInfinity < 1 && !(samples[n - 1].mag < 1);
   if (beyondSweep) {
-    notes.push(`|L(jω)| is still ${fmt(samples[n - 1].mag)} at ${fmt(grid[n - 1])} rad/s, where the sweep ends: a gain crossover above it is not searched (phase margin, Ms and Mt not available)`);
+    notes.push(
+      `|L(jω)| is still ${fmt(samples[n - 1].mag)} at ${fmt(grid[n - 1])} rad/s, where the sweep ends: a gain crossover above it is not searched (phase margin, Ms and Mt not available)`,
+    );
   }
   if (gainCrossoverDetails.length >= maxListed) notes.push(`gain crossovers: only the first ${maxListed} are listed`);
 
@@ -421,7 +439,8 @@ function marginsOf(
         for (const k of new Set([kLo, kLo + 1, kHi - 1, kHi])) {
           if (k < kLo || k > kHi) continue;
           const c = crossoverAt(j, -180 + 360 * k);
-          if (c && c.omega > (stopIdx >= 0 ? listedBelow * (1 - 1e-12) : grid[n - 1]) && !deciding.some((d) => d.omega === c.omega)) deciding.push(c);
+          if (c && c.omega > (stopIdx >= 0 ? listedBelow * (1 - 1e-12) : grid[n - 1]) && !deciding.some((d) => d.omega === c.omega))
+            deciding.push(c);
         }
       }
     }
@@ -487,7 +506,10 @@ function marginsOf(
       lowerAtInfinity = true;
     }
   }
-  if (upperAtInfinity) notes.push(`gain margin ${fmt(upper!.gainFactor)} is approached as ω → ∞ (|L| → ${fmt(atInfinity)}), not reached at a finite frequency`);
+  if (upperAtInfinity)
+    notes.push(
+      `gain margin ${fmt(upper!.gainFactor)} is approached as ω → ∞ (|L| → ${fmt(atInfinity)}), not reached at a finite frequency`,
+    );
   if (lowerAtInfinity) notes.push(`lower gain margin ${fmt(lower!.gainFactor)} is approached as ω → ∞, not reached at a finite frequency`);
   let worst: (typeof gainCrossoverDetails)[number] | null = null;
   for (const c of gainCrossoverDetails) if (!worst || c.phaseMarginDeg < worst.phaseMarginDeg) worst = c;
@@ -540,7 +562,8 @@ function marginsOf(
   const omegaOf = (p: { omega: number } | null) => (p && Number.isFinite(p.omega) ? p.omega : null);
   // Past an unsearched crossover |S| and |T| peak where the sweep cannot see.
   if (beyondSweep) s.value = t.value = s.omega = t.omega = NaN;
-  else if (Number.isNaN(s.value) || Number.isNaN(t.value)) notes.push('L(jω) could not be formed in floating point at some frequencies (overflow): Ms or Mt not available');
+  else if (Number.isNaN(s.value) || Number.isNaN(t.value))
+    notes.push('L(jω) could not be formed in floating point at some frequencies (overflow): Ms or Mt not available');
   const bandwidth = bandwidthOf(grid, tVals, tAt, num, den);
   return {
     ...empty,
@@ -674,7 +697,12 @@ function refineLog(a: number, b: number, f: (w: number) => number): number {
  * Maximum of f over the grid, each of the three largest local maxima refined by golden section in
  * log ω; `extra` frequencies (phase crossovers) are candidates too, refined within ±0.1 % of ω.
  */
-function peakOf(grid: readonly number[], vals: readonly number[], f: (w: number) => number, extra: readonly number[] = []): { value: number; omega: number } {
+function peakOf(
+  grid: readonly number[],
+  vals: readonly number[],
+  f: (w: number) => number,
+  extra: readonly number[] = [],
+): { value: number; omega: number } {
   const cands: number[] = [];
   // NaN samples (values that could not be formed) are no candidates and no neighbours.
   const at = (i: number) => (i >= 0 && i < vals.length && !Number.isNaN(vals[i]) ? vals[i] : -Infinity);
@@ -727,7 +755,13 @@ function goldenMax(a: number, b: number, f: (x: number) => number): { x: number;
   return f1 >= f2 ? { x: x1, value: f1 } : { x: x2, value: f2 };
 }
 
-function bandwidthOf(grid: readonly number[], tVals: readonly number[], tAt: (w: number) => number, num: readonly number[], den: readonly number[]): number | null {
+function bandwidthOf(
+  grid: readonly number[],
+  tVals: readonly number[],
+  tAt: (w: number) => number,
+  num: readonly number[],
+  den: readonly number[],
+): number | null {
   const v0 = dcValue(num, den);
   // Integrators in L make T(0) = 1; otherwise T(0) = L(0)/(1 + L(0)).
   const t0 = v0 === null ? ((num[0] ?? 0) === 0 && den[0] === 0 ? NaN : 1) : Math.abs(v0 / (1 + v0));
@@ -769,7 +803,8 @@ function sweepGrid(
     throw new InputError(`frequency sweep limits must satisfy 0 < omegaMin < omegaMax, got ${lo} and ${hi}`);
   }
   const perDecade = opts.pointsPerDecade ?? 200;
-  if (!(perDecade >= 2 && perDecade <= 10000)) throw new InputError(`pointsPerDecade must lie in 2..10000, got ${perDecade}`, { field: 'pointsPerDecade' });
+  if (!(perDecade >= 2 && perDecade <= 10000))
+    throw new InputError(`pointsPerDecade must lie in 2..10000, got ${perDecade}`, { field: 'pointsPerDecade' });
   const ratio = 10 ** (1 / perDecade);
   const linCap = T > 0 ? Math.PI / 8 / T : Infinity; // (π/(8T) would overflow 8T for T near 1e308)
   // Beyond ωT = 20 the cap is dropped: there the phase falls monotonically (the delay dominates
@@ -798,7 +833,7 @@ function sweepGrid(
     pts.push(lo);
     for (let i = firstIndexAtLeast(from, lo); i < from.length && from[i] < hi; i++) if (from[i] > lo) pts.push(from[i]);
   } else {
-    for (let w = lo; w < hi; ) {
+    for (let w = lo; w < hi;) {
       pts.push(w);
       const r = nearFeature(w) ? ratio : Math.max(ratio, sparse);
       let step = w < linLimit ? Math.min(w * (r - 1), linCap) : w * (r - 1);
@@ -838,7 +873,14 @@ export function firstIndexAtLeast(xs: Float64Array | readonly number[], x: numbe
 /** The scalar figures of a LoopMargins as plain, serialisable data (CLI JSON, worker messages, tables). */
 export type MarginFigures = Omit<
   LoopMargins,
-  'closedLoopPoles' | 'padeOrder' | 'gainCrossoverDetails' | 'phaseCrossoverDetails' | 'phaseCrossoverTail' | 'closedLoopAccuracy' | 'frequencyMethod' | 'notes'
+  | 'closedLoopPoles'
+  | 'padeOrder'
+  | 'gainCrossoverDetails'
+  | 'phaseCrossoverDetails'
+  | 'phaseCrossoverTail'
+  | 'closedLoopAccuracy'
+  | 'frequencyMethod'
+  | 'notes'
 >;
 
 export function marginFigures(m: LoopMargins): MarginFigures {
@@ -862,4 +904,3 @@ export function marginFigures(m: LoopMargins): MarginFigures {
     phaseCrossovers: [...m.phaseCrossovers],
   };
 }
-

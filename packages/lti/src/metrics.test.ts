@@ -101,7 +101,10 @@ describe('responseMetrics', () => {
     expect(Math.abs(m.peak! - 1)).toBeLessThan(1e-6);
     expect(Math.abs(m.peakTime! - 1)).toBeLessThan(1e-3);
     // a clear change keeps every figure
-    const step = responseMetrics(t, t.map((ti) => 1 - Math.exp(-ti)));
+    const step = responseMetrics(
+      t,
+      t.map((ti) => 1 - Math.exp(-ti)),
+    );
     expect(step.refused).toEqual({});
     expect(step.settlingTime).not.toBeNull();
   });

@@ -125,7 +125,8 @@ export function responseMetrics(t: readonly number[], y: readonly number[], opts
     change = 0;
   }
   if (opts.incomplete !== undefined) {
-    if (opts.finalValue === undefined) refuse(`the run stopped early (${opts.incomplete}): there is no final value to measure against`, relative);
+    if (opts.finalValue === undefined)
+      refuse(`the run stopped early (${opts.incomplete}): there is no final value to measure against`, relative);
     refuse(`the run stopped early (${opts.incomplete}): whether the response stays settled is unknown`, ['settlingTime']);
   }
   const dir = Math.sign(change);
@@ -267,7 +268,8 @@ export function dampingFromOvershoot(overshootPct: number): number {
  */
 export function secondOrderFigures(zeta: number, wn: number) {
   if (!(zeta > 0 && zeta < 1)) throw new InputError(`damping ratio must be between 0 and 1 (underdamped), got ${zeta}`, { field: 'zeta' });
-  if (!(wn > 0 && Number.isFinite(wn))) throw new InputError(`natural frequency must be a positive finite number, got ${wn}`, { field: 'wn' });
+  if (!(wn > 0 && Number.isFinite(wn)))
+    throw new InputError(`natural frequency must be a positive finite number, got ${wn}`, { field: 'wn' });
   const wd = wn * Math.sqrt(1 - zeta * zeta);
   const sigma = zeta * wn;
   return {

@@ -165,7 +165,10 @@ export function rootMultiplicities(c: readonly number[], raw: readonly Complex[]
     const straddles = seed.some((i) => raw[i].im === 0 || group[conjOf(i)] === g);
     if (!straddles && raw[seed[0]].im < 0) continue; // the mirror of an upper group: handled with it
     const attempts: { start: number[]; self: boolean }[] = straddles
-      ? [{ start: seed, self: true }, { start: seed.filter((i) => raw[i].im > 0), self: false }]
+      ? [
+          { start: seed, self: true },
+          { start: seed.filter((i) => raw[i].im > 0), self: false },
+        ]
       : [{ start: seed, self: false }];
     for (const { start, self } of attempts) {
       if (start.length < 2) continue;
@@ -230,7 +233,9 @@ function derivativeCandidates(
       // The m free raw roots nearest the centre (upper-half ones for a complex centre).
       const pool = left.filter((i) => self || raw[i].im > 0);
       if (pool.length < mult) continue;
-      pool.sort((a, b) => Math.hypot(raw[a].re - centre.re, raw[a].im - centre.im) - Math.hypot(raw[b].re - centre.re, raw[b].im - centre.im));
+      pool.sort(
+        (a, b) => Math.hypot(raw[a].re - centre.re, raw[a].im - centre.im) - Math.hypot(raw[b].re - centre.re, raw[b].im - centre.im),
+      );
       let members = pool.slice(0, mult);
       if (self) {
         // Keep a real group closed under conjugation: swap in missing mirrors where possible.

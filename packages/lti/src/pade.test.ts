@@ -43,7 +43,12 @@ describe('padeDelay', () => {
   });
 
   it('padeOrderFor: the phase error at omegaMax is within 1°, and one order lower is not', () => {
-    for (const [T, w] of [[1, 1], [0.5, 4], [2, 3], [1, 0.05]]) {
+    for (const [T, w] of [
+      [1, 1],
+      [0.5, 4],
+      [2, 3],
+      [1, 0.05],
+    ]) {
       const n = padeOrderFor(T, w);
       expect(Math.abs(padePhase(T, n, w) + w * T)).toBeLessThanOrEqual(Math.PI / 180);
       if (n > 1) expect(Math.abs(padePhase(T, n - 1, w) + w * T)).toBeGreaterThan(Math.PI / 180);

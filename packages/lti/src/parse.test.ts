@@ -27,7 +27,7 @@ describe('parseTransferFunction: values', () => {
     const tf = parseTransferFunction('Kp*(1 + 1/(Ti*s)) * 4/(s*(0.25*s+1))', p);
     expect(tf.delay).toBe(0);
     for (const s of points) {
-      const direct = p.Kp * (1 + 1 / (p.Ti * s)) * 4 / (s * (0.25 * s + 1));
+      const direct = (p.Kp * (1 + 1 / (p.Ti * s)) * 4) / (s * (0.25 * s + 1));
       expect(revalReal(tf.rational, s)).toBeCloseTo(direct, 10);
     }
     expect(expressionParameters('Kp*(1 + 1/(Ti*s)) * 4/(s*(0.25*s+1))')).toEqual(['Kp', 'Ti']);
@@ -49,7 +49,14 @@ describe('parseTransferFunction: values', () => {
   });
 
   it('dead-time forms: exp(-T*s), exp(-s*T), exp(-(T)*s), exp(-s/T), anywhere in a product', () => {
-    for (const text of ['exp(-T*s)/(s+1)', 'exp(-s*T)/(s+1)', 'exp(-(T)*s)/(s+1)', '1/(s+1)*exp(-T*s)', '1/(s+1)*exp(T*-s)', '(exp(-T*s)/(s+1))^1']) {
+    for (const text of [
+      'exp(-T*s)/(s+1)',
+      'exp(-s*T)/(s+1)',
+      'exp(-(T)*s)/(s+1)',
+      '1/(s+1)*exp(-T*s)',
+      '1/(s+1)*exp(T*-s)',
+      '(exp(-T*s)/(s+1))^1',
+    ]) {
       const tf = parseTransferFunction(text, { T: 0.4 });
       expect(tf.delay).toBeCloseTo(0.4, 15);
       expect(tf.rational.den).toEqual([1, 1]);
@@ -196,14 +203,21 @@ describe('parseTransferFunction: bad input names the problem and the place', () 
 
   it('formatExpressionError draws a caret under the fault', () => {
     const text = 'Kp*(1 + sin(s))';
-    const msg = formatExpressionError(text, errorOf(() => parseTransferFunction(text, { Kp: 1 })));
+    const msg = formatExpressionError(
+      text,
+      errorOf(() => parseTransferFunction(text, { Kp: 1 })),
+    );
     expect(msg.split('\n')).toEqual([text, '        ^^^', expect.stringMatching(/unknown function 'sin'/)]);
   });
 
   it('fuzz: arbitrary unicode strings and parseScalar/expressionParameters also end in success or InputError', () => {
     fc.assert(
       fc.property(fc.string({ maxLength: 30, unit: 'binary' }), (text) => {
-        for (const f of [() => parseTransferFunction(text, { K: 1 }), () => parseScalar(text, { K: 1 }), () => expressionParameters(text)]) {
+        for (const f of [
+          () => parseTransferFunction(text, { K: 1 }),
+          () => parseScalar(text, { K: 1 }),
+          () => expressionParameters(text),
+        ]) {
           try {
             f();
           } catch (e) {

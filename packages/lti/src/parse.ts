@@ -27,9 +27,42 @@ export const MAX_POWER = 60;
 
 /** Functions of mathjs' language that people may try; named as "unknown function" rather than a parameter. */
 const KNOWN_FUNCTIONS = new Set([
-  'sin', 'cos', 'tan', 'asin', 'acos', 'atan', 'atan2', 'sinh', 'cosh', 'tanh', 'sqrt', 'cbrt',
-  'log', 'ln', 'log10', 'log2', 'abs', 'sign', 'pow', 'min', 'max', 'floor', 'ceil', 'round',
-  'exp', 'expm1', 'nthRoot', 'mod', 'sum', 'prod', 'mean', 'sec', 'csc', 'cot', 'delay', 'lag',
+  'sin',
+  'cos',
+  'tan',
+  'asin',
+  'acos',
+  'atan',
+  'atan2',
+  'sinh',
+  'cosh',
+  'tanh',
+  'sqrt',
+  'cbrt',
+  'log',
+  'ln',
+  'log10',
+  'log2',
+  'abs',
+  'sign',
+  'pow',
+  'min',
+  'max',
+  'floor',
+  'ceil',
+  'round',
+  'exp',
+  'expm1',
+  'nthRoot',
+  'mod',
+  'sum',
+  'prod',
+  'mean',
+  'sec',
+  'csc',
+  'cot',
+  'delay',
+  'lag',
 ]);
 /** Words that mathjs reads as operators or literals; not part of our language. */
 const RESERVED = new Set(['mod', 'to', 'in', 'and', 'or', 'not', 'xor', 'true', 'false', 'null', 'undefined']);
@@ -67,7 +100,10 @@ function scan(text: string): Token[] {
         i++;
         while (isDigit(text[i])) i++;
       }
-      if ((text[i] === 'e' || text[i] === 'E') && (isDigit(text[i + 1]) || ((text[i + 1] === '+' || text[i + 1] === '-') && isDigit(text[i + 2])))) {
+      if (
+        (text[i] === 'e' || text[i] === 'E') &&
+        (isDigit(text[i + 1]) || ((text[i + 1] === '+' || text[i + 1] === '-') && isDigit(text[i + 2])))
+      ) {
         i += 2;
         while (isDigit(text[i])) i++;
       }
@@ -108,7 +144,11 @@ function syntaxError(text: string, e: unknown): never {
 function parseTree(text: string): { node: MathNode; tokens: Token[] } {
   if (typeof text !== 'string') fail('expression must be text', 0, 0);
   if (text.length > MAX_EXPRESSION_LENGTH) {
-    fail(`expression is ${text.length} characters long, above the limit of ${MAX_EXPRESSION_LENGTH}`, MAX_EXPRESSION_LENGTH, text.length - MAX_EXPRESSION_LENGTH);
+    fail(
+      `expression is ${text.length} characters long, above the limit of ${MAX_EXPRESSION_LENGTH}`,
+      MAX_EXPRESSION_LENGTH,
+      text.length - MAX_EXPRESSION_LENGTH,
+    );
   }
   if (text.trim() === '') fail('expression is empty', 0, text.length);
   const tokens = scan(text);

@@ -47,7 +47,10 @@ describe('roots of A + k·B in product form', () => {
       expect(r.roots.filter((z) => z.re === 0 && z.im === 0)).toHaveLength(2);
       // s² + 3s + 2 + k = 0: s = (−3 ± √(1 − 4k))/2 (quadratic formula).
       const disc = 1 - 4 * k;
-      const want = disc >= 0 ? [cx((-3 + Math.sqrt(disc)) / 2), cx((-3 - Math.sqrt(disc)) / 2)] : [cx(-1.5, Math.sqrt(-disc) / 2), cx(-1.5, -Math.sqrt(-disc) / 2)];
+      const want =
+        disc >= 0
+          ? [cx((-3 + Math.sqrt(disc)) / 2), cx((-3 - Math.sqrt(disc)) / 2)]
+          : [cx(-1.5, Math.sqrt(-disc) / 2), cx(-1.5, -Math.sqrt(-disc) / 2)];
       const moving = r.roots.filter((z) => z.re !== 0 || z.im !== 0);
       for (const w of want) expect(Math.min(...moving.map((z) => cabs(cx(z.re - w.re, z.im - w.im))))).toBeLessThan(1e-12);
     }

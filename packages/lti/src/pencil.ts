@@ -277,7 +277,11 @@ export class PencilSolver {
     const { start: _start, ...others } = opts;
     const got = this.core.solve(k, rest ? { ...others, start: rest } : others);
     if (!slots) {
-      return { ...got, roots: [...got.roots, ...this.fixed.map((f) => f.root)], errors: [...got.errors, ...this.fixed.map((f) => f.error)] };
+      return {
+        ...got,
+        roots: [...got.roots, ...this.fixed.map((f) => f.root)],
+        errors: [...got.errors, ...this.fixed.map((f) => f.error)],
+      };
     }
     // In the start's order: roots[i] continues start[i].
     const roots = new Array<Complex>(n);
@@ -362,7 +366,12 @@ class ReducedPencil {
     const A = this.A;
     const n = pencilDegree(A, this.B, k);
     if (n === 0) return { roots: [], errors: [], converged: true };
-    if (k === 0) return { roots: rootsOfFactored(A), errors: A.factors.flatMap((f) => new Array<number>(f.multiplicity).fill(f.error)), converged: true };
+    if (k === 0)
+      return {
+        roots: rootsOfFactored(A),
+        errors: A.factors.flatMap((f) => new Array<number>(f.multiplicity).fill(f.error)),
+        converged: true,
+      };
     const tau = this.tau;
     const c0 = pencilConstant(A, this.B, k, tau);
     const floor = opts.floor !== undefined ? opts.floor / tau : this.floor;
@@ -378,7 +387,9 @@ class ReducedPencil {
       const got = this.aberth(c0, start, maxIt, floor);
       if (got.converged) {
         if (t === 0) got.followsStart = true;
-        return tau === 1 ? got : { ...got, roots: got.roots.map((z) => cx(z.re * tau, z.im * tau)), errors: got.errors.map((e) => e * tau) };
+        return tau === 1
+          ? got
+          : { ...got, roots: got.roots.map((z) => cx(z.re * tau, z.im * tau)), errors: got.errors.map((e) => e * tau) };
       }
       if (!last || worst(got) < worst(last)) last = got;
     }

@@ -39,11 +39,15 @@ describe('polynomial identities (fast-check, 1,000 runs each)', () => {
 
   it('division: a = q·b + r with deg r < deg b', () => {
     fc.assert(
-      fc.property(polyArb, polyArb.filter((b) => !P.isZero(b)), (a, b) => {
-        const { q, r } = P.divmod(a, b);
-        expect(P.degree(r)).toBeLessThan(P.degree(b));
-        sameValues(a, P.add(P.mul(q, b), r));
-      }),
+      fc.property(
+        polyArb,
+        polyArb.filter((b) => !P.isZero(b)),
+        (a, b) => {
+          const { q, r } = P.divmod(a, b);
+          expect(P.degree(r)).toBeLessThan(P.degree(b));
+          sameValues(a, P.add(P.mul(q, b), r));
+        },
+      ),
       { numRuns: 1000 },
     );
   });
@@ -106,7 +110,9 @@ describe('roots (fast-check, 1,000 runs each)', () => {
   });
 
   it('complex roots of a real polynomial come in exact conjugate pairs', () => {
-    const realPoly = fc.array(fc.double({ min: -10, max: 10, noNaN: true }), { minLength: 2, maxLength: 12 }).filter((p) => Math.abs(p[p.length - 1]) > 1e-3);
+    const realPoly = fc
+      .array(fc.double({ min: -10, max: 10, noNaN: true }), { minLength: 2, maxLength: 12 })
+      .filter((p) => Math.abs(p[p.length - 1]) > 1e-3);
     fc.assert(
       fc.property(realPoly, (p) => {
         const roots = polyRoots(p);

@@ -2,8 +2,24 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import * as P from './poly.ts';
 import {
-  S, isProper, rational, radd, rcompose, rconst, rstaticGain, rderivative, rdiv, revalComplex, revalReal, rformat,
-  rinv, rmul, rpow, rsub, rvalueAtInfinity, relativeDegree,
+  S,
+  isProper,
+  rational,
+  radd,
+  rcompose,
+  rconst,
+  rstaticGain,
+  rderivative,
+  rdiv,
+  revalComplex,
+  revalReal,
+  rformat,
+  rinv,
+  rmul,
+  rpow,
+  rsub,
+  rvalueAtInfinity,
+  relativeDegree,
 } from './rational.ts';
 import { cabs, csub, cx } from './complex.ts';
 import { InputError } from './errors.ts';

@@ -75,8 +75,7 @@ export function rderivative(a: Rational): Rational {
   return rational(P.sub(P.mul(P.derivative(a.num), a.den), P.mul(a.num, P.derivative(a.den))), P.mul(a.den, a.den));
 }
 
-export const relativeDegree = (a: Rational): number =>
-  P.isZero(a.num) ? Infinity : P.degree(a.den) - P.degree(a.num);
+export const relativeDegree = (a: Rational): number => (P.isZero(a.num) ? Infinity : P.degree(a.den) - P.degree(a.num));
 export const isProper = (a: Rational): boolean => relativeDegree(a) >= 0;
 export const isStrictlyProper = (a: Rational): boolean => relativeDegree(a) > 0;
 

@@ -174,8 +174,10 @@ describe('subnormal and tiny coefficients', () => {
 describe('termination on QR-unfriendly companion matrices', () => {
   it('finds the roots of a polynomial whose companion matrix stalls a QR iteration without a cap', () => {
     // Found by fast-check: ml-matrix's general eigen-solver never returned on this one.
-    const p = [-10, -4.136346617284749e-32, -1.3310666205952676e-101, -5e-323, -1.8160199860257576e-140, 1.52774589344386e-247,
-      5.846963351755644e-258, -6.555440980410604e-236, -2.3195021885070776e-234, 9.834027066831423e-286, -10];
+    const p = [
+      -10, -4.136346617284749e-32, -1.3310666205952676e-101, -5e-323, -1.8160199860257576e-140, 1.52774589344386e-247,
+      5.846963351755644e-258, -6.555440980410604e-236, -2.3195021885070776e-234, 9.834027066831423e-286, -10,
+    ];
     const r = polyRoots(p);
     expect(r).toHaveLength(10);
     // ≈ the tenth roots of −1: all on the unit circle, and each a root to rounding.
@@ -225,7 +227,9 @@ describe('repeated roots at their exact centres (numerical multiplicity)', () =>
   it('coefficients near 1e300 or 1e-310 give the same roots as the unscaled polynomial (exact power-of-two scaling)', () => {
     // (s + 1)(s + 2) = s² + 3s + 2 (quadratic formula: −1, −2).
     for (const scale of [1e300, 1e-310]) {
-      const r = polyRoots([2 * scale, 3 * scale, scale]).map((z) => z.re).sort((a, b) => a - b);
+      const r = polyRoots([2 * scale, 3 * scale, scale])
+        .map((z) => z.re)
+        .sort((a, b) => a - b);
       expect(r[0]).toBeCloseTo(-2, 12);
       expect(r[1]).toBeCloseTo(-1, 12);
     }

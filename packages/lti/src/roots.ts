@@ -88,14 +88,20 @@ export function polyRootsDetailed(p: Poly, opts: PolyRootsOptions = {}): PolyRoo
  * one's error from the rounding level of p's coefficients, K·eps·Σ|p_k||z|^k / |p′(z)| (first
  * order; conservative where a multiple root nearby keeps p′ small).
  */
-function polishSimple(c: number[], found: { roots: Complex[]; errors: number[]; multiple: { center: Complex; multiplicity: number }[] }): void {
+function polishSimple(
+  c: number[],
+  found: { roots: Complex[]; errors: number[]; multiple: { center: Complex; multiplicity: number }[] },
+): void {
   const isMultiple = (z: Complex) => found.multiple.some((m) => m.center.re === z.re && m.center.im === z.im);
   const simple: number[] = [];
   found.roots.forEach((z, i) => {
     if (!isMultiple(z)) simple.push(i);
   });
   if (simple.length === 0) return;
-  const polished = symmetrize(simple.map((i) => polishRoot(c, found.roots[i])), c);
+  const polished = symmetrize(
+    simple.map((i) => polishRoot(c, found.roots[i])),
+    c,
+  );
   const dc = derivative(c);
   const K = 8 * c.length;
   simple.forEach((i, j) => {

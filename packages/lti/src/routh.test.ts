@@ -61,7 +61,10 @@ describe('routhHurwitz', () => {
     // (e.g. roots −3, 4, −2, 1, ±2j), where a single numeric ε would miss the later zero row.
     fc.assert(
       fc.property(
-        fc.uniqueArray(fc.integer({ min: -4, max: 4 }).filter((k) => k !== 0), { maxLength: 5 }),
+        fc.uniqueArray(
+          fc.integer({ min: -4, max: 4 }).filter((k) => k !== 0),
+          { maxLength: 5 },
+        ),
         fc.uniqueArray(fc.integer({ min: 1, max: 3 }), { minLength: 1, maxLength: 2 }),
         (reals, ims) => {
           const roots = [...reals.map((r) => cx(r)), ...ims.flatMap((k) => [cx(0, k), cx(0, -k)])];

@@ -20,7 +20,9 @@ export function realize(r: Rational, what = 'transfer function'): StateSpace {
   const num = P.trim(r.num);
   const n = den.length - 1;
   if (num.length - 1 > n) {
-    throw new InputError(`${what} is improper (numerator degree ${num.length - 1} > denominator degree ${n}): it has no state-space realisation`);
+    throw new InputError(
+      `${what} is improper (numerator degree ${num.length - 1} > denominator degree ${n}): it has no state-space realisation`,
+    );
   }
   const lead = den[n];
   const a = den.map((c) => c / lead);

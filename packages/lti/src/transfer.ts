@@ -19,8 +19,7 @@ export function transfer(r: Rational, delay = 0): TransferFunction {
   return { rational: r, delay };
 }
 
-export const tfFromCoefficients = (num: readonly number[], den: readonly number[], delay = 0) =>
-  transfer(rational(num, den), delay);
+export const tfFromCoefficients = (num: readonly number[], den: readonly number[], delay = 0) => transfer(rational(num, den), delay);
 
 export const tmul = (a: TransferFunction, b: TransferFunction): TransferFunction =>
   transfer(rmul(a.rational, b.rational), a.delay + b.delay);

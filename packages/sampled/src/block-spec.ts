@@ -30,4 +30,3 @@ export function controllerSpecOf(kind: string, p: Record<string, unknown>, conti
       throw new InputError(`block kind ${kind} has no sampled form`, { field: 'kind' });
   }
 }
-

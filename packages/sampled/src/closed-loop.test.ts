@@ -65,7 +65,12 @@ describe('sampled loop in time against its pulse transfer function', () => {
       const T = 0.2;
       const a = 1.5;
       const ctrl = discretizeController({ kind: 'pid', kp: 0.6, ti: 2.5, td: 0.3, n: 6 }, { sampleTime: T, computeDelay: D });
-      const L = loopPulseTransfer({ plant: tfFromCoefficients([1], [0, a, 1], plantDelay), sampleTime: T, computeDelay: D, controller: ctrl.transfer });
+      const L = loopPulseTransfer({
+        plant: tfFromCoefficients([1], [0, a, 1], plantDelay),
+        sampleTime: T,
+        computeDelay: D,
+        controller: ctrl.transfer,
+      });
       const closed = discreteTransfer(L.rational.num, poly.add(L.rational.den, L.rational.num), T);
       const steps = 150;
       const want = filterSequence(closed, new Array(steps).fill(1));

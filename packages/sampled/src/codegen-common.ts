@@ -21,7 +21,8 @@ export function checkCodeName(name: string): string {
       { field: 'name' },
     );
   }
-  if (RESERVED.has(name.toLowerCase())) throw new InputError(`name: "${name}" is a reserved word in C or Structured Text`, { field: 'name' });
+  if (RESERVED.has(name.toLowerCase()))
+    throw new InputError(`name: "${name}" is a reserved word in C or Structured Text`, { field: 'name' });
   return name;
 }
 
@@ -58,7 +59,9 @@ export function describeController(c: DiscreteController, name: string): string[
   const T = c.sampleTime;
   if (c.kind === 'pid') {
     lines.push(`${name}: sampled PID controller, position form.`);
-    lines.push(`Integral: ${INTEGRAL_TEXT[c.integral]}; derivative filter: ${c.derivative === 'tustin' ? 'Tustin' : 'backward difference'}; anti-windup: ${c.antiWindup}.`);
+    lines.push(
+      `Integral: ${INTEGRAL_TEXT[c.integral]}; derivative filter: ${c.derivative === 'tustin' ? 'Tustin' : 'backward difference'}; anti-windup: ${c.antiWindup}.`,
+    );
   } else {
     lines.push(`${name}: sampled ${KIND_TEXT[c.source]} controller, order ${c.coefficients.a.length - 1}, ${METHOD_TEXT[c.method]}.`);
     lines.push(`Anti-windup: ${c.antiWindup === 'limited-feedback' ? 'recursion on the limited output' : 'off'}.`);
@@ -101,8 +104,18 @@ export function coefficientsText(c: DiscreteController, name: string): string {
     );
     lines.push('  u = min(max(v, umin), umax)');
     if (c.antiWindup === 'back-calculation') lines.push('  I = I + br·(u − v)');
-    if (c.antiWindup === 'conditional') lines.push('  the integral increment is dropped when v is beyond a limit and the increment pushes further out');
-    lines.push('', `  kp   = ${f(k.kp)}`, `  bi   = ${f(k.bi)}`, `  ad   = ${f(k.ad)}`, `  bd   = ${f(k.bd)}`, `  br   = ${f(k.br)}`, `  umin = ${f(k.umin)}`, `  umax = ${f(k.umax)}`);
+    if (c.antiWindup === 'conditional')
+      lines.push('  the integral increment is dropped when v is beyond a limit and the increment pushes further out');
+    lines.push(
+      '',
+      `  kp   = ${f(k.kp)}`,
+      `  bi   = ${f(k.bi)}`,
+      `  ad   = ${f(k.ad)}`,
+      `  bd   = ${f(k.bd)}`,
+      `  br   = ${f(k.br)}`,
+      `  umin = ${f(k.umin)}`,
+      `  umax = ${f(k.umax)}`,
+    );
   } else {
     lines.push('', `Limits: umin = ${f(c.coefficients.umin)}, umax = ${f(c.coefficients.umax)}`);
   }

@@ -24,8 +24,22 @@ const io = [
   '    RESET : BOOL;           (* TRUE: start again with the output at U_INIT *)',
   '    U_INIT : LREAL;         (* output after a reset *)',
 ];
-const outputs = ['VAR_OUTPUT', '    U : LREAL;              (* limited output *)', '    AT_LIMIT : BOOL;        (* TRUE while the output is limited *)', 'END_VAR'];
-const clamp = ['IF V > UMAX THEN', '    U := UMAX;', 'ELSIF V < UMIN THEN', '    U := UMIN;', 'ELSE', '    U := V;', 'END_IF;', 'AT_LIMIT := U <> V;'];
+const outputs = [
+  'VAR_OUTPUT',
+  '    U : LREAL;              (* limited output *)',
+  '    AT_LIMIT : BOOL;        (* TRUE while the output is limited *)',
+  'END_VAR',
+];
+const clamp = [
+  'IF V > UMAX THEN',
+  '    U := UMAX;',
+  'ELSIF V < UMIN THEN',
+  '    U := UMIN;',
+  'ELSE',
+  '    U := V;',
+  'END_IF;',
+  'AT_LIMIT := U <> V;',
+];
 
 function pidSt(c: DiscretePid): string[] {
   const k = c.coefficients;

@@ -83,7 +83,11 @@ describe('generated Structured Text runs the test vector to 1e-9', () => {
   for (const c of CASES) {
     it(c.label, () => {
       const ctrl = c.make();
-      const v = makeTestVector(ctrl, exerciseInput(400, 3), { name: 'axis_ctrl', initialOutput: 0.25, retunes: [{ atSample: 230, coefficients: c.retune().coefficients }] });
+      const v = makeTestVector(ctrl, exerciseInput(400, 3), {
+        name: 'axis_ctrl',
+        initialOutput: 0.25,
+        retunes: [{ atSample: 230, coefficients: c.retune().coefficients }],
+      });
       const got = runSt(ctrl, v, 'axis_ctrl');
       got.forEach((u, k) => expect(Math.abs(u - v.output[k])).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(v.output[k]))));
       // the vector exercises the limits where there are any
@@ -104,7 +108,16 @@ describe('generated C: contract', () => {
   it('header and source declare the state struct, the coefficient struct and reset/step/retune', () => {
     const g = generateC(CASES[0].make(), 'pos_loop');
     expect(g.header.path).toBe('pos_loop.h');
-    for (const w of ['pos_loop_state', 'pos_loop_coeffs', 'pos_loop_reset', 'pos_loop_step', 'pos_loop_retune', 'pos_loop_design', '#ifndef POS_LOOP_H']) expect(g.header.text).toContain(w);
+    for (const w of [
+      'pos_loop_state',
+      'pos_loop_coeffs',
+      'pos_loop_reset',
+      'pos_loop_step',
+      'pos_loop_retune',
+      'pos_loop_design',
+      '#ifndef POS_LOOP_H',
+    ])
+      expect(g.header.text).toContain(w);
     expect(g.source.text).toContain('#include "pos_loop.h"');
     expect(g.header.text).toMatch(/Caution/);
   });

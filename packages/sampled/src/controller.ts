@@ -1,5 +1,11 @@
 import { InputError, type TransferFunction, poly as P, tfFromCoefficients } from '@loopwright/lti';
-import { type DifferenceEquation, type DiscreteTransferFunction, checkSampleTime, differenceEquation, fromDifferenceEquation } from './discrete.ts';
+import {
+  type DifferenceEquation,
+  type DiscreteTransferFunction,
+  checkSampleTime,
+  differenceEquation,
+  fromDifferenceEquation,
+} from './discrete.ts';
 import { checkComputeDelay, holdEquivalent } from './hold.ts';
 import {
   type DerivativeMethod,
@@ -141,7 +147,11 @@ export function discretizeController(spec: ControllerSpec, sampling: SamplingSet
 }
 
 /** A transfer-type controller from its own difference equation (e.g. designed directly in z). */
-export function linearController(eq: DifferenceEquation, sampleTime: number, opts: Limits & { computeDelay?: number; antiWindup?: LinearAntiWindup } = {}): DiscreteLinear {
+export function linearController(
+  eq: DifferenceEquation,
+  sampleTime: number,
+  opts: Limits & { computeDelay?: number; antiWindup?: LinearAntiWindup } = {},
+): DiscreteLinear {
   const transfer = fromDifferenceEquation(eq, sampleTime);
   const norm = differenceEquation(transfer);
   const { umin, umax } = outputLimits(opts.umin, opts.umax);
@@ -168,24 +178,33 @@ function continuousForm(spec: Exclude<ControllerSpec, { kind: 'pid' }>): Transfe
       const k = finite(spec.k, 'k');
       const lead = finite(spec.tLead, 'tLead');
       const lag = finite(spec.tLag, 'tLag');
-      if (lead < 0 || lag < 0) throw new InputError(`field ${lead < 0 ? 'tLead' : 'tLag'}: time constants must be ≥ 0 s`, { field: lead < 0 ? 'tLead' : 'tLag' });
-      if (lag === 0 && lead > 0) throw new InputError('field tLag: a lead–lag with tLag = 0 is improper and has no sampled form; give it a lag', { field: 'tLag' });
+      if (lead < 0 || lag < 0)
+        throw new InputError(`field ${lead < 0 ? 'tLead' : 'tLag'}: time constants must be ≥ 0 s`, { field: lead < 0 ? 'tLead' : 'tLag' });
+      if (lag === 0 && lead > 0)
+        throw new InputError('field tLag: a lead–lag with tLag = 0 is improper and has no sampled form; give it a lag', { field: 'tLag' });
       return tfFromCoefficients([k, k * lead], [1, lag]);
     }
     case 'transfer-function': {
       const r = spec.tf.rational;
       if (P.degree(r.num) > P.degree(r.den)) {
-        throw new InputError('field expression: the controller is improper (more zeros than poles) and has no sampled form; add a filter pole', { field: 'expression' });
+        throw new InputError(
+          'field expression: the controller is improper (more zeros than poles) and has no sampled form; add a filter pole',
+          { field: 'expression' },
+        );
       }
       return spec.tf;
     }
     default:
-      throw new InputError(`controller kind ${(spec as { kind: string }).kind} has no sampled form (PID, lead–lag, transfer function and gain do)`, { field: 'kind' });
+      throw new InputError(
+        `controller kind ${(spec as { kind: string }).kind} has no sampled form (PID, lead–lag, transfer function and gain do)`,
+        { field: 'kind' },
+      );
   }
 }
 
 function choice<T extends string>(v: string, allowed: readonly T[], field: string): T {
-  if (!(allowed as readonly string[]).includes(v)) throw new InputError(`field ${field}: "${v}" is not one of ${allowed.join(', ')}`, { field });
+  if (!(allowed as readonly string[]).includes(v))
+    throw new InputError(`field ${field}: "${v}" is not one of ${allowed.join(', ')}`, { field });
   return v as T;
 }
 

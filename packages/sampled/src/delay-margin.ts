@@ -18,7 +18,8 @@ import { type SampledLoop, loopPulseTransfer } from './sampled-loop.ts';
 export function sampledDelayMargin(loop: SampledLoop, opts: { maxDelay?: number } = {}): number | null {
   const T = loop.sampleTime;
   const maxDelay = opts.maxDelay ?? 50 * T;
-  if (!(maxDelay > 0) || !Number.isFinite(maxDelay)) throw new InputError(`maxDelay must be a finite time > 0 s, got ${maxDelay}`, { field: 'maxDelay' });
+  if (!(maxDelay > 0) || !Number.isFinite(maxDelay))
+    throw new InputError(`maxDelay must be a finite time > 0 s, got ${maxDelay}`, { field: 'maxDelay' });
   // Δ = m·T + f: the whole samples are z^(−m); only the fraction needs a new hold equivalent
   // (cached, so the scan costs 16 discretisations).
   const byFraction = new Map<number, DiscreteTransferFunction>();

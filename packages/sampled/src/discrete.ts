@@ -20,7 +20,12 @@ export function checkSampleTime(T: number, what = 'sampleTime'): number {
 }
 
 /** H(z) from ascending coefficients in z; throws InputError for a non-causal (improper) H. */
-export function discreteTransfer(num: readonly number[], den: readonly number[], sampleTime: number, what = 'pulse transfer function'): DiscreteTransferFunction {
+export function discreteTransfer(
+  num: readonly number[],
+  den: readonly number[],
+  sampleTime: number,
+  what = 'pulse transfer function',
+): DiscreteTransferFunction {
   checkSampleTime(sampleTime);
   assertFinite(num, `${what} numerator`);
   assertFinite(den, `${what} denominator`);
@@ -38,8 +43,7 @@ export function discreteTransfer(num: readonly number[], den: readonly number[],
 export const dtEval = (h: DiscreteTransferFunction, z: Complex): Complex => revalComplex(h.rational, z);
 
 /** H(e^(jωT)): the frequency response at ω rad/s. */
-export const dtFrequencyValue = (h: DiscreteTransferFunction, omega: number): Complex =>
-  dtEval(h, cexp(cx(0, omega * h.sampleTime)));
+export const dtFrequencyValue = (h: DiscreteTransferFunction, omega: number): Complex => dtEval(h, cexp(cx(0, omega * h.sampleTime)));
 
 /** Series connection of two pulse transfer functions with the same sample time. */
 export function dtMul(a: DiscreteTransferFunction, b: DiscreteTransferFunction): DiscreteTransferFunction {
@@ -84,7 +88,8 @@ export function differenceEquation(h: DiscreteTransferFunction): DifferenceEquat
 
 /** H(z) from a difference equation (inverse of `differenceEquation`). */
 export function fromDifferenceEquation(eq: DifferenceEquation, sampleTime: number): DiscreteTransferFunction {
-  if (eq.a.length === 0 || eq.a[0] === 0) throw new InputError('difference equation: a[0] (the weight of the newest output) must be non-zero', { field: 'a' });
+  if (eq.a.length === 0 || eq.a[0] === 0)
+    throw new InputError('difference equation: a[0] (the weight of the newest output) must be non-zero', { field: 'a' });
   const n = Math.max(eq.a.length, eq.b.length) - 1;
   const num = new Array<number>(n + 1).fill(0);
   const den = new Array<number>(n + 1).fill(0);

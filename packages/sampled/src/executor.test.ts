@@ -19,7 +19,10 @@ describe('reference executor: linear behaviour', () => {
       discretizeController({ kind: 'lead-lag', k: 3, tLead: 0.2, tLag: 0.02 }, { sampleTime: 0.005 }),
       discretizeController({ kind: 'lead-lag', k: 3, tLead: 0.2, tLag: 0.02 }, { sampleTime: 0.005, method: 'zoh' }),
       discretizeController({ kind: 'lead-lag', k: 3, tLead: 0.2, tLag: 0.02 }, { sampleTime: 0.005, method: 'matched' }),
-      discretizeController({ kind: 'transfer-function', tf: tfFromCoefficients([4, 3, 1], [0, 2, 1]) }, { sampleTime: 0.02, method: 'tustin', prewarp: 3 }),
+      discretizeController(
+        { kind: 'transfer-function', tf: tfFromCoefficients([4, 3, 1], [0, 2, 1]) },
+        { sampleTime: 0.02, method: 'tustin', prewarp: 3 },
+      ),
       discretizeController({ kind: 'gain', k: -1.5 }, { sampleTime: 0.1 }),
     ];
     fc.assert(
@@ -89,7 +92,10 @@ describe('limits and anti-windup', () => {
   });
   it('a transfer-type controller with an integrator does not wind up with limited feedback', () => {
     const ctrl = (aw: 'off' | 'limited-feedback') =>
-      discretizeController({ kind: 'transfer-function', tf: tfFromCoefficients([1, 2], [0, 1]), ...limits, antiWindup: aw }, { sampleTime: 0.01 });
+      discretizeController(
+        { kind: 'transfer-function', tf: tfFromCoefficients([1, 2], [0, 1]), ...limits, antiWindup: aw },
+        { sampleTime: 0.01 },
+      );
     expect(samplesHigh(runController(ctrl('off'), e))).toBeGreaterThan(50);
     expect(samplesHigh(runController(ctrl('limited-feedback'), e))).toBeLessThan(3);
   });
@@ -111,8 +117,14 @@ describe('bumpless parameter change', () => {
     expect(Math.abs(stepController(b, naive, 0.5) - u - a.coefficients.bi * 0.5 - 1.2 * 0.5)).toBeLessThanOrEqual(1e-12);
   });
   it('transfer-type: w0 takes the change of b0, so a constant error sees no step at the change', () => {
-    const a = discretizeController({ kind: 'transfer-function', tf: tfFromCoefficients([1, 2], [0, 1]) }, { sampleTime: 0.01 }) as DiscreteLinear;
-    const b = discretizeController({ kind: 'transfer-function', tf: tfFromCoefficients([1, 5], [0, 1]) }, { sampleTime: 0.01 }) as DiscreteLinear;
+    const a = discretizeController(
+      { kind: 'transfer-function', tf: tfFromCoefficients([1, 2], [0, 1]) },
+      { sampleTime: 0.01 },
+    ) as DiscreteLinear;
+    const b = discretizeController(
+      { kind: 'transfer-function', tf: tfFromCoefficients([1, 5], [0, 1]) },
+      { sampleTime: 0.01 },
+    ) as DiscreteLinear;
     const s = createControllerState(a);
     let u = 0;
     let prev = 0;
@@ -161,9 +173,13 @@ describe('discretisation settings: clear errors', () => {
     expect(() => discretizeController({ kind: 'pid', kp: 1, ti: 1, umin: 1, umax: 0 }, { sampleTime: 0.1 })).toThrow(/umax/);
     expect(() => discretizeController({ kind: 'pid', kp: 1, ti: 1, umin: -1, umax: 1, tt: 0.04 }, { sampleTime: 0.1 })).toThrow(/field tt/);
     expect(() => discretizeController({ kind: 'pid', kp: 1, ti: 0 }, { sampleTime: 0.1 })).toThrow(/field ti/);
-    expect(() => discretizeController({ kind: 'pid', kp: 1 }, { sampleTime: 0.1, integral: 'sideways' as never })).toThrow(/field integral/);
+    expect(() => discretizeController({ kind: 'pid', kp: 1 }, { sampleTime: 0.1, integral: 'sideways' as never })).toThrow(
+      /field integral/,
+    );
     expect(() => discretizeController({ kind: 'lead-lag', k: 1, tLead: 1, tLag: 0 }, { sampleTime: 0.1 })).toThrow(/tLag/);
-    expect(() => discretizeController({ kind: 'transfer-function', tf: tfFromCoefficients([0, 1], [1]) }, { sampleTime: 0.1 })).toThrow(/improper/);
+    expect(() => discretizeController({ kind: 'transfer-function', tf: tfFromCoefficients([0, 1], [1]) }, { sampleTime: 0.1 })).toThrow(
+      /improper/,
+    );
     expect(() => discretizeController({ kind: 'gain', k: 1 }, { sampleTime: -1 })).toThrow(/sample time/);
   });
   it('anti-windup is reported off where it cannot act (no limits, or no integral action)', () => {

@@ -129,17 +129,22 @@ export function runController(
 function assertSameStructure(a: DiscreteController, b: DiscreteController): void {
   if (a.kind !== b.kind) throw new InputError(`retune: cannot change a ${a.kind} controller into a ${b.kind} one`);
   if (a.kind === 'pid' && b.kind === 'pid') {
-    if (a.integral !== b.integral || a.antiWindup !== b.antiWindup) throw new InputError('retune: the integral method and anti-windup mode are fixed in the code; regenerate it to change them');
+    if (a.integral !== b.integral || a.antiWindup !== b.antiWindup)
+      throw new InputError('retune: the integral method and anti-windup mode are fixed in the code; regenerate it to change them');
     const k = b.coefficients;
     for (const f of ['kp', 'bi', 'ad', 'bd', 'br'] as const) {
       if (!Number.isFinite(k[f])) throw new InputError(`retune: coefficient ${f} must be a finite number, got ${k[f]}`, { field: f });
     }
   } else if (a.kind === 'linear' && b.kind === 'linear') {
     if (a.coefficients.a.length !== b.coefficients.a.length || b.coefficients.b.length !== b.coefficients.a.length) {
-      throw new InputError(`retune: the controller order is fixed in the code (${a.coefficients.a.length - 1}); regenerate it to change the order`);
+      throw new InputError(
+        `retune: the controller order is fixed in the code (${a.coefficients.a.length - 1}); regenerate it to change the order`,
+      );
     }
-    if (a.antiWindup !== b.antiWindup) throw new InputError('retune: the anti-windup mode is fixed in the code; regenerate it to change it');
+    if (a.antiWindup !== b.antiWindup)
+      throw new InputError('retune: the anti-windup mode is fixed in the code; regenerate it to change it');
     if (b.coefficients.a[0] !== 1) throw new InputError('retune: a[0] must be 1 (normalise the difference equation)', { field: 'a' });
   }
-  if (!(b.coefficients.umin < b.coefficients.umax)) throw new InputError('retune: the upper output limit must be above the lower one', { field: 'umax' });
+  if (!(b.coefficients.umin < b.coefficients.umax))
+    throw new InputError('retune: the upper output limit must be above the lower one', { field: 'umax' });
 }

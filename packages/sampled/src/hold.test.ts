@@ -175,18 +175,23 @@ describe('matched pole–zero and Tustin', () => {
   });
   it('Tustin maps the stable left half-plane into the unit circle (poles stay stable) and keeps the static gain', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0.05, max: 20, noNaN: true }), fc.double({ min: 0.05, max: 0.99, noNaN: true }), fc.double({ min: 0.001, max: 2, noNaN: true }), (wn, zeta, T) => {
-        const G = tfFromCoefficients([wn * wn], [wn * wn, 2 * zeta * wn, 1]);
-        const H = tustin(G, T);
-        const g1 = poly.evalReal(H.rational.num, 1) / poly.evalReal(H.rational.den, 1);
-        // The coefficients in z hold terms of size (2/T)² next to ωn²: H(1) is known to eps·(2/(ωnT))².
-        expect(Math.abs(g1 - 1)).toBeLessThanOrEqual(1e-13 * (1 + (2 / (wn * T)) ** 2));
-        const den = desc(H.rational.den);
-        // Jury for z² + a1 z + a0: |a0| < 1, 1 + a1 + a0 > 0, 1 − a1 + a0 > 0.
-        expect(Math.abs(den[2])).toBeLessThan(1);
-        expect(1 + den[1] + den[2]).toBeGreaterThan(0);
-        expect(1 - den[1] + den[2]).toBeGreaterThan(0);
-      }),
+      fc.property(
+        fc.double({ min: 0.05, max: 20, noNaN: true }),
+        fc.double({ min: 0.05, max: 0.99, noNaN: true }),
+        fc.double({ min: 0.001, max: 2, noNaN: true }),
+        (wn, zeta, T) => {
+          const G = tfFromCoefficients([wn * wn], [wn * wn, 2 * zeta * wn, 1]);
+          const H = tustin(G, T);
+          const g1 = poly.evalReal(H.rational.num, 1) / poly.evalReal(H.rational.den, 1);
+          // The coefficients in z hold terms of size (2/T)² next to ωn²: H(1) is known to eps·(2/(ωnT))².
+          expect(Math.abs(g1 - 1)).toBeLessThanOrEqual(1e-13 * (1 + (2 / (wn * T)) ** 2));
+          const den = desc(H.rational.den);
+          // Jury for z² + a1 z + a0: |a0| < 1, 1 + a1 + a0 > 0, 1 − a1 + a0 > 0.
+          expect(Math.abs(den[2])).toBeLessThan(1);
+          expect(1 + den[1] + den[2]).toBeGreaterThan(0);
+          expect(1 - den[1] + den[2]).toBeGreaterThan(0);
+        },
+      ),
     );
   });
   it('a dead time that is not a whole number of samples is refused by Tustin and matched (named, with the way out)', () => {

@@ -71,7 +71,10 @@ export interface HoldOptions {
 export function checkComputeDelay(D: number | undefined, what = 'computeDelay'): number {
   const v = D ?? 0;
   if (typeof v !== 'number' || !Number.isFinite(v) || v < 0 || v > 1000) {
-    throw new InputError(`${what}: the computation delay is a number of samples from 0 to 1000 (0 none, 1 one sample, or a fraction), got ${v}`, { field: what });
+    throw new InputError(
+      `${what}: the computation delay is a number of samples from 0 to 1000 (0 none, 1 one sample, or a fraction), got ${v}`,
+      { field: what },
+    );
   }
   return v;
 }

@@ -3,7 +3,8 @@ import fc from 'fast-check';
 import { cabs, cx, poly, polyRoots } from '@loopwright/lti';
 import { juryTest, unitCircleRootCount } from './jury.ts';
 
-const fromRoots = (rs: { re: number; im: number }[]) => poly.fromRoots(rs.flatMap((r) => (r.im === 0 ? [cx(r.re)] : [cx(r.re, r.im), cx(r.re, -r.im)])));
+const fromRoots = (rs: { re: number; im: number }[]) =>
+  poly.fromRoots(rs.flatMap((r) => (r.im === 0 ? [cx(r.re)] : [cx(r.re, r.im), cx(r.re, -r.im)])));
 
 /** Roots as real values or conjugate pairs, away from the unit circle by at least 1e-3 so the verdict is well posed. */
 const rootSet = fc.array(

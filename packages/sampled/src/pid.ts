@@ -65,7 +65,8 @@ export interface PidDiscretisation {
 export function pidGains(s: PidSettings): { kp: number; ki: number; kd: number; tf: number } {
   const kp = finiteField(s.kp, 'kp');
   const n = s.n ?? 10;
-  if (!(n > 0) || !Number.isFinite(n)) throw new InputError(`field n: the derivative filter n must be a finite number > 0, got ${n}`, { field: 'n' });
+  if (!(n > 0) || !Number.isFinite(n))
+    throw new InputError(`field n: the derivative filter n must be a finite number > 0, got ${n}`, { field: 'n' });
   let ki: number;
   let kd: number;
   if (s.form === 'parallel') {
@@ -73,9 +74,11 @@ export function pidGains(s: PidSettings): { kp: number; ki: number; kd: number; 
     kd = finiteField(s.kd ?? 0, 'kd');
   } else {
     const ti = s.ti ?? Infinity;
-    if (Number.isNaN(ti) || ti <= 0) throw new InputError(`field ti: the integral time must be > 0 s (blank = no integral action), got ${ti}`, { field: 'ti' });
+    if (Number.isNaN(ti) || ti <= 0)
+      throw new InputError(`field ti: the integral time must be > 0 s (blank = no integral action), got ${ti}`, { field: 'ti' });
     const td = s.td ?? 0;
-    if (!Number.isFinite(td) || td < 0) throw new InputError(`field td: the derivative time must be a finite number ≥ 0 s, got ${td}`, { field: 'td' });
+    if (!Number.isFinite(td) || td < 0)
+      throw new InputError(`field td: the derivative time must be a finite number ≥ 0 s, got ${td}`, { field: 'td' });
     ki = Number.isFinite(ti) ? kp / ti : 0;
     kd = kp * td;
   }
@@ -91,7 +94,8 @@ export function pidGains(s: PidSettings): { kp: number; ki: number; kd: number; 
 /** Back-calculation tracking time when none is given: √(ti·td) with derivative, ti without (Åström & Hägglund 2006, §3.5 (from memory)). */
 export function pidTrackingTime(s: PidSettings): number {
   if (s.tt !== undefined && !Number.isNaN(s.tt)) {
-    if (!(s.tt > 0) || !Number.isFinite(s.tt)) throw new InputError(`field tt: the tracking time must be a finite number > 0 s, got ${s.tt}`, { field: 'tt' });
+    if (!(s.tt > 0) || !Number.isFinite(s.tt))
+      throw new InputError(`field tt: the tracking time must be a finite number > 0 s, got ${s.tt}`, { field: 'tt' });
     return s.tt;
   }
   const g = pidGains(s);
@@ -123,9 +127,12 @@ export function pidCoefficients(s: PidSettings, sampleTime: number, how: PidDisc
     br = T / pidTrackingTime(s);
     // The tracking recursion I ← I + br·(u − v) shrinks the excess u − v by (1 − br) per sample.
     if (br >= 2) {
-      throw new InputError(`field tt: a tracking time of ${T / br} s is at or below half the sample time ${T} s, where discrete back-calculation is unstable (T/tt must be below 2)`, {
-        field: 'tt',
-      });
+      throw new InputError(
+        `field tt: a tracking time of ${T / br} s is at or below half the sample time ${T} s, where discrete back-calculation is unstable (T/tt must be below 2)`,
+        {
+          field: 'tt',
+        },
+      );
     }
   }
   return { kp, bi: ki * T, ad, bd, br, umin, umax };
@@ -135,9 +142,12 @@ export function pidCoefficients(s: PidSettings, sampleTime: number, how: PidDisc
 export function outputLimits(lo: number | undefined, hi: number | undefined): { umin: number; umax: number } {
   const umin = lo ?? -Infinity;
   const umax = hi ?? Infinity;
-  if (Number.isNaN(umin) || umin === Infinity) throw new InputError(`field umin: the lower output limit must be a number or blank, got ${umin}`, { field: 'umin' });
-  if (Number.isNaN(umax) || umax === -Infinity) throw new InputError(`field umax: the upper output limit must be a number or blank, got ${umax}`, { field: 'umax' });
-  if (!(umin < umax)) throw new InputError(`field umax: the upper output limit ${umax} must be above the lower one ${umin}`, { field: 'umax' });
+  if (Number.isNaN(umin) || umin === Infinity)
+    throw new InputError(`field umin: the lower output limit must be a number or blank, got ${umin}`, { field: 'umin' });
+  if (Number.isNaN(umax) || umax === -Infinity)
+    throw new InputError(`field umax: the upper output limit must be a number or blank, got ${umax}`, { field: 'umax' });
+  if (!(umin < umax))
+    throw new InputError(`field umax: the upper output limit ${umax} must be above the lower one ${umin}`, { field: 'umax' });
   return { umin, umax };
 }
 
@@ -158,6 +168,7 @@ export function pidTransfer(c: PidCoefficients, sampleTime: number, integral: In
 }
 
 function finiteField(v: number, name: string): number {
-  if (typeof v !== 'number' || !Number.isFinite(v)) throw new InputError(`field ${name}: must be a finite number, got ${v}`, { field: name });
+  if (typeof v !== 'number' || !Number.isFinite(v))
+    throw new InputError(`field ${name}: must be a finite number, got ${v}`, { field: name });
   return v;
 }

@@ -28,7 +28,9 @@ export function loopPulseTransfer(loop: SampledLoop): DiscreteTransferFunction {
   const G = holdEquivalent(loop.plant, T, { computeDelay: checkComputeDelay(loop.computeDelay) });
   if (!loop.controller) return G;
   if (Math.abs(loop.controller.sampleTime - T) > 1e-12 * T) {
-    throw new InputError(`controller: its sample time ${loop.controller.sampleTime} s differs from the loop's ${T} s`, { field: 'controller' });
+    throw new InputError(`controller: its sample time ${loop.controller.sampleTime} s differs from the loop's ${T} s`, {
+      field: 'controller',
+    });
   }
   return dtMul(loop.controller, G);
 }

@@ -124,7 +124,8 @@ describe('exact delay margin of a sampled loop', () => {
     const plant = tfFromCoefficients([1.2], fd([1, 2, 1, 0]));
     for (const T of [0.1, 0.3]) {
       const dm = sampledDelayMargin({ plant, sampleTime: T })!;
-      const at = (f: number) => sampledMargins({ plant: tfFromCoefficients([1.2], fd([1, 2, 1, 0]), f * dm), sampleTime: T }).closedLoopStable;
+      const at = (f: number) =>
+        sampledMargins({ plant: tfFromCoefficients([1.2], fd([1, 2, 1, 0]), f * dm), sampleTime: T }).closedLoopStable;
       expect(at(0.999)).toBe(true);
       expect(at(1.001)).toBe(false);
       const reading = sampledMargins({ plant, sampleTime: T }).delayMargin!;

@@ -1,4 +1,13 @@
-import { type Complex, type LoopMargins, type MarginFigures, cabs, loopMargins, marginFigures, poly as P, polyRootsDetailed } from '@loopwright/lti';
+import {
+  type Complex,
+  type LoopMargins,
+  type MarginFigures,
+  cabs,
+  loopMargins,
+  marginFigures,
+  poly as P,
+  polyRootsDetailed,
+} from '@loopwright/lti';
 import type { DiscreteTransferFunction } from './discrete.ts';
 import { type JuryResult, juryTest } from './jury.ts';
 import { type SampleRateNote, sampleRateCheck } from './sample-rate.ts';
@@ -42,7 +51,8 @@ export interface SampledMarginOptions {
   pointsPerDecade?: number;
 }
 
-export const CONTINUOUS_ESTIMATE_LABEL = 'continuous estimate (hold as e^(−sT/2), computation delay as dead time): an approximation, not the sampled loop';
+export const CONTINUOUS_ESTIMATE_LABEL =
+  'continuous estimate (hold as e^(−sT/2), computation delay as dead time): an approximation, not the sampled loop';
 
 export function sampledMargins(loop: SampledLoop, opts: SampledMarginOptions = {}): SampledMargins {
   const pulse = loopPulseTransfer(loop);
@@ -53,13 +63,21 @@ export function sampledMargins(loop: SampledLoop, opts: SampledMarginOptions = {
   const continuous = Lc ? loopMargins(Lc) : null;
   const estimate = Lc ? { label: CONTINUOUS_ESTIMATE_LABEL, margins: loopMargins(holdAsDelay(Lc, T, D)) } : null;
   // The guideline is stated for the continuous design's crossover; without one, the sampled loop's.
-  const wc = continuous && continuous.gainCrossovers.length ? Math.max(...continuous.gainCrossovers) : core.gainCrossovers.length ? Math.max(...core.gainCrossovers) : null;
+  const wc =
+    continuous && continuous.gainCrossovers.length
+      ? Math.max(...continuous.gainCrossovers)
+      : core.gainCrossovers.length
+        ? Math.max(...core.gainCrossovers)
+        : null;
   const note = sampleRateCheck(wc, T, D);
   return { ...core, computeDelay: D, continuousEstimate: estimate, continuous, notes: note ? [note] : [] };
 }
 
 /** Margins of a loop given directly by its pulse transfer function G(z) (characteristic equation 1 + G = 0). */
-export function pulseMargins(pulse: DiscreteTransferFunction, opts: SampledMarginOptions = {}): Omit<SampledMargins, 'computeDelay' | 'continuousEstimate' | 'continuous' | 'notes'> {
+export function pulseMargins(
+  pulse: DiscreteTransferFunction,
+  opts: SampledMarginOptions = {},
+): Omit<SampledMargins, 'computeDelay' | 'continuousEstimate' | 'continuous' | 'notes'> {
   const T = pulse.sampleTime;
   const wN = Math.PI / T;
   const num = P.trim(pulse.rational.num);
@@ -78,7 +96,10 @@ export function pulseMargins(pulse: DiscreteTransferFunction, opts: SampledMargi
     closedLoopStable,
     padeOrder: null,
     // Six digits, as for continuous closed-loop poles (lti closed-loop.ts).
-    closedLoopAccuracy: { worstRelativeError: roots ? roots.worstRelativeError : 0, limited: roots ? roots.worstRelativeError > 1e-6 : false },
+    closedLoopAccuracy: {
+      worstRelativeError: roots ? roots.worstRelativeError : 0,
+      limited: roots ? roots.worstRelativeError > 1e-6 : false,
+    },
     // G(z) is rational in z and evaluated exactly on the unit circle; no crossover tail (the band ends at π/T).
     frequencyMethod: 'rational' as const,
     phaseCrossoverTail: null,
@@ -101,7 +122,8 @@ export function pulseMargins(pulse: DiscreteTransferFunction, opts: SampledMargi
     gainCrossoverDetails: [] as LoopMargins['gainCrossoverDetails'],
     phaseCrossoverDetails: [] as LoopMargins['phaseCrossoverDetails'],
   };
-  if (num.length === 0) return { ...base, peakSensitivity: 1, peakSensitivityFrequency: 0, peakComplementary: 0, peakComplementaryFrequency: 0 };
+  if (num.length === 0)
+    return { ...base, peakSensitivity: 1, peakSensitivityFrequency: 0, peakComplementary: 0, peakComplementaryFrequency: 0 };
 
   const g = unitCircleEvaluator(pulse);
   const grid = sampledFrequencyGrid(g, opts.pointsPerDecade ?? 200);
@@ -159,7 +181,7 @@ export function pulseMargins(pulse: DiscreteTransferFunction, opts: SampledMargi
     if (p.gainFactor >= 1 && (!upper || p.gainFactor < upper.gainFactor)) upper = p;
     if (p.gainFactor < 1 && (!lower || p.gainFactor > lower.gainFactor)) lower = p;
   }
-  if (closedLoopStable) for (const c of gainCrossoverDetails) c.delayMargin = (lag360(c.phaseMarginDeg) / DEG) / c.omega;
+  if (closedLoopStable) for (const c of gainCrossoverDetails) c.delayMargin = lag360(c.phaseMarginDeg) / DEG / c.omega;
   let worst: (typeof gainCrossoverDetails)[number] | null = null;
   for (const c of gainCrossoverDetails) if (!worst || c.phaseMarginDeg < worst.phaseMarginDeg) worst = c;
 
@@ -171,8 +193,16 @@ export function pulseMargins(pulse: DiscreteTransferFunction, opts: SampledMargi
     const v = g(w);
     return v.mag / Math.hypot(1 + v.re, v.im);
   };
-  const s = peak(grid, pts.map((v) => 1 / Math.hypot(1 + v.re, v.im)), sens);
-  const t = peak(grid, pts.map((v) => v.mag / Math.hypot(1 + v.re, v.im)), comp);
+  const s = peak(
+    grid,
+    pts.map((v) => 1 / Math.hypot(1 + v.re, v.im)),
+    sens,
+  );
+  const t = peak(
+    grid,
+    pts.map((v) => v.mag / Math.hypot(1 + v.re, v.im)),
+    comp,
+  );
 
   return {
     ...base,
@@ -201,7 +231,12 @@ export function pulseMargins(pulse: DiscreteTransferFunction, opts: SampledMargi
 export type SampledMarginFigures = MarginFigures & { sampleTime: number; computeDelay: number; nyquistFrequency: number };
 
 export function sampledMarginFigures(m: SampledMargins): SampledMarginFigures {
-  return { ...marginFigures({ ...m, notes: m.notes.map((n) => n.message) }), sampleTime: m.sampleTime, computeDelay: m.computeDelay, nyquistFrequency: m.nyquistFrequency };
+  return {
+    ...marginFigures({ ...m, notes: m.notes.map((n) => n.message) }),
+    sampleTime: m.sampleTime,
+    computeDelay: m.computeDelay,
+    nyquistFrequency: m.nyquistFrequency,
+  };
 }
 
 /** G at a real z (±1): null at a pole. */
@@ -236,7 +271,13 @@ function peak(grid: readonly number[], vals: readonly number[], f: (w: number) =
 }
 
 /** First ω where |T(e^(jωT))| falls to |T(1)|/√2; null when it stays above up to the Nyquist frequency. */
-function bandwidth(grid: readonly number[], pts: readonly { re: number; im: number; mag: number }[], g: UnitCircleEvaluator, num: readonly number[], den: readonly number[]): number | null {
+function bandwidth(
+  grid: readonly number[],
+  pts: readonly { re: number; im: number; mag: number }[],
+  g: UnitCircleEvaluator,
+  num: readonly number[],
+  den: readonly number[],
+): number | null {
   const v1 = realValue(num, den, 1);
   const t0 = v1 === null ? 1 : Math.abs(v1 / (1 + v1));
   if (!Number.isFinite(t0) || t0 === 0) return null;

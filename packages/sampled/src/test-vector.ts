@@ -35,7 +35,9 @@ export function makeTestVector(
   if (input.length === 0) throw new InputError('test vector input: give at least one sample', { field: 'input' });
   for (const r of opts.retunes ?? []) {
     if (!Number.isInteger(r.atSample) || r.atSample < 0 || r.atSample >= input.length) {
-      throw new InputError(`test vector retune: atSample must be a whole number from 0 to ${input.length - 1}, got ${r.atSample}`, { field: 'atSample' });
+      throw new InputError(`test vector retune: atSample must be a whole number from 0 to ${input.length - 1}, got ${r.atSample}`, {
+        field: 'atSample',
+      });
     }
   }
   const initialOutput = opts.initialOutput ?? 0;
@@ -108,9 +110,11 @@ export function testVectorFromJson(text: string): TestVector {
     if (!Array.isArray(v[f])) throw new InputError(`test vector: field ${f} must be an array of numbers`, { field: f });
     assertFinite(v[f], `test vector ${f}`);
   }
-  if (v.input.length !== v.output.length) throw new InputError(`test vector: ${v.input.length} inputs but ${v.output.length} outputs`, { field: 'output' });
+  if (v.input.length !== v.output.length)
+    throw new InputError(`test vector: ${v.input.length} inputs but ${v.output.length} outputs`, { field: 'output' });
   for (const f of ['sampleTime', 'computeDelay', 'initialOutput', 'tolerance'] as const) {
-    if (typeof v[f] !== 'number' || !Number.isFinite(v[f])) throw new InputError(`test vector: field ${f} must be a finite number`, { field: f });
+    if (typeof v[f] !== 'number' || !Number.isFinite(v[f]))
+      throw new InputError(`test vector: field ${f} must be a finite number`, { field: f });
   }
   const retunes = Array.isArray(v.retunes) ? v.retunes : [];
   for (const r of retunes) {

@@ -1,4 +1,16 @@
-import { type Complex, InputError, type TransferFunction, cabs, cexp, cmul, cx, poly as P, polyRoots, rational, rcompose } from '@loopwright/lti';
+import {
+  type Complex,
+  InputError,
+  type TransferFunction,
+  cabs,
+  cexp,
+  cmul,
+  cx,
+  poly as P,
+  polyRoots,
+  rational,
+  rcompose,
+} from '@loopwright/lti';
 import { type DiscreteTransferFunction, checkSampleTime, discreteTransfer, dtDelay } from './discrete.ts';
 import { splitDelay } from './hold.ts';
 
@@ -15,9 +27,12 @@ export function tustinConstant(sampleTime: number, prewarp?: number): number {
   const T = checkSampleTime(sampleTime);
   if (prewarp === undefined) return 2 / T;
   if (!Number.isFinite(prewarp) || prewarp <= 0 || prewarp * T >= Math.PI) {
-    throw new InputError(`prewarp: the prewarping frequency must satisfy 0 < ω1·T < π (below the Nyquist frequency ${Math.PI / T} rad/s), got ${prewarp} rad/s`, {
-      field: 'prewarp',
-    });
+    throw new InputError(
+      `prewarp: the prewarping frequency must satisfy 0 < ω1·T < π (below the Nyquist frequency ${Math.PI / T} rad/s), got ${prewarp} rad/s`,
+      {
+        field: 'prewarp',
+      },
+    );
   }
   return prewarp / Math.tan((prewarp * T) / 2);
 }
@@ -43,12 +58,17 @@ export function tustin(G: TransferFunction, sampleTime: number, opts: TustinOpti
  * lim ((z−1)/T)^q H(z) at z → 1 equals lim s^q G(s) at s → 0 (Franklin, Powell & Workman, ch. 6
  * (from memory)).
  */
-export function matchedPoleZero(G: TransferFunction, sampleTime: number, opts: { keepOneSampleDelay?: boolean } = {}): DiscreteTransferFunction {
+export function matchedPoleZero(
+  G: TransferFunction,
+  sampleTime: number,
+  opts: { keepOneSampleDelay?: boolean } = {},
+): DiscreteTransferFunction {
   const T = checkSampleTime(sampleTime);
   const d = wholeSampleDelay(G, T, 'matched pole–zero');
   const num = P.trim(G.rational.num);
   const den = P.trim(G.rational.den);
-  if (num.length > den.length) throw new InputError('matched pole–zero: the transfer function is improper (more zeros than poles)', { field: 'transfer function' });
+  if (num.length > den.length)
+    throw new InputError('matched pole–zero: the transfer function is improper (more zeros than poles)', { field: 'transfer function' });
   if (num.length === 0) return discreteTransfer([], [1], T);
   const zs = num.length > 1 ? polyRoots(num) : [];
   const ps = den.length > 1 ? polyRoots(den) : [];

@@ -1,4 +1,13 @@
-import { type Complex, type FrequencyPoint, type FrequencyResponse, InputError, assertFinite, cabs, poly as P, polyRoots } from '@loopwright/lti';
+import {
+  type Complex,
+  type FrequencyPoint,
+  type FrequencyResponse,
+  InputError,
+  assertFinite,
+  cabs,
+  poly as P,
+  polyRoots,
+} from '@loopwright/lti';
 import type { DiscreteTransferFunction } from './discrete.ts';
 
 const DEG = 180 / Math.PI;

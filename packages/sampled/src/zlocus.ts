@@ -42,10 +42,21 @@ export function zPlaneLocus(pulse: DiscreteTransferFunction, opts: RootLocusOpti
   const far = Math.max(0, ...crossings.map((c) => Math.abs(c.gain)));
   if (opts.kMax === undefined && far > 0 && Math.abs(locus.kRange[1]) < 1.5 * far) locus = rootLocus(N, D, { ...opts, kMax: 2 * far });
   const { crossings: _sPlane, ...rest } = locus;
-  const ranges = stableRanges(N, D, crossings.map((c) => Math.abs(c.gain)), sgn);
+  const ranges = stableRanges(
+    N,
+    D,
+    crossings.map((c) => Math.abs(c.gain)),
+    sgn,
+  );
   const first = ranges.length && ranges[0].from === 0 ? ranges[0] : null;
   const criticalGain = first && first.to !== null ? sgn * first.to : null;
-  const criticalCrossing = criticalGain === null ? null : crossings.reduce<UnitCircleCrossing | null>((b, c) => (!b || Math.abs(c.gain - criticalGain) < Math.abs(b.gain - criticalGain) ? c : b), null);
+  const criticalCrossing =
+    criticalGain === null
+      ? null
+      : crossings.reduce<UnitCircleCrossing | null>(
+          (b, c) => (!b || Math.abs(c.gain - criticalGain) < Math.abs(b.gain - criticalGain) ? c : b),
+          null,
+        );
   return {
     ...rest,
     plane: 'z',
@@ -165,7 +176,10 @@ export interface ZPlaneGuides {
  * damping ζ and natural frequency ωn map under z = e^(sT) (Franklin, Powell & Workman, ch. 4
  * (from memory)). Defaults: ζ = 0.1 … 0.9 and ωn = (0.1 … 1.0)·π/T.
  */
-export function zPlaneGuides(sampleTime: number, opts: { dampings?: number[]; naturalFrequencies?: number[]; points?: number } = {}): ZPlaneGuides {
+export function zPlaneGuides(
+  sampleTime: number,
+  opts: { dampings?: number[]; naturalFrequencies?: number[]; points?: number } = {},
+): ZPlaneGuides {
   const T = sampleTime;
   const n = opts.points ?? 64;
   const zetas = opts.dampings ?? [0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9];
@@ -174,7 +188,9 @@ export function zPlaneGuides(sampleTime: number, opts: { dampings?: number[]; na
     const m = Math.exp(re * T);
     return cx(m * Math.cos(im * T), m * Math.sin(im * T));
   };
-  const unitCircle = Array.from({ length: 4 * n + 1 }, (_, i) => cx(Math.cos((2 * Math.PI * i) / (4 * n)), Math.sin((2 * Math.PI * i) / (4 * n))));
+  const unitCircle = Array.from({ length: 4 * n + 1 }, (_, i) =>
+    cx(Math.cos((2 * Math.PI * i) / (4 * n)), Math.sin((2 * Math.PI * i) / (4 * n))),
+  );
   const damping = zetas
     .filter((z) => z >= 0 && z < 1)
     .map((zeta) => {

@@ -52,7 +52,8 @@ export function compileModel(diagram: Diagram): CompiledModel {
         field: `wires.${w.id}.to`,
       });
     }
-    if (dst.inputs[port] >= 0) throw new InputError(`wire ${w.id}: input ${dst.id}.${w.to.port} already has a wire`, { field: `wires.${w.id}.to` });
+    if (dst.inputs[port] >= 0)
+      throw new InputError(`wire ${w.id}: input ${dst.id}.${w.to.port} already has a wire`, { field: `wires.${w.id}.to` });
     dst.inputs[port] = from;
     wireSource.set(w.id, from);
   }

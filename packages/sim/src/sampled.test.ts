@@ -3,13 +3,28 @@
 import { describe, expect, it } from 'vitest';
 import { diagramOf } from '@loopwright/graph/testing';
 import type { ParamValue } from '@loopwright/graph';
-import { type DiscreteTransferFunction, discreteTransfer, discretizeController, dtMul, filterSequence, holdEquivalent, runController } from '@loopwright/sampled';
+import {
+  type DiscreteTransferFunction,
+  discreteTransfer,
+  discretizeController,
+  dtMul,
+  filterSequence,
+  holdEquivalent,
+  runController,
+} from '@loopwright/sampled';
 import { parseTransferFunction, poly as P } from '@loopwright/lti';
 import { compileModel, simulate } from './index.ts';
 
 const loop = (ctrl: [string, 'gain' | 'pid' | 'lead-lag', Record<string, ParamValue>], plant: string) =>
   diagramOf(
-    [['r', 'source', { shape: 'step', amplitude: 1, start: 0 }], ['e', 'summing-junction', { signs: '+-' }], ctrl, ['G', 'transfer-function', { expression: plant }], ['y', 'probe'], ['u', 'probe']],
+    [
+      ['r', 'source', { shape: 'step', amplitude: 1, start: 0 }],
+      ['e', 'summing-junction', { signs: '+-' }],
+      ctrl,
+      ['G', 'transfer-function', { expression: plant }],
+      ['y', 'probe'],
+      ['u', 'probe'],
+    ],
     ['r->e.in1', `e->${ctrl[0]}`, `${ctrl[0]}->G`, 'fb:G->e.in2', 'G->y', `${ctrl[0]}->u`],
   );
 
@@ -75,7 +90,9 @@ describe('sampled blocks in the simulator', () => {
     // the held output at kT is the executor's u(k − 1) on the sampled error sequence
     const e = atInstants(run.time, run.traces.y, T, n).map((y) => 1 - y);
     const u = runController(ctrl, e);
-    atInstants(run.time, run.traces.u, T, n).slice(1).forEach((v, k) => expect(Math.abs(v - u[k])).toBeLessThan(1e-9));
+    atInstants(run.time, run.traces.u, T, n)
+      .slice(1)
+      .forEach((v, k) => expect(Math.abs(v - u[k])).toBeLessThan(1e-9));
   });
 
   it('with output limits and anti-windup the held outputs are those of the executor on the sampled errors', () => {
@@ -88,15 +105,23 @@ describe('sampled blocks in the simulator', () => {
     const e = atInstants(run.time, run.traces.y, T, n).map((y) => 1 - y);
     const u = runController(ctrl, e);
     expect(Math.max(...u)).toBe(0.6); // the limit is reached
-    atInstants(run.time, run.traces.u, T, n).slice(1).forEach((v, k) => expect(Math.abs(v - u[k])).toBeLessThan(1e-12));
+    atInstants(run.time, run.traces.u, T, n)
+      .slice(1)
+      .forEach((v, k) => expect(Math.abs(v - u[k])).toBeLessThan(1e-12));
   });
 
   it('a fractional computation delay (0.5 sample) agrees with the modified z-transform', () => {
     const T = 0.02;
-    const d = loop(['C', 'lead-lag', { k: 3, tLead: 0.1, tLag: 0.02, sampleTime: T, computeDelay: 0.5, method: 'tustin' }], '1/(s*(0.05*s+1))');
+    const d = loop(
+      ['C', 'lead-lag', { k: 3, tLead: 0.1, tLag: 0.02, sampleTime: T, computeDelay: 0.5, method: 'tustin' }],
+      '1/(s*(0.05*s+1))',
+    );
     const n = 100;
     const run = simulate(compileModel(d), { until: n * T, outputStep: T / 4, engine: 'exact' });
-    const ctrl = discretizeController({ kind: 'lead-lag', k: 3, tLead: 0.1, tLag: 0.02 }, { sampleTime: T, computeDelay: 0.5, method: 'tustin' });
+    const ctrl = discretizeController(
+      { kind: 'lead-lag', k: 3, tLead: 0.1, tLag: 0.02 },
+      { sampleTime: T, computeDelay: 0.5, method: 'tustin' },
+    );
     const G = dtMul(ctrl.transfer, holdEquivalent(parseTransferFunction('1/(s*(0.05*s+1))'), T, { computeDelay: 0.5 }));
     const ref = closedLoopStep(G, n);
     atInstants(run.time, run.traces.y, T, n).forEach((v, k) => expect(Math.abs(v - ref[k])).toBeLessThan(1e-8));

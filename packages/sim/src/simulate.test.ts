@@ -16,92 +16,92 @@ const slopes = (t: number[], y: number[], gap = 1e-4) => {
 };
 
 for (const engine of ['exact', 'odex'] as const) {
-describe(`rate limit (${engine} engine)`, () => {
-  it('output slope never exceeds the rising and falling limits (property over inputs and limits)', () => {
-    fc.assert(
-      fc.property(
-        fc.constantFrom('step', 'sinusoid', 'pulse', 'ramp'),
-        fc.double({ min: 0.2, max: 3, noNaN: true }),
-        fc.double({ min: 0.2, max: 3, noNaN: true }),
-        fc.double({ min: 0.3, max: 3, noNaN: true }),
-        (shape, rising, falling, amplitude) => {
-          const d = buildDiagram(
-            [
-              ['r', 'source', { shape, amplitude, omega: 2, width: 1.5, period: 4 }],
-              ['rl', 'rate-limit', { rising, falling }],
-              ['y', 'probe'],
-            ],
-            ['r -> rl', 'rl -> y'],
-          );
-          const res = simulate(compileModel(d), { until: 8, outputStep: 0.01, rtol: 1e-10, atol: 1e-12, engine });
-          expect(res.status).toBe('ok');
-          // definition of a rate limiter: |dy/dt| bounded by the limits (common practice, no source)
-          for (const s of slopes(res.time, res.traces.y)) {
-            expect(s).toBeLessThanOrEqual(rising * (1 + 1e-6) + 1e-9);
-            expect(s).toBeGreaterThanOrEqual(-falling * (1 + 1e-6) - 1e-9);
-          }
-        },
-      ),
-      { numRuns: 20 },
-    );
-  });
-
-  it('a step is followed at the rising rate and then tracked: y = min(rate·t, 1) exactly', () => {
-    const d = buildDiagram(
-      [
-        ['r', 'source', { shape: 'step', amplitude: 1 }],
-        ['rl', 'rate-limit', { rising: 0.4, falling: 1 }],
-        ['y', 'probe'],
-      ],
-      ['r -> rl', 'rl -> y'],
-    );
-    const res = simulate(compileModel(d), { until: 5, outputStep: 0.05, engine });
-    res.time.forEach((t, i) => expect(Math.abs(res.traces.y[i] - Math.min(0.4 * t, 1))).toBeLessThan(1e-9));
-    const leave = res.events.find((e) => e.kind === 'rate-leave')!;
-    expect(Math.abs(leave.time - 2.5)).toBeLessThan(1e-9);
-    expect(Math.abs(res.actuators.rl.timeInSaturation - 2.5)).toBeLessThan(1e-9);
-  });
-
-  it('linear run passes the signal', () => {
-    const d = buildDiagram(
-      [
-        ['r', 'source', { shape: 'step', amplitude: 1 }],
-        ['rl', 'rate-limit', { rising: 0.4, falling: 1 }],
-        ['y', 'probe'],
-      ],
-      ['r -> rl', 'rl -> y'],
-    );
-    const res = simulate(compileModel(d), { until: 2, outputStep: 0.5, linear: true, engine });
-    expect(res.traces.y).toEqual([1, 1, 1, 1, 1]);
-  });
-});
-
-describe(`dead zone (${engine} engine)`, () => {
-  it('output is zero inside the band and input − edge outside; band edges are exact events', () => {
-    const lower = -0.5;
-    const upper = 0.8;
-    const d = buildDiagram(
-      [
-        ['r', 'source', { shape: 'sinusoid', amplitude: 2, omega: 1 }],
-        ['dz', 'dead-zone', { lower, upper }],
-        ['y', 'probe'],
-        ['u', 'probe'],
-      ],
-      ['r -> dz', 'dz -> y', 'r -> u'],
-    );
-    const res = simulate(compileModel(d), { until: 7, outputStep: 0.01, engine });
-    res.time.forEach((t, i) => {
-      const u = 2 * Math.sin(t);
-      const want = u > upper ? u - upper : u < lower ? u - lower : 0;
-      if (u >= lower && u <= upper) expect(res.traces.y[i]).toBe(0);
-      expect(Math.abs(res.traces.y[i] - want)).toBeLessThan(1e-12);
+  describe(`rate limit (${engine} engine)`, () => {
+    it('output slope never exceeds the rising and falling limits (property over inputs and limits)', () => {
+      fc.assert(
+        fc.property(
+          fc.constantFrom('step', 'sinusoid', 'pulse', 'ramp'),
+          fc.double({ min: 0.2, max: 3, noNaN: true }),
+          fc.double({ min: 0.2, max: 3, noNaN: true }),
+          fc.double({ min: 0.3, max: 3, noNaN: true }),
+          (shape, rising, falling, amplitude) => {
+            const d = buildDiagram(
+              [
+                ['r', 'source', { shape, amplitude, omega: 2, width: 1.5, period: 4 }],
+                ['rl', 'rate-limit', { rising, falling }],
+                ['y', 'probe'],
+              ],
+              ['r -> rl', 'rl -> y'],
+            );
+            const res = simulate(compileModel(d), { until: 8, outputStep: 0.01, rtol: 1e-10, atol: 1e-12, engine });
+            expect(res.status).toBe('ok');
+            // definition of a rate limiter: |dy/dt| bounded by the limits (common practice, no source)
+            for (const s of slopes(res.time, res.traces.y)) {
+              expect(s).toBeLessThanOrEqual(rising * (1 + 1e-6) + 1e-9);
+              expect(s).toBeGreaterThanOrEqual(-falling * (1 + 1e-6) - 1e-9);
+            }
+          },
+        ),
+        { numRuns: 20 },
+      );
     });
-    // 2 sin t = 0.8 first at t = asin(0.4)
-    const first = res.events.find((e) => e.kind === 'dead-zone-leave')!;
-    expect(Math.abs(first.time - Math.asin(0.4))).toBeLessThan(1e-9);
-    expect(res.actuators.dz).toBeUndefined();
+
+    it('a step is followed at the rising rate and then tracked: y = min(rate·t, 1) exactly', () => {
+      const d = buildDiagram(
+        [
+          ['r', 'source', { shape: 'step', amplitude: 1 }],
+          ['rl', 'rate-limit', { rising: 0.4, falling: 1 }],
+          ['y', 'probe'],
+        ],
+        ['r -> rl', 'rl -> y'],
+      );
+      const res = simulate(compileModel(d), { until: 5, outputStep: 0.05, engine });
+      res.time.forEach((t, i) => expect(Math.abs(res.traces.y[i] - Math.min(0.4 * t, 1))).toBeLessThan(1e-9));
+      const leave = res.events.find((e) => e.kind === 'rate-leave')!;
+      expect(Math.abs(leave.time - 2.5)).toBeLessThan(1e-9);
+      expect(Math.abs(res.actuators.rl.timeInSaturation - 2.5)).toBeLessThan(1e-9);
+    });
+
+    it('linear run passes the signal', () => {
+      const d = buildDiagram(
+        [
+          ['r', 'source', { shape: 'step', amplitude: 1 }],
+          ['rl', 'rate-limit', { rising: 0.4, falling: 1 }],
+          ['y', 'probe'],
+        ],
+        ['r -> rl', 'rl -> y'],
+      );
+      const res = simulate(compileModel(d), { until: 2, outputStep: 0.5, linear: true, engine });
+      expect(res.traces.y).toEqual([1, 1, 1, 1, 1]);
+    });
   });
-});
+
+  describe(`dead zone (${engine} engine)`, () => {
+    it('output is zero inside the band and input − edge outside; band edges are exact events', () => {
+      const lower = -0.5;
+      const upper = 0.8;
+      const d = buildDiagram(
+        [
+          ['r', 'source', { shape: 'sinusoid', amplitude: 2, omega: 1 }],
+          ['dz', 'dead-zone', { lower, upper }],
+          ['y', 'probe'],
+          ['u', 'probe'],
+        ],
+        ['r -> dz', 'dz -> y', 'r -> u'],
+      );
+      const res = simulate(compileModel(d), { until: 7, outputStep: 0.01, engine });
+      res.time.forEach((t, i) => {
+        const u = 2 * Math.sin(t);
+        const want = u > upper ? u - upper : u < lower ? u - lower : 0;
+        if (u >= lower && u <= upper) expect(res.traces.y[i]).toBe(0);
+        expect(Math.abs(res.traces.y[i] - want)).toBeLessThan(1e-12);
+      });
+      // 2 sin t = 0.8 first at t = asin(0.4)
+      const first = res.events.find((e) => e.kind === 'dead-zone-leave')!;
+      expect(Math.abs(first.time - Math.asin(0.4))).toBeLessThan(1e-9);
+      expect(res.actuators.dz).toBeUndefined();
+    });
+  });
 }
 
 describe('structure and input errors', () => {
@@ -137,9 +137,23 @@ describe('structure and input errors', () => {
   });
 
   it('unconnected inputs, unknown wires and bad options are input errors', () => {
-    const d = buildDiagram([['g', 'gain', { k: 1 }], ['y', 'probe']], ['g -> y']);
+    const d = buildDiagram(
+      [
+        ['g', 'gain', { k: 1 }],
+        ['y', 'probe'],
+      ],
+      ['g -> y'],
+    );
     expect(() => compileModel(d)).toThrowError(/block g: input in is not connected/);
-    const ok = compileModel(buildDiagram([['r', 'source', {}], ['y', 'probe']], ['r -> y']));
+    const ok = compileModel(
+      buildDiagram(
+        [
+          ['r', 'source', {}],
+          ['y', 'probe'],
+        ],
+        ['r -> y'],
+      ),
+    );
     expect(() => simulate(ok, { until: 0 })).toThrowError(/until/);
     expect(() => simulate(ok, { until: 1, wires: ['nope'] })).toThrowError(/unknown wire "nope"/);
     expect(() => simulate(ok, { until: 1, rtol: -1 })).toThrowError(/rtol/);

@@ -111,4 +111,3 @@ function cutAtNonFinite(rec: Recorder, budget: Budget): void {
   budget.reached = first > 0 ? rec.time[first - 1] : 0;
   budget.stop('diverged', `the run diverged at t = ${fmt(t)} s: a signal is no longer finite`);
 }
-

@@ -256,7 +256,9 @@ function evaluate(p: Extract<Pieces, { kind: 'affine' | 'exact' }>, k: number, w
   // L(s) itself, its delay factor (if any) exact: loopMargins as cutMargins does (cheap: the
   // pieces spare the diagram reduction; no solving).
   const frequency: CutFrequencyMethod =
-    p.delay > 0 ? { method: 'exact', solved: false, note: `dead time ${reduction.tf.delay} s kept exact as e^(-jωT)` } : { ...RATIONAL_FREQUENCY };
+    p.delay > 0
+      ? { method: 'exact', solved: false, note: `dead time ${reduction.tf.delay} s kept exact as e^(-jωT)` }
+      : { ...RATIONAL_FREQUENCY };
   return { loop: { reduction, source: null, frequency }, margins: loopMargins(reduction.tf, dl) };
 }
 

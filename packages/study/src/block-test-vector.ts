@@ -26,7 +26,12 @@ export function testBenchDiagram(d: Pick<Diagram, 'parameters'>, block: Block, c
   const at = (f: number) => Math.round(f * samples) * T; // every edge on a sample instant
   const span = samples * T;
   const pos = { x: 0, y: 0 };
-  const src = (id: string, params: Record<string, number | string>): Block => ({ id, kind: 'source', position: pos, params: { offset: 0, ...params } });
+  const src = (id: string, params: Record<string, number | string>): Block => ({
+    id,
+    kind: 'source',
+    position: pos,
+    params: { offset: 0, ...params },
+  });
   return {
     format: DIAGRAM_FORMAT,
     version: DIAGRAM_VERSION,
@@ -45,7 +50,11 @@ export function testBenchDiagram(d: Pick<Diagram, 'parameters'>, block: Block, c
       { id: 'out', kind: 'probe', position: pos, params: {} },
     ],
     wires: [
-      ...['s1', 's2', 's3', 's4', 's5'].map((s, i) => ({ id: `w${s}`, from: { block: s, port: 'out' }, to: { block: 'e', port: `in${i + 1}` } })),
+      ...['s1', 's2', 's3', 's4', 's5'].map((s, i) => ({
+        id: `w${s}`,
+        from: { block: s, port: 'out' },
+        to: { block: 'e', port: `in${i + 1}` },
+      })),
       { id: 'we', from: { block: 'e', port: 'out' }, to: { block: 'controller', port: 'in' } },
       { id: 'win', from: { block: 'e', port: 'out' }, to: { block: 'in', port: 'in' } },
       { id: 'wout', from: { block: 'controller', port: 'out' }, to: { block: 'out', port: 'in' } },
@@ -57,21 +66,42 @@ export function testBenchDiagram(d: Pick<Diagram, 'parameters'>, block: Block, c
 }
 
 /** Runs the block alone in the simulator and records input and output at each of `samples` instants. */
-export function simulatedTestVector(d: Pick<Diagram, 'parameters'>, block: Block, c: DiscreteController, name: string, overrides: Record<string, number> = {}, samples = 400): TestVector {
-  if (!Number.isInteger(samples) || samples < 2 || samples > 100000) throw new InputError(`samples: ${samples} must be a whole number from 2 to 100000`, { field: 'samples' });
+export function simulatedTestVector(
+  d: Pick<Diagram, 'parameters'>,
+  block: Block,
+  c: DiscreteController,
+  name: string,
+  overrides: Record<string, number> = {},
+  samples = 400,
+): TestVector {
+  if (!Number.isInteger(samples) || samples < 2 || samples > 100000)
+    throw new InputError(`samples: ${samples} must be a whole number from 2 to 100000`, { field: 'samples' });
   const T = c.sampleTime;
   const bench = testBenchDiagram(d, block, c, samples);
   const run = simulate(compileModel(bench), { until: samples * T, outputStep: T, overrides, maxSteps: 20 * samples + 1000 });
-  if (run.status !== 'ok') throw new InputError(`block ${block.id}: the test-vector run stopped: ${run.message}`, { field: `blocks.${block.id}` });
+  if (run.status !== 'ok')
+    throw new InputError(`block ${block.id}: the test-vector run stopped: ${run.message}`, { field: `blocks.${block.id}` });
   const input: number[] = [];
   const output: number[] = [];
   let i = 0;
   for (let k = 0; k < samples; k++) {
     const t = k * T;
     while (i < run.time.length && run.time[i] < t - 1e-9 * T) i++;
-    if (i >= run.time.length || Math.abs(run.time[i] - t) > 1e-9 * T) throw new Error(`test vector: the run has no output at the instant ${t} s`);
+    if (i >= run.time.length || Math.abs(run.time[i] - t) > 1e-9 * T)
+      throw new Error(`test vector: the run has no output at the instant ${t} s`);
     input.push(run.traces.in[i]);
     output.push(run.traces.out[i]);
   }
-  return { format: 'loopwright-test-vector', version: 1, name, sampleTime: T, computeDelay: c.computeDelay, initialOutput: 0, input, output, retunes: [], tolerance: 1e-9 };
+  return {
+    format: 'loopwright-test-vector',
+    version: 1,
+    name,
+    sampleTime: T,
+    computeDelay: c.computeDelay,
+    initialOutput: 0,
+    input,
+    output,
+    retunes: [],
+    tolerance: 1e-9,
+  };
 }

@@ -31,7 +31,12 @@ function nested(tau: number) {
     ],
     ['r->e1.in1', 'e1->C1', 'C1->e2.in1', 'e2->C2', 'C2->G2', 'G2->D', 'inner:D->e2.in2', 'G2->G1', 'outer:G1->e1.in2', 'G1->y'],
     [],
-    { cuts: [{ id: 'cutOuter', wire: 'outer' }, { id: 'cutInner', wire: 'inner' }] },
+    {
+      cuts: [
+        { id: 'cutOuter', wire: 'outer' },
+        { id: 'cutInner', wire: 'inner' },
+      ],
+    },
   );
 }
 
@@ -73,11 +78,7 @@ describe('a deadline in the study context', () => {
     const d = nested(0.2137);
     const parts = runStudies(
       d,
-      [
-        { kind: 'cut', cut: 'cutOuter' },
-        { kind: 'loops' },
-        { kind: 'locus', target: { kind: 'block', block: 'C2', field: 'k' } },
-      ],
+      [{ kind: 'cut', cut: 'cutOuter' }, { kind: 'loops' }, { kind: 'locus', target: { kind: 'block', block: 'C2', field: 'k' } }],
       { deadline: budgetNow() - 1 },
     );
     for (const p of parts) {

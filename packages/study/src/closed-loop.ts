@@ -83,7 +83,12 @@ export function closedLoopStudy(d: Diagram, req: ClosedLoopRequest, deadline?: n
   // With a dead time inside a loop the poles (and zeros) are those of a Padé approximant: each
   // is marked by whether it stays put at a Padé order two higher.
   const pade = r.delayHandling.mode === 'pade';
-  const higher = pade ? closedLoop(diagram, req.from, req.to, overrides, { padeOrder: comparisonOrder(padeOrder), ...(deadline !== undefined ? { deadline } : {}) }) : null;
+  const higher = pade
+    ? closedLoop(diagram, req.from, req.to, overrides, {
+        padeOrder: comparisonOrder(padeOrder),
+        ...(deadline !== undefined ? { deadline } : {}),
+      })
+    : null;
   let step: ClosedLoopData['step'] = null;
   if (req.step) {
     const time = stepTimes(r.poles, r.delay);

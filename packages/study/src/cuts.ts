@@ -2,7 +2,15 @@
  * Cuts: which loop the Frequency view opens, and the frequency data of L there (Bode,
  * Nyquist, |S| and |T|) with its margins and the number of open-loop right-half-plane poles.
  */
-import { DEFAULT_PADE_ORDER, compiledOf, cutLoopResponse, feedbackWires, type CutFrequencyMethod, type DelayHandling, type Diagram } from '@loopwright/graph';
+import {
+  DEFAULT_PADE_ORDER,
+  compiledOf,
+  cutLoopResponse,
+  feedbackWires,
+  type CutFrequencyMethod,
+  type DelayHandling,
+  type Diagram,
+} from '@loopwright/graph';
 import { InputError, defaultFrequencyGrid, marginFigures, type LoopMargins, type LoopSource, type TransferFunction } from '@loopwright/lti';
 import { liveReader } from './affine-loop.ts';
 import { without } from './split.ts';
@@ -70,7 +78,11 @@ export function cutStudy(d: Diagram, req: CutRequest, deadline?: number): Freque
   const live = liveReader(diagram, overrides, req.affine === false ? null : req.live, req.padeOrder ?? DEFAULT_PADE_ORDER, deadline);
   const { margins, loop } = live.readClosed(cut.wire, () => compiledOf(diagram, overrides));
   return {
-    ...frequencyOfLoop(cut, { tf: loop.reduction.tf, source: loop.source, delayHandling: loop.reduction.delayHandling, frequency: loop.frequency }, margins),
+    ...frequencyOfLoop(
+      cut,
+      { tf: loop.reduction.tf, source: loop.source, delayHandling: loop.reduction.delayHandling, frequency: loop.frequency },
+      margins,
+    ),
     sweepPath: live.path(),
   };
 }

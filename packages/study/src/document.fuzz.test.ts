@@ -36,8 +36,22 @@ const small = fc.constantFrom('0.01', '0.5', '1', '2', '10', '1e4');
 const expression = fc
   .tuple(
     fc.constantFrom('1', '2', '1e-300', '1e300', '-3', 'K'),
-    fc.array(fc.oneof(small.map((a) => `(s+${a})`), small.map((a) => `(s-${a})`), fc.constant('s'), fc.tuple(small, fc.integer({ min: 2, max: 25 })).map(([a, n]) => `(s+${a})^${n}`)), { maxLength: 4 }),
-    fc.array(fc.oneof(small.map((a) => `(s+${a})`), fc.constant('s')), { maxLength: 3 }),
+    fc.array(
+      fc.oneof(
+        small.map((a) => `(s+${a})`),
+        small.map((a) => `(s-${a})`),
+        fc.constant('s'),
+        fc.tuple(small, fc.integer({ min: 2, max: 25 })).map(([a, n]) => `(s+${a})^${n}`),
+      ),
+      { maxLength: 4 },
+    ),
+    fc.array(
+      fc.oneof(
+        small.map((a) => `(s+${a})`),
+        fc.constant('s'),
+      ),
+      { maxLength: 3 },
+    ),
     fc.constantFrom('', '*exp(-s)', '*exp(-1e5*s)', '*exp(-1e-9*s)', '*exp(-0.3*s)'),
   )
   .map(([k, den, num, delay]) => `${k}${num.length ? `*${num.join('*')}` : ''}/(${den.length ? den.join('*') : '1'})${delay}`);
@@ -46,10 +60,28 @@ const mutation = fc.oneof(
   { weight: 4, arbitrary: fc.record({ op: fc.constant('param' as const), at: fc.nat(), key: fc.nat(), value: extreme }) },
   { weight: 2, arbitrary: fc.record({ op: fc.constant('named' as const), at: fc.nat(), value: extreme }) },
   { weight: 3, arbitrary: fc.record({ op: fc.constant('expression' as const), at: fc.nat(), text: expression }) },
-  { weight: 2, arbitrary: fc.record({ op: fc.constant('wire' as const), a: fc.nat(), b: fc.nat(), port: fc.constantFrom('in', 'in1', 'in2', 'in3') }) },
+  {
+    weight: 2,
+    arbitrary: fc.record({ op: fc.constant('wire' as const), a: fc.nat(), b: fc.nat(), port: fc.constantFrom('in', 'in1', 'in2', 'in3') }),
+  },
   { weight: 1, arbitrary: fc.record({ op: fc.constant('unwire' as const), at: fc.nat() }) },
-  { weight: 1, arbitrary: fc.record({ op: fc.constant('signs' as const), at: fc.nat(), signs: fc.constantFrom('+', '-', '++', '+-', '-+', '--', '+++', '+-+') }) },
-  { weight: 1, arbitrary: fc.record({ op: fc.constant('junk' as const), at: fc.nat(), key: fc.nat(), value: fc.constantFrom<unknown>(null, '', 'x', -Infinity, '1/(s+', [], {}, 'exp(-s)') }) },
+  {
+    weight: 1,
+    arbitrary: fc.record({
+      op: fc.constant('signs' as const),
+      at: fc.nat(),
+      signs: fc.constantFrom('+', '-', '++', '+-', '-+', '--', '+++', '+-+'),
+    }),
+  },
+  {
+    weight: 1,
+    arbitrary: fc.record({
+      op: fc.constant('junk' as const),
+      at: fc.nat(),
+      key: fc.nat(),
+      value: fc.constantFrom<unknown>(null, '', 'x', -Infinity, '1/(s+', [], {}, 'exp(-s)'),
+    }),
+  },
 );
 type Mutation = typeof mutation extends fc.Arbitrary<infer T> ? T : never;
 
@@ -79,7 +111,8 @@ function apply(d: Diagram, m: Mutation): void {
     case 'wire': {
       const from = pick(d.blocks, m.a);
       const to = pick(d.blocks, m.b);
-      if (from && to) d.wires.push({ id: `fz${d.wires.length}`, from: { block: from.id, port: 'out' }, to: { block: to.id, port: m.port } });
+      if (from && to)
+        d.wires.push({ id: `fz${d.wires.length}`, from: { block: from.id, port: 'out' }, to: { block: to.id, port: m.port } });
       return;
     }
     case 'unwire': {
@@ -87,7 +120,10 @@ function apply(d: Diagram, m: Mutation): void {
       return;
     }
     case 'signs': {
-      const j = pick(d.blocks.filter((x) => x.kind === 'summing-junction'), m.at);
+      const j = pick(
+        d.blocks.filter((x) => x.kind === 'summing-junction'),
+        m.at,
+      );
       if (j) j.params.signs = m.signs;
       return;
     }
@@ -166,7 +202,9 @@ describe('document fuzzing through loops, reduce and simulate', () => {
       }),
       { numRuns: RUNS, seed: SEED, endOnFailure: true },
     );
-    console.log(`document fuzz: ${JSON.stringify({ ...stats, worstMs: Math.round(stats.worstMs) })}; ms per study kind ${JSON.stringify(perKind, (_, v) => (typeof v === 'number' ? Math.round(v) : v))}`);
+    console.log(
+      `document fuzz: ${JSON.stringify({ ...stats, worstMs: Math.round(stats.worstMs) })}; ms per study kind ${JSON.stringify(perKind, (_, v) => (typeof v === 'number' ? Math.round(v) : v))}`,
+    );
     expect(stats.cases).toBe(RUNS);
     // The mutations must reach the analysis, not only the loader.
     expect(stats.results).toBeGreaterThan(RUNS / 2);

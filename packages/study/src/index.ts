@@ -1,7 +1,17 @@
 // Public API of @loopwright/study: the one engine both apps call — a diagram and a request in,
 // plain-data results out. Apps decide nothing about the analysis; they parse, call, and show.
 export * from './types.ts';
-export { runStudy, runStudies, type StudyProgress, type StudyKinds, type StudyKind, type StudyRequest, type StudyResult, type StudyResultOf, type StudyContext } from './study.ts';
+export {
+  runStudy,
+  runStudies,
+  type StudyProgress,
+  type StudyKinds,
+  type StudyKind,
+  type StudyRequest,
+  type StudyResult,
+  type StudyResultOf,
+  type StudyContext,
+} from './study.ts';
 export { part, failure, isInputError, isBudgetError, errorAt, type FailedPart } from './part.ts';
 export { diagramFingerprint, engineText, fingerprintText } from './fingerprint.ts';
 export {
@@ -60,7 +70,17 @@ export {
   settingParams,
   type ControllerPatch,
 } from './controller-block.ts';
-export { configureLoop, readLoop, seenProcess, ultimateOfLoop, READING_MODES, type LoopReadingMode, type LoopConfiguration, type SeenProcess, type DiagramUltimate } from './loop-reading.ts';
+export {
+  configureLoop,
+  readLoop,
+  seenProcess,
+  ultimateOfLoop,
+  READING_MODES,
+  type LoopReadingMode,
+  type LoopConfiguration,
+  type SeenProcess,
+  type DiagramUltimate,
+} from './loop-reading.ts';
 export { loopStepResponses, rationalText, transferText, responseHorizon, type LoopForm } from './loop-responses.ts';
 export { fitRecord, withFittedBlock, withFittedModel, REPLACEABLE_BY_FIT } from './fitted-block.ts';
 // What the apps show beside fits and tunings, and the choices they offer, from the packages that own them.
@@ -81,7 +101,13 @@ export {
   type ExportRequest,
   type ExportData,
 } from './sampled.ts';
-export { sampledCutStudy, type SampledCutRequest, type SampledCutData, type SampledBlockRole, type SampledLocusData } from './sampled-cut.ts';
+export {
+  sampledCutStudy,
+  type SampledCutRequest,
+  type SampledCutData,
+  type SampledBlockRole,
+  type SampledLocusData,
+} from './sampled-cut.ts';
 // The test vector's JSON form, for apps that write the export's files.
 export { testVectorToJson } from '@loopwright/sampled';
 export { simulatedTestVector, testBenchDiagram } from './block-test-vector.ts';

@@ -58,7 +58,9 @@ export function locusStudy(d: Diagram, req: LocusRequest, deadline?: number): Lo
   assertAnalysable(ed, overrides, deadline);
   const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
   const key = JSON.stringify([engineText(ed), name, overrides, range, direction, req.opposite === true, padeOrder, req.samples ?? null]);
-  return cached(loci, key, () => compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples, deadline));
+  return cached(loci, key, () =>
+    compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples, deadline),
+  );
 }
 
 /** Roots of D0 and N0 (common factors apart, as graph's sweepLocus removes them) at another Padé order. */
@@ -88,8 +90,16 @@ function compute(
 ): LocusData {
   const budget = deadline !== undefined ? { deadline } : {};
   // The sweep range travels in the diagram (graph's sampled locus reads it from there).
-  const ranged: Diagram = { ...ed, sweeps: [{ id: '~study-range', parameter: name, ...range }, ...ed.sweeps.filter((s) => s.parameter !== name)] };
-  const sw = sweepLocus(ranged, name, overrides, { negative: direction === 'negative', padeOrder, ...(samples ? { samples } : {}), ...budget });
+  const ranged: Diagram = {
+    ...ed,
+    sweeps: [{ id: '~study-range', parameter: name, ...range }, ...ed.sweeps.filter((s) => s.parameter !== name)],
+  };
+  const sw = sweepLocus(ranged, name, overrides, {
+    negative: direction === 'negative',
+    padeOrder,
+    ...(samples ? { samples } : {}),
+    ...budget,
+  });
   if (sw.mode === 'sampled') {
     const first = sw.branches.filter((b) => b[0].k === sw.values[0]).map((b) => plain(b[0].s));
     return {
@@ -128,7 +138,8 @@ function compute(
   const higher = pade ? higherOrderRoots(ed, name, overrides, comparisonOrder(padeOrder)) : null;
   // The slider's part again, densely: for hit-testing, framing and the current-pole track.
   // A range through zero is traced on both sides of it.
-  const part = (negative: boolean, lo: number, hi: number) => (hi > lo ? branchesOf(rootLocus(L.num, L.den, { negative, kMin: lo, kMax: hi, samples: 240, ...budget }).branches) : []);
+  const part = (negative: boolean, lo: number, hi: number) =>
+    hi > lo ? branchesOf(rootLocus(L.num, L.den, { negative, kMin: lo, kMax: hi, samples: 240, ...budget }).branches) : [];
   const rangeBranches =
     range.min >= 0
       ? part(false, range.min, range.max)

@@ -33,7 +33,12 @@ function cascade() {
     ],
     ['r->e1.in1', 'e1->c1', 'c1->e2.in1', 'e2->c2', 'c2->g2', 'g2->g1', 'g1->y', 'fbi:g2->e2.in2', 'fbo:g1->e1.in2'],
     [],
-    { cuts: [{ id: 'inner', wire: 'fbi', label: 'inner loop' }, { id: 'outer', wire: 'fbo' }] },
+    {
+      cuts: [
+        { id: 'inner', wire: 'fbi', label: 'inner loop' },
+        { id: 'outer', wire: 'fbo' },
+      ],
+    },
   );
 }
 

@@ -35,7 +35,10 @@ export function expressionMargins(
   opts: { padeOrder?: number; deadline?: number } = {},
 ): { loop: TransferFunction; margins: LoopMargins; poleOrigin: PoleOrigin[] } {
   const loop = loopOfExpression(e);
-  const margins = loopMargins(loop, { ...(opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {}), ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}) });
+  const margins = loopMargins(loop, {
+    ...(opts.padeOrder !== undefined ? { padeOrder: opts.padeOrder } : {}),
+    ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}),
+  });
   // With a dead time the closed-loop poles are those of 1 + L with a Padé approximant: each is
   // marked by whether it stays put at an order two higher (roots of D·Pd + N·Pn).
   const order = margins.padeOrder;

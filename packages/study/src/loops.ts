@@ -68,7 +68,11 @@ export function loopsStudy(d: Diagram, req: LoopsRequest = {}, deadline?: number
       hiddenModes: c.hiddenModes.map(plain),
       frequency: req.frequency
         ? {
-            ...frequencyOfLoop({ id: c.cut, wire: c.wire, label: names[c.cut] }, { tf: c.loop, source: c.source, delayHandling: c.delayHandling, frequency: c.frequency }, c.margins),
+            ...frequencyOfLoop(
+              { id: c.cut, wire: c.wire, label: names[c.cut] },
+              { tf: c.loop, source: c.source, delayHandling: c.delayHandling, frequency: c.frequency },
+              c.margins,
+            ),
             sweepPath: live.path(),
           }
         : null,

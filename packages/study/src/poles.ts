@@ -46,7 +46,13 @@ export function polesStudy(d: Diagram, req: PolesRequest = {}, deadline?: number
     main.handling.mode === 'pade'
       ? padeOrigins(poles, polyRoots(characteristicAt(diagram, overrides, comparisonOrder(order), swept, deadline).poly))
       : poles.map((): PoleOrigin => 'exact');
-  return { poles: poles.map(plain), origin, delayHandling: main.handling, stable: stableFrom(poles), sweepPath: main.affine ? 'affine' : 'full' };
+  return {
+    poles: poles.map(plain),
+    origin,
+    delayHandling: main.handling,
+    stable: stableFrom(poles),
+    sweepPath: main.affine ? 'affine' : 'full',
+  };
 }
 
 /** The Padé order a result is compared at to mark its roots: two higher, or two lower at the top order. */

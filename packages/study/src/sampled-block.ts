@@ -55,7 +55,10 @@ export function sampledBlocks(d: Diagram, overrides?: Record<string, number>): S
 /** The sampled block with this id; InputError when there is none or it has no sample time. */
 export function requireSampledBlock(d: Diagram, id: string, overrides?: Record<string, number>): SampledBlock {
   const block = d.blocks.find((b) => b.id === id);
-  if (!block) throw new InputError(`block ${id}: no block with this id in the diagram (blocks: ${d.blocks.map((b) => b.id).join(', ')})`, { field: `blocks.${id}` });
+  if (!block)
+    throw new InputError(`block ${id}: no block with this id in the diagram (blocks: ${d.blocks.map((b) => b.id).join(', ')})`, {
+      field: `blocks.${id}`,
+    });
   const s = sampledBlockOf(d, block, overrides);
   if (!s) {
     throw new InputError(`block ${id}: a ${block.kind} block without a sample time has no sampled form; set its field sampleTime`, {

@@ -54,11 +54,12 @@ describe('sampled loop at a diagram cut', () => {
     const g = (1 - p) / 2;
     const expected = polyRoots([p - (11 / 6) * g, -1 - p + (13 / 6) * g, 1]);
     expect(r.closedLoopPoles).toHaveLength(2);
-    for (const z of expected) expect(Math.min(...r.closedLoopPoles.map((w) => cabs({ re: w.re - z.re, im: w.im - z.im })))).toBeLessThan(1e-9);
+    for (const z of expected)
+      expect(Math.min(...r.closedLoopPoles.map((w) => cabs({ re: w.re - z.re, im: w.im - z.im })))).toBeLessThan(1e-9);
     // the gain crossover value: |G(e^(jωcT))| = 1 from the closed forms
     const w = r.margins!.gainCrossover!;
     const z = cx(Math.cos(w * 0.5), Math.sin(w * 0.5));
-    const G = cmul(cdiv(cx(13 / 6 * z.re - 11 / 6, 13 / 6 * z.im), cx(z.re - 1, z.im)), cdiv(cx(g, 0), cx(z.re - p, z.im)));
+    const G = cmul(cdiv(cx((13 / 6) * z.re - 11 / 6, (13 / 6) * z.im), cx(z.re - 1, z.im)), cdiv(cx(g, 0), cx(z.re - p, z.im)));
     expect(Math.abs(cabs(G) - 1)).toBeLessThan(1e-7);
   });
 
@@ -83,7 +84,10 @@ describe('sampled loop at a diagram cut', () => {
   });
 
   it('the continuous estimate (hold as e^(−sT/2)) is close to the exact reading at a fast rate, and labelled', () => {
-    const r = runStudy(single(['C', 'lead-lag', { k: 4, tLead: 0.5, tLag: 0.05, sampleTime: 0.005, computeDelay: 0.5, method: 'tustin' }], '1/(s*(s+1))'), { kind: 'sampled-cut', cut: 'loop' })!;
+    const r = runStudy(
+      single(['C', 'lead-lag', { k: 4, tLead: 0.5, tLag: 0.05, sampleTime: 0.005, computeDelay: 0.5, method: 'tustin' }], '1/(s*(s+1))'),
+      { kind: 'sampled-cut', cut: 'loop' },
+    )!;
     expect(r.exact).toBe(true);
     expect(r.estimate!.label).toMatch(/approximation, not the sampled loop/);
     expect(Math.abs(r.estimate!.margins.phaseMarginDeg! - r.margins!.phaseMarginDeg!)).toBeLessThan(1);

@@ -19,7 +19,18 @@
  * the sampled blocks it holds are all taken as estimates and the result says so.
  */
 import { DEFAULT_PADE_ORDER, type Diagram, type LinearGraph, linearGraphOf, loopAtCutDetailed } from '@loopwright/graph';
-import { type MarginFigures, type TransferFunction, cabs, csub, cx, loopMargins, marginFigures, tevalComplex, tfFromCoefficients, tmul } from '@loopwright/lti';
+import {
+  type MarginFigures,
+  type TransferFunction,
+  cabs,
+  csub,
+  cx,
+  loopMargins,
+  marginFigures,
+  tevalComplex,
+  tfFromCoefficients,
+  tmul,
+} from '@loopwright/lti';
 import {
   type SampleRateNote,
   type SampledMarginFigures,
@@ -149,8 +160,19 @@ export function sampledCutStudy(d: Diagram, req: SampledCutRequest): SampledCutD
     affecting.push(s);
     if (zeroed !== null) continue;
     series.push(s);
-    const doubled = loopAtCutDetailed(withBlock(g0, s.block.id, tmul(tfFromCoefficients([2], [1]), s.continuous)), cut.wire, undefined, opts).tf;
-    if (!differ(base.map((v) => cx(2 * v.re, 2 * v.im)), samplesOf(doubled, scale))) linear.push(s);
+    const doubled = loopAtCutDetailed(
+      withBlock(g0, s.block.id, tmul(tfFromCoefficients([2], [1]), s.continuous)),
+      cut.wire,
+      undefined,
+      opts,
+    ).tf;
+    if (
+      !differ(
+        base.map((v) => cx(2 * v.re, 2 * v.im)),
+        samplesOf(doubled, scale),
+      )
+    )
+      linear.push(s);
   }
   if (affecting.length === 0) return null;
   // Read the loop at the slowest sampler it holds alone; else (every sampler on its path also
@@ -159,7 +181,8 @@ export function sampledCutStudy(d: Diagram, req: SampledCutRequest): SampledCutD
   // controllers run slower), at that block's input, which opens every loop through it.
   const slowest = (xs: SampledBlock[]) => xs.reduce((a, b) => (b.sampling.sampleTime > a.sampling.sampleTime ? b : a));
   const sampler = linear.length ? slowest(linear) : series.length ? slowest(series) : null;
-  const readWire = sampler && !linear.includes(sampler) ? diagram.wires.find((w) => w.to.block === sampler.block.id)?.id ?? null : cut.wire;
+  const readWire =
+    sampler && !linear.includes(sampler) ? (diagram.wires.find((w) => w.to.block === sampler.block.id)?.id ?? null) : cut.wire;
   const roles: SampledBlockRole[] = sampled.map((s) => ({
     block: s.block.id,
     sampleTime: s.sampling.sampleTime,
@@ -179,7 +202,9 @@ export function sampledCutStudy(d: Diagram, req: SampledCutRequest): SampledCutD
   if (!sampler) {
     // No sampler to read the loop at: only the estimate of the whole loop.
     const Le = loopAtCutDetailed(g1, cut.wire, undefined, opts).tf;
-    notes.push('no sampled block lies in series in this loop alone (it is not read at a sampler): the figures are the continuous estimate only');
+    notes.push(
+      'no sampled block lies in series in this loop alone (it is not read at a sampler): the figures are the continuous estimate only',
+    );
     const first = affecting[0];
     return {
       cutId: cut.id,
@@ -207,18 +232,31 @@ export function sampledCutStudy(d: Diagram, req: SampledCutRequest): SampledCutD
   const D = sampler.sampling.computeDelay;
   const red = loopAtCutDetailed(withBlock(g1, sampler.block.id, tfFromCoefficients([1], [1])), readWire ?? cut.wire, undefined, opts);
   if (readWire !== cut.wire) {
-    notes.push(`${sampler.block.id} also sits in the loops closed around this cut: the loop is read at its input (wire ${readWire}), which opens every loop through it; its closed-loop poles are those of the whole diagram with the other rates as estimates`);
+    notes.push(
+      `${sampler.block.id} also sits in the loops closed around this cut: the loop is read at its input (wire ${readWire}), which opens every loop through it; its closed-loop poles are those of the whole diagram with the other rates as estimates`,
+    );
   }
   const plant = red.tf;
   const handling = red.delayHandling;
-  if (handling.mode === 'pade') notes.push(`a dead time inside another loop (${handling.blocks.join(', ')}) is taken as a Padé approximant in P(s)`);
-  const m = sampledMargins({ plant, sampleTime: T, computeDelay: D, controller: sampler.controller.transfer, continuousController: sampler.continuous });
+  if (handling.mode === 'pade')
+    notes.push(`a dead time inside another loop (${handling.blocks.join(', ')}) is taken as a Padé approximant in P(s)`);
+  const m = sampledMargins({
+    plant,
+    sampleTime: T,
+    computeDelay: D,
+    controller: sampler.controller.transfer,
+    continuousController: sampler.continuous,
+  });
   notes.unshift(
     `read at the sampled block ${sampler.block.id}: G(z) = C(z)·Z{hold · e^(−s·${D}·T) · P(s)}, T = ${T} s, exact pulse transfer function${plant.delay > 0 && !Number.isInteger(plant.delay / T) ? ' (modified z-transform for the fractional dead time)' : ''}`,
   );
-  if (sampler.controller.coefficients.umin > -Infinity || sampler.controller.coefficients.umax < Infinity) notes.push(`the output limits of ${sampler.block.id} play no part in the margins (linear analysis)`);
+  if (sampler.controller.coefficients.umin > -Infinity || sampler.controller.coefficients.umax < Infinity)
+    notes.push(`the output limits of ${sampler.block.id} play no part in the margins (linear analysis)`);
   const ev = unitCircleEvaluator(m.pulse);
-  const fr = sampledFrequencyResponse(m.pulse, sampledFrequencyGrid(ev, 60).filter((w) => w > 0));
+  const fr = sampledFrequencyResponse(
+    m.pulse,
+    sampledFrequencyGrid(ev, 60).filter((w) => w > 0),
+  );
   let locus: SampledLocusData | null = null;
   if (req.locus) {
     const z = zPlaneLocus(m.pulse);

@@ -32,15 +32,20 @@ export interface ExpressionSampling {
 }
 
 function checkSampling(s: ExpressionSampling): void {
-  if (!(s.sampleTime > 0) || !Number.isFinite(s.sampleTime)) throw new InputError(`sample time: ${s.sampleTime} must be a positive number of seconds`, { field: 'sampleTime' });
+  if (!(s.sampleTime > 0) || !Number.isFinite(s.sampleTime))
+    throw new InputError(`sample time: ${s.sampleTime} must be a positive number of seconds`, { field: 'sampleTime' });
   if (s.computeDelay !== undefined && !(s.computeDelay >= 0 && Number.isFinite(s.computeDelay))) {
     throw new InputError(`compute delay: ${s.computeDelay} must be 0 or more samples`, { field: 'computeDelay' });
   }
-  if (s.hold !== undefined && s.hold !== 'zoh') throw new InputError(`hold: "${s.hold}" is not supported; the only hold is zoh (zero-order hold)`, { field: 'hold' });
+  if (s.hold !== undefined && s.hold !== 'zoh')
+    throw new InputError(`hold: "${s.hold}" is not supported; the only hold is zoh (zero-order hold)`, { field: 'hold' });
 }
 
 /** Margins of 1 + G(z) = 0, G the zero-order-hold equivalent of L(s) with the computation delay. */
-export function expressionSampledMargins(e: ExpressionLoop, s: ExpressionSampling): { loop: ReturnType<typeof loopOfExpression>; margins: SampledMargins } {
+export function expressionSampledMargins(
+  e: ExpressionLoop,
+  s: ExpressionSampling,
+): { loop: ReturnType<typeof loopOfExpression>; margins: SampledMargins } {
   checkSampling(s);
   const loop = loopOfExpression(e);
   return { loop, margins: sampledMargins({ plant: loop, sampleTime: s.sampleTime, computeDelay: s.computeDelay ?? 0 }) };
@@ -97,7 +102,8 @@ export function codeNameOf(blockId: string): string {
 }
 
 export function exportStudy(d: Diagram, r: ExportRequest): ExportData {
-  if (!(EXPORT_LANGUAGES as readonly string[]).includes(r.lang)) throw new InputError(`lang: "${r.lang}" is not one of ${EXPORT_LANGUAGES.join(', ')}`, { field: 'lang' });
+  if (!(EXPORT_LANGUAGES as readonly string[]).includes(r.lang))
+    throw new InputError(`lang: "${r.lang}" is not one of ${EXPORT_LANGUAGES.join(', ')}`, { field: 'lang' });
   const sb = requireSampledBlock(d, r.block, r.overrides);
   const name = checkCodeName(r.name ?? codeNameOf(r.block));
   const testVector = simulatedTestVector(d, sb.block, sb.controller, name, r.overrides ?? {}, r.samples ?? 400);

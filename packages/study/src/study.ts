@@ -101,11 +101,21 @@ const HANDLERS: Handlers = {
 };
 
 /** Runs one study; throws what it throws (InputError for bad input, naming what is wrong). */
-export function runStudy<K extends StudyKind>(d: Diagram, req: { kind: K } & StudyKinds[K]['request'], ctx: StudyContext = {}): StudyKinds[K]['result'] {
+export function runStudy<K extends StudyKind>(
+  d: Diagram,
+  req: { kind: K } & StudyKinds[K]['request'],
+  ctx: StudyContext = {},
+): StudyKinds[K]['result'] {
   return runPart(d, req, ctx, 0, 1);
 }
 
-function runPart<K extends StudyKind>(d: Diagram, req: { kind: K } & StudyKinds[K]['request'], ctx: StudyContext, i: number, n: number): StudyKinds[K]['result'] {
+function runPart<K extends StudyKind>(
+  d: Diagram,
+  req: { kind: K } & StudyKinds[K]['request'],
+  ctx: StudyContext,
+  i: number,
+  n: number,
+): StudyKinds[K]['result'] {
   const handler = HANDLERS[req.kind] as unknown as (d: Diagram, r: typeof req, c: RunContext) => StudyKinds[K]['result'];
   if (!handler) throw new Error(`unknown study kind "${String((req as { kind: unknown }).kind)}"`);
   const report = ctx.onProgress;

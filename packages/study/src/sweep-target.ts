@@ -58,12 +58,19 @@ export function checkTarget(d: Diagram, t: SweepTarget): void {
   const b = d.blocks.find((x) => x.id === t.block);
   if (!b || b.kind !== 'gain') throw new InputError(`sweep: "${t.block}" is not a gain block of the diagram`, { field: 'sweep' });
   if (!Number.isFinite(documentValue(d, t))) {
-    throw new InputError(`sweep: gain block ${t.block} has k = "${String(b.params.k)}", not a number; sweep the parameter it uses instead`, { field: `blocks.${t.block}.params.k` });
+    throw new InputError(
+      `sweep: gain block ${t.block} has k = "${String(b.params.k)}", not a number; sweep the parameter it uses instead`,
+      { field: `blocks.${t.block}.params.k` },
+    );
   }
 }
 
 /** The engine diagram and the overrides for a live value (a held slider value of any target). */
-export function withLiveValue(d: Diagram, overrides: Record<string, number>, live: LiveValue | null | undefined): { diagram: Diagram; overrides: Record<string, number> } {
+export function withLiveValue(
+  d: Diagram,
+  overrides: Record<string, number>,
+  live: LiveValue | null | undefined,
+): { diagram: Diagram; overrides: Record<string, number> } {
   if (!live) return { diagram: d, overrides };
   return { diagram: engineDiagram(d, live.target), overrides: { ...overrides, [engineParameterName(live.target)]: live.value } };
 }
@@ -79,7 +86,13 @@ export function sweepChoices(d: Diagram): SweepChoice[] {
   const out: SweepChoice[] = [];
   for (const p of d.parameters) {
     const target: SweepTarget = { kind: 'parameter', name: p.name };
-    out.push({ key: targetKey(target), target, label: p.unit ? `${p.name} [${p.unit}]` : p.name, value: p.value, range: targetRange(d, target) });
+    out.push({
+      key: targetKey(target),
+      target,
+      label: p.unit ? `${p.name} [${p.unit}]` : p.name,
+      value: p.value,
+      range: targetRange(d, target),
+    });
   }
   for (const b of d.blocks) {
     if (b.kind !== 'gain') continue;

@@ -3,20 +3,36 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { sweepRange } from '@loopwright/graph';
 import { editedRange, positionToValue, valueToPosition, widenedRange } from './slider.ts';
-import { documentValue, engineDiagram, engineParameterName, parseTargetKey, preferredChoice, resolveSweep, sweepChoices, targetKey, targetRange, withLiveValue } from './sweep-target.ts';
+import {
+  documentValue,
+  engineDiagram,
+  engineParameterName,
+  parseTargetKey,
+  preferredChoice,
+  resolveSweep,
+  sweepChoices,
+  targetKey,
+  targetRange,
+  withLiveValue,
+} from './sweep-target.ts';
 import { build, unityLoop } from './testing.ts';
 
 describe('slider mapping', () => {
   it('log and linear ranges map ends to ends and round-trip (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: 1e-3, max: 1e3, noNaN: true }), fc.double({ min: 1.01, max: 1e4, noNaN: true }), fc.double({ min: 0, max: 1, noNaN: true }), (a, ratio, p) => {
-        for (const scale of ['log', 'linear'] as const) {
-          const r = { min: a, max: a * ratio, scale };
-          expect(positionToValue(r, 0)).toBeCloseTo(r.min, 9);
-          expect(positionToValue(r, 1) / r.max).toBeCloseTo(1, 9);
-          expect(valueToPosition(r, positionToValue(r, p))).toBeCloseTo(p, 9);
-        }
-      }),
+      fc.property(
+        fc.double({ min: 1e-3, max: 1e3, noNaN: true }),
+        fc.double({ min: 1.01, max: 1e4, noNaN: true }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        (a, ratio, p) => {
+          for (const scale of ['log', 'linear'] as const) {
+            const r = { min: a, max: a * ratio, scale };
+            expect(positionToValue(r, 0)).toBeCloseTo(r.min, 9);
+            expect(positionToValue(r, 1) / r.max).toBeCloseTo(1, 9);
+            expect(valueToPosition(r, positionToValue(r, p))).toBeCloseTo(p, 9);
+          }
+        },
+      ),
       { numRuns: 200 },
     );
   });
@@ -58,10 +74,21 @@ describe('sweep targets', () => {
     // A parameter's own slider range wins over the default; a sweep of it wins over both.
     expect(targetRange(unityLoop(2), { kind: 'parameter', name: 'K' })).toEqual({ min: 0.1, max: 10, scale: 'log' });
   });
-  it('the sweep in force: the UI key, else the diagram\'s active sweep, else the first choice; a live value is held', () => {
-    const d = build([['a', 'gain', { k: 'A' }], ['b', 'gain', { k: 'B' }]], ['a->b'], [{ name: 'A', value: 1 }, { name: 'B', value: 2 }], {
-      sweeps: [{ id: 's', parameter: 'B', min: 1, max: 4, scale: 'log' }],
-    });
+  it("the sweep in force: the UI key, else the diagram's active sweep, else the first choice; a live value is held", () => {
+    const d = build(
+      [
+        ['a', 'gain', { k: 'A' }],
+        ['b', 'gain', { k: 'B' }],
+      ],
+      ['a->b'],
+      [
+        { name: 'A', value: 1 },
+        { name: 'B', value: 2 },
+      ],
+      {
+        sweeps: [{ id: 's', parameter: 'B', min: 1, max: 4, scale: 'log' }],
+      },
+    );
     expect(preferredChoice(d)?.key).toBe('param:B');
     const r = resolveSweep(d, { key: null, liveValue: 3 });
     expect(r.choice?.key).toBe('param:B');

@@ -2,7 +2,11 @@
 import { defaultFrequencyGrid, frequencyRange, frequencyResponse, logspace, polyRoots, type TransferFunction } from '@loopwright/lti';
 import type { TransferData } from './types.ts';
 
-export const transferData = (tf: TransferFunction): TransferData => ({ num: [...tf.rational.num], den: [...tf.rational.den], delay: tf.delay });
+export const transferData = (tf: TransferFunction): TransferData => ({
+  num: [...tf.rational.num],
+  den: [...tf.rational.den],
+  delay: tf.delay,
+});
 
 /**
  * Poles of L in the open right half-plane. With them the Nyquist criterion asks for as many

@@ -313,10 +313,10 @@ export type MetricsRow = {
   probe: string;
   label: string;
 } & Pick<ProbeFigures, 'riseTime' | 'overshootPct' | 'peakTime' | 'peak' | 'settlingTime' | 'steadyState' | 'steadyStateError' | 'iae'> & {
-  timeInSaturation: number | null;
-  peakEffort: number | null;
-  limitHits: number | null;
-};
+    timeInSaturation: number | null;
+    peakEffort: number | null;
+    limitHits: number | null;
+  };
 
 /** The settings a run used and where its end time came from. */
 export interface RunSettings {

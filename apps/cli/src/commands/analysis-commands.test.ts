@@ -9,8 +9,12 @@ function fakeIo(files: Record<string, string>) {
   let out = '';
   let err = '';
   const io: CliIo = {
-    stdout: (s) => { out += s; },
-    stderr: (s) => { err += s; },
+    stdout: (s) => {
+      out += s;
+    },
+    stderr: (s) => {
+      err += s;
+    },
     readFile: async (p) => {
       if (!(p in files)) throw Object.assign(new Error(`ENOENT: ${p}`), { code: 'ENOENT' });
       return files[p];
@@ -22,8 +26,16 @@ function fakeIo(files: Record<string, string>) {
 
 // R27 cascade as a diagram: C1 = 2, C2 = 5, G2 = 1/(s+1), G1 = 1/s (Nise, Sec. 5.2 (from memory); instance from the reference table) [R27]
 const r27 = diagramOf(
-  [['r', 'source'], ['e1', 'summing-junction', { signs: '+-' }], ['C1', 'gain', { k: 'C1' }], ['e2', 'summing-junction', { signs: '+-' }], ['C2', 'gain', { k: 5 }],
-    ['G2', 'first-order-lag', { k: 1, tau: 1 }], ['G1', 'integrator', { k: 1 }], ['y', 'probe']],
+  [
+    ['r', 'source'],
+    ['e1', 'summing-junction', { signs: '+-' }],
+    ['C1', 'gain', { k: 'C1' }],
+    ['e2', 'summing-junction', { signs: '+-' }],
+    ['C2', 'gain', { k: 5 }],
+    ['G2', 'first-order-lag', { k: 1, tau: 1 }],
+    ['G1', 'integrator', { k: 1 }],
+    ['y', 'probe'],
+  ],
   ['r->e1.in1', 'e1->C1', 'C1->e2.in1', 'e2->C2', 'C2->G2', 'inner:G2->e2.in2', 'G2->G1', 'outer:G1->e1.in2', 'G1->y'],
   [{ name: 'C1', value: 2 }],
 );
@@ -102,7 +114,13 @@ describe('locus of a diagram parameter', () => {
     const n = j.poles.length;
     const m = j.zeros.length;
     expect(j.asymptotes.anglesDeg.length).toBe(n - m);
-    j.asymptotes.anglesDeg.forEach((a: number) => expect(Math.min(...[...Array(n - m).keys()].map((q) => Math.abs(Math.abs(a) - Math.abs((((2 * q + 1) * 180) / (n - m) + 180) % 360 - 180))))).toBeLessThan(1e-6));
+    j.asymptotes.anglesDeg.forEach((a: number) =>
+      expect(
+        Math.min(
+          ...[...Array(n - m).keys()].map((q) => Math.abs(Math.abs(a) - Math.abs(((((2 * q + 1) * 180) / (n - m) + 180) % 360) - 180))),
+        ),
+      ).toBeLessThan(1e-6),
+    );
   });
 
   it('an unknown parameter is refused by name', () => {

@@ -73,7 +73,9 @@ describe('loopwright check', () => {
     d.version = 1;
     const h = harness({ 'x.loop.json': JSON.stringify(d) });
     expect(await main(['check', 'x.loop.json'], h.io)).toBe(2);
-    expect(h.out.join('')).toContain('error  blocks[0] (id "position-setpoint").params.amplitude: expected a number or an expression, got true');
+    expect(h.out.join('')).toContain(
+      'error  blocks[0] (id "position-setpoint").params.amplitude: expected a number or an expression, got true',
+    );
   });
   it('a missing file or no file is a usage error (exit 2)', async () => {
     const h = harness({});

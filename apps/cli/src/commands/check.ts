@@ -53,7 +53,8 @@ export const checkCommand: Command = {
     if (json) {
       io.stdout(toJson({ file, loaded: true, overrides: { ...overrides }, counts: n, findings }));
     } else {
-      const summary = findings.length === 0 ? 'no findings' : `${plural(n.error, 'error')}, ${plural(n.warning, 'warning')}, ${plural(n.info, 'note')}`;
+      const summary =
+        findings.length === 0 ? 'no findings' : `${plural(n.error, 'error')}, ${plural(n.warning, 'warning')}, ${plural(n.info, 'note')}`;
       io.stdout(`${findings.map((f) => line(f) + '\n').join('')}${file}: ${summary}\n`);
     }
     return n.error > 0 ? 2 : 0;

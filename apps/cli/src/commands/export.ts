@@ -44,13 +44,21 @@ export const exportCommand: Command = {
     const block = one(a, 'block');
     if (!block) throw new UsageError('export: give the sampled controller block as --block ID', '--block');
     const lang = one(a, 'lang');
-    if (lang !== 'c' && lang !== 'st' && lang !== 'coefficients') throw new UsageError(`export: --lang must be c, st or coefficients${lang ? `, not "${lang}"` : ''}`, '--lang');
+    if (lang !== 'c' && lang !== 'st' && lang !== 'coefficients')
+      throw new UsageError(`export: --lang must be c, st or coefficients${lang ? `, not "${lang}"` : ''}`, '--lang');
     const overrides = parseAssignments(all(a, 'set'), 'set');
     const samples = numberFlag(a, 'samples');
     const name = one(a, 'name');
     const d = await readDiagram(io, a.positional[0]);
     checkSets(d, overrides);
-    const res = runStudy(d, { kind: 'export', block, lang, overrides, ...(name !== undefined ? { name } : {}), ...(samples !== undefined ? { samples } : {}) });
+    const res = runStudy(d, {
+      kind: 'export',
+      block,
+      lang,
+      overrides,
+      ...(name !== undefined ? { name } : {}),
+      ...(samples !== undefined ? { samples } : {}),
+    });
     const files = [...res.files, { path: `${res.name}.vector.json`, text: testVectorToJson(res.testVector) + '\n' }];
     const out = one(a, 'out');
     if (out !== undefined) {
@@ -65,14 +73,28 @@ export const exportCommand: Command = {
       }
     }
     if (has(a, 'json')) {
-      io.stdout(toJson({ block: res.block, name: res.name, lang: res.lang, files: out !== undefined ? files.map((f) => ({ path: `${out.replace(/\/+$/, '')}/${f.path}` })) : files, testVector: JSON.parse(testVectorToJson(res.testVector)), summary: res.summary }));
+      io.stdout(
+        toJson({
+          block: res.block,
+          name: res.name,
+          lang: res.lang,
+          files: out !== undefined ? files.map((f) => ({ path: `${out.replace(/\/+$/, '')}/${f.path}` })) : files,
+          testVector: JSON.parse(testVectorToJson(res.testVector)),
+          summary: res.summary,
+        }),
+      );
       return 0;
     }
     if (out !== undefined) {
       io.stdout(`${res.summary.trimEnd()}\n\nwrote ${files.map((f) => `${out.replace(/\/+$/, '')}/${f.path}`).join(', ')}\n`);
       return 0;
     }
-    io.stdout(files.filter((f) => !f.path.endsWith('.vector.json') && !f.path.endsWith('_check.c')).map((f) => `// ---- ${f.path}\n${f.text.trimEnd()}\n`).join('\n'));
+    io.stdout(
+      files
+        .filter((f) => !f.path.endsWith('.vector.json') && !f.path.endsWith('_check.c'))
+        .map((f) => `// ---- ${f.path}\n${f.text.trimEnd()}\n`)
+        .join('\n'),
+    );
     return 0;
   },
 };

@@ -22,7 +22,13 @@ import { checkSets } from './diagram-input.ts';
  * `file` is the diagram's JSON text (as read from the FILE) or an already parsed Diagram.
  * `sets` is NAME=VALUE words or a record. Bad input throws InputError or UsageError (exit code 2).
  */
-export function locusFromDiagram(file: string | Diagram, sweep: string, sets: Record<string, number> | string[] = {}, negative = false, deadline?: number) {
+export function locusFromDiagram(
+  file: string | Diagram,
+  sweep: string,
+  sets: Record<string, number> | string[] = {},
+  negative = false,
+  deadline?: number,
+) {
   const d = typeof file === 'string' ? parseDiagram(file) : file;
   const overrides = Array.isArray(sets) ? parseAssignments(sets, 'set') : sets;
   checkSets(d, overrides);

@@ -152,9 +152,17 @@ export const locusCommand: Command = {
   summary: 'root locus of a loop, or of a whole diagram as one parameter varies',
   help,
   async run(argv, io, budget = {}) {
-    const a = parseArgs(argv, ['loop', 'param', 'sweep', 'set', 'k-max', 'samples', 'pade-order', 'sample-time', 'compute-delay'], ['negative', 'json']);
+    const a = parseArgs(
+      argv,
+      ['loop', 'param', 'sweep', 'set', 'k-max', 'samples', 'pade-order', 'sample-time', 'compute-delay'],
+      ['negative', 'json'],
+    );
     if (a.positional.length > 0) {
-      if (has(a, 'sample-time') || has(a, 'compute-delay')) throw new UsageError('locus: --sample-time applies to the --loop form (a diagram takes the sample time of its blocks)', '--sample-time');
+      if (has(a, 'sample-time') || has(a, 'compute-delay'))
+        throw new UsageError(
+          'locus: --sample-time applies to the --loop form (a diagram takes the sample time of its blocks)',
+          '--sample-time',
+        );
       return diagramForm(a, io, budget.deadline);
     }
     if (has(a, 'sweep') || has(a, 'set')) throw new UsageError('locus: --sweep and --set need a diagram FILE (locus FILE --sweep PARAM)');
@@ -162,11 +170,22 @@ export const locusCommand: Command = {
     const kMax = numberFlag(a, 'k-max');
     const samples = numberFlag(a, 'samples');
     const sampleTime = numberFlag(a, 'sample-time');
-    if (sampleTime === undefined && has(a, 'compute-delay')) throw new UsageError('locus: --compute-delay needs --sample-time T', '--sample-time');
+    if (sampleTime === undefined && has(a, 'compute-delay'))
+      throw new UsageError('locus: --compute-delay needs --sample-time T', '--sample-time');
     if (sampleTime !== undefined) return sampledForm(a, io, loop, sampleTime, { kMax, samples });
     const padeOrder = numberFlag(a, 'pade-order') ?? 3;
-    const { loop: tf, locus: L, delayHandling } = withCaret(loop, () =>
-      expressionLocus(loop, { negative: has(a, 'negative'), padeOrder, ...budget, ...(kMax !== undefined ? { kMax } : {}), ...(samples !== undefined ? { samples } : {}) }),
+    const {
+      loop: tf,
+      locus: L,
+      delayHandling,
+    } = withCaret(loop, () =>
+      expressionLocus(loop, {
+        negative: has(a, 'negative'),
+        padeOrder,
+        ...budget,
+        ...(kMax !== undefined ? { kMax } : {}),
+        ...(samples !== undefined ? { samples } : {}),
+      }),
     );
     const j = locusJson(L, delayHandling);
     if (has(a, 'json')) {
@@ -193,10 +212,19 @@ async function sampledForm(
   sampleTime: number,
   o: { kMax: number | undefined; samples: number | undefined },
 ): Promise<number> {
-  if (has(a, 'pade-order')) throw new UsageError('locus: --pade-order does not apply to a sampled loop (a dead time is exact in G(z))', '--pade-order');
+  if (has(a, 'pade-order'))
+    throw new UsageError('locus: --pade-order does not apply to a sampled loop (a dead time is exact in G(z))', '--pade-order');
   const computeDelay = numberFlag(a, 'compute-delay') ?? 0;
   const { loop: tf, locus: L } = withCaret(loop, () =>
-    expressionSampledLocus(loop, { sampleTime, computeDelay }, { negative: has(a, 'negative'), ...(o.kMax !== undefined ? { kMax: o.kMax } : {}), ...(o.samples !== undefined ? { samples: o.samples } : {}) }),
+    expressionSampledLocus(
+      loop,
+      { sampleTime, computeDelay },
+      {
+        negative: has(a, 'negative'),
+        ...(o.kMax !== undefined ? { kMax: o.kMax } : {}),
+        ...(o.samples !== undefined ? { samples: o.samples } : {}),
+      },
+    ),
   );
   const j = zLocusJson(L, computeDelay);
   if (has(a, 'json')) {

@@ -84,18 +84,28 @@ export const marginsCommand: Command = {
     const padeOrder = numberFlag(a, 'pade-order');
     const loop = loopFromArgs(a, 'margins');
     const sampleTime = numberFlag(a, 'sample-time');
-    if (sampleTime === undefined && (has(a, 'hold') || has(a, 'compute-delay'))) throw new UsageError('margins: --hold and --compute-delay need --sample-time T', '--sample-time');
+    if (sampleTime === undefined && (has(a, 'hold') || has(a, 'compute-delay')))
+      throw new UsageError('margins: --hold and --compute-delay need --sample-time T', '--sample-time');
     if (sampleTime !== undefined) {
-      if (padeOrder !== undefined) throw new UsageError('margins: --pade-order does not apply to a sampled loop (its poles are exact z-plane poles)', '--pade-order');
+      if (padeOrder !== undefined)
+        throw new UsageError('margins: --pade-order does not apply to a sampled loop (its poles are exact z-plane poles)', '--pade-order');
       const computeDelay = numberFlag(a, 'compute-delay');
       const hold = one(a, 'hold');
       const { loop: tf, margins: sm } = withCaret(loop, () =>
-        expressionSampledMargins(loop, { sampleTime, ...(computeDelay !== undefined ? { computeDelay } : {}), ...(hold !== undefined ? { hold } : {}) }),
+        expressionSampledMargins(loop, {
+          sampleTime,
+          ...(computeDelay !== undefined ? { computeDelay } : {}),
+          ...(hold !== undefined ? { hold } : {}),
+        }),
       );
       io.stdout(has(a, 'json') ? toJson(sampledMarginsJson(sm)) : sampledText(tf, sm));
       return 0;
     }
-    const { loop: tf, margins: m, poleOrigin } = withCaret(loop, () => expressionMargins(loop, { ...(padeOrder !== undefined ? { padeOrder } : {}), ...budget }));
+    const {
+      loop: tf,
+      margins: m,
+      poleOrigin,
+    } = withCaret(loop, () => expressionMargins(loop, { ...(padeOrder !== undefined ? { padeOrder } : {}), ...budget }));
     if (has(a, 'json')) {
       io.stdout(toJson(marginsJson(m, poleOrigin)));
       return 0;
@@ -138,15 +148,23 @@ export const marginsCommand: Command = {
 
 function sampledText(tf: TransferFunction, m: SampledMargins): string {
   const est = m.continuousEstimate?.margins ?? null;
-  const pm = (x: Omit<LoopMargins, 'notes'> | null) => (x === null || x.phaseMarginDeg === null ? 'none' : `${fmtNumber(x.phaseMarginDeg, 5)}° at ${fmtNumber(x.gainCrossover!)} rad/s`);
-  const gm = (x: Omit<LoopMargins, 'notes'> | null) => (x === null || x.gainMargin === null ? 'infinite' : `${fmtNumber(x.gainMargin)} (${fmtNumber(x.gainMarginDb!, 4)} dB) at ${fmtNumber(x.phaseCrossover!)} rad/s`);
+  const pm = (x: Omit<LoopMargins, 'notes'> | null) =>
+    x === null || x.phaseMarginDeg === null ? 'none' : `${fmtNumber(x.phaseMarginDeg, 5)}° at ${fmtNumber(x.gainCrossover!)} rad/s`;
+  const gm = (x: Omit<LoopMargins, 'notes'> | null) =>
+    x === null || x.gainMargin === null
+      ? 'infinite'
+      : `${fmtNumber(x.gainMargin)} (${fmtNumber(x.gainMarginDb!, 4)} dB) at ${fmtNumber(x.phaseCrossover!)} rad/s`;
   const lines = [
     `L(s) = ${fmtTransfer(tf.rational.num, tf.rational.den, tf.delay)}, sampled every T = ${fmtNumber(m.sampleTime)} s behind a zero-order hold, computation delay ${fmtNumber(m.computeDelay)} samples`,
     `G(z) = (${m.pulse.rational.num.map((c) => fmtNumber(c)).join(', ')}) / (${m.pulse.rational.den.map((c) => fmtNumber(c)).join(', ')})   (ascending powers of z)`,
     '',
     `sampled loop (exact pulse transfer function, ω up to π/T = ${fmtNumber(m.nyquistFrequency)} rad/s)`,
     `  gain margin        ${gm(m)}`,
-    ...(m.lowerGainMargin !== null ? [`  lower gain margin  ${fmtNumber(m.lowerGainMargin)} (${fmtNumber(m.lowerGainMarginDb!, 4)} dB) at ${fmtNumber(m.lowerPhaseCrossover!)} rad/s`] : []),
+    ...(m.lowerGainMargin !== null
+      ? [
+          `  lower gain margin  ${fmtNumber(m.lowerGainMargin)} (${fmtNumber(m.lowerGainMarginDb!, 4)} dB) at ${fmtNumber(m.lowerPhaseCrossover!)} rad/s`,
+        ]
+      : []),
     `  phase margin       ${pm(m)}`,
     `  delay margin       ${opt(m.delayMargin, ' s')}`,
     `  peak sensitivity   Ms = ${opt(m.peakSensitivity)}`,

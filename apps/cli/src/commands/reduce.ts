@@ -49,7 +49,19 @@ export const reduceCommand: Command = {
     checkSets(d, sets);
     const from = signalRef(d, fromText, 'from');
     const to = signalRef(d, toText, 'to');
-    const r = runStudy(d, { kind: 'closed-loop', from, to, overrides: sets, bode: has(a, 'bode'), step: has(a, 'step'), ...(padeOrder !== undefined ? { padeOrder } : {}) }, budget);
+    const r = runStudy(
+      d,
+      {
+        kind: 'closed-loop',
+        from,
+        to,
+        overrides: sets,
+        bode: has(a, 'bode'),
+        step: has(a, 'step'),
+        ...(padeOrder !== undefined ? { padeOrder } : {}),
+      },
+      budget,
+    );
     const { num: numA, den: denA, delay } = r.transfer;
     const text = fmtTransfer(numA, denA, delay);
     if (has(a, 'json')) {

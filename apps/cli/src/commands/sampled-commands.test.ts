@@ -37,7 +37,18 @@ describe('loopwright margins --sample-time', () => {
       expect(Math.abs(Math.abs(im) - 0.6182)).toBeLessThan(1e-4);
     }
     // today's margins fields are all there
-    for (const k of ['phaseMarginDeg', 'gainCrossover', 'delayMargin', 'peakSensitivity', 'peakComplementary', 'bandwidth', 'gainCrossoverDetails', 'phaseCrossoverDetails', 'padeOrder']) expect(j).toHaveProperty(k);
+    for (const k of [
+      'phaseMarginDeg',
+      'gainCrossover',
+      'delayMargin',
+      'peakSensitivity',
+      'peakComplementary',
+      'bandwidth',
+      'gainCrossoverDetails',
+      'phaseCrossoverDetails',
+      'padeOrder',
+    ])
+      expect(j).toHaveProperty(k);
     expect(j.continuousEstimate.label).toMatch(/estimate/);
   });
 
@@ -93,7 +104,9 @@ describe('loopwright locus --sample-time', () => {
     expect(Math.abs(first.omega - 1.3244)).toBeLessThan(1e-4);
     expect(Math.abs(j.criticalGain - 2.3922)).toBeLessThan(1e-4);
     // the other Jury limit, K < 26.397, is where a branch leaves through z = −1 [R59]
-    expect(j.crossings.some((c: { gain: number; omegaT: number }) => Math.abs(c.gain - 26.397) < 1e-3 && Math.abs(c.omegaT - Math.PI) < 1e-9)).toBe(true);
+    expect(
+      j.crossings.some((c: { gain: number; omegaT: number }) => Math.abs(c.gain - 26.397) < 1e-3 && Math.abs(c.omegaT - Math.PI) < 1e-9),
+    ).toBe(true);
     // open-loop poles of G(z): 1 and e^(−1) [R54 (c)]
     const poles = (j.poles as number[][]).map((p) => p[0]).sort((x, y) => x - y);
     expect(Math.abs(poles[0] - Math.exp(-1))).toBeLessThan(1e-9);
@@ -134,7 +147,10 @@ describe('loopwright export', () => {
     for (const v of ['0.0666666', '0.444444', '8.88888']) expect(text).toContain(v);
     // the vector comes from a simulation of the block alone; the reference executor on its
     // input gives the same outputs (two implementations: simulator instants and executor)
-    const ctrl = discretizeController({ kind: 'pid', kp: 2, ti: 1.5, td: 0.4, n: 10, umin: -5, umax: 5 }, { sampleTime: 0.05, computeDelay: 1 });
+    const ctrl = discretizeController(
+      { kind: 'pid', kp: 2, ti: 1.5, td: 0.4, n: 10, umin: -5, umax: 5 },
+      { sampleTime: 0.05, computeDelay: 1 },
+    );
     const u = runController(ctrl, j.testVector.input);
     u.forEach((v, k) => expect(Math.abs(v - j.testVector.output[k])).toBeLessThan(1e-12));
     // the input: a step A at k = 0, −0.6·A from k = 80 (a fifth of 400 samples)
@@ -173,7 +189,11 @@ describe('loopwright export', () => {
     try {
       for (const [p, t] of Object.entries(f.written)) writeFileSync(join(dir, p.slice(4)), t);
       const exe = join(dir, 'check');
-      const cc = spawnSync('cc', ['-std=c99', '-pedantic', '-Wall', '-Wextra', '-Werror', '-O2', '-o', exe, join(dir, 'pid_check.c'), join(dir, 'pid.c'), '-lm'], { encoding: 'utf8' });
+      const cc = spawnSync(
+        'cc',
+        ['-std=c99', '-pedantic', '-Wall', '-Wextra', '-Werror', '-O2', '-o', exe, join(dir, 'pid_check.c'), join(dir, 'pid.c'), '-lm'],
+        { encoding: 'utf8' },
+      );
       expect(cc.stderr).toBe('');
       expect(cc.status).toBe(0);
       const run = spawnSync(exe, [], { encoding: 'utf8' });

@@ -48,7 +48,12 @@ describe('loopwright simulate', () => {
     expect(a.metrics[probe]).toHaveProperty('settlingTime');
     const h2 = harness({ 'heat.loop.json': serializeDiagram(heatingCascade) });
     const name = heatingCascade.parameters[0].name;
-    expect(await main(['simulate', 'heat.loop.json', '--until', '3600', '--json', '--set', `${name}=${heatingCascade.parameters[0].value * 2}`], h2.io)).toBe(0);
+    expect(
+      await main(
+        ['simulate', 'heat.loop.json', '--until', '3600', '--json', '--set', `${name}=${heatingCascade.parameters[0].value * 2}`],
+        h2.io,
+      ),
+    ).toBe(0);
     const b = JSON.parse(h2.out.join(''));
     expect(b.traces[probe]).not.toEqual(a.traces[probe]);
   });

@@ -36,9 +36,13 @@ const fmt = (v: number | null | undefined, unit = '') =>
 
 function summary(file: string, res: ResponseResult): string {
   const r = res.run;
-  const from = { request: 'given', diagram: "the diagram's", automatic: 'chosen from the slowest closed-loop pole' }[res.settings.untilFrom];
+  const from = { request: 'given', diagram: "the diagram's", automatic: 'chosen from the slowest closed-loop pole' }[
+    res.settings.untilFrom
+  ];
   const out: string[] = [`${file}: ${r.status} — ${r.message}`];
-  out.push(`  end time ${fmt(res.settings.until, ' s')} (${from}), rtol ${res.settings.rtol}, atol ${res.settings.atol}${res.model === 'linear' ? ', linear model' : ''}`);
+  out.push(
+    `  end time ${fmt(res.settings.until, ' s')} (${from}), rtol ${res.settings.rtol}, atol ${res.settings.atol}${res.model === 'linear' ? ', linear model' : ''}`,
+  );
   out.push(`  ${r.stats.accepted} steps, ${r.stats.segments} segments, ${r.events.length} events, ${fmt(r.stats.wallMs)} ms`);
   for (const id of res.shownProbes) {
     const m = r.probeFigures[id];
@@ -74,20 +78,27 @@ export const simulateCommand: Command = {
     if (until !== undefined && !(until > 0)) throw new UsageError(`--until: ${until} must be above 0 s`, '--until');
     const wireFlags = all(args, 'wire');
     const probeFlags = all(args, 'probe');
-    const res = runStudy(diagram, {
-      kind: 'run',
-      overrides,
-      until: until ?? null,
-      ...optional('step', numberFlag(args, 'step')),
-      ...optional('rtol', numberFlag(args, 'rtol')),
-      ...optional('atol', numberFlag(args, 'atol')),
-      ...optional('maxSteps', numberFlag(args, 'max-steps')),
-      model: has(args, 'linear') ? 'linear' : 'as-drawn',
-      wires: wireFlags.includes('all') ? 'all' : wireFlags,
-      ...(probeFlags.length ? { probes: probeFlags.includes('all') ? ('all' as const) : probeFlags } : {}),
-    }, budget);
+    const res = runStudy(
+      diagram,
+      {
+        kind: 'run',
+        overrides,
+        until: until ?? null,
+        ...optional('step', numberFlag(args, 'step')),
+        ...optional('rtol', numberFlag(args, 'rtol')),
+        ...optional('atol', numberFlag(args, 'atol')),
+        ...optional('maxSteps', numberFlag(args, 'max-steps')),
+        model: has(args, 'linear') ? 'linear' : 'as-drawn',
+        wires: wireFlags.includes('all') ? 'all' : wireFlags,
+        ...(probeFlags.length ? { probes: probeFlags.includes('all') ? ('all' as const) : probeFlags } : {}),
+      },
+      budget,
+    );
     // Data out: every probe and the wires asked for (actuator signals only when asked for).
-    const keep = new Set([...res.probes.map((p) => p.id), ...(wireFlags.includes('all') ? Object.keys(res.run.traces).filter((k) => k.startsWith('wire:')) : wireFlags.map((w) => `wire:${w}`))]);
+    const keep = new Set([
+      ...res.probes.map((p) => p.id),
+      ...(wireFlags.includes('all') ? Object.keys(res.run.traces).filter((k) => k.startsWith('wire:')) : wireFlags.map((w) => `wire:${w}`)),
+    ]);
     const traces = Object.fromEntries(Object.entries(res.run.traces).filter(([k]) => keep.has(k)));
     let writeError: WriteError | null = null;
     if (csv.length === 1) {
@@ -133,4 +144,5 @@ export const simulateCommand: Command = {
   },
 };
 
-const optional = <K extends string>(key: K, v: number | undefined): Partial<Record<K, number>> => (v === undefined ? {} : ({ [key]: v } as Record<K, number>));
+const optional = <K extends string>(key: K, v: number | undefined): Partial<Record<K, number>> =>
+  v === undefined ? {} : ({ [key]: v } as Record<K, number>);

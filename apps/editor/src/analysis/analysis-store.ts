@@ -9,7 +9,6 @@ import { create } from 'zustand';
 import type { SweepRange } from './sweep.ts';
 import type { AnalysisSnapshot } from './snapshot.ts';
 
-
 export type AnalysisViewId = 'locus' | 'response' | 'frequency' | 'loops' | 'closed-loop' | 'compare' | 'fit' | 'tune';
 
 export interface AnalysisUiState {

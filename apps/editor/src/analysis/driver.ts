@@ -89,7 +89,10 @@ export function channelStudies(
     check: [{ kind: 'check' }],
     analysis,
     // with sampled blocks, each cut's loop is also read at its sampler (Loops view)
-    loops: [{ kind: 'loops', live }, ...(hasSampledBlock(inp.diagram) ? inp.diagram.cuts.map((c): StudyRequest => ({ kind: 'sampled-cut', cut: c.id, live })) : [])],
+    loops: [
+      { kind: 'loops', live },
+      ...(hasSampledBlock(inp.diagram) ? inp.diagram.cuts.map((c): StudyRequest => ({ kind: 'sampled-cut', cut: c.id, live })) : []),
+    ],
     // A live preview: 5 s of wall time at most (a run that needs more says so).
     response: [{ kind: 'run', live, linearOverlay: true, maxWallMs: 5000 }],
     'closed-loop':

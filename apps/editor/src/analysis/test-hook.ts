@@ -68,7 +68,9 @@ export function installAnalysisHook(): void {
     },
     chartNames,
     yExtents(name) {
-      const c = chartInstance(name) as unknown as { getModel(): { getComponent(t: string, i: number): { axis?: { scale: { getExtent(): [number, number] } } } | undefined } } | undefined;
+      const c = chartInstance(name) as unknown as
+        | { getModel(): { getComponent(t: string, i: number): { axis?: { scale: { getExtent(): [number, number] } } } | undefined } }
+        | undefined;
       if (!c) return null;
       const out: [number, number][] = [];
       for (let i = 0; ; i++) {

@@ -82,7 +82,13 @@ function safeInputs(kind: BlockKind, params: Record<string, unknown>): string[] 
   }
 }
 
-function buildNodes(d: Diagram, selected: Set<string>, faults: Map<string, Finding>, prev: BlockFlowNode[], target: SweptTarget): BlockFlowNode[] {
+function buildNodes(
+  d: Diagram,
+  selected: Set<string>,
+  faults: Map<string, Finding>,
+  prev: BlockFlowNode[],
+  target: SweptTarget,
+): BlockFlowNode[] {
   const old = new Map(prev.map((n) => [n.id, n]));
   const swept = target.parameter;
   return d.blocks.map((b) => {
@@ -90,7 +96,8 @@ function buildNodes(d: Diagram, selected: Set<string>, faults: Map<string, Findi
     const f = faults.get(b.id);
     const p = old.get(b.id);
     const sweptHere =
-      target.block === b.id || (swept !== undefined && Object.values(b.params).some((v) => typeof v === 'string' && identifiersIn(v).includes(swept)));
+      target.block === b.id ||
+      (swept !== undefined && Object.values(b.params).some((v) => typeof v === 'string' && identifiersIn(v).includes(swept)));
     return {
       ...(p ?? {}),
       id: b.id,
@@ -112,7 +119,13 @@ function buildNodes(d: Diagram, selected: Set<string>, faults: Map<string, Findi
   });
 }
 
-function buildEdges(d: Diagram, selected: Set<string>, faults: Map<string, Finding>, lanes: Map<string, number>, dropWire: string | null): WireFlowEdge[] {
+function buildEdges(
+  d: Diagram,
+  selected: Set<string>,
+  faults: Map<string, Finding>,
+  lanes: Map<string, number>,
+  dropWire: string | null,
+): WireFlowEdge[] {
   const fan = new Map<string, number>();
   for (const w of d.wires) {
     const k = `${w.from.block}:${w.from.port}`;
@@ -148,7 +161,9 @@ function buildEdges(d: Diagram, selected: Set<string>, faults: Map<string, Findi
 function boxesOf(nodes: BlockFlowNode[]): Map<string, Box> {
   const m = new Map<string, Box>();
   for (const n of nodes) {
-    const size = n.measured?.width ? { width: n.measured.width, height: n.measured.height ?? DEFAULT_SIZE.height } : (NEW_SIZE[n.data.block.kind] ?? DEFAULT_SIZE);
+    const size = n.measured?.width
+      ? { width: n.measured.width, height: n.measured.height ?? DEFAULT_SIZE.height }
+      : (NEW_SIZE[n.data.block.kind] ?? DEFAULT_SIZE);
     m.set(n.id, { x: n.position.x, y: n.position.y, ...size });
   }
   return m;
@@ -292,7 +307,12 @@ export function Canvas() {
     const from = { block: c.source, port: c.sourceHandle };
     const to = { block: c.target, port: c.targetHandle };
     const st = useDiagramStore.getState();
-    if (st.diagram.wires.some((w) => w.from.block === from.block && w.from.port === from.port && w.to.block === to.block && w.to.port === to.port)) return;
+    if (
+      st.diagram.wires.some(
+        (w) => w.from.block === from.block && w.from.port === from.port && w.to.block === to.block && w.to.port === to.port,
+      )
+    )
+      return;
     // An input takes one wire: never replace the one it has without asking.
     const existing = occupyingWire(st.diagram, from, to);
     if (existing) useUiStore.getState().setPendingConnection({ from, to, existing: existing.id });
@@ -332,38 +352,38 @@ export function Canvas() {
 
   return (
     <div ref={box} className="canvas-box" data-fit-pending={fitPending || undefined}>
-    <ReactFlow<BlockFlowNode, WireFlowEdge>
-      nodes={nodes}
-      edges={edges}
-      nodeTypes={nodeTypes}
-      edgeTypes={edgeTypes}
-      onNodesChange={onNodesChange}
-      onEdgesChange={onEdgesChange}
-      onNodeDragStart={onNodeDragStart}
-      onSelectionDragStart={onNodeDragStart}
-      onNodeDrag={onNodeDrag}
-      onNodeDragStop={onNodeDragStop}
-      onSelectionDragStop={(e, dragged) => onNodeDragStop(e.nativeEvent, dragged[0], dragged)}
-      onConnect={onConnect}
-      isValidConnection={isValidConnection}
-      onDragOver={onDragOver}
-      onDragLeave={onDragLeave}
-      onDrop={onDrop}
-      snapToGrid
-      snapGrid={[GRID, GRID]}
-      deleteKeyCode={null}
-      selectionKeyCode="Shift"
-      multiSelectionKeyCode={['Control', 'Meta']}
-      colorMode={theme}
-      minZoom={MIN_ZOOM}
-      maxZoom={3}
-      proOptions={{ hideAttribution: true }}
-      aria-label="Diagram canvas"
-    >
-      <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1.2} color="var(--grid)" />
-      <Controls showInteractive={false} showFitView={false} position="top-right" aria-label="Zoom controls" />
-    </ReactFlow>
-    <ReplaceWireDialog />
+      <ReactFlow<BlockFlowNode, WireFlowEdge>
+        nodes={nodes}
+        edges={edges}
+        nodeTypes={nodeTypes}
+        edgeTypes={edgeTypes}
+        onNodesChange={onNodesChange}
+        onEdgesChange={onEdgesChange}
+        onNodeDragStart={onNodeDragStart}
+        onSelectionDragStart={onNodeDragStart}
+        onNodeDrag={onNodeDrag}
+        onNodeDragStop={onNodeDragStop}
+        onSelectionDragStop={(e, dragged) => onNodeDragStop(e.nativeEvent, dragged[0], dragged)}
+        onConnect={onConnect}
+        isValidConnection={isValidConnection}
+        onDragOver={onDragOver}
+        onDragLeave={onDragLeave}
+        onDrop={onDrop}
+        snapToGrid
+        snapGrid={[GRID, GRID]}
+        deleteKeyCode={null}
+        selectionKeyCode="Shift"
+        multiSelectionKeyCode={['Control', 'Meta']}
+        colorMode={theme}
+        minZoom={MIN_ZOOM}
+        maxZoom={3}
+        proOptions={{ hideAttribution: true }}
+        aria-label="Diagram canvas"
+      >
+        <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1.2} color="var(--grid)" />
+        <Controls showInteractive={false} showFitView={false} position="top-right" aria-label="Zoom controls" />
+      </ReactFlow>
+      <ReplaceWireDialog />
     </div>
   );
 }

@@ -32,15 +32,18 @@ function box(n: InternalNode | undefined) {
  * lane it runs just clear of its two blocks.
  */
 export function feedbackPath(
-  sx: number, sy: number, tx: number, ty: number, targetPosition: Position,
-  s: { top: number; bottom: number } | null, t: { top: number; bottom: number } | null,
+  sx: number,
+  sy: number,
+  tx: number,
+  ty: number,
+  targetPosition: Position,
+  s: { top: number; bottom: number } | null,
+  t: { top: number; bottom: number } | null,
   assigned?: number,
 ): [string, number, number] | null {
   if (tx >= sx + 4 && assigned === undefined) return null;
   const above = targetPosition === Position.Top;
-  const lane =
-    assigned ??
-    (above ? Math.min(s?.top ?? sy, t?.top ?? ty) - CLEAR : Math.max(s?.bottom ?? sy, t?.bottom ?? ty) + CLEAR);
+  const lane = assigned ?? (above ? Math.min(s?.top ?? sy, t?.top ?? ty) - CLEAR : Math.max(s?.bottom ?? sy, t?.bottom ?? ty) + CLEAR);
   const x1 = sx + STUB;
   if (targetPosition === Position.Bottom || targetPosition === Position.Top) {
     return [`M${sx},${sy} H${x1} V${lane} H${tx} V${ty}`, (x1 + tx) / 2, lane];
@@ -66,7 +69,13 @@ export const WireEdge = memo(function WireEdge(props: EdgeProps<WireFlowEdge>) {
     forwardPath(sourceX, sourceY, targetX, targetY, targetPosition);
   useEffect(() => registerWirePath(id, path), [id, path]);
   useEffect(() => () => unregisterWirePath(id), [id]);
-  const cls = ['lw-wire', selected ? 'is-selected' : '', data?.fault ? `fault-${data.fault}` : '', data?.cut ? 'is-cut' : '', data?.dropTarget ? 'is-drop-target' : '']
+  const cls = [
+    'lw-wire',
+    selected ? 'is-selected' : '',
+    data?.fault ? `fault-${data.fault}` : '',
+    data?.cut ? 'is-cut' : '',
+    data?.dropTarget ? 'is-drop-target' : '',
+  ]
     .filter(Boolean)
     .join(' ');
   return (

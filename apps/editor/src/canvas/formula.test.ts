@@ -8,8 +8,15 @@ describe('parseForDisplay', () => {
   it('binds ^ tighter than * and / tighter than +', () => {
     const e = parseForDisplay('1 + 2*s^2/3');
     expect(e).toEqual({
-      t: 'bin', op: '+', a: { t: 'num', v: '1' },
-      b: { t: 'bin', op: '/', a: { t: 'bin', op: '*', a: { t: 'num', v: '2' }, b: { t: 'bin', op: '^', a: { t: 'name', v: 's' }, b: { t: 'num', v: '2' } } }, b: { t: 'num', v: '3' } },
+      t: 'bin',
+      op: '+',
+      a: { t: 'num', v: '1' },
+      b: {
+        t: 'bin',
+        op: '/',
+        a: { t: 'bin', op: '*', a: { t: 'num', v: '2' }, b: { t: 'bin', op: '^', a: { t: 'name', v: 's' }, b: { t: 'num', v: '2' } } },
+        b: { t: 'num', v: '3' },
+      },
     });
   });
   it('keeps exp calls and parentheses; refuses junk', () => {

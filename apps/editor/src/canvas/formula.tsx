@@ -136,8 +136,22 @@ export function parseForDisplay(text: string): Expr | null {
 }
 
 const GREEK: Record<string, string> = {
-  alpha: 'α', beta: 'β', gamma: 'γ', delta: 'δ', zeta: 'ζ', eta: 'η', theta: 'θ', tau: 'τ',
-  omega: 'ω', phi: 'φ', lambda: 'λ', mu: 'μ', sigma: 'σ', kappa: 'κ', rho: 'ρ', xi: 'ξ',
+  alpha: 'α',
+  beta: 'β',
+  gamma: 'γ',
+  delta: 'δ',
+  zeta: 'ζ',
+  eta: 'η',
+  theta: 'θ',
+  tau: 'τ',
+  omega: 'ω',
+  phi: 'φ',
+  lambda: 'λ',
+  mu: 'μ',
+  sigma: 'σ',
+  kappa: 'κ',
+  rho: 'ρ',
+  xi: 'ξ',
 };
 
 /** A parameter name in textbook style: Kp → K with subscript p, wn → ω with subscript n, tau → τ. */
@@ -147,13 +161,26 @@ function renderName(v: string, swept: string | undefined, key?: string | number)
   let body: ReactNode = v;
   if (v === 's') body = <i>s</i>;
   else if (GREEK[v]) body = GREEK[v];
-  else if (v === 'wn') body = <>ω<sub>n</sub></>;
+  else if (v === 'wn')
+    body = (
+      <>
+        ω<sub>n</sub>
+      </>
+    );
   else {
     // head[_tail]: "Kp" → K_p, "Ti_spd" → T_i,spd, "r_pulley" → r_pulley, "tau_m" → τ_m
     const [head, ...rest] = v.split('_');
     const tail = rest.join('_');
     const m = /^([A-Z])([a-z0-9]{1,4})$/.exec(head);
-    const sub = (base: ReactNode, s: string) => (s ? <>{base}<sub>{s}</sub></> : base);
+    const sub = (base: ReactNode, s: string) =>
+      s ? (
+        <>
+          {base}
+          <sub>{s}</sub>
+        </>
+      ) : (
+        base
+      );
     if (m) body = sub(m[1], [m[2], tail].filter(Boolean).join(','));
     else if (GREEK[head]) body = sub(GREEK[head], tail);
     else if (head === 'wn') body = sub('ω', ['n', tail].filter(Boolean).join(','));

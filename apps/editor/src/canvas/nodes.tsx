@@ -32,7 +32,14 @@ export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<B
   const { block, inputs, outputs, fault, swept, sweptHere } = data;
   const spec = blockSpec(block.kind);
   const content = cardOf(block.kind, block.params);
-  const cls = ['lw-card', `lw-kind-${block.kind}`, `lw-category-${spec.category}`, selected ? 'is-selected' : '', fault ? `fault-${fault}` : '', sweptHere ? 'is-swept' : '']
+  const cls = [
+    'lw-card',
+    `lw-kind-${block.kind}`,
+    `lw-category-${spec.category}`,
+    selected ? 'is-selected' : '',
+    fault ? `fault-${fault}` : '',
+    sweptHere ? 'is-swept' : '',
+  ]
     .filter(Boolean)
     .join(' ');
   return (
@@ -68,9 +75,20 @@ export const BlockNode = memo(function BlockNode({ data, selected }: NodeProps<B
       )}
       {content.caption && <div className="lw-card-caption">{content.caption}</div>}
       {spec.icon && <CardIcon strokes={spec.icon} />}
-      {fault && <span className={`lw-fault-badge ${fault}`} aria-label={`${fault}: ${data.faultText ?? ''}`}>{fault === 'error' ? '!' : fault === 'warning' ? '▲' : 'i'}</span>}
+      {fault && (
+        <span className={`lw-fault-badge ${fault}`} aria-label={`${fault}: ${data.faultText ?? ''}`}>
+          {fault === 'error' ? '!' : fault === 'warning' ? '▲' : 'i'}
+        </span>
+      )}
       {outputs.map((p) => (
-        <Handle key={p} id={p} type="source" position={Position.Right} aria-label={`output ${portLabel(block, p)}`} data-testid={`port-${block.id}-${p}`} />
+        <Handle
+          key={p}
+          id={p}
+          type="source"
+          position={Position.Right}
+          aria-label={`output ${portLabel(block, p)}`}
+          data-testid={`port-${block.id}-${p}`}
+        />
       ))}
     </div>
   );
@@ -111,18 +129,37 @@ export const SumNode = memo(function SumNode({ id, data, selected }: NodeProps<B
         const side = sumPortSide(i);
         const li = leftPorts.indexOf(p);
         const style =
-          side === Position.Left ? { top: leftPorts.length === 1 ? '50%' : `${20 + (60 * li) / Math.max(1, leftPorts.length - 1)}%` } : undefined;
+          side === Position.Left
+            ? { top: leftPorts.length === 1 ? '50%' : `${20 + (60 * li) / Math.max(1, leftPorts.length - 1)}%` }
+            : undefined;
         const sign = signs[i] === '-' ? '−' : '+';
         return (
           <span key={p}>
-            <Handle id={p} type="target" position={side} style={style} aria-label={`input ${portLabel(block, p)}`} data-testid={`port-${block.id}-${p}`} />
-            <span className={`lw-sign lw-sign-${side}`} style={side === Position.Left ? { top: style?.top } : undefined} aria-label={`sign of ${p}: ${sign}`}>
+            <Handle
+              id={p}
+              type="target"
+              position={side}
+              style={style}
+              aria-label={`input ${portLabel(block, p)}`}
+              data-testid={`port-${block.id}-${p}`}
+            />
+            <span
+              className={`lw-sign lw-sign-${side}`}
+              style={side === Position.Left ? { top: style?.top } : undefined}
+              aria-label={`sign of ${p}: ${sign}`}
+            >
               {sign}
             </span>
           </span>
         );
       })}
-      <Handle id="out" type="source" position={Position.Right} aria-label={`output ${portLabel(block, 'out')}`} data-testid={`port-${block.id}-out`} />
+      <Handle
+        id="out"
+        type="source"
+        position={Position.Right}
+        aria-label={`output ${portLabel(block, 'out')}`}
+        data-testid={`port-${block.id}-out`}
+      />
       <span className="lw-sum-id" title={block.label ?? block.id}>
         {block.label ?? block.id}
       </span>

@@ -63,7 +63,9 @@ export async function tidyPositions(
     return { id: b.id, width: size.width, height: size.height, ports, layoutOptions: { 'elk.portConstraints': 'FIXED_SIDE' } };
   });
   const back = feedbackWires(d);
-  const edges = d.wires.filter((w) => !back.has(w.id)).map((w) => ({ id: w.id, sources: [`${w.from.block}:${w.from.port}`], targets: [`${w.to.block}:${w.to.port}`] }));
+  const edges = d.wires
+    .filter((w) => !back.has(w.id))
+    .map((w) => ({ id: w.id, sources: [`${w.from.block}:${w.from.port}`], targets: [`${w.to.block}:${w.to.port}`] }));
   const elk = await loadElk();
   const result = await elk.layout({
     id: 'root',

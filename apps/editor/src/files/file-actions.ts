@@ -42,14 +42,20 @@ export function openText(text: string, name: string): boolean {
 
 export async function openFile(file: File): Promise<boolean> {
   if (file.size > MAX_FILE_BYTES) {
-    useUiStore.getState().notify({ kind: 'error', title: `Could not open ${file.name}: the file is larger than ${MAX_FILE_BYTES / 1e6} MB` });
+    useUiStore
+      .getState()
+      .notify({ kind: 'error', title: `Could not open ${file.name}: the file is larger than ${MAX_FILE_BYTES / 1e6} MB` });
     return false;
   }
   return openText(await file.text(), file.name);
 }
 
 export function fileNameFor(d: Diagram): string {
-  const slug = d.title.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'diagram';
+  const slug =
+    d.title
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-|-$/g, '') || 'diagram';
   return `${slug}.loop.json`;
 }
 

@@ -11,9 +11,9 @@ export function AboutDialog() {
     <dialog ref={ref} className="about" aria-label="About and safety" onClose={() => useUiStore.getState().setAboutOpen(false)}>
       <h2>Loopwright</h2>
       <p>
-        A workbench for tuning cascaded and multi-loop feedback systems: wire the loops as a diagram, cut any wire to read its
-        margins with the other loops closed, sweep one parameter and watch every closed-loop pole move, and simulate with
-        saturation, rate limits and dead time.
+        A workbench for tuning cascaded and multi-loop feedback systems: wire the loops as a diagram, cut any wire to read its margins with
+        the other loops closed, sweep one parameter and watch every closed-loop pole move, and simulate with saturation, rate limits and
+        dead time.
       </p>
       <h3>Safety</h3>
       <p className="safety" role="note">

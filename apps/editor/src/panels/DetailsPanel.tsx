@@ -32,7 +32,9 @@ function BlockDetails({ diagram, block }: { diagram: Diagram; block: Block }) {
       <div className="details-head">
         <strong>{spec.title}</strong> <span className="muted mono">{block.id}</span>
       </div>
-      <p className="muted small desc" title={spec.description}>{spec.description}</p>
+      <p className="muted small desc" title={spec.description}>
+        {spec.description}
+      </p>
       <FitRecordNote diagram={diagram} block={block} />
       <div className="field">
         <label htmlFor="block-label">Label</label>
@@ -47,7 +49,13 @@ function BlockDetails({ diagram, block }: { diagram: Diagram; block: Block }) {
         />
       </div>
       {visibleParams(block.kind, block.params).map((p) => (
-        <ParamField key={`${block.id}:${p.name}`} diagram={diagram} block={block} spec={p} onCommit={(v) => st.updateBlockParams(block.id, { [p.name]: v })} />
+        <ParamField
+          key={`${block.id}:${p.name}`}
+          diagram={diagram}
+          block={block}
+          spec={p}
+          onCommit={(v) => st.updateBlockParams(block.id, { [p.name]: v })}
+        />
       ))}
       {isSampledKind(block.kind) && <SampledExport diagram={diagram} block={block} />}
       {inputs.length > 0 && (
@@ -173,7 +181,9 @@ export function DetailsPanel() {
             }}
           />
         </div>
-        <p className="muted small">Select a block or a wire to edit it. Add blocks from Parts; drag from an output (right) to an input (left) to wire them.</p>
+        <p className="muted small">
+          Select a block or a wire to edit it. Add blocks from Parts; drag from an output (right) to an input (left) to wire them.
+        </p>
       </div>
     );
   }

@@ -15,8 +15,16 @@ export function FindingsPanel() {
       <h2>
         Findings{' '}
         <span className="counts" aria-label="finding counts">
-          {counts.error > 0 && <span className="count error">{counts.error} error{counts.error > 1 ? 's' : ''}</span>}
-          {counts.warning > 0 && <span className="count warning">{counts.warning} warning{counts.warning > 1 ? 's' : ''}</span>}
+          {counts.error > 0 && (
+            <span className="count error">
+              {counts.error} error{counts.error > 1 ? 's' : ''}
+            </span>
+          )}
+          {counts.warning > 0 && (
+            <span className="count warning">
+              {counts.warning} warning{counts.warning > 1 ? 's' : ''}
+            </span>
+          )}
         </span>
       </h2>
       {findings.length === 0 ? (
@@ -36,7 +44,13 @@ export function FindingsPanel() {
                   const blocks = f.blocks ?? [];
                   const wires = f.wires ?? [];
                   useDiagramStore.getState().setSelection({ blocks, wires });
-                  const ids = new Set([...blocks, ...useDiagramStore.getState().diagram.wires.filter((w) => wires.includes(w.id)).flatMap((w) => [w.from.block, w.to.block])]);
+                  const ids = new Set([
+                    ...blocks,
+                    ...useDiagramStore
+                      .getState()
+                      .diagram.wires.filter((w) => wires.includes(w.id))
+                      .flatMap((w) => [w.from.block, w.to.block]),
+                  ]);
                   if (ids.size) void flow.fitView({ nodes: [...ids].map((id) => ({ id })), padding: 0.6, maxZoom: 1.25, duration: 200 });
                 }}
               >
@@ -44,7 +58,9 @@ export function FindingsPanel() {
                   {ICON[f.severity]}
                 </span>
                 <span>
-                  {(f.blocks?.length || f.wires?.length) ? <span className="where mono">{[...(f.blocks ?? []), ...(f.wires ?? [])].join(', ')}: </span> : null}
+                  {f.blocks?.length || f.wires?.length ? (
+                    <span className="where mono">{[...(f.blocks ?? []), ...(f.wires ?? [])].join(', ')}: </span>
+                  ) : null}
                   {f.message}
                 </span>
               </button>

@@ -106,26 +106,41 @@ export function ParamField({ diagram, block, spec, onCommit }: Props) {
           )}
           <div className="msg">
             {problem.message}
-            {pos !== undefined && <span className="pos" data-position={pos}> (at character {pos + 1})</span>}
+            {pos !== undefined && (
+              <span className="pos" data-position={pos}>
+                {' '}
+                (at character {pos + 1})
+              </span>
+            )}
           </div>
           {(() => {
             // A name that is not a parameter yet: offer to create it (value 1) rather than make the user go elsewhere.
             const m = /unknown parameter '([A-Za-z_][A-Za-z0-9_]*)'/.exec(problem.message);
             if (!m) return null;
             return (
-              <button type="button" className="create" aria-label={`Create parameter ${m[1]}`} onClick={() => {
+              <button
+                type="button"
+                className="create"
+                aria-label={`Create parameter ${m[1]}`}
+                onClick={() => {
                   const st = useDiagramStore.getState();
                   st.addParameter({ name: m[1], value: 1 });
                   const value = valueFromText(spec, draft);
                   if (!validateField(useDiagramStore.getState().diagram, block, spec.name, value)) onCommit(value);
-                }}>
+                }}
+              >
                 Create parameter {m[1]}
               </button>
             );
           })()}
         </div>
       )}
-      {!problem && hint && <div className="field-hint">{hint}{unit ? ` ${unit}` : ''}</div>}
+      {!problem && hint && (
+        <div className="field-hint">
+          {hint}
+          {unit ? ` ${unit}` : ''}
+        </div>
+      )}
     </div>
   );
 }

@@ -15,7 +15,8 @@ import { useSweepChoice } from '../views/SweepBar.tsx';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
 
 /** Same rule as the document schema: an identifier, not s / exp / an expression keyword. */
-const NAME_RE = /^(?!(?:s|exp|__proto__|constructor|prototype|mod|to|in|and|or|not|xor|true|false|null|undefined|NaN|Infinity|e|pi|i)$)[A-Za-z_][A-Za-z0-9_]{0,63}$/;
+const NAME_RE =
+  /^(?!(?:s|exp|__proto__|constructor|prototype|mod|to|in|and|or|not|xor|true|false|null|undefined|NaN|Infinity|e|pi|i)$)[A-Za-z_][A-Za-z0-9_]{0,63}$/;
 
 export function nameProblem(d: Diagram, oldName: string, name: string): string | null {
   if (name === oldName) return null;
@@ -95,7 +96,12 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
           }}
         />
         <span>=</span>
-        <EngineeringInput label={`Value of ${p.name}`} unit={unit || undefined} value={p.value} onCommit={(v) => v !== undefined && st.setParameterValue(p.name, v)} />
+        <EngineeringInput
+          label={`Value of ${p.name}`}
+          unit={unit || undefined}
+          value={p.value}
+          onCommit={(v) => v !== undefined && st.setParameterValue(p.name, v)}
+        />
         {/* Sized to its text, so a unit is never cut off. */}
         <input
           className="unit-in"
@@ -109,7 +115,13 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
           onBlur={(e) => e.target.value !== unit && st.updateParameter(p.name, { unit: e.target.value || undefined })}
           onKeyDown={(e) => e.key === 'Enter' && (e.target as HTMLInputElement).blur()}
         />
-        <button type="button" className="icon" aria-label={`Remove parameter ${p.name}`} title="Remove" onClick={() => st.removeParameter(p.name)}>
+        <button
+          type="button"
+          className="icon"
+          aria-label={`Remove parameter ${p.name}`}
+          title="Remove"
+          onClick={() => st.removeParameter(p.name)}
+        >
           ×
         </button>
       </div>
@@ -119,7 +131,14 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
         </div>
       )}
       <div className="param-line">
-        <EngineeringInput className="range" optional label={`Slider minimum of ${p.name}`} unit={unit || undefined} value={p.min} onCommit={(v) => st.updateParameter(p.name, { min: v })} />
+        <EngineeringInput
+          className="range"
+          optional
+          label={`Slider minimum of ${p.name}`}
+          unit={unit || undefined}
+          value={p.min}
+          onCommit={(v) => st.updateParameter(p.name, { min: v })}
+        />
         <input
           type="range"
           min={0}
@@ -146,7 +165,14 @@ function ParameterRow({ diagram, p, sweptName }: { diagram: Diagram; p: NamedPar
             coalesced(`parameter-value:${p.name}`, () => st.setParameterValue(p.name, v), { held: held.current });
           }}
         />
-        <EngineeringInput className="range" optional label={`Slider maximum of ${p.name}`} unit={unit || undefined} value={p.max} onCommit={(v) => st.updateParameter(p.name, { max: v })} />
+        <EngineeringInput
+          className="range"
+          optional
+          label={`Slider maximum of ${p.name}`}
+          unit={unit || undefined}
+          value={p.max}
+          onCommit={(v) => st.updateParameter(p.name, { max: v })}
+        />
         {sweepButton}
       </div>
     </li>

@@ -35,7 +35,11 @@ export function PartsPanel() {
     const r = el?.getBoundingClientRect();
     const topLeft = flow.screenToFlowPosition(r ? { x: r.left + 30, y: r.top + 40 } : { x: 200, y: 100 });
     const bottomRight = flow.screenToFlowPosition(r ? { x: r.right - 30, y: r.bottom - 40 } : { x: 900, y: 500 });
-    const spot = freeSpot(useDiagramStore.getState().diagram.blocks.map((b) => b.position), topLeft, bottomRight);
+    const spot = freeSpot(
+      useDiagramStore.getState().diagram.blocks.map((b) => b.position),
+      topLeft,
+      bottomRight,
+    );
     useDiagramStore.getState().addBlock(kind, spot);
   };
   return (

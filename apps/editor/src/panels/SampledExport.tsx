@@ -38,7 +38,9 @@ export function SampledExport({ diagram, block }: { diagram: Diagram; block: Blo
           </button>
         ))}
       </div>
-      <p className="muted small">With a test vector (the block alone on a fixed input). Validate on the real machine with limits and interlocks in place.</p>
+      <p className="muted small">
+        With a test vector (the block alone on a fixed input). Validate on the real machine with limits and interlocks in place.
+      </p>
       {error && (
         <p className="error small" role="alert">
           {error}

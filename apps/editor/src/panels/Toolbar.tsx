@@ -43,7 +43,12 @@ export function Toolbar() {
       <button type="button" aria-label="New diagram" title="New diagram" onClick={newDiagram}>
         New
       </button>
-      <button type="button" aria-label="Open diagram" title="Open a .loop.json file (or drop it on the window)" onClick={() => fileInput.current?.click()}>
+      <button
+        type="button"
+        aria-label="Open diagram"
+        title="Open a .loop.json file (or drop it on the window)"
+        onClick={() => fileInput.current?.click()}
+      >
         Open…
       </button>
       <input
@@ -114,7 +119,12 @@ export function Toolbar() {
       >
         Tidy
       </button>
-      <button type="button" aria-label="Fit to view" title="Show the whole diagram, every block and wire (zoom in with the wheel or +)" onClick={() => useUiStore.getState().requestFit()}>
+      <button
+        type="button"
+        aria-label="Fit to view"
+        title="Show the whole diagram, every block and wire (zoom in with the wheel or +)"
+        onClick={() => useUiStore.getState().requestFit()}
+      >
         Fit
       </button>
       <span className="spacer" />

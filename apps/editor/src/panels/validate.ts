@@ -15,7 +15,10 @@ export interface FieldProblem {
 
 /** Drops the "block x field y: "text":" lead-in the panel already shows. */
 export function shortMessage(msg: string): string {
-  return msg.replace(/^block \S+ field \S+: /, '').replace(/^field \S+: /, '').replace(/^"(?:[^"\\]|\\.)*": /, '');
+  return msg
+    .replace(/^block \S+ field \S+: /, '')
+    .replace(/^field \S+: /, '')
+    .replace(/^"(?:[^"\\]|\\.)*": /, '');
 }
 
 export function validateField(d: Diagram, block: Block, name: string, value: ParamValue): FieldProblem | null {

@@ -1,5 +1,16 @@
 import { beforeEach, describe, expect, it } from 'vitest';
-import { beginGesture, coalesced, COALESCE_MS, endCoalescing, endGesture, HISTORY_LIMIT, loadDocument, redo, undo, useDiagramStore } from './diagram-store.ts';
+import {
+  beginGesture,
+  coalesced,
+  COALESCE_MS,
+  endCoalescing,
+  endGesture,
+  HISTORY_LIMIT,
+  loadDocument,
+  redo,
+  undo,
+  useDiagramStore,
+} from './diagram-store.ts';
 import { emptyDiagram } from './graph-bridge.ts';
 
 const st = () => useDiagramStore.getState();
@@ -127,7 +138,10 @@ describe('blocks dropped on wires', () => {
     const lag = st().addBlockOnWire('first-order-lag', { x: 200, y: 0 }, w);
     expect(past()).toBe(n + 1);
     const d = st().diagram;
-    expect(d.wires.map((x) => `${x.id}:${x.from.block}.${x.from.port}->${x.to.block}.${x.to.port}`)).toEqual([`${w}:${a}.out->${lag}.in`, `w2:${lag}.out->${b}.in`]);
+    expect(d.wires.map((x) => `${x.id}:${x.from.block}.${x.from.port}->${x.to.block}.${x.to.port}`)).toEqual([
+      `${w}:${a}.out->${lag}.in`,
+      `w2:${lag}.out->${b}.in`,
+    ]);
     expect(d.cuts).toEqual([{ id: 'cut1', wire: w }]);
     undo();
     expect(st().diagram).toEqual(before);
@@ -138,7 +152,11 @@ describe('blocks dropped on wires', () => {
     const sum = st().addBlockOnWire('summing-junction', { x: 200, y: 0 }, w);
     expect(st().diagram.wires.map((x) => `${x.from.block}->${x.to.block}.${x.to.port}`)).toEqual([`${a}->${sum}.in1`, `${sum}->${b}.in`]);
     const p = st().addBlockOnWire('probe', { x: 200, y: 100 }, w);
-    expect(st().diagram.wires.map((x) => `${x.from.block}->${x.to.block}.${x.to.port}`)).toEqual([`${a}->${sum}.in1`, `${sum}->${b}.in`, `${a}->${p}.in`]);
+    expect(st().diagram.wires.map((x) => `${x.from.block}->${x.to.block}.${x.to.port}`)).toEqual([
+      `${a}->${sum}.in1`,
+      `${sum}->${b}.in`,
+      `${a}->${p}.in`,
+    ]);
     const wires = st().diagram.wires;
     const src = st().addBlockOnWire('source', { x: 200, y: 200 }, w);
     expect(st().diagram.blocks.map((x) => x.id)).toContain(src);

@@ -5,7 +5,17 @@
  */
 import { create } from 'zustand';
 import { temporal } from 'zundo';
-import type { Block, BlockKind, Diagram, NamedParameter, ParamValue, SimulationSettings, Sweep, ViewSettings, Wire } from './graph-bridge.ts';
+import type {
+  Block,
+  BlockKind,
+  Diagram,
+  NamedParameter,
+  ParamValue,
+  SimulationSettings,
+  Sweep,
+  ViewSettings,
+  Wire,
+} from './graph-bridge.ts';
 import { blockSpec, defaultParams, emptyDiagram } from './graph-bridge.ts';
 import { renameInExpression } from './rename.ts';
 import { spliceIntoWire } from './wiring.ts';
@@ -115,7 +125,10 @@ export const useDiagramStore = create<DiagramState>()(
           edit((d) => {
             if (d.cuts.some((c) => c.wire === wireId)) return;
             if (!d.wires.some((w) => w.id === wireId)) return;
-            const id = nextId('cut', d.cuts.map((c) => c.id));
+            const id = nextId(
+              'cut',
+              d.cuts.map((c) => c.id),
+            );
             d.cuts.push({ id, wire: wireId });
             if (!d.view.activeCut) d.view.activeCut = id;
           }),
@@ -133,7 +146,12 @@ export const useDiagramStore = create<DiagramState>()(
           }),
         addSweep: (sweep) => {
           const d = clone(get().diagram);
-          const id = sweep.id ?? nextId('sweep', d.sweeps.map((s) => s.id));
+          const id =
+            sweep.id ??
+            nextId(
+              'sweep',
+              d.sweeps.map((s) => s.id),
+            );
           d.sweeps.push({ ...sweep, id });
           if (!d.view.activeSweep) d.view.activeSweep = id;
           set({ diagram: d });
@@ -161,14 +179,25 @@ export const useDiagramStore = create<DiagramState>()(
         },
         addBlock: (kind, position, params) => {
           const d = clone(get().diagram);
-          const id = nextId(blockSpec(kind).idPrefix, d.blocks.map((b) => b.id));
-          d.blocks.push({ id, kind, position: { x: Math.round(position.x), y: Math.round(position.y) }, params: { ...defaultParams(kind), ...params } });
+          const id = nextId(
+            blockSpec(kind).idPrefix,
+            d.blocks.map((b) => b.id),
+          );
+          d.blocks.push({
+            id,
+            kind,
+            position: { x: Math.round(position.x), y: Math.round(position.y) },
+            params: { ...defaultParams(kind), ...params },
+          });
           set({ diagram: d, selection: { blocks: [id], wires: [] } });
           return id;
         },
         addBlockOnWire: (kind, position, wireId) => {
           const d = clone(get().diagram);
-          const id = nextId(blockSpec(kind).idPrefix, d.blocks.map((b) => b.id));
+          const id = nextId(
+            blockSpec(kind).idPrefix,
+            d.blocks.map((b) => b.id),
+          );
           d.blocks.push({ id, kind, position: { x: Math.round(position.x), y: Math.round(position.y) }, params: defaultParams(kind) });
           spliceIntoWire(d, id, wireId);
           set({ diagram: d, selection: { blocks: [id], wires: [] } });
@@ -190,15 +219,14 @@ export const useDiagramStore = create<DiagramState>()(
             if (label.trim()) b.label = label;
             else delete b.label;
           }),
-        moveBlocks: (positions) =>
-          {
-            const d = clone(get().diagram);
-            for (const b of d.blocks) {
-              const p = positions[b.id];
-              if (p) b.position = { x: Math.round(p.x), y: Math.round(p.y) };
-            }
-            set({ diagram: d });
-          },
+        moveBlocks: (positions) => {
+          const d = clone(get().diagram);
+          for (const b of d.blocks) {
+            const p = positions[b.id];
+            if (p) b.position = { x: Math.round(p.x), y: Math.round(p.y) };
+          }
+          set({ diagram: d });
+        },
         connect: (from, to) => {
           const d = clone(get().diagram);
           if (from.block === to.block) return null;
@@ -257,14 +285,24 @@ export const useDiagramStore = create<DiagramState>()(
           const map = new Map<string, string>();
           const newIds: string[] = [];
           for (const b of clip.blocks) {
-            const id = nextId(blockSpec(b.kind).idPrefix, d.blocks.map((x) => x.id));
+            const id = nextId(
+              blockSpec(b.kind).idPrefix,
+              d.blocks.map((x) => x.id),
+            );
             map.set(b.id, id);
             newIds.push(id);
             d.blocks.push({ ...clone(b), id, position: { x: b.position.x + 40, y: b.position.y + 40 } });
           }
           for (const w of clip.wires) {
-            const id = nextId('w', d.wires.map((x) => x.id));
-            d.wires.push({ id, from: { block: map.get(w.from.block)!, port: w.from.port }, to: { block: map.get(w.to.block)!, port: w.to.port } });
+            const id = nextId(
+              'w',
+              d.wires.map((x) => x.id),
+            );
+            d.wires.push({
+              id,
+              from: { block: map.get(w.from.block)!, port: w.from.port },
+              to: { block: map.get(w.to.block)!, port: w.to.port },
+            });
           }
           // Paste again lands a further step away.
           set({
@@ -277,7 +315,12 @@ export const useDiagramStore = create<DiagramState>()(
         setDescription: (text) => edit((d) => void (d.description = text)),
         addParameter: (p) => {
           const d = clone(get().diagram);
-          const name = p?.name ?? nextId('p', d.parameters.map((x) => x.name));
+          const name =
+            p?.name ??
+            nextId(
+              'p',
+              d.parameters.map((x) => x.name),
+            );
           d.parameters.push({ value: 1, min: 0, max: 10, ...p, name });
           set({ diagram: d });
           return name;
@@ -381,7 +424,8 @@ export function coalesced(key: string, fn: () => void, opts: { now?: number; hel
     }
     const past = t.getState().pastStates;
     const after = useDiagramStore.getState().diagram;
-    if (past.length && sameDocument(past[past.length - 1].diagram as Diagram, after)) t.setState({ pastStates: past.slice(0, -1), futureStates: [] });
+    if (past.length && sameDocument(past[past.length - 1].diagram as Diagram, after))
+      t.setState({ pastStates: past.slice(0, -1), futureStates: [] });
     else if (after !== before) t.setState({ futureStates: [] });
   } else {
     fn();
@@ -403,5 +447,7 @@ useDiagramStore.subscribe((s, prev) => {
   const wires = new Set(s.diagram.wires.map((w) => w.id));
   const sel = s.selection;
   if (sel.blocks.every((id) => blocks.has(id)) && sel.wires.every((id) => wires.has(id))) return;
-  useDiagramStore.setState({ selection: { blocks: sel.blocks.filter((id) => blocks.has(id)), wires: sel.wires.filter((id) => wires.has(id)) } });
+  useDiagramStore.setState({
+    selection: { blocks: sel.blocks.filter((id) => blocks.has(id)), wires: sel.wires.filter((id) => wires.has(id)) },
+  });
 });

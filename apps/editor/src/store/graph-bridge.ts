@@ -7,8 +7,33 @@ import * as graph from '@loopwright/graph';
 import { blockSpec, emptyDiagram as graphEmptyDiagram, parseDiagram, serializeDiagram } from '@loopwright/graph';
 import type { BlockKind, Diagram } from '@loopwright/graph';
 
-export type { Diagram, Block, Wire, BlockKind, NamedParameter, Cut, Sweep, ViewSettings, SimulationSettings, ParamValue, BlockSpec, ParamSpec, CardContent, IconStroke } from '@loopwright/graph';
-export { blockSpec, catalogue, cardOf, unitOf, visibleParams, isSampledKind, samplingFieldVisible, sampleTimeSet, SAMPLING_FIELDS } from '@loopwright/graph';
+export type {
+  Diagram,
+  Block,
+  Wire,
+  BlockKind,
+  NamedParameter,
+  Cut,
+  Sweep,
+  ViewSettings,
+  SimulationSettings,
+  ParamValue,
+  BlockSpec,
+  ParamSpec,
+  CardContent,
+  IconStroke,
+} from '@loopwright/graph';
+export {
+  blockSpec,
+  catalogue,
+  cardOf,
+  unitOf,
+  visibleParams,
+  isSampledKind,
+  samplingFieldVisible,
+  sampleTimeSet,
+  SAMPLING_FIELDS,
+} from '@loopwright/graph';
 
 // Exports that other engineers are still landing are looked up by name, so the editor builds
 // (and degrades to "no findings" / "no demos") until they arrive.

@@ -60,7 +60,8 @@ export async function exportReport(): Promise<void> {
   try {
     const r = await requestReport();
     download(`${slug(d.title)}-report.html`, r.html, 'text/html');
-    if (r.problems.length) useUiStore.getState().notify({ kind: 'info', title: 'The report leaves out what could not be computed:', problems: r.problems });
+    if (r.problems.length)
+      useUiStore.getState().notify({ kind: 'info', title: 'The report leaves out what could not be computed:', problems: r.problems });
   } catch (e) {
     useUiStore.getState().notify({ kind: 'error', title: `No report: ${e instanceof Error ? e.message : String(e)}` });
   }
@@ -74,7 +75,13 @@ export function AnalysisArea() {
   const pal = useMemo(() => palette(dark), [dark]);
   // Only what the drawn-generation bookkeeping needs: the views subscribe to their own data.
   const results = useResultsStore(
-    useShallow((s) => ({ generation: s.generation, generationAt: s.generationAt, wanted: s.wanted, held: s.held, renderedGeneration: s.renderedGeneration })),
+    useShallow((s) => ({
+      generation: s.generation,
+      generationAt: s.generationAt,
+      wanted: s.wanted,
+      held: s.held,
+      renderedGeneration: s.renderedGeneration,
+    })),
   );
   const tab = view === 'locus' ? 'response' : view;
 
@@ -135,7 +142,14 @@ export function AnalysisArea() {
         <div className="lw-views-pane">
           <div className="lw-tabs" role="tablist" aria-label="Analysis views">
             {TABS.map((t) => (
-              <button key={t.id} type="button" role="tab" aria-selected={tab === t.id} className={tab === t.id ? 'lw-tab lw-tab-on' : 'lw-tab'} onClick={() => setView(t.id)}>
+              <button
+                key={t.id}
+                type="button"
+                role="tab"
+                aria-selected={tab === t.id}
+                className={tab === t.id ? 'lw-tab lw-tab-on' : 'lw-tab'}
+                onClick={() => setView(t.id)}
+              >
                 {t.label}
                 {t.id === 'compare' && pinned ? ' •' : ''}
               </button>
@@ -144,7 +158,13 @@ export function AnalysisArea() {
             <button type="button" className="lw-mini" onClick={() => void pinCurrent()} title="Pin the current results to compare against">
               Pin
             </button>
-            <button type="button" className="lw-mini" data-export="report:html" onClick={() => void exportReport()} title="Design report (HTML, self-contained)">
+            <button
+              type="button"
+              className="lw-mini"
+              data-export="report:html"
+              onClick={() => void exportReport()}
+              title="Design report (HTML, self-contained)"
+            >
               Report
             </button>
           </div>

@@ -26,10 +26,22 @@ export function ChartFrame(props: ChartProps & { title: string; background: stri
         <span className="lw-chart-title">{title}</span>
         {extra}
         <span className="lw-spacer" />
-        <button type="button" className="lw-mini" title={`Export ${title} as PNG`} data-export={`${chart.name}:png`} onClick={() => exportChart(chart.name, 'png', background)}>
+        <button
+          type="button"
+          className="lw-mini"
+          title={`Export ${title} as PNG`}
+          data-export={`${chart.name}:png`}
+          onClick={() => exportChart(chart.name, 'png', background)}
+        >
           PNG
         </button>
-        <button type="button" className="lw-mini" title={`Export ${title} as SVG`} data-export={`${chart.name}:svg`} onClick={() => exportChart(chart.name, 'svg', background)}>
+        <button
+          type="button"
+          className="lw-mini"
+          title={`Export ${title} as SVG`}
+          data-export={`${chart.name}:svg`}
+          onClick={() => exportChart(chart.name, 'svg', background)}
+        >
           SVG
         </button>
       </div>

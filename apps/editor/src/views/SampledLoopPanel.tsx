@@ -8,8 +8,10 @@ import { formatEngineering } from '@loopwright/lti';
 import type { SampledCutData } from '@loopwright/study';
 import type { Palette } from './palette.ts';
 
-const fmt = (v: number | null | undefined, digits = 4) => (v === null || v === undefined || !Number.isFinite(v) ? '—' : String(Number(v.toPrecision(digits))));
-const gm = (m: { gainMargin: number | null; gainMarginDb: number | null } | null) => (m ? (m.gainMargin === null ? '∞' : `${fmt(m.gainMargin)} (${fmt(m.gainMarginDb, 3)} dB)`) : '—');
+const fmt = (v: number | null | undefined, digits = 4) =>
+  v === null || v === undefined || !Number.isFinite(v) ? '—' : String(Number(v.toPrecision(digits)));
+const gm = (m: { gainMargin: number | null; gainMarginDb: number | null } | null) =>
+  m ? (m.gainMargin === null ? '∞' : `${fmt(m.gainMargin)} (${fmt(m.gainMarginDb, 3)} dB)`) : '—';
 
 export function SampledLoopPanel({ data, pal }: { data: SampledCutData; pal: Palette }) {
   const m = data.margins;
@@ -25,10 +27,14 @@ export function SampledLoopPanel({ data, pal }: { data: SampledCutData; pal: Pal
       <div className="lw-view-tools">
         <strong>Sampled loop</strong>
         <span className="lw-muted">
-          {data.sampler ? `read at ${data.sampler}, T = ${formatEngineering(data.sampleTime)} s, computation delay ${fmt(data.computeDelay)} sample${data.computeDelay === 1 ? '' : 's'}` : 'no sampler on this loop alone: estimate only'}
+          {data.sampler
+            ? `read at ${data.sampler}, T = ${formatEngineering(data.sampleTime)} s, computation delay ${fmt(data.computeDelay)} sample${data.computeDelay === 1 ? '' : 's'}`
+            : 'no sampler on this loop alone: estimate only'}
         </span>
         {data.closedLoopStable !== null && (
-          <span className={data.closedLoopStable ? 'lw-ok' : 'lw-bad'}>{data.closedLoopStable ? 'z-plane poles inside the unit circle' : 'sampled closed loop UNSTABLE'}</span>
+          <span className={data.closedLoopStable ? 'lw-ok' : 'lw-bad'}>
+            {data.closedLoopStable ? 'z-plane poles inside the unit circle' : 'sampled closed loop UNSTABLE'}
+          </span>
         )}
         <span className="lw-tag">{data.exact ? 'exact' : 'partly approximated'}</span>
       </div>
@@ -185,7 +191,8 @@ export function SampledLoopsTable({ rows }: { rows: SampledCutData[] }) {
         ))}
       </tbody>
       <caption className="small lw-muted" style={{ captionSide: 'bottom', textAlign: 'left' }}>
-        Sampled loops read at their sampler from the exact pulse transfer function; * other rates taken as continuous with their hold delay (hover a row for the notes).
+        Sampled loops read at their sampler from the exact pulse transfer function; * other rates taken as continuous with their hold delay
+        (hover a row for the notes).
       </caption>
     </table>
   );

@@ -7,7 +7,17 @@ import { useEffect, useLayoutEffect, useMemo, useRef } from 'react';
 import { roundSignificant } from '@loopwright/lti';
 import { coalesced, useDiagramStore } from '../store/diagram-store.ts';
 import { useAnalysisStore } from '../analysis/analysis-store.ts';
-import { documentValue, editedRange, fmt, positionToValue, resolveSweep, valueToPosition, widenedRange, type SweepChoice, type SweepRange } from '../analysis/sweep.ts';
+import {
+  documentValue,
+  editedRange,
+  fmt,
+  positionToValue,
+  resolveSweep,
+  valueToPosition,
+  widenedRange,
+  type SweepChoice,
+  type SweepRange,
+} from '../analysis/sweep.ts';
 
 const STEPS = 1000;
 
@@ -17,7 +27,10 @@ export function useSweepChoice(): { choices: SweepChoice[]; choice: SweepChoice 
   const key = useAnalysisStore((s) => s.sweepKey);
   const liveValue = useAnalysisStore((s) => s.liveValue);
   const ranges = useAnalysisStore((s) => s.ranges);
-  const { choices, choice, range, value } = useMemo(() => resolveSweep(diagram, { key, liveValue, ranges }), [diagram, key, liveValue, ranges]);
+  const { choices, choice, range, value } = useMemo(
+    () => resolveSweep(diagram, { key, liveValue, ranges }),
+    [diagram, key, liveValue, ranges],
+  );
   return { choices, choice, range, value };
 }
 
@@ -150,7 +163,11 @@ export function SweepBar() {
       <button type="button" disabled={live === null} onClick={() => ui().setLiveValue(null)} title="Back to the diagram's value">
         Reset
       </button>
-      {live !== null && <span className="lw-live" title="Not yet applied to the diagram">live</span>}
+      {live !== null && (
+        <span className="lw-live" title="Not yet applied to the diagram">
+          live
+        </span>
+      )}
     </div>
   );
 }

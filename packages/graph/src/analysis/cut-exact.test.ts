@@ -27,7 +27,12 @@ const nested = () =>
     ],
     ['r->e1.in1', 'e1->C1', 'C1->e2.in1', 'e2->C2', 'C2->G2', 'G2->D', 'inner:D->e2.in2', 'G2->G1', 'outer:G1->e1.in2', 'G1->y'],
     [],
-    { cuts: [{ id: 'cutOuter', wire: 'outer' }, { id: 'cutInner', wire: 'inner' }] },
+    {
+      cuts: [
+        { id: 'cutOuter', wire: 'outer' },
+        { id: 'cutInner', wire: 'inner' },
+      ],
+    },
   );
 
 function byHand(w: number): Complex {
@@ -64,7 +69,7 @@ describe('exact dead time at a cut', () => {
     expect(f.loop.phaseDeg[0]).toBeCloseTo(-90, 0);
     grid.forEach((w, i) => {
       const want = (Math.atan2(byHand(w).im, byHand(w).re) * 180) / Math.PI;
-      const d = (((f.loop.phaseDeg[i] - want) % 360) + 540) % 360 - 180;
+      const d = ((((f.loop.phaseDeg[i] - want) % 360) + 540) % 360) - 180;
       expect(Math.abs(d)).toBeLessThan(1e-9);
     });
   });
@@ -133,7 +138,13 @@ describe('exact dead time at a cut', () => {
 
   it('a loop without dead time is evaluated as a rational function', () => {
     const d = diagramOf(
-      [['r', 'source'], ['e', 'summing-junction', { signs: '+-' }], ['K', 'gain', { k: 4 }], ['G', 'transfer-function', { expression: '1/(s+1)^3' }], ['y', 'probe']],
+      [
+        ['r', 'source'],
+        ['e', 'summing-junction', { signs: '+-' }],
+        ['K', 'gain', { k: 4 }],
+        ['G', 'transfer-function', { expression: '1/(s+1)^3' }],
+        ['y', 'probe'],
+      ],
       ['r->e.in1', 'e->K', 'K->G', 'fb:G->e.in2', 'G->y'],
     );
     const { margins, loop } = cutMargins(d, 'fb');

@@ -31,7 +31,8 @@ import type { CompiledGraph } from './linear-graph.ts';
 export function loopAtCutDetailed(d: Linearisable, wireId: string, overrides?: ParameterOverrides, opts: ReduceOptions = {}): Reduction {
   const c = compiledOf(d, overrides);
   const raw = transmissionOfGraph(prepareCut(c, wireId), opts);
-  if (poly.isZero(raw.num)) throw new InputError(`wire ${wireId}: no feedback loop passes through this wire (the loop transfer there is zero)`, { field: 'wire' });
+  if (poly.isZero(raw.num))
+    throw new InputError(`wire ${wireId}: no feedback loop passes through this wire (the loop transfer there is zero)`, { field: 'wire' });
   return reductionOf({ ...raw, num: poly.scale(raw.num, -1) }, opts);
 }
 
@@ -62,7 +63,11 @@ export interface CutLoop {
 }
 
 /** The frequency method of a cut with no dead time on its loop (L(jω) read from the rational L(s)). */
-export const RATIONAL_FREQUENCY: Readonly<CutFrequencyMethod> = Object.freeze({ method: 'rational', solved: false, note: 'no dead time on the loop' });
+export const RATIONAL_FREQUENCY: Readonly<CutFrequencyMethod> = Object.freeze({
+  method: 'rational',
+  solved: false,
+  note: 'no dead time on the loop',
+});
 
 export function cutLoop(d: Linearisable, wireId: string, overrides?: ParameterOverrides, opts: ReduceOptions = {}): CutLoop {
   const c: CompiledGraph = compiledOf(d, overrides);
@@ -96,7 +101,10 @@ export function cutMargins(
   opts: ReduceOptions & MarginOptions = {},
 ): { margins: LoopMargins; loop: CutLoop } {
   const loop = cutLoop(d, wireId, overrides, opts);
-  const mopts: MarginOptions = { ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}), ...(opts.maxListedCrossovers ? { maxListedCrossovers: opts.maxListedCrossovers } : {}) };
+  const mopts: MarginOptions = {
+    ...(opts.deadline !== undefined ? { deadline: opts.deadline } : {}),
+    ...(opts.maxListedCrossovers ? { maxListedCrossovers: opts.maxListedCrossovers } : {}),
+  };
   const margins = loop.source ? loopMarginsOf(loop.source, mopts) : loopMargins(loop.reduction.tf, mopts);
   return { margins, loop };
 }
@@ -116,7 +124,10 @@ export interface CutFrequencyData {
  * L(jω) of a cut's loop on a grid: from L(s) when every dead time is exact there, else from the
  * diagram solved at each s = jω, the phase unwrapped along the approximant's continuous phase.
  */
-export function cutLoopResponse(cl: { reduction: { tf: TransferFunction }; source: LoopSource | null }, grid: readonly number[]): FrequencyResponse {
+export function cutLoopResponse(
+  cl: { reduction: { tf: TransferFunction }; source: LoopSource | null },
+  grid: readonly number[],
+): FrequencyResponse {
   const loop = frequencyResponse(cl.reduction.tf, grid);
   if (!cl.source) return loop;
   const re: number[] = [];
@@ -131,7 +142,13 @@ export function cutLoopResponse(cl: { reduction: { tf: TransferFunction }; sourc
 }
 
 /** Frequency data of the loop at a cut, on the given grid or on the loop's default grid. */
-export function cutFrequencyData(d: Linearisable, wireId: string, overrides?: ParameterOverrides, omegas?: readonly number[], opts: ReduceOptions = {}): CutFrequencyData {
+export function cutFrequencyData(
+  d: Linearisable,
+  wireId: string,
+  overrides?: ParameterOverrides,
+  omegas?: readonly number[],
+  opts: ReduceOptions = {},
+): CutFrequencyData {
   const cl = cutLoop(d, wireId, overrides, opts);
   const grid = omegas ?? defaultFrequencyGrid(cl.reduction.tf);
   const loop = cutLoopResponse(cl, grid);
@@ -141,8 +158,12 @@ export function cutFrequencyData(d: Linearisable, wireId: string, overrides?: Pa
   for (let i = 0; i < grid.length; i++) {
     const s = cdiv(cx(1), cx(1 + loop.re[i], loop.im[i]));
     const t = cdiv(cx(loop.re[i], loop.im[i]), cx(1 + loop.re[i], loop.im[i]));
-    S.re.push(s.re); S.im.push(s.im); S.magDb.push(db(s.re, s.im));
-    T.re.push(t.re); T.im.push(t.im); T.magDb.push(db(t.re, t.im));
+    S.re.push(s.re);
+    S.im.push(s.im);
+    S.magDb.push(db(s.re, s.im));
+    T.re.push(t.re);
+    T.im.push(t.im);
+    T.magDb.push(db(t.re, t.im));
   }
   return { omega: loop.omega, loop, sensitivity: S, complementary: T, frequency: cl.frequency };
 }

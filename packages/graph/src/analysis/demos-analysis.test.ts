@@ -36,7 +36,9 @@ describe.each(demoDiagrams.map((x) => [x.id]))('demo %s: method A against method
         for (const s of points) {
           const va = revalComplex(a.tf.rational, s);
           const vb = evaluateStateSpace(sys, s);
-          expect(cabs(csub(va, vb)), `${from} → ${to} at ${s.re}+${s.im}j`).toBeLessThanOrEqual(1e-7 * Math.max(cabs(va), cabs(vb), 1e-12) + 1e-12);
+          expect(cabs(csub(va, vb)), `${from} → ${to} at ${s.re}+${s.im}j`).toBeLessThanOrEqual(
+            1e-7 * Math.max(cabs(va), cabs(vb), 1e-12) + 1e-12,
+          );
         }
       }
     }

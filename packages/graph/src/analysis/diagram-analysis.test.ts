@@ -32,7 +32,14 @@ describe('sweeps over a whole diagram', () => {
 
   it('a time constant (enters a denominator) gives a sampled locus with continuous branches', () => {
     const d = diagramOf(
-      [['r', 'source'], ['e', 'summing-junction', { signs: '+-' }], ['C', 'gain', { k: 4 }], ['P', 'first-order-lag', { k: 1, tau: 'T' }], ['I', 'integrator', { k: 1 }], ['y', 'probe']],
+      [
+        ['r', 'source'],
+        ['e', 'summing-junction', { signs: '+-' }],
+        ['C', 'gain', { k: 4 }],
+        ['P', 'first-order-lag', { k: 1, tau: 'T' }],
+        ['I', 'integrator', { k: 1 }],
+        ['y', 'probe'],
+      ],
       ['r->e.in1', 'e->C', 'C->P', 'P->I', 'fb:I->e.in2', 'I->y'],
       [{ name: 'T', value: 0.5, min: 0.05, max: 2, scale: 'log' }],
     );

@@ -58,10 +58,19 @@ describe('hidden modes by structure', () => {
   });
 
   it('a stable cancellation is information only; no cancellation, no finding', () => {
-    const stable = checkAnalytic(diagramOf(
-      [['r', 'source'], ['e', 'summing-junction', { signs: '+-' }], ['C', 'transfer-function', { expression: '(s+2)/(s+5)' }], ['P', 'transfer-function', { expression: '1/(s+2)' }], ['y', 'probe'], ['u', 'probe']],
-      ['r->e.in1', 'e->C', 'C->P', 'C->u', 'fb:P->e.in2', 'P->y'],
-    ));
+    const stable = checkAnalytic(
+      diagramOf(
+        [
+          ['r', 'source'],
+          ['e', 'summing-junction', { signs: '+-' }],
+          ['C', 'transfer-function', { expression: '(s+2)/(s+5)' }],
+          ['P', 'transfer-function', { expression: '1/(s+2)' }],
+          ['y', 'probe'],
+          ['u', 'probe'],
+        ],
+        ['r->e.in1', 'e->C', 'C->P', 'C->u', 'fb:P->e.in2', 'P->y'],
+      ),
+    );
     expect(stable.filter((x) => x.severity === 'error')).toEqual([]);
     expect(stable.some((x) => x.code === 'pole-zero-cancellation')).toBe(true);
     // A controller zero near but not at the pole moves it: the unstable plant is stabilised.

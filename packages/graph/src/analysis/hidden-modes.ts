@@ -35,7 +35,8 @@ export function hiddenModes(c: CompiledGraph, opts: ReduceOptions = {}): HiddenM
   const mates: Set<number>[] = Array.from({ length: n }, () => new Set<number>());
   for (const cy of cycles) for (const v of cy.nodes) for (const u of cy.nodes) mates[v].add(u);
   const chi = polyRootsDetailed(characteristicPolynomial(c, undefined, opts).poly);
-  const near = (a: Complex, b: Complex, slack: number) => Math.hypot(a.re - b.re, a.im - b.im) <= Math.max(TOL * Math.max(1, cabs(a)), slack);
+  const near = (a: Complex, b: Complex, slack: number) =>
+    Math.hypot(a.re - b.re, a.im - b.im) <= Math.max(TOL * Math.max(1, cabs(a)), slack);
   const out: HiddenMode[] = [];
   const zerosOf = new Map<number, Complex[] | 'all'>();
   const zeros = (v: number) => {
@@ -73,7 +74,8 @@ export function hiddenModes(c: CompiledGraph, opts: ReduceOptions = {}): HiddenM
   return out;
 }
 
-const fmtC = (z: Complex) => (Math.abs(z.im) < 1e-12 ? `${+z.re.toPrecision(6)}` : `${+z.re.toPrecision(6)}${z.im < 0 ? '-' : '+'}${+Math.abs(z.im).toPrecision(6)}j`);
+const fmtC = (z: Complex) =>
+  Math.abs(z.im) < 1e-12 ? `${+z.re.toPrecision(6)}` : `${+z.re.toPrecision(6)}${z.im < 0 ? '-' : '+'}${+Math.abs(z.im).toPrecision(6)}j`;
 
 /** Hidden modes as check findings: an unstable one is an error naming its block and the cancelling blocks. */
 export function hiddenModeFindings(c: CompiledGraph, opts: ReduceOptions = {}): Finding[] {

@@ -101,7 +101,8 @@ export function compileGraph(g: LinearGraph): CompiledGraph {
     } else {
       const t = index.get(w.to);
       if (t === undefined) throw new InputError(`wire ${w.id}: destination block ${w.to}: no such block`, { field: 'wires' });
-      if (kinds[t] === 'source') throw new InputError(`wire ${w.id}: destination block ${w.to} is a source, which has no input`, { field: 'wires' });
+      if (kinds[t] === 'source')
+        throw new InputError(`wire ${w.id}: destination block ${w.to} is a source, which has no input`, { field: 'wires' });
       to = t;
       const signs = signsOf.get(w.to);
       if (signs) {

@@ -186,14 +186,20 @@ export function plainLoopReader(opts: ReduceOptions = {}): LoopReader {
  * outer loops against ideal inner ones, and the closed-loop poles. `opts.deadline` bounds the
  * wall time (BudgetError('time')). `reader` reads each loop (default: from scratch).
  */
-export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: ReduceOptions = {}, reader: LoopReader = plainLoopReader(opts)): LoopsReport {
+export function analyseLoops(
+  d: Diagram,
+  overrides?: ParameterOverrides,
+  opts: ReduceOptions = {},
+  reader: LoopReader = plainLoopReader(opts),
+): LoopsReport {
   const c = compiledOf(d, overrides);
   const notes: string[] = [];
   const onLoop = loopBlocksByWire(c);
   let cutList = d.cuts.map((cut) => ({ cut: cut.id, wire: cut.wire, label: cut.label ?? cut.wire, auto: false }));
   if (cutList.length === 0) {
     cutList = feedbackWires(c).map((w) => ({ cut: `auto:${w}`, wire: w, label: w, auto: true }));
-    if (cutList.length) notes.push(`the diagram has no cuts: proposed one on each feedback wire (${cutList.map((x) => x.wire).join(', ')})`);
+    if (cutList.length)
+      notes.push(`the diagram has no cuts: proposed one on each feedback wire (${cutList.map((x) => x.wire).join(', ')})`);
     else notes.push('the diagram has no cuts and no feedback wire to propose one on');
   }
   const cuts: CutAnalysis[] = [];
@@ -226,7 +232,13 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
     const aloneMargins = alone ? alone.margins : margins;
     return {
       ...k,
-      alone: { loop: alone ? alone.loop.reduction.tf : r.tf, margins: aloneMargins, crossover: aloneMargins.gainCrossover, bandwidth: aloneMargins.bandwidth, opened },
+      alone: {
+        loop: alone ? alone.loop.reduction.tf : r.tf,
+        margins: aloneMargins,
+        crossover: aloneMargins.gainCrossover,
+        bandwidth: aloneMargins.bandwidth,
+        opened,
+      },
       loop: r.tf,
       delayHandling: r.delayHandling,
       frequency: loop.frequency,
@@ -271,7 +283,13 @@ export function analyseLoops(d: Diagram, overrides?: ParameterOverrides, opts: R
       checkDeadline(opts.deadline, 'loops report');
       const ideal = withIdealInnerLoop(withoutWires(c, outer.alone.opened), inner.wire);
       const idealCut = reader.read(ideal, outer.wire, `ideal:${inner.wire}|${outer.alone.opened.join(',')}`);
-      outerVsIdeal.push({ outer: outer.cut, inner: inner.cut, real: outer.alone.margins, ideal: idealCut.margins, idealLoop: idealCut.loop.reduction.tf });
+      outerVsIdeal.push({
+        outer: outer.cut,
+        inner: inner.cut,
+        real: outer.alone.margins,
+        ideal: idealCut.margins,
+        idealLoop: idealCut.loop.reduction.tf,
+      });
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
       notes.push(`outer loop ${outer.cut} against an ideal inner loop ${inner.cut}: ${err.message}`);

@@ -131,7 +131,8 @@ export function forwardPaths(g: FlowGraph, from: number, to: number, deadline?: 
     ticker.tick();
     if (v === to) {
       out.push({ nodes: path.slice(), weight });
-      if (out.length > MAX_PATHS) throw new InputError(`more than ${MAX_PATHS} signal paths between the two points: too interconnected for exact reduction`);
+      if (out.length > MAX_PATHS)
+        throw new InputError(`more than ${MAX_PATHS} signal paths between the two points: too interconnected for exact reduction`);
       return;
     }
     for (const { to: x, w } of g.adj[v]) {
@@ -217,7 +218,13 @@ class SignedSum {
  * Transmission from node `from` to node `to` as num/den polynomials (not normalised, not
  * cancelled): den = Π D_v · Δ over the given graph, num = Σ_k P_k · Π D_v · Δ_k.
  */
-export function transmission(g: FlowGraph, from: number, to: number, cycles = simpleCycles(g), deadline?: number): { num: number[]; den: number[] } {
+export function transmission(
+  g: FlowGraph,
+  from: number,
+  to: number,
+  cycles = simpleCycles(g),
+  deadline?: number,
+): { num: number[]; den: number[] } {
   const den = determinantPoly(g, cycles, undefined, deadline);
   const acc = new SignedSum();
   for (const p of forwardPaths(g, from, to, deadline)) {

@@ -13,7 +13,18 @@ const rootError = (got: Complex[], want: Complex[]) => rootSetMismatch(got, want
 /** Two-loop cascade of R27/R28: r → e1 → C1 → e2 → C2 → G2 → G1 → y, H2 from G2 to e2, H1 from G1 to e1. */
 function cascade(c1: number, c2: number, g2: [number[], number[]], h2: number, g1: [number[], number[]], h1: number): LinearGraph {
   return graph(
-    [sourceBlock('r'), sumBlock('e1', '+-'), tfBlock('C1', [c1]), sumBlock('e2', '+-'), tfBlock('C2', [c2]), tfBlock('G2', ...g2), tfBlock('H2', [h2]), tfBlock('G1', ...g1), tfBlock('H1', [h1]), probeBlock('y')],
+    [
+      sourceBlock('r'),
+      sumBlock('e1', '+-'),
+      tfBlock('C1', [c1]),
+      sumBlock('e2', '+-'),
+      tfBlock('C2', [c2]),
+      tfBlock('G2', ...g2),
+      tfBlock('H2', [h2]),
+      tfBlock('G1', ...g1),
+      tfBlock('H1', [h1]),
+      probeBlock('y'),
+    ],
     wires('r->e1.in1', 'e1->C1', 'C1->e2.in1', 'e2->C2', 'C2->G2', 'G2->G1', 'G2->H2', 'H2->e2.in2', 'G1->H1', 'outer:H1->e1.in2', 'G1->y'),
   );
 }
@@ -57,16 +68,49 @@ describe('closed-loop reduction of two-loop cascades', () => {
 /** The signal-flow graph of R29/R30 as a block diagram: x1 = R + H1·x2 + H2·x3, x4 = G3·x3 + H3·x5. */
 function masonGraph(G: [number[], number[]][], H: number[]): LinearGraph {
   return graph(
-    [sourceBlock('R'), sumBlock('x1', '+++'), tfBlock('G1', ...G[0]), tfBlock('G2', ...G[1]), tfBlock('G3', ...G[2]), sumBlock('x4', '++'), tfBlock('G4', ...G[3]),
-      tfBlock('H1', [H[0]]), tfBlock('H2', [H[1]]), tfBlock('H3', [H[2]]), probeBlock('C')],
-    wires('R->x1.in1', 'x1->G1', 'G1->G2', 'G2->G3', 'G3->x4.in1', 'x4->G4', 'G1->H1', 'H1->x1.in2', 'G2->H2', 'H2->x1.in3', 'G4->H3', 'H3->x4.in2', 'G4->C'),
+    [
+      sourceBlock('R'),
+      sumBlock('x1', '+++'),
+      tfBlock('G1', ...G[0]),
+      tfBlock('G2', ...G[1]),
+      tfBlock('G3', ...G[2]),
+      sumBlock('x4', '++'),
+      tfBlock('G4', ...G[3]),
+      tfBlock('H1', [H[0]]),
+      tfBlock('H2', [H[1]]),
+      tfBlock('H3', [H[2]]),
+      probeBlock('C'),
+    ],
+    wires(
+      'R->x1.in1',
+      'x1->G1',
+      'G1->G2',
+      'G2->G3',
+      'G3->x4.in1',
+      'x4->G4',
+      'G1->H1',
+      'H1->x1.in2',
+      'G2->H2',
+      'H2->x1.in3',
+      'G4->H3',
+      'H3->x4.in2',
+      'G4->C',
+    ),
   );
 }
 
 describe("Mason's gain formula with touching and non-touching loops", () => {
   it('R29: constant gains, Δ = 5.2 and T = 24/5.2', () => {
     // Mason (1956) (from memory); Nise, Sec. 5.5 (from memory); instance derived in the reference table [R29]
-    const g = masonGraph([[[2], [1]], [[3], [1]], [[1], [1]], [[4], [1]]], [-0.5, -0.1, -0.25]);
+    const g = masonGraph(
+      [
+        [[2], [1]],
+        [[3], [1]],
+        [[1], [1]],
+        [[4], [1]],
+      ],
+      [-0.5, -0.1, -0.25],
+    );
     const t = closedLoop(g, { block: 'R' }, { block: 'C' });
     // All node gains are constants (D = 1), so the raw denominator is Mason's Δ itself.
     expect(t.rawDenominator.length).toBe(1);
@@ -77,7 +121,15 @@ describe("Mason's gain formula with touching and non-touching loops", () => {
 
   it('R30: dynamic gains, T = 6/(s³ + 9s² + 16s + 14)', () => {
     // derived in the reference table from the formula of R29 [R30]
-    const g = masonGraph([[[1], [1, 1]], [[2], [1, 0]], [[1], [1]], [[3], [1, 4]]], [-1, -1, -1]);
+    const g = masonGraph(
+      [
+        [[1], [1, 1]],
+        [[2], [1, 0]],
+        [[1], [1]],
+        [[3], [1, 4]],
+      ],
+      [-1, -1, -1],
+    );
     const t = closedLoop(g, { block: 'R' }, { block: 'C' });
     const den = poly.toDescending(t.tf.rational.den);
     expect(den.length).toBe(4);
@@ -95,7 +147,20 @@ describe("Mason's gain formula with touching and non-touching loops", () => {
 describe('method A (elimination) against method B (state-space assembly)', () => {
   const cases: [string, LinearGraph, string, string][] = [
     ['R27 cascade', cascade(2, 5, [[1], [1, 1]], 1, [[1], [1, 0]], 1), 'r', 'y'],
-    ['R30 graph', masonGraph([[[1], [1, 1]], [[2], [1, 0]], [[1], [1]], [[3], [1, 4]]], [-1, -1, -1]), 'R', 'C'],
+    [
+      'R30 graph',
+      masonGraph(
+        [
+          [[1], [1, 1]],
+          [[2], [1, 0]],
+          [[1], [1]],
+          [[3], [1, 4]],
+        ],
+        [-1, -1, -1],
+      ),
+      'R',
+      'C',
+    ],
     ['nested chain of 4', nestedChain(4), 'r', 'y'],
   ];
   for (const [name, g, from, to] of cases) {
@@ -164,7 +229,14 @@ describe('cuts', () => {
 describe('dead time', () => {
   it('kept exact where it factors out of the path; Padé where it sits in a loop', () => {
     const g = graph(
-      [sourceBlock('r'), tfBlock('pre', [1], [1], 0.5), sumBlock('e', '+-'), tfBlock('P', [2], [1, 1], 1), probeBlock('y'), probeBlock('u')],
+      [
+        sourceBlock('r'),
+        tfBlock('pre', [1], [1], 0.5),
+        sumBlock('e', '+-'),
+        tfBlock('P', [2], [1, 1], 1),
+        probeBlock('y'),
+        probeBlock('u'),
+      ],
       wires('r->pre', 'pre->e.in1', 'e->P', 'fb:P->e.in2', 'P->y', 'pre->u'),
     );
     const pre = closedLoop(g, { block: 'r' }, { block: 'u' });
@@ -218,7 +290,14 @@ describe('property: methods A and B agree on random cascades', () => {
     fc.assert(
       fc.property(
         fc.integer({ min: 1, max: 4 }),
-        fc.array(fc.tuple(fc.double({ min: 0.1, max: 20, noNaN: true }), fc.double({ min: 0.01, max: 5, noNaN: true }), fc.constantFrom('+-', '++')), { minLength: 4, maxLength: 4 }),
+        fc.array(
+          fc.tuple(
+            fc.double({ min: 0.1, max: 20, noNaN: true }),
+            fc.double({ min: 0.01, max: 5, noNaN: true }),
+            fc.constantFrom('+-', '++'),
+          ),
+          { minLength: 4, maxLength: 4 },
+        ),
         (n, stages) => {
           const blocks = [sourceBlock('r'), probeBlock('y')];
           const ws: string[] = ['r->e1.in1'];

@@ -37,7 +37,10 @@ function assemble(g: SignalGraph, order: number): AssembledSystem {
   });
   const offset: number[] = [];
   let nx = 0;
-  for (const b of blocks) { offset.push(nx); nx += b.A.length; }
+  for (const b of blocks) {
+    offset.push(nx);
+    nx += b.A.length;
+  }
   const W = Matrix.zeros(n, n);
   for (const br of g.branches) if (br.to >= 0) W.set(br.to, br.from, W.get(br.to, br.from) + br.weight);
   const E = new Array<number>(n).fill(0);
@@ -74,7 +77,9 @@ function assemble(g: SignalGraph, order: number): AssembledSystem {
   const Bcl = Bm.mmul(W.mmul(yu).add(Matrix.columnVector(E)));
   const out = g.output;
   const stateOwners: string[] = [];
-  blocks.forEach((b, v) => { for (let i = 0; i < b.A.length; i++) stateOwners.push(g.ids[v]); });
+  blocks.forEach((b, v) => {
+    for (let i = 0; i < b.A.length; i++) stateOwners.push(g.ids[v]);
+  });
   return {
     A: Acl.to2DArray(),
     B: Bcl.getColumn(0),
@@ -85,7 +90,13 @@ function assemble(g: SignalGraph, order: number): AssembledSystem {
 }
 
 /** State-space model from an injection at `from` to a measurement at `to` (method B). */
-export function assembleStateSpace(d: Linearisable, from: SignalRef, to: SignalRef, overrides?: ParameterOverrides, opts: ReduceOptions = {}): AssembledSystem {
+export function assembleStateSpace(
+  d: Linearisable,
+  from: SignalRef,
+  to: SignalRef,
+  overrides?: ParameterOverrides,
+  opts: ReduceOptions = {},
+): AssembledSystem {
   return assemble(prepareTransmission(compiledOf(d, overrides), from, to), opts.padeOrder ?? DEFAULT_PADE_ORDER);
 }
 

@@ -1,4 +1,17 @@
-import { type Complex, InputError, type RootLocus, cabs, cancelCommon, checkDeadline, csub, matchRoots, poly, polyRoots, rational, rootLocus } from '@loopwright/lti';
+import {
+  type Complex,
+  InputError,
+  type RootLocus,
+  cabs,
+  cancelCommon,
+  checkDeadline,
+  csub,
+  matchRoots,
+  poly,
+  polyRoots,
+  rational,
+  rootLocus,
+} from '@loopwright/lti';
 import type { Diagram, Sweep } from '../document-types.ts';
 import type { ParameterOverrides } from '../resolve.ts';
 import { type DelayHandling, type ReduceOptions, characteristicPolynomial } from './reduce.ts';
@@ -23,7 +36,15 @@ export type SweepLocus =
       fixedPoles: Complex[];
       delayHandling: DelayHandling;
     }
-  | { mode: 'sampled'; parameter: string; value: number; values: number[]; branches: { s: Complex; k: number }[][]; reason: string; delayHandling: DelayHandling };
+  | {
+      mode: 'sampled';
+      parameter: string;
+      value: number;
+      values: number[];
+      branches: { s: Complex; k: number }[][];
+      reason: string;
+      delayHandling: DelayHandling;
+    };
 
 export interface SweepOptions extends ReduceOptions {
   /** Locus for k < 0 (exact mode). */
@@ -56,12 +77,16 @@ export function sweepRange(d: Diagram, name: string, value: number): { min: numb
   return value >= 0 ? { min: v / 10, max: v * 10, scale: 'log' } : { min: -v * 10, max: -v / 10, scale: 'linear' };
 }
 
-
 /**
  * The characteristic polynomial as D0 + k·N0 when it is affine in the parameter (checked at
  * three values of one sign, so that sign-restricted fields stay valid), else null.
  */
-export function affineSplit(d: Diagram, name: string, overrides: ParameterOverrides = {}, opts: ReduceOptions = {}): { n0: number[]; d0: number[]; handling: DelayHandling } | null {
+export function affineSplit(
+  d: Diagram,
+  name: string,
+  overrides: ParameterOverrides = {},
+  opts: ReduceOptions = {},
+): { n0: number[]; d0: number[]; handling: DelayHandling } | null {
   const v = overrides[name] ?? namedParameter(d, name).value;
   const base = v !== 0 ? v : 1;
   let ks = [base, base * 1.7, base * 0.45];
@@ -140,7 +165,8 @@ function sampledLocus(
   opts: SweepOptions,
   reason: string,
 ): SweepLocus {
-  if (!(range.max > range.min)) throw new InputError(`sweep of ${parameter}: max ${range.max} must be above min ${range.min}`, { field: 'max' });
+  if (!(range.max > range.min))
+    throw new InputError(`sweep of ${parameter}: max ${range.max} must be above min ${range.min}`, { field: 'max' });
   let handling: DelayHandling | null = null;
   const rootsAt = (k: number) => {
     checkDeadline(opts.deadline, `sweep of ${parameter}`);
@@ -178,9 +204,14 @@ function sampledLocus(
     const next = samples[i].roots;
     const perm = matchRoots(prev, next);
     const nextOpen = new Array<number>(next.length).fill(-1);
-    perm.forEach((j, r) => { if (j >= 0) nextOpen[j] = open[r]; });
+    perm.forEach((j, r) => {
+      if (j >= 0) nextOpen[j] = open[r];
+    });
     for (let j = 0; j < next.length; j++) {
-      if (nextOpen[j] < 0) { nextOpen[j] = branches.length; branches.push([]); }
+      if (nextOpen[j] < 0) {
+        nextOpen[j] = branches.length;
+        branches.push([]);
+      }
       branches[nextOpen[j]].push({ s: next[j], k: samples[i].k });
     }
     open = nextOpen;

@@ -1,4 +1,12 @@
-import { DIAGRAM_FORMAT, DIAGRAM_VERSION, type Block, type BlockKind, type Diagram, type NamedParameter, type ParamValue } from '../document-types.ts';
+import {
+  DIAGRAM_FORMAT,
+  DIAGRAM_VERSION,
+  type Block,
+  type BlockKind,
+  type Diagram,
+  type NamedParameter,
+  type ParamValue,
+} from '../document-types.ts';
 
 /**
  * Compact diagram builder for tests and benches: blocks as [id, kind, params], wires as
@@ -51,8 +59,19 @@ export function threeLoopAxis(kpos = 40, kv = 0.2): Diagram {
       ['pos', 'probe'],
     ],
     [
-      'ref->ePos.in1', 'ePos->Cpos', 'Cpos->eVel.in1', 'eVel->Cvel', 'Cvel->eCur.in1', 'eCur->Ccur', 'Ccur->winding',
-      'fbCur:winding->eCur.in2', 'winding->mech', 'fbVel:mech->eVel.in2', 'mech->axis', 'fbPos:axis->ePos.in2', 'axis->pos',
+      'ref->ePos.in1',
+      'ePos->Cpos',
+      'Cpos->eVel.in1',
+      'eVel->Cvel',
+      'Cvel->eCur.in1',
+      'eCur->Ccur',
+      'Ccur->winding',
+      'fbCur:winding->eCur.in2',
+      'winding->mech',
+      'fbVel:mech->eVel.in2',
+      'mech->axis',
+      'fbPos:axis->ePos.in2',
+      'axis->pos',
     ],
     [
       { name: 'Kpos', value: kpos, min: 1, max: 400, scale: 'log' },

@@ -10,7 +10,11 @@ export const tfBlock = (id: string, numDesc: number[], denDesc: number[] = [1], 
   kind: 'transfer',
   tf: transfer(rational(poly.fromDescending(numDesc), poly.fromDescending(denDesc)), delay),
 });
-export const sumBlock = (id: string, signs: string): LinearBlock => ({ id, kind: 'sum', signs: [...signs].map((c) => (c === '+' ? 1 : -1)) });
+export const sumBlock = (id: string, signs: string): LinearBlock => ({
+  id,
+  kind: 'sum',
+  signs: [...signs].map((c) => (c === '+' ? 1 : -1)),
+});
 export const sourceBlock = (id: string): LinearBlock => ({ id, kind: 'source' });
 export const probeBlock = (id: string): LinearBlock => ({ id, kind: 'probe' });
 

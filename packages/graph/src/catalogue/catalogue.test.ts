@@ -9,7 +9,23 @@ import { blockKinds, blockSpec, catalogue } from './index.ts';
 const CONTRACT: Record<BlockKind, string[]> = {
   'transfer-function': ['expression', 'sampleTime', 'computeDelay', 'method', 'prewarp'],
   gain: ['k', 'sampleTime', 'computeDelay'],
-  pid: ['form', 'kp', 'ti', 'td', 'ki', 'kd', 'n', 'umin', 'umax', 'antiWindup', 'tt', 'sampleTime', 'computeDelay', 'integral', 'derivative'],
+  pid: [
+    'form',
+    'kp',
+    'ti',
+    'td',
+    'ki',
+    'kd',
+    'n',
+    'umin',
+    'umax',
+    'antiWindup',
+    'tt',
+    'sampleTime',
+    'computeDelay',
+    'integral',
+    'derivative',
+  ],
   'lead-lag': ['k', 'tLead', 'tLag', 'sampleTime', 'computeDelay', 'method', 'prewarp'],
   integrator: ['k'],
   'first-order-lag': ['k', 'tau'],
@@ -104,7 +120,10 @@ describe('linear forms agree with their formulas (evaluated directly at a comple
     close(tfAt(block('pid', { form: 'parallel', kp, ki, kd, n })), expected);
   });
   it('transfer-function block parses its expression over the named parameters', () => {
-    const d = diagramWith([{ name: 'K', value: 4 }, { name: 'T', value: 0.5 }]);
+    const d = diagramWith([
+      { name: 'K', value: 4 },
+      { name: 'T', value: 0.5 },
+    ]);
     const b = block('transfer-function', { expression: 'K/(s*(T*s + 1))' });
     close(tfAt(b, d), div(c(4), mul(S0, add(mul(c(0.5), S0), c(1)))));
     // overrides win over the stored value
@@ -172,10 +191,14 @@ describe('resolveParams', () => {
     expect(err.details.position).toBe(4);
   });
   it('linear-form errors name the block and field', () => {
-    expect(() => linearForm(d, block('saturation', { lower: 2, upper: 1 }, 'sat'))).toThrow(/^block sat field lower: lower \(2\) must be below upper \(1\)/);
+    expect(() => linearForm(d, block('saturation', { lower: 2, upper: 1 }, 'sat'))).toThrow(
+      /^block sat field lower: lower \(2\) must be below upper \(1\)/,
+    );
     expect(() => linearForm(d, block('pid', { umin: 5, umax: -5 }, 'c'))).toThrow(/^block c field umin:/);
     expect(() => linearForm(d, block('pid', { form: 'parallel', kp: 0, kd: 1 }, 'c'))).toThrow(/^block c field kp:/);
-    expect(() => linearForm(d, block('transfer-function', { expression: '1/(s+' }, 'tf'))).toThrow(/^block tf field expression: "1\/\(s\+":/);
+    expect(() => linearForm(d, block('transfer-function', { expression: '1/(s+' }, 'tf'))).toThrow(
+      /^block tf field expression: "1\/\(s\+":/,
+    );
   });
   it('a parameter called like an Object.prototype member is an ordinary name', () => {
     const d2 = diagramWith([{ name: 'toString', value: 3 }]);
@@ -188,15 +211,43 @@ describe('defaults and the parser-free shortcut', () => {
   it('a block of each kind with every default written out loads and passes the structural checks of its fields', async () => {
     const { validateDiagram } = await import('../document.ts');
     const { checkStructure } = await import('../checks/structure.ts');
-    const d = { ...emptyDiagram(), blocks: catalogue.map((s, i) => block(s.kind, Object.fromEntries(s.params.map((p) => [p.name, p.default])), `b${i}`)) };
+    const d = {
+      ...emptyDiagram(),
+      blocks: catalogue.map((s, i) => block(s.kind, Object.fromEntries(s.params.map((p) => [p.name, p.default])), `b${i}`)),
+    };
     const loaded = validateDiagram(JSON.parse(JSON.stringify(d)));
-    const bad = checkStructure(loaded).filter((f) => f.code === 'invalid-parameter' || f.code === 'improper-block' || f.code === 'invalid-expression');
+    const bad = checkStructure(loaded).filter(
+      (f) => f.code === 'invalid-parameter' || f.code === 'improper-block' || f.code === 'invalid-expression',
+    );
     expect(bad).toEqual([]);
   });
   it('bare names and plain numbers resolve exactly as lti parseScalar evaluates them (fast-check)', async () => {
     const fc = (await import('fast-check')).default;
     const { parseScalar } = await import('@loopwright/lti');
-    const name = fc.stringMatching(/^[A-Za-z_][A-Za-z0-9_]{0,6}$/).filter((n) => !['s', 'exp', 'e', 'pi', 'mod', 'to', 'in', 'and', 'or', 'not', 'xor', 'true', 'false', 'null', 'undefined', 'NaN', 'Infinity'].includes(n));
+    const name = fc
+      .stringMatching(/^[A-Za-z_][A-Za-z0-9_]{0,6}$/)
+      .filter(
+        (n) =>
+          ![
+            's',
+            'exp',
+            'e',
+            'pi',
+            'mod',
+            'to',
+            'in',
+            'and',
+            'or',
+            'not',
+            'xor',
+            'true',
+            'false',
+            'null',
+            'undefined',
+            'NaN',
+            'Infinity',
+          ].includes(n),
+      );
     const numberText = fc.oneof(
       fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e12, max: 1e12 }).map(String),
       fc.integer().map(String),

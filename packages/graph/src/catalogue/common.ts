@@ -2,8 +2,7 @@ import { InputError, rational, transfer, type TransferFunction } from '@loopwrig
 import type { ResolvedParams } from './types.ts';
 
 /** A transfer function from ascending coefficients, with an optional dead time. */
-export const tfOf = (num: number[], den: number[], delay = 0): TransferFunction =>
-  transfer(rational(num, den), delay);
+export const tfOf = (num: number[], den: number[], delay = 0): TransferFunction => transfer(rational(num, den), delay);
 
 /** The numeric value of a resolved field (resolveParams guarantees the type). */
 export function numberOf(p: ResolvedParams, name: string): number {

@@ -89,7 +89,12 @@ export function cardOf(kind: BlockKind, params: StoredParams): CardContent {
   const T = params.sampleTime;
   if (!isSampledKind(kind) || !sampleTimeSet(T)) return c;
   const delay = params.computeDelay;
-  const d = typeof delay === 'number' && delay > 0 ? `, delay ${show(delay)} sample${delay === 1 ? '' : 's'}` : typeof delay === 'string' && delay.trim() ? `, delay ${delay}` : '';
+  const d =
+    typeof delay === 'number' && delay > 0
+      ? `, delay ${show(delay)} sample${delay === 1 ? '' : 's'}`
+      : typeof delay === 'string' && delay.trim()
+        ? `, delay ${delay}`
+        : '';
   const sampled = `sampled every ${show(T)} s${d}`;
   return { ...c, caption: c.caption ? `${c.caption}; ${sampled}` : sampled };
 }

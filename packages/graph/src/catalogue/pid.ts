@@ -42,7 +42,9 @@ function pidRational(p: ResolvedParams): Rational {
     let c = radd(rconst(kp), rational([ki], [0, 1]));
     if (kd !== 0) {
       if (kp === 0) {
-        throw new InputError('field kp: the parallel form with kd ≠ 0 needs kp ≠ 0 (derivative filter time constant kd/(kp·n))', { field: 'kp' });
+        throw new InputError('field kp: the parallel form with kd ≠ 0 needs kp ≠ 0 (derivative filter time constant kd/(kp·n))', {
+          field: 'kp',
+        });
       }
       const tf = kd / kp / n;
       if (!(tf > 0)) throw new InputError(`field kd: kd/kp must be positive for the derivative filter, got ${kd / kp}`, { field: 'kd' });
@@ -63,7 +65,10 @@ function pidRational(p: ResolvedParams): Rational {
 function pidCard(p: StoredParams): CardContent {
   const kp = term(p.kp) ?? '0';
   const n = term(p.n) ?? '10';
-  const limits = isBlank(p, 'umin') && isBlank(p, 'umax') ? undefined : `output ${isBlank(p, 'umin') ? '−∞' : show(p.umin)} … ${isBlank(p, 'umax') ? '∞' : show(p.umax)}`;
+  const limits =
+    isBlank(p, 'umin') && isBlank(p, 'umax')
+      ? undefined
+      : `output ${isBlank(p, 'umin') ? '−∞' : show(p.umin)} … ${isBlank(p, 'umax') ? '∞' : show(p.umax)}`;
   if (p.form === 'parallel') {
     const parts = [kp];
     const ki = term(p.ki);
@@ -93,15 +98,44 @@ export const pidSpec = defineBlock({
   params: [
     { name: 'form', label: 'Form', type: 'choice', default: 'ideal', choices: PID_FORMS },
     { name: 'kp', label: 'Proportional gain kp', type: 'number', default: 1 },
-    { name: 'ti', label: 'Integral time ti', unit: 's', type: 'number', default: 1, min: 0, exclusiveMin: true, blank: Infinity, description: 'Ideal form; blank = no integral action' },
+    {
+      name: 'ti',
+      label: 'Integral time ti',
+      unit: 's',
+      type: 'number',
+      default: 1,
+      min: 0,
+      exclusiveMin: true,
+      blank: Infinity,
+      description: 'Ideal form; blank = no integral action',
+    },
     { name: 'td', label: 'Derivative time td', unit: 's', type: 'number', default: 0, min: 0, max: 1e6, description: 'Ideal form' },
     { name: 'ki', label: 'Integral gain ki', unit: '1/s', type: 'number', default: 1, description: 'Parallel form' },
     { name: 'kd', label: 'Derivative gain kd', unit: 's', type: 'number', default: 0, description: 'Parallel form' },
-    { name: 'n', label: 'Derivative filter n', type: 'number', default: 10, min: 0, exclusiveMin: true, max: 1e6, description: 'Filter time constant = td/n (typically 5–20)' },
+    {
+      name: 'n',
+      label: 'Derivative filter n',
+      type: 'number',
+      default: 10,
+      min: 0,
+      exclusiveMin: true,
+      max: 1e6,
+      description: 'Filter time constant = td/n (typically 5–20)',
+    },
     { name: 'umin', label: 'Output lower limit', type: 'number', default: '', blank: -Infinity },
     { name: 'umax', label: 'Output upper limit', type: 'number', default: '', blank: Infinity },
     { name: 'antiWindup', label: 'Anti-windup', type: 'choice', default: 'back-calculation', choices: ANTI_WINDUP_MODES },
-    { name: 'tt', label: 'Tracking time tt', unit: 's', type: 'number', default: '', min: 0, exclusiveMin: true, blank: NaN, description: 'Back-calculation; blank = √(ti·td), or ti without derivative' },
+    {
+      name: 'tt',
+      label: 'Tracking time tt',
+      unit: 's',
+      type: 'number',
+      default: '',
+      min: 0,
+      exclusiveMin: true,
+      blank: NaN,
+      description: 'Back-calculation; blank = √(ti·td), or ti without derivative',
+    },
     ...samplingParams('pid'),
   ],
   actuator: { lower: 'umin', upper: 'umax', onlyWithLimits: true },

@@ -40,8 +40,12 @@ describe('sampling fields of controller blocks', () => {
 
   it('refuses bad sampling fields, naming the block and field', () => {
     expect(() => resolveParams(D0, block('pid', { sampleTime: -1 }))).toThrow(/block c1 field sampleTime: -1 s must be at least 0 s/);
-    expect(() => resolveParams(D0, block('gain', { sampleTime: 0.1, computeDelay: 2000 }))).toThrow(/field computeDelay: 2000 samples must be at most 1000/);
-    expect(() => resolveParams(D0, block('lead-lag', { method: 'euler' }))).toThrow(/field method: "euler" is not one of "zoh", "tustin", "matched"/);
+    expect(() => resolveParams(D0, block('gain', { sampleTime: 0.1, computeDelay: 2000 }))).toThrow(
+      /field computeDelay: 2000 samples must be at most 1000/,
+    );
+    expect(() => resolveParams(D0, block('lead-lag', { method: 'euler' }))).toThrow(
+      /field method: "euler" is not one of "zoh", "tustin", "matched"/,
+    );
     // prewarp at or above π/T: π/0.01 ≈ 314 rad/s
     const p = resolveParams(D0, block('lead-lag', { sampleTime: 0.01, prewarp: 400 }));
     expect(() => samplingOf('lead-lag', p)).toThrow(InputError);

@@ -95,7 +95,8 @@ export function samplingParams(kind: SampledKind): ParamSpec[] {
 export const SAMPLING_FIELDS: readonly string[] = ['sampleTime', 'computeDelay', 'method', 'prewarp', 'integral', 'derivative'];
 
 /** Whether a kind has sampling fields. */
-export const isSampledKind = (kind: string): kind is SampledKind => kind === 'pid' || kind === 'lead-lag' || kind === 'transfer-function' || kind === 'gain';
+export const isSampledKind = (kind: string): kind is SampledKind =>
+  kind === 'pid' || kind === 'lead-lag' || kind === 'transfer-function' || kind === 'gain';
 
 /** Whether a raw (document) sample-time field is set: a positive number, or a non-blank text other than "0". */
 export function sampleTimeSet(t: unknown): boolean {
@@ -142,7 +143,10 @@ export function samplingOf(kind: string, p: ResolvedParams): BlockSampling | nul
     const w = p.prewarp;
     if (out.method === 'tustin' && typeof w === 'number' && Number.isFinite(w)) {
       if (!(w * T < Math.PI)) {
-        throw new InputError(`field prewarp: ${w} rad/s is at or above the Nyquist frequency π/T = ${Math.PI / T} rad/s of the sample time ${T} s`, { field: 'prewarp' });
+        throw new InputError(
+          `field prewarp: ${w} rad/s is at or above the Nyquist frequency π/T = ${Math.PI / T} rad/s of the sample time ${T} s`,
+          { field: 'prewarp' },
+        );
       }
       out.prewarp = w;
     }

@@ -41,10 +41,7 @@ export type StoredParams = Readonly<Record<string, ParamValue | undefined>>;
  * a source (an injection point) or a probe (a measurement point).
  */
 export type LinearForm =
-  | { type: 'transfer'; tf: TransferFunction }
-  | { type: 'sum'; signs: number[] }
-  | { type: 'source' }
-  | { type: 'probe' };
+  { type: 'transfer'; tf: TransferFunction } | { type: 'sum'; signs: number[] } | { type: 'source' } | { type: 'probe' };
 
 /**
  * What a block's card shows, as plain data (the editor draws it). `formula` is a text in the

@@ -4,7 +4,13 @@ import { diagramOf } from '../analysis/test-diagrams.ts';
 
 const loop = (controller: Record<string, string | number>, plant: string, kind: 'transfer-function' | 'gain' = 'transfer-function') =>
   diagramOf(
-    [['r', 'source'], ['e', 'summing-junction', { signs: '+-' }], ['C', kind, controller], ['P', 'transfer-function', { expression: plant }], ['y', 'probe']],
+    [
+      ['r', 'source'],
+      ['e', 'summing-junction', { signs: '+-' }],
+      ['C', kind, controller],
+      ['P', 'transfer-function', { expression: plant }],
+      ['y', 'probe'],
+    ],
     ['r->e.in1', 'e->C', 'C->P', 'fb:P->e.in2', 'P->y'],
   );
 
@@ -14,7 +20,12 @@ describe('analytical checks', () => {
     // Glover, Robust and Optimal Control, 1996, Sec. 5.2 (from memory)).
     const mk = (signs: string, k: number) =>
       diagramOf(
-        [['r', 'source'], ['e', 'summing-junction', { signs }], ['K', 'gain', { k }], ['y', 'probe']],
+        [
+          ['r', 'source'],
+          ['e', 'summing-junction', { signs }],
+          ['K', 'gain', { k }],
+          ['y', 'probe'],
+        ],
         ['r->e.in1', 'e->K', 'K->e.in2', 'K->y'],
       );
     const ok = checkAnalytic(mk('+-', 2));
@@ -30,7 +41,13 @@ describe('analytical checks', () => {
 
   it('a dead time breaks an algebraic loop', () => {
     const d = diagramOf(
-      [['r', 'source'], ['e', 'summing-junction', { signs: '++' }], ['K', 'gain', { k: 1 }], ['T', 'dead-time', { delay: 0.1 }], ['y', 'probe']],
+      [
+        ['r', 'source'],
+        ['e', 'summing-junction', { signs: '++' }],
+        ['K', 'gain', { k: 1 }],
+        ['T', 'dead-time', { delay: 0.1 }],
+        ['y', 'probe'],
+      ],
       ['r->e.in1', 'e->K', 'K->T', 'T->e.in2', 'K->y'],
     );
     expect(checkAnalytic(d).some((f) => f.code.includes('algebraic'))).toBe(false);

@@ -9,7 +9,8 @@ import { hiddenModeFindings } from '../analysis/hidden-modes.ts';
 /** Analytical findings have the shape of every check's findings. */
 export type AnalyticFinding = Finding;
 
-const fmtC = (z: Complex) => (Math.abs(z.im) < 1e-12 ? `${+z.re.toPrecision(6)}` : `${+z.re.toPrecision(6)}${z.im < 0 ? '-' : '+'}${+Math.abs(z.im).toPrecision(6)}j`);
+const fmtC = (z: Complex) =>
+  Math.abs(z.im) < 1e-12 ? `${+z.re.toPrecision(6)}` : `${+z.re.toPrecision(6)}${z.im < 0 ? '-' : '+'}${+Math.abs(z.im).toPrecision(6)}j`;
 
 /**
  * Algebraic loops: loops on which every block passes its input straight through at s → ∞
@@ -22,12 +23,17 @@ export function algebraicLoopFindings(c: CompiledGraph, deadline?: number): Anal
   const keep = ft.map((x) => x !== 0);
   const map: number[] = [];
   const nodes: number[] = [];
-  keep.forEach((k, i) => { map[i] = k ? nodes.length : -1; if (k) nodes.push(i); });
+  keep.forEach((k, i) => {
+    map[i] = k ? nodes.length : -1;
+    if (k) nodes.push(i);
+  });
   const fg = flowGraph(
     nodes.length,
     nodes.map((v) => (Number.isFinite(ft[v]) ? [ft[v]] : [1])),
     nodes.map(() => [1]),
-    c.branches.filter((b) => b.to >= 0 && map[b.from] >= 0 && map[b.to] >= 0).map((b) => ({ from: map[b.from], to: map[b.to], weight: b.weight })),
+    c.branches
+      .filter((b) => b.to >= 0 && map[b.from] >= 0 && map[b.to] >= 0)
+      .map((b) => ({ from: map[b.from], to: map[b.to], weight: b.weight })),
   );
   const cycles = simpleCycles(fg, undefined, deadline);
   if (cycles.length === 0) return [];
@@ -78,7 +84,10 @@ export function cancellationFindings(c: CompiledGraph): AnalyticFinding[] {
   const inDeg = new Array<number>(n).fill(0);
   for (const b of c.branches) {
     outWires[b.from].push(b.wire);
-    if (b.to >= 0) { succ[b.from].push(b.to); inDeg[b.to]++; }
+    if (b.to >= 0) {
+      succ[b.from].push(b.to);
+      inDeg[b.to]++;
+    }
   }
   const zeros = new Map<number, Complex[]>();
   const poles = new Map<number, Complex[]>();
@@ -97,7 +106,8 @@ export function cancellationFindings(c: CompiledGraph): AnalyticFinding[] {
       wires: chainWires,
     });
   };
-  const match = (ps: Complex[], zs: Complex[]) => ps.filter((p) => zs.some((z) => cabs({ re: p.re - z.re, im: p.im - z.im }) <= CANCEL_TOL * Math.max(1, cabs(p))));
+  const match = (ps: Complex[], zs: Complex[]) =>
+    ps.filter((p) => zs.some((z) => cabs({ re: p.re - z.re, im: p.im - z.im }) <= CANCEL_TOL * Math.max(1, cabs(p))));
   for (let a = 0; a < n; a++) {
     if (!transfer(a)) continue;
     // Walk the series chain downstream of a.
@@ -126,10 +136,18 @@ export function stabilityFindings(c: CompiledGraph, deadline?: number): Analytic
   const axis = poles.filter((p) => Math.abs(p.re) <= tol);
   const out: AnalyticFinding[] = [];
   if (rhp.length) {
-    out.push({ severity: 'warning', code: 'closed-loop-unstable', message: `closed loop unstable: ${rhp.length} pole(s) in the right half-plane (${rhp.map(fmtC).join(', ')})` });
+    out.push({
+      severity: 'warning',
+      code: 'closed-loop-unstable',
+      message: `closed loop unstable: ${rhp.length} pole(s) in the right half-plane (${rhp.map(fmtC).join(', ')})`,
+    });
   }
   if (axis.length) {
-    out.push({ severity: 'info', code: 'closed-loop-marginal', message: `closed-loop pole(s) on the imaginary axis (${axis.map(fmtC).join(', ')}): marginally stable at best` });
+    out.push({
+      severity: 'info',
+      code: 'closed-loop-marginal',
+      message: `closed-loop pole(s) on the imaginary axis (${axis.map(fmtC).join(', ')}): marginally stable at best`,
+    });
   }
   return out;
 }
@@ -144,7 +162,15 @@ export function checkAnalytic(d: Linearisable, overrides?: ParameterOverrides, o
   try {
     c = compiledOf(d, overrides);
   } catch (err) {
-    if (err instanceof InputError) return [{ severity: 'error', code: 'linear-model', message: `no linear model: ${err.message}`, ...(err.details.field ? { field: err.details.field } : {}) }];
+    if (err instanceof InputError)
+      return [
+        {
+          severity: 'error',
+          code: 'linear-model',
+          message: `no linear model: ${err.message}`,
+          ...(err.details.field ? { field: err.details.field } : {}),
+        },
+      ];
     throw err;
   }
   const out = [...algebraicLoopFindings(c, opts.deadline), ...cancellationFindings(c)];
@@ -152,7 +178,8 @@ export function checkAnalytic(d: Linearisable, overrides?: ParameterOverrides, o
     try {
       // Hidden modes from the whole diagram (probes, fan-outs and junctions cannot hide them);
       // a cancellation the series check already reported is not repeated.
-      const same = (a: AnalyticFinding, b: AnalyticFinding) => a.code === b.code && [...(a.blocks ?? [])].sort().join() === [...(b.blocks ?? [])].sort().join();
+      const same = (a: AnalyticFinding, b: AnalyticFinding) =>
+        a.code === b.code && [...(a.blocks ?? [])].sort().join() === [...(b.blocks ?? [])].sort().join();
       for (const f of hiddenModeFindings(c, opts)) if (!out.some((g) => same(f, g))) out.push(f);
       out.push(...stabilityFindings(c, opts.deadline));
     } catch (err) {

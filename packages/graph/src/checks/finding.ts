@@ -23,4 +23,7 @@ export function findingSubject(f: Finding): string {
 const ORDER = { error: 0, warning: 1, info: 2 } as const;
 /** Errors first, then warnings, then information; stable within a severity. */
 export const sortFindings = (fs: Finding[]): Finding[] =>
-  fs.map((f, i) => [f, i] as const).sort((a, b) => ORDER[a[0].severity] - ORDER[b[0].severity] || a[1] - b[1]).map(([f]) => f);
+  fs
+    .map((f, i) => [f, i] as const)
+    .sort((a, b) => ORDER[a[0].severity] - ORDER[b[0].severity] || a[1] - b[1])
+    .map(([f]) => f);

@@ -82,7 +82,12 @@ describe('checkStructure', () => {
     d.sweeps.push({ ...d.sweeps[0] });
     d.parameters.push({ name: 'Kp', value: 1 });
     const fs = checkStructure(d);
-    expect(fs.filter((f) => f.code === 'duplicate-id').map((f) => f.blocks?.[0] ?? f.wires?.[0] ?? f.field)).toEqual(['c', 'w1', 'cuts.k1', 'sweeps.s1']);
+    expect(fs.filter((f) => f.code === 'duplicate-id').map((f) => f.blocks?.[0] ?? f.wires?.[0] ?? f.field)).toEqual([
+      'c',
+      'w1',
+      'cuts.k1',
+      'sweeps.s1',
+    ]);
     only(fs, 'duplicate-parameter');
   });
   it('dangling references from wires, cuts, sweeps and the view', () => {

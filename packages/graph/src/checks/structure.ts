@@ -21,8 +21,10 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
   const dupes = (ids: string[]) => [...new Set(ids.filter((id, i) => ids.indexOf(id) !== i))];
   for (const id of dupes(d.blocks.map((b) => b.id))) err('duplicate-id', `the id "${id}" is used by more than one block`, { blocks: [id] });
   for (const id of dupes(d.wires.map((w) => w.id))) err('duplicate-id', `the id "${id}" is used by more than one wire`, { wires: [id] });
-  for (const id of dupes(d.cuts.map((c) => c.id))) err('duplicate-id', `cut ${id}: the id is used by more than one cut`, { field: `cuts.${id}` });
-  for (const id of dupes(d.sweeps.map((s) => s.id))) err('duplicate-id', `sweep ${id}: the id is used by more than one sweep`, { field: `sweeps.${id}` });
+  for (const id of dupes(d.cuts.map((c) => c.id)))
+    err('duplicate-id', `cut ${id}: the id is used by more than one cut`, { field: `cuts.${id}` });
+  for (const id of dupes(d.sweeps.map((s) => s.id)))
+    err('duplicate-id', `sweep ${id}: the id is used by more than one sweep`, { field: `sweeps.${id}` });
   for (const name of dupes(d.parameters.map((p) => p.name))) {
     err('duplicate-parameter', `parameter ${name}: defined more than once`, { field: `parameters.${name}` });
   }
@@ -44,9 +46,15 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
   const drivenOutputs = new Set<string>();
   for (const w of d.wires) {
     let ok = true;
-    for (const [end, ref] of [['from', w.from], ['to', w.to]] as const) {
+    for (const [end, ref] of [
+      ['from', w.from],
+      ['to', w.to],
+    ] as const) {
       if (!blocks.has(ref.block)) {
-        err('dangling-wire', `its ${end === 'from' ? 'start' : 'end'} refers to block "${ref.block}", which does not exist`, { wires: [w.id], field: `wires.${w.id}.${end}.block` });
+        err('dangling-wire', `its ${end === 'from' ? 'start' : 'end'} refers to block "${ref.block}", which does not exist`, {
+          wires: [w.id],
+          field: `wires.${w.id}.${end}.block`,
+        });
         ok = false;
       }
     }
@@ -56,9 +64,17 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
     if (src) {
       if (src.outputs.includes(w.from.port)) drivenOutputs.add(`${w.from.block}\0${w.from.port}`);
       else if (src.inputs.includes(w.from.port)) {
-        err('wire-from-input', `starts at "${w.from.port}" of block ${w.from.block}, which is an input (wires run from an output to an input)`, { wires: [w.id], blocks: [w.from.block], field: `wires.${w.id}.from.port` });
+        err(
+          'wire-from-input',
+          `starts at "${w.from.port}" of block ${w.from.block}, which is an input (wires run from an output to an input)`,
+          { wires: [w.id], blocks: [w.from.block], field: `wires.${w.id}.from.port` },
+        );
       } else {
-        err('unknown-port', `starts at port "${w.from.port}", which block ${w.from.block} does not have (outputs: ${src.outputs.join(', ') || 'none'})`, { wires: [w.id], blocks: [w.from.block], field: `wires.${w.id}.from.port` });
+        err(
+          'unknown-port',
+          `starts at port "${w.from.port}", which block ${w.from.block} does not have (outputs: ${src.outputs.join(', ') || 'none'})`,
+          { wires: [w.id], blocks: [w.from.block], field: `wires.${w.id}.from.port` },
+        );
       }
     }
     if (dst) {
@@ -66,16 +82,28 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
         const key = `${w.to.block}\0${w.to.port}`;
         drivers.set(key, [...(drivers.get(key) ?? []), w.id]);
       } else if (dst.outputs.includes(w.to.port)) {
-        err('wire-into-output', `ends at "${w.to.port}" of block ${w.to.block}, which is an output (wires run from an output to an input)`, { wires: [w.id], blocks: [w.to.block], field: `wires.${w.id}.to.port` });
+        err(
+          'wire-into-output',
+          `ends at "${w.to.port}" of block ${w.to.block}, which is an output (wires run from an output to an input)`,
+          { wires: [w.id], blocks: [w.to.block], field: `wires.${w.id}.to.port` },
+        );
       } else {
-        err('unknown-port', `ends at port "${w.to.port}", which block ${w.to.block} does not have (inputs: ${dst.inputs.join(', ') || 'none'})`, { wires: [w.id], blocks: [w.to.block], field: `wires.${w.id}.to.port` });
+        err(
+          'unknown-port',
+          `ends at port "${w.to.port}", which block ${w.to.block} does not have (inputs: ${dst.inputs.join(', ') || 'none'})`,
+          { wires: [w.id], blocks: [w.to.block], field: `wires.${w.id}.to.port` },
+        );
       }
     }
   }
   for (const [key, ws] of drivers) {
     if (ws.length > 1) {
       const [block, port] = key.split('\0');
-      err('multiple-drivers', `input "${port}" is driven by ${ws.length} wires (${ws.join(', ')}); add a summing junction to combine signals`, { blocks: [block], wires: ws, field: `blocks.${block}.inputs.${port}` });
+      err(
+        'multiple-drivers',
+        `input "${port}" is driven by ${ws.length} wires (${ws.join(', ')}); add a summing junction to combine signals`,
+        { blocks: [block], wires: ws, field: `blocks.${block}.inputs.${port}` },
+      );
     }
   }
   for (const [id, p] of ports) {
@@ -96,38 +124,66 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
   const wireIds = new Set(d.wires.map((w) => w.id));
   const cutWires = new Map<string, string>();
   for (const c of d.cuts) {
-    if (!wireIds.has(c.wire)) err('dangling-cut', `cut ${c.id}: refers to wire "${c.wire}", which does not exist`, { field: `cuts.${c.id}.wire` });
-    else if (cutWires.has(c.wire)) warn('duplicate-cut', `cut ${c.id}: wire ${c.wire} is already cut by ${cutWires.get(c.wire)}`, { wires: [c.wire], field: `cuts.${c.id}.wire` });
+    if (!wireIds.has(c.wire))
+      err('dangling-cut', `cut ${c.id}: refers to wire "${c.wire}", which does not exist`, { field: `cuts.${c.id}.wire` });
+    else if (cutWires.has(c.wire))
+      warn('duplicate-cut', `cut ${c.id}: wire ${c.wire} is already cut by ${cutWires.get(c.wire)}`, {
+        wires: [c.wire],
+        field: `cuts.${c.id}.wire`,
+      });
     else cutWires.set(c.wire, c.id);
   }
   const paramNames = new Set(d.parameters.map((p) => p.name));
   for (const s of d.sweeps) {
-    if (!paramNames.has(s.parameter)) err('dangling-sweep', `sweep ${s.id}: varies "${s.parameter}", which is not a named parameter`, { field: `sweeps.${s.id}.parameter` });
+    if (!paramNames.has(s.parameter))
+      err('dangling-sweep', `sweep ${s.id}: varies "${s.parameter}", which is not a named parameter`, {
+        field: `sweeps.${s.id}.parameter`,
+      });
     if (!(s.min < s.max)) err('sweep-range', `sweep ${s.id}: min (${s.min}) must be below max (${s.max})`, { field: `sweeps.${s.id}.min` });
-    if (s.scale === 'log' && !(s.min > 0)) err('sweep-range', `sweep ${s.id}: a log scale needs min > 0, got ${s.min}`, { field: `sweeps.${s.id}.min` });
+    if (s.scale === 'log' && !(s.min > 0))
+      err('sweep-range', `sweep ${s.id}: a log scale needs min > 0, got ${s.min}`, { field: `sweeps.${s.id}.min` });
   }
   const v = d.view ?? {};
-  if (v.activeCut !== undefined && !d.cuts.some((c) => c.id === v.activeCut)) warn('dangling-view', `view: the shown cut "${v.activeCut}" does not exist`, { field: 'view.activeCut' });
-  if (v.activeSweep !== undefined && !d.sweeps.some((s) => s.id === v.activeSweep)) warn('dangling-view', `view: the shown sweep "${v.activeSweep}" does not exist`, { field: 'view.activeSweep' });
-  if (v.activeProbe !== undefined && blocks.get(v.activeProbe)?.kind !== 'probe') warn('dangling-view', `view: the shown probe "${v.activeProbe}" is not a probe block of this diagram`, { field: 'view.activeProbe' });
+  if (v.activeCut !== undefined && !d.cuts.some((c) => c.id === v.activeCut))
+    warn('dangling-view', `view: the shown cut "${v.activeCut}" does not exist`, { field: 'view.activeCut' });
+  if (v.activeSweep !== undefined && !d.sweeps.some((s) => s.id === v.activeSweep))
+    warn('dangling-view', `view: the shown sweep "${v.activeSweep}" does not exist`, { field: 'view.activeSweep' });
+  if (v.activeProbe !== undefined && blocks.get(v.activeProbe)?.kind !== 'probe')
+    warn('dangling-view', `view: the shown probe "${v.activeProbe}" is not a probe block of this diagram`, { field: 'view.activeProbe' });
   for (const id of d.simulation?.probes ?? []) {
-    if (blocks.get(id)?.kind !== 'probe') warn('dangling-simulation-probe', `simulation: the shown probe "${id}" is not a probe block of this diagram`, { field: 'simulation.probes' });
+    if (blocks.get(id)?.kind !== 'probe')
+      warn('dangling-simulation-probe', `simulation: the shown probe "${id}" is not a probe block of this diagram`, {
+        field: 'simulation.probes',
+      });
   }
   const fitted = new Set<string>();
   for (const f of d.fits ?? []) {
-    if (!blocks.has(f.block)) warn('dangling-fit', `fits: the record of a fitted model names block "${f.block}", which does not exist`, { field: `fits.${f.block}` });
-    else if (fitted.has(f.block)) warn('duplicate-fit', `fits: block ${f.block} has more than one fit record (the last one describes its model)`, { blocks: [f.block], field: `fits.${f.block}` });
+    if (!blocks.has(f.block))
+      warn('dangling-fit', `fits: the record of a fitted model names block "${f.block}", which does not exist`, {
+        field: `fits.${f.block}`,
+      });
+    else if (fitted.has(f.block))
+      warn('duplicate-fit', `fits: block ${f.block} has more than one fit record (the last one describes its model)`, {
+        blocks: [f.block],
+        field: `fits.${f.block}`,
+      });
     fitted.add(f.block);
   }
 
   // --- named parameters
   for (const p of d.parameters) {
     const field = `parameters.${p.name}`;
-    if (p.min !== undefined && p.max !== undefined && !(p.min < p.max)) err('parameter-range', `parameter ${p.name}: slider min (${p.min}) must be below max (${p.max})`, { field });
+    if (p.min !== undefined && p.max !== undefined && !(p.min < p.max))
+      err('parameter-range', `parameter ${p.name}: slider min (${p.min}) must be below max (${p.max})`, { field });
     else if ((p.min !== undefined && p.value < p.min) || (p.max !== undefined && p.value > p.max)) {
-      warn('parameter-out-of-range', `parameter ${p.name}: value ${p.value} lies outside its slider range [${p.min ?? '−∞'}, ${p.max ?? '∞'}]`, { field });
+      warn(
+        'parameter-out-of-range',
+        `parameter ${p.name}: value ${p.value} lies outside its slider range [${p.min ?? '−∞'}, ${p.max ?? '∞'}]`,
+        { field },
+      );
     }
-    if (p.scale === 'log' && p.min !== undefined && !(p.min > 0)) err('parameter-range', `parameter ${p.name}: a log slider needs min > 0, got ${p.min}`, { field });
+    if (p.scale === 'log' && p.min !== undefined && !(p.min > 0))
+      err('parameter-range', `parameter ${p.name}: a log slider needs min > 0, got ${p.min}`, { field });
   }
 
   // --- block parameters: expressions over known names, resolvable values, proper forms
@@ -161,7 +217,11 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
       const unknown = names.filter((n) => !known.has(n));
       if (unknown.length) {
         const list = unknown.map((n) => `"${n}"`).join(', ');
-        err('unknown-parameter', `field ${ps.name}: "${raw}" uses ${list}, not ${unknown.length === 1 ? 'a named parameter' : 'named parameters'}`, { blocks: [b.id], field });
+        err(
+          'unknown-parameter',
+          `field ${ps.name}: "${raw}" uses ${list}, not ${unknown.length === 1 ? 'a named parameter' : 'named parameters'}`,
+          { blocks: [b.id], field },
+        );
         fieldProblem = true;
       }
     }
@@ -173,7 +233,11 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
         if (rd < 0) {
           const nd = poly.degree(f.tf.rational.num);
           const dd = poly.degree(f.tf.rational.den);
-          err('improper-block', `the transfer function is improper (numerator degree ${nd} > denominator degree ${dd}): it cannot be simulated or realised; add poles (e.g. a filter)`, { blocks: [b.id], field: `blocks.${b.id}.params.expression` });
+          err(
+            'improper-block',
+            `the transfer function is improper (numerator degree ${nd} > denominator degree ${dd}): it cannot be simulated or realised; add poles (e.g. a filter)`,
+            { blocks: [b.id], field: `blocks.${b.id}.params.expression` },
+          );
         }
       }
     } catch (e) {
@@ -189,12 +253,17 @@ export function checkStructure(d: Diagram, overrides?: ParameterOverrides): Find
     }
   }
   for (const s of d.sweeps) {
-    if (paramNames.has(s.parameter) && !used.has(s.parameter)) warn('unused-sweep-parameter', `sweep ${s.id}: no block uses "${s.parameter}", so the sweep changes nothing`, { field: `sweeps.${s.id}.parameter` });
+    if (paramNames.has(s.parameter) && !used.has(s.parameter))
+      warn('unused-sweep-parameter', `sweep ${s.id}: no block uses "${s.parameter}", so the sweep changes nothing`, {
+        field: `sweeps.${s.id}.parameter`,
+      });
   }
 
   // --- what analysis needs
-  if (d.blocks.length > 0 && !d.blocks.some((b) => b.kind === 'source')) info('no-source', 'the diagram has no source (nothing to inject a signal for responses)');
-  if (d.blocks.length > 0 && !d.blocks.some((b) => b.kind === 'probe')) info('no-probe', 'the diagram has no probe (nothing is recorded in simulation)');
+  if (d.blocks.length > 0 && !d.blocks.some((b) => b.kind === 'source'))
+    info('no-source', 'the diagram has no source (nothing to inject a signal for responses)');
+  if (d.blocks.length > 0 && !d.blocks.some((b) => b.kind === 'probe'))
+    info('no-probe', 'the diagram has no probe (nothing is recorded in simulation)');
   return out;
 }
 

@@ -1,5 +1,16 @@
 import { describe, expect, it } from 'vitest';
-import { type Rational, loopMargins, padeDelay, parseTransferFunction, poly, polyRoots, rational, rconst, rmul, transfer } from '@loopwright/lti';
+import {
+  type Rational,
+  loopMargins,
+  padeDelay,
+  parseTransferFunction,
+  poly,
+  polyRoots,
+  rational,
+  rconst,
+  rmul,
+  transfer,
+} from '@loopwright/lti';
 import { checkStructure } from '../checks/structure.ts';
 import { parseDiagram, serializeDiagram } from '../document.ts';
 import type { Diagram } from '../document-types.ts';
@@ -10,7 +21,12 @@ import heatingText from './heating-cascade.loop.json?raw';
 import supplyText from './supply-loop.loop.json?raw';
 import sampledText from './sampled-axis.loop.json?raw';
 
-const committed: Record<string, string> = { 'positioning-axis': axisText, 'heating-cascade': heatingText, 'supply-loop': supplyText, 'sampled-axis': sampledText };
+const committed: Record<string, string> = {
+  'positioning-axis': axisText,
+  'heating-cascade': heatingText,
+  'supply-loop': supplyText,
+  'sampled-axis': sampledText,
+};
 
 describe('demo diagrams', () => {
   it('are the two contract ids, the loop to commission and the multirate axis', () => {
@@ -69,7 +85,10 @@ const lag = (k: number, tau: number): Rational => rational([k], [1, tau]);
 const closeLoop = (f: Rational, h: Rational): Rational =>
   rational(poly.mul(f.num, h.den), poly.add(poly.mul(f.den, h.den), poly.mul(f.num, h.num)));
 const num = (d: Diagram, id: string, field: string) => {
-  const v = resolveParams(d, d.blocks.find((b) => b.id === id)!)[field];
+  const v = resolveParams(
+    d,
+    d.blocks.find((b) => b.id === id)!,
+  )[field];
   if (typeof v !== 'number') throw new Error(`${id}.${field} is not a number`);
   return v;
 };

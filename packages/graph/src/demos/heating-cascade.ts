@@ -1,7 +1,11 @@
 import type { Block, Diagram, Wire } from '../document-types.ts';
 
 const at = (col: number, row: number): Block['position'] => ({ x: col * 180, y: row * 120 });
-const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id, from: { block: from, port: 'out' }, to: { block: to, port } });
+const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({
+  id,
+  from: { block: from, port: 'out' },
+  to: { block: to, port },
+});
 
 /**
  * A building heating cascade: the boiler's supply (flow) temperature loop inside (PI on the
@@ -23,14 +27,44 @@ export const heatingCascade: Diagram = {
     '10 min, then a 5 K drop in outdoor temperature at 2 h. Results are design aids: validate on the real plant with ' +
     'limits and interlocks in place, and follow local codes and licensed practice.',
   parameters: [
-    { name: 'Kp_room', value: 13.5, unit: 'K/K', min: 1, max: 50, scale: 'log', description: 'Room controller gain: K of supply setpoint per K of room error' },
+    {
+      name: 'Kp_room',
+      value: 13.5,
+      unit: 'K/K',
+      min: 1,
+      max: 50,
+      scale: 'log',
+      description: 'Room controller gain: K of supply setpoint per K of room error',
+    },
     { name: 'Ti_room', value: 2880, unit: 's', min: 300, max: 20000, scale: 'log', description: 'Room controller integral time' },
-    { name: 'Kp_sup', value: 2.5, unit: '%/K', min: 0.3, max: 10, scale: 'log', description: 'Supply controller gain: % valve per K of supply error' },
+    {
+      name: 'Kp_sup',
+      value: 2.5,
+      unit: '%/K',
+      min: 0.3,
+      max: 10,
+      scale: 'log',
+      description: 'Supply controller gain: % valve per K of supply error',
+    },
     { name: 'Ti_sup', value: 90, unit: 's', min: 10, max: 600, scale: 'log', description: 'Supply controller integral time' },
-    { name: 'T_pipe', value: 20, unit: 's', min: 0, max: 120, scale: 'linear', description: 'Transit delay in the pipework from the mixing valve to the supply sensor' },
+    {
+      name: 'T_pipe',
+      value: 20,
+      unit: 's',
+      min: 0,
+      max: 120,
+      scale: 'linear',
+      description: 'Transit delay in the pipework from the mixing valve to the supply sensor',
+    },
   ],
   blocks: [
-    { id: 'room-setpoint', kind: 'source', label: 'room setpoint (K)', position: at(0, 0), params: { shape: 'step', amplitude: 1, start: 600, offset: 0 } },
+    {
+      id: 'room-setpoint',
+      kind: 'source',
+      label: 'room setpoint (K)',
+      position: at(0, 0),
+      params: { shape: 'step', amplitude: 1, start: 600, offset: 0 },
+    },
     { id: 'room-error', kind: 'summing-junction', label: 'room error', position: at(1, 0), params: { signs: '+-' } },
     {
       id: 'room-controller',
@@ -57,11 +91,23 @@ export const heatingCascade: Diagram = {
     { id: 'heat-balance', kind: 'summing-junction', label: 'heat balance', position: at(12, 0), params: { signs: '++' } },
     { id: 'room', kind: 'first-order-lag', label: 'room air', position: at(13, 0), params: { k: 1, tau: 3600 } },
     { id: 'room-temperature', kind: 'probe', label: 'room temperature (K)', position: at(14, 0), params: { unit: 'K' } },
-    { id: 'valve-operating-point', kind: 'source', label: 'valve operating point (%)', position: at(5, -1), params: { shape: 'step', amplitude: 50, start: 0, offset: 0 } },
+    {
+      id: 'valve-operating-point',
+      kind: 'source',
+      label: 'valve operating point (%)',
+      position: at(5, -1),
+      params: { shape: 'step', amplitude: 50, start: 0, offset: 0 },
+    },
     { id: 'valve-position', kind: 'probe', label: 'valve position (%, actuator)', position: at(7, -1), params: { unit: '%' } },
     { id: 'supply-setpoint', kind: 'probe', label: 'supply setpoint (K)', position: at(3, -1), params: { unit: 'K' } },
     { id: 'supply-temperature', kind: 'probe', label: 'supply temperature (K)', position: at(10, 1), params: { unit: 'K' } },
-    { id: 'outdoor', kind: 'source', label: 'outdoor temperature (K)', position: at(10, -2), params: { shape: 'step', amplitude: -5, start: 7200, offset: 0 } },
+    {
+      id: 'outdoor',
+      kind: 'source',
+      label: 'outdoor temperature (K)',
+      position: at(10, -2),
+      params: { shape: 'step', amplitude: -5, start: 7200, offset: 0 },
+    },
     { id: 'outdoor-share', kind: 'gain', label: 'outdoor share of heat balance', position: at(11, -1), params: { k: 0.6 } },
   ],
   wires: [

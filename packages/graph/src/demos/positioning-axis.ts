@@ -2,7 +2,11 @@ import type { Block, Diagram, Wire } from '../document-types.ts';
 
 // Layout grid used by the editor: columns 180 px apart, rows 120 px apart.
 const at = (col: number, row: number): Block['position'] => ({ x: col * 180, y: row * 120 });
-const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({ id, from: { block: from, port: 'out' }, to: { block: to, port } });
+const wire = (id: string, from: string, to: string, port = 'in'): Wire => ({
+  id,
+  from: { block: from, port: 'out' },
+  to: { block: to, port },
+});
 
 /**
  * A belt-driven positioning axis with three nested loops: current (PI, inside), speed (PI,
@@ -24,17 +28,47 @@ export const positioningAxis: Diagram = {
     'load torque at 150 ms. The speed controller is limited to ±I_max (the drive current rating). ' +
     'Results are design aids: validate on the real machine with limits and interlocks in place.',
   parameters: [
-    { name: 'Kp_pos', value: 40, unit: '1/s', min: 5, max: 200, scale: 'log', description: 'Position loop gain: speed demand (mm/s) per mm of position error' },
+    {
+      name: 'Kp_pos',
+      value: 40,
+      unit: '1/s',
+      min: 5,
+      max: 200,
+      scale: 'log',
+      description: 'Position loop gain: speed demand (mm/s) per mm of position error',
+    },
     { name: 'Kp_spd', value: 1, unit: 'A·s/rad', min: 0.1, max: 5, scale: 'log', description: 'Speed controller proportional gain' },
     { name: 'Ti_spd', value: 0.015, unit: 's', min: 0.002, max: 0.2, scale: 'log', description: 'Speed controller integral time' },
     { name: 'Kp_cur', value: 9, unit: 'V/A', min: 1, max: 50, scale: 'log', description: 'Current controller proportional gain' },
     { name: 'Ti_cur', value: 0.002, unit: 's', min: 0.0002, max: 0.02, scale: 'log', description: 'Current controller integral time' },
-    { name: 'I_max', value: 8, unit: 'A', min: 1, max: 20, scale: 'linear', description: 'Drive current limit (speed controller output limit)' },
+    {
+      name: 'I_max',
+      value: 8,
+      unit: 'A',
+      min: 1,
+      max: 20,
+      scale: 'linear',
+      description: 'Drive current limit (speed controller output limit)',
+    },
     { name: 'T_enc', value: 0.0005, unit: 's', min: 0, max: 0.005, scale: 'linear', description: 'Encoder sampling and filter delay' },
-    { name: 'r_pulley', value: 15, unit: 'mm/rad', min: 5, max: 40, scale: 'linear', description: 'Pulley radius: carriage travel per motor radian' },
+    {
+      name: 'r_pulley',
+      value: 15,
+      unit: 'mm/rad',
+      min: 5,
+      max: 40,
+      scale: 'linear',
+      description: 'Pulley radius: carriage travel per motor radian',
+    },
   ],
   blocks: [
-    { id: 'position-setpoint', kind: 'source', label: 'position setpoint (mm)', position: at(0, 0), params: { shape: 'step', amplitude: 10, start: 0.01, offset: 0 } },
+    {
+      id: 'position-setpoint',
+      kind: 'source',
+      label: 'position setpoint (mm)',
+      position: at(0, 0),
+      params: { shape: 'step', amplitude: 10, start: 0.01, offset: 0 },
+    },
     { id: 'position-error', kind: 'summing-junction', label: 'position error', position: at(1, 0), params: { signs: '+-' } },
     { id: 'position-controller', kind: 'gain', label: 'position controller (P)', position: at(2, 0), params: { k: 'Kp_pos' } },
     { id: 'to-motor-speed', kind: 'gain', label: 'mm/s → rad/s', position: at(3, 0), params: { k: '1/r_pulley' } },
@@ -44,7 +78,17 @@ export const positioningAxis: Diagram = {
       kind: 'pid',
       label: 'speed controller (PI)',
       position: at(5, 0),
-      params: { form: 'ideal', kp: 'Kp_spd', ti: 'Ti_spd', td: 0, n: 10, umin: '-I_max', umax: 'I_max', antiWindup: 'back-calculation', tt: '' },
+      params: {
+        form: 'ideal',
+        kp: 'Kp_spd',
+        ti: 'Ti_spd',
+        td: 0,
+        n: 10,
+        umin: '-I_max',
+        umax: 'I_max',
+        antiWindup: 'back-calculation',
+        tt: '',
+      },
     },
     { id: 'current-error', kind: 'summing-junction', label: 'current error', position: at(6, 0), params: { signs: '+-' } },
     {
@@ -57,10 +101,22 @@ export const positioningAxis: Diagram = {
     { id: 'winding', kind: 'first-order-lag', label: 'motor winding (A per V)', position: at(8, 0), params: { k: '1/1.2', tau: 0.0025 } },
     { id: 'torque-constant', kind: 'gain', label: 'torque constant (N·m/A)', position: at(9, 0), params: { k: 0.3 } },
     { id: 'net-torque', kind: 'summing-junction', label: 'net torque', position: at(10, 0), params: { signs: '+-' } },
-    { id: 'mechanics', kind: 'first-order-lag', label: 'inertia + friction (rad/s per N·m)', position: at(11, 0), params: { k: 1000, tau: 1 } },
+    {
+      id: 'mechanics',
+      kind: 'first-order-lag',
+      label: 'inertia + friction (rad/s per N·m)',
+      position: at(11, 0),
+      params: { k: 1000, tau: 1 },
+    },
     { id: 'pulley', kind: 'integrator', label: 'belt and pulley (mm)', position: at(12, 0), params: { k: 'r_pulley' } },
     { id: 'position', kind: 'probe', label: 'position (mm)', position: at(13, 0), params: { unit: 'mm' } },
-    { id: 'load-torque', kind: 'source', label: 'load torque (N·m)', position: at(9, -1), params: { shape: 'step', amplitude: 0.3, start: 0.15, offset: 0 } },
+    {
+      id: 'load-torque',
+      kind: 'source',
+      label: 'load torque (N·m)',
+      position: at(9, -1),
+      params: { shape: 'step', amplitude: 0.3, start: 0.15, offset: 0 },
+    },
     { id: 'motor-voltage', kind: 'probe', label: 'motor voltage (V, actuator)', position: at(8, -1), params: { unit: 'V' } },
     { id: 'current', kind: 'probe', label: 'motor current (A)', position: at(9, 1), params: { unit: 'A' } },
     { id: 'speed', kind: 'probe', label: 'motor speed (rad/s)', position: at(12, 1), params: { unit: 'rad/s' } },

@@ -31,6 +31,8 @@ export const sampledAxis: Diagram = {
     { name: 'Ts_spd', value: 2.5e-4, unit: 's', min: 1e-4, max: 2e-3, scale: 'log', description: 'Speed loop sample time (4 kHz)' },
     { name: 'Ts_pos', value: 1e-3, unit: 's', min: 2.5e-4, max: 1e-2, scale: 'log', description: 'Position loop sample time (1 kHz)' },
   ],
-  blocks: positioningAxis.blocks.map((b) => (b.id in RATES ? { ...b, label: RATES[b.id].label, params: { ...b.params, ...RATES[b.id].sampling } } : b)),
+  blocks: positioningAxis.blocks.map((b) =>
+    b.id in RATES ? { ...b, label: RATES[b.id].label, params: { ...b.params, ...RATES[b.id].sampling } } : b,
+  ),
   view: { ...positioningAxis.view, activeCut: 'cut-current' },
 };

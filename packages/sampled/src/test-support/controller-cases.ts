@@ -20,7 +20,13 @@ CASES.push({
   retune: () => discretizeController({ kind: 'pid', kp: 1.1, ti: 1.2, td: 0.3 }, { sampleTime: 0.02, derivative: 'tustin' }),
 });
 for (const antiWindup of ['off', 'limited-feedback'] as const) {
-  const tf = (k: number) => ({ kind: 'transfer-function' as const, tf: tfFromCoefficients([k, 3 * k, 0.4 * k], [0, 1, 0.05]), umin: -2, umax: 2.5, antiWindup });
+  const tf = (k: number) => ({
+    kind: 'transfer-function' as const,
+    tf: tfFromCoefficients([k, 3 * k, 0.4 * k], [0, 1, 0.05]),
+    umin: -2,
+    umax: 2.5,
+    antiWindup,
+  });
   CASES.push({
     label: `transfer function (PID-like, order 2) ${antiWindup}`,
     make: () => discretizeController(tf(1.5), { sampleTime: 0.01 }),

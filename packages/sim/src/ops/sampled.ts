@@ -1,6 +1,13 @@
 import { type LinearForm, type ResolvedParams, samplingOf } from '@loopwright/graph';
 import { InputError } from '@loopwright/lti';
-import { type ControllerState, type DiscreteController, controllerSpecOf, createControllerState, discretizeController, stepController } from '@loopwright/sampled';
+import {
+  type ControllerState,
+  type DiscreteController,
+  controllerSpecOf,
+  createControllerState,
+  discretizeController,
+  stepController,
+} from '@loopwright/sampled';
 import { defineOp, type SimNode } from './node.ts';
 import type { Builder } from './registry-types.ts';
 
@@ -110,7 +117,10 @@ export function sampledOr(continuous: Builder): Builder {
     try {
       controller = discretizeController(controllerSpecOf(cb.kind, params, lf.tf), sampling);
     } catch (err) {
-      if (err instanceof InputError) throw new InputError(`block ${cb.id} sampled form: ${err.message}`, { field: `blocks.${cb.id}.params.${err.details.field ?? 'sampleTime'}` });
+      if (err instanceof InputError)
+        throw new InputError(`block ${cb.id} sampled form: ${err.message}`, {
+          field: `blocks.${cb.id}.params.${err.details.field ?? 'sampleTime'}`,
+        });
       throw err;
     }
     const nd: SimNode = ctx.add(sampledOp, cb);
@@ -126,7 +136,12 @@ export function sampledOr(continuous: Builder): Builder {
  * steps, and applies a result without computation delay at once. `evaluate` recomputes the
  * signals; returns whether any held output changed and whether an output was scheduled for later.
  */
-export function sampleInstant(samplers: readonly SimNode[], t: number, sig: Float64Array, evaluate: () => void): { changed: boolean; scheduled: boolean } {
+export function sampleInstant(
+  samplers: readonly SimNode[],
+  t: number,
+  sig: Float64Array,
+  evaluate: () => void,
+): { changed: boolean; scheduled: boolean } {
   const tol = 1e-12 * Math.max(1, Math.abs(t));
   let changed = false;
   for (const nd of samplers) {

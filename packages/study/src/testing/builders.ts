@@ -3,7 +3,17 @@
  * Blocks as [id, kind, params]; wires as "a->b", "id:a->b" or "id:a->b.in2" (port "out" to
  * port "in" unless given).
  */
-import { DIAGRAM_FORMAT, DIAGRAM_VERSION, type BlockKind, type Cut, type Diagram, type NamedParameter, type ParamValue, type SimulationSettings, type Sweep } from '@loopwright/graph';
+import {
+  DIAGRAM_FORMAT,
+  DIAGRAM_VERSION,
+  type BlockKind,
+  type Cut,
+  type Diagram,
+  type NamedParameter,
+  type ParamValue,
+  type SimulationSettings,
+  type Sweep,
+} from '@loopwright/graph';
 
 /** Like graph's test builder, but with ids that may hold "-" (readable scenario ids) and simulation settings. */
 export function build(
