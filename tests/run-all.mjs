@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 // `npm test`: the CLI bundle rebuilt (so nothing runs a stale one), type-check (tsc -b, every
-// project), lint, unit + reference tests (vitest), the installable-CLI check, then browser tests
+// project), lint, the formatter's check, unit + reference tests (vitest), the installable-CLI check, then browser tests
 // (tests/e2e/run.mjs).
 // Prints one closing line "N passed, N failed" over everything it ran.
 import { spawnSync } from 'node:child_process';
@@ -31,6 +31,7 @@ function count(jsonFile) {
 if (!run('CLI bundle', 'npm', ['run', '--silent', 'build:cli'], 5)) failed += 1;
 if (!run('type-check', 'npm', ['run', '--silent', 'typecheck'])) failed += 1;
 if (!run('lint', 'npm', ['run', '--silent', 'lint'])) failed += 1;
+if (!run('format', 'npm', ['run', '--silent', 'format:check'], 5)) failed += 1;
 run('unit and reference tests', 'npx', [
   'vitest',
   'run',

@@ -242,13 +242,11 @@ describe('editor', () => {
 
   it('a corrupt or invalid file opens nothing, says why, and leaves the diagram untouched', async () => {
     const before = await getDiagram(page);
-    await page
-      .getByTestId('open-file-input')
-      .setInputFiles({
-        name: 'broken.loop.json',
-        mimeType: 'application/json',
-        buffer: Buffer.from('{"format": "loopwright.diagram", "blocks": [ {'),
-      });
+    await page.getByTestId('open-file-input').setInputFiles({
+      name: 'broken.loop.json',
+      mimeType: 'application/json',
+      buffer: Buffer.from('{"format": "loopwright.diagram", "blocks": [ {'),
+    });
     const alert = page.getByRole('alert', { name: 'Error', exact: true });
     await expect.poll(() => alert.textContent()).toMatch(/Could not open broken\.loop\.json/);
     expect(await getDiagram(page)).toEqual(before);
