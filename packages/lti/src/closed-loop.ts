@@ -19,6 +19,19 @@ export interface ClosedLoopPoles {
   padeOrder: number | null;
 }
 
+/** The roots of a characteristic polynomial solved in coefficients (none for a constant). */
+function fromCoefficients(p: readonly number[], padeOrder: number | null): ClosedLoopPoles {
+  if (p.length <= 1) return { poles: [], errors: [], worstRelativeError: 0, limited: false, padeOrder };
+  const r = polyRootsDetailed(p);
+  return {
+    poles: r.roots,
+    errors: r.errors,
+    worstRelativeError: r.worstRelativeError,
+    limited: r.worstRelativeError > ACCURACY_LIMIT,
+    padeOrder,
+  };
+}
+
 /**
  * Closed-loop poles of 1 + L = 0 with L = N/D·e^(−sT): the roots of D·Dp + N·Np, where Np/Dp is
  * the (n, n) Padé approximant of the dead time. Solved in product form (pencil.ts: the roots of
@@ -57,16 +70,7 @@ export function closedLoopPolesDetailed(num: readonly number[], den: readonly nu
     coeffs = null;
   }
   if (coeffs !== null && coeffs.length === 0) throw new InputError('the closed-loop characteristic polynomial 1 + L is identically zero');
-  if (cn.length === 0) {
-    const r = polyRootsDetailed(cd);
-    return {
-      poles: r.roots,
-      errors: r.errors,
-      worstRelativeError: r.worstRelativeError,
-      limited: r.worstRelativeError > ACCURACY_LIMIT,
-      padeOrder,
-    };
-  }
+  if (cn.length === 0) return fromCoefficients(cd, padeOrder);
   const Df = factorPoly(cd);
   const Nf = factorPoly(cn);
   // A root beyond the floating-point range (1e-320·s + 1 has its zero at −1e320) has no product
@@ -81,15 +85,7 @@ export function closedLoopPolesDetailed(num: readonly number[], den: readonly nu
     );
   }
   if (unrepresentable && coeffs !== null) {
-    if (coeffs.length <= 1) return { poles: [], errors: [], worstRelativeError: 0, limited: false, padeOrder };
-    const r = polyRootsDetailed(coeffs);
-    return {
-      poles: r.roots,
-      errors: r.errors,
-      worstRelativeError: r.worstRelativeError,
-      limited: r.worstRelativeError > ACCURACY_LIMIT,
-      padeOrder,
-    };
+    return fromCoefficients(coeffs, padeOrder);
   }
   const A = padeP.length ? factoredProduct(Df, factoredFromRoots(padeP, 1)) : Df;
   const B = padeP.length
@@ -105,15 +101,7 @@ export function closedLoopPolesDetailed(num: readonly number[], den: readonly nu
   if (coeffs !== null && coeffs.length - 1 < degree) {
     // The leading terms cancel beyond the first (an improper-looking closed loop): solve the
     // coefficients directly.
-    if (coeffs.length <= 1) return { poles: [], errors: [], worstRelativeError: 0, limited: false, padeOrder };
-    const r = polyRootsDetailed(coeffs);
-    return {
-      poles: r.roots,
-      errors: r.errors,
-      worstRelativeError: r.worstRelativeError,
-      limited: r.worstRelativeError > ACCURACY_LIMIT,
-      padeOrder,
-    };
+    return fromCoefficients(coeffs, padeOrder);
   }
   const sol = pencilRootsContinued(A, B, 1);
   poles = sol.roots.slice();
