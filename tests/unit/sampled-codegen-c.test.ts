@@ -8,8 +8,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { cTestProgram, exerciseInput, generateC, makeTestVector } from '@loopwright/sampled';
 import { CASES } from '@loopwright/sampled/testing';
+import { compileRunAndCheck, hasCc } from '@loopwright/cli/testing';
 
-const hasCc = spawnSync('cc', ['--version'], { encoding: 'utf8' }).status === 0;
 if (!hasCc) console.log('sampled code generation: no C compiler (cc) found, so the generated C is not compiled here');
 
 describe.skipIf(!hasCc)('generated C compiled with cc runs the test vector to 1e-9', () => {
@@ -22,29 +22,9 @@ describe.skipIf(!hasCc)('generated C compiled with cc runs the test vector to 1e
         initialOutput: -0.3,
         retunes: [{ atSample: 260, coefficients: c.retune().coefficients }],
       });
-      const dir = mkdtempSync(join(tmpdir(), 'loopwright-cc-'));
-      try {
-        const g = generateC(ctrl, name);
-        const main = cTestProgram(ctrl, v, name);
-        for (const f of [g.header, g.source, main]) writeFileSync(join(dir, f.path), f.text);
-        const exe = join(dir, 'check');
-        const cc = spawnSync(
-          'cc',
-          ['-std=c99', '-pedantic', '-Wall', '-Wextra', '-Werror', '-O2', '-o', exe, join(dir, main.path), join(dir, g.source.path), '-lm'],
-          { encoding: 'utf8' },
-        );
-        expect(cc.stderr).toBe('');
-        expect(cc.status).toBe(0);
-        const run = spawnSync(exe, [], { encoding: 'utf8' });
-        expect(run.status).toBe(0);
-        const lines = run.stdout.trim().split('\n');
-        expect(lines.pop()).toMatch(/^worst /);
-        const got = lines.map(Number);
-        expect(got).toHaveLength(v.output.length);
-        got.forEach((u, k) => expect(Math.abs(u - v.output[k])).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(v.output[k]))));
-      } finally {
-        rmSync(dir, { recursive: true, force: true });
-      }
+      const g = generateC(ctrl, name);
+      const main = cTestProgram(ctrl, v, name);
+      compileRunAndCheck(Object.fromEntries([g.header, g.source, main].map((f) => [f.path, f.text])), [main.path, g.source.path], v.output);
     });
   }
   it('the check program fails on a wrong expected output', () => {

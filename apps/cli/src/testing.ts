@@ -2,3 +2,4 @@
 // compare the command line with the editor worker.
 export { main } from './main.ts';
 export type { CliIo } from './io.ts';
+export { compileRunAndCheck, hasCc } from './c-check.ts';

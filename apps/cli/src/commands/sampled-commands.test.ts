@@ -2,11 +2,8 @@
 // reference table (rows R57, R59, R60) and, for the exported C, against the test vector it ships
 // with: the C is compiled with the system `cc` (skipped with a plain message where there is none).
 import { describe, expect, it } from 'vitest';
-import { spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { main } from '../main.ts';
+import { compileRunAndCheck, hasCc } from '../c-check.ts';
 import { fakeIo } from '../fake-io.ts';
 import { diagramOf } from '@loopwright/graph/testing';
 import { discretizeController, runController } from '@loopwright/sampled';
@@ -178,33 +175,13 @@ describe('loopwright export', () => {
     expect(f.written['gen/pid.st']).toMatch(/FUNCTION_BLOCK/);
   });
 
-  const hasCc = spawnSync('cc', ['--version'], { encoding: 'utf8' }).status === 0;
   if (!hasCc) console.log('loopwright export: no C compiler (cc) found, so the exported C is not compiled here');
   it.skipIf(!hasCc)('the exported C compiles with cc and reproduces its test vector to 1e-9', async () => {
     const f = fakeIo(files);
     expect(await main(['export', 'axis.loop.json', '--block', 'pid', '--lang', 'c', '--out', 'gen'], f.io)).toBe(0);
     expect(Object.keys(f.written).sort()).toEqual(['gen/pid.c', 'gen/pid.h', 'gen/pid.vector.json', 'gen/pid_check.c']);
     const v = JSON.parse(f.written['gen/pid.vector.json']);
-    const dir = mkdtempSync(join(tmpdir(), 'loopwright-export-'));
-    try {
-      for (const [p, t] of Object.entries(f.written)) writeFileSync(join(dir, p.slice(4)), t);
-      const exe = join(dir, 'check');
-      const cc = spawnSync(
-        'cc',
-        ['-std=c99', '-pedantic', '-Wall', '-Wextra', '-Werror', '-O2', '-o', exe, join(dir, 'pid_check.c'), join(dir, 'pid.c'), '-lm'],
-        { encoding: 'utf8' },
-      );
-      expect(cc.stderr).toBe('');
-      expect(cc.status).toBe(0);
-      const run = spawnSync(exe, [], { encoding: 'utf8' });
-      expect(run.status).toBe(0);
-      const lines = run.stdout.trim().split('\n');
-      expect(lines.pop()).toMatch(/^worst /);
-      const got = lines.map(Number);
-      expect(got).toHaveLength(v.output.length);
-      got.forEach((u, k) => expect(Math.abs(u - v.output[k])).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(v.output[k]))));
-    } finally {
-      rmSync(dir, { recursive: true, force: true });
-    }
+    const asWritten = Object.fromEntries(Object.entries(f.written).map(([p, t]) => [p.slice(4), t]));
+    compileRunAndCheck(asWritten, ['pid_check.c', 'pid.c'], v.output);
   });
 });
