@@ -1,26 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { demoDiagrams, serializeDiagram } from '@loopwright/graph';
 import { main } from './main.ts';
-import type { CliIo } from './io.ts';
-
-function fakeIo(files: Record<string, string> = {}) {
-  let out = '';
-  let err = '';
-  const io: CliIo = {
-    stdout: (s) => {
-      out += s;
-    },
-    stderr: (s) => {
-      err += s;
-    },
-    readFile: async (p) => {
-      if (!(p in files)) throw Object.assign(new Error(`ENOENT: ${p}`), { code: 'ENOENT' });
-      return files[p];
-    },
-    writeFile: async () => {},
-  };
-  return { io, out: () => out, err: () => err };
-}
+import { fakeIo } from './fake-io.ts';
 
 const axis = demoDiagrams.find((d) => d.id === 'positioning-axis')!;
 const files = { 'axis.loop.json': serializeDiagram(axis.diagram) };

@@ -12,7 +12,7 @@ import { locusStudy } from './locus.ts';
 import { loopsStudy } from './loops.ts';
 import { polesStudy } from './poles.ts';
 import { runStudies, runStudy } from './study.ts';
-import { build, unityLoop } from './testing.ts';
+import { build, r27Cascade as r27, unityLoop } from './testing.ts';
 import type { Cx } from './types.ts';
 
 const byRe = (p: Cx[]) => [...p].sort((a, b) => a.re - b.re || a.im - b.im);
@@ -219,30 +219,6 @@ describe('L at a cut', () => {
     expect(chooseCut(d, null)).toEqual({ id: 'auto:fb', wire: 'fb', label: 'loop at fb (proposed)', auto: true });
   });
 });
-
-/** Two-loop cascade of R27: C1 = 2, C2 = 5, G2 = 1/(s+1), G1 = 1/s, unity feedbacks. */
-function r27() {
-  return build(
-    [
-      ['r', 'source'],
-      ['e1', 'summing-junction', { signs: '+-' }],
-      ['C1', 'gain', { k: 'C1' }],
-      ['e2', 'summing-junction', { signs: '+-' }],
-      ['C2', 'gain', { k: 5 }],
-      ['G2', 'first-order-lag', { k: 1, tau: 1 }],
-      ['G1', 'integrator', { k: 1 }],
-      ['y', 'probe'],
-    ],
-    ['r->e1.in1', 'e1->C1', 'C1->e2.in1', 'e2->C2', 'C2->G2', 'inner:G2->e2.in2', 'G2->G1', 'outer:G1->e1.in2', 'G1->y'],
-    [{ name: 'C1', value: 2 }],
-    {
-      cuts: [
-        { id: 'ci', wire: 'inner', label: 'inner loop' },
-        { id: 'co', wire: 'outer', label: 'outer loop' },
-      ],
-    },
-  );
-}
 
 describe('loops table', () => {
   it('R27 cascade: T = 10/(s² + 6s + 10) closed-loop poles −3 ± j; the inner loop read inner-first is C2G2 = 5/(s+1) (Nise, Sec. 5.2, from memory) [R27]', () => {

@@ -1,44 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { main } from '../main.ts';
-import type { CliIo } from '../io.ts';
+import { fakeIo } from '../fake-io.ts';
 import { locusFromDiagram } from './locus-diagram.ts';
 // Test-only builders from the graph package (not part of its public API).
-import { diagramOf, threeLoopAxis } from '@loopwright/graph/testing';
-
-function fakeIo(files: Record<string, string>) {
-  let out = '';
-  let err = '';
-  const io: CliIo = {
-    stdout: (s) => {
-      out += s;
-    },
-    stderr: (s) => {
-      err += s;
-    },
-    readFile: async (p) => {
-      if (!(p in files)) throw Object.assign(new Error(`ENOENT: ${p}`), { code: 'ENOENT' });
-      return files[p];
-    },
-    writeFile: async () => {},
-  };
-  return { io, out: () => out, err: () => err };
-}
+import { threeLoopAxis } from '@loopwright/graph/testing';
+import { r27Cascade } from '@loopwright/study/testing';
 
 // R27 cascade as a diagram: C1 = 2, C2 = 5, G2 = 1/(s+1), G1 = 1/s (Nise, Sec. 5.2 (from memory); instance from the reference table) [R27]
-const r27 = diagramOf(
-  [
-    ['r', 'source'],
-    ['e1', 'summing-junction', { signs: '+-' }],
-    ['C1', 'gain', { k: 'C1' }],
-    ['e2', 'summing-junction', { signs: '+-' }],
-    ['C2', 'gain', { k: 5 }],
-    ['G2', 'first-order-lag', { k: 1, tau: 1 }],
-    ['G1', 'integrator', { k: 1 }],
-    ['y', 'probe'],
-  ],
-  ['r->e1.in1', 'e1->C1', 'C1->e2.in1', 'e2->C2', 'C2->G2', 'inner:G2->e2.in2', 'G2->G1', 'outer:G1->e1.in2', 'G1->y'],
-  [{ name: 'C1', value: 2 }],
-);
+const r27 = r27Cascade();
 const files = { 'r27.loop.json': JSON.stringify(r27), 'axis.loop.json': JSON.stringify(threeLoopAxis()) };
 
 describe('loopwright reduce', () => {

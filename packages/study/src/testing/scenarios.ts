@@ -133,3 +133,30 @@ export function coolingReverseActing(): Diagram {
     },
   );
 }
+
+/**
+ * The two-loop cascade of reference row R27 (Nise, Sec. 5.2, from memory): C1 = 2 (parameter
+ * C1), C2 = 5, G2 = 1/(s+1), G1 = 1/s, unity feedbacks on wires `inner` and `outer`, cut at both.
+ */
+export function r27Cascade(): Diagram {
+  return build(
+    [
+      ['r', 'source'],
+      ['e1', 'summing-junction', { signs: '+-' }],
+      ['C1', 'gain', { k: 'C1' }],
+      ['e2', 'summing-junction', { signs: '+-' }],
+      ['C2', 'gain', { k: 5 }],
+      ['G2', 'first-order-lag', { k: 1, tau: 1 }],
+      ['G1', 'integrator', { k: 1 }],
+      ['y', 'probe'],
+    ],
+    ['r->e1.in1', 'e1->C1', 'C1->e2.in1', 'e2->C2', 'C2->G2', 'inner:G2->e2.in2', 'G2->G1', 'outer:G1->e1.in2', 'G1->y'],
+    [{ name: 'C1', value: 2 }],
+    {
+      cuts: [
+        { id: 'ci', wire: 'inner', label: 'inner loop' },
+        { id: 'co', wire: 'outer', label: 'outer loop' },
+      ],
+    },
+  );
+}
