@@ -53,6 +53,8 @@ export class ExactEngine implements SegmentEngine {
   /** Signal values at their node indices (what the recorder and the actuator figures read). */
   private readonly sigOut: Float64Array;
   private readonly recRows: number[];
+  /** Each recorded signal's place among the step-end rows (after oS in `out`). */
+  private readonly gridAt: number[];
   private readonly trackRows: number[];
   private readonly turning: TurningPoints;
   /** Row offsets in `out`: dead-time inputs, watched signals; each actuator's place among the watched signals. */
@@ -91,7 +93,11 @@ export class ExactEngine implements SegmentEngine {
     const turningRows = [...new Set([...metricCols.map((c) => rs.rec.sigIdx[c]), ...this.trackRows])];
     this.trackAt = this.trackRows.map((r) => turningRows.indexOf(r));
     this.recRows = [...new Set(rs.rec.sigIdx)];
-    this.watch = { step: turningRows, grid: this.recRows };
+    // the recorded signals are read at every step end too (after the turning rows), so a grid
+    // point that is a step end costs no product of its own
+    const stepRows = [...turningRows, ...this.recRows.filter((r) => !turningRows.includes(r))];
+    this.gridAt = this.recRows.map((r) => stepRows.indexOf(r));
+    this.watch = { step: stepRows, grid: this.recRows };
     this.oD = 2 * ng;
     this.oS = 2 * ng + 3 * this.hist.length;
 
@@ -100,7 +106,7 @@ export class ExactEngine implements SegmentEngine {
     this.zt = new Float64Array(N);
     this.zm = new Float64Array(N);
     this.x1 = new Float64Array(this.lay.n);
-    this.out = new Float64Array(this.oS + turningRows.length);
+    this.out = new Float64Array(this.oS + stepRows.length);
     this.gridOut = new Float64Array(this.recRows.length);
     this.gPrev = new Float64Array(ng);
     this.pPrev = new Float64Array(ng);
@@ -188,11 +194,9 @@ export class ExactEngine implements SegmentEngine {
     for (let g = Math.floor(tc / dt) + 1; g * dt < stop; g++) {
       const tg = g * dt;
       if (!rec.isNew(tg)) continue;
-      if (regular) {
-        const j = g * this.p - (k - 1) * this.q;
-        if (j >= this.q) matvecRect(sys.RgPhi, rows, N, this.z0, this.gridOut);
-        else matvecRect(sys.gridRowsAt(j, this.q), rows, N, this.z0, this.gridOut);
-      } else if (Math.abs(tg - tn) <= tol) matvecRect(sys.Rg, rows, N, this.z1, this.gridOut);
+      const atEnd = regular ? g * this.p - (k - 1) * this.q >= this.q : Math.abs(tg - tn) <= tol;
+      if (atEnd) for (let r = 0; r < rows; r++) this.gridOut[r] = this.out[this.oS + this.gridAt[r]];
+      else if (regular) matvecRect(sys.gridRowsAt(g * this.p - (k - 1) * this.q, this.q), rows, N, this.z0, this.gridOut);
       else {
         sys.ladder.apply(tg - tc, this.z0, this.zt);
         matvecRect(sys.Rg, rows, N, this.zt, this.gridOut);
@@ -236,7 +240,8 @@ export class ExactEngine implements SegmentEngine {
         break;
       }
 
-      this.fillExo(z0, tc, h);
+      // a regular step passes h0 itself (tn − tc differs from it in the last bits from step to step)
+      this.fillExo(z0, tc, regular ? this.h0 : h);
       if (first) {
         // values at the segment start: guard slopes, dead-time inputs (right limits), samples
         matvecRect(sys.R, sys.rows, N, z0, out);

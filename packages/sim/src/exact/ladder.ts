@@ -1,4 +1,4 @@
-import { matvecRect, mulRect, norm1 } from './dense.ts';
+import { type Compressed, compress, matvecCompressed, mulRect, norm1 } from './dense.ts';
 
 /**
  * Matrix exponentials of one mode's generator M (N × N, row-major) for the exact engine.
@@ -18,7 +18,12 @@ export class Ladder {
   readonly K: number;
   /** E_k = e^(M·h0/2^k) − I, k = 0 … K. */
   readonly E: Float64Array[];
-  private readonly M: Float64Array;
+  readonly minRungs: number;
+  /** The generator (a copy: the cache compares it). */
+  readonly M: Float64Array;
+  /** M and the rungs E_k in compressed rows (what apply multiplies by). */
+  private readonly Mc: Compressed;
+  private readonly Ec: Compressed[];
   private readonly tmp: Float64Array;
   private readonly acc: Float64Array;
   private readonly term: Float64Array;
@@ -26,7 +31,9 @@ export class Ladder {
   constructor(M: Float64Array, N: number, h0: number, minRungs = 1) {
     this.N = N;
     this.h0 = h0;
-    this.M = M;
+    this.minRungs = minRungs;
+    this.M = Float64Array.from(M);
+    this.Mc = compress(M, N, N);
     const norm = norm1(M, N) * h0;
     // at least one rung below h0 (e^(M·h0/2) is the mid-step guard check), and as many as the output lattice needs
     // (a matrix that is not finite gets no extra rungs: its steps come out not finite and the run
@@ -58,6 +65,7 @@ export class Ladder {
       E = S;
     }
     this.E = E_;
+    this.Ec = E_.map((e) => compress(e, N, N));
     this.tmp = new Float64Array(N);
     this.acc = new Float64Array(N);
     this.term = new Float64Array(N);
@@ -87,9 +95,8 @@ export class Ladder {
   /** z ← (I + E_k)·z. */
   private rung(k: number, z: Float64Array): void {
     const N = this.N;
-    const E = this.E[k];
     const t = this.tmp;
-    matvecRect(E, N, N, z, t);
+    matvecCompressed(this.Ec[k], z, t);
     for (let i = 0; i < N; i++) z[i] += t[i];
   }
 
@@ -100,7 +107,7 @@ export class Ladder {
     term.set(z);
     const t = this.tmp;
     for (let m = 1; m <= 20; m++) {
-      matvecRect(this.M, N, N, term, t);
+      matvecCompressed(this.Mc, term, t);
       let big = 0;
       let size = 0;
       for (let i = 0; i < N; i++) {
@@ -112,4 +119,32 @@ export class Ladder {
       if (big <= 1e-17 * size) break;
     }
   }
+}
+
+/** Ladders made recently, by generator and step: a run's linear overlay and its as-drawn run share the unsaturated mode's. */
+const recent: Ladder[] = [];
+const RECENT = 4;
+
+/** A ladder for (M, h0, minRungs): a recent one with the same generator, else a new one. */
+export function ladderFor(M: Float64Array, N: number, h0: number, minRungs = 1): Ladder {
+  for (let i = 0; i < recent.length; i++) {
+    const l = recent[i];
+    if (l.N === N && l.h0 === h0 && l.minRungs === minRungs && sameEntries(l.M, M)) {
+      if (i > 0) {
+        recent.splice(i, 1);
+        recent.unshift(l);
+      }
+      return l;
+    }
+  }
+  const l = new Ladder(M, N, h0, minRungs);
+  recent.unshift(l);
+  if (recent.length > RECENT) recent.pop();
+  return l;
+}
+
+function sameEntries(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
 }

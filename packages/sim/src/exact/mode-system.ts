@@ -1,6 +1,6 @@
 import type { Network } from '../network.ts';
 import { mulRect } from './dense.ts';
-import { Ladder } from './ladder.ts';
+import { type Ladder, ladderFor } from './ladder.ts';
 
 /**
  * Where each quantity sits in the exact engine's state z = [x | 1 | exosystem blocks]: the
@@ -67,9 +67,8 @@ export class ModeSystem {
   readonly RPhi: Float64Array;
   readonly rows: number;
   readonly PhiX: Float64Array;
-  /** The `watch.grid` signals, and the same times Φ. */
+  /** The `watch.grid` signals (a grid point at a step end is read from the step rows instead). */
   readonly Rg: Float64Array;
-  readonly RgPhi: Float64Array;
   private readonly RgOff: Float64Array[] = [];
   private readonly gridCount: number;
 
@@ -151,7 +150,7 @@ export class ModeSystem {
     } finally {
       net.exo = null;
     }
-    this.ladder = new Ladder(this.M, N, h0, minRungs);
+    this.ladder = ladderFor(this.M, N, h0, minRungs);
     this.Phi = Float64Array.from(this.ladder.E[0]);
     for (let i = 0; i < N; i++) this.Phi[i * N + i] += 1;
     this.Half = Float64Array.from(this.ladder.E[1]);
@@ -175,8 +174,6 @@ export class ModeSystem {
     this.PhiX = this.Phi.slice(0, n * N);
     this.Rg = new Float64Array(watch.grid.length * N);
     watch.grid.forEach((r, j) => this.Rg.set(this.S.subarray(r * N, r * N + N), j * N));
-    this.RgPhi = new Float64Array(watch.grid.length * N);
-    mulRect(this.Rg, watch.grid.length, this.Phi, N, this.RgPhi);
     this.gridCount = watch.grid.length;
   }
 
@@ -197,15 +194,5 @@ export class ModeSystem {
     }
     this.RgOff[j] = X;
     return X;
-  }
-}
-
-/** y = A·x for A with `rows` rows of N columns. */
-export function matvecRect(A: Float64Array, rows: number, N: number, x: Float64Array, y: Float64Array): void {
-  for (let i = 0; i < rows; i++) {
-    let s = 0;
-    const o = i * N;
-    for (let j = 0; j < N; j++) s += A[o + j] * x[j];
-    y[i] = s;
   }
 }

@@ -56,6 +56,21 @@ function taylorMap(c: Float64Array): Float64Array {
 
 const times = new Float64Array(WINDOW_TERMS);
 const values = new Float64Array(WINDOW_TERMS);
+/** TAYLOR with row k divided by h^k, for the last step length asked (almost every step is the lattice step). */
+const scaled = new Float64Array(WINDOW_TERMS * WINDOW_TERMS);
+let scaledFor = NaN;
+
+function scaledTaylor(h: number): Float64Array {
+  if (h !== scaledFor) {
+    let scale = 1;
+    for (let k = 0; k < WINDOW_TERMS; k++) {
+      for (let i = 0; i < WINDOW_TERMS; i++) scaled[k * WINDOW_TERMS + i] = TAYLOR[k * WINDOW_TERMS + i] / scale;
+      scale *= h;
+    }
+    scaledFor = h;
+  }
+  return scaled;
+}
 
 export const delayOp = defineOp({
   name: 'dead-time',
@@ -68,13 +83,15 @@ export const delayOp = defineOp({
     const a = t - nd.delay;
     for (let i = 0; i < WINDOW_TERMS; i++) times[i] = a + NODES[i] * h;
     nd.hist!.sample(times, piece - nd.delay, values, 0);
-    let scale = 1;
-    for (let k = 0; k < WINDOW_TERMS; k++) {
-      let acc = 0;
-      for (let i = 0; i < WINDOW_TERMS; i++) acc += TAYLOR[k * WINDOW_TERMS + i] * values[i];
-      z[at + k] = acc / scale;
-      scale *= h;
-    }
+    const W = scaledTaylor(h);
+    const v0 = values[0],
+      v1 = values[1],
+      v2 = values[2],
+      v3 = values[3],
+      v4 = values[4],
+      v5 = values[5];
+    for (let k = 0, o = 0; k < WINDOW_TERMS; k++, o += WINDOW_TERMS)
+      z[at + k] = W[o] * v0 + W[o + 1] * v1 + W[o + 2] * v2 + W[o + 3] * v3 + W[o + 4] * v4 + W[o + 5] * v5;
   },
   steady: (nd, t) => nd.delay === 0 || nd.hist!.steadyOver(t - nd.delay),
 });
