@@ -20,7 +20,7 @@ export interface SignalHistory {
  * Index of the piece holding tau (the one on the bias side at a boundary), −1 before the
  * record (at rest) or −2 past its end. `cursor` is a guess (the last piece used).
  */
-export function pieceAt(starts: readonly number[], ends: readonly number[], n: number, cursor: number, tau: number, bias: number): number {
+export function pieceAt(starts: ArrayLike<number>, ends: ArrayLike<number>, n: number, cursor: number, tau: number, bias: number): number {
   const eps = 1e-11 * Math.max(1, Math.abs(tau));
   if (tau < starts[0] + eps) {
     // at rest before the first record; on the boundary itself the bias decides

@@ -81,8 +81,9 @@ export class ExactEngine implements SegmentEngine {
     this.p = lat.p;
     this.q = lat.q;
     this.h0 = lat.h0;
+    const pieces = Math.min(s.until / this.h0, s.maxSteps) + 64;
     this.hist = net.delayNodes.map((nd) => {
-      const h = new HermiteHistory();
+      const h = new HermiteHistory(pieces);
       nd.hist = h;
       return h;
     });

@@ -11,9 +11,9 @@ import { type SignalHistory, pieceAt } from '../history.ts';
 const NC = 6;
 
 export class HermiteHistory implements SignalHistory {
-  private starts: number[] = [];
-  private ends: number[] = [];
-  private coef = new Float64Array(NC * 256);
+  private starts: Float64Array;
+  private ends: Float64Array;
+  private coef: Float64Array;
   private count = 0;
   private cursor = 0;
   maxAbs = 0;
@@ -23,14 +23,27 @@ export class HermiteHistory implements SignalHistory {
   private ref = 0;
   private movedAt = 0;
 
+  /** `capacity`: the pieces expected (the run's planned steps), so that a run rarely grows its arrays. */
+  constructor(capacity = 256) {
+    const c = Math.max(16, Math.min(1 << 14, Math.ceil(capacity)));
+    this.starts = new Float64Array(c);
+    this.ends = new Float64Array(c);
+    this.coef = new Float64Array(NC * c);
+  }
+
   /** Appends [a, b] from the value, slope and second derivative at each end (right limits at a, left limits at b). */
   push(a: number, b: number, y0: number, d0: number, e0: number, y1: number, d1: number, e1: number): void {
     const h = b - a;
     if (!(h > 0)) return;
-    if ((this.count + 1) * NC > this.coef.length) {
-      const bigger = new Float64Array(this.coef.length * 2);
-      bigger.set(this.coef);
-      this.coef = bigger;
+    if (this.count === this.starts.length) {
+      const grow = (x: Float64Array) => {
+        const bigger = new Float64Array(x.length * 2);
+        bigger.set(x);
+        return bigger;
+      };
+      this.starts = grow(this.starts);
+      this.ends = grow(this.ends);
+      this.coef = grow(this.coef);
     }
     const D0 = d0 * h;
     const E0 = e0 * h * h;
@@ -44,8 +57,8 @@ export class HermiteHistory implements SignalHistory {
     c[o + 3] = -10 * y0 - 6 * D0 - 1.5 * E0 + 10 * y1 - 4 * D1 + 0.5 * E1;
     c[o + 4] = 15 * y0 + 8 * D0 + 1.5 * E0 - 15 * y1 + 7 * D1 - E1;
     c[o + 5] = -6 * y0 - 3 * D0 - 0.5 * E0 + 6 * y1 - 3 * D1 + 0.5 * E1;
-    this.starts.push(a);
-    this.ends.push(b);
+    this.starts[this.count] = a;
+    this.ends[this.count] = b;
     this.count++;
     const m = Math.max(Math.abs(y0), Math.abs(y1));
     if (m > this.maxAbs) this.maxAbs = m;
