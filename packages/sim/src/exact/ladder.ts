@@ -143,6 +143,11 @@ export function ladderFor(M: Float64Array, N: number, h0: number, minRungs = 1):
   return l;
 }
 
+/** Forgets the recent ladders (a bench that computes one value twice must not time the second from them). */
+export function clearLadders(): void {
+  recent.length = 0;
+}
+
 function sameEntries(a: Float64Array, b: Float64Array): boolean {
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
