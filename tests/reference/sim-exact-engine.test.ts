@@ -1,7 +1,7 @@
 import { compileModel, simulate } from '@loopwright/sim';
-import { expm, matrix, type Matrix } from 'mathjs';
+import { expm, matrix, multiply, type Matrix } from 'mathjs';
 import { describe, expect, it } from 'vitest';
-import { HermiteHistory, Ladder, buildDiagram } from '@loopwright/sim/testing';
+import { HermiteHistory, Ladder, buildDiagram, compress, ladderFor, matvecCompressed, matvecRect } from '@loopwright/sim/testing';
 
 /** A small deterministic generator (Park–Miller), so the random matrices are the same every run. */
 function lcg(seed: number) {
@@ -53,6 +53,52 @@ describe('matrix exponential ladder against mathjs expm', () => {
   }
 });
 
+describe("the exact step's products and the ladder cache", () => {
+  it('paired-row and compressed products equal mathjs multiply (odd and even shapes, zeros included)', () => {
+    // mathjs multiply is the reference; the shapes reach every remainder path (odd rows, odd N)
+    const r = lcg(777);
+    for (const [rows, N] of [
+      [1, 1],
+      [4, 3],
+      [5, 7],
+      [19, 20],
+      [20, 20],
+    ]) {
+      const A = Array.from({ length: rows }, () => Array.from({ length: N }, () => (r() < 0.4 ? 0 : 2 * r() - 1)));
+      const x = Array.from({ length: N }, () => 2 * r() - 1);
+      const want = multiply(A, x) as number[];
+      const flat = Float64Array.from(A.flat());
+      const dense = new Float64Array(rows);
+      const sparse = new Float64Array(rows);
+      matvecRect(flat, rows, N, x, dense);
+      matvecCompressed(compress(flat, rows, N), x, sparse);
+      want.forEach((v, i) => {
+        expect(Math.abs(dense[i] - v), `${rows}×${N} row ${i}`).toBeLessThan(1e-14);
+        expect(Math.abs(sparse[i] - v), `${rows}×${N} row ${i}`).toBeLessThan(1e-14);
+      });
+    }
+  });
+
+  it('ladderFor reuses a ladder only for the same generator entry by entry, and a changed entry gets its own exponential', () => {
+    const r = lcg(4242);
+    const N = 6;
+    const M = Array.from({ length: N }, () => Array.from({ length: N }, () => 4 * r() - 2));
+    const a = ladderFor(Float64Array.from(M.flat()), N, 0.1);
+    expect(ladderFor(Float64Array.from(M.flat()), N, 0.1)).toBe(a);
+    expect(ladderFor(Float64Array.from(M.flat()), N, 0.2)).not.toBe(a);
+    // one entry changed by 1e-9 (as a slider step changes a gain): a new ladder, checked against mathjs expm
+    const M2 = M.map((row) => [...row]);
+    M2[2][3] += 1e-9;
+    const b = ladderFor(Float64Array.from(M2.flat()), N, 0.1);
+    expect(b).not.toBe(a);
+    const z = Float64Array.from({ length: N }, () => 2 * r() - 1);
+    const want = (expm(matrix(M2.map((row) => row.map((v) => v * 0.1)))) as Matrix).toArray() as number[][];
+    const got = new Float64Array(N);
+    b.apply(0.1, z, got);
+    want.forEach((row, i) => expect(Math.abs(got[i] - row.reduce((acc, v, j) => acc + v * z[j], 0))).toBeLessThan(1e-12));
+  });
+});
+
 describe('Hermite history (quintic pieces from values, slopes and curvatures)', () => {
   it('reproduces a polynomial of degree 5 exactly', () => {
     // p(t) = 1 − 2t + 0.5t³ − 0.3t⁴ + 0.07t⁵ (chosen here)
@@ -63,6 +109,17 @@ describe('Hermite history (quintic pieces from values, slopes and curvatures)', 
     for (let k = 0; k < 5; k++)
       h.push(k * 0.7, (k + 1) * 0.7, p(k * 0.7), d(k * 0.7), e(k * 0.7), p((k + 1) * 0.7), d((k + 1) * 0.7), e((k + 1) * 0.7));
     for (let t = 0.01; t < 3.5; t += 0.0371) expect(Math.abs(h.value(t, t) - p(t))).toBeLessThan(1e-12);
+  });
+
+  it('keeps every piece when it grows past the capacity it was given', () => {
+    // the same polynomial as above over 40 pieces in a history sized for 16
+    const p = (t: number) => 1 - 2 * t + 0.5 * t ** 3 - 0.3 * t ** 4 + 0.07 * t ** 5;
+    const d = (t: number) => -2 + 1.5 * t ** 2 - 1.2 * t ** 3 + 0.35 * t ** 4;
+    const e = (t: number) => 3 * t - 3.6 * t ** 2 + 1.4 * t ** 3;
+    const h = new HermiteHistory(16);
+    for (let k = 0; k < 40; k++)
+      h.push(k * 0.1, (k + 1) * 0.1, p(k * 0.1), d(k * 0.1), e(k * 0.1), p((k + 1) * 0.1), d((k + 1) * 0.1), e((k + 1) * 0.1));
+    for (let t = 0.013; t < 4; t += 0.0517) expect(Math.abs(h.value(t, t) - p(t))).toBeLessThan(1e-12);
   });
 
   it('has error of order 6: within |y⁽⁶⁾|·h⁶/46080 on e^(−t), and 64× smaller when h halves', () => {

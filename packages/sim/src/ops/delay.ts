@@ -84,14 +84,11 @@ export const delayOp = defineOp({
     for (let i = 0; i < WINDOW_TERMS; i++) times[i] = a + NODES[i] * h;
     nd.hist!.sample(times, piece - nd.delay, values, 0);
     const W = scaledTaylor(h);
-    const v0 = values[0],
-      v1 = values[1],
-      v2 = values[2],
-      v3 = values[3],
-      v4 = values[4],
-      v5 = values[5];
-    for (let k = 0, o = 0; k < WINDOW_TERMS; k++, o += WINDOW_TERMS)
-      z[at + k] = W[o] * v0 + W[o + 1] * v1 + W[o + 2] * v2 + W[o + 3] * v3 + W[o + 4] * v4 + W[o + 5] * v5;
+    for (let k = 0; k < WINDOW_TERMS; k++) {
+      let acc = 0;
+      for (let i = 0; i < WINDOW_TERMS; i++) acc += W[k * WINDOW_TERMS + i] * values[i];
+      z[at + k] = acc;
+    }
   },
   steady: (nd, t) => nd.delay === 0 || nd.hist!.steadyOver(t - nd.delay),
 });
