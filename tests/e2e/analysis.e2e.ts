@@ -160,6 +160,36 @@ describe('analysis views', () => {
     expect(v1).toBeGreaterThan(s0.sweep!.value * 1.5);
     const p1 = await chartPoles();
     expect(sortPoles(p1)).toEqual(sortPoles(s1.poles!));
+    // The poles are drawn on the chart's mark layer (not through its option): a mark where the
+    // chart maps each pole that lies inside the drawing area, and none for poles outside it.
+    const drawn = await page.evaluate(() => {
+      const h = (
+        window as unknown as {
+          __loopwright: {
+            analysis: {
+              markPoints(n: string): { id: string; x: number; y: number }[];
+              locusPagePoint(re: number, im: number): { x: number; y: number } | null;
+            };
+          };
+        }
+      ).__loopwright.analysis;
+      return { marks: h.markPoints('locus'), box: document.querySelector('[data-chart="locus"]')!.getBoundingClientRect().toJSON() };
+    });
+    const inside: { x: number; y: number }[] = [];
+    for (const p of p1) {
+      const at = await page.evaluate(
+        ([re, im]) =>
+          (
+            window as unknown as { __loopwright: { analysis: { locusPagePoint(re: number, im: number): { x: number; y: number } | null } } }
+          ).__loopwright.analysis.locusPagePoint(re, im),
+        [p.re, p.im],
+      );
+      if (at && at.x > drawn.box.left && at.x < drawn.box.right && at.y > drawn.box.top && at.y < drawn.box.bottom) inside.push(at);
+    }
+    const poleMarks = drawn.marks.filter((m) => m.id !== 'hover');
+    expect(inside.length).toBeGreaterThan(0);
+    expect(poleMarks.length).toBeLessThanOrEqual(p1.length);
+    for (const at of inside) expect(Math.min(...poleMarks.map((m) => Math.hypot(m.x - at.x, m.y - at.y)))).toBeLessThan(1);
     // Some pole moved by more than 1 % of its size…
     const moved = p1.filter((p) => Math.min(...p0.map((q) => dist(p, q))) > 0.01 * Math.hypot(p.re, p.im));
     expect(moved.length).toBeGreaterThan(0);

@@ -7,23 +7,35 @@ import { useResultsStore, resultsComplete } from './results-store.ts';
 import { useAnalysisStore } from './analysis-store.ts';
 import { currentInputs } from './driver.ts';
 import { engineParameterName } from '@loopwright/study';
-import { chartInstance, chartNames } from '../views/chart-registry.ts';
+import { chartInstance, chartNames, chartShownOption } from '../views/chart-registry.ts';
+import { drawnMarks } from '../views/mark-layer.ts';
 
 export interface AnalysisHook {
   state(): unknown;
-  /** ECharts getOption() of a chart on screen (functions dropped). */
+  /** ECharts getOption() of a chart on screen with its marks as series (functions dropped). */
   chartOption(name: string): unknown;
   chartNames(): string[];
   /** The drawn extent [min, max] of each y-axis of a chart (what its panels show). */
   yExtents(name: string): [number, number][] | null;
   /** Page coordinates (CSS px) of the s-plane point (re, im) on the locus chart. */
   locusPagePoint(re: number, im: number): { x: number; y: number } | null;
+  /** Page coordinates (CSS px) of the marks a chart's mark layer has drawn (mark-layer.ts). */
+  markPoints(name: string): { id: string; x: number; y: number }[];
   latencies(): number[];
   /** Per drawn generation: [input → last engine reply, last reply → drawn], ms. */
   breakdown(): [number, number][];
 }
 
-const json = <T>(x: T): T => JSON.parse(JSON.stringify(x, (_k, v) => (typeof v === 'function' ? undefined : v))) as T;
+/** A plain copy: functions dropped, a series' typed-array data as rows of its dimensions ([t, y] pairs). */
+const json = <T>(x: T): T =>
+  JSON.parse(
+    JSON.stringify(x, function (this: { dimensions?: unknown[] }, _k, v: unknown) {
+      if (typeof v === 'function') return undefined;
+      if (!(v instanceof Float64Array)) return v;
+      const d = Math.max(1, this.dimensions?.length ?? 1);
+      return Array.from({ length: Math.floor(v.length / d) }, (_, i) => Array.from(v.subarray(i * d, i * d + d)));
+    }),
+  ) as T;
 
 export function installAnalysisHook(): void {
   const hook: AnalysisHook = {
@@ -63,8 +75,8 @@ export function installAnalysisHook(): void {
       });
     },
     chartOption: (name) => {
-      const c = chartInstance(name);
-      return c ? json(c.getOption()) : null;
+      const o = chartShownOption(name);
+      return o ? json(o) : null;
     },
     chartNames,
     yExtents(name) {
@@ -85,6 +97,12 @@ export function installAnalysisHook(): void {
       const p = c.convertToPixel({ gridIndex: 0 }, [re, im]) as number[];
       const rect = c.getDom().getBoundingClientRect();
       return { x: rect.left + p[0], y: rect.top + p[1] };
+    },
+    markPoints(name) {
+      const c = chartInstance(name);
+      if (!c) return [];
+      const rect = c.getDom().getBoundingClientRect();
+      return drawnMarks(c).map((m) => ({ id: m.id, x: rect.left + m.x, y: rect.top + m.y }));
     },
     latencies: () => [...useResultsStore.getState().latencies],
     breakdown: () => useResultsStore.getState().breakdown.map((b) => [...b] as [number, number]),

@@ -1,17 +1,21 @@
 /**
- * One ECharts chart in a React component: created once, given a new option on every render
- * (notMerge, no animation), resized with its box, registered by name for export and tests.
- * `onSize` reports the drawing size so views can fit axes (the locus keeps equal aspect).
+ * One ECharts chart in a React component: created once, given each new option (in full,
+ * without animation, unless only its series' data changed: option-update.ts), resized with its
+ * box, registered by name for export and tests. `marks` move without touching the option
+ * (mark-layer.ts). `onSize` reports the drawing size so views can fit axes (the locus keeps
+ * equal aspect).
  */
 import { useEffect, useLayoutEffect, useRef } from 'react';
 import { echarts, type ChartInstance, type ChartOption } from './echarts-setup.ts';
 import { registerChart, unregisterChart } from './chart-registry.ts';
+import { MarkLayer, type MarkSeries } from './mark-layer.ts';
+import { dataPatch, optionShape } from './option-update.ts';
 
 export interface ChartProps {
   name: string;
   option: ChartOption;
-  /** A merge patch applied over `option` (cheap updates of a few series by id). */
-  patch?: ChartOption;
+  /** Scatter marks on a layer of their own above the chart, moved without a new option. */
+  marks?: MarkSeries[];
   height?: number | string;
   onSize?(size: { width: number; height: number }): void;
   /** Pixel-level pointer events on the whole drawing surface (offsetX/offsetY). */
@@ -25,6 +29,9 @@ export interface ChartProps {
 export function Chart(props: ChartProps) {
   const box = useRef<HTMLDivElement>(null);
   const inst = useRef<ChartInstance | null>(null);
+  const layer = useRef<MarkLayer | null>(null);
+  /** The shape (optionShape) of the option the chart holds. */
+  const shape = useRef('');
   const handlers = useRef(props);
   // The latest handlers, for the chart's own event callbacks (refs are written after render, not during it).
   useLayoutEffect(() => {
@@ -35,6 +42,7 @@ export function Chart(props: ChartProps) {
     const el = box.current!;
     const chart = echarts.init(el, null, { renderer: 'canvas' });
     inst.current = chart;
+    layer.current = new MarkLayer(chart);
     const zr = chart.getZr();
     zr.on('mousemove', (e: { offsetX: number; offsetY: number }) => handlers.current.onPointerMove?.(chart, e.offsetX, e.offsetY));
     zr.on('globalout', () => handlers.current.onPointerLeave?.(chart));
@@ -44,6 +52,7 @@ export function Chart(props: ChartProps) {
     });
     const ro = new ResizeObserver(() => {
       chart.resize();
+      layer.current?.redraw();
       handlers.current.onSize?.({ width: el.clientWidth, height: el.clientHeight });
     });
     ro.observe(el);
@@ -53,23 +62,29 @@ export function Chart(props: ChartProps) {
       unregisterChart(handlers.current.name, chart);
       chart.dispose();
       inst.current = null;
+      layer.current = null;
+      shape.current = '';
     };
   }, []);
 
   useEffect(() => {
     const chart = inst.current;
     if (!chart) return;
-    chart.setOption({ animation: false, ...(props.option as object) }, { notMerge: true, lazyUpdate: false });
-    if (handlers.current.patch) chart.setOption(handlers.current.patch, { notMerge: false, lazyUpdate: false });
-    registerChart(props.name, chart, props.option, handlers.current.patch);
+    const next = optionShape(props.option);
+    if (next === shape.current) chart.setOption(dataPatch(props.option), { notMerge: false, lazyUpdate: false });
+    else chart.setOption({ animation: false, ...(props.option as object) }, { notMerge: true, lazyUpdate: false });
+    shape.current = next;
+    // the axes may have moved
+    layer.current?.draw(handlers.current.marks);
+    registerChart(props.name, chart, props.option, handlers.current.marks);
   }, [props.option, props.name]);
 
   useEffect(() => {
     const chart = inst.current;
-    if (!chart || !props.patch) return;
-    chart.setOption(props.patch, { notMerge: false, lazyUpdate: false });
-    registerChart(props.name, chart, props.option, props.patch);
-  }, [props.patch]); // eslint-disable-line react-hooks/exhaustive-deps
+    if (!chart) return;
+    layer.current?.draw(props.marks);
+    registerChart(props.name, chart, props.option, props.marks);
+  }, [props.marks]); // eslint-disable-line react-hooks/exhaustive-deps
 
   return <div ref={box} className="lw-chart" data-chart={props.name} style={{ width: '100%', height: props.height ?? 320 }} />;
 }

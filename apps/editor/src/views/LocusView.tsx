@@ -19,7 +19,7 @@ import {
 import { formatComplex, locusFocus, originAt, type Cx, type PoleOrigin } from '@loopwright/study';
 import { fmt } from '../analysis/sweep.ts';
 import { ZPlane } from './SampledLoopPanel.tsx';
-import { locusBox, locusLivePatch, locusOption } from './locus-option.ts';
+import { locusBox, locusMarks, locusOption } from './locus-option.ts';
 import { ChartFrame } from './ChartFrame.tsx';
 import { RootsTable } from './RootsTable.tsx';
 import { commitSweepValue, useSweepChoice, widenRangeFor } from './SweepBar.tsx';
@@ -146,18 +146,16 @@ export function LocusView({ pal }: { pal: Palette }) {
     () =>
       locusOption({
         locus,
-        current: [],
         pinned: pinned?.poles ?? null,
         win,
         pal,
         dampingGuides: damping,
         frequencyGuides: freq,
         parameterLabel: locusLabel,
-        hover: null,
       }),
     [locus, pinned, win, pal, damping, freq, locusLabel],
   );
-  const patch = useMemo(() => locusLivePatch(current, hover ? { s: hover.s } : null, origin), [current, hover, origin]);
+  const marks = useMemo(() => locusMarks(current, hover ? { s: hover.s } : null, origin, pal), [current, hover, origin, pal]);
 
   const hitAt = (x: number, y: number): LocusHit | null => {
     if (!locus) return null;
@@ -208,7 +206,7 @@ export function LocusView({ pal }: { pal: Palette }) {
         title={`Locus — ${locus ? locusLabel : (choice?.label ?? 'no sweep')}`}
         background={pal.background}
         option={option}
-        patch={patch}
+        marks={marks}
         onSize={setSize}
         extra={
           locus ? (

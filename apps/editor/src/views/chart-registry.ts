@@ -1,20 +1,21 @@
 /**
- * The charts on screen, by name, with the option each was last given. Export (PNG from the
- * canvas instance, SVG from a throw-away SVG-renderer instance fed the same option) and the
- * test hook read charts from here.
+ * The charts on screen, by name, with the option and marks each was last given. Export (PNG
+ * from the canvas instance, SVG from a throw-away SVG-renderer instance fed the same option and
+ * marks) and the test hook read charts from here.
  */
 import { echarts, type ChartInstance, type ChartOption } from './echarts-setup.ts';
+import { withMarks, type MarkSeries } from './mark-layer.ts';
 
 interface Entry {
   instance: ChartInstance;
   option: ChartOption;
-  patch?: ChartOption;
+  marks?: MarkSeries[];
 }
 
 const charts = new Map<string, Entry>();
 
-export function registerChart(name: string, instance: ChartInstance, option: ChartOption, patch?: ChartOption): void {
-  charts.set(name, { instance, option, patch });
+export function registerChart(name: string, instance: ChartInstance, option: ChartOption, marks?: MarkSeries[]): void {
+  charts.set(name, { instance, option, marks });
 }
 
 export function unregisterChart(name: string, instance: ChartInstance): void {
@@ -23,6 +24,12 @@ export function unregisterChart(name: string, instance: ChartInstance): void {
 
 export const chartNames = (): string[] => [...charts.keys()];
 export const chartInstance = (name: string): ChartInstance | undefined => charts.get(name)?.instance;
+
+/** What a chart on screen shows, as one option: its instance's option with its marks (mark-layer.ts) added. */
+export function chartShownOption(name: string): ChartOption | null {
+  const e = charts.get(name);
+  return e ? withMarks(e.instance.getOption() as ChartOption, e.marks) : null;
+}
 
 /** PNG data URL of a chart as drawn (2× pixel ratio, opaque background). */
 export function chartPngDataUrl(name: string, background = '#ffffff'): string | null {
@@ -39,8 +46,7 @@ export function chartSvgText(name: string, background = '#ffffff'): string | nul
   const height = e.instance.getHeight() || 500;
   const svg = echarts.init(null, null, { renderer: 'svg', ssr: true, width, height });
   try {
-    svg.setOption({ ...(e.option as object), backgroundColor: background, animation: false });
-    if (e.patch) svg.setOption(e.patch);
+    svg.setOption({ ...(withMarks(e.option, e.marks) as object), backgroundColor: background, animation: false });
     return svg.renderToSVGString();
   } finally {
     svg.dispose();

@@ -1,7 +1,7 @@
 /**
  * The Locus chart as an ECharts option (pure: data + window in, option out). Branches are
- * lines, open-loop poles ×, zeros ○, the current closed-loop poles filled diamonds (those of a
- * Padé approximant hollow), pinned ones hollow grey diamonds; asymptotes dashed from the
+ * lines, open-loop poles ×, zeros ○, pinned closed-loop poles hollow grey diamonds (the current
+ * ones are marks on a layer of their own: `locusMarks`); asymptotes dashed from the
  * centroid; breakaways and axis crossings labelled with their gains; departure and arrival
  * angles as arrows; optional constant-ζ rays and constant-ωn arcs.
  */
@@ -10,6 +10,7 @@ import { fmt } from '../analysis/sweep.ts';
 import type { PlaneWindow, PlotBox } from '../analysis/locus-geometry.ts';
 import type { Palette } from './palette.ts';
 import type { ChartOption } from './echarts-setup.ts';
+import type { MarkSeries } from './mark-layer.ts';
 
 /** A filled × (ECharts path symbols are filled, so the cross is drawn as a polygon). */
 export const CROSS_SYMBOL = 'path://M2,0L5,3L8,0L10,2L7,5L10,8L8,10L5,7L2,10L0,8L3,5L0,2Z';
@@ -27,16 +28,12 @@ export function locusBox(width: number, height: number): PlotBox {
 
 export interface LocusOptionInput {
   locus: LocusData | null;
-  current: Cx[];
-  /** Current closed-loop poles that belong to a Padé approximant (drawn hollow, apart). */
-  currentPade?: Cx[];
   pinned: Cx[] | null;
   win: PlaneWindow;
   pal: Palette;
   dampingGuides: boolean;
   frequencyGuides: boolean;
   parameterLabel: string;
-  hover: { s: Cx } | null;
 }
 
 const pts = (xs: readonly Cx[]) => xs.map((p) => [p.re, p.im]);
@@ -286,40 +283,6 @@ export function locusOption(inp: LocusOptionInput): ChartOption {
       data: pts(inp.pinned),
     });
   }
-  series.push({
-    type: 'scatter',
-    id: 'closed-loop-poles',
-    name: 'closed-loop poles',
-    silent: true,
-    z: 8,
-    symbol: 'diamond',
-    symbolSize: 12,
-    itemStyle: { color: pal.current, borderColor: pal.background, borderWidth: 1 },
-    data: pts(inp.current),
-  });
-  series.push({
-    type: 'scatter',
-    id: 'closed-loop-poles-pade',
-    name: 'poles of a Padé approximant',
-    silent: true,
-    z: 8,
-    symbol: 'diamond',
-    symbolSize: 11,
-    itemStyle: { color: pal.background, borderColor: pal.current, borderWidth: 1.5 },
-    data: pts(inp.currentPade ?? []),
-  });
-  series.push({
-    type: 'scatter',
-    id: 'hover',
-    name: 'hover',
-    silent: true,
-    z: 9,
-    symbol: 'circle',
-    symbolSize: 9,
-    itemStyle: { color: 'rgba(0,0,0,0)', borderColor: pal.text, borderWidth: 2 },
-    data: inp.hover ? [[inp.hover.s.re, inp.hover.s.im]] : [],
-  });
-
   // Ticks on multiples of the step (ECharts would start them at the window edge, which is
   // not a round number in an equal-aspect window); grid lines drawn as mark lines to match.
   const ticks = (min: number, max: number) => {
@@ -393,17 +356,43 @@ function labelOnRay(win: PlaneWindow, th: number): { coord: number[] }[] {
 }
 
 /**
- * What changes while the slider moves or the pointer hovers: the current poles and the hover
- * marker, as a merge patch over the base option (series matched by id), so that the rest of
- * the locus is not rebuilt on every slider step.
+ * What changes while the slider moves or the pointer hovers: the current closed-loop poles
+ * (those of a Padé approximant hollow, apart) and the hover ring, as marks on their own layer
+ * (mark-layer.ts), so that the rest of the locus is not redrawn on every slider step.
  */
-export function locusLivePatch(current: Cx[], hover: { s: Cx } | null, origin: readonly PoleOrigin[] = []): ChartOption {
-  const pade = current.filter((_, i) => origin[i] === 'approximant');
-  return {
-    series: [
-      { id: 'closed-loop-poles', data: pts(current.filter((_, i) => origin[i] !== 'approximant')) },
-      { id: 'closed-loop-poles-pade', data: pts(pade) },
-      { id: 'hover', data: hover ? [[hover.s.re, hover.s.im]] : [] },
-    ],
-  };
+export function locusMarks(current: Cx[], hover: { s: Cx } | null, origin: readonly PoleOrigin[], pal: Palette): MarkSeries[] {
+  const mark = (
+    id: string,
+    name: string,
+    symbol: MarkSeries['symbol'],
+    symbolSize: number,
+    itemStyle: MarkSeries['itemStyle'],
+    data: number[][],
+  ) => ({ type: 'scatter', id, name, silent: true, symbol, symbolSize, itemStyle, data }) satisfies MarkSeries;
+  return [
+    mark(
+      'closed-loop-poles',
+      'closed-loop poles',
+      'diamond',
+      12,
+      { color: pal.current, borderColor: pal.background, borderWidth: 1 },
+      pts(current.filter((_, i) => origin[i] !== 'approximant')),
+    ),
+    mark(
+      'closed-loop-poles-pade',
+      'poles of a Padé approximant',
+      'diamond',
+      11,
+      { color: pal.background, borderColor: pal.current, borderWidth: 1.5 },
+      pts(current.filter((_, i) => origin[i] === 'approximant')),
+    ),
+    mark(
+      'hover',
+      'hover',
+      'circle',
+      9,
+      { color: 'rgba(0,0,0,0)', borderColor: pal.text, borderWidth: 2 },
+      hover ? [[hover.s.re, hover.s.im]] : [],
+    ),
+  ];
 }
