@@ -118,6 +118,19 @@ describe('parseTransferFunction: values', () => {
     expect(errorOf(() => parseScalar('exp(-s)', {})).details.position).toBe(5);
   });
 
+  it('a text parsed again (kept parse tree) takes the values of its new parameters, and its errors again', () => {
+    for (const kv of [1.5, 4, -2]) expect(parseScalar('2*Kv', { Kv: kv })).toBe(2 * kv);
+    for (const p of [
+      { Kp: 2, T: 0.5 },
+      { Kp: 3, T: 0.25 },
+    ]) {
+      const tf = parseTransferFunction('Kp/(T*s + 1)', p);
+      for (const s of points) expect(revalReal(tf.rational, s)).toBeCloseTo(p.Kp / (p.T * s + 1), 12);
+    }
+    // a name missing from the parameters is found by the evaluation, every time, at its place
+    for (let i = 0; i < 2; i++) expect(errorOf(() => parseScalar('1 + 2*Kv', {})).details.position).toBe(6);
+  });
+
   it('expressionParameters lists names once, without s and exp', () => {
     expect(expressionParameters('K*exp(-T*s)/(tau*s + 1) + K')).toEqual(['K', 'T', 'tau']);
     expect(expressionParameters('Kc(1 + 1/(Ti s))')).toEqual(['Kc', 'Ti']);

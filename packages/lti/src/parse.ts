@@ -141,7 +141,16 @@ function syntaxError(text: string, e: unknown): never {
   return fail(`syntax error ${what}: ${clean}`, pos, pos >= text.length ? 0 : 1);
 }
 
+/**
+ * Texts parsed before (the trees are only read): every run of a slider drag resolves the same
+ * parameter expressions again. Emptied when full; a text that fails is never kept.
+ */
+const TREES = new Map<string, { node: MathNode; tokens: Token[] }>();
+const TREES_MAX = 1024;
+
 function parseTree(text: string): { node: MathNode; tokens: Token[] } {
+  const seen = typeof text === 'string' ? TREES.get(text) : undefined;
+  if (seen) return seen;
   if (typeof text !== 'string') fail('expression must be text', 0, 0);
   if (text.length > MAX_EXPRESSION_LENGTH) {
     fail(
@@ -160,7 +169,10 @@ function parseTree(text: string): { node: MathNode; tokens: Token[] } {
     if (e instanceof InputError) throw e;
     syntaxError(text, e);
   }
-  return { node: node!, tokens };
+  const tree = { node: node!, tokens };
+  if (TREES.size >= TREES_MAX) TREES.clear();
+  TREES.set(text, tree);
+  return tree;
 }
 
 /** A value during evaluation: rational part times e^(−s·delay). */
