@@ -285,7 +285,8 @@ export function responseStudy(d: Diagram, req: RunRequest = {}, ctx: RunContext 
   // Progress: the run as drawn, then the linear overlay, each its share of the whole.
   const share = (from: number, size: number) => (ctx.onProgress ? { onProgress: (f: number) => ctx.onProgress!(from + size * f) } : {});
   const run = traceOf(simulate(model, { ...common, linear: linearOnly, ...share(0, overlay ? 0.5 : 1) }));
-  const linear = overlay ? traceOf(simulate(model, { ...common, linear: true, ...share(0.5, 0.5) })) : null;
+  // The overlay is drawn, never measured: no figures, so its run locates no turning points either.
+  const linear = overlay ? traceOf(simulate(model, { ...common, linear: true, metricsFor: [], ...share(0.5, 0.5) })) : null;
   return {
     run,
     model: linearOnly ? 'linear' : 'as-drawn',

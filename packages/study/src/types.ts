@@ -289,7 +289,7 @@ export interface RunTrace {
   timeReached: number;
   events: { time: number; kind: string; block: string }[];
   stats: { steps: number; accepted: number; rejected: number; evaluations: number; segments: number; wallMs: number };
-  /** The simulator's figures per probe (null: not measurable) and per limiting block. */
+  /** The simulator's figures per probe (null: not measurable; none for a linear overlay, which is only drawn) and per limiting block. */
   probeFigures: Record<string, ProbeFigures | null>;
   actuatorFigures: Record<string, { timeInSaturation: number; peakEffort: number; limitHits: number }>;
 }
