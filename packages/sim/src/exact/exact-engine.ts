@@ -39,6 +39,14 @@ export class ExactEngine implements SegmentEngine {
   private readonly hist: HermiteHistory[];
   /** Values, slopes and second derivatives of each dead time's input at the current step start. */
   private readonly hStart: Float64Array;
+  /**
+   * The step being taken: [start, end, length, segment end]. The per-step helpers read their
+   * times from here: V8 boxes every double passed to a call it does not inline, and these run
+   * at every step (with two dead times, 10–15 allocations a step once added up).
+   */
+  private readonly T = new Float64Array(4);
+  /** [t, h, piece] for the exosystems' fill (ops' exoState). */
+  private readonly when = new Float64Array(3);
   private readonly z0: Float64Array;
   private readonly z1: Float64Array;
   private readonly zt: Float64Array;
@@ -167,11 +175,13 @@ export class ExactEngine implements SegmentEngine {
     return sys;
   }
 
-  /** Fills the exosystem blocks of z for a step [t, t + h]. */
-  private fillExo(z: Float64Array, t: number, h: number): void {
+  /** Fills the exosystem blocks of z for a step [t, t + h] (t and h in `when`, which this completes). */
+  private fillExo(z: Float64Array): void {
     const net = this.rs.net;
     const ex = net.exoNodes;
-    for (let j = 0; j < ex.length; j++) ex[j].op.exoState(ex[j], t, h, net.piece, z, this.lay.at[j]);
+    const when = this.when;
+    when[2] = net.piece;
+    for (let j = 0; j < ex.length; j++) ex[j].op.exoState(ex[j], when, z, this.lay.at[j]);
   }
 
   /** Time of lattice point k (a grid time g·dt exactly when it is one). */
@@ -181,12 +191,15 @@ export class ExactEngine implements SegmentEngine {
   }
 
   /**
-   * Records the output grid in (tc, tn] — but not at the segment end, which the loop records —
+   * Records the output grid in (tc, tn] (the step in T) — but not at the segment end, which the loop records —
    * from the step's start state z0 (a regular step from lattice point k − 1: the grid rows times
    * Φ, or times the rung product for an offset j·h0/q) or its end state z1 (an odd step).
    */
-  private recordGrid(sys: ModeSystem, tc: number, tn: number, k: number, regular: boolean, tEnd: number): void {
+  private recordGrid(sys: ModeSystem, k: number, regular: boolean): void {
     const { rec, s } = this.rs;
+    const tc = this.T[0];
+    const tn = this.T[1];
+    const tEnd = this.T[3];
     const N = this.lay.N;
     const dt = s.dt;
     const tol = 1e-12 * Math.max(1, Math.abs(tn));
@@ -227,7 +240,7 @@ export class ExactEngine implements SegmentEngine {
     let first = true;
     this.turning.segmentStart();
     while (tc < tEnd - endTol) {
-      if (budget.stepsSpent(tc)) return { end: tc, restart: false, guard: -1 };
+      if (this.steps >= s.maxSteps && budget.stepsSpent(tc)) return { end: tc, restart: false, guard: -1 };
       let k = Math.floor((tc / this.h0) * (1 + 1e-12)) + 1;
       let tn = this.lattice(k);
       if (tn - tc < 1e-9 * this.h0) tn = this.lattice(++k); // tc is a lattice point up to round-off
@@ -242,7 +255,14 @@ export class ExactEngine implements SegmentEngine {
       }
 
       // a regular step passes h0 itself (tn − tc differs from it in the last bits from step to step)
-      this.fillExo(z0, tc, regular ? this.h0 : h);
+      this.when[0] = tc;
+      this.when[1] = regular ? this.h0 : h;
+      this.fillExo(z0);
+      const T = this.T;
+      T[0] = tc;
+      T[1] = tn;
+      T[2] = h;
+      T[3] = tEnd;
       if (first) {
         // values at the segment start: guard slopes, dead-time inputs (right limits), samples
         matvecRect(sys.R, sys.rows, N, z0, out);
@@ -275,23 +295,25 @@ export class ExactEngine implements SegmentEngine {
       }
 
       if (ng > 0) {
-        this.crossing(sys, tc, h, regular);
+        this.crossing(sys, regular);
         if (this.hitGuard >= 0) {
           const te = this.hitTime;
           const ze = this.zt;
           sys.ladder.apply(te - tc, z0, ze);
           matvecRect(sys.R, sys.rows, N, ze, out);
-          this.pushHistories(tc, te);
-          this.afterStep(te, te - tc, true);
+          T[1] = te;
+          T[2] = te - tc;
+          this.pushHistories();
+          this.afterStep(true);
           for (let i = 0; i < n; i++) x[i] = ze[i];
           budget.reached = te;
           return { end: te, restart: true, guard: this.hitGuard };
         }
       }
 
-      this.pushHistories(tc, tn);
-      this.recordGrid(sys, tc, tn, k, regular, tEnd);
-      this.afterStep(tn, h, tn >= tEnd - endTol);
+      this.pushHistories();
+      this.recordGrid(sys, k, regular);
+      this.afterStep(tn >= tEnd - endTol);
       let calm = true;
       for (let i = 0; i < n; i++) {
         const v = xe[i];
@@ -319,8 +341,10 @@ export class ExactEngine implements SegmentEngine {
     return { end: tEnd, restart: false, guard: -1 };
   }
 
-  /** Actuator peaks and turning-point samples from `out` at the end of a step of length h that started from z0. */
-  private afterStep(tEnd: number, h: number, last: boolean): void {
+  /** Actuator peaks and turning-point samples from `out` at the end of the step in T (from z0). */
+  private afterStep(last: boolean): void {
+    const tEnd = this.T[1];
+    const h = this.T[2];
     const tr = this.trackRows;
     if (tr.length > 0) {
       for (let j = 0; j < tr.length; j++) this.sigOut[tr[j]] = this.out[this.oS + this.trackAt[j]];
@@ -329,8 +353,8 @@ export class ExactEngine implements SegmentEngine {
     this.turning.sample(this.out, this.oS, tEnd, h, last);
   }
 
-  /** Appends [a, b] to every dead time's history: the start values kept from the last step, the end values from `out`. */
-  private pushHistories(a: number, b: number): void {
+  /** Appends the step in T to every dead time's history: the start values kept from the last step, the end values from `out`. */
+  private pushHistories(): void {
     const s = this.rs.s;
     const out = this.out;
     const hs = this.hStart;
@@ -338,7 +362,7 @@ export class ExactEngine implements SegmentEngine {
       const o = this.oD + 3 * d;
       const h = this.hist[d];
       h.quietTol = QUIET * (s.atol + s.rtol * h.maxAbs);
-      h.push(a, b, hs[3 * d], hs[3 * d + 1], hs[3 * d + 2], out[o], out[o + 1], out[o + 2]);
+      h.pushFrom(this.T, 0, hs, 3 * d, out, o);
       hs[3 * d] = out[o];
       hs[3 * d + 1] = out[o + 1];
       hs[3 * d + 2] = out[o + 2];
@@ -346,13 +370,15 @@ export class ExactEngine implements SegmentEngine {
   }
 
   /**
-   * The earliest guard crossing in the step from z0 (at tc; values gPrev, slopes pPrev) to its
+   * The earliest guard crossing in the step in T from z0 (at tc; values gPrev, slopes pPrev) to its
    * end (values and slopes in `out`): at the end; or, for a guard near enough to zero that its
    * slopes could carry it there within the step, at the mid-step point of a regular step or
    * inside a dip of the cubic through the exact values and slopes. Located on the exact
    * solution; sets hitGuard/hitTime.
    */
-  private crossing(sys: ModeSystem, tc: number, h: number, regular: boolean): void {
+  private crossing(sys: ModeSystem, regular: boolean): void {
+    const tc = this.T[0];
+    const h = this.T[2];
     const N = this.lay.N;
     const ng = this.gPrev.length;
     const out = this.out;
@@ -377,7 +403,9 @@ export class ExactEngine implements SegmentEngine {
         gb = g1;
       } else {
         const lo = Math.min(ga, g1);
-        if ((Math.abs(pa) + Math.abs(p1)) * h <= lo && cubicMin(h, ga, pa, g1, p1) >= 0.5 * lo) continue; // far from zero
+        // far from zero: the cubic through the ends' values and slopes then stays above 23/27 of
+        // the smaller value (its slope terms are at most 4/27·h·|p| each), so no dip is possible
+        if ((Math.abs(pa) + Math.abs(p1)) * h <= lo) continue;
         if (regular) {
           // the mid-step point, then dips of the cubic in each half
           if (!haveMid) {
@@ -472,7 +500,9 @@ export class ExactEngine implements SegmentEngine {
     const ex = net.exoNodes;
     for (let j = 0; j < ex.length; j++) if (!ex[j].op.steady(ex[j], tc, net.piece)) return false;
     const z0 = this.z0;
-    this.fillExo(z0, tc, this.h0);
+    this.when[0] = tc;
+    this.when[1] = this.h0;
+    this.fillExo(z0);
     const N = this.lay.N;
     for (let i = 0; i < this.lay.n; i++) {
       const dx = rowDot(sys.M, i, N, z0);
@@ -552,11 +582,4 @@ function cubicArgMin(h: number, ga: number, pa: number, gb: number, pb: number):
   const s1 = (-c2 + r) / (3 * c3);
   const s2 = (-c2 - r) / (3 * c3);
   return 2 * c2 + 6 * c3 * s1 > 0 ? s1 : s2;
-}
-
-/** The smallest value of that cubic on [0, 1]. */
-function cubicMin(h: number, ga: number, pa: number, gb: number, pb: number): number {
-  const sig = cubicArgMin(h, ga, pa, gb, pb);
-  const ends = Math.min(ga, gb);
-  return sig > 0 && sig < 1 ? Math.min(ends, cubicAt(h, ga, pa, gb, pb, sig)) : ends;
 }

@@ -15,6 +15,7 @@ export class HermiteHistory implements SignalHistory {
   private ends: Float64Array;
   private coef: Float64Array;
   private count = 0;
+  private readonly args = new Float64Array(8);
   private cursor = 0;
   maxAbs = 0;
   /** Changes smaller than this count as still (quiescence). */
@@ -33,6 +34,32 @@ export class HermiteHistory implements SignalHistory {
 
   /** Appends [a, b] from the value, slope and second derivative at each end (right limits at a, left limits at b). */
   push(a: number, b: number, y0: number, d0: number, e0: number, y1: number, d1: number, e1: number): void {
+    const v = this.args;
+    v[0] = a;
+    v[1] = b;
+    v[2] = y0;
+    v[3] = d0;
+    v[4] = e0;
+    v[5] = y1;
+    v[6] = d1;
+    v[7] = e1;
+    this.pushFrom(v, 0, v, 2, v, 5);
+  }
+
+  /**
+   * `push` with its numbers read from arrays: [a, b] at span[so], the start's value, slope and
+   * second derivative at from[fo], the end's at to[to_]. The engine's per-step form: doubles
+   * passed as arguments to a call that is not inlined are each boxed on the heap.
+   */
+  pushFrom(span: Float64Array, so: number, from: Float64Array, fo: number, to: Float64Array, to_: number): void {
+    const a = span[so];
+    const b = span[so + 1];
+    const y0 = from[fo];
+    const d0 = from[fo + 1];
+    const e0 = from[fo + 2];
+    const y1 = to[to_];
+    const d1 = to[to_ + 1];
+    const e1 = to[to_ + 2];
     const h = b - a;
     if (!(h > 0)) return;
     if (this.count === this.starts.length) {

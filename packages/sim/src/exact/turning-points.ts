@@ -79,25 +79,24 @@ export class TurningPoints {
    * (h = 0, before its first step). `last`: the segment ends here.
    */
   sample(values: Float64Array, offset: number, tEnd: number, h: number, last: boolean): void {
-    for (let r = 0; r < this.rows.length; r++) {
+    // (one loop over both lists, no call per sample: a double passed to a call that is not
+    // inlined is boxed, and this runs at every step end)
+    const rows = this.rows.length;
+    for (let k = 0; k < 2 * rows; k++) {
+      const r = k < rows ? k : k - rows;
+      const b = k < rows ? this.max[r] : this.min[r];
+      const dir = k < rows ? 1 : -1;
       const y = values[offset + r];
-      this.update(this.max[r], y, 1, tEnd, h, last);
-      this.update(this.min[r], y, -1, tEnd, h, last);
+      if (Number.isNaN(b.value) || dir * (y - b.value) > 0) {
+        b.value = y;
+        b.time = tEnd;
+        b.hasL = false;
+        b.hasR = false;
+        b.pending = true;
+        b.pendingHasL = h > 0;
+        if (last) this.settle(b, false);
+      } else if (b.pending && h > 0) this.settle(b, true);
     }
-  }
-
-  private update(b: Best, y: number, dir: number, tEnd: number, h: number, last: boolean): void {
-    if (Number.isNaN(b.value) || dir * (y - b.value) > 0) {
-      b.value = y;
-      b.time = tEnd;
-      b.hasL = false;
-      b.hasR = false;
-      b.pending = true;
-      b.pendingHasL = h > 0;
-      if (last) this.settle(b, false);
-      return;
-    }
-    if (b.pending && h > 0) this.settle(b, true);
   }
 
   /** Copies the steps around a pending best: the step it ended (now `prev`, or `cur` if it ended the segment) and the next one. */

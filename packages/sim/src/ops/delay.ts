@@ -81,8 +81,10 @@ export const delayOp = defineOp({
   exoGenerator: (_nd, M, N, at) => {
     for (let k = 0; k + 1 < WINDOW_TERMS; k++) M[(at + k) * N + at + k + 1] = 1;
   },
-  exoState: (nd, t, h, piece, z, at) => {
-    const a = t - nd.delay;
+  exoState: (nd, when, z, at) => {
+    const h = when[1];
+    const a = when[0] - nd.delay;
+    const piece = when[2];
     for (let i = 0; i < WINDOW_TERMS; i++) times[i] = a + NODES[i] * h;
     nd.hist!.sample(times, piece - nd.delay, values, 0);
     const W = scaledTaylor(h);

@@ -124,9 +124,11 @@ export interface Op {
   exoGenerator(nd: SimNode, M: Float64Array, N: number, at: number, one: number): void;
   /**
    * Exact engine: the exosystem state at the start t of a step of length h (inside the segment
-   * containing `piece`) into z[at …]; the node's output is its first entry.
+   * containing `piece`) into z[at …]; the node's output is its first entry. `when` is
+   * [t, h, piece] (numbers in an array: this is called at every step, and V8 boxes doubles
+   * passed as arguments to a call it does not inline).
    */
-  exoState(nd: SimNode, t: number, h: number, piece: number, z: Float64Array, at: number): void;
+  exoState(nd: SimNode, when: Float64Array, z: Float64Array, at: number): void;
   /** Exact engine: the output stays constant from t up to the next breakpoint (quiescence). */
   steady(nd: SimNode, t: number, piece: number): boolean;
 }

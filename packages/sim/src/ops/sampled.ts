@@ -96,7 +96,7 @@ export const sampledOp = defineOp({
   name: 'sampled',
   output: (nd) => nd.v,
   exoSize: () => 1,
-  exoState: (nd, _t, _h, _piece, z, at) => {
+  exoState: (nd, _when, z, at) => {
     z[at] = nd.v;
   },
 });

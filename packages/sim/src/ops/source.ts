@@ -22,7 +22,9 @@ export const sourceOp = defineOp({
       M[(at + 1) * N + one] = w2 * s.offset;
     }
   },
-  exoState: (nd, t, _h, piece, z, at) => {
+  exoState: (nd, when, z, at) => {
+    const t = when[0];
+    const piece = when[2];
     const s = nd.src!;
     z[at] = sourceValue(s, t, piece);
     if (s.shape === SHAPE_RAMP) z[at + 1] = piece < s.start ? 0 : s.amplitude;
