@@ -381,6 +381,10 @@ describe('analysis views', () => {
         expect(text.trimStart().startsWith('<svg')).toBe(true);
         expect(text.trimEnd().endsWith('</svg>')).toBe(true);
         expect(text).toMatch(/<path|<polyline|<line/);
+        // A legend drawn as HTML on screen is drawn by the chart itself in an export.
+        const legend = await page.locator(`[data-chart="${c}"] ~ [data-legend] .lw-html-legend-name`).allTextContents();
+        if (c === 'response' || c === 'actuator') expect(legend.length).toBeGreaterThan(0);
+        for (const name of legend) expect(text, `${c}.svg names ${name}`).toContain(name);
       }
     }
     await page.getByRole('tab', { name: 'Response' }).click();

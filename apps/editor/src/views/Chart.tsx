@@ -2,20 +2,24 @@
  * One ECharts chart in a React component: created once, given each new option (in full,
  * without animation, unless only its series' data changed: option-update.ts), resized with its
  * box, registered by name for export and tests. `marks` move without touching the option
- * (mark-layer.ts). `onSize` reports the drawing size so views can fit axes (the locus keeps
+ * (mark-layer.ts); `htmlLegend` draws the option's legend as HTML over the chart
+ * (html-legend.tsx). `onSize` reports the drawing size so views can fit axes (the locus keeps
  * equal aspect).
  */
-import { useEffect, useLayoutEffect, useRef } from 'react';
+import { useEffect, useLayoutEffect, useMemo, useRef } from 'react';
 import { echarts, type ChartInstance, type ChartOption } from './echarts-setup.ts';
 import { registerChart, unregisterChart } from './chart-registry.ts';
 import { MarkLayer, type MarkSeries } from './mark-layer.ts';
 import { dataPatch, optionShape } from './option-update.ts';
+import { HtmlLegend, legendEntries, withoutLegend } from './html-legend.tsx';
 
 export interface ChartProps {
   name: string;
   option: ChartOption;
   /** Scatter marks on a layer of their own above the chart, moved without a new option. */
   marks?: MarkSeries[];
+  /** The option's legend as HTML over the chart, not redrawn with each update (exports keep ECharts' own). */
+  htmlLegend?: boolean;
   height?: number | string;
   onSize?(size: { width: number; height: number }): void;
   /** Pixel-level pointer events on the whole drawing surface (offsetX/offsetY). */
@@ -70,21 +74,29 @@ export function Chart(props: ChartProps) {
   useEffect(() => {
     const chart = inst.current;
     if (!chart) return;
-    const next = optionShape(props.option);
-    if (next === shape.current) chart.setOption(dataPatch(props.option), { notMerge: false, lazyUpdate: false });
-    else chart.setOption({ animation: false, ...(props.option as object) }, { notMerge: true, lazyUpdate: false });
+    const screen = props.htmlLegend ? withoutLegend(props.option) : props.option;
+    const next = optionShape(screen);
+    if (next === shape.current) chart.setOption(dataPatch(screen), { notMerge: false, lazyUpdate: false });
+    else chart.setOption({ animation: false, ...(screen as object) }, { notMerge: true, lazyUpdate: false });
     shape.current = next;
     // the axes may have moved
     layer.current?.draw(handlers.current.marks);
-    registerChart(props.name, chart, props.option, handlers.current.marks);
-  }, [props.option, props.name]);
+    registerChart(props.name, chart, props.option, handlers.current.marks, props.htmlLegend);
+  }, [props.option, props.name, props.htmlLegend]);
 
   useEffect(() => {
     const chart = inst.current;
     if (!chart) return;
     layer.current?.draw(props.marks);
-    registerChart(props.name, chart, props.option, props.marks);
+    registerChart(props.name, chart, props.option, props.marks, props.htmlLegend);
   }, [props.marks]); // eslint-disable-line react-hooks/exhaustive-deps
 
-  return <div ref={box} className="lw-chart" data-chart={props.name} style={{ width: '100%', height: props.height ?? 320 }} />;
+  const entries = useMemo(() => (props.htmlLegend ? legendEntries(props.option) : []), [props.option, props.htmlLegend]);
+
+  return (
+    <>
+      <div ref={box} className="lw-chart" data-chart={props.name} style={{ width: '100%', height: props.height ?? 320 }} />
+      {props.htmlLegend && <HtmlLegend option={props.option} entries={entries} />}
+    </>
+  );
 }

@@ -81,6 +81,7 @@ export function ResponseView({ pal }: { pal: Palette }) {
           title="Response"
           background={pal.background}
           option={option!}
+          htmlLegend
           extra={
             <>
               <span className="lw-muted" title="solid: with nonlinearities · dashed: the linear model · dotted: pinned">
@@ -103,7 +104,7 @@ export function ResponseView({ pal }: { pal: Palette }) {
             </>
           }
         />
-        {actOption && <ChartFrame name="actuator" title="Actuator" background={pal.background} option={actOption} />}
+        {actOption && <ChartFrame name="actuator" title="Actuator" background={pal.background} option={actOption} htmlLegend />}
       </div>
       <MetricsTable r={r} pinned={pinned} />
     </div>

@@ -10,12 +10,20 @@ interface Entry {
   instance: ChartInstance;
   option: ChartOption;
   marks?: MarkSeries[];
+  /** The screen draws the option's legend as HTML (html-legend.tsx): a PNG is drawn afresh with ECharts' own. */
+  htmlLegend?: boolean;
 }
 
 const charts = new Map<string, Entry>();
 
-export function registerChart(name: string, instance: ChartInstance, option: ChartOption, marks?: MarkSeries[]): void {
-  charts.set(name, { instance, option, marks });
+export function registerChart(
+  name: string,
+  instance: ChartInstance,
+  option: ChartOption,
+  marks?: MarkSeries[],
+  htmlLegend?: boolean,
+): void {
+  charts.set(name, { instance, option, marks, htmlLegend });
 }
 
 export function unregisterChart(name: string, instance: ChartInstance): void {
@@ -31,11 +39,21 @@ export function chartShownOption(name: string): ChartOption | null {
   return e ? withMarks(e.instance.getOption() as ChartOption, e.marks) : null;
 }
 
-/** PNG data URL of a chart as drawn (2× pixel ratio, opaque background). */
+/** PNG data URL of a chart as drawn (2× pixel ratio, opaque background; with its legend drawn by ECharts). */
 export function chartPngDataUrl(name: string, background = '#ffffff'): string | null {
   const e = charts.get(name);
   if (!e) return null;
-  return e.instance.getDataURL({ type: 'png', pixelRatio: 2, backgroundColor: background });
+  if (!e.htmlLegend) return e.instance.getDataURL({ type: 'png', pixelRatio: 2, backgroundColor: background });
+  // drawn afresh, at the same size, from the option with its legend (the screen's is HTML)
+  const width = e.instance.getWidth() || 800;
+  const height = e.instance.getHeight() || 500;
+  const png = echarts.init(document.createElement('div'), null, { renderer: 'canvas', width, height });
+  try {
+    png.setOption({ ...(withMarks(e.option, e.marks) as object), animation: false });
+    return png.getDataURL({ type: 'png', pixelRatio: 2, backgroundColor: background });
+  } finally {
+    png.dispose();
+  }
 }
 
 /** SVG text of a chart: the same option rendered by the SVG renderer at the same size. */

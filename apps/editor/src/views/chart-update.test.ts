@@ -10,6 +10,10 @@ import { traceData, tracePairs } from './response-option.ts';
 import { locusMarks } from './locus-option.ts';
 import { withMarks } from './mark-layer.ts';
 import { palette } from './palette.ts';
+import { legendEntries, withoutLegend } from './html-legend.tsx';
+import { actuatorOption } from './response-option.ts';
+import { demoDiagrams } from '@loopwright/graph';
+import { responseStudy } from '@loopwright/study';
 
 const frame = (data: unknown, limit = 48, max = 0.3) => ({
   xAxis: { type: 'value', min: 0, max },
@@ -103,5 +107,42 @@ describe('locus marks', () => {
     ]);
     const shown = withMarks({ series: [{ type: 'line', id: 'branch' }] }, marks) as { series: { id: string }[] };
     expect(shown.series.map((s) => s.id)).toEqual(['branch', 'closed-loop-poles', 'closed-loop-poles-pade', 'hover']);
+  });
+});
+
+describe('HTML legends', () => {
+  it('list the legend’s names with their series’ colour and line type; the screen option has no legend left', () => {
+    const pal = palette(false);
+    const d = demoDiagrams.find((x) => x.id === 'positioning-axis')!.diagram;
+    const r = responseStudy(d, { linearOverlay: true });
+    const option = actuatorOption(r, null, pal) as {
+      legend: { data: string[] };
+      series: { name: string; lineStyle: { color: string; type: string } }[];
+    };
+    const entries = legendEntries(option);
+    expect(entries.map((e) => e.name)).toEqual(option.legend.data);
+    expect(entries.length).toBe(r.actuators.length);
+    for (const e of entries) {
+      const s = option.series.find((x) => x.name === e.name)!;
+      expect([e.color, e.type]).toEqual([s.lineStyle.color, 'solid']);
+    }
+    const screen = withoutLegend(option) as { legend?: unknown; series: unknown[] };
+    expect(screen.legend).toBeUndefined();
+    expect(screen.series).toBe(option.series);
+    // without a name list, every series once, dashed and dotted kept
+    expect(
+      legendEntries({
+        legend: {},
+        series: [
+          { name: 'a', lineStyle: { color: '#111', type: 'dashed' } },
+          { name: 'a', lineStyle: { color: '#222' } },
+          { name: 'b', itemStyle: { color: '#333' }, lineStyle: { type: 'dotted' } },
+        ],
+      }),
+    ).toEqual([
+      { name: 'a', color: '#111', type: 'dashed' },
+      { name: 'b', color: '#333', type: 'dotted' },
+    ]);
+    expect(legendEntries({ series: [{ name: 'a' }] })).toEqual([]);
   });
 });
