@@ -79,23 +79,30 @@ function LocusList({
     ]);
   const shown = poles.filter((p) => p.im >= 0).length;
   const artefacts = poles.some((p, i) => p.im >= 0 && origin[i] === 'approximant');
+  // closed, the tables are not kept up to date on every slider step; a click on the summary
+  // fills them at once (the toggle event that confirms it comes a task later)
+  const [open, setOpen] = useState(false);
   return (
-    <details className="lw-locus-list" data-testid="locus-list">
-      <summary>
+    <details className="lw-locus-list" data-testid="locus-list" onToggle={(e) => setOpen((e.currentTarget as HTMLDetailsElement).open)}>
+      <summary onClick={(e) => setOpen(!(e.currentTarget.parentElement as HTMLDetailsElement).open)}>
         Geometry and closed-loop poles ({rows.length} items, {shown} poles
         {artefacts ? ', some of a Padé approximant' : ''})
       </summary>
-      <table className="lw-table lw-compact" data-testid="locus-geometry">
-        <tbody>
-          {rows.map(([k, v], i) => (
-            <tr key={i} data-kind={k}>
-              <td>{k}</td>
-              <td>{v}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-      <RootsTable title="closed-loop pole" roots={poles} origin={origin} testId="locus-poles" />
+      {open && (
+        <>
+          <table className="lw-table lw-compact" data-testid="locus-geometry">
+            <tbody>
+              {rows.map(([k, v], i) => (
+                <tr key={i} data-kind={k}>
+                  <td>{k}</td>
+                  <td>{v}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <RootsTable title="closed-loop pole" roots={poles} origin={origin} testId="locus-poles" />
+        </>
+      )}
     </details>
   );
 }

@@ -174,11 +174,18 @@ export function SweepBar() {
 
 /** A number input that commits on Enter or blur and shows the value with 4 digits otherwise. */
 function NumberBox(props: { label: string; value: number; onCommit(v: number): void; wide?: boolean; testId?: string }) {
+  const box = useRef<HTMLInputElement>(null);
+  // The box follows the value (each slider step) unless it is being typed in; set in place,
+  // not by remounting the input, which made every step restyle and lay out the bar anew.
+  useEffect(() => {
+    const el = box.current;
+    if (el && document.activeElement !== el) el.value = fmt(props.value);
+  }, [props.value]);
   return (
     <label className="lw-field">
       <span>{props.label}</span>
       <input
-        key={props.value}
+        ref={box}
         className={props.wide ? 'lw-num lw-num-wide' : 'lw-num'}
         data-testid={props.testId}
         defaultValue={fmt(props.value)}
