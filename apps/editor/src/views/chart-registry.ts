@@ -39,34 +39,40 @@ export function chartShownOption(name: string): ChartOption | null {
   return e ? withMarks(e.instance.getOption() as ChartOption, e.marks) : null;
 }
 
+/**
+ * A chart's option with its marks, drawn afresh by a throw-away instance of the given renderer
+ * at the chart's size (what `read` takes from it is returned; the instance is disposed).
+ */
+function drawnAfresh<T>(e: Entry, renderer: 'canvas' | 'svg', background: string | null, read: (c: ChartInstance) => T): T {
+  const width = e.instance.getWidth() || 800;
+  const height = e.instance.getHeight() || 500;
+  const c =
+    renderer === 'svg'
+      ? echarts.init(null, null, { renderer: 'svg', ssr: true, width, height })
+      : echarts.init(document.createElement('div'), null, { renderer: 'canvas', width, height });
+  try {
+    c.setOption({
+      ...(withMarks(e.option, e.marks) as object),
+      ...(background !== null ? { backgroundColor: background } : {}),
+      animation: false,
+    });
+    return read(c);
+  } finally {
+    c.dispose();
+  }
+}
+
 /** PNG data URL of a chart as drawn (2× pixel ratio, opaque background; with its legend drawn by ECharts). */
 export function chartPngDataUrl(name: string, background = '#ffffff'): string | null {
   const e = charts.get(name);
   if (!e) return null;
-  if (!e.htmlLegend) return e.instance.getDataURL({ type: 'png', pixelRatio: 2, backgroundColor: background });
-  // drawn afresh, at the same size, from the option with its legend (the screen's is HTML)
-  const width = e.instance.getWidth() || 800;
-  const height = e.instance.getHeight() || 500;
-  const png = echarts.init(document.createElement('div'), null, { renderer: 'canvas', width, height });
-  try {
-    png.setOption({ ...(withMarks(e.option, e.marks) as object), animation: false });
-    return png.getDataURL({ type: 'png', pixelRatio: 2, backgroundColor: background });
-  } finally {
-    png.dispose();
-  }
+  const png = (c: ChartInstance) => c.getDataURL({ type: 'png', pixelRatio: 2, backgroundColor: background });
+  // a chart whose legend is HTML on screen is drawn afresh with ECharts' own
+  return e.htmlLegend ? drawnAfresh(e, 'canvas', null, png) : png(e.instance);
 }
 
 /** SVG text of a chart: the same option rendered by the SVG renderer at the same size. */
 export function chartSvgText(name: string, background = '#ffffff'): string | null {
   const e = charts.get(name);
-  if (!e) return null;
-  const width = e.instance.getWidth() || 800;
-  const height = e.instance.getHeight() || 500;
-  const svg = echarts.init(null, null, { renderer: 'svg', ssr: true, width, height });
-  try {
-    svg.setOption({ ...(withMarks(e.option, e.marks) as object), backgroundColor: background, animation: false });
-    return svg.renderToSVGString();
-  } finally {
-    svg.dispose();
-  }
+  return e ? drawnAfresh(e, 'svg', background, (c) => c.renderToSVGString()) : null;
 }

@@ -5,6 +5,7 @@
  * same for a whole drag. Only on screen: exports draw the option's own legend (chart-registry.ts).
  */
 import type { ChartOption } from './echarts-setup.ts';
+import { seriesOf } from './option-update.ts';
 
 export interface LegendEntry {
   name: string;
@@ -37,8 +38,7 @@ export function withoutLegend(option: ChartOption): ChartOption {
 export function legendEntries(option: ChartOption): LegendEntry[] {
   const legend = legendOf(option);
   if (!legend) return [];
-  const s = (option as { series?: unknown }).series;
-  const series = (Array.isArray(s) ? s : s ? [s] : []) as SeriesLike[];
+  const series = seriesOf(option) as SeriesLike[];
   const names = legend.data
     ? legend.data.map((d) => (typeof d === 'string' ? d : String((d as { name?: unknown }).name ?? '')))
     : [...new Set(series.map((x) => String(x.name ?? '')))];

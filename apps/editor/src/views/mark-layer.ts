@@ -8,6 +8,7 @@
  * composites every layer, has them too.
  */
 import { echarts, type ChartInstance, type ChartOption } from './echarts-setup.ts';
+import { seriesOf } from './option-update.ts';
 
 export interface MarkSeries {
   type: 'scatter';
@@ -24,9 +25,7 @@ export interface MarkSeries {
 /** The chart's option with the marks as its last series (what the chart shows, in one option). */
 export function withMarks(option: ChartOption, marks: readonly MarkSeries[] | undefined): ChartOption {
   if (!marks || marks.length === 0) return option;
-  const series = (option as { series?: unknown }).series;
-  const list = Array.isArray(series) ? series : series ? [series] : [];
-  return { ...option, series: [...list, ...marks] };
+  return { ...option, series: [...seriesOf(option), ...marks] };
 }
 
 /** The layer above every series (ECharts draws on level 0). */

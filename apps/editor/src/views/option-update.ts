@@ -1,12 +1,14 @@
 /**
  * How a chart takes a new option. A slider step changes a response chart's traces and nothing
- * else; given in full (notMerge), ECharts rebuilt every axis, grid, legend and tooltip as well
- * (about half of each 7–10 ms redraw in Chromium). When the new option differs from the last
- * one only in its series' data, the chart is given just that data, merged by series index.
+ * else; given in full (notMerge), ECharts rebuilt every axis, grid and tooltip as well. When the
+ * new option differs from the last one only in its series' data, the chart is given just that
+ * data, merged by series index (the response chart: about 8.5 → 5.5 ms median per step in
+ * Chromium, measured with typed traces and its HTML legend).
  */
 import type { ChartOption } from './echarts-setup.ts';
 
-const seriesOf = (option: ChartOption): Record<string, unknown>[] => {
+/** An option's series as a list (ECharts also takes a single series object). */
+export const seriesOf = (option: ChartOption): Record<string, unknown>[] => {
   const s = (option as { series?: unknown }).series;
   return (Array.isArray(s) ? s : s ? [s] : []) as Record<string, unknown>[];
 };

@@ -238,6 +238,8 @@ export class ExactEngine implements SegmentEngine {
     const endTol = 1e-12 * Math.max(1, Math.abs(tEnd));
     let tc = t;
     let first = true;
+    const T = this.T;
+    T[3] = tEnd;
     this.turning.segmentStart();
     while (tc < tEnd - endTol) {
       if (this.steps >= s.maxSteps && budget.stepsSpent(tc)) return { end: tc, restart: false, guard: -1 };
@@ -258,11 +260,9 @@ export class ExactEngine implements SegmentEngine {
       this.when[0] = tc;
       this.when[1] = regular ? this.h0 : h;
       this.fillExo(z0);
-      const T = this.T;
       T[0] = tc;
       T[1] = tn;
       T[2] = h;
-      T[3] = tEnd;
       if (first) {
         // values at the segment start: guard slopes, dead-time inputs (right limits), samples
         matvecRect(sys.R, sys.rows, N, z0, out);
