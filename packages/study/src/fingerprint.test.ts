@@ -1,10 +1,32 @@
 /** The diagram fingerprint and the "all results in" rule. */
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { resultsComplete } from './complete.ts';
-import { diagramFingerprint, engineText } from './fingerprint.ts';
+import { diagramFingerprint, engineText, withTextMemo } from './fingerprint.ts';
 import { unityLoop } from './testing.ts';
 
 describe('diagram fingerprint', () => {
+  it("writes a diagram's text once per object inside one request, and afresh in the next", () => {
+    const a = unityLoop(2);
+    const b = structuredClone(a);
+    b.parameters[0].value = 3;
+    const written = vi.spyOn(JSON, 'stringify');
+    const [first, again, other, left] = withTextMemo(() => [
+      engineText(a),
+      engineText(a),
+      engineText(b),
+      engineText(a, a.parameters[0].name),
+    ]);
+    expect(written).toHaveBeenCalledTimes(3); // a once, b once, and the text without a parameter
+    written.mockRestore();
+    expect(again).toBe(first);
+    expect(other).not.toBe(first);
+    expect(left).toBe(engineText(a, a.parameters[0].name)); // `without` is never memoised
+    // A change between two requests is seen by the next one.
+    a.parameters[0].value = 3;
+    expect(withTextMemo(() => engineText(a))).toBe(other);
+    expect(withTextMemo(() => withTextMemo(() => engineText(a)))).toBe(engineText(b));
+  });
+
   it('ignores layout, title and view; changes with anything the engine sees', () => {
     const a = unityLoop(2);
     const moved = structuredClone(a);

@@ -57,7 +57,7 @@ export function locusStudy(d: Diagram, req: LocusRequest, deadline?: number): Lo
   const overrides = without(req.overrides ?? {}, name);
   assertAnalysable(ed, overrides, deadline);
   const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
-  const key = JSON.stringify([engineText(ed), name, overrides, range, direction, req.opposite === true, padeOrder, req.samples ?? null]);
+  const key = `${engineText(ed)}|${JSON.stringify([name, overrides, range, direction, req.opposite === true, padeOrder, req.samples ?? null])}`;
   return cached(loci, key, () =>
     compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples, deadline),
   );

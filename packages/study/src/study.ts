@@ -9,6 +9,7 @@ import { closedLoopStudy, type ClosedLoopRequest } from './closed-loop.ts';
 import { cutStudy, type CutRequest } from './cuts.ts';
 import { locusStudy, type LocusRequest } from './locus.ts';
 import { loopsStudy, type LoopsRequest } from './loops.ts';
+import { withTextMemo } from './fingerprint.ts';
 import { part } from './part.ts';
 import { polesStudy, type PolesRequest } from './poles.ts';
 import { responseStudy, type RunContext, type RunRequest } from './run.ts';
@@ -129,5 +130,5 @@ function runPart<K extends StudyKind>(
 
 /** Runs several studies of one diagram; each result is a part of its own (one failure does not blank the rest). */
 export function runStudies(d: Diagram, reqs: readonly StudyRequest[], ctx: StudyContext = {}): Part<StudyResult>[] {
-  return reqs.map((r, i) => part(() => ({ kind: r.kind, value: runPart(d, r, ctx, i, reqs.length) }) as StudyResult));
+  return withTextMemo(() => reqs.map((r, i) => part(() => ({ kind: r.kind, value: runPart(d, r, ctx, i, reqs.length) }) as StudyResult)));
 }
