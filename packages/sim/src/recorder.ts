@@ -4,8 +4,10 @@
  * (the exact engine fills only those entries).
  */
 export class Recorder {
-  readonly time: number[] = [];
+  readonly time: number[];
   readonly cols: number[][];
+  /** Points recorded (the arrays are made at the expected size and cut to this by `finish`). */
+  private count = 0;
   /** Last recorded time. */
   lastRec = -Infinity;
   /** Next grid index to record. */
@@ -18,21 +20,38 @@ export class Recorder {
     /** Signal index of each column. */
     readonly sigIdx: Int32Array,
     readonly dt: number,
+    /** Points expected (the grid of the run): arrays of this size are made at once instead of grown by doubling. */
+    expected = 0,
   ) {
-    this.cols = keys.map(() => []);
+    const size = Math.max(0, Math.min(1 << 16, Math.ceil(expected)));
+    this.time = filled(size);
+    this.cols = keys.map(() => filled(size));
   }
 
   record(tau: number, sig: ArrayLike<number>): void {
-    this.time.push(tau);
+    const n = this.count;
     const cols = this.cols;
     const idx = this.sigIdx;
-    for (let i = 0; i < cols.length; i++) cols[i].push(sig[idx[i]]);
+    if (n < this.time.length) {
+      this.time[n] = tau;
+      for (let i = 0; i < cols.length; i++) cols[i][n] = sig[idx[i]];
+    } else {
+      this.time.push(tau);
+      for (let i = 0; i < cols.length; i++) cols[i].push(sig[idx[i]]);
+    }
+    this.count = n + 1;
     this.lastRec = tau;
+  }
+
+  /** Cuts the arrays to the points recorded (call once the run has ended). */
+  finish(): void {
+    this.time.length = this.count;
+    for (const c of this.cols) c.length = this.count;
   }
 
   /** True when tau is after the last recorded time by more than round-off. */
   isNew(tau: number): boolean {
-    return tau > this.lastRec + 1e-12 * Math.max(1, Math.abs(tau)) || this.time.length === 0;
+    return tau > this.lastRec + 1e-12 * Math.max(1, Math.abs(tau)) || this.count === 0;
   }
 
   /** The next grid time not yet recorded that is after the last record. */
@@ -43,4 +62,11 @@ export class Recorder {
       this.gridK++;
     }
   }
+}
+
+/** An array of doubles of the given size (packed: each entry written, as a double). */
+function filled(size: number): number[] {
+  const a: number[] = [];
+  for (let i = 0; i < size; i++) a.push(0.5);
+  return a;
 }
