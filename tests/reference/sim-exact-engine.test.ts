@@ -111,6 +111,23 @@ describe('Hermite history (quintic pieces from values, slopes and curvatures)', 
     for (let t = 0.01; t < 3.5; t += 0.0371) expect(Math.abs(h.value(t, t) - p(t))).toBeLessThan(1e-12);
   });
 
+  it('finds two whole steps holding a lattice window, and nothing where a piece is short or the window starts on a joint', () => {
+    const h = new HermiteHistory();
+    for (const [a, b] of [
+      [0, 0.1],
+      [0.1, 0.2],
+      [0.2, 0.3],
+      [0.3, 0.35],
+      [0.35, 0.45],
+    ])
+      h.push(a, b, 1, 0, 0, 1, 0, 0);
+    expect(h.latticePair(0.13, 0.1)).toBe(1);
+    expect(h.phase).toBeCloseTo(0.3, 12);
+    expect(h.latticePair(0.24, 0.1)).toBe(-1); // its second piece is 0.05 long
+    expect(h.latticePair(0.2, 0.1)).toBe(-1); // on a joint: left to sampling
+    expect(h.latticePair(0.4, 0.1)).toBe(-1); // no piece after it
+  });
+
   it('keeps every piece when it grows past the capacity it was given', () => {
     // the same polynomial as above over 40 pieces in a history sized for 16
     const p = (t: number) => 1 - 2 * t + 0.5 * t ** 3 - 0.3 * t ** 4 + 0.07 * t ** 5;
@@ -156,25 +173,30 @@ describe('exact engine: exact in what it claims to be exact in', () => {
     res.time.forEach((t, i) => expect(Math.abs(res.traces.y[i] - (1.7 * (1 - Math.cos(9 * t))) / 9)).toBeLessThan(1e-11));
   });
 
-  it('a polynomial of degree 5 through a dead time comes out exactly (the window interpolant is of degree 5)', () => {
-    // ramp t → four integrators: t⁵/120; delayed by 0.4: (t − 0.4)⁵/120 after 0.4, 0 before
-    const d = buildDiagram(
-      [
-        ['r', 'source', { shape: 'ramp', amplitude: 1 }],
-        ['i1', 'integrator', { k: 1 }],
-        ['i2', 'integrator', { k: 1 }],
-        ['i3', 'integrator', { k: 1 }],
-        ['i4', 'integrator', { k: 1 }],
-        ['dt', 'dead-time', { delay: 0.4 }],
-        ['y', 'probe'],
-      ],
-      ['r -> i1', 'i1 -> i2', 'i2 -> i3', 'i3 -> i4', 'i4 -> dt', 'dt -> y'],
-    );
-    const res = simulate(compileModel(d), { until: 3, outputStep: 0.03 });
-    expect(res.engine).toBe('exact');
-    res.time.forEach((t, i) => {
-      const want = t <= 0.4 ? 0 : (t - 0.4) ** 5 / 120;
-      expect(Math.abs(res.traces.y[i] - want)).toBeLessThan(1e-12 * Math.max(1, want));
-    });
-  });
+  // Delay 0.4 on steps of 0.03 puts every window a third of the way into a recorded step (the
+  // fixed map of two whole pieces); 0.42 lines windows up with the pieces (sampled from them).
+  it.each([0.4, 0.42])(
+    'a polynomial of degree 5 through a dead time of %s comes out exactly (the window interpolant is of degree 5)',
+    (delay) => {
+      // ramp t → four integrators: t⁵/120; delayed: (t − delay)⁵/120 after the delay, 0 before
+      const d = buildDiagram(
+        [
+          ['r', 'source', { shape: 'ramp', amplitude: 1 }],
+          ['i1', 'integrator', { k: 1 }],
+          ['i2', 'integrator', { k: 1 }],
+          ['i3', 'integrator', { k: 1 }],
+          ['i4', 'integrator', { k: 1 }],
+          ['dt', 'dead-time', { delay }],
+          ['y', 'probe'],
+        ],
+        ['r -> i1', 'i1 -> i2', 'i2 -> i3', 'i3 -> i4', 'i4 -> dt', 'dt -> y'],
+      );
+      const res = simulate(compileModel(d), { until: 3, outputStep: 0.03 });
+      expect(res.engine).toBe('exact');
+      res.time.forEach((t, i) => {
+        const want = t <= delay ? 0 : (t - delay) ** 5 / 120;
+        expect(Math.abs(res.traces.y[i] - want)).toBeLessThan(1e-12 * Math.max(1, want));
+      });
+    },
+  );
 });

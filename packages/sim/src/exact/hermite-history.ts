@@ -111,6 +111,39 @@ export class HermiteHistory implements SignalHistory {
     return this.count > 0 && this.movedAt <= since;
   }
 
+  /** The pieces' monomial coefficients, six per piece (piece p at 6p … 6p + 5). */
+  get coefficients(): Float64Array {
+    return this.coef;
+  }
+
+  /**
+   * The first of two contiguous pieces that are whole steps of length h (to 1e-11) when τ lies
+   * strictly inside it (a lattice step's dead-time window [τ, τ + h] then lies in them, its
+   * nodes at fixed places); −1 otherwise. `phase` gets (τ − start)/h. Walks forward from the cursor.
+   */
+  latticePair(tau: number, h: number): number {
+    const n = this.count;
+    const starts = this.starts;
+    const ends = this.ends;
+    let p = this.cursor;
+    if (p >= n || starts[p] > tau) return -1;
+    while (p + 1 < n && tau >= ends[p]) p++;
+    if (p + 1 >= n) return -1;
+    const tol = 1e-11 * h;
+    const a = starts[p];
+    const b = ends[p];
+    if (Math.abs(b - a - h) > tol || starts[p + 1] !== b || Math.abs(ends[p + 1] - b - h) > tol) return -1;
+    const phase = (tau - a) / h;
+    // (a node within round-off of a piece end is left to `sample`, whose bias picks the side)
+    if (!(phase > 1e-6 && phase < 1 - 1e-6)) return -1;
+    this.cursor = p;
+    this.phase = phase;
+    return p;
+  }
+
+  /** Set by `latticePair`. */
+  phase = 0;
+
   /** Values at increasing times, walking the pieces forward from the cursor (the dead-time window of a step). */
   sample(times: ArrayLike<number>, bias: number, out: Float64Array, at: number): void {
     const n = this.count;

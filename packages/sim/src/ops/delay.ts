@@ -1,4 +1,5 @@
 import type { CompiledBlock } from '../compile.ts';
+import { HermiteHistory } from '../exact/hermite-history.ts';
 import { defineOp, type SimNode } from './node.ts';
 import type { BuildContext } from './registry-types.ts';
 
@@ -74,6 +75,81 @@ function scaledTaylor(h: number): Float64Array {
   return scaled;
 }
 
+/**
+ * On a lattice step the window [a, a + h] lies in two whole recorded steps of length h, its
+ * nodes at the same places in them every step: the six Taylor terms are then one fixed 6 × 12
+ * map of the two pieces' coefficients (the interpolant at the nodes, as `sample` evaluates it,
+ * folded into the Taylor map), kept per step length and phase — a few per run.
+ */
+const PAIR_COLS = 2 * WINDOW_TERMS;
+interface PairMap {
+  h: number;
+  phase: number;
+  G: Float64Array;
+}
+const pairMaps: PairMap[] = [];
+
+let lastMap: PairMap | null = null;
+
+function pairMap(h: number, phase: number): Float64Array | null {
+  if (lastMap !== null && lastMap.h === h && Math.abs(lastMap.phase - phase) <= 1e-11) return lastMap.G;
+  for (const m of pairMaps) {
+    if (m.h === h && Math.abs(m.phase - phase) <= 1e-11) {
+      lastMap = m;
+      return m.G;
+    }
+  }
+  const G = new Float64Array(WINDOW_TERMS * PAIR_COLS);
+  const W = scaledTaylor(h);
+  for (let i = 0; i < WINDOW_TERMS; i++) {
+    const u = phase + NODES[i];
+    // a node on the pieces' common end: `sample` decides its side by the bias (the general path)
+    if (Math.abs(u - 1) <= 1e-6) return null;
+    const col = u < 1 ? 0 : WINDOW_TERMS;
+    const sv = u < 1 ? u : u - 1;
+    let pw = 1;
+    for (let j = 0; j < WINDOW_TERMS; j++, pw *= sv) {
+      for (let k = 0; k < WINDOW_TERMS; k++) G[k * PAIR_COLS + col + j] += W[k * WINDOW_TERMS + i] * pw;
+    }
+  }
+  if (pairMaps.length >= 8) pairMaps.shift();
+  lastMap = { h, phase, G };
+  pairMaps.push(lastMap);
+  return G;
+}
+
+/** The window's six Taylor terms into z[at …] by the fixed map of the lattice pair p; false when that does not apply. */
+function fromPair(hist: HermiteHistory, a: number, h: number, z: Float64Array, at: number): boolean {
+  const p = hist.latticePair(a, h);
+  if (p < 0) return false;
+  const G = pairMap(h, hist.phase);
+  if (G === null) return false;
+  const co = hist.coefficients;
+  const o = p * WINDOW_TERMS;
+  let c0 = 0;
+  let c1 = 0;
+  let c2 = 0;
+  let c3 = 0;
+  let c4 = 0;
+  let c5 = 0;
+  for (let j = 0; j < PAIR_COLS; j++) {
+    const v = co[o + j];
+    c0 += G[j] * v;
+    c1 += G[PAIR_COLS + j] * v;
+    c2 += G[2 * PAIR_COLS + j] * v;
+    c3 += G[3 * PAIR_COLS + j] * v;
+    c4 += G[4 * PAIR_COLS + j] * v;
+    c5 += G[5 * PAIR_COLS + j] * v;
+  }
+  z[at] = c0;
+  z[at + 1] = c1;
+  z[at + 2] = c2;
+  z[at + 3] = c3;
+  z[at + 4] = c4;
+  z[at + 5] = c5;
+  return true;
+}
+
 export const delayOp = defineOp({
   name: 'dead-time',
   output: (nd, t, _x, sig, piece) => (nd.delay === 0 ? sig[nd.in0] : nd.hist!.value(t - nd.delay, piece - nd.delay)),
@@ -84,9 +160,11 @@ export const delayOp = defineOp({
   exoState: (nd, when, z, at) => {
     const h = when[1];
     const a = when[0] - nd.delay;
+    const hist = nd.hist!;
+    if (hist instanceof HermiteHistory && fromPair(hist, a, h, z, at)) return;
     const piece = when[2];
     for (let i = 0; i < WINDOW_TERMS; i++) times[i] = a + NODES[i] * h;
-    nd.hist!.sample(times, piece - nd.delay, values, 0);
+    hist.sample(times, piece - nd.delay, values, 0);
     const W = scaledTaylor(h);
     // one pass over the samples into six independent sums, not one chain of 36 additions (the
     // window's hot loop: 12 % of a linear run as a chain; SIX_TERMS keeps the six in step)
