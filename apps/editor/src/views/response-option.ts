@@ -121,7 +121,13 @@ export function responseOption(r: ResponseResult, probes: string[], pinned: Resp
         series.push({ ...line(`${label} (pinned)`, traceData(pinned.run.time, pinned.run.traces[id]), pal.pinned, 'dotted', 1.5), ...at });
     }
   });
-  const grids = Array.from({ length: n }, (_, i) => ({ left: 64, right: 16, top: LEGEND_PX + i * slot, height: slot - AXIS_PX }));
+  const grids = Array.from({ length: n }, (_, i) => ({
+    left: 64,
+    right: 16,
+    top: LEGEND_PX + i * slot,
+    height: slot - AXIS_PX,
+    outerBoundsMode: 'none',
+  }));
   return {
     animation: false,
     backgroundColor: pal.background,
@@ -142,7 +148,7 @@ function timeChart(pal: Palette, until: number, yName: string, names: string[], 
     backgroundColor: pal.background,
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v) },
     legend: { type: 'scroll', top: 0, left: 60, right: 10, data: names, textStyle: { color: pal.muted } },
-    grid: { left: 64, right: 16, top: 28, bottom: 38 },
+    grid: { left: 64, right: 16, top: 28, bottom: 38, outerBoundsMode: 'none' },
     xAxis: timeAxis(pal, until),
     yAxis: valueAxis(pal, yName),
     series,
