@@ -34,6 +34,10 @@ import { resultsComplete, useResultsStore, type AnalysisResult, type PinnedRun, 
 import { CANCELLED, EngineClient, type WorkerLike } from '../worker/engine-client.ts';
 import { CHANNELS, type Channel, type EngineReply, type ViewChannel } from '../worker/protocol.ts';
 import type { AnalysisSnapshot } from './snapshot.ts';
+import { ReplyBatch } from './reply-batch.ts';
+
+/** How long a reply may wait for the rest of its generation, and how quick a channel must be to be waited for (ms). */
+const COALESCE_MS = 40;
 
 export interface AnalysisInputs {
   diagram: Diagram;
@@ -225,6 +229,11 @@ export function startAnalysisDriver(): () => void {
     });
   });
 
+  // Replies of one generation are applied together when the rest is expected soon (reply-batch.ts).
+  const batch = new ReplyBatch<ResultsState>(useResultsStore.getState, (p) => useResultsStore.setState(p), COALESCE_MS);
+  /** The newest generation each channel has answered (held replies included). */
+  const answered = Object.fromEntries(CHANNELS.map((c) => [c, 0])) as Record<ViewChannel, number>;
+
   const off = engine.onReply((reply: EngineReply) => {
     const ch = reply.channel;
     if (!isViewChannel(ch)) return; // the report's reply goes to its own caller
@@ -232,10 +241,33 @@ export function startAnalysisDriver(): () => void {
     const studies = studiesOf[ch].get(reply.id) ?? [];
     genOf[ch].delete(reply.id);
     studiesOf[ch].delete(reply.id);
-    const s = useResultsStore.getState();
+    answered[ch] = Math.max(answered[ch], gen);
+    const arrivedAt = performance.now();
+    const now = useResultsStore.getState();
+    // another channel of this generation still computing, whose last computation was quick
+    const wait = CHANNELS.some(
+      (c) =>
+        c !== ch &&
+        now.wanted[c] === gen &&
+        answered[c] < gen &&
+        now.busy[c] !== null &&
+        now.computeMs[c] > 0 &&
+        now.computeMs[c] < COALESCE_MS,
+    );
+    batch.add((s) => replyPatch(s, ch, gen, studies, reply, arrivedAt), wait);
+  });
+
+  function replyPatch(
+    s: ResultsState,
+    ch: ViewChannel,
+    gen: number,
+    studies: StudyRequest[],
+    reply: EngineReply,
+    arrivedAt: number,
+  ): Partial<ResultsState> {
     const patch: Partial<ResultsState> = {
       held: { ...s.held, [ch]: gen },
-      arrivedAt: { ...s.arrivedAt, [ch]: performance.now() },
+      arrivedAt: { ...s.arrivedAt, [ch]: arrivedAt },
       busy: { ...s.busy, [ch]: null },
     };
     let error: string | null = reply.ok ? null : reply.error;
@@ -269,8 +301,8 @@ export function startAnalysisDriver(): () => void {
       Object.assign(patch, clearedResult(ch, reply.error));
     }
     patch.errors = { ...s.errors, [ch]: error };
-    useResultsStore.setState(patch);
-  });
+    return patch;
+  }
 
   const update = () => {
     const inp = currentInputs();
@@ -364,6 +396,7 @@ export function startAnalysisDriver(): () => void {
   update();
   return () => {
     off();
+    batch.dispose();
     offProgress();
     offActive();
     offPinned();
