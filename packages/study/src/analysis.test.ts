@@ -8,7 +8,7 @@ import { closedLoopPoles } from '@loopwright/graph';
 import { cabs, cadd, cexp, cscale, exactStepResponse, type Complex } from '@loopwright/lti';
 import { closedLoopStudy, scaledStepResponse } from './closed-loop.ts';
 import { chooseCut, cutStudy } from './cuts.ts';
-import { locusStudy } from './locus.ts';
+import { locusIdentity, locusStudy } from './locus.ts';
 import { loopsStudy } from './loops.ts';
 import { polesStudy } from './poles.ts';
 import { runStudies, runStudy } from './study.ts';
@@ -37,6 +37,18 @@ describe('locus of a sweep', () => {
     );
     // The dense trace covers the slider range only.
     for (const b of L.rangeBranches!) for (const k of b.k) expect(k >= 0.1 - 1e-12 && k <= 20 + 1e-9).toBe(true);
+  });
+
+  it('one identity for every value of one sign: the locus a drag holds is the one each step would get', () => {
+    const d = cubic(2);
+    const range = { min: 0.1, max: 20, scale: 'log' as const };
+    const at = (value: number, more: object = {}) => locusIdentity(d, { target: K_PARAM, value, range, ...more });
+    expect(at(0.5)).toBe(at(17));
+    expect(locusStudy(d, { target: K_PARAM, value: 0.5, range })).toBe(locusStudy(d, { target: K_PARAM, value: 17, range }));
+    expect(at(-3)).not.toBe(at(3)); // the other direction
+    expect(at(3, { opposite: true })).not.toBe(at(3));
+    expect(at(3, { range: { min: 0.1, max: 30, scale: 'log' } })).not.toBe(at(3));
+    expect(at(3, { overrides: { K: 9 } })).toBe(at(3)); // the swept value is not another parameter
   });
 
   it('a negative swept value traces the k < 0 locus: breakaway at −1 − 1/√3 with K = −2/(3√3), the other root of dK/ds = 0 [R02]', () => {

@@ -31,7 +31,7 @@ export {
 } from './sweep-target.ts';
 export { positionToValue, valueToPosition, widenedRange, editedRange } from './slider.ts';
 export { checkStudy, findingsOf, findingText, assertAnalysable, RefusedDiagram } from './validate.ts';
-export { locusStudy, type LocusRequest } from './locus.ts';
+export { locusIdentity, locusStudy, type LocusRequest } from './locus.ts';
 export { polesStudy, stableFrom, padeOrigins, originAt, type PolesRequest } from './poles.ts';
 export { chooseCut, cutStudy, frequencyOfLoop, type ChosenCut, type CutRequest } from './cuts.ts';
 export { loopsStudy, type LoopsRequest } from './loops.ts';

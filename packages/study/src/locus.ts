@@ -44,23 +44,39 @@ const angles = (xs: { at: Complex; angleDeg: number; multiplicity: number }[]): 
 export function locusStudy(d: Diagram, req: LocusRequest, deadline?: number): LocusData {
   checkTarget(d, req.target);
   const ed = engineDiagram(d, req.target);
+  const { name, range, direction, overrides, padeOrder, identity } = resolved(d, req);
+  assertAnalysable(ed, overrides, deadline);
+  return cached(loci, `${engineText(ed)}|${identity}`, () =>
+    compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples, deadline),
+  );
+}
+
+/**
+ * What a locus depends on besides the diagram, as text: target, range, direction, the other
+ * parameters, Padé order, samples — the value only through its sign (the direction). Requests of
+ * one diagram with the same identity get the same locus, so a slider drag needs it once: the
+ * editor leaves the locus out of a step's requests while it holds the one of that identity.
+ */
+export function locusIdentity(d: Diagram, req: LocusRequest): string {
+  checkTarget(d, req.target);
+  return resolved(d, req).identity;
+}
+
+function resolved(d: Diagram, req: LocusRequest) {
   const name = engineParameterName(req.target);
   const value = req.value ?? documentValue(d, req.target);
   const range = req.range ?? targetRange(d, req.target);
   if (!(range.max > range.min)) throw new InputError(`sweep range: max ${range.max} must be above min ${range.min}`, { field: 'range' });
-  const direction =
+  const direction: 'positive' | 'negative' =
     req.direction === 'positive' || req.direction === 'negative'
       ? req.direction
       : value < 0 || (value === 0 && range.max <= 0)
         ? 'negative'
         : 'positive';
   const overrides = without(req.overrides ?? {}, name);
-  assertAnalysable(ed, overrides, deadline);
   const padeOrder = req.padeOrder ?? DEFAULT_PADE_ORDER;
-  const key = `${engineText(ed)}|${JSON.stringify([name, overrides, range, direction, req.opposite === true, padeOrder, req.samples ?? null])}`;
-  return cached(loci, key, () =>
-    compute(ed, targetKey(req.target), name, range, direction, req.opposite === true, overrides, padeOrder, req.samples, deadline),
-  );
+  const identity = JSON.stringify([name, overrides, range, direction, req.opposite === true, padeOrder, req.samples ?? null]);
+  return { name, range, direction, overrides, padeOrder, identity };
 }
 
 /** Roots of D0 and N0 (common factors apart, as graph's sweepLocus removes them) at another Padé order. */

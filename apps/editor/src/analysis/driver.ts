@@ -11,6 +11,7 @@ import type { Diagram, SignalRef } from '@loopwright/graph';
 import {
   engineText,
   fingerprintText,
+  locusIdentity,
   resolveSweep,
   type CheckData,
   type ClosedLoopData,
@@ -136,6 +137,17 @@ function locusSignature(l: LocusData): string {
   return JSON.stringify([l.mode, l.target, l.direction, l.n0, l.d0, ends(l.branches), ends(l.rangeBranches), ends(l.oppositeBranches)]);
 }
 
+/** The identity of the locus asked for on this diagram (null: none asked, or not one to keep). */
+function locusKeyFor(d: Diagram, studies: StudyRequest[]): string | null {
+  const r = studies.find((x) => x.kind === 'locus');
+  if (!r || r.kind !== 'locus') return null;
+  try {
+    return `${engineText(d)}|${locusIdentity(d, r)}`;
+  } catch {
+    return null; // a request the study refuses: sent as it is, to come back with its error
+  }
+}
+
 /** The analysis channel's parts, by kind. */
 function analysisOf(studies: StudyRequest[], results: Part<StudyResult>[], elapsedMs: number): AnalysisResult {
   const byKind = (kind: StudyRequest['kind']) => {
@@ -229,6 +241,12 @@ export function startAnalysisDriver(): () => void {
     });
   });
 
+  // The locus of a drag is computed once: a step whose locus has the identity of the one held
+  // leaves it out of the analysis request (locusIdentity), which spares the worker its reply and
+  // the page the reading of thousands of points per step.
+  let heldLocus: string | null = null;
+  const locusKeyOf = new Map<number, string | null>();
+
   // Replies of one generation are applied together when the rest is expected soon (reply-batch.ts).
   const batch = new ReplyBatch<ResultsState>(useResultsStore.getState, (p) => useResultsStore.setState(p), COALESCE_MS);
   /** The newest generation each channel has answered (held replies included). */
@@ -242,6 +260,11 @@ export function startAnalysisDriver(): () => void {
     genOf[ch].delete(reply.id);
     studiesOf[ch].delete(reply.id);
     answered[ch] = Math.max(answered[ch], gen);
+    if (ch === 'analysis' && locusKeyOf.has(reply.id)) {
+      const i = studies.findIndex((x) => x.kind === 'locus');
+      heldLocus = reply.ok && reply.results[i]?.ok ? (locusKeyOf.get(reply.id) ?? null) : null;
+    } else if (ch === 'analysis' && !reply.ok) heldLocus = null;
+    if (ch === 'analysis') for (const id of locusKeyOf.keys()) if (id <= reply.id) locusKeyOf.delete(id); // older ones were superseded
     const arrivedAt = performance.now();
     const now = useResultsStore.getState();
     // another channel of this generation still computing, whose last computation was quick
@@ -279,7 +302,9 @@ export function startAnalysisDriver(): () => void {
         // The locus does not change while the slider moves: keep the same object so that the
         // Locus chart's base option (thousands of points) is not rebuilt on every step.
         const prev = s.analysis?.locus;
-        if (prev?.ok && next.locus?.ok && locusSignature(prev.value) === locusSignature(next.locus.value)) next.locus = prev;
+        if (!studies.some((x) => x.kind === 'locus'))
+          next.locus = prev ?? null; // left out: the one held stands
+        else if (prev?.ok && next.locus?.ok && locusSignature(prev.value) === locusSignature(next.locus.value)) next.locus = prev;
         patch.analysis = next;
       } else if (ch === 'loops') {
         patch.loops = first.ok ? { ok: true, value: first.value.value as LoopsData } : first;
@@ -339,6 +364,9 @@ export function startAnalysisDriver(): () => void {
       pinned: pinned?.diagram ?? d,
     };
     const requests: Record<ViewChannel, StudyRequest[]> = { ...studies, pinned: pinned ? [pinned.study] : [] };
+    const locusKey = locusKeyFor(d, studies.analysis);
+    if (locusKey !== null && locusKey === heldLocus && rs0.analysis?.locus?.ok)
+      requests.analysis = studies.analysis.filter((x) => x.kind !== 'locus');
     const base: Record<ViewChannel, string> = {
       check: fingerprintText(d),
       analysis: engineText(d),
@@ -361,6 +389,7 @@ export function startAnalysisDriver(): () => void {
       const id = engine.send({ channel: c, diagram: diagrams[c], studies: requests[c] });
       genOf[c].set(id, gen);
       studiesOf[c].set(id, requests[c]);
+      if (c === 'analysis' && requests.analysis.some((x) => x.kind === 'locus')) locusKeyOf.set(id, locusKey);
       markBusy(c, true);
     }
   };
