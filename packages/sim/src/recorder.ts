@@ -64,9 +64,7 @@ export class Recorder {
   }
 }
 
-/** An array of doubles of the given size (packed: each entry written, as a double). */
+/** An array of doubles of the given size, allocated once (filled with a double, so its elements are stored unboxed). */
 function filled(size: number): number[] {
-  const a: number[] = [];
-  for (let i = 0; i < size; i++) a.push(0.5);
-  return a;
+  return new Array<number>(size).fill(0.5);
 }

@@ -45,6 +45,8 @@ export class ExactEngine implements SegmentEngine {
    * at every step (with two dead times, 10–15 allocations a step once added up).
    */
   private readonly T = new Float64Array(4);
+  /** A segment start as the turning points read a step: [ , t, 0]. */
+  private readonly atStart = new Float64Array(3);
   /** [t, h, piece] for the exosystems' fill (ops' exoState). */
   private readonly when = new Float64Array(3);
   private readonly z0: Float64Array;
@@ -268,10 +270,11 @@ export class ExactEngine implements SegmentEngine {
         matvecRect(sys.R, sys.rows, N, z0, out);
         for (let i = 0; i < ng; i++) this.pPrev[i] = out[ng + i];
         for (let i = 0; i < this.hStart.length; i++) this.hStart[i] = out[this.oD + i];
-        this.turning.sample(out, this.oS, tc, 0, false);
+        this.atStart[1] = tc;
+        this.turning.sample(out, this.oS, this.atStart, false);
         first = false;
       }
-      this.turning.stepStart(sys, z0, tc, h);
+      this.turning.stepStart(sys, z0, T);
       let xe = this.x1;
       if (regular) {
         matvecRect(sys.PhiX, n, N, z0, xe);
@@ -343,14 +346,12 @@ export class ExactEngine implements SegmentEngine {
 
   /** Actuator peaks and turning-point samples from `out` at the end of the step in T (from z0). */
   private afterStep(last: boolean): void {
-    const tEnd = this.T[1];
-    const h = this.T[2];
     const tr = this.trackRows;
     if (tr.length > 0) {
       for (let j = 0; j < tr.length; j++) this.sigOut[tr[j]] = this.out[this.oS + this.trackAt[j]];
       this.rs.modes.updatePeaks(this.sigOut);
     }
-    this.turning.sample(this.out, this.oS, tEnd, h, last);
+    this.turning.sample(this.out, this.oS, this.T, last);
   }
 
   /** Appends the step in T to every dead time's history: the start values kept from the last step, the end values from `out`. */

@@ -117,11 +117,14 @@ export class HermiteHistory implements SignalHistory {
   }
 
   /**
-   * The first of two contiguous pieces that are whole steps of length h (to 1e-11) when τ lies
-   * strictly inside it (a lattice step's dead-time window [τ, τ + h] then lies in them, its
-   * nodes at fixed places); −1 otherwise. `phase` gets (τ − start)/h. Walks forward from the cursor.
+   * For the step in `when` ([t, h, …]) and a dead time `delay`: the first of two contiguous
+   * pieces that are whole steps of length h (to 1e-11) when τ = t − delay lies strictly inside it
+   * (the window [τ, τ + h] then lies in them, its nodes at fixed places); −1 otherwise. `step`
+   * and `phase` get h and (τ − start)/h. Walks forward from the cursor.
    */
-  latticePair(tau: number, h: number): number {
+  latticePair(when: Float64Array, delay: number): number {
+    const tau = when[0] - delay;
+    const h = when[1];
     const n = this.count;
     const starts = this.starts;
     const ends = this.ends;
@@ -137,11 +140,13 @@ export class HermiteHistory implements SignalHistory {
     // (a node within round-off of a piece end is left to `sample`, whose bias picks the side)
     if (!(phase > 1e-6 && phase < 1 - 1e-6)) return -1;
     this.cursor = p;
+    this.step = h;
     this.phase = phase;
     return p;
   }
 
   /** Set by `latticePair`. */
+  step = 0;
   phase = 0;
 
   /** Values at increasing times, walking the pieces forward from the cursor (the dead-time window of a step). */

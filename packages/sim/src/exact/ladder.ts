@@ -57,7 +57,8 @@ export class Ladder {
     for (let m = TERMS - 1; m >= 1; m--) {
       for (let i = 0; i < N; i++) E[i * N + i] += 1; // I + …
       mulRect(X, N, E, N, T);
-      for (let i = 0; i < N * N; i++) E[i] = T[i] / m;
+      const inv = 1 / m; // (a product, not N² divisions: a tenth of a ladder's time went to them)
+      for (let i = 0; i < N * N; i++) E[i] = T[i] * inv;
     }
     const E_: Float64Array[] = new Array(K + 1);
     E_[K] = E;

@@ -65,20 +65,28 @@ export class TurningPoints {
     for (const b of this.min) this.settle(b, false);
   }
 
-  /** A step of length h starts from z (exosystems filled) at t0 in mode sys. */
-  stepStart(sys: ModeSystem, z: Float64Array, t0: number, h: number): void {
+  /**
+   * A step starts from z (exosystems filled) in mode sys: at span[0], of length span[2] (the
+   * engine's step times; read from the array, as doubles passed to a call are boxed).
+   */
+  stepStart(sys: ModeSystem, z: Float64Array, span: Float64Array): void {
     if (this.rows.length === 0) return;
     const t = this.prev;
     this.prev = this.cur;
     this.cur = t;
-    keep(t, sys, z, t0, h);
+    t.sys = sys;
+    t.z.set(z);
+    t.t0 = span[0];
+    t.h = span[2];
   }
 
   /**
-   * Samples values[offset + r] at tEnd: the end of the current step (h > 0), or a segment start
+   * Samples values[offset + r] at tEnd = span[1]: the end of the current step (h = span[2] > 0), or a segment start
    * (h = 0, before its first step). `last`: the segment ends here.
    */
-  sample(values: Float64Array, offset: number, tEnd: number, h: number, last: boolean): void {
+  sample(values: Float64Array, offset: number, span: Float64Array, last: boolean): void {
+    const tEnd = span[1];
+    const h = span[2];
     // (one loop over both lists, no call per sample: a double passed to a call that is not
     // inlined is boxed, and this runs at every step end)
     const rows = this.rows.length;

@@ -91,7 +91,9 @@ const pairMaps: PairMap[] = [];
 
 let lastMap: PairMap | null = null;
 
-function pairMap(h: number, phase: number): Float64Array | null {
+function pairMap(hist: HermiteHistory): Float64Array | null {
+  const h = hist.step;
+  const phase = hist.phase;
   if (lastMap !== null && lastMap.h === h && Math.abs(lastMap.phase - phase) <= 1e-11) return lastMap.G;
   for (const m of pairMaps) {
     if (m.h === h && Math.abs(m.phase - phase) <= 1e-11) {
@@ -118,11 +120,15 @@ function pairMap(h: number, phase: number): Float64Array | null {
   return G;
 }
 
-/** The window's six Taylor terms into z[at …] by the fixed map of the lattice pair p; false when that does not apply. */
-function fromPair(hist: HermiteHistory, a: number, h: number, z: Float64Array, at: number): boolean {
-  const p = hist.latticePair(a, h);
+/**
+ * The window's six Taylor terms into z[at …] by the fixed map of the lattice pair p; false when
+ * that does not apply. The step is read from `when` ([t, h, piece]): doubles passed to a call
+ * are boxed, and this runs twice a step for every dead time.
+ */
+function fromPair(hist: HermiteHistory, when: Float64Array, delay: number, z: Float64Array, at: number): boolean {
+  const p = hist.latticePair(when, delay);
   if (p < 0) return false;
-  const G = pairMap(h, hist.phase);
+  const G = pairMap(hist);
   if (G === null) return false;
   const co = hist.coefficients;
   const o = p * WINDOW_TERMS;
@@ -161,7 +167,7 @@ export const delayOp = defineOp({
     const h = when[1];
     const a = when[0] - nd.delay;
     const hist = nd.hist!;
-    if (hist instanceof HermiteHistory && fromPair(hist, a, h, z, at)) return;
+    if (hist instanceof HermiteHistory && fromPair(hist, when, nd.delay, z, at)) return;
     const piece = when[2];
     for (let i = 0; i < WINDOW_TERMS; i++) times[i] = a + NODES[i] * h;
     hist.sample(times, piece - nd.delay, values, 0);
