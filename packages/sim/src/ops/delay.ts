@@ -130,22 +130,30 @@ function fromPair(hist: HermiteHistory, when: Float64Array, delay: number, z: Fl
   if (p < 0) return false;
   const G = pairMap(hist);
   if (G === null) return false;
-  const co = hist.coefficients;
-  const o = p * WINDOW_TERMS;
+  windowTerms(G, PAIR_COLS, hist.coefficients, p * WINDOW_TERMS, z, at);
+  return true;
+}
+
+/**
+ * z[at + k] = Σ_j M[k·cols + j]·v[from + j], k = 0 … 5: one pass over v into six independent
+ * sums, not one chain of 36 or 72 additions (the window's hot loop: 12 % of a linear run as a
+ * chain; SIX_TERMS keeps the six in step).
+ */
+function windowTerms(M: Float64Array, cols: number, v: Float64Array, from: number, z: Float64Array, at: number): void {
   let c0 = 0;
   let c1 = 0;
   let c2 = 0;
   let c3 = 0;
   let c4 = 0;
   let c5 = 0;
-  for (let j = 0; j < PAIR_COLS; j++) {
-    const v = co[o + j];
-    c0 += G[j] * v;
-    c1 += G[PAIR_COLS + j] * v;
-    c2 += G[2 * PAIR_COLS + j] * v;
-    c3 += G[3 * PAIR_COLS + j] * v;
-    c4 += G[4 * PAIR_COLS + j] * v;
-    c5 += G[5 * PAIR_COLS + j] * v;
+  for (let j = 0; j < cols; j++) {
+    const x = v[from + j];
+    c0 += M[j] * x;
+    c1 += M[cols + j] * x;
+    c2 += M[2 * cols + j] * x;
+    c3 += M[3 * cols + j] * x;
+    c4 += M[4 * cols + j] * x;
+    c5 += M[5 * cols + j] * x;
   }
   z[at] = c0;
   z[at + 1] = c1;
@@ -153,7 +161,6 @@ function fromPair(hist: HermiteHistory, when: Float64Array, delay: number, z: Fl
   z[at + 3] = c3;
   z[at + 4] = c4;
   z[at + 5] = c5;
-  return true;
 }
 
 export const delayOp = defineOp({
@@ -171,30 +178,7 @@ export const delayOp = defineOp({
     const piece = when[2];
     for (let i = 0; i < WINDOW_TERMS; i++) times[i] = a + NODES[i] * h;
     hist.sample(times, piece - nd.delay, values, 0);
-    const W = scaledTaylor(h);
-    // one pass over the samples into six independent sums, not one chain of 36 additions (the
-    // window's hot loop: 12 % of a linear run as a chain; SIX_TERMS keeps the six in step)
-    let c0 = 0;
-    let c1 = 0;
-    let c2 = 0;
-    let c3 = 0;
-    let c4 = 0;
-    let c5 = 0;
-    for (let i = 0; i < WINDOW_TERMS; i++) {
-      const v = values[i];
-      c0 += W[i] * v;
-      c1 += W[WINDOW_TERMS + i] * v;
-      c2 += W[2 * WINDOW_TERMS + i] * v;
-      c3 += W[3 * WINDOW_TERMS + i] * v;
-      c4 += W[4 * WINDOW_TERMS + i] * v;
-      c5 += W[5 * WINDOW_TERMS + i] * v;
-    }
-    z[at] = c0;
-    z[at + 1] = c1;
-    z[at + 2] = c2;
-    z[at + 3] = c3;
-    z[at + 4] = c4;
-    z[at + 5] = c5;
+    windowTerms(scaledTaylor(h), WINDOW_TERMS, values, 0, z, at);
   },
   steady: (nd, t) => nd.delay === 0 || nd.hist!.steadyOver(t - nd.delay),
 });
