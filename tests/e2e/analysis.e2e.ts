@@ -158,6 +158,8 @@ describe('analysis views', () => {
     expect(s1.sweep!.live, 'the slider value is live, not yet in the document').not.toBeNull();
     const v1 = s1.sweep!.value;
     expect(v1).toBeGreaterThan(s0.sweep!.value * 1.5);
+    // The drag's steps ask for the locus once and keep it (the same sign, the same locus).
+    expect(s1.locus).toEqual(s0.locus);
     const p1 = await chartPoles();
     expect(sortPoles(p1)).toEqual(sortPoles(s1.poles!));
     // The poles are drawn on the chart's mark layer (not through its option): a mark where the

@@ -124,7 +124,6 @@ describe('Hermite history (quintic pieces from values, slopes and curvatures)', 
     // a step [t, t + 0.1] behind a dead time of 0.5: its window starts at t − 0.5
     const window = (start: number) => h.latticePair(Float64Array.from([start + 0.5, 0.1, 0]), 0.5);
     expect(window(0.13)).toBe(1);
-    expect(h.step).toBe(0.1);
     expect(h.phase).toBeCloseTo(0.3, 12);
     expect(window(0.24)).toBe(-1); // its second piece is 0.05 long
     expect(window(0.2)).toBe(-1); // on a joint: left to sampling

@@ -40,14 +40,13 @@ export function simulate(model: CompiledModel, opts: SimulateOptions): SimResult
       throw new InputError(`simulation option metricsFor: "${id}" is not a probe`, { field: 'metricsFor' });
   }
 
-  const rec = new Recorder(keys, Int32Array.from(sigIdx), s.dt, s.until / s.dt + 2);
+  const rec = new Recorder(keys, Int32Array.from(sigIdx), s.dt);
   const rs = new RunState(model, built, s, budget, rec);
   const engine = chooseEngine(
     rs,
     metricsFor.map((id) => keys.indexOf(id)),
   );
   runSegments(rs, engine);
-  rec.finish();
   cutAtNonFinite(rec, budget);
   budget.finish();
 

@@ -245,6 +245,7 @@ export function startAnalysisDriver(): () => void {
   // leaves it out of the analysis request (locusIdentity), which spares the worker its reply and
   // the page the reading of thousands of points per step.
   let heldLocus: string | null = null;
+  /** The locus identity each analysis request in flight asked for. */
   const locusKeyOf = new Map<number, string | null>();
 
   // Replies of one generation are applied together when the rest is expected soon (reply-batch.ts).
@@ -260,11 +261,13 @@ export function startAnalysisDriver(): () => void {
     genOf[ch].delete(reply.id);
     studiesOf[ch].delete(reply.id);
     answered[ch] = Math.max(answered[ch], gen);
-    if (ch === 'analysis' && locusKeyOf.has(reply.id)) {
+    if (ch === 'analysis') {
+      // the locus this reply leaves held: its own when it carried one, none when it failed
       const i = studies.findIndex((x) => x.kind === 'locus');
-      heldLocus = reply.ok && reply.results[i]?.ok ? (locusKeyOf.get(reply.id) ?? null) : null;
-    } else if (ch === 'analysis' && !reply.ok) heldLocus = null;
-    if (ch === 'analysis') for (const id of locusKeyOf.keys()) if (id <= reply.id) locusKeyOf.delete(id); // older ones were superseded
+      if (i >= 0) heldLocus = reply.ok && reply.results[i]?.ok ? (locusKeyOf.get(reply.id) ?? null) : null;
+      else if (!reply.ok) heldLocus = null;
+      for (const id of locusKeyOf.keys()) if (id <= reply.id) locusKeyOf.delete(id); // older ones were superseded
+    }
     const arrivedAt = performance.now();
     const now = useResultsStore.getState();
     // another channel of this generation still computing, whose last computation was quick

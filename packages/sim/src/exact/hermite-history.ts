@@ -119,8 +119,8 @@ export class HermiteHistory implements SignalHistory {
   /**
    * For the step in `when` ([t, h, …]) and a dead time `delay`: the first of two contiguous
    * pieces that are whole steps of length h (to 1e-11) when τ = t − delay lies strictly inside it
-   * (the window [τ, τ + h] then lies in them, its nodes at fixed places); −1 otherwise. `step`
-   * and `phase` get h and (τ − start)/h. Walks forward from the cursor.
+   * (the window [τ, τ + h] then lies in them, its nodes at fixed places); −1 otherwise. `phase`
+   * gets (τ − start)/h. Walks forward from the cursor.
    */
   latticePair(when: Float64Array, delay: number): number {
     const tau = when[0] - delay;
@@ -140,13 +140,11 @@ export class HermiteHistory implements SignalHistory {
     // (a node within round-off of a piece end is left to `sample`, whose bias picks the side)
     if (!(phase > 1e-6 && phase < 1 - 1e-6)) return -1;
     this.cursor = p;
-    this.step = h;
     this.phase = phase;
     return p;
   }
 
   /** Set by `latticePair`. */
-  step = 0;
   phase = 0;
 
   /** Values at increasing times, walking the pieces forward from the cursor (the dead-time window of a step). */

@@ -85,28 +85,21 @@ const PAIR_COLS = 2 * WINDOW_TERMS;
 interface PairMap {
   h: number;
   phase: number;
-  G: Float64Array;
+  /** null: a node falls on the pieces' joint, where `sample` decides its side by the bias (the general path). */
+  G: Float64Array | null;
 }
 const pairMaps: PairMap[] = [];
 
-let lastMap: PairMap | null = null;
-
-function pairMap(hist: HermiteHistory): Float64Array | null {
-  const h = hist.step;
+/** The map for the step length in `when` and the phase `latticePair` found (null: a node on the pieces' joint). */
+function pairMap(when: Float64Array, hist: HermiteHistory): Float64Array | null {
+  const h = when[1];
   const phase = hist.phase;
-  if (lastMap !== null && lastMap.h === h && Math.abs(lastMap.phase - phase) <= 1e-11) return lastMap.G;
-  for (const m of pairMaps) {
-    if (m.h === h && Math.abs(m.phase - phase) <= 1e-11) {
-      lastMap = m;
-      return m.G;
-    }
-  }
-  const G = new Float64Array(WINDOW_TERMS * PAIR_COLS);
+  for (const m of pairMaps) if (m.h === h && Math.abs(m.phase - phase) <= 1e-11) return m.G;
+  const onJoint = NODES.some((x) => Math.abs(phase + x - 1) <= 1e-6);
+  const G = onJoint ? null : new Float64Array(WINDOW_TERMS * PAIR_COLS);
   const W = scaledTaylor(h);
-  for (let i = 0; i < WINDOW_TERMS; i++) {
+  for (let i = 0; G !== null && i < WINDOW_TERMS; i++) {
     const u = phase + NODES[i];
-    // a node on the pieces' common end: `sample` decides its side by the bias (the general path)
-    if (Math.abs(u - 1) <= 1e-6) return null;
     const col = u < 1 ? 0 : WINDOW_TERMS;
     const sv = u < 1 ? u : u - 1;
     let pw = 1;
@@ -114,9 +107,8 @@ function pairMap(hist: HermiteHistory): Float64Array | null {
       for (let k = 0; k < WINDOW_TERMS; k++) G[k * PAIR_COLS + col + j] += W[k * WINDOW_TERMS + i] * pw;
     }
   }
-  if (pairMaps.length >= 8) pairMaps.shift();
-  lastMap = { h, phase, G };
-  pairMaps.push(lastMap);
+  if (pairMaps.length >= 8) pairMaps.pop();
+  pairMaps.unshift({ h, phase, G });
   return G;
 }
 
@@ -128,7 +120,7 @@ function pairMap(hist: HermiteHistory): Float64Array | null {
 function fromPair(hist: HermiteHistory, when: Float64Array, delay: number, z: Float64Array, at: number): boolean {
   const p = hist.latticePair(when, delay);
   if (p < 0) return false;
-  const G = pairMap(hist);
+  const G = pairMap(when, hist);
   if (G === null) return false;
   windowTerms(G, PAIR_COLS, hist.coefficients, p * WINDOW_TERMS, z, at);
   return true;
