@@ -1,12 +1,32 @@
 /** Small dense matrix helpers on row-major Float64Arrays with N columns (the exact engine's matrices). */
 
-/** C (rows × N) = A (rows × N) · B (N × N); C distinct from A and B. */
-export function mulRect(A: Float64Array, rows: number, B: Float64Array, N: number, C: Float64Array): void {
+/**
+ * Arrays made together, as views into shared chunks: each typed array over 64 bytes is a
+ * separate allocation of its memory in V8, a few microseconds apiece, and a mode's matrices,
+ * a ladder's rungs and a run's work vectors are dozens of them (a view costs a tenth of that).
+ * The views start zeroed and keep their chunk alive.
+ */
+export function slab(chunk = 4096): (n: number) => Float64Array {
+  let buf = new Float64Array(0);
+  let off = 0;
+  return (n: number) => {
+    if (off + n > buf.length) {
+      buf = new Float64Array(Math.max(chunk, n));
+      off = 0;
+    }
+    const v = buf.subarray(off, off + n);
+    off += n;
+    return v;
+  };
+}
+
+/** C (rows × N) = f·A (rows × N) · B (N × N); C distinct from A and B. */
+export function mulRect(A: Float64Array, rows: number, B: Float64Array, N: number, C: Float64Array, f = 1): void {
   C.fill(0, 0, rows * N);
   for (let i = 0; i < rows; i++) {
     const ri = i * N;
     for (let k = 0; k < N; k++) {
-      const a = A[ri + k];
+      const a = A[ri + k] * f;
       if (a === 0) continue;
       const rk = k * N;
       for (let j = 0; j < N; j++) C[ri + j] += a * B[rk + j];
@@ -86,24 +106,36 @@ export interface Compressed {
 }
 
 export function compress(A: Float64Array, rows: number, N: number): Compressed {
+  return compressAll([A], rows, N)[0];
+}
+
+/**
+ * Several matrices of one shape compressed into one store (three arrays for all of them: a
+ * typed array longer than 64 bytes costs V8 a separate allocation of its memory, microseconds
+ * each, which added up to a tenth of a ladder's making).
+ */
+export function compressAll(As: Float64Array[], rows: number, N: number): Compressed[] {
   let nz = 0;
-  for (let i = 0; i < rows * N; i++) if (A[i] !== 0) nz++;
-  const start = new Int32Array(rows + 1);
+  for (const A of As) for (let i = 0; i < rows * N; i++) if (A[i] !== 0) nz++;
+  const starts = new Int32Array(As.length * (rows + 1));
   const col = new Int32Array(nz);
   const val = new Float64Array(nz);
   let k = 0;
-  for (let i = 0; i < rows; i++) {
-    start[i] = k;
-    for (let j = 0; j < N; j++) {
-      const v = A[i * N + j];
-      if (v !== 0) {
-        col[k] = j;
-        val[k++] = v;
+  return As.map((A, m) => {
+    const start = starts.subarray(m * (rows + 1), (m + 1) * (rows + 1));
+    for (let i = 0; i < rows; i++) {
+      start[i] = k;
+      for (let j = 0; j < N; j++) {
+        const v = A[i * N + j];
+        if (v !== 0) {
+          col[k] = j;
+          val[k++] = v;
+        }
       }
     }
-  }
-  start[rows] = k;
-  return { rows, start, col, val };
+    start[rows] = k;
+    return { rows, start, col, val };
+  });
 }
 
 /** y = A·x for A compressed; y distinct from x. */

@@ -1,4 +1,4 @@
-import { type Compressed, compress, matvecCompressed, mulRect, norm1 } from './dense.ts';
+import { type Compressed, compressAll, matvecCompressed, mulRect, norm1, slab } from './dense.ts';
 
 /**
  * Matrix exponentials of one mode's generator M (N × N, row-major) for the exact engine.
@@ -35,8 +35,6 @@ export class Ladder {
     this.N = N;
     this.h0 = h0;
     this.minRungs = minRungs;
-    this.M = Float64Array.from(M);
-    this.Mc = compress(M, N, N);
     const norm = norm1(M, N) * h0;
     // at least one rung below h0 (e^(M·h0/2) is the mid-step guard check), and as many as the output lattice needs
     // (a matrix that is not finite gets no extra rungs: its steps come out not finite and the run
@@ -45,35 +43,45 @@ export class Ladder {
     const rungs = Math.ceil(Math.log2(norm * 4));
     const K = Math.max(1, minRungs, norm > 0 && Number.isFinite(rungs) ? rungs : 0);
     this.K = K;
-    const X = new Float64Array(N * N);
+    // M's copy, the rungs, two work matrices and three vectors in one chunk (the dozen separate
+    // arrays were a sixth of a ladder's time)
+    const NN = N * N;
+    const take = slab((K + 4) * NN + 3 * N);
+    this.M = take(NN);
+    this.M.set(M);
+    const E_: Float64Array[] = new Array(K + 1);
+    for (let k = 0; k <= K; k++) E_[k] = take(NN);
+    const X = take(NN);
+    const T = take(NN);
     const f = h0 / 2 ** K;
-    for (let i = 0; i < N * N; i++) X[i] = M[i] * f;
+    for (let i = 0; i < NN; i++) X[i] = M[i] * f;
     // E = X·(I + X/2·(I + X/3·(… (I + X/13)))), Horner form of Σ X^m/m! (‖X‖ ≤ 1/4: the
     // first term left out, X¹⁴/14!, is below 5e-20; a wider base than 1/64 saves four squarings,
-    // the dense products of the ladder, for nine sparse ones by X)
-    let E = new Float64Array(N * N);
-    for (let i = 0; i < N * N; i++) E[i] = X[i] / TERMS;
-    const T = new Float64Array(N * N);
+    // the dense products of the ladder, for nine sparse ones by X); each level's 1/m scales X's
+    // entries in the product, and E and the work matrix trade places instead of being copied
+    let E = E_[K];
+    for (let i = 0; i < NN; i++) E[i] = X[i] / TERMS;
+    let W = T;
     for (let m = TERMS - 1; m >= 1; m--) {
       for (let i = 0; i < N; i++) E[i * N + i] += 1; // I + …
-      mulRect(X, N, E, N, T);
-      const inv = 1 / m; // (a product, not N² divisions: a tenth of a ladder's time went to them)
-      for (let i = 0; i < N * N; i++) E[i] = T[i] * inv;
+      mulRect(X, N, E, N, W, 1 / m);
+      const t = E;
+      E = W;
+      W = t;
     }
-    const E_: Float64Array[] = new Array(K + 1);
-    E_[K] = E;
+    if (E !== E_[K]) E_[K].set(E);
     for (let k = K; k >= 1; k--) {
-      const S = new Float64Array(N * N);
-      mulRect(E, N, E, N, S);
-      for (let i = 0; i < N * N; i++) S[i] += 2 * E[i];
-      E_[k - 1] = S;
-      E = S;
+      const S = E_[k - 1];
+      mulRect(E_[k], N, E_[k], N, S);
+      for (let i = 0; i < NN; i++) S[i] += 2 * E_[k][i];
     }
     this.E = E_;
-    this.Ec = E_.map((e) => compress(e, N, N));
-    this.tmp = new Float64Array(N);
-    this.acc = new Float64Array(N);
-    this.term = new Float64Array(N);
+    const cs = compressAll([this.M, ...E_], N, N);
+    this.Mc = cs[0];
+    this.Ec = cs.slice(1);
+    this.tmp = take(N);
+    this.acc = take(N);
+    this.term = take(N);
   }
 
   /** out = e^(M·s)·z for any s ≥ 0 (out may be z). */

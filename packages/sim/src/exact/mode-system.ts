@@ -1,5 +1,5 @@
 import type { Network } from '../network.ts';
-import { mulRect } from './dense.ts';
+import { mulRect, slab } from './dense.ts';
 import { type Ladder, ladderFor } from './ladder.ts';
 
 /**
@@ -77,11 +77,15 @@ export class ModeSystem {
     const nodes = net.nodes.length;
     const ng = net.guards.length;
     this.N = N;
-    const S = new Float64Array(nodes * N);
-    const A = new Float64Array(n * N);
-    const x = new Float64Array(n);
-    const dx = new Float64Array(n);
-    const u = new Float64Array(net.exoNodes.length);
+    // every matrix of the mode in shared chunks (about forty separate arrays were a quarter of a mode's making)
+    const take = slab();
+    const S = take(nodes * N);
+    // ż = M·z: the state rows (A) are filled from the network, the exosystems' rows by their generators
+    const M = take(N * N);
+    const A = M.subarray(0, n * N);
+    const x = take(n);
+    const dx = take(n);
+    const u = take(net.exoNodes.length);
     const sig = net.sig;
     const firstOf = new Int32Array(N).fill(-1);
     lay.at.forEach((a, j) => (firstOf[a] = j));
@@ -90,8 +94,10 @@ export class ModeSystem {
       // f(0): the constant column
       net.evalNet(0, x);
       net.derivatives(x, dx);
-      const sig0 = Float64Array.from(sig);
-      const dx0 = Float64Array.from(dx);
+      const sig0 = take(nodes);
+      sig0.set(sig);
+      const dx0 = take(n);
+      dx0.set(dx);
       for (let r = 0; r < nodes; r++) S[r * N + one] = sig0[r];
       for (let r = 0; r < n; r++) A[r * N + one] = dx0[r];
       for (let k = 0; k < N; k++) {
@@ -105,22 +111,21 @@ export class ModeSystem {
         if (k < n) x[k] = 0;
         else u[firstOf[k]] = 0;
       }
-      const M = new Float64Array(N * N);
-      M.set(A);
       net.exoNodes.forEach((nd, j) => nd.op.exoGenerator(nd, M, N, lay.at[j], one));
       this.M = M;
-      const S1 = new Float64Array(nodes * N);
+      const S1 = take(nodes * N);
       mulRect(S, nodes, M, N, S1);
       this.S = S;
       this.S1 = S1;
 
       // guards: g(z) from the signals S·z and slopes S1·z at each unit vector (second pass, so
       // that operations reading values set during evaluation — a PID's unlimited output — see them)
-      this.G = new Float64Array(ng * N);
+      this.G = take(ng * N);
       this.active = new Uint8Array(ng);
       if (ng > 0) {
         const udot = net.udot;
         const slopeIn = net.slopeNodes.map((nd) => nd.in0);
+        // net.guards at z = e_k (k = −1: at z = 0)
         const probe = (k: number): Float64Array => {
           if (k >= 0 && k < n) x[k] = 1;
           else if (k > one && firstOf[k] >= 0) u[firstOf[k]] = 1;
@@ -129,9 +134,10 @@ export class ModeSystem {
           net.guardsFromSignals(x);
           if (k >= 0 && k < n) x[k] = 0;
           else if (k > one && firstOf[k] >= 0) u[firstOf[k]] = 0;
-          return Float64Array.from(net.guards);
+          return net.guards;
         };
-        const g0 = probe(-1);
+        const g0 = take(ng);
+        g0.set(probe(-1));
         for (let i = 0; i < ng; i++) this.active[i] = Number.isFinite(g0[i]) ? 1 : 0;
         for (let i = 0; i < ng; i++) if (this.active[i]) this.G[i * N + one] = g0[i];
         for (let k = 0; k < N; k++) {
@@ -140,10 +146,10 @@ export class ModeSystem {
           for (let i = 0; i < ng; i++) if (this.active[i]) this.G[i * N + k] = gk[i] - g0[i];
         }
       }
-      this.Gp = new Float64Array(ng * N);
+      this.Gp = take(ng * N);
       mulRect(this.G, ng, M, N, this.Gp);
       this.S2delay = net.delayNodes.map((nd) => {
-        const row = new Float64Array(N);
+        const row = take(N);
         mulRect(S1.subarray(nd.in0 * N, nd.in0 * N + N), 1, M, N, row);
         return row;
       });
@@ -151,14 +157,16 @@ export class ModeSystem {
       net.exo = null;
     }
     this.ladder = ladderFor(this.M, N, h0, minRungs);
-    this.Phi = Float64Array.from(this.ladder.E[0]);
+    this.Phi = take(N * N);
+    this.Phi.set(this.ladder.E[0]);
     for (let i = 0; i < N; i++) this.Phi[i * N + i] += 1;
-    this.Half = Float64Array.from(this.ladder.E[1]);
+    this.Half = take(N * N);
+    this.Half.set(this.ladder.E[1]);
     for (let i = 0; i < N; i++) this.Half[i * N + i] += 1;
 
     const nd = net.delayNodes.length;
     this.rows = 2 * ng + 3 * nd + watch.step.length;
-    const R = new Float64Array(this.rows * N);
+    const R = take(this.rows * N);
     R.set(this.G, 0);
     R.set(this.Gp, ng * N);
     net.delayNodes.forEach((d, j) => {
@@ -169,10 +177,10 @@ export class ModeSystem {
     });
     watch.step.forEach((r, j) => R.set(this.S.subarray(r * N, r * N + N), (2 * ng + 3 * nd + j) * N));
     this.R = R;
-    this.RPhi = new Float64Array(this.rows * N);
+    this.RPhi = take(this.rows * N);
     mulRect(R, this.rows, this.Phi, N, this.RPhi);
-    this.PhiX = this.Phi.slice(0, n * N);
-    this.Rg = new Float64Array(watch.grid.length * N);
+    this.PhiX = this.Phi.subarray(0, n * N);
+    this.Rg = take(watch.grid.length * N);
     watch.grid.forEach((r, j) => this.Rg.set(this.S.subarray(r * N, r * N + N), j * N));
     this.gridCount = watch.grid.length;
   }
