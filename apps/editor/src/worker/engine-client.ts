@@ -6,6 +6,7 @@
  * synchronous integration inside a worker cannot see new messages until it returns).
  */
 import { isProgress, type Channel, type EngineProgress, type EngineReply, type EngineRequest } from './protocol.ts';
+import { unpackNumberArrays } from './number-arrays.ts';
 
 type Listener = (reply: EngineReply) => void;
 type ProgressListener = (p: EngineProgress) => void;
@@ -140,7 +141,8 @@ export class EngineClient {
     if (ch.worker) return ch.worker;
     const w = this.factory();
     w.onmessage = (e: MessageEvent) => {
-      const m = e.data as EngineReply | EngineProgress;
+      // (the worker posts long number arrays packed: number-arrays.ts)
+      const m = unpackNumberArrays(e.data as EngineReply | EngineProgress);
       if (isProgress(m)) {
         // Only the newest request's progress is of interest.
         if (m.id === ch.pending) for (const fn of this.progressListeners) fn(m);

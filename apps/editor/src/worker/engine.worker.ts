@@ -9,6 +9,7 @@
  */
 import { computeReply, throttled } from './compute.ts';
 import { PROGRESS_MS, type Channel, type EngineProgress, type EngineReply, type EngineRequest } from './protocol.ts';
+import { packNumberArrays } from './number-arrays.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 const held = new Map<Channel, EngineRequest>();
@@ -36,7 +37,8 @@ function drain(): void {
     PROGRESS_MS,
   );
   const reply: EngineReply = computeReply(req, { isCancelled, onProgress });
-  scope.postMessage(reply);
+  const { message, transfer } = packNumberArrays(reply);
+  scope.postMessage(message, transfer);
   if (held.size > 0) schedule();
 }
 
