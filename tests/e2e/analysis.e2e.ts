@@ -237,6 +237,56 @@ describe('analysis views', () => {
     expect(after).toBe(before + 1);
   });
 
+  it('a drag draws the response on its live layer in held axes, then gives the charts their data back', async () => {
+    type Hook = {
+      liveTraces(n: string): boolean;
+      chartOption(n: string): { series: { name: string; data: number[][] }[] } | null;
+      yExtents(n: string): [number, number][] | null;
+      latencies(): number[];
+    };
+    const live = (name: string) =>
+      page.evaluate((n) => (window as unknown as { __loopwright: { analysis: Hook } }).__loopwright.analysis.liveTraces(n), name);
+    const shownOf = (name: string) =>
+      page.evaluate((n) => (window as unknown as { __loopwright: { analysis: Hook } }).__loopwright.analysis.chartOption(n), name);
+    const drawnCount = () =>
+      page.evaluate(() => (window as unknown as { __loopwright: { analysis: Hook } }).__loopwright.analysis.latencies().length);
+    await settled(page);
+    const slider = page.getByTestId('sweep-slider');
+    const box = (await slider.boundingBox())!;
+    const y = box.y + box.height / 2;
+    const x = (f: number) => box.x + 8 + (box.width - 16) * f;
+    await page.mouse.move(x(0.5), y);
+    await page.mouse.down();
+    // steps of a drag, each drawn before the next (well inside the stream's 400 ms)
+    for (const f of [0.52, 0.55, 0.58, 0.6]) {
+      const n = await drawnCount();
+      await page.mouse.move(x(f), y);
+      await expect.poll(drawnCount, { timeout: 10_000 }).toBeGreaterThan(n);
+    }
+    expect(await live('response')).toBe(true);
+    const s1 = await state(page);
+    // what the chart shows is the run just computed, in axes that hold it
+    const shown = (await shownOf('response'))!;
+    const probe = s1.response!.probes[0].id;
+    const first = shown.series[0].data as unknown as number[][];
+    expect(first.length).toBe(s1.response!.run.time.length);
+    expect(first[first.length - 1][1]).toBe(s1.response!.run.traces[probe][s1.response!.run.time.length - 1]);
+    const held = (await page.evaluate(() =>
+      (window as unknown as { __loopwright: { analysis: Hook } }).__loopwright.analysis.yExtents('response'),
+    ))!;
+    const ys = s1.response!.run.traces[probe];
+    expect(held[0][0]).toBeLessThanOrEqual(Math.min(...ys));
+    expect(held[0][1]).toBeGreaterThanOrEqual(Math.max(...ys));
+    await screenshot(page, 'analysis-drag-live-traces');
+    // a pause: the charts hold their data again, their axes fitted by ECharts
+    await expect.poll(() => live('response'), { timeout: 5_000 }).toBe(false);
+    expect(await live('actuator')).toBe(false);
+    const after = (await shownOf('response'))!;
+    expect(after.series[0].data).toEqual(first);
+    await page.mouse.up();
+    await expect.poll(async () => (await state(page)).sweep!.live).toBeNull();
+  });
+
   it('clicking a branch point sets the gain that puts a closed-loop pole within 1 % of it', async () => {
     const s0 = await settled(page);
     const moving = dominantRangeBranch(s0);

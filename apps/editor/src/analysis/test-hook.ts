@@ -8,6 +8,7 @@ import { useAnalysisStore } from './analysis-store.ts';
 import { currentInputs } from './driver.ts';
 import { engineParameterName } from '@loopwright/study';
 import { chartInstance, chartNames, chartShownOption } from '../views/chart-registry.ts';
+import { tracesLive } from '../views/live-traces.ts';
 import { drawnMarks } from '../views/mark-layer.ts';
 
 export interface AnalysisHook {
@@ -15,6 +16,8 @@ export interface AnalysisHook {
   /** ECharts getOption() of a chart on screen with its marks as series (functions dropped). */
   chartOption(name: string): unknown;
   chartNames(): string[];
+  /** Whether a chart's traces are on its live layer now (a slider drag: live-traces.ts). */
+  liveTraces(name: string): boolean;
   /** The drawn extent [min, max] of each y-axis of a chart (what its panels show). */
   yExtents(name: string): [number, number][] | null;
   /** Page coordinates (CSS px) of the s-plane point (re, im) on the locus chart. */
@@ -79,6 +82,10 @@ export function installAnalysisHook(): void {
       return o ? json(o) : null;
     },
     chartNames,
+    liveTraces: (name) => {
+      const c = chartInstance(name);
+      return c ? tracesLive(c) : false;
+    },
     yExtents(name) {
       const c = chartInstance(name) as unknown as
         | { getModel(): { getComponent(t: string, i: number): { axis?: { scale: { getExtent(): [number, number] } } } | undefined } }

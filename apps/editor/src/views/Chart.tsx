@@ -3,13 +3,15 @@
  * without animation, unless only its series' data changed: option-update.ts), resized with its
  * box, registered by name for export and tests. `marks` move without touching the option
  * (mark-layer.ts); `htmlLegend` draws the option's legend as HTML over the chart
- * (html-legend.tsx). `onSize` reports the drawing size so views can fit axes (the locus keeps
+ * (html-legend.tsx). `liveTraces` draws a stream of data-only updates (a slider drag) on a layer
+ * of its own in held axes (live-traces.ts). `onSize` reports the drawing size so views can fit axes (the locus keeps
  * equal aspect).
  */
 import { useEffect, useLayoutEffect, useMemo, useRef } from 'react';
 import { echarts, type ChartInstance, type ChartOption } from './echarts-setup.ts';
 import { registerChart, unregisterChart } from './chart-registry.ts';
 import { MarkLayer, type MarkSeries } from './mark-layer.ts';
+import { LiveTraces } from './live-traces.ts';
 import { dataPatch, optionShape } from './option-update.ts';
 import { HtmlLegend, legendEntries, withoutLegend } from './html-legend.tsx';
 
@@ -20,6 +22,8 @@ export interface ChartProps {
   marks?: MarkSeries[];
   /** The option's legend as HTML over the chart, not redrawn with each update (exports keep ECharts' own). */
   htmlLegend?: boolean;
+  /** Line traces on value axes: a stream of data-only updates is drawn on a layer of its own (live-traces.ts). */
+  liveTraces?: boolean;
   height?: number | string;
   onSize?(size: { width: number; height: number }): void;
   /** Pixel-level pointer events on the whole drawing surface (offsetX/offsetY). */
@@ -34,6 +38,7 @@ export function Chart(props: ChartProps) {
   const box = useRef<HTMLDivElement>(null);
   const inst = useRef<ChartInstance | null>(null);
   const layer = useRef<MarkLayer | null>(null);
+  const live = useRef<LiveTraces | null>(null);
   /** The shape (optionShape) of the option the chart holds. */
   const shape = useRef('');
   const handlers = useRef(props);
@@ -47,6 +52,11 @@ export function Chart(props: ChartProps) {
     const chart = echarts.init(el, null, { renderer: 'canvas' });
     inst.current = chart;
     layer.current = new MarkLayer(chart);
+    if (handlers.current.liveTraces)
+      live.current = new LiveTraces(chart, (option) => {
+        chart.setOption({ animation: false, ...(option as object) }, { notMerge: true, lazyUpdate: false });
+        layer.current?.draw(handlers.current.marks);
+      });
     const zr = chart.getZr();
     zr.on('mousemove', (e: { offsetX: number; offsetY: number }) => handlers.current.onPointerMove?.(chart, e.offsetX, e.offsetY));
     zr.on('globalout', () => handlers.current.onPointerLeave?.(chart));
@@ -57,12 +67,15 @@ export function Chart(props: ChartProps) {
     const ro = new ResizeObserver(() => {
       chart.resize();
       layer.current?.redraw();
+      live.current?.redraw();
       handlers.current.onSize?.({ width: el.clientWidth, height: el.clientHeight });
     });
     ro.observe(el);
     handlers.current.onSize?.({ width: el.clientWidth, height: el.clientHeight });
     return () => {
       ro.disconnect();
+      live.current?.stop();
+      live.current = null;
       unregisterChart(handlers.current.name, chart);
       chart.dispose();
       inst.current = null;
@@ -76,8 +89,12 @@ export function Chart(props: ChartProps) {
     if (!chart) return;
     const screen = props.htmlLegend ? withoutLegend(props.option) : props.option;
     const next = optionShape(screen);
-    if (next === shape.current) chart.setOption(dataPatch(screen), { notMerge: false, lazyUpdate: false });
-    else chart.setOption({ animation: false, ...(screen as object) }, { notMerge: true, lazyUpdate: false });
+    if (next === shape.current) {
+      if (!live.current?.take(screen)) chart.setOption(dataPatch(screen), { notMerge: false, lazyUpdate: false });
+    } else {
+      live.current?.stop();
+      chart.setOption({ animation: false, ...(screen as object) }, { notMerge: true, lazyUpdate: false });
+    }
     shape.current = next;
     // the axes may have moved
     layer.current?.draw(handlers.current.marks);

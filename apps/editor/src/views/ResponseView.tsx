@@ -82,6 +82,7 @@ export function ResponseView({ pal }: { pal: Palette }) {
           background={pal.background}
           option={option!}
           htmlLegend
+          liveTraces
           extra={
             <>
               <span className="lw-muted" title="solid: with nonlinearities · dashed: the linear model · dotted: pinned">
@@ -104,7 +105,7 @@ export function ResponseView({ pal }: { pal: Palette }) {
             </>
           }
         />
-        {actOption && <ChartFrame name="actuator" title="Actuator" background={pal.background} option={actOption} htmlLegend />}
+        {actOption && <ChartFrame name="actuator" title="Actuator" background={pal.background} option={actOption} htmlLegend liveTraces />}
       </div>
       <MetricsTable r={r} pinned={pinned} />
     </div>

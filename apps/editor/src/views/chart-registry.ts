@@ -5,6 +5,8 @@
  */
 import { echarts, type ChartInstance, type ChartOption } from './echarts-setup.ts';
 import { withMarks, type MarkSeries } from './mark-layer.ts';
+import { tracesLive } from './live-traces.ts';
+import { seriesOf } from './option-update.ts';
 
 interface Entry {
   instance: ChartInstance;
@@ -33,10 +35,19 @@ export function unregisterChart(name: string, instance: ChartInstance): void {
 export const chartNames = (): string[] => [...charts.keys()];
 export const chartInstance = (name: string): ChartInstance | undefined => charts.get(name)?.instance;
 
-/** What a chart on screen shows, as one option: its instance's option with its marks (mark-layer.ts) added. */
+/**
+ * What a chart on screen shows, as one option: its instance's option with its marks
+ * (mark-layer.ts) added, and its traces' data while its live layer holds them (live-traces.ts).
+ */
 export function chartShownOption(name: string): ChartOption | null {
   const e = charts.get(name);
-  return e ? withMarks(e.instance.getOption() as ChartOption, e.marks) : null;
+  if (!e) return null;
+  let shown = e.instance.getOption() as ChartOption;
+  if (tracesLive(e.instance)) {
+    const given = seriesOf(e.option);
+    shown = { ...shown, series: seriesOf(shown).map((s, i) => ({ ...s, data: given[i]?.data ?? s.data })) };
+  }
+  return withMarks(shown, e.marks);
 }
 
 /**
