@@ -67,13 +67,12 @@ export async function exportReport(): Promise<void> {
   }
 }
 
-export function AnalysisArea() {
-  const view = useAnalysisStore((s) => s.view);
-  const setView = useAnalysisStore((s) => s.setView);
-  const pinned = useAnalysisStore((s) => s.pinned);
-  const dark = useDark();
-  const pal = useMemo(() => palette(dark), [dark]);
-  // Only what the drawn-generation bookkeeping needs: the views subscribe to their own data.
+/**
+ * Records each complete generation as drawn: after the charts have been given their options,
+ * one frame for the paint. A component of its own, so that a new generation (every slider
+ * step) renders only it, not the analysis area and every view in it.
+ */
+function DrawnGenerations() {
   const results = useResultsStore(
     useShallow((s) => ({
       generation: s.generation,
@@ -83,14 +82,6 @@ export function AnalysisArea() {
       renderedGeneration: s.renderedGeneration,
     })),
   );
-  const tab = view === 'locus' ? 'response' : view;
-
-  useEffect(() => startAnalysisDriver(), []);
-  useEffect(() => installAnalysisHook(), []);
-  useEffect(() => installCommissionHook(), []);
-
-  // After the charts of a complete generation have been given their options (child effects run
-  // first), wait one frame for the paint and record the generation as drawn.
   useLayoutEffect(() => {
     if (!resultsComplete(results as ResultsState) || results.renderedGeneration === results.generation) return;
     const gen = results.generation;
@@ -108,6 +99,20 @@ export function AnalysisArea() {
     });
     return () => cancelAnimationFrame(raf);
   }, [results]);
+  return null;
+}
+
+export function AnalysisArea() {
+  const view = useAnalysisStore((s) => s.view);
+  const setView = useAnalysisStore((s) => s.setView);
+  const pinned = useAnalysisStore((s) => s.pinned);
+  const dark = useDark();
+  const pal = useMemo(() => palette(dark), [dark]);
+  const tab = view === 'locus' ? 'response' : view;
+
+  useEffect(() => startAnalysisDriver(), []);
+  useEffect(() => installAnalysisHook(), []);
+  useEffect(() => installCommissionHook(), []);
 
   return (
     <div className="lw-analysis" data-theme-dark={dark ? 'true' : 'false'}>
@@ -179,6 +184,7 @@ export function AnalysisArea() {
           </div>
         </div>
       </div>
+      <DrawnGenerations />
     </div>
   );
 }

@@ -21,17 +21,19 @@ import {
 
 const STEPS = 1000;
 
-/** The sweep in force (the study's answer, the same one the requests use). */
-export function useSweepChoice(): { choices: SweepChoice[]; choice: SweepChoice | null; range: SweepRange | null; value: number } {
+/**
+ * The sweep in force (the study's answer, the same one the requests use): the swept quantity,
+ * the choices and the range. Not the live value, which does not change them: the canvas, the
+ * parameter list and the Locus view then do not render again on every slider step.
+ */
+export function useSweepChoice(): { choices: SweepChoice[]; choice: SweepChoice | null; range: SweepRange | null } {
   const diagram = useDiagramStore((s) => s.diagram);
   const key = useAnalysisStore((s) => s.sweepKey);
-  const liveValue = useAnalysisStore((s) => s.liveValue);
   const ranges = useAnalysisStore((s) => s.ranges);
-  const { choices, choice, range, value } = useMemo(
-    () => resolveSweep(diagram, { key, liveValue, ranges }),
-    [diagram, key, liveValue, ranges],
-  );
-  return { choices, choice, range, value };
+  return useMemo(() => {
+    const { choices, choice, range } = resolveSweep(diagram, { key, liveValue: null, ranges });
+    return { choices, choice, range };
+  }, [diagram, key, ranges]);
 }
 
 /** Writes a sweep value into the document (a parameter's value or a gain block's k). */
@@ -63,8 +65,10 @@ function persistRange(choice: SweepChoice, r: SweepRange): void {
 }
 
 export function SweepBar() {
-  const { choices, choice, range, value } = useSweepChoice();
+  const { choices, choice, range } = useSweepChoice();
   const live = useAnalysisStore((s) => s.liveValue);
+  // the value in force, as resolveSweep gives it: the live one, else the document's
+  const value = live ?? choice?.value ?? Number.NaN;
   const ui = useAnalysisStore.getState;
   const slider = useRef<HTMLInputElement>(null);
   const choiceRef = useRef(choice);
