@@ -26,11 +26,13 @@ export function computeReply(req: EngineRequest, ctx: StudyContext = {}): Engine
 }
 
 /**
- * A progress callback that passes on at most one report per `everyMs` (the first at once),
- * so that a run reporting every 1 % does not flood the page with messages.
+ * A progress callback that passes on at most one report per `everyMs`, the first once `everyMs`
+ * has passed: a run reporting every 1 % does not flood the page with messages, and a request
+ * computed sooner (a slider step) posts none — the page shows progress only after 300 ms, and a
+ * message it must handle while the step computes competes with it for the CPU.
  */
 export function throttled<T>(post: (p: T) => void, everyMs: number, clock: () => number = now): (p: T) => void {
-  let last = -Infinity;
+  let last = clock();
   return (p) => {
     const t = clock();
     if (t - last < everyMs) return;
