@@ -18,6 +18,17 @@ const trace = (gain: number) => {
   return d;
 };
 
+/** A line series on grid i's axes. */
+const line = (name: string, i: number, lineStyle: object, data: Float64Array) => ({
+  type: 'line',
+  name,
+  dimensions: ['t', 'y'],
+  xAxisIndex: i,
+  yAxisIndex: i,
+  lineStyle,
+  data,
+});
+
 const option = (gain: number): ChartOption => ({
   animation: false,
   grid: [
@@ -33,24 +44,8 @@ const option = (gain: number): ChartOption => ({
     { type: 'value', gridIndex: 1, scale: true },
   ],
   series: [
-    {
-      type: 'line',
-      name: 'a',
-      dimensions: ['t', 'y'],
-      xAxisIndex: 0,
-      yAxisIndex: 0,
-      lineStyle: { color: '#123456', width: 2, type: 'solid' },
-      data: trace(gain),
-    },
-    {
-      type: 'line',
-      name: 'b',
-      dimensions: ['t', 'y'],
-      xAxisIndex: 1,
-      yAxisIndex: 1,
-      lineStyle: { color: '#654321', width: 1.5, type: 'dashed' },
-      data: trace(-gain),
-    },
+    line('a', 0, { color: '#123456', width: 2, type: 'solid' }, trace(gain)),
+    line('b', 1, { color: '#654321', width: 1.5, type: 'dashed' }, trace(-gain)),
   ],
 });
 
