@@ -7,7 +7,7 @@
  * chart keeps its axes and empties its series once, and each update draws the traces as plain
  * paths in those axes, widening an axis (a nice round range, one ECharts update) only when a
  * trace leaves it. A pause ends the stream: the chart gets its full option back, axes fitted
- * to the data again. What the screen shows is the same option throughout (chart-registry.ts
+ * to the data again (also where the traces have shrunk meanwhile). What the screen shows is the same option throughout (chart-registry.ts
  * hands the data back to exports and the test hook while the layer holds it).
  */
 import { echarts, type ChartInstance, type ChartOption } from './echarts-setup.ts';
@@ -183,9 +183,11 @@ export class LiveTraces {
   }
 
   /**
-   * Fits `held` to the traces: an axis grows when a trace leaves it, and shrinks when they all
-   * take less than a fifth of it (a range left from a larger response would flatten the one
-   * on screen); otherwise it stays put. True when an axis changed.
+   * Grows `held` to the traces: an axis grows when a trace leaves it and otherwise stays put,
+   * also when the traces shrink (the fit to them comes with the pause that ends the stream: an
+   * axis that rescaled back and forth during a drag would both cost an ECharts update and make
+   * the traces jump; a drag that went high and came back showed three refits in eleven steps).
+   * True when an axis changed.
    */
   private grow(option: ChartOption): boolean {
     const lo = this.held.map(() => Infinity);
@@ -202,23 +204,15 @@ export class LiveTraces {
     }
     let changed = false;
     this.held.forEach((h, y) => {
-      if (!(lo[y] <= hi[y])) return;
-      const span = h[1] - h[0];
-      if (lo[y] < h[0] || hi[y] > h[1]) {
-        // with a quarter of the new span to spare on the side that grew: a drag that keeps
-        // raising a peak then refits every few steps, not every step
-        const pad = 0.25 * (Math.max(hi[y], h[1]) - Math.min(lo[y], h[0]));
-        this.held[y] = widened(h[0], h[1], lo[y] < h[0] ? lo[y] - pad : lo[y], hi[y] > h[1] ? hi[y] + pad : hi[y]);
-      } else if (5 * (hi[y] - lo[y]) < span) this.held[y] = widened(lo[y], hi[y], lo[y], hi[y]);
-      else return;
+      if (!(lo[y] < h[0] || hi[y] > h[1])) return;
+      // with a quarter of the new span to spare on the side that grew: a drag that keeps
+      // raising a peak then refits every few steps, not every step
+      const pad = 0.25 * (Math.max(hi[y], h[1]) - Math.min(lo[y], h[0]));
+      this.held[y] = widened(h[0], h[1], lo[y] < h[0] ? lo[y] - pad : lo[y], hi[y] > h[1] ? hi[y] + pad : hi[y]);
       changed = true;
     });
-    if (changed) this.refits++;
     return changed;
   }
-
-  /** Axis changes made during streams (each is one ECharts update). */
-  refits = 0;
 
   /** Draws the traces again (a new update, or the chart was resized). */
   redraw(): void {
