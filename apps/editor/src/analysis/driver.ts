@@ -37,8 +37,14 @@ import { CHANNELS, type Channel, type EngineReply, type ViewChannel } from '../w
 import type { AnalysisSnapshot } from './snapshot.ts';
 import { ReplyBatch } from './reply-batch.ts';
 
-/** How long a reply may wait for the rest of its generation, and how quick a channel must be to be waited for (ms). */
-const COALESCE_MS = 40;
+/**
+ * How long a reply may wait for the rest of its generation, and how quick a channel must be to
+ * be waited for (ms). A slider step's run takes 5–10 ms; with the machine busy, 30–50 ms. At
+ * 40 ms such a step flipped to applying its replies one by one, and the extra render competed
+ * with the run still computing: the slow steps got slower. Runs longer than this still never
+ * hold up the locus markers.
+ */
+const COALESCE_MS = 80;
 
 export interface AnalysisInputs {
   diagram: Diagram;
