@@ -125,12 +125,11 @@ export class LiveTraces {
     this.lastAt = -Infinity;
   }
 
+  /** The pause: the chart takes its full option (stop has reset the clock, so that update does not count as a step of a new stream). */
   private end(): void {
     const option = this.option;
     this.stop();
     if (option) this.settle(option);
-    // the full update just given is not a step of a new stream
-    this.lastAt = -Infinity;
   }
 
   private model(): Model {
