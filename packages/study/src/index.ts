@@ -26,6 +26,7 @@ export {
   sweepChoices,
   preferredChoice,
   resolveSweep,
+  valueInForce,
   type SweepSelection,
   type ResolvedSweep,
 } from './sweep-target.ts';

@@ -133,12 +133,17 @@ export interface ResolvedSweep {
   live: LiveValue | null;
 }
 
+/** The value in force for a swept quantity: the live slider value, else the document's. */
+export function valueInForce(choice: SweepChoice, liveValue: number | null): number {
+  return liveValue ?? choice.value;
+}
+
 /** Which sweep is in force for a UI selection: one answer for the sweep bar, the views and the requests. */
 export function resolveSweep(d: Diagram, sel: SweepSelection): ResolvedSweep {
   const choices = sweepChoices(d);
   const choice = choices.find((c) => c.key === sel.key) ?? preferredChoice(d, choices);
   if (!choice) return { choices, choice: null, range: null, value: Number.NaN, live: null };
   const range = sel.ranges?.[choice.key] ?? choice.range;
-  const value = sel.liveValue ?? choice.value;
+  const value = valueInForce(choice, sel.liveValue);
   return { choices, choice, range, value, live: Number.isFinite(value) ? { target: choice.target, value } : null };
 }

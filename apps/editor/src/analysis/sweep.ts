@@ -9,6 +9,7 @@ export {
   positionToValue,
   preferredChoice,
   resolveSweep,
+  valueInForce,
   sweepChoices,
   targetKey,
   valueToPosition,

@@ -13,6 +13,7 @@ import {
   fmt,
   positionToValue,
   resolveSweep,
+  valueInForce,
   valueToPosition,
   widenedRange,
   type SweepChoice,
@@ -67,8 +68,7 @@ function persistRange(choice: SweepChoice, r: SweepRange): void {
 export function SweepBar() {
   const { choices, choice, range } = useSweepChoice();
   const live = useAnalysisStore((s) => s.liveValue);
-  // the value in force, as resolveSweep gives it: the live one, else the document's
-  const value = live ?? choice?.value ?? Number.NaN;
+  const value = choice ? valueInForce(choice, live) : Number.NaN;
   const ui = useAnalysisStore.getState;
   const slider = useRef<HTMLInputElement>(null);
   const choiceRef = useRef(choice);

@@ -26,8 +26,13 @@ describe('number arrays across the worker boundary', () => {
     expect(reply.ok).toBe(true);
     const before = JSON.stringify(reply);
     const { transfer } = packNumberArrays(reply);
-    // the run's time grid and every trace, for both runs
-    expect(transfer.length).toBeGreaterThanOrEqual(10);
+    // at least the time grid and every trace of both runs (the run as drawn and the linear overlay)
+    const r = (reply as { results: { ok: boolean; value: { value: unknown } }[] }).results[0].value.value as {
+      run: { traces: Record<string, number[]> };
+      linear: { traces: Record<string, number[]> };
+    };
+    const runs = [r.run, r.linear];
+    expect(transfer.length).toBeGreaterThanOrEqual(runs.reduce((n, x) => n + 1 + Object.keys(x.traces).length, 0));
     expect(trip(reply)).toEqual(reply);
     // the worker's own objects (its caches may hold them) are not touched
     expect(JSON.stringify(reply)).toBe(before);
