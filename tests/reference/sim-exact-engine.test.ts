@@ -1,7 +1,7 @@
 import { compileModel, simulate } from '@loopwright/sim';
 import { expm, matrix, multiply, type Matrix } from 'mathjs';
 import { describe, expect, it } from 'vitest';
-import { HermiteHistory, Ladder, buildDiagram, compress, ladderFor, matvecCompressed, matvecRect } from '@loopwright/sim/testing';
+import { HermiteHistory, Ladder, buildDiagram, compress, ladderFor, matvecCompressed, matvecRect, mulRect } from '@loopwright/sim/testing';
 
 /** A small deterministic generator (Park–Miller), so the random matrices are the same every run. */
 function lcg(seed: number) {
@@ -76,6 +76,28 @@ describe("the exact step's products and the ladder cache", () => {
         expect(Math.abs(dense[i] - v), `${rows}×${N} row ${i}`).toBeLessThan(1e-14);
         expect(Math.abs(sparse[i] - v), `${rows}×${N} row ${i}`).toBeLessThan(1e-14);
       });
+    }
+  });
+
+  it('the gathered matrix product equals mathjs multiply, scaled (rows past the four-column blocks, empty rows, N up to 70)', () => {
+    // mathjs multiply is the reference; N = 70 is past the gather's first size (64)
+    const r = lcg(4242);
+    for (const [rows, N] of [
+      [1, 1],
+      [3, 5],
+      [7, 6],
+      [20, 20],
+      [9, 70],
+    ]) {
+      const sparse = (n: number, m: number) =>
+        Array.from({ length: n }, (_, i) => Array.from({ length: m }, () => (i === 1 || r() < 0.6 ? 0 : 2 * r() - 1)));
+      const A = sparse(rows, N);
+      const B = sparse(N, N);
+      const f = -0.37;
+      const want = multiply(multiply(A, B), f) as number[][];
+      const C = new Float64Array(rows * N).fill(NaN);
+      mulRect(Float64Array.from(A.flat()), rows, Float64Array.from(B.flat()), N, C, f);
+      want.forEach((row, i) => row.forEach((v, j) => expect(Math.abs(C[i * N + j] - v), `${rows}×${N} (${i}, ${j})`).toBeLessThan(1e-13)));
     }
   });
 

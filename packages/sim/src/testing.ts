@@ -4,5 +4,5 @@
 // the public API.
 export { buildDiagram } from './test-support/build-diagram.ts';
 export { Ladder, clearLadders, ladderFor } from './exact/ladder.ts';
-export { compress, matvecCompressed, matvecRect } from './exact/dense.ts';
+export { compress, matvecCompressed, matvecRect, mulRect } from './exact/dense.ts';
 export { HermiteHistory } from './exact/hermite-history.ts';
