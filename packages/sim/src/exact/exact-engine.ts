@@ -55,6 +55,8 @@ export class ExactEngine implements SegmentEngine {
   private readonly zm: Float64Array;
   private readonly x1: Float64Array;
   private readonly out: Float64Array;
+  /** [x1 | out] (x1 and out are its views). */
+  private readonly stepOut: Float64Array;
   private readonly gridOut: Float64Array;
   private readonly gPrev: Float64Array;
   private readonly pPrev: Float64Array;
@@ -116,8 +118,10 @@ export class ExactEngine implements SegmentEngine {
     this.z1 = new Float64Array(N);
     this.zt = new Float64Array(N);
     this.zm = new Float64Array(N);
-    this.x1 = new Float64Array(this.lay.n);
-    this.out = new Float64Array(this.oS + stepRows.length);
+    // a regular step's one product fills both: the end state's n entries, then the step rows
+    this.stepOut = new Float64Array(this.lay.n + this.oS + stepRows.length);
+    this.x1 = this.stepOut.subarray(0, this.lay.n);
+    this.out = this.stepOut.subarray(this.lay.n);
     this.gridOut = new Float64Array(this.recRows.length);
     this.gPrev = new Float64Array(ng);
     this.pPrev = new Float64Array(ng);
@@ -277,8 +281,7 @@ export class ExactEngine implements SegmentEngine {
       this.turning.stepStart(sys, z0, T);
       let xe = this.x1;
       if (regular) {
-        matvecRect(sys.PhiX, n, N, z0, xe);
-        matvecRect(sys.RPhi, sys.rows, N, z0, out);
+        matvecRect(sys.Step, n + sys.rows, N, z0, this.stepOut);
       } else {
         sys.ladder.apply(h, z0, this.z1);
         matvecRect(sys.R, sys.rows, N, this.z1, out);

@@ -60,13 +60,13 @@ export class ModeSystem {
   /**
    * What a step reads at its end, as rows times z: guards (ng), their slopes (ng), each dead
    * time's input with its first and second derivative (3 per dead time), then `watch.step`
-   * signals. R for any z; RPhi = R·Φ and PhiX (the state rows of Φ) for a regular step, whose
-   * end state is then needed only in its first n entries (the exosystems are refilled).
+   * signals. R for any z. A regular step's end state is needed only in its first n entries (the
+   * exosystems are refilled), so it takes one product by Step = [Φ's state rows; R·Φ]: n + rows
+   * rows, the end state then what R reads at the step end (one pass over z instead of two).
    */
   readonly R: Float64Array;
-  readonly RPhi: Float64Array;
+  readonly Step: Float64Array;
   readonly rows: number;
-  readonly PhiX: Float64Array;
   /** The `watch.grid` signals (a grid point at a step end is read from the step rows instead). */
   readonly Rg: Float64Array;
   private readonly RgOff: Float64Array[] = [];
@@ -177,9 +177,9 @@ export class ModeSystem {
     });
     watch.step.forEach((r, j) => R.set(this.S.subarray(r * N, r * N + N), (2 * ng + 3 * nd + j) * N));
     this.R = R;
-    this.RPhi = take(this.rows * N);
-    mulRect(R, this.rows, this.Phi, N, this.RPhi);
-    this.PhiX = this.Phi.subarray(0, n * N);
+    this.Step = take((n + this.rows) * N);
+    this.Step.set(this.Phi.subarray(0, n * N));
+    mulRect(R, this.rows, this.Phi, N, this.Step.subarray(n * N));
     this.Rg = take(watch.grid.length * N);
     watch.grid.forEach((r, j) => this.Rg.set(this.S.subarray(r * N, r * N + N), j * N));
     this.gridCount = watch.grid.length;
