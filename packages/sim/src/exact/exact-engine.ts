@@ -211,6 +211,14 @@ export class ExactEngine implements SegmentEngine {
     const tol = 1e-12 * Math.max(1, Math.abs(tn));
     const stop = Math.min(tn + tol, tEnd - 1e-12 * Math.max(1, Math.abs(tEnd)));
     const rows = this.recRows.length;
+    if (regular && this.p === 1 && this.q === 1) {
+      // the lattice is the grid: the one point is the step end, already read with the step rows
+      if (tn < stop && rec.isNew(tn)) {
+        for (let r = 0; r < rows; r++) this.sigOut[this.recRows[r]] = this.out[this.oS + this.gridAt[r]];
+        rec.record(tn, this.sigOut);
+      }
+      return;
+    }
     for (let g = Math.floor(tc / dt) + 1; g * dt < stop; g++) {
       const tg = g * dt;
       if (!rec.isNew(tg)) continue;
