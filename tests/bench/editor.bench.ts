@@ -7,9 +7,12 @@
  *    with (Locus, whose Response strip runs the simulation). The same steps recomputed in full
  *    (`affine: false`) give `editor.sliderEngine.<view>.fullP95ms` and the ratio.
  *    After WARM_STEPS values to bring the JIT to its steady state, each of the 40 values is
- *    computed REPEATS times (exponentials forgotten each time) and its least time kept: bursts
- *    of the shared host's load last a few milliseconds and otherwise decide a p95 of 40 single
- *    timings. The p95 of single timings is kept as `editor.sliderEngine.<view>.singleP95ms`.
+ *    computed REPEATS times (exponentials forgotten each time) and its least time kept: the
+ *    shared host's load otherwise decides a p95 of 40 single timings. The repeats are passes
+ *    over every view's values, seconds apart, not back to back: the host slows down in phases
+ *    of one to several seconds (a 1500-run trace: runs at 1.7× the fast phase's time for 0.3–2 s
+ *    at a stretch), so timings of one value back to back fall in the same phase. The p95 of the
+ *    first pass's timings is kept as `editor.sliderEngine.<view>.singleP95ms`.
  *  - `editor.slider.p95ms`: slider → all views drawn in headless Chromium while a second process
  *    keeps one core busy (`editor.slider.quietP95ms`: the same without that child); target ≤ 50 ms.
  *    Timed over 40 moves after BROWSER_WARM moves of a drag (about one second of dragging at the
@@ -46,7 +49,7 @@ const channelsFor = (view: View): Channel[] => [
 const forceFull = (r: StudyRequest): StudyRequest =>
   r.kind === 'poles' || r.kind === 'cut' || r.kind === 'loops' ? { ...r, affine: false } : r;
 
-/** Slider values computed before timing (the JIT's warm-up), and timings per value (the least is kept). */
+/** Slider values computed before timing (the JIT's warm-up), and passes over every view's values (the least is kept). */
 const WARM_STEPS = 10;
 const REPEATS = 3;
 
@@ -54,58 +57,72 @@ interface Steps {
   /** Engine ms per step (sum over the channels; the least of REPEATS), precomputed path and full recomputation, in alternation. */
   fast: number[];
   full: number[];
-  /** The first timing of each value, precomputed path. */
+  /** The first pass's timing of each value, precomputed path. */
   single: number[];
   /** Per channel, precomputed path (the least of REPEATS). */
   byChannel: Record<string, number[]>;
 }
 
-/** Steps the slider through its range as a drag does; each value is computed both ways, alternately first. */
-function engineSteps(view: View, steps: number): Steps {
+/** The slider values of a drag through positions 0.3–0.7 (a log range: the editor's mapping), a new value each step; warm-up first. */
+function dragValues(min: number, max: number, steps: number): number[] {
+  return Array.from({ length: WARM_STEPS + steps }, (_, i) => min * (max / min) ** (0.3 + ((i * 37) % 400) / 1000));
+}
+
+/**
+ * Steps the slider through its range as a drag does, for every view: REPEATS passes, each over
+ * every view's values in turn; each value is computed both ways, alternately first.
+ */
+function engineSteps(steps: number): Record<View, Steps> {
   const d = demoDiagrams.find((x) => x.id === 'positioning-axis')!.diagram;
-  const out: Steps = { fast: [], full: [], single: [], byChannel: {} };
   const sweep = resolveSweep(d, { key: null, liveValue: null });
-  const { min, max } = sweep.range!;
-  for (let i = -WARM_STEPS; i < steps; i++) {
-    // Positions 0.3–0.7 of the slider (a log range: the editor's mapping), a new value each step.
-    const value = min * (max / min) ** (0.3 + (((i + WARM_STEPS) * 37) % 400) / 1000);
-    const inputs = {
-      diagram: d,
-      sweep: resolveSweep(d, { key: null, liveValue: value }),
-      live: { target: sweep.choice!.target, value },
-      cutId: null,
-      closedLoop: null,
-    };
-    const studies = channelStudies(inputs, { frequency: view === 'frequency', opposite: false });
-    const least = { fast: Infinity, full: Infinity };
-    const leastBy: Record<string, number> = {};
-    for (let rep = 0; rep < REPEATS; rep++) {
-      for (const full of (i + rep) % 2 ? [true, false] : [false, true]) {
-        let ms = 0;
-        for (const ch of channelsFor(view)) {
-          const reqs = full ? studies[ch].map(forceFull) : studies[ch];
-          // each value is computed several times: none may reuse another's exponentials
-          clearLadders();
-          const t0 = performance.now();
-          const reply = computeReply({ channel: ch, id: i + 10, diagram: d, studies: reqs });
-          const dt = performance.now() - t0;
-          ms += dt;
-          if (!reply.ok) throw new Error(reply.error);
-          for (const p of reply.results) if (!p.ok) throw new Error(p.error);
-          if (!full) leastBy[ch] = Math.min(leastBy[ch] ?? Infinity, dt);
+  const values = dragValues(sweep.range!.min, sweep.range!.max, steps);
+  const least = (view: View, way: 'fast' | 'full') => `${view}|${way}`;
+  const best = new Map<string, number[]>();
+  const bestBy = new Map<string, number[]>();
+  const single: Record<View, number[]> = { locus: [], response: [], frequency: [], loops: [] };
+  const keep = (m: Map<string, number[]>, key: string, i: number, ms: number) => {
+    const xs = m.get(key) ?? m.set(key, new Array<number>(steps).fill(Infinity)).get(key)!;
+    xs[i] = Math.min(xs[i], ms);
+  };
+  for (let rep = 0; rep < REPEATS; rep++) {
+    for (const view of VIEWS) {
+      values.forEach((value, at) => {
+        const i = at - WARM_STEPS;
+        if (i < 0 && rep > 0) return;
+        const inputs = {
+          diagram: d,
+          sweep: resolveSweep(d, { key: null, liveValue: value }),
+          live: { target: sweep.choice!.target, value },
+          cutId: null,
+          closedLoop: null,
+        };
+        const studies = channelStudies(inputs, { frequency: view === 'frequency', opposite: false });
+        for (const full of (at + rep) % 2 ? [true, false] : [false, true]) {
+          let ms = 0;
+          for (const ch of channelsFor(view)) {
+            const reqs = full ? studies[ch].map(forceFull) : studies[ch];
+            // each value is computed several times: none may reuse another's exponentials
+            clearLadders();
+            const t0 = performance.now();
+            const reply = computeReply({ channel: ch, id: at + 10, diagram: d, studies: reqs });
+            const dt = performance.now() - t0;
+            ms += dt;
+            if (!reply.ok) throw new Error(reply.error);
+            for (const p of reply.results) if (!p.ok) throw new Error(p.error);
+            if (!full && i >= 0) keep(bestBy, `${view}|${ch}`, i, dt);
+          }
+          if (i < 0) continue;
+          keep(best, least(view, full ? 'full' : 'fast'), i, ms);
+          if (!full && rep === 0) single[view].push(ms);
         }
-        if (full) least.full = Math.min(least.full, ms);
-        else {
-          least.fast = Math.min(least.fast, ms);
-          if (rep === 0 && i >= 0) out.single.push(ms);
-        }
-      }
+      });
     }
-    if (i >= 0) {
-      out.fast.push(least.fast);
-      out.full.push(least.full);
-      for (const [ch, dt] of Object.entries(leastBy)) (out.byChannel[ch] ??= []).push(dt);
-    }
+  }
+  const out = {} as Record<View, Steps>;
+  for (const view of VIEWS) {
+    const byChannel: Record<string, number[]> = {};
+    for (const ch of channelsFor(view)) byChannel[ch] = bestBy.get(`${view}|${ch}`)!;
+    out[view] = { fast: best.get(least(view, 'fast'))!, full: best.get(least(view, 'full'))!, single: single[view], byChannel };
   }
   return out;
 }
@@ -139,8 +156,9 @@ async function browserSlider(busy: boolean): Promise<{ early: number[]; steady: 
 export async function run(): Promise<void> {
   section('editor: a slider step (positioning-axis demo)');
   clearCaches();
+  const all = engineSteps(40);
   for (const view of VIEWS) {
-    const { fast, full, single, byChannel } = engineSteps(view, 40);
+    const { fast, full, single, byChannel } = all[view];
     const p95 = record(`sliderEngine.${view}.p95ms`, q(fast, 0.95), 'ms');
     const singleP95 = record(`sliderEngine.${view}.singleP95ms`, q(single, 0.95), 'ms');
     const fullP95 = record(`sliderEngine.${view}.fullP95ms`, q(full, 0.95), 'ms');
