@@ -76,16 +76,13 @@ function engineSteps(steps: number): Record<View, Steps> {
   const d = demoDiagrams.find((x) => x.id === 'positioning-axis')!.diagram;
   const sweep = resolveSweep(d, { key: null, liveValue: null });
   const values = dragValues(sweep.range!.min, sweep.range!.max, steps);
-  const least = (view: View, way: 'fast' | 'full') => `${view}|${way}`;
-  const best = new Map<string, number[]>();
-  const bestBy = new Map<string, number[]>();
-  const single: Record<View, number[]> = { locus: [], response: [], frequency: [], loops: [] };
-  const keep = (m: Map<string, number[]>, key: string, i: number, ms: number) => {
-    const xs = m.get(key) ?? m.set(key, new Array<number>(steps).fill(Infinity)).get(key)!;
-    xs[i] = Math.min(xs[i], ms);
-  };
+  const unset = () => new Array<number>(steps).fill(Infinity);
+  const out = {} as Record<View, Steps>;
+  for (const view of VIEWS)
+    out[view] = { fast: unset(), full: unset(), single: [], byChannel: Object.fromEntries(channelsFor(view).map((ch) => [ch, unset()])) };
   for (let rep = 0; rep < REPEATS; rep++) {
     for (const view of VIEWS) {
+      const s = out[view];
       values.forEach((value, at) => {
         const i = at - WARM_STEPS;
         if (i < 0 && rep > 0) return;
@@ -109,20 +106,15 @@ function engineSteps(steps: number): Record<View, Steps> {
             ms += dt;
             if (!reply.ok) throw new Error(reply.error);
             for (const p of reply.results) if (!p.ok) throw new Error(p.error);
-            if (!full && i >= 0) keep(bestBy, `${view}|${ch}`, i, dt);
+            if (!full && i >= 0) s.byChannel[ch][i] = Math.min(s.byChannel[ch][i], dt);
           }
           if (i < 0) continue;
-          keep(best, least(view, full ? 'full' : 'fast'), i, ms);
-          if (!full && rep === 0) single[view].push(ms);
+          const ways = full ? s.full : s.fast;
+          ways[i] = Math.min(ways[i], ms);
+          if (!full && rep === 0) s.single.push(ms);
         }
       });
     }
-  }
-  const out = {} as Record<View, Steps>;
-  for (const view of VIEWS) {
-    const byChannel: Record<string, number[]> = {};
-    for (const ch of channelsFor(view)) byChannel[ch] = bestBy.get(`${view}|${ch}`)!;
-    out[view] = { fast: best.get(least(view, 'fast'))!, full: best.get(least(view, 'full'))!, single: single[view], byChannel };
   }
   return out;
 }

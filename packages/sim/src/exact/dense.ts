@@ -155,10 +155,13 @@ export function compress(A: Float64Array, rows: number, N: number): Compressed {
  * each, which added up to a tenth of a ladder's making).
  */
 export function compressAll(As: Float64Array[], rows: number, N: number): Compressed[] {
-  // one pass, into stores sized for every entry (a count first was a second pass over them all)
+  // counted first: stores sized for every entry would be kept by the ladder four times over
+  // (a rung is a quarter to a half full) — a few MB at the exact engine's largest size
+  let nz = 0;
+  for (const A of As) for (let i = 0; i < rows * N; i++) if (A[i] !== 0) nz++;
   const starts = new Int32Array(As.length * (rows + 1));
-  const col = new Int32Array(As.length * rows * N);
-  const val = new Float64Array(As.length * rows * N);
+  const col = new Int32Array(nz);
+  const val = new Float64Array(nz);
   let k = 0;
   const out: Compressed[] = [];
   for (let m = 0; m < As.length; m++) {
