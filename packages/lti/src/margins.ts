@@ -646,9 +646,11 @@ const wrap180 = (deg: number): number => {
 };
 
 /**
- * A sign change of f between a and b, refined in log ω by the Illinois variant of regula falsi
- * (superlinear on smooth f), with a bisection step whenever an iteration fails to halve the
- * bracket, so it never does worse than bisection; stops at full double precision.
+ * A sign change of f between a and b, refined in log ω by Brent's method (inverse quadratic
+ * interpolation and secant steps, falling back to bisection whenever they would not shrink the
+ * bracket fast enough: never much worse than bisection, superlinear on smooth f; Brent 1973,
+ * ch. 4, in the form of Press et al., Numerical Recipes, 2nd ed., §9.3 (from memory)); stops when
+ * the bracket is 4e-16 of ln ω wide (full double precision).
  */
 function refineLog(a: number, b: number, f: (w: number) => number): number {
   let xa = Math.log(a);
@@ -657,40 +659,60 @@ function refineLog(a: number, b: number, f: (w: number) => number): number {
   let fb = f(b);
   if (fa === 0) return a;
   if (fb === 0) return b;
-  let side = 0;
+  let xc = xb;
+  let fc = fb;
+  let d = xb - xa;
+  let e = d;
   for (let it = 0; it < 100; it++) {
-    const width = xb - xa;
-    let x = (xa * fb - xb * fa) / (fb - fa);
-    if (!(x > xa && x < xb)) x = 0.5 * (xa + xb);
-    const fx = f(Math.exp(x));
-    if (fx === 0 || !Number.isFinite(fx)) return Math.exp(x);
-    if (fx > 0 === fa > 0) {
-      xa = x;
-      fa = fx;
-      if (side === -1) fb /= 2;
-      side = -1;
-    } else {
-      xb = x;
-      fb = fx;
-      if (side === 1) fa /= 2;
-      side = 1;
+    if (fb > 0 === fc > 0) {
+      // the root lies between xb and xa: xc takes xa's place
+      xc = xa;
+      fc = fa;
+      d = e = xb - xa;
     }
-    if (xb - xa > 0.5 * width) {
-      const xm = 0.5 * (xa + xb);
-      const fm = f(Math.exp(xm));
-      if (fm === 0) return Math.exp(xm);
-      if (fm > 0 === fa > 0) {
-        xa = xm;
-        fa = fm;
+    if (Math.abs(fc) < Math.abs(fb)) {
+      // xb is the best estimate so far
+      xa = xb;
+      xb = xc;
+      xc = xa;
+      fa = fb;
+      fb = fc;
+      fc = fa;
+    }
+    const tol = 2e-16 * Math.max(1, Math.abs(xb));
+    const m = 0.5 * (xc - xb);
+    if (Math.abs(m) <= tol) break;
+    if (Math.abs(e) >= tol && Math.abs(fa) > Math.abs(fb)) {
+      const s = fb / fa;
+      let p: number;
+      let q: number;
+      if (xa === xc) {
+        p = 2 * m * s; // secant
+        q = 1 - s;
       } else {
-        xb = xm;
-        fb = fm;
+        const r0 = fa / fc; // inverse quadratic interpolation
+        const r1 = fb / fc;
+        p = s * (2 * m * r0 * (r0 - r1) - (xb - xa) * (r1 - 1));
+        q = (r0 - 1) * (r1 - 1) * (s - 1);
       }
-      side = 0;
+      if (p > 0) q = -q;
+      else p = -p;
+      if (2 * p < Math.min(3 * m * q - Math.abs(tol * q), Math.abs(e * q))) {
+        e = d;
+        d = p / q;
+      } else {
+        d = e = m; // bisection
+      }
+    } else {
+      d = e = m;
     }
-    if (xb - xa <= 4e-16 * Math.max(1, Math.abs(xa))) break;
+    xa = xb;
+    fa = fb;
+    xb += Math.abs(d) > tol ? d : m > 0 ? tol : -tol;
+    fb = f(Math.exp(xb));
+    if (fb === 0 || !Number.isFinite(fb)) return Math.exp(xb);
   }
-  return Math.exp(Math.abs(fa) < Math.abs(fb) ? xa : xb);
+  return Math.exp(xb);
 }
 
 /**
@@ -731,28 +753,74 @@ function peakOf(
   return best;
 }
 
+/**
+ * The largest value of f on [a, b] near its local maximum, by Brent's method (parabolic
+ * interpolation through the three best points, golden-section steps whenever the parabola is not
+ * trusted; Brent 1973, ch. 5, in the form of Numerical Recipes, 2nd ed., §10.2 (from memory)). x is
+ * located to about 1e-9 of max(1, |x|): a smooth maximum is flat to round-off well before that.
+ */
 function goldenMax(a: number, b: number, f: (x: number) => number): { x: number; value: number } {
-  const phi = (Math.sqrt(5) - 1) / 2;
-  let x1 = b - phi * (b - a);
-  let x2 = a + phi * (b - a);
-  let f1 = f(x1);
-  let f2 = f(x2);
-  for (let it = 0; it < 80 && b - a > 1e-13; it++) {
-    if (f1 >= f2) {
-      b = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = b - phi * (b - a);
-      f1 = f(x1);
+  const CGOLD = 0.381966011250105;
+  let x = a + CGOLD * (b - a);
+  let w = x;
+  let v = x;
+  let fx = -f(x);
+  let fw = fx;
+  let fv = fx;
+  let d = 0;
+  let e = 0;
+  for (let it = 0; it < 100; it++) {
+    const xm = 0.5 * (a + b);
+    const tol1 = 1e-9 * Math.max(1, Math.abs(x));
+    const tol2 = 2 * tol1;
+    if (Math.abs(x - xm) <= tol2 - 0.5 * (b - a)) break;
+    let golden = true;
+    if (Math.abs(e) > tol1) {
+      const r = (x - w) * (fx - fv);
+      let q = (x - v) * (fx - fw);
+      let p = (x - v) * q - (x - w) * r;
+      q = 2 * (q - r);
+      if (q > 0) p = -p;
+      q = Math.abs(q);
+      const last = e;
+      e = d;
+      if (Math.abs(p) < Math.abs(0.5 * q * last) && p > q * (a - x) && p < q * (b - x)) {
+        d = p / q; // the parabola's vertex
+        const u = x + d;
+        if (u - a < tol2 || b - u < tol2) d = xm >= x ? tol1 : -tol1;
+        golden = false;
+      }
+    }
+    if (golden) {
+      e = x >= xm ? a - x : b - x;
+      d = CGOLD * e;
+    }
+    const u = Math.abs(d) >= tol1 ? x + d : x + (d >= 0 ? tol1 : -tol1);
+    const fu = -f(u);
+    if (fu <= fx) {
+      if (u >= x) a = x;
+      else b = x;
+      v = w;
+      fv = fw;
+      w = x;
+      fw = fx;
+      x = u;
+      fx = fu;
     } else {
-      a = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = a + phi * (b - a);
-      f2 = f(x2);
+      if (u < x) a = u;
+      else b = u;
+      if (fu <= fw || w === x) {
+        v = w;
+        fv = fw;
+        w = u;
+        fw = fu;
+      } else if (fu <= fv || v === x || v === w) {
+        v = u;
+        fv = fu;
+      }
     }
   }
-  return f1 >= f2 ? { x: x1, value: f1 } : { x: x2, value: f2 };
+  return { x, value: -fx };
 }
 
 function bandwidthOf(
