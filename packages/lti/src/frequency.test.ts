@@ -124,4 +124,14 @@ describe('values at extreme scales', () => {
     expect(r.magDb[2]).toBeCloseTo(6000, 9);
     expect(Math.abs(r.phaseDeg[2])).toBeLessThan(1e-6);
   });
+
+  it('1/(s + 1e-200): a pole below 1e-154, where |p|² underflows, still gives phase −atan(ω/1e-200) (found by the document fuzzer)', () => {
+    // Phase of 1/(jω + a) is −atan(ω/a) (derived here): −45° at ω = a, → −90° above, → 0° below.
+    const r = frequencyResponse(tfFromCoefficients([1], [1e-200, 1]), [1e-203, 1e-200, 1e-190, 1]);
+    for (const x of [...r.re, ...r.im, ...r.magDb, ...r.phaseDeg]) expect(Number.isNaN(x)).toBe(false);
+    expect(r.phaseDeg[0]).toBeCloseTo((-Math.atan(1e-3) * 180) / Math.PI, 9);
+    expect(r.phaseDeg[1]).toBeCloseTo(-45, 9);
+    expect(r.phaseDeg[2]).toBeCloseTo(-90, 6);
+    expect(r.phaseDeg[3]).toBeCloseTo(-90, 9);
+  });
 });

@@ -63,8 +63,12 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
   // lightly damped pole pair, as for any LHP pair).
   const factors = (roots: readonly Complex[]) =>
     roots.map((r) => {
-      const m2 = r.re * r.re + r.im * r.im;
-      return { br: r.im / m2, ar: r.re === 0 ? -0 : r.re / m2 };
+      // 1/r scaled by its larger part: |r|² underflows for a root below 1e-154 (a real one gave 0/0).
+      const sc = Math.max(Math.abs(r.re), Math.abs(r.im));
+      const a = r.re / sc;
+      const b = r.im / sc;
+      const m2 = a * a + b * b;
+      return { br: b / m2 / sc, ar: r.re === 0 ? -0 : a / m2 / sc };
     });
   const fz = factors(zeros);
   const fp = factors(poles);
