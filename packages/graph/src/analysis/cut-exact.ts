@@ -6,8 +6,10 @@ import { type SignalGraph, relevantNodes } from './points.ts';
  * diagram there, every dead time kept exact as e^(−jωT) — including dead times inside other
  * loops, which the polynomial reduction must replace by Padé approximants. The node equations
  *   y_v = G_v(jω) · Σ_e w_e · y_from(e)      (the input node: y = 1; other sources: y = 0)
- * form the complex linear system (I − G·W) y = e_input, solved by Gaussian elimination with
- * partial pivoting; only the nodes on some path from the input to the output take part.
+ * form the complex linear system (I − G·W) y = e_input; only the nodes on some path from the
+ * input to the output take part. Chains of single-input nodes are carried as products (see
+ * chainPlan), and the system left over (input and junctions) is solved by Gaussian elimination
+ * with partial pivoting.
  */
 export interface ExactEvaluator {
   /** The transmission output/input at s = jω. */
@@ -64,14 +66,20 @@ export function exactEvaluator(g: SignalGraph): ExactEvaluator {
     W,
     gains.map((x) => x.delay),
   );
-  const Are = Array.from({ length: m }, () => new Float64Array(m));
-  const Aim = Array.from({ length: m }, () => new Float64Array(m));
-  const bre = new Float64Array(m);
-  const bim = new Float64Array(m);
+  const plan = chainPlan(W, inp, out);
+  const nk = plan.kept.length;
+  const Are = Array.from({ length: nk }, () => new Float64Array(nk));
+  const Aim = Array.from({ length: nk }, () => new Float64Array(nk));
+  const bre = new Float64Array(nk);
+  const bim = new Float64Array(nk);
   const gre = new Float64Array(m);
   const gim = new Float64Array(m);
+  // Chain coefficients: y_v = c_v · y_root(v) (c = 1 on kept nodes).
+  const cre = new Float64Array(m).fill(1);
+  const cim = new Float64Array(m);
   const evaluate = (w: number): Complex => {
     if (!(w >= 0) || !Number.isFinite(w)) throw new InputError(`frequency ${w} rad/s: must be finite and ≥ 0`, { field: 'omega' });
+    if (plan.outRoot < 0) return cx(0);
     const x = -w * w;
     for (let i = 0; i < m; i++) {
       const q = gains[i];
@@ -97,7 +105,50 @@ export function exactEvaluator(g: SignalGraph): ExactEvaluator {
       gre[i] = re;
       gim[i] = im;
     }
-    // A = I − G·W (row i scaled by node i's gain), b = e_input.
+    // Chained nodes, each after its predecessor: c_v = G_v · w_v · c_pred.
+    for (const v of plan.order) {
+      const u = plan.pred[v];
+      const wv = plan.weight[v];
+      const ar = gre[v] * wv;
+      const ai = gim[v] * wv;
+      cre[v] = ar * cre[u] - ai * cim[u];
+      cim[v] = ar * cim[u] + ai * cre[u];
+    }
+    // The kept nodes' system (I − G·W·C) y = e_input, each branch from a chained node through its coefficient.
+    for (let r = 0; r < nk; r++) {
+      const ar = Are[r];
+      const ai = Aim[r];
+      ar.fill(0);
+      ai.fill(0);
+      const v = plan.kept[r];
+      for (const { from, weight, root } of plan.inputs[r]) {
+        // −G_v · weight · c_from into column root
+        const pr = weight * cre[from];
+        const pi = weight * cim[from];
+        ar[root] -= gre[v] * pr - gim[v] * pi;
+        ai[root] -= gre[v] * pi + gim[v] * pr;
+      }
+      ar[r] += 1;
+      bre[r] = v === inp ? 1 : 0;
+      bim[r] = 0;
+    }
+    const y = solveFor(Are, Aim, bre, bim, nk, plan.outRoot, w);
+    const c = plan.kept[plan.outRoot] === out ? null : out;
+    const v = c === null ? y : cx(y.re * cre[c] - y.im * cim[c], y.re * cim[c] + y.im * cre[c]);
+    // A chain's product may overflow where pivoting over every node would not (gains near 1e308):
+    // then the whole system is solved.
+    return Number.isFinite(v.re) && Number.isFinite(v.im) ? v : solveWhole(w);
+  };
+  /** The system over every node, by elimination with partial pivoting (gre, gim as evaluate left them). */
+  let whole: { Are: Float64Array[]; Aim: Float64Array[]; bre: Float64Array; bim: Float64Array } | undefined;
+  const solveWhole = (w: number): Complex => {
+    whole ??= {
+      Are: Array.from({ length: m }, () => new Float64Array(m)),
+      Aim: Array.from({ length: m }, () => new Float64Array(m)),
+      bre: new Float64Array(m),
+      bim: new Float64Array(m),
+    };
+    const { Are, Aim, bre, bim } = whole;
     for (let i = 0; i < m; i++) {
       const ar = Are[i];
       const ai = Aim[i];
@@ -113,6 +164,100 @@ export function exactEvaluator(g: SignalGraph): ExactEvaluator {
     return solveFor(Are, Aim, bre, bim, m, out, w);
   };
   return Object.assign(evaluate, { delaySum, loopDelays }) as ExactEvaluator;
+}
+
+/**
+ * Which nodes the solve keeps. A node other than the input with one incoming branch, from another
+ * node, is y_v = G_v·w·y_u: it is carried as a coefficient on the node its chain starts from
+ * (products only, no division), so the complex system holds only the input, the junctions (two or
+ * more incoming branches) and one node of any loop made of chained nodes alone — two or three
+ * unknowns for a cascade instead of one per block. A node with no incoming branch (a source, or
+ * one cut off) is zero.
+ */
+interface ChainPlan {
+  /** Kept nodes (indices into the relevant nodes), in system order. */
+  kept: number[];
+  /** Chained nodes in evaluation order, each after its predecessor. */
+  order: number[];
+  pred: Int32Array;
+  weight: Float64Array;
+  /** Per kept node: its incoming branches, each from a node (kept or chained) whose chain starts at kept node `root` (system index). */
+  inputs: { from: number; weight: number; root: number }[][];
+  /** System index of the kept node the output's chain starts from; −1 when the output is zero. */
+  outRoot: number;
+}
+
+function chainPlan(W: readonly Float64Array[], inp: number, out: number): ChainPlan {
+  const m = W.length;
+  const pred = new Int32Array(m).fill(-1);
+  const weight = new Float64Array(m);
+  // 0: undecided, 1: kept, 2: chained, 3: zero
+  const kind = new Uint8Array(m);
+  for (let v = 0; v < m; v++) {
+    let count = 0;
+    let from = -1;
+    for (let j = 0; j < m; j++) {
+      if (W[v][j] === 0) continue;
+      count++;
+      from = j;
+    }
+    if (v === inp || count > 1 || (count === 1 && from === v)) kind[v] = 1;
+    else if (count === 0) kind[v] = 3;
+    else {
+      kind[v] = 2;
+      pred[v] = from;
+      weight[v] = W[v][from];
+    }
+  }
+  // Roots: follow predecessors to a kept or zero node; a loop of chained nodes keeps its first node met again.
+  const root = new Int32Array(m).fill(-2); // node index of the chain's start, −1: zero
+  const order: number[] = [];
+  const state = new Uint8Array(m); // 1: on the current path, 2: done
+  for (let v0 = 0; v0 < m; v0++) {
+    const path: number[] = [];
+    let v = v0;
+    while (state[v] === 0 && kind[v] === 2) {
+      state[v] = 1;
+      path.push(v);
+      v = pred[v];
+      if (state[v] === 1) {
+        kind[v] = 1; // a loop of chained nodes: keep this one
+        break;
+      }
+    }
+    let r: number;
+    if (kind[v] === 1) r = v;
+    else if (kind[v] === 3) r = -1;
+    else r = root[v]; // done earlier
+    if (kind[v] !== 2) {
+      state[v] = 2;
+      root[v] = kind[v] === 3 ? -1 : v;
+    }
+    // The path's nodes, nearest the root first (each after its predecessor).
+    for (let i = path.length - 1; i >= 0; i--) {
+      const u = path[i];
+      if (u === v) continue;
+      state[u] = 2;
+      root[u] = r;
+      if (r >= 0) order.push(u);
+    }
+  }
+  const kept: number[] = [];
+  const pos = new Int32Array(m).fill(-1);
+  for (let v = 0; v < m; v++) {
+    if (kind[v] !== 1) continue;
+    pos[v] = kept.length;
+    kept.push(v);
+  }
+  const inputs = kept.map((v) => {
+    const list: { from: number; weight: number; root: number }[] = [];
+    for (let j = 0; j < m; j++) {
+      if (W[v][j] === 0 || root[j] < 0) continue;
+      list.push({ from: j, weight: W[v][j], root: pos[root[j]] });
+    }
+    return list;
+  });
+  return { kept, order, pred, weight, inputs, outRoot: root[out] < 0 ? -1 : pos[root[out]] };
 }
 
 /** Component `k` of the solution of the complex system (Are + j·Aim) y = b (destroys its inputs). */
