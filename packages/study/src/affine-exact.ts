@@ -156,10 +156,14 @@ function gridIndex(omega: Float64Array, w: number): number {
   return i < omega.length && omega[i] === w ? i : -1;
 }
 
+/** Most off-grid values a source keeps (a step reads a few hundred). */
+const MAX_KEPT = 4096;
+
 /**
  * The loop source at value k: tabulated on the grid; between grid points (refinement, the
  * points loopMarginsOf adds around lightly damped roots) the diagram at k solved at s = jω, by
- * the evaluator `solveAt` builds on first need.
+ * the evaluator `solveAt` builds on first need. Solved values are kept by ω: a crossover the
+ * refinement ends on is read again for its value, its phase, |S| and |T| and the plotted curve.
  */
 export function exactSourceAt(
   t: ExactTable,
@@ -168,13 +172,25 @@ export function exactSourceAt(
   solveAt: () => (w: number) => Complex,
 ): LoopSource {
   let direct: ((w: number) => Complex) | undefined;
+  const solved = new Map<number, Complex>();
+  const omega = t.omega;
+  // The sweep reads the grid in order: the point after the last one found is tried first.
+  let last = -1;
   return {
     approximant,
     delaySum: t.delaySum,
     evaluate: (w) => {
-      const i = gridIndex(t.omega, w);
-      if (i < 0) return (direct ??= solveAt())(w);
-      return apply(k, t.ks[0], t.l1[2 * i], t.l1[2 * i + 1], t.alpha[2 * i], t.alpha[2 * i + 1], t.beta[2 * i], t.beta[2 * i + 1]);
+      const i = omega[last + 1] === w ? last + 1 : gridIndex(omega, w);
+      if (i >= 0) {
+        last = i;
+        return apply(k, t.ks[0], t.l1[2 * i], t.l1[2 * i + 1], t.alpha[2 * i], t.alpha[2 * i + 1], t.beta[2 * i], t.beta[2 * i + 1]);
+      }
+      let v = solved.get(w);
+      if (!v) {
+        v = (direct ??= solveAt())(w);
+        if (solved.size < MAX_KEPT) solved.set(w, v);
+      }
+      return cx(v.re, v.im);
     },
   };
 }
