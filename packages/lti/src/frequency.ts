@@ -175,12 +175,16 @@ export function frequencyResponse(tf: TransferFunction, omegas: readonly number[
  * guide's change. Used where L(jω) is solved numerically (a diagram with dead times in inner
  * loops) and only its Padé approximant has a phase of its own.
  */
-export function unwrapAlong(re: readonly number[], im: readonly number[], guideDeg: readonly number[]): number[] {
-  const out: number[] = [];
+export function unwrapAlong<T extends number[] | Float64Array = number[]>(
+  re: ArrayLike<number>,
+  im: ArrayLike<number>,
+  guideDeg: ArrayLike<number>,
+  out: T = [] as number[] as T,
+): T {
   for (let i = 0; i < re.length; i++) {
     const principal = (Math.atan2(im[i], re[i]) * 180) / Math.PI;
     const ref = i === 0 ? guideDeg[0] : out[i - 1] + (guideDeg[i] - guideDeg[i - 1]);
-    out.push(Number.isFinite(ref) ? principal + 360 * Math.round((ref - principal) / 360) : principal);
+    out[i] = Number.isFinite(ref) ? principal + 360 * Math.round((ref - principal) / 360) : principal;
   }
   return out;
 }

@@ -24,7 +24,7 @@ import { closedLoopPolesDetailed } from './closed-loop.ts';
  *  - phase crossover ω_pc: ∠L(jω) = −180° + k·360°; each gives the factor 1/|L(jω_pc)| that
  *    moves the curve onto −1. Gain margin = the smallest factor above 1; lower gain margin = the
  *    largest factor below 1 (conditionally stable loops).
- *  - Ms = max |1/(1 + L)|, Mt = max |L/(1 + L)| over ω (grid maximum refined by golden section).
+ *  - Ms = max |1/(1 + L)|, Mt = max |L/(1 + L)| over ω (grid maximum refined by Brent's parabolic search).
  *  - bandwidth: first ω where |T(jω)| falls to |T(0)|/√2 (−3 dB relative to the DC value).
  * A quantity that does not exist is null (no phase crossover → gainMargin null, i.e. infinite).
  *
@@ -138,12 +138,13 @@ export function loopMarginsOf(source: LoopSource, opts: MarginOptions = {}): Loo
   return marginsOf(source.approximant, source.evaluate, Math.max(source.delaySum, source.approximant.delay), inner, opts, 'exact');
 }
 
-/** One sample of L(jω): value, magnitude and continuous phase (degrees). */
-interface Sample {
-  re: number;
-  im: number;
-  mag: number;
-  ph: number;
+/**
+ * |x + jy|: the square root of the sum of squares where that neither overflows nor underflows
+ * (Math.hypot, several times slower, otherwise).
+ */
+function modulus(x: number, y: number): number {
+  const q = x * x + y * y;
+  return q > 1e-300 && q < 1e300 ? Math.sqrt(q) : Math.hypot(x, y);
 }
 
 function marginsOf(
@@ -248,33 +249,39 @@ function marginsOf(
   // ——— the sweep: values and continuous phase on the bracketing grid
   const { grid, trackedTo } = sweepGrid(L, g, opts, delayScale, atInfinity, exact ? innerDelay : 0);
   const at = (w: number): Complex => (exact ? exact(w) : (({ re, im }) => cx(re, im))(g(w)));
-  const samples: Sample[] = [];
-  const guide: number[] = [];
-  for (let i = 0; i < grid.length; i++) {
+  // The samples as columns (a sweep holds thousands of points): value, magnitude, continuous phase.
+  const n = grid.length;
+  const sRe = new Float64Array(n);
+  const sIm = new Float64Array(n);
+  const sMag = new Float64Array(n);
+  const sPh = new Float64Array(n);
+  const guide = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
     ticker.tick();
     const gv = g(grid[i]);
-    guide.push(gv.phaseDeg);
-    const v = exact ? exact(grid[i]) : gv;
-    samples.push({ re: v.re, im: v.im, mag: exact ? Math.hypot(v.re, v.im) : gv.mag, ph: gv.phaseDeg });
+    guide[i] = gv.phaseDeg;
+    sPh[i] = gv.phaseDeg;
+    if (exact) {
+      const v = exact(grid[i]);
+      sRe[i] = v.re;
+      sIm[i] = v.im;
+      sMag[i] = modulus(v.re, v.im);
+    } else {
+      sRe[i] = gv.re;
+      sIm[i] = gv.im;
+      sMag[i] = gv.mag;
+    }
   }
-  if (exact) {
-    // Unwrap: the approximant's phase change predicts the exact one (they agree at low frequency).
-    const ph = unwrapAlong(
-      samples.map((q) => q.re),
-      samples.map((q) => q.im),
-      guide,
-    );
-    samples.forEach((q, i) => (q.ph = ph[i]));
-  }
+  // Unwrap: the approximant's phase change predicts the exact one (they agree at low frequency).
+  if (exact) unwrapAlong(sRe, sIm, guide, sPh);
   /** The continuous phase at ω inside [grid[i], grid[i+1]]: for an exact source, the branch the approximant's phase change from grid[i] predicts. */
   const phaseIn = (w: number, i: number): number => {
     if (!exact) return g(w).phaseDeg;
     const v = exact(w);
     const principal = Math.atan2(v.im, v.re) * DEG;
-    const ref = samples[i].ph + (g(w).phaseDeg - guide[i]);
+    const ref = sPh[i] + (g(w).phaseDeg - guide[i]);
     return Number.isFinite(ref) ? principal + 360 * Math.round((ref - principal) / 360) : principal;
   };
-  const n = grid.length;
 
   // ——— gain crossovers: sign changes of |L| − 1 (a band of ±1e-12 counts as "on 1")
   const gainCrossoverDetails: LoopMargins['gainCrossoverDetails'] = [];
@@ -284,7 +291,7 @@ function marginsOf(
   let lastSide = 0;
   let lastIdx = -1;
   for (let i = 0; i < n; i++) {
-    const m = samples[i].mag;
+    const m = sMag[i];
     if (!Number.isFinite(m)) continue;
     const sd = side(m);
     if (sd === 0) {
@@ -311,10 +318,10 @@ function marginsOf(
   // A huge gain (1e300/(s + 1)) still has |L| > 1 where the sweep ends: its crossover lies above,
   // out of reach of the polynomial evaluation (ω² overflows past 1e154). Say so rather than
   // report "no gain crossover".
-  const beyondSweep = atInfinity < 1 && !(samples[n - 1].mag < 1);
+  const beyondSweep = atInfinity < 1 && !(sMag[n - 1] < 1);
   if (beyondSweep) {
     notes.push(
-      `|L(jω)| is still ${fmt(samples[n - 1].mag)} at ${fmt(grid[n - 1])} rad/s, where the sweep ends: a gain crossover above it is not searched (phase margin, Ms and Mt not available)`,
+      `|L(jω)| is still ${fmt(sMag[n - 1])} at ${fmt(grid[n - 1])} rad/s, where the sweep ends: a gain crossover above it is not searched (phase margin, Ms and Mt not available)`,
     );
   }
   if (gainCrossoverDetails.length >= maxListed) notes.push(`gain crossovers: only the first ${maxListed} are listed`);
@@ -325,7 +332,7 @@ function marginsOf(
   if (v0 !== null && v0 < 0) listed.push({ omega: 0, gainFactor: 1 / Math.abs(v0), phaseDeg: g(0).phaseDeg });
   /** The crossover at `level` inside grid interval i, or null (a jump at an axis pole or zero). */
   const crossoverAt = (i: number, level: number): LoopMargins['phaseCrossoverDetails'][number] | null => {
-    const pb = samples[i + 1].ph;
+    const pb = sPh[i + 1];
     const w = level === pb ? grid[i + 1] : refineLog(grid[i], grid[i + 1], (x) => phaseIn(x, i) - level);
     const v = at(w);
     const mag = cabs(v);
@@ -341,8 +348,8 @@ function marginsOf(
   const lastTracked = exact ? grid.findIndex((w) => w > trackedTo) : -1;
   const scanEnd = lastTracked > 0 ? lastTracked : n - 1;
   outer: for (let i = 0; i < scanEnd; i++) {
-    const pa = samples[i].ph;
-    const pb = samples[i + 1].ph;
+    const pa = sPh[i];
+    const pb = sPh[i + 1];
     if (!Number.isFinite(pa) || !Number.isFinite(pb)) continue;
     const lo = Math.min(pa, pb);
     const hi = Math.max(pa, pb);
@@ -382,14 +389,14 @@ function marginsOf(
   if (stopIdx >= 0 || L.delay > 0 || delayScale > 0) {
     const from = stopIdx >= 0 ? listedBelow : grid[n - 1];
     const i0 = stopIdx >= 0 ? stopIdx : n - 1;
-    const phFrom = stopIdx >= 0 ? phaseIn(from, i0) : samples[n - 1].ph;
-    const phTo = samples[n - 1].ph;
+    const phFrom = stopIdx >= 0 ? phaseIn(from, i0) : sPh[n - 1];
+    const phTo = sPh[n - 1];
     const levels = Math.abs(Math.floor((phTo + 180) / 360) - Math.floor((phFrom + 180) / 360));
     const count = exact ? null : Number.isFinite(levels) && levels < 2 ** 53 ? levels + (stopIdx >= 0 ? 1 : 0) : null;
     let fMin = Infinity;
     let fMax = 0;
     for (let i = i0; i < n; i++) {
-      const m = samples[i].mag;
+      const m = sMag[i];
       if (m > 0 && Number.isFinite(m)) {
         fMin = Math.min(fMin, 1 / m);
         fMax = Math.max(fMax, 1 / m);
@@ -414,9 +421,9 @@ function marginsOf(
     }
     const candidates: { i: number; closeness: number }[] = [];
     for (let i = Math.max(i0, 1); i + 1 < (exact ? scanEnd : n); i++) {
-      const a = samples[i - 1].mag;
-      const b = samples[i].mag;
-      const c = samples[i + 1].mag;
+      const a = sMag[i - 1];
+      const b = sMag[i];
+      const c = sMag[i + 1];
       const crossing = side(a) !== side(b);
       const useful = (b >= a && b >= c && b <= 1 && b > bestBelow) || (b <= a && b <= c && b >= 1 && b < bestAbove);
       if (crossing || useful) candidates.push({ i, closeness: Math.abs(Math.log(b)) });
@@ -428,8 +435,8 @@ function marginsOf(
       ticker.tick();
       for (const j of [i - 1, i]) {
         if (j < i0 || j + 1 >= n) continue;
-        const pa = samples[j].ph;
-        const pb = samples[j + 1].ph;
+        const pa = sPh[j];
+        const pb = sPh[j + 1];
         if (!Number.isFinite(pa) || !Number.isFinite(pb)) continue;
         // The levels nearest either end of the interval (the crossovers next to the mark).
         const lo = Math.min(pa, pb);
@@ -518,18 +525,22 @@ function marginsOf(
   // |L| that overflows (1e300 gains over ω²) gives S = 0 and T = 1, its limits; a value that
   // could not be formed at all (NaN) is left out of the peaks.
   const compOf = (re: number, im: number, mag: number) => {
-    const h = Math.hypot(1 + re, im);
+    const h = modulus(1 + re, im);
     return Number.isFinite(h) ? mag / h : h === Infinity ? 1 : NaN;
   };
-  const sVals = samples.map((s) => 1 / Math.hypot(1 + s.re, s.im));
-  const tVals = samples.map((s) => compOf(s.re, s.im, s.mag));
+  const sVals = new Float64Array(n);
+  const tVals = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    sVals[i] = 1 / modulus(1 + sRe[i], sIm[i]);
+    tVals[i] = compOf(sRe[i], sIm[i], sMag[i]);
+  }
   const sAt = (w: number) => {
     const v = at(w);
-    return 1 / Math.hypot(1 + v.re, v.im);
+    return 1 / modulus(1 + v.re, v.im);
   };
   const tAt = (w: number) => {
     const v = at(w);
-    return compOf(v.re, v.im, cabs(v));
+    return compOf(v.re, v.im, modulus(v.re, v.im));
   };
   // With dead time |1 + L| dips next to every phase crossover (the closest approach to −1 is
   // there), so the listed and deciding crossovers are candidate peaks as well as the grid's.
@@ -716,12 +727,12 @@ function refineLog(a: number, b: number, f: (w: number) => number): number {
 }
 
 /**
- * Maximum of f over the grid, each of the three largest local maxima refined by golden section in
+ * Maximum of f over the grid, each of the three largest local maxima refined by Brent's search in
  * log ω; `extra` frequencies (phase crossovers) are candidates too, refined within ±0.1 % of ω.
  */
 function peakOf(
   grid: readonly number[],
-  vals: readonly number[],
+  vals: ArrayLike<number>,
   f: (w: number) => number,
   extra: readonly number[] = [],
 ): { value: number; omega: number } {
@@ -738,7 +749,7 @@ function peakOf(
     if (!Number.isFinite(vals[i])) return { value: Infinity, omega: grid[i] };
     const a = Math.log(grid[Math.max(0, i - 1)]);
     const b = Math.log(grid[Math.min(grid.length - 1, i + 1)]);
-    const r = goldenMax(a, b, (x) => f(Math.exp(x)));
+    const r = brentMax(a, b, (x) => f(Math.exp(x)));
     if (r.value > best.value) best = { value: r.value, omega: Math.exp(r.x) };
     if (vals[i] > best.value) best = { value: vals[i], omega: grid[i] };
   }
@@ -746,7 +757,7 @@ function peakOf(
     const v = f(w);
     if (!Number.isFinite(v)) return { value: Infinity, omega: w };
     if (!(v > best.value * (1 - 1e-3))) continue;
-    const r = goldenMax(Math.log(w) - 1e-3, Math.log(w) + 1e-3, (x) => f(Math.exp(x)));
+    const r = brentMax(Math.log(w) - 1e-3, Math.log(w) + 1e-3, (x) => f(Math.exp(x)));
     if (r.value > best.value) best = { value: r.value, omega: Math.exp(r.x) };
     if (v > best.value) best = { value: v, omega: w };
   }
@@ -759,7 +770,7 @@ function peakOf(
  * trusted; Brent 1973, ch. 5, in the form of Numerical Recipes, 2nd ed., §10.2 (from memory)). x is
  * located to about 1e-9 of max(1, |x|): a smooth maximum is flat to round-off well before that.
  */
-function goldenMax(a: number, b: number, f: (x: number) => number): { x: number; value: number } {
+function brentMax(a: number, b: number, f: (x: number) => number): { x: number; value: number } {
   const CGOLD = 0.381966011250105;
   let x = a + CGOLD * (b - a);
   let w = x;
@@ -825,7 +836,7 @@ function goldenMax(a: number, b: number, f: (x: number) => number): { x: number;
 
 function bandwidthOf(
   grid: readonly number[],
-  tVals: readonly number[],
+  tVals: ArrayLike<number>,
   tAt: (w: number) => number,
   num: readonly number[],
   den: readonly number[],
