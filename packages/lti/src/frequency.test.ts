@@ -4,7 +4,7 @@ import { complex, exp, multiply, divide, add, pow, type Complex as MComplex } fr
 import { cx } from './complex.ts';
 import { InputError } from './errors.ts';
 import * as P from './poly.ts';
-import { defaultFrequencyGrid, frequencyResponse, logspace } from './frequency.ts';
+import { defaultFrequencyGrid, frequencyEvaluator, frequencyResponse, logspace, roughAtan2 } from './frequency.ts';
 import { tfFromCoefficients } from './transfer.ts';
 
 /** G(jω) by mathjs complex arithmetic (an independent evaluation). */
@@ -133,5 +133,52 @@ describe('values at extreme scales', () => {
     expect(r.phaseDeg[1]).toBeCloseTo(-45, 9);
     expect(r.phaseDeg[2]).toBeCloseTo(-90, 6);
     expect(r.phaseDeg[3]).toBeCloseTo(-90, 9);
+  });
+});
+
+describe('the rough phase that guides branch choices', () => {
+  it('roughAtan2 is within 1.2e-5 rad of Math.atan2 all round the circle and at the axes, zeros and infinities', () => {
+    // Abramowitz & Stegun 4.4.49 give |ε| ≤ 1e-5 for arctan on [0, 1] (from memory); with the
+    // coefficients as rounded here the worst case over every octant is 1.15e-5.
+    let worst = 0;
+    for (let i = 0; i <= 200000; i++) {
+      const a = -Math.PI + (2 * Math.PI * i) / 200000;
+      for (const r of [1e-300, 1, 1e300]) {
+        const y = r * Math.sin(a);
+        const x = r * Math.cos(a);
+        worst = Math.max(worst, Math.abs(roughAtan2(y, x) - Math.atan2(y, x)));
+      }
+    }
+    expect(worst).toBeLessThanOrEqual(1.2e-5);
+    expect(worst).toBeGreaterThan(1e-7); // an approximation, not Math.atan2 itself
+    for (const [y, x] of [
+      [0, 1],
+      [0, -1],
+      [-0, -1],
+      [1, 0],
+      [-1, 0],
+      [0, 0],
+      [Infinity, 1],
+      [1, -Infinity],
+      [Infinity, Infinity],
+      [-Infinity, -Infinity],
+    ])
+      expect(roughAtan2(y, x)).toBeCloseTo(Math.atan2(y, x), 5);
+    expect(Object.is(roughAtan2(-0, 1), -0)).toBe(true);
+    expect(Number.isNaN(roughAtan2(NaN, 1))).toBe(true);
+  });
+
+  it('phaseGuide follows the evaluated continuous phase to 7e-4° per pole and zero (lightly damped pairs, dead time, integrators)', () => {
+    const cases = [
+      tfFromCoefficients([2, 1], [0, 1, 0.02, 1]), // (s + 2)/(s (s² + 0.02 s + 1))
+      tfFromCoefficients([-1, 0.5], [1, 3, 3, 1]), // RHP zero over (s + 1)³
+      { ...tfFromCoefficients([1], [1, 2]), delay: 0.3 },
+      tfFromCoefficients([4, 0, 1], [0, 0, 1e-4, 2e-3, 1]), // undamped zero pair, double integrator
+    ];
+    for (const tf of cases) {
+      const g = frequencyEvaluator(tf);
+      const bound = 7e-4 * (g.poles.length + g.zeros.length) + 1e-9;
+      for (const w of logspace(-3, 3, 3001)) expect(Math.abs(g.phaseGuide(w) - g(w).phaseDeg)).toBeLessThanOrEqual(bound);
+    }
   });
 });

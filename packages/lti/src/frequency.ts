@@ -41,6 +41,30 @@ export interface FrequencyEvaluator {
   readonly poles: readonly Complex[];
   readonly zeros: readonly Complex[];
   readonly integrators: number;
+  /**
+   * The same continuous phase (degrees) by a polynomial arctangent, within 1.2e-5 rad of each
+   * factor's angle (so within 7e-4° per pole or zero) and not snapped to the value's argument:
+   * a guide that picks a 360° branch for another evaluation of the same loop, never a figure.
+   */
+  readonly phaseGuide: (omega: number) => number;
+}
+
+/**
+ * atan2(y, x) within 1.2e-5 rad: the octant reduced to a ratio t in [0, 1] and arctan t by the
+ * polynomial of Abramowitz & Stegun 4.4.49 (from memory; 1.15e-5 at worst with these coefficients,
+ * measured in the tests). Several times faster
+ * than Math.atan2, which it falls back to where the ratio is not a number (both parts infinite).
+ */
+export function roughAtan2(y: number, x: number): number {
+  const ax = Math.abs(x);
+  const ay = Math.abs(y);
+  const t = ax >= ay ? ay / ax : ax / ay;
+  if (!(t >= 0 && t <= 1)) return Math.atan2(y, x);
+  const t2 = t * t;
+  let r = t * (0.999866 + t2 * (-0.3302995 + t2 * (0.180141 + t2 * (-0.085133 + t2 * 0.0208351))));
+  if (ay > ax) r = Math.PI / 2 - r;
+  if (x < 0) r = Math.PI - r;
+  return y < 0 || (y === 0 && 1 / y < 0) ? -r : r; // −0 as Math.atan2 takes it
 }
 
 export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
@@ -49,7 +73,7 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
   const T = tf.delay;
   if (num.length === 0) {
     const zero = ((_w: number) => ({ re: 0, im: 0, mag: 0, phaseDeg: 0 })) as FrequencyEvaluator;
-    return Object.assign(zero, { poles: [], zeros: [], integrators: 0 });
+    return Object.assign(zero, { poles: [], zeros: [], integrators: 0, phaseGuide: () => 0 });
   }
   const qz = leadingZeros(num);
   const qp = leadingZeros(den);
@@ -140,7 +164,13 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
     return { re, im, mag, phaseDeg: phase };
   };
   // atan2(-w*ar || 0, …): for ar = −0 the product is +0 for w > 0, giving +180° past the pole.
-  return Object.assign(evalAt, { poles, zeros, integrators: qp - qz });
+  const phaseGuide = (w: number): number => {
+    let rad = 0;
+    for (let i = 0; i < nfz; i++) rad += roughAtan2(-w * fz[i].ar || 0, 1 - w * fz[i].br);
+    for (let i = 0; i < nfp; i++) rad -= roughAtan2(-w * fp[i].ar || 0, 1 - w * fp[i].br);
+    return anchor + rad * DEG - (T > 0 ? w * T * DEG : 0);
+  };
+  return Object.assign(evalAt, { poles, zeros, integrators: qp - qz, phaseGuide });
 }
 
 function leadingZeros(p: readonly number[]): number {

@@ -258,15 +258,16 @@ function marginsOf(
   const guide = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     ticker.tick();
-    const gv = g(grid[i]);
-    guide[i] = gv.phaseDeg;
-    sPh[i] = gv.phaseDeg;
     if (exact) {
+      // The approximant's phase only guides the exact value's branch: its rough form does.
+      guide[i] = g.phaseGuide(grid[i]);
       const v = exact(grid[i]);
       sRe[i] = v.re;
       sIm[i] = v.im;
       sMag[i] = modulus(v.re, v.im);
     } else {
+      const gv = g(grid[i]);
+      sPh[i] = gv.phaseDeg;
       sRe[i] = gv.re;
       sIm[i] = gv.im;
       sMag[i] = gv.mag;
@@ -279,7 +280,7 @@ function marginsOf(
     if (!exact) return g(w).phaseDeg;
     const v = exact(w);
     const principal = Math.atan2(v.im, v.re) * DEG;
-    const ref = sPh[i] + (g(w).phaseDeg - guide[i]);
+    const ref = sPh[i] + (g.phaseGuide(w) - guide[i]);
     return Number.isFinite(ref) ? principal + 360 * Math.round((ref - principal) / 360) : principal;
   };
 
