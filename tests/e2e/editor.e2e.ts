@@ -43,6 +43,19 @@ describe('editor', () => {
     rmSync(downloads, { recursive: true, force: true });
   });
 
+  it('the page under test is the production build users run (no React development runtime)', async () => {
+    const scripts = await page.evaluate(async () => {
+      const srcs = [...document.querySelectorAll<HTMLScriptElement>('script[type="module"][src]')].map((x) => x.src);
+      return Promise.all(srcs.map(async (src) => (await fetch(src)).text()));
+    });
+    expect(scripts.length).toBeGreaterThan(0);
+    for (const text of scripts) {
+      // React's development JSX runtime and DOM nesting checks are left out of a production bundle.
+      expect(text.includes('jsxDEV')).toBe(false);
+      expect(text.includes('cannot be a child of')).toBe(false);
+    }
+  });
+
   it('builds a loop from an empty diagram with mouse and keyboard; no findings; expected document', async () => {
     await page.getByRole('button', { name: 'New diagram' }).click();
     let d = await getDiagram(page);

@@ -32,7 +32,13 @@ let server: Server | undefined;
 export async function setup(project?: { provide?: (key: string, value: unknown) => void }): Promise<void> {
   if (!(process.env.LOOPWRIGHT_E2E_NO_BUILD === '1' && existsSync(join(DIST, 'index.html')))) {
     const vite = join(ROOT, 'node_modules', 'vite', 'bin', 'vite.js');
-    const r = spawnSync(process.execPath, [vite, 'build', '--logLevel', 'warn'], { cwd: ROOT, stdio: 'inherit' });
+    // NODE_ENV production: under vitest it is 'test', and a build that inherits it bundles React's
+    // development runtime (jsxDEV, the DOM checks) — not the editor users run.
+    const r = spawnSync(process.execPath, [vite, 'build', '--logLevel', 'warn'], {
+      cwd: ROOT,
+      stdio: 'inherit',
+      env: { ...process.env, NODE_ENV: 'production' },
+    });
     if (r.status !== 0) throw new Error('vite build failed');
   }
   server = createServer((req, res) => {

@@ -15,7 +15,13 @@ const require = createRequire(import.meta.url);
 if (!process.argv.includes('--no-build')) {
   const viteBin = join(require.resolve('vite/package.json', { paths: [root] }), '..', 'bin', 'vite.js');
   console.log('Building the editor (vite build)…');
-  const r = spawnSync(process.execPath, [viteBin, 'build', '--logLevel', 'warn'], { cwd: root, stdio: 'inherit' });
+  // Always the production build: a NODE_ENV left at 'development' or 'test' in the shell would
+  // bundle React's development runtime.
+  const r = spawnSync(process.execPath, [viteBin, 'build', '--logLevel', 'warn'], {
+    cwd: root,
+    stdio: 'inherit',
+    env: { ...process.env, NODE_ENV: 'production' },
+  });
   if (r.status !== 0) {
     console.error('vite build failed');
     process.exit(r.status ?? 1);
