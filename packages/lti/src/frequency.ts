@@ -163,7 +163,7 @@ export function frequencyEvaluator(tf: TransferFunction): FrequencyEvaluator {
     }
     return { re, im, mag, phaseDeg: phase };
   };
-  // atan2(-w*ar || 0, …): for ar = −0 the product is +0 for w > 0, giving +180° past the pole.
+  // atan2(-w*ar || 0, …) (here and in evalAt): for ar = −0 the product is +0 for w > 0, giving +180° past the pole.
   const phaseGuide = (w: number): number => {
     let rad = 0;
     for (let i = 0; i < nfz; i++) rad += roughAtan2(-w * fz[i].ar || 0, 1 - w * fz[i].br);

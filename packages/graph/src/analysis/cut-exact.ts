@@ -77,6 +77,8 @@ export function exactEvaluator(g: SignalGraph): ExactEvaluator {
   // Chain coefficients: y_v = c_v · y_root(v) (c = 1 on kept nodes).
   const cre = new Float64Array(m).fill(1);
   const cim = new Float64Array(m);
+  // The output itself kept, or read through its chain's coefficient.
+  const outChained = plan.outRoot >= 0 && plan.kept[plan.outRoot] !== out;
   const evaluate = (w: number): Complex => {
     if (!(w >= 0) || !Number.isFinite(w)) throw new InputError(`frequency ${w} rad/s: must be finite and ≥ 0`, { field: 'omega' });
     if (plan.outRoot < 0) return cx(0);
@@ -133,8 +135,7 @@ export function exactEvaluator(g: SignalGraph): ExactEvaluator {
       bim[r] = 0;
     }
     const y = solveFor(Are, Aim, bre, bim, nk, plan.outRoot, w);
-    const c = plan.kept[plan.outRoot] === out ? null : out;
-    const v = c === null ? y : cx(y.re * cre[c] - y.im * cim[c], y.re * cim[c] + y.im * cre[c]);
+    const v = outChained ? cx(y.re * cre[out] - y.im * cim[out], y.re * cim[out] + y.im * cre[out]) : y;
     // A chain's product may overflow where pivoting over every node would not (gains near 1e308):
     // then the whole system is solved.
     return Number.isFinite(v.re) && Number.isFinite(v.im) ? v : solveWhole(w);
